@@ -1,0 +1,218 @@
+//! One call from a scene to everything a site team needs: validate, solve, combine, check,
+//! prove equilibrium and summarise stability.
+
+use crate::check::{bearing_area, combine, PlateCombination, Status};
+use crate::combination::Combination;
+use crate::loads::Case;
+use crate::model::Scene;
+use crate::solve::{solve, Resultant, Solution, SolveError};
+use crate::stability::{stability, Stability};
+use crate::validate::{validate, Braced, Problem, ValidationError};
+
+/// Why a scene could not be analysed.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[non_exhaustive]
+pub enum AnalysisError {
+    /// The scene has problems; all of them are listed.
+    #[error("{0}")]
+    Invalid(ValidationError),
+    /// The scene is valid but the structure cannot carry its loads as modelled.
+    #[error("the structure cannot be solved: {0}")]
+    Unsolvable(SolveError),
+}
+
+/// One base plate's results.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct PlateResult {
+    /// Post (and base plate) id.
+    pub id: String,
+    /// Plan position, m.
+    pub x: f64,
+    /// Plan position, m.
+    pub y: f64,
+    /// Base plate level, m.
+    pub base_level: f64,
+    /// Support type id.
+    pub support: String,
+    /// Safe working load of the support, kN.
+    pub swl_kn: f64,
+    /// Bearing area at formation level, m².
+    pub bearing_area_m2: f64,
+    /// Allowable ground bearing pressure, kPa.
+    pub allowable_kpa: f64,
+    /// Vertical reaction per case (G, Q, W), kN, upwards positive.
+    pub case_kn: [f64; 3],
+    /// Horizontal reaction per case (G, Q, W), [x, y] kN.
+    pub case_shear_kn: [[f64; 2]; 3],
+    /// Results under each combination, in the scene's order.
+    pub combinations: Vec<PlateCombination>,
+    /// Index of the combination that governs the utilisation.
+    pub governing: usize,
+    /// Findings over all combinations.
+    pub status: Status,
+}
+
+impl PlateResult {
+    /// Results under the governing combination.
+    pub fn governing(&self) -> &PlateCombination {
+        &self.combinations[self.governing]
+    }
+}
+
+/// Equilibrium of one load case: applied loads against base reactions.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct CaseEquilibrium {
+    /// The case.
+    pub case: Case,
+    /// Resultant of the applied loads, from their definitions.
+    pub applied: Resultant,
+    /// Resultant of the base reactions.
+    pub reactions: Resultant,
+    /// |ΣF|, kN.
+    pub force_residual_kn: f64,
+    /// |ΣM| about the origin, kN·m.
+    pub moment_residual_knm: f64,
+    /// Largest of |ΣF| / F and |ΣM| / (F·L), with F the sum of applied force magnitudes and L the
+    /// size of the scene; 0 when there is no load.
+    pub relative: f64,
+}
+
+/// Everything found for a scene.
+#[derive(Debug, Clone)]
+pub struct Analysis {
+    /// Site name.
+    pub scene_name: String,
+    /// Combinations checked, in order.
+    pub combinations: Vec<Combination>,
+    /// The solver's per-item reactions and trace.
+    pub solution: Solution,
+    /// One result per base plate, in post order.
+    pub plates: Vec<PlateResult>,
+    /// Equilibrium proof per case (G, Q, W).
+    pub equilibrium: [CaseEquilibrium; 3],
+    /// Stability summary.
+    pub stability: Stability,
+    /// Braced plan directions.
+    pub braced: Braced,
+    /// Non-fatal findings.
+    pub warnings: Vec<Problem>,
+}
+
+impl Analysis {
+    /// Index of the plate with the highest governing utilisation.
+    pub fn worst_plate(&self) -> Option<usize> {
+        (0..self.plates.len()).max_by(|&a, &b| {
+            let (ua, ub) = (self.plates[a].governing().utilisation, self.plates[b].governing().utilisation);
+            ua.partial_cmp(&ub).unwrap_or(std::cmp::Ordering::Equal)
+        })
+    }
+    /// Plate index by id.
+    pub fn plate_index(&self, id: &str) -> Option<usize> {
+        self.plates.iter().position(|p| p.id == id)
+    }
+    /// Worst relative equilibrium residual over the cases.
+    pub fn worst_residual(&self) -> f64 {
+        self.equilibrium.iter().map(|e| e.relative).fold(0.0, f64::max)
+    }
+    /// Whether any plate is over capacity or lifts.
+    pub fn any_failure(&self) -> bool {
+        self.plates.iter().any(|p| !p.status.is_ok())
+    }
+    /// Total base shear per case, [x, y] kN.
+    pub fn base_shear(&self) -> [[f64; 2]; 3] {
+        let mut s = [[0.0; 2]; 3];
+        for p in &self.plates {
+            for c in 0..3 {
+                s[c][0] += p.case_shear_kn[c][0];
+                s[c][1] += p.case_shear_kn[c][1];
+            }
+        }
+        s
+    }
+}
+
+/// Validate, solve and check a scene.
+pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
+    let model = validate(scene).map_err(AnalysisError::Invalid)?;
+    let solution = solve(&model).map_err(AnalysisError::Unsolvable)?;
+    let per_plate = combine(scene, &solution, &model.post_support);
+    let case_kn = solution.case_vertical();
+    let case_shear = solution.case_shear();
+    let capacity_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_capacity).collect();
+    let plates = scene
+        .posts
+        .iter()
+        .zip(per_plate)
+        .enumerate()
+        .map(|(i, (post, combinations))| {
+            let support = &scene.support_types[model.post_support[i]];
+            let candidates: Vec<usize> = if capacity_combos.is_empty() { (0..combinations.len()).collect() } else { capacity_combos.clone() };
+            let governing = candidates
+                .iter()
+                .copied()
+                .max_by(|&a, &b| combinations[a].utilisation.partial_cmp(&combinations[b].utilisation).unwrap_or(std::cmp::Ordering::Equal))
+                .unwrap_or(0);
+            let status = combinations.iter().fold(Status::default(), |s, c| s.or(c.status));
+            PlateResult {
+                id: post.id.clone(),
+                x: post.x,
+                y: post.y,
+                base_level: post.base_level,
+                support: support.id.clone(),
+                swl_kn: support.swl_kn,
+                bearing_area_m2: bearing_area(scene, support),
+                allowable_kpa: scene.site.allowable_bearing_kpa,
+                case_kn: case_kn[i],
+                case_shear_kn: case_shear[i],
+                combinations,
+                governing,
+                status,
+            }
+        })
+        .collect();
+    let equilibrium = equilibrium(&solution);
+    let stability = stability(&solution, scene.stability.target_factor);
+    Ok(Analysis {
+        scene_name: scene.site.name.clone(),
+        combinations: scene.combinations.clone(),
+        solution,
+        plates,
+        equilibrium,
+        stability,
+        braced: model.braced,
+        warnings: model.warnings,
+    })
+}
+
+/// Sum applied loads and reactions per case; the two must cancel.
+pub fn equilibrium(solution: &Solution) -> [CaseEquilibrium; 3] {
+    let plates = &solution.plates;
+    let size = {
+        let mut lo = [f64::INFINITY; 3];
+        let mut hi = [f64::NEG_INFINITY; 3];
+        for p in plates {
+            for k in 0..3 {
+                lo[k] = lo[k].min(p[k]);
+                hi[k] = hi[k].max(p[k]);
+            }
+        }
+        let d = (0..3).map(|k| (hi[k] - lo[k]).max(0.0)).fold(0.0, f64::max);
+        d.max(1.0)
+    };
+    Case::ALL.map(|case| {
+        let mut applied = Resultant::default();
+        let mut reactions = Resultant::default();
+        let mut magnitude = 0.0;
+        for item in solution.items.iter().filter(|i| i.case == case) {
+            applied = applied.plus(&item.applied);
+            reactions = reactions.plus(&item.reaction_resultant(plates));
+            let f = item.applied.force;
+            magnitude += (f[0] * f[0] + f[1] * f[1] + f[2] * f[2]).sqrt();
+        }
+        let sum = applied.plus(&reactions);
+        let norm = |v: [f64; 3]| (v[0] * v[0] + v[1] * v[1] + v[2] * v[2]).sqrt();
+        let (fr, mr) = (norm(sum.force), norm(sum.moment));
+        let relative = if magnitude > 0.0 { (fr / magnitude).max(mr / (magnitude * size)) } else { 0.0 };
+        CaseEquilibrium { case, applied, reactions, force_residual_kn: fr, moment_residual_knm: mr, relative }
+    })
+}

@@ -1,0 +1,122 @@
+//! Load combinations: partial factors per case and what each combination is checked for.
+
+use serde::{Deserialize, Serialize};
+
+/// Partial factors applied to each load case.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Factors {
+    /// Permanent load where it increases the effect checked.
+    pub g_unfavourable: f64,
+    /// Permanent load where it reduces the effect checked.
+    pub g_favourable: f64,
+    /// Imposed load where unfavourable (taken as 0 where favourable).
+    pub q: f64,
+    /// Horizontal load where unfavourable (taken as 0 where favourable).
+    pub w: f64,
+}
+
+/// A combination of the load cases.
+///
+/// Permanent load is applied everywhere at once, with the unfavourable or favourable factor,
+/// whichever gives the larger (for the maximum) or smaller (for the minimum) base load. Each
+/// imposed and each horizontal load is taken independently, only where it makes the base load
+/// worse — so patterns of partial loading are covered without listing them.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Combination {
+    /// Name shown in outputs.
+    pub name: String,
+    /// Partial factors.
+    pub factors: Factors,
+    /// Whether the combined load is compared with the safe working load and allowable bearing
+    /// pressure (true for working-load capacities).
+    #[serde(default)]
+    pub checks_capacity: bool,
+    /// Whether a negative minimum base load is reported as uplift.
+    #[serde(default)]
+    pub checks_uplift: bool,
+    /// Where the factors come from.
+    #[serde(default)]
+    pub source: String,
+}
+
+impl Combination {
+    /// The default set: an unfactored service combination for working-load capacities, a
+    /// factored strength combination, and a stability combination with favourable permanent load.
+    pub fn defaults() -> Vec<Combination> {
+        vec![
+            Combination {
+                name: "service".into(),
+                // common practice, no source: safe working loads and presumed allowable bearing
+                // pressures are working (unfactored) values, compared with unfactored loads.
+                factors: Factors { g_unfavourable: 1.0, g_favourable: 1.0, q: 1.0, w: 1.0 },
+                checks_capacity: true,
+                checks_uplift: true,
+                source: "unfactored; working-load capacities (common practice)".into(),
+            },
+            Combination {
+                name: "factored".into(),
+                // source: EN 1990 Annex A1 Table A1.2(B), STR/GEO set B, recommended values
+                factors: Factors { g_unfavourable: 1.35, g_favourable: 1.0, q: 1.5, w: 1.5 },
+                checks_capacity: false,
+                checks_uplift: false,
+                source: "EN 1990 Table A1.2(B) recommended values; National Annex may differ".into(),
+            },
+            Combination {
+                name: "stability".into(),
+                // source: EN 1990 Annex A1 Table A1.2(A), EQU, recommended values
+                factors: Factors { g_unfavourable: 1.10, g_favourable: 0.90, q: 1.5, w: 1.5 },
+                checks_capacity: false,
+                checks_uplift: true,
+                source: "EN 1990 Table A1.2(A) EQU recommended values; National Annex may differ".into(),
+            },
+        ]
+    }
+
+    /// The factor on a variable case (Q or W).
+    pub fn variable_factor(&self, case: crate::Case) -> f64 {
+        match case {
+            crate::Case::G => self.factors.g_unfavourable,
+            crate::Case::Q => self.factors.q,
+            crate::Case::W => self.factors.w,
+        }
+    }
+}
+
+/// How the variable load items of a solution combine.
+///
+/// Vertical variable items are independent: each is present only where it makes things worse.
+/// Horizontal variable items in the same plan direction act together (wind and notional load
+/// from the same side), and the directions are alternatives: one direction at a time.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct VariableActions {
+    /// Item indices of independent vertical variable loads.
+    pub independent: Vec<usize>,
+    /// Item indices of horizontal variable loads, one group per plan direction.
+    pub by_direction: Vec<Vec<usize>>,
+}
+
+impl VariableActions {
+    /// Sort the variable (Q and W) items of a solution into independent ones and direction groups.
+    pub fn of(items: &[crate::solve::Item]) -> Self {
+        let mut out = VariableActions::default();
+        let mut keys: Vec<i64> = Vec::new();
+        for (i, item) in items.iter().enumerate() {
+            if item.case == crate::Case::G {
+                continue;
+            }
+            match item.direction_key() {
+                None => out.independent.push(i),
+                Some(k) => match keys.iter().position(|&x| x == k) {
+                    Some(g) => out.by_direction[g].push(i),
+                    None => {
+                        keys.push(k);
+                        out.by_direction.push(vec![i]);
+                    }
+                },
+            }
+        }
+        out
+    }
+}

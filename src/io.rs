@@ -1,0 +1,98 @@
+//! Scene files: reading RON with file:line:col errors, writing atomically.
+
+use std::fs;
+use std::io::Write;
+use std::path::{Path, PathBuf};
+
+use ron::extensions::Extensions;
+
+use crate::model::Scene;
+
+/// A scene file that could not be read.
+#[derive(Debug, thiserror::Error)]
+#[non_exhaustive]
+pub enum SceneFileError {
+    /// The file could not be read or written.
+    #[error("{path}: {source}")]
+    Io {
+        /// File path.
+        path: PathBuf,
+        /// What the system said.
+        source: std::io::Error,
+    },
+    /// The text is not a valid scene.
+    #[error("{origin}:{line}:{col}: {message}")]
+    Syntax {
+        /// File path or other name of the text.
+        origin: String,
+        /// Line, from 1.
+        line: usize,
+        /// Column, from 1.
+        col: usize,
+        /// What is wrong.
+        message: String,
+    },
+}
+
+fn options() -> ron::Options {
+    // Optional fields may be written without `Some(..)`.
+    ron::Options::default().with_default_extension(Extensions::IMPLICIT_SOME)
+}
+
+/// Parse scene text; `origin` names it in errors (a path, or e.g. `<demo>`).
+pub fn parse_scene(text: &str, origin: &str) -> Result<Scene, SceneFileError> {
+    options().from_str::<Scene>(text).map_err(|e| SceneFileError::Syntax {
+        origin: origin.to_owned(),
+        line: e.span.start.line,
+        col: e.span.start.col,
+        message: e.code.to_string(),
+    })
+}
+
+/// Read a scene file.
+pub fn read_scene(path: &Path) -> Result<Scene, SceneFileError> {
+    let text = fs::read_to_string(path).map_err(|source| SceneFileError::Io { path: path.to_owned(), source })?;
+    parse_scene(&text, &path.display().to_string())
+}
+
+/// The scene as RON text, the way scene files are written.
+pub fn scene_to_ron(scene: &Scene) -> String {
+    let config = ron::ser::PrettyConfig::new().indentor("  ").struct_names(false).extensions(Extensions::IMPLICIT_SOME);
+    options().to_string_pretty(scene, config).expect("a scene is always serialisable")
+}
+
+/// Write a file so that a crash or full disk part-way leaves the old file whole: the bytes go to
+/// a temporary file beside it, are flushed to disk, and only then replace the old one by rename.
+pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
+    write_atomic_with(path, bytes, |_| Ok(()))
+}
+
+/// [`write_atomic`] with a hook run after the temporary file is written and before the rename;
+/// tests use it to simulate a crash mid-save.
+pub fn write_atomic_with(path: &Path, bytes: &[u8], before_rename: impl FnOnce(&Path) -> std::io::Result<()>) -> std::io::Result<()> {
+    let dir = path.parent().filter(|p| !p.as_os_str().is_empty()).unwrap_or(Path::new("."));
+    let name = path.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_else(|| "scene".into());
+    let tmp = dir.join(format!(".{name}.tmp-{}", std::process::id()));
+    let result = (|| {
+        let mut f = fs::File::create(&tmp)?;
+        f.write_all(bytes)?;
+        f.sync_all()?;
+        drop(f);
+        before_rename(&tmp)?;
+        fs::rename(&tmp, path)?;
+        // Make the rename itself durable where the platform allows opening a directory.
+        if let Ok(d) = fs::File::open(dir) {
+            let _ = d.sync_all();
+        }
+        Ok(())
+    })();
+    if result.is_err() {
+        let _ = fs::remove_file(&tmp);
+    }
+    result
+}
+
+/// Save a scene atomically.
+pub fn save_scene(path: &Path, scene: &Scene) -> Result<(), SceneFileError> {
+    write_atomic(path, scene_to_ron(scene).as_bytes()).map_err(|source| SceneFileError::Io { path: path.to_owned(), source })
+}

@@ -1,0 +1,158 @@
+//! The machine-readable result: one JSON document whose shape is documented in the README
+//! ("JSON output") and versioned by `plateload_json`.
+
+use serde::Serialize;
+
+use crate::analysis::{Analysis, CaseEquilibrium};
+use crate::loads::Case;
+use crate::stability::Stability;
+
+/// Version of the JSON shape.
+pub const JSON_VERSION: u32 = 1;
+
+#[derive(Serialize)]
+struct PerCase<T> {
+    #[serde(rename = "G")]
+    g: T,
+    #[serde(rename = "Q")]
+    q: T,
+    #[serde(rename = "W")]
+    w: T,
+}
+
+impl<T: Copy> PerCase<T> {
+    fn of(v: [T; 3]) -> Self {
+        PerCase { g: v[0], q: v[1], w: v[2] }
+    }
+}
+
+#[derive(Serialize)]
+struct Doc<'a> {
+    plateload_json: u32,
+    caution: &'static str,
+    scene: &'a str,
+    units: Units,
+    combinations: &'a [crate::Combination],
+    bases: Vec<Base<'a>>,
+    totals: Totals,
+    equilibrium: Vec<Equilibrium>,
+    stability: &'a Stability,
+    warnings: Vec<String>,
+}
+
+#[derive(Serialize)]
+struct Units {
+    force: &'static str,
+    length: &'static str,
+    pressure: &'static str,
+    moment: &'static str,
+}
+
+#[derive(Serialize)]
+struct Base<'a> {
+    id: &'a str,
+    x: f64,
+    y: f64,
+    base_level: f64,
+    support: &'a str,
+    swl_kn: f64,
+    bearing_area_m2: f64,
+    allowable_kpa: f64,
+    cases_kn: PerCase<f64>,
+    shear_kn: PerCase<[f64; 2]>,
+    combinations: Vec<BaseCombination<'a>>,
+    utilisation: f64,
+    bearing_kpa: f64,
+    governing_combination: &'a str,
+    status: &'static str,
+}
+
+#[derive(Serialize)]
+struct BaseCombination<'a> {
+    name: &'a str,
+    max_kn: f64,
+    min_kn: f64,
+    load_utilisation: f64,
+    bearing_kpa: f64,
+    bearing_utilisation: f64,
+    utilisation: f64,
+    status: &'static str,
+}
+
+#[derive(Serialize)]
+struct Totals {
+    applied_kn: PerCase<f64>,
+    reactions_kn: PerCase<f64>,
+    base_shear_kn: PerCase<[f64; 2]>,
+}
+
+#[derive(Serialize)]
+struct Equilibrium {
+    case: Case,
+    force_residual_kn: f64,
+    moment_residual_knm: f64,
+    relative: f64,
+}
+
+impl From<&CaseEquilibrium> for Equilibrium {
+    fn from(e: &CaseEquilibrium) -> Self {
+        Equilibrium { case: e.case, force_residual_kn: e.force_residual_kn, moment_residual_knm: e.moment_residual_knm, relative: e.relative }
+    }
+}
+
+/// The analysis as a pretty-printed JSON document.
+pub fn analysis_json(a: &Analysis) -> String {
+    let bases = a
+        .plates
+        .iter()
+        .map(|p| Base {
+            id: &p.id,
+            x: p.x,
+            y: p.y,
+            base_level: p.base_level,
+            support: &p.support,
+            swl_kn: p.swl_kn,
+            bearing_area_m2: p.bearing_area_m2,
+            allowable_kpa: p.allowable_kpa,
+            cases_kn: PerCase::of(p.case_kn),
+            shear_kn: PerCase::of(p.case_shear_kn),
+            combinations: p
+                .combinations
+                .iter()
+                .zip(&a.combinations)
+                .map(|(c, comb)| BaseCombination {
+                    name: &comb.name,
+                    max_kn: c.max_kn,
+                    min_kn: c.min_kn,
+                    load_utilisation: c.load_utilisation,
+                    bearing_kpa: c.bearing_kpa,
+                    bearing_utilisation: c.bearing_utilisation,
+                    utilisation: c.utilisation,
+                    status: c.status.label(),
+                })
+                .collect(),
+            utilisation: p.governing().utilisation,
+            bearing_kpa: p.governing().bearing_kpa,
+            governing_combination: &a.combinations[p.governing].name,
+            status: p.status.label(),
+        })
+        .collect();
+    let doc = Doc {
+        plateload_json: JSON_VERSION,
+        caution: crate::CAUTION,
+        scene: &a.scene_name,
+        units: Units { force: "kN", length: "m", pressure: "kPa", moment: "kN.m" },
+        combinations: &a.combinations,
+        bases,
+        totals: Totals {
+            applied_kn: PerCase::of(a.equilibrium.map(|e| e.applied.down())),
+            reactions_kn: PerCase::of(a.equilibrium.map(|e| e.reactions.force[2])),
+            base_shear_kn: PerCase::of(a.base_shear()),
+        },
+        equilibrium: a.equilibrium.iter().map(Equilibrium::from).collect(),
+        stability: &a.stability,
+        warnings: a.warnings.iter().map(|w| w.to_string()).collect(),
+    };
+    // Non-finite numbers cannot occur in a valid analysis; serde_json writes them as null.
+    serde_json::to_string_pretty(&doc).expect("the document is plain data")
+}

@@ -1,0 +1,285 @@
+//! plateload command line: CLI definition and glue. The engine lives in the library; the editor
+//! in `app/` (feature `viewer`). No command except `edit` and `snapshot` starts the editor's engine.
+
+use std::fmt::Write as _;
+use std::path::{Path, PathBuf};
+use std::process::ExitCode;
+
+use anyhow::Context;
+use clap::{Parser, Subcommand};
+use plateload::{analyse, io, Analysis, AnalysisError, Scene, CAUTION};
+
+#[cfg(feature = "viewer")]
+mod app;
+
+/// Exit code when the scene cannot be read, is invalid or cannot be solved.
+const EXIT_INVALID: u8 = 1;
+/// Exit code of `--strict` when any base plate is over capacity or lifts.
+const EXIT_STRICT_FAILED: u8 = 3;
+
+#[derive(Parser)]
+#[command(name = "plateload", version, about = "Base-plate loads of scaffolds and falsework: solve a scene, check every support, write the schedule.", after_help = CAUTION)]
+struct Cli {
+    #[command(subcommand)]
+    command: Option<Command>,
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// Check a scene file and list every problem found, with element ids.
+    Validate {
+        /// Scene file (RON).
+        file: PathBuf,
+    },
+    /// Solve a scene: per-base loads, utilisation, equilibrium proof, stability and warnings.
+    Solve {
+        /// Scene file (RON).
+        file: PathBuf,
+        /// Print the result as JSON (shape documented in the README).
+        #[arg(long)]
+        json: bool,
+        /// Exit with code 3 if any base plate is over capacity or lifts.
+        #[arg(long)]
+        strict: bool,
+    },
+    /// Write the support-load schedule (CSV) for the ground-bearing check.
+    Schedule {
+        /// Scene file (RON).
+        file: PathBuf,
+        /// Output file; standard output if omitted. Written atomically.
+        #[arg(short, long)]
+        output: Option<PathBuf>,
+        /// Exit with code 3 if any base plate is over capacity or lifts.
+        #[arg(long)]
+        strict: bool,
+    },
+    /// Show where one base plate's load comes from, share by share.
+    Trace {
+        /// Scene file (RON).
+        file: PathBuf,
+        /// Id of the base plate (its post's id).
+        base: String,
+    },
+    /// Print a built-in demo scene as RON, or list them.
+    Demo {
+        /// Name of the demo (without .ron); omit to list them.
+        name: Option<String>,
+    },
+    /// Open the 3D editor on a scene file (the built-in demo if omitted).
+    Edit {
+        /// Scene file (RON). Created on first save if it does not exist.
+        file: Option<PathBuf>,
+    },
+}
+
+fn main() -> ExitCode {
+    match run() {
+        Ok(code) => code,
+        Err(err) => {
+            eprintln!("error: {err:#}");
+            ExitCode::from(EXIT_INVALID)
+        }
+    }
+}
+
+fn run() -> anyhow::Result<ExitCode> {
+    let cli = Cli::parse();
+    let Some(command) = cli.command else {
+        return edit(None);
+    };
+    match command {
+        Command::Validate { file } => validate(&file),
+        Command::Solve { file, json, strict } => {
+            let (_, analysis) = load_and_analyse(&file)?;
+            if json {
+                println!("{}", plateload::json::analysis_json(&analysis));
+            } else {
+                print!("{}", solve_text(&analysis));
+            }
+            Ok(strict_code(strict, &analysis))
+        }
+        Command::Schedule { file, output, strict } => {
+            let (_, analysis) = load_and_analyse(&file)?;
+            let csv = plateload::schedule::schedule_csv(&analysis);
+            match output {
+                Some(path) => {
+                    io::write_atomic(&path, csv.as_bytes()).with_context(|| format!("writing {}", path.display()))?;
+                    eprintln!("wrote the schedule of {} base plates to {}", analysis.plates.len(), path.display());
+                    eprintln!("{CAUTION}");
+                }
+                None => print!("{csv}"),
+            }
+            Ok(strict_code(strict, &analysis))
+        }
+        Command::Trace { file, base } => {
+            let (scene, analysis) = load_and_analyse(&file)?;
+            let Some(plate) = analysis.plate_index(&base) else {
+                let known: Vec<&str> = analysis.plates.iter().take(12).map(|p| p.id.as_str()).collect();
+                anyhow::bail!("no base plate \"{base}\" in {} (some ids: {})", file.display(), known.join(", "));
+            };
+            println!("{CAUTION}\n");
+            print!("{}", plateload::trace::trace_text(&scene, &analysis, plate));
+            Ok(ExitCode::SUCCESS)
+        }
+        Command::Demo { name } => {
+            let demos = plateload::demo::DEMO_SCENES;
+            match name {
+                None => {
+                    for (file, _) in demos {
+                        println!("{}", file.trim_end_matches(".ron"));
+                    }
+                }
+                Some(name) => {
+                    let Some((_, text)) = demos.iter().find(|(f, _)| f.trim_end_matches(".ron") == name) else {
+                        anyhow::bail!("no demo called \"{name}\"; `plateload demo` lists them");
+                    };
+                    print!("{text}");
+                }
+            }
+            Ok(ExitCode::SUCCESS)
+        }
+        Command::Edit { file } => edit(file),
+    }
+}
+
+fn strict_code(strict: bool, analysis: &Analysis) -> ExitCode {
+    if strict && analysis.any_failure() {
+        let bad = analysis.plates.iter().filter(|p| !p.status.is_ok()).count();
+        eprintln!("strict check failed: {bad} base plate(s) over capacity or lifting");
+        ExitCode::from(EXIT_STRICT_FAILED)
+    } else {
+        ExitCode::SUCCESS
+    }
+}
+
+fn read(file: &Path) -> anyhow::Result<Scene> {
+    Ok(io::read_scene(file)?)
+}
+
+fn load_and_analyse(file: &Path) -> anyhow::Result<(Scene, Analysis)> {
+    let scene = read(file)?;
+    let analysis = analyse(&scene).map_err(|e| match e {
+        AnalysisError::Invalid(v) => anyhow::anyhow!("{}: {v}", file.display()),
+        other => anyhow::anyhow!("{}: {other}", file.display()),
+    })?;
+    Ok((scene, analysis))
+}
+
+fn validate(file: &Path) -> anyhow::Result<ExitCode> {
+    let scene = read(file)?;
+    match plateload::validate(&scene) {
+        Err(v) => {
+            eprintln!("{}: {v}", file.display());
+            Ok(ExitCode::from(EXIT_INVALID))
+        }
+        Ok(model) => {
+            println!(
+                "{}: valid — {} posts, {} bearers, {} decks, {} braces, {} loads, {} combinations",
+                file.display(),
+                scene.posts.len(),
+                scene.bearers.len(),
+                scene.decks.len(),
+                scene.braces.len(),
+                scene.loads.len(),
+                scene.combinations.len()
+            );
+            for w in &model.warnings {
+                println!("warning: {w}");
+            }
+            Ok(ExitCode::SUCCESS)
+        }
+    }
+}
+
+/// The human-readable result of `solve`.
+fn solve_text(a: &Analysis) -> String {
+    let mut s = String::new();
+    let _ = writeln!(s, "{}\n{CAUTION}\n", a.scene_name);
+    let _ = write!(s, "{:<10} {:>8} {:>8} {:>9} {:>9} {:>9}", "base", "x m", "y m", "G kN", "Q kN", "W kN");
+    for c in &a.combinations {
+        let _ = write!(s, " {:>21}", format!("{} max/min kN", c.name));
+    }
+    let _ = writeln!(s, " {:>7} {:>9} {:>12}  status", "util %", "kPa", "governs");
+    for p in &a.plates {
+        let _ = write!(s, "{:<10} {:>8.3} {:>8.3} {:>9.3} {:>9.3} {:>9.3}", p.id, p.x, p.y, p.case_kn[0], p.case_kn[1], p.case_kn[2]);
+        for c in &p.combinations {
+            let _ = write!(s, " {:>10.3}/{:<10.3}", c.max_kn, c.min_kn);
+        }
+        let g = p.governing();
+        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {}", 100.0 * g.utilisation, g.bearing_kpa, a.combinations[p.governing].name, p.status);
+    }
+    if let Some(w) = a.worst_plate() {
+        let p = &a.plates[w];
+        let g = p.governing();
+        let by = if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" };
+        let _ = writeln!(s, "\nworst base: {} at {:.1}% ({by}, {})", p.id, 100.0 * g.utilisation, a.combinations[p.governing].name);
+    }
+    let over = a.plates.iter().filter(|p| p.status.over).count();
+    let uplift = a.plates.iter().filter(|p| p.status.uplift).count();
+    let _ = writeln!(s, "over capacity: {over}   lifting: {uplift}   of {} base plates", a.plates.len());
+    let _ = writeln!(s, "\nequilibrium (applied loads against base reactions):");
+    for e in &a.equilibrium {
+        let _ = writeln!(
+            s,
+            "  {}: applied {:>10.3} kN down, reactions {:>10.3} kN up, |ΣF| {:.1e} kN, |ΣM| {:.1e} kN·m, relative {:.1e}",
+            e.case,
+            e.applied.down(),
+            e.reactions.force[2],
+            e.force_residual_kn,
+            e.moment_residual_knm,
+            e.relative
+        );
+    }
+    let shear = a.base_shear();
+    let _ = writeln!(s, "base shear: G ({:.3}, {:.3}) kN, Q ({:.3}, {:.3}) kN, W ({:.3}, {:.3}) kN", shear[0][0], shear[0][1], shear[1][0], shear[1][1], shear[2][0], shear[2][1]);
+    let st = &a.stability;
+    let _ = write!(s, "\nstability: permanent load {:.3} kN", st.permanent_kn);
+    if let Some((x, y)) = st.centre_of_gravity {
+        let _ = write!(s, ", centre of gravity ({x:.3}, {y:.3})");
+    }
+    let _ = writeln!(s, ", target factor {:.2}", st.target_factor);
+    for d in &st.directions {
+        match d.factor {
+            None => {
+                let _ = writeln!(s, "  tipping {}: nothing overturns", d.direction);
+            }
+            Some(f) => {
+                let k = match d.kentledge_kn {
+                    Some(k) if k > 0.0 => format!("needs {k:.2} kN kentledge over the opposite edge"),
+                    Some(_) => "meets the target".into(),
+                    None => "no base width to add kentledge on".into(),
+                };
+                let _ = writeln!(
+                    s,
+                    "  tipping {} about edge {:.3} m: restoring {:.3} kN·m / overturning {:.3} kN·m = {:.2}; {k}",
+                    d.direction, d.edge_m, d.restoring_knm, d.overturning_knm, f
+                );
+            }
+        }
+    }
+    if !a.warnings.is_empty() {
+        let _ = writeln!(s, "\nwarnings:");
+        for w in &a.warnings {
+            let _ = writeln!(s, "  - {w}");
+        }
+    }
+    s
+}
+
+#[cfg(feature = "viewer")]
+fn edit(file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
+    let scene = match &file {
+        Some(path) if path.exists() => read(path)?,
+        Some(_) => plateload::demo::default_scene(),
+        None => plateload::demo::default_scene(),
+    };
+    app::run(scene, file);
+    Ok(ExitCode::SUCCESS)
+}
+
+#[cfg(not(feature = "viewer"))]
+fn edit(_file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
+    use clap::CommandFactory;
+    Cli::command().print_help()?;
+    anyhow::bail!("this build has no editor (it was built without the `viewer` feature); the other commands all work")
+}

@@ -1,0 +1,372 @@
+//! The scene: what a planner lays out and loads. Plain data, serialised to RON.
+//!
+//! Units throughout: metres (m), kilonewtons (kN), kilopascals (kPa = kN/m²). Plan coordinates are
+//! `x`, `y`; levels are `z`, measured upwards. Every element has a text id that the other elements
+//! refer to; the engine resolves ids to indices once, in [`crate::validate`].
+
+use serde::{Deserialize, Serialize};
+
+use crate::loads::Load;
+use crate::combination::Combination;
+
+/// Schema version written into every scene file.
+pub const FORMAT_VERSION: u32 = 1;
+
+/// Self-weight of a 48.3 × 4.0 mm steel tube, kN/m (4.37 kg/m).
+// source: EN 39:2001 cl. 7.6.3 (type 4 tube mass per metre)
+pub const STEEL_TUBE_KN_PER_M: f64 = 0.0429;
+
+/// A whole working platform: site, supports, members, loads and the combinations to check.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Scene {
+    /// Schema version of the file; see [`FORMAT_VERSION`].
+    #[serde(default = "format_version")]
+    pub format: u32,
+    /// Site name and ground data.
+    pub site: Site,
+    /// Kinds of base support (base plate + jack, optional sole plate).
+    #[serde(default)]
+    pub support_types: Vec<SupportType>,
+    /// Standards (posts), each on one base plate.
+    #[serde(default)]
+    pub posts: Vec<Post>,
+    /// Horizontal members resting on posts: bearers, ledgers, transoms.
+    #[serde(default)]
+    pub bearers: Vec<Bearer>,
+    /// Decks spanning across bearers.
+    #[serde(default)]
+    pub decks: Vec<Deck>,
+    /// Braces between post nodes; they declare which plan directions are braced.
+    #[serde(default)]
+    pub braces: Vec<Brace>,
+    /// Applied loads, each tagged with a load case.
+    #[serde(default)]
+    pub loads: Vec<Load>,
+    /// Load combinations to check. When omitted, [`Combination::defaults`] apply.
+    #[serde(default = "Combination::defaults")]
+    pub combinations: Vec<Combination>,
+    /// Settings of the overturning check.
+    #[serde(default)]
+    pub stability: StabilitySettings,
+}
+
+fn format_version() -> u32 {
+    FORMAT_VERSION
+}
+
+/// Site name and ground data.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Site {
+    /// Name shown in every output.
+    pub name: String,
+    /// Allowable ground bearing pressure at formation level, kPa.
+    pub allowable_bearing_kpa: f64,
+    /// Optional granular layer between the sole plates and the ground.
+    #[serde(default)]
+    pub granular_layer: Option<GranularLayer>,
+}
+
+/// A compacted granular layer that spreads each plate's load before it reaches the ground.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct GranularLayer {
+    /// Layer thickness, m.
+    pub thickness_m: f64,
+    /// How the load spreads through the layer.
+    #[serde(default)]
+    pub spread: LoadSpread,
+}
+
+/// Load spread through a granular layer, as horizontal spread per unit depth on each side.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize, Default)]
+pub enum LoadSpread {
+    /// 2 vertical : 1 horizontal — pressure at depth z under B × L is P / ((B + z)(L + z)).
+    /// The default: the more cautious of the two usual rules.
+    // source: 2V:1H approximate stress distribution, Das, Principles of Foundation Engineering;
+    // Bowles, Foundation Analysis and Design (via a secondary summary)
+    #[default]
+    TwoToOne,
+    /// 45° (1:1) — pressure P / ((B + 2z)(L + 2z)).
+    // common practice, no source
+    FortyFive,
+    /// Any spread angle from the vertical, degrees (0 ≤ angle < 90).
+    AngleDeg(f64),
+}
+
+impl LoadSpread {
+    /// Horizontal spread on each side per metre of depth.
+    pub fn spread_per_side(self) -> f64 {
+        match self {
+            LoadSpread::TwoToOne => 0.5,
+            LoadSpread::FortyFive => 1.0,
+            LoadSpread::AngleDeg(deg) => deg.to_radians().tan(),
+        }
+    }
+}
+
+/// A rectangular plate in plan, m.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct PlateSize {
+    /// Width, m.
+    pub width_m: f64,
+    /// Length, m.
+    pub length_m: f64,
+}
+
+impl PlateSize {
+    /// Plan area, m².
+    pub fn area(self) -> f64 {
+        self.width_m * self.length_m
+    }
+}
+
+/// A kind of base support: base plate (with jack) and optional sole plate or board.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct SupportType {
+    /// Id the posts refer to.
+    pub id: String,
+    /// Steel base plate size.
+    pub base_plate: PlateSize,
+    /// Safe working load of the base jack / plate, kN.
+    pub swl_kn: f64,
+    /// Timber sole plate or board under the base plate, if any. Bearing is taken on it.
+    #[serde(default)]
+    pub sole_plate: Option<PlateSize>,
+}
+
+impl SupportType {
+    /// The plate that bears on the ground (or on the granular layer): the sole plate if there
+    /// is one, otherwise the base plate.
+    pub fn bearing_plate(&self) -> PlateSize {
+        self.sole_plate.unwrap_or(self.base_plate)
+    }
+}
+
+/// A standard (post) standing on one base plate.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Post {
+    /// Id; also the id of its base plate in every output.
+    pub id: String,
+    /// Plan position, m.
+    pub x: f64,
+    /// Plan position, m.
+    pub y: f64,
+    /// Level of the base plate, m.
+    pub base_level: f64,
+    /// Level of the top of the post, m.
+    pub top_level: f64,
+    /// Id of its support type.
+    #[serde(default)]
+    pub support: Option<String>,
+    /// Self-weight, kN/m. Default: 48.3 × 4.0 steel tube.
+    #[serde(default = "steel_tube")]
+    pub self_weight_kn_per_m: f64,
+}
+
+/// What a horizontal member does; it changes only how it is drawn and listed.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+pub enum BeamRole {
+    /// Primary beam carrying a deck or other beams.
+    #[default]
+    Bearer,
+    /// Longitudinal member along the face.
+    Ledger,
+    /// Cross member between the lines of posts.
+    Transom,
+}
+
+/// A horizontal member resting on two or more posts, in order along its length.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Bearer {
+    /// Id.
+    pub id: String,
+    /// Bearer, ledger or transom.
+    #[serde(default)]
+    pub role: BeamRole,
+    /// Level it sits at, m.
+    pub level: f64,
+    /// Ids of the posts it rests on, in order along its length (all on one straight line).
+    pub posts: Vec<String>,
+    /// Overhang beyond the first post, m.
+    #[serde(default)]
+    pub overhang_start_m: f64,
+    /// Overhang beyond the last post, m.
+    #[serde(default)]
+    pub overhang_end_m: f64,
+    /// Self-weight, kN/m. Default: 48.3 × 4.0 steel tube.
+    #[serde(default = "steel_tube")]
+    pub self_weight_kn_per_m: f64,
+}
+
+/// A deck spanning across parallel bearers.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Deck {
+    /// Id.
+    pub id: String,
+    /// Level of the deck surface, m.
+    pub level: f64,
+    /// Plan extent of the deck. Parts beyond the outer bearers are cantilevers.
+    pub extent: Rect,
+    /// Ids of the bearers it rests on, in order across the span (parallel to x or to y).
+    pub bearers: Vec<String>,
+    /// Self-weight of the decking, kPa.
+    pub self_weight_kpa: f64,
+}
+
+/// An axis-aligned rectangle in plan, m.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Rect {
+    /// (min, max) in x, m.
+    pub x: (f64, f64),
+    /// (min, max) in y, m.
+    pub y: (f64, f64),
+}
+
+impl Rect {
+    /// Plan area, m².
+    pub fn area(&self) -> f64 {
+        (self.x.1 - self.x.0) * (self.y.1 - self.y.0)
+    }
+    /// Centre point.
+    pub fn centre(&self) -> (f64, f64) {
+        (0.5 * (self.x.0 + self.x.1), 0.5 * (self.y.0 + self.y.1))
+    }
+    /// Whether `other` lies inside this rectangle, within `tol` metres.
+    pub fn contains_rect(&self, other: &Rect, tol: f64) -> bool {
+        other.x.0 >= self.x.0 - tol
+            && other.x.1 <= self.x.1 + tol
+            && other.y.0 >= self.y.0 - tol
+            && other.y.1 <= self.y.1 + tol
+    }
+    /// Whether the point lies inside, within `tol` metres.
+    pub fn contains(&self, x: f64, y: f64, tol: f64) -> bool {
+        x >= self.x.0 - tol && x <= self.x.1 + tol && y >= self.y.0 - tol && y <= self.y.1 + tol
+    }
+}
+
+/// A point on a post at a level: one end of a brace.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct PostNode {
+    /// Id of the post.
+    pub post: String,
+    /// Level on that post, m.
+    pub level: f64,
+}
+
+/// A brace between two post nodes. It carries no vertical load; it declares that the structure
+/// is braced in the plan direction(s) it runs in, so horizontal loads in those directions are
+/// taken down to the base plates.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Brace {
+    /// Id.
+    pub id: String,
+    /// One end.
+    pub from: PostNode,
+    /// The other end.
+    pub to: PostNode,
+}
+
+/// Settings of the overturning (stability) check.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct StabilitySettings {
+    /// Target factor of safety against overturning (restoring ÷ overturning moment).
+    #[serde(default = "default_target_factor")]
+    pub target_factor: f64,
+}
+
+/// Default target overturning factor.
+// common practice, no source: 1.5 is the usual permissible-stress factor against overturning
+// (from memory of UK falsework practice); local codes govern.
+pub const DEFAULT_TARGET_OVERTURNING_FACTOR: f64 = 1.5;
+
+fn default_target_factor() -> f64 {
+    DEFAULT_TARGET_OVERTURNING_FACTOR
+}
+
+impl Default for StabilitySettings {
+    fn default() -> Self {
+        Self { target_factor: DEFAULT_TARGET_OVERTURNING_FACTOR }
+    }
+}
+
+fn steel_tube() -> f64 {
+    STEEL_TUBE_KN_PER_M
+}
+
+impl Scene {
+    /// An empty scene on a site with the given name and allowable bearing pressure.
+    pub fn empty(name: &str, allowable_bearing_kpa: f64) -> Self {
+        Scene {
+            format: FORMAT_VERSION,
+            site: Site { name: name.to_owned(), allowable_bearing_kpa, granular_layer: None },
+            support_types: Vec::new(),
+            posts: Vec::new(),
+            bearers: Vec::new(),
+            decks: Vec::new(),
+            braces: Vec::new(),
+            loads: Vec::new(),
+            combinations: Combination::defaults(),
+            stability: StabilitySettings::default(),
+        }
+    }
+
+    /// Every element id in the scene with its kind, in file order.
+    pub fn element_ids(&self) -> impl Iterator<Item = (ElementKind, &str)> {
+        fn tag<'a>(kind: ElementKind, ids: impl Iterator<Item = &'a String>) -> impl Iterator<Item = (ElementKind, &'a str)> {
+            ids.map(move |id| (kind, id.as_str()))
+        }
+        tag(ElementKind::SupportType, self.support_types.iter().map(|e| &e.id))
+            .chain(tag(ElementKind::Post, self.posts.iter().map(|e| &e.id)))
+            .chain(tag(ElementKind::Bearer, self.bearers.iter().map(|e| &e.id)))
+            .chain(tag(ElementKind::Deck, self.decks.iter().map(|e| &e.id)))
+            .chain(tag(ElementKind::Brace, self.braces.iter().map(|e| &e.id)))
+            .chain(tag(ElementKind::Load, self.loads.iter().map(|e| &e.id)))
+    }
+}
+
+/// The kinds of element a scene holds.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
+pub enum ElementKind {
+    /// A [`SupportType`].
+    SupportType,
+    /// A [`Post`].
+    Post,
+    /// A [`Bearer`].
+    Bearer,
+    /// A [`Deck`].
+    Deck,
+    /// A [`Brace`].
+    Brace,
+    /// A [`Load`].
+    Load,
+    /// A [`Combination`].
+    Combination,
+    /// The site.
+    Site,
+}
+
+impl std::fmt::Display for ElementKind {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(match self {
+            ElementKind::SupportType => "support type",
+            ElementKind::Post => "post",
+            ElementKind::Bearer => "bearer",
+            ElementKind::Deck => "deck",
+            ElementKind::Brace => "brace",
+            ElementKind::Load => "load",
+            ElementKind::Combination => "combination",
+            ElementKind::Site => "site",
+        })
+    }
+}

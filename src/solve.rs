@@ -1,0 +1,600 @@
+//! Carrying every load down to the base plates, one load at a time, keeping the trace.
+//!
+//! Each load of the scene (and the self-weight of everything, as one more permanent load) is an
+//! *item*. Vertical items go deck strip → bearer segment → post → base plate by segment moment
+//! balance ([`crate::beam`]); horizontal items go to the plates through the rigid braced base
+//! ([`crate::rigid_base`]). Each item's plate reactions are kept separately, so combinations can
+//! take each variable load only where it is unfavourable, and every reaction can be traced back.
+
+use crate::beam::{share_simple, BeamLoad, Piece};
+use crate::loads::{Case, LoadKind};
+use crate::rigid_base::{share_horizontal, HorizontalForce, RigidBaseError};
+use crate::validate::{Model, Target};
+
+/// Force (kN) and moment about the origin (kN·m) of a set of forces.
+#[derive(Debug, Clone, Copy, PartialEq, Default, serde::Serialize)]
+pub struct Resultant {
+    /// Force (x, y, z), kN; z up.
+    pub force: [f64; 3],
+    /// Moment about the origin (x, y, z), kN·m.
+    pub moment: [f64; 3],
+}
+
+impl Resultant {
+    /// Add a force `f` acting at `r`.
+    pub fn add(&mut self, r: [f64; 3], f: [f64; 3]) {
+        for k in 0..3 {
+            self.force[k] += f[k];
+        }
+        self.moment[0] += r[1] * f[2] - r[2] * f[1];
+        self.moment[1] += r[2] * f[0] - r[0] * f[2];
+        self.moment[2] += r[0] * f[1] - r[1] * f[0];
+    }
+    /// Add a downward load `p` (kN) at plan point (x, y).
+    pub fn add_down(&mut self, x: f64, y: f64, p: f64) {
+        self.add([x, y, 0.0], [0.0, 0.0, -p]);
+    }
+    /// Sum of two resultants.
+    pub fn plus(mut self, o: &Resultant) -> Resultant {
+        for k in 0..3 {
+            self.force[k] += o.force[k];
+            self.moment[k] += o.moment[k];
+        }
+        self
+    }
+    /// Moment about point `p`, kN·m.
+    pub fn moment_about(&self, p: [f64; 3]) -> [f64; 3] {
+        let f = self.force;
+        [
+            self.moment[0] - (p[1] * f[2] - p[2] * f[1]),
+            self.moment[1] - (p[2] * f[0] - p[0] * f[2]),
+            self.moment[2] - (p[0] * f[1] - p[1] * f[0]),
+        ]
+    }
+    /// Total downward force, kN.
+    pub fn down(&self) -> f64 {
+        -self.force[2]
+    }
+}
+
+/// Which route a reaction came by.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
+pub enum Route {
+    /// Through a piece of a bearer onto the post.
+    Bearer {
+        /// Bearer index.
+        bearer: u32,
+        /// Which piece of it.
+        piece: Piece,
+    },
+    /// The post's own weight.
+    PostSelfWeight,
+    /// A load straight onto the post top.
+    PostTop,
+    /// The overturning couple of a horizontal load on the rigid braced base.
+    Overturning,
+}
+
+/// One reaction share at one base plate: the trace behind every number.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct Contribution {
+    /// Base plate (post) index.
+    pub plate: u32,
+    /// Item index.
+    pub item: u32,
+    /// Route it came by.
+    pub route: Route,
+    /// Upward reaction, kN.
+    pub kn: f64,
+}
+
+/// One load item and what it does at the base.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct Item {
+    /// Load id, or `self-weight`.
+    pub id: String,
+    /// Load case.
+    pub case: Case,
+    /// Resultant of the applied load, from its own definition.
+    pub applied: Resultant,
+    /// Upward vertical reaction at each plate it reaches: (plate, kN), one entry per plate.
+    pub vertical: Vec<(u32, f64)>,
+    /// Horizontal reaction at each plate it reaches: (plate, [x, y] kN).
+    pub shear: Vec<(u32, [f64; 2])>,
+    /// Plan direction (unit x, y) of a horizontal load; `None` for vertical loads.
+    pub direction: Option<[f64; 2]>,
+    /// For a notional load whose basis includes variable loads: the vertical reactions of the
+    /// part due to permanent load alone. Where uplift is sought the variable load is absent, and
+    /// so is the notional load it would cause.
+    pub vertical_permanent_basis: Option<Vec<(u32, f64)>>,
+}
+
+impl Item {
+    /// Horizontal loads in the same plan direction act together; loads in different directions
+    /// are alternatives. This key (direction in hundredths of a degree) tells them apart.
+    pub fn direction_key(&self) -> Option<i64> {
+        self.direction.map(|[x, y]| {
+            let deg = y.atan2(x).to_degrees().rem_euclid(360.0);
+            ((deg * 100.0).round() as i64) % 36_000
+        })
+    }
+
+    /// Resultant of the item's plate reactions.
+    pub fn reaction_resultant(&self, plates: &[[f64; 3]]) -> Resultant {
+        let mut r = Resultant::default();
+        for &(p, v) in &self.vertical {
+            r.add(plates[p as usize], [0.0, 0.0, v]);
+        }
+        for &(p, [sx, sy]) in &self.shear {
+            r.add(plates[p as usize], [sx, sy, 0.0]);
+        }
+        r
+    }
+}
+
+/// Id of the item that holds the self-weight of every element.
+pub const SELF_WEIGHT_ID: &str = "self-weight";
+
+/// Why a valid scene could not be solved.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[non_exhaustive]
+pub enum SolveError {
+    /// A single-post bearer whose loads do not balance about the post.
+    #[error("bearer {bearer} rests on a single post and tips under load {load}: {moment_knm:.3} kN·m about the post is not balanced; give it a second post or balance it")]
+    TeeHeadTips {
+        /// Bearer id.
+        bearer: String,
+        /// Load id.
+        load: String,
+        /// Unbalanced moment, kN·m.
+        moment_knm: f64,
+    },
+    /// The base cannot take a horizontal load.
+    #[error("horizontal load {load} cannot be taken to the ground: {reason}")]
+    Horizontal {
+        /// Load id.
+        load: String,
+        /// Why.
+        reason: RigidBaseError,
+    },
+}
+
+/// Everything the solver found, before any combination is applied.
+#[derive(Debug, Clone)]
+pub struct Solution {
+    /// Base plate positions (x, y, base level), in post order.
+    pub plates: Vec<[f64; 3]>,
+    /// Every load item: self-weight first, then the scene's loads in order.
+    pub items: Vec<Item>,
+    /// Every reaction share, for tracing.
+    pub contributions: Vec<Contribution>,
+}
+
+impl Solution {
+    /// Vertical reaction of each plate in each case, kN: `[plate][case]`.
+    pub fn case_vertical(&self) -> Vec<[f64; 3]> {
+        let mut out = vec![[0.0; 3]; self.plates.len()];
+        for item in &self.items {
+            for &(p, v) in &item.vertical {
+                out[p as usize][item.case.index()] += v;
+            }
+        }
+        out
+    }
+    /// Horizontal reaction of each plate in each case, kN: `[plate][case][x|y]`.
+    pub fn case_shear(&self) -> Vec<[[f64; 2]; 3]> {
+        let mut out = vec![[[0.0; 2]; 3]; self.plates.len()];
+        for item in &self.items {
+            for &(p, [sx, sy]) in &item.shear {
+                let s = &mut out[p as usize][item.case.index()];
+                s[0] += sx;
+                s[1] += sy;
+            }
+        }
+        out
+    }
+}
+
+/// Dense per-plate accumulator that remembers which plates it touched.
+struct Sparse {
+    values: Vec<f64>,
+    touched: Vec<u32>,
+    seen: Vec<bool>,
+}
+
+impl Sparse {
+    fn new(n: usize) -> Self {
+        Sparse { values: vec![0.0; n], touched: Vec::new(), seen: vec![false; n] }
+    }
+    fn add(&mut self, i: usize, v: f64) {
+        if !self.seen[i] {
+            self.seen[i] = true;
+            self.touched.push(i as u32);
+        }
+        self.values[i] += v;
+    }
+    fn take(&mut self) -> Vec<(u32, f64)> {
+        self.touched.sort_unstable();
+        let out = self.touched.iter().map(|&i| (i, self.values[i as usize])).collect();
+        for &i in &self.touched {
+            self.values[i as usize] = 0.0;
+            self.seen[i as usize] = false;
+        }
+        self.touched.clear();
+        out
+    }
+}
+
+/// Vertical load entering each post at a level: what the notional horizontal load is made of.
+struct Nodes {
+    /// (post, level) of each node.
+    at: Vec<(usize, f64)>,
+    /// First node index of each bearer (its supports in order).
+    bearer_first: Vec<usize>,
+    /// First node of the post tops; post self-weight nodes follow.
+    post_top_first: usize,
+    /// Vertical load per node per case, kN (downwards positive).
+    load: Vec<[f64; 3]>,
+}
+
+impl Nodes {
+    fn new(model: &Model) -> Self {
+        let scene = model.scene;
+        let mut at = Vec::new();
+        let mut bearer_first = Vec::with_capacity(model.bearers.len());
+        for (b, line) in model.bearers.iter().enumerate() {
+            bearer_first.push(at.len());
+            at.extend(line.posts.iter().map(|&p| (p, scene.bearers[b].level)));
+        }
+        let post_top_first = at.len();
+        at.extend(scene.posts.iter().enumerate().map(|(i, p)| (i, p.top_level)));
+        at.extend(scene.posts.iter().enumerate().map(|(i, p)| (i, 0.5 * (p.base_level + p.top_level))));
+        let load = vec![[0.0; 3]; at.len()];
+        Nodes { at, bearer_first, post_top_first, load }
+    }
+}
+
+/// Work buffers reused from item to item.
+struct Solver<'m, 's> {
+    model: &'m Model<'s>,
+    plates: Sparse,
+    /// Loads gathered on each bearer for the current item.
+    bearer_loads: Vec<Vec<BeamLoad>>,
+    bearers_touched: Vec<usize>,
+    /// Reaction per (piece, support side) of the bearer being shared.
+    piece_sums: Vec<[f64; 2]>,
+    nodes: Nodes,
+    contributions: Vec<Contribution>,
+}
+
+/// Carry every load of a validated scene down to the base plates.
+pub fn solve(model: &Model) -> Result<Solution, SolveError> {
+    let scene = model.scene;
+    let plates: Vec<[f64; 3]> = scene.posts.iter().map(|p| [p.x, p.y, p.base_level]).collect();
+    let mut s = Solver {
+        model,
+        plates: Sparse::new(plates.len()),
+        bearer_loads: vec![Vec::new(); model.bearers.len()],
+        bearers_touched: Vec::new(),
+        piece_sums: Vec::new(),
+        nodes: Nodes::new(model),
+        contributions: Vec::new(),
+    };
+    // Slot 0: self-weight; slot k + 1: the scene's load k.
+    let mut items: Vec<Option<Item>> = vec![None; scene.loads.len() + 1];
+
+    // Self-weight of every element: one permanent item.
+    {
+        let mut applied = Resultant::default();
+        for (d, deck) in scene.decks.iter().enumerate() {
+            let (cx, cy) = deck.extent.centre();
+            applied.add_down(cx, cy, deck.self_weight_kpa * deck.extent.area());
+            s.deck_area(d, &deck.extent, deck.self_weight_kpa);
+        }
+        for (b, line) in model.bearers.iter().enumerate() {
+            let w = scene.bearers[b].self_weight_kn_per_m;
+            let (x, y) = line.point_at(0.5 * (line.start + line.end));
+            applied.add_down(x, y, w * (line.end - line.start));
+            s.push_bearer(b, BeamLoad::Uniform { from: line.start, to: line.end, w });
+        }
+        let item = 0;
+        s.share_bearers(item, Case::G, None)?;
+        for (i, p) in scene.posts.iter().enumerate() {
+            let wt = p.self_weight_kn_per_m * (p.top_level - p.base_level);
+            applied.add_down(p.x, p.y, wt);
+            s.post_direct(item, i, wt, Route::PostSelfWeight, Case::G);
+        }
+        items[0] = Some(Item { id: SELF_WEIGHT_ID.into(), case: Case::G, applied, vertical: s.plates.take(), shear: Vec::new(), direction: None, vertical_permanent_basis: None });
+    }
+
+    // Vertical loads, one item each.
+    for (k, load) in scene.loads.iter().enumerate() {
+        if load.kind.is_horizontal() {
+            continue;
+        }
+        let item = (k + 1) as u32;
+        let mut applied = Resultant::default();
+        match (&load.kind, model.load_targets[k]) {
+            (LoadKind::DeckArea { intensity, .. }, Target::Deck(d)) => {
+                let q = intensity.kpa().unwrap_or(0.0);
+                let e = &scene.decks[d].extent;
+                let (cx, cy) = e.centre();
+                applied.add_down(cx, cy, q * e.area());
+                s.deck_area(d, e, q);
+            }
+            (LoadKind::DeckPatch { area, intensity, .. }, Target::Deck(d)) => {
+                let q = intensity.kpa().unwrap_or(0.0);
+                let (cx, cy) = area.centre();
+                applied.add_down(cx, cy, q * area.area());
+                s.deck_area(d, area, q);
+            }
+            (LoadKind::DeckPoint { x, y, kn, .. }, Target::Deck(d)) => {
+                applied.add_down(*x, *y, *kn);
+                s.deck_point(d, *x, *y, *kn);
+            }
+            (LoadKind::BearerPoint { at_m, kn, .. }, Target::Bearer(b)) => {
+                let (x, y) = model.bearers[b].point_at(*at_m);
+                applied.add_down(x, y, *kn);
+                s.push_bearer(b, BeamLoad::Point { at: *at_m, p: *kn });
+            }
+            (LoadKind::BearerLine { from_m, to_m, kn_per_m, .. }, Target::Bearer(b)) => {
+                let (x, y) = model.bearers[b].point_at(0.5 * (from_m + to_m));
+                applied.add_down(x, y, kn_per_m * (to_m - from_m));
+                s.push_bearer(b, BeamLoad::Uniform { from: *from_m, to: *to_m, w: *kn_per_m });
+            }
+            (LoadKind::PostTop { kn, .. }, Target::Post(p)) => {
+                let post = &scene.posts[p];
+                applied.add_down(post.x, post.y, *kn);
+            }
+            _ => unreachable!("validation resolves every vertical load to its element"),
+        }
+        s.share_bearers(item, load.case, Some(&load.id))?;
+        if let (LoadKind::PostTop { kn, .. }, Target::Post(p)) = (&load.kind, model.load_targets[k]) {
+            s.post_direct(item, p, *kn, Route::PostTop, load.case);
+        }
+        items[k + 1] = Some(Item { id: load.id.clone(), case: load.case, applied, vertical: s.plates.take(), shear: Vec::new(), direction: None, vertical_permanent_basis: None });
+    }
+
+    // Horizontal loads, after the vertical ones: a notional load is a share of them.
+    for (k, load) in scene.loads.iter().enumerate() {
+        if !load.kind.is_horizontal() {
+            continue;
+        }
+        let item = (k + 1) as u32;
+        let forces = s.horizontal_forces(&load.kind, None);
+        let mut applied = Resultant::default();
+        for h in &forces {
+            applied.add(h.at, [h.force[0], h.force[1], 0.0]);
+        }
+        let share_of = |forces: &[HorizontalForce]| {
+            if forces.is_empty() {
+                Ok(crate::rigid_base::HorizontalShare { vertical: vec![0.0; plates.len()], shear: vec![[0.0; 2]; plates.len()] })
+            } else {
+                share_horizontal(&plates, forces).map_err(|reason| SolveError::Horizontal { load: load.id.clone(), reason })
+            }
+        };
+        let share = share_of(&forces)?;
+        let vertical_permanent_basis = match &load.kind {
+            LoadKind::Notional { basis, .. } if basis.iter().any(|c| *c != Case::G) => {
+                let permanent = s.horizontal_forces(&load.kind, Some(&[Case::G]));
+                let part = share_of(&permanent)?;
+                Some(part.vertical.iter().enumerate().map(|(p, &v)| (p as u32, v)).collect())
+            }
+            _ => None,
+        };
+        let mut vertical = Vec::with_capacity(plates.len());
+        for (p, &v) in share.vertical.iter().enumerate() {
+            vertical.push((p as u32, v));
+            s.contributions.push(Contribution { plate: p as u32, item, route: Route::Overturning, kn: v });
+        }
+        let shear = share.shear.iter().enumerate().map(|(p, &v)| (p as u32, v)).collect();
+        let direction = horizontal_direction(&load.kind);
+        items[k + 1] = Some(Item { id: load.id.clone(), case: load.case, applied, vertical, shear, direction, vertical_permanent_basis });
+    }
+    let items = items.into_iter().map(|i| i.expect("every load is solved once")).collect();
+    Ok(Solution { plates, items, contributions: s.contributions })
+}
+
+impl Solver<'_, '_> {
+    fn push_bearer(&mut self, b: usize, load: BeamLoad) {
+        if self.bearer_loads[b].is_empty() {
+            self.bearers_touched.push(b);
+        }
+        self.bearer_loads[b].push(load);
+    }
+
+    /// A uniform pressure `q` on a plan rectangle of deck `d`: each strip between bearers is a
+    /// simply supported span across them; the per-metre reactions become line loads on the bearers.
+    fn deck_area(&mut self, d: usize, rect: &crate::model::Rect, q: f64) {
+        let deck = &self.model.decks[d];
+        let (along, span) = deck.split_rect(rect);
+        let load = BeamLoad::Uniform { from: span.0, to: span.1, w: q };
+        let mut per_metre = std::mem::take(&mut self.piece_sums);
+        per_metre.clear();
+        per_metre.resize(deck.bearers.len(), [0.0; 2]);
+        share_simple(&deck.supports, &load, &mut |k, _, r| per_metre[k][0] += r);
+        for (k, &b) in deck.bearers.iter().enumerate() {
+            let w = per_metre[k][0];
+            let line = &self.model.bearers[b];
+            let (p0, p1) = (along_point(deck.bearer_axis, along.0, line), along_point(deck.bearer_axis, along.1, line));
+            let (a, z) = (line.distance_of(p0.0, p0.1), line.distance_of(p1.0, p1.1));
+            self.push_bearer(b, BeamLoad::Uniform { from: a.min(z), to: a.max(z), w });
+        }
+        self.piece_sums = per_metre;
+    }
+
+    /// A point load on deck `d`, shared between the bearers either side by moment balance.
+    fn deck_point(&mut self, d: usize, x: f64, y: f64, p: f64) {
+        let deck = &self.model.decks[d];
+        let (_, s) = deck.split(x, y);
+        let mut shares: Vec<(usize, f64)> = Vec::with_capacity(2);
+        share_simple(&deck.supports, &BeamLoad::Point { at: s, p }, &mut |k, _, r| shares.push((k, r)));
+        for (k, r) in shares {
+            let b = deck.bearers[k];
+            let at = self.model.bearers[b].distance_of(x, y);
+            self.push_bearer(b, BeamLoad::Point { at, p: r });
+        }
+    }
+
+    /// Share the gathered loads of every touched bearer among its posts.
+    fn share_bearers(&mut self, item: u32, case: Case, load_id: Option<&str>) -> Result<(), SolveError> {
+        let mut touched = std::mem::take(&mut self.bearers_touched);
+        touched.sort_unstable();
+        let mut result = Ok(());
+        for &b in &touched {
+            let line = &self.model.bearers[b];
+            let n = line.supports.len();
+            // Pieces: spans 0..n-1, then start and end overhang (or the single support).
+            let mut sums = std::mem::take(&mut self.piece_sums);
+            sums.clear();
+            sums.resize(n + 1, [0.0; 2]);
+            let mut unbalanced = 0.0;
+            let mut scale = 0.0;
+            for load in &self.bearer_loads[b] {
+                scale += load.total().abs() * (line.end - line.start).max(1.0);
+                unbalanced += share_simple(&line.supports, load, &mut |k, piece, r| {
+                    let (slot, side) = piece_slot(piece, k, n);
+                    sums[slot][side] += r;
+                });
+            }
+            if n == 1 && unbalanced.abs() > 1e-9 * scale.max(1e-9) && result.is_ok() {
+                result = Err(SolveError::TeeHeadTips {
+                    bearer: self.model.scene.bearers[b].id.clone(),
+                    load: load_id.unwrap_or(SELF_WEIGHT_ID).to_owned(),
+                    moment_knm: unbalanced.abs(),
+                });
+            }
+            for (slot, pair) in sums.iter().enumerate() {
+                for (side, &r) in pair.iter().enumerate() {
+                    if r == 0.0 {
+                        continue;
+                    }
+                    let (k, piece) = slot_piece(slot, side, n);
+                    let post = line.posts[k];
+                    self.plates.add(post, r);
+                    self.nodes.load[self.nodes.bearer_first[b] + k][case.index()] += r;
+                    self.contributions.push(Contribution { plate: post as u32, item, route: Route::Bearer { bearer: b as u32, piece }, kn: r });
+                }
+            }
+            self.piece_sums = sums;
+            self.bearer_loads[b].clear();
+        }
+        touched.clear();
+        self.bearers_touched = touched;
+        result
+    }
+
+    fn post_direct(&mut self, item: u32, post: usize, kn: f64, route: Route, case: Case) {
+        self.plates.add(post, kn);
+        let node = match route {
+            Route::PostTop => self.nodes.post_top_first + post,
+            _ => self.nodes.post_top_first + self.model.scene.posts.len() + post,
+        };
+        self.nodes.load[node][case.index()] += kn;
+        self.contributions.push(Contribution { plate: post as u32, item, route, kn });
+    }
+
+    /// The forces a horizontal load applies, as points and vectors. A notional load takes its
+    /// percentage of the vertical load of `basis` if given, else of its own basis cases.
+    fn horizontal_forces(&self, kind: &LoadKind, basis: Option<&[Case]>) -> Vec<HorizontalForce> {
+        let scene = self.model.scene;
+        match kind {
+            LoadKind::Horizontal { x, y, level, kn, direction } => {
+                let (ux, uy) = direction.unit();
+                vec![HorizontalForce { at: [*x, *y, *level], force: [kn * ux, kn * uy] }]
+            }
+            LoadKind::Wind { face, kpa, direction } => {
+                let (ux, uy) = direction.unit();
+                let (dx, dy) = (face.to.0 - face.from.0, face.to.1 - face.from.1);
+                let projected = (dx * uy - dy * ux).abs();
+                let f = kpa * projected * (face.top - face.bottom);
+                if f == 0.0 {
+                    return Vec::new();
+                }
+                let at = [0.5 * (face.from.0 + face.to.0), 0.5 * (face.from.1 + face.to.1), 0.5 * (face.bottom + face.top)];
+                vec![HorizontalForce { at, force: [f * ux, f * uy] }]
+            }
+            LoadKind::Notional { percent, direction, basis: own } => {
+                let basis = basis.unwrap_or(own);
+                let (ux, uy) = direction.unit();
+                let share = percent / 100.0;
+                let mut out = Vec::new();
+                for (node, &(post, level)) in self.nodes.at.iter().enumerate() {
+                    let v: f64 = basis.iter().map(|c| self.nodes.load[node][c.index()]).sum::<f64>();
+                    if v != 0.0 {
+                        let p = &scene.posts[post];
+                        out.push(HorizontalForce { at: [p.x, p.y, level], force: [share * v * ux, share * v * uy] });
+                    }
+                }
+                out
+            }
+            _ => Vec::new(),
+        }
+    }
+}
+
+fn horizontal_direction(kind: &LoadKind) -> Option<[f64; 2]> {
+    match kind {
+        LoadKind::Horizontal { direction, .. } | LoadKind::Wind { direction, .. } | LoadKind::Notional { direction, .. } => {
+            let (x, y) = direction.unit();
+            Some([x, y])
+        }
+        _ => None,
+    }
+}
+
+/// Where a reaction of `piece` at support `k` is summed: (slot, side).
+fn piece_slot(piece: Piece, k: usize, n: usize) -> (usize, usize) {
+    match piece {
+        Piece::Span(j) => (j as usize, k - j as usize),
+        Piece::StartOverhang => (n - 1, k),
+        Piece::EndOverhang => (n, k + 2 - n),
+        Piece::Single => (0, 0),
+    }
+}
+
+/// Inverse of [`piece_slot`]: (support index, piece).
+fn slot_piece(slot: usize, side: usize, n: usize) -> (usize, Piece) {
+    if n == 1 {
+        (0, Piece::Single)
+    } else if slot < n - 1 {
+        (slot + side, Piece::Span(slot as u32))
+    } else if slot == n - 1 {
+        (side, Piece::StartOverhang)
+    } else {
+        (n - 2 + side, Piece::EndOverhang)
+    }
+}
+
+/// Plan point on a bearer's line at coordinate `u` along the deck's bearer axis.
+fn along_point(axis: crate::validate::Axis, u: f64, line: &crate::validate::BearerLine) -> (f64, f64) {
+    match axis {
+        crate::validate::Axis::X => (u, line.origin.1),
+        crate::validate::Axis::Y => (line.origin.0, u),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn slots_round_trip() {
+        for n in 2..6 {
+            for j in 0..n - 1 {
+                for k in [j, j + 1] {
+                    let (slot, side) = piece_slot(Piece::Span(j as u32), k, n);
+                    assert_eq!(slot_piece(slot, side, n), (k, Piece::Span(j as u32)));
+                }
+            }
+            for k in [0, 1] {
+                let (slot, side) = piece_slot(Piece::StartOverhang, k, n);
+                assert_eq!(slot_piece(slot, side, n), (k, Piece::StartOverhang));
+            }
+            for k in [n - 2, n - 1] {
+                let (slot, side) = piece_slot(Piece::EndOverhang, k, n);
+                assert_eq!(slot_piece(slot, side, n), (k, Piece::EndOverhang));
+            }
+        }
+    }
+}

@@ -1,0 +1,73 @@
+//! Tracing one base plate's load back to where it came from.
+
+use std::fmt::Write;
+
+use crate::analysis::Analysis;
+use crate::beam::Piece;
+use crate::loads::Case;
+use crate::model::Scene;
+use crate::solve::Route;
+
+/// Words for a route, using the scene's ids.
+pub fn route_words(scene: &Scene, route: Route) -> String {
+    match route {
+        Route::Bearer { bearer, piece } => {
+            let b = &scene.bearers[bearer as usize];
+            let post = |k: usize| b.posts.get(k).map(String::as_str).unwrap_or("?");
+            match piece {
+                Piece::Span(j) => format!("{} {}, span {}-{}", role(b.role), b.id, post(j as usize), post(j as usize + 1)),
+                Piece::StartOverhang => format!("{} {}, overhang before {}", role(b.role), b.id, post(0)),
+                Piece::EndOverhang => format!("{} {}, overhang after {}", role(b.role), b.id, post(b.posts.len() - 1)),
+                Piece::Single => format!("{} {} on its single post", role(b.role), b.id),
+            }
+        }
+        Route::PostSelfWeight => "own weight of the post".into(),
+        Route::PostTop => "load on the post top".into(),
+        Route::Overturning => "overturning couple on the braced base".into(),
+    }
+}
+
+fn role(r: crate::model::BeamRole) -> &'static str {
+    match r {
+        crate::model::BeamRole::Bearer => "bearer",
+        crate::model::BeamRole::Ledger => "ledger",
+        crate::model::BeamRole::Transom => "transom",
+    }
+}
+
+/// A text account of every share that makes up one plate's load, grouped by load item, with
+/// per-case totals that equal the plate's case loads.
+pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
+    let p = &analysis.plates[plate];
+    let mut out = String::new();
+    let _ = writeln!(out, "Base {} at ({:.3}, {:.3}), base level {:.3} m, support {}", p.id, p.x, p.y, p.base_level, p.support);
+    let mut shares: Vec<_> = analysis.solution.contributions.iter().filter(|c| c.plate as usize == plate).collect();
+    shares.sort_by_key(|c| (c.item, c.route));
+    let mut totals = [0.0; 3];
+    let mut last_item = u32::MAX;
+    for c in shares {
+        let item = &analysis.solution.items[c.item as usize];
+        if c.item != last_item {
+            let _ = writeln!(out, "  {} ({})", item.id, item.case);
+            last_item = c.item;
+        }
+        let _ = writeln!(out, "    {:>10.3} kN  via {}", c.kn, route_words(scene, c.route));
+        totals[item.case.index()] += c.kn;
+    }
+    for c in Case::ALL {
+        let _ = writeln!(out, "  total {}: {:.3} kN (plate load {:.3} kN)", c, totals[c.index()], p.case_kn[c.index()]);
+    }
+    for (comb, r) in analysis.combinations.iter().zip(&p.combinations) {
+        let _ = writeln!(
+            out,
+            "  {:<12} max {:>9.3} kN  min {:>9.3} kN  utilisation {:>6.1}%  bearing {:>7.1} kPa  {}",
+            comb.name,
+            r.max_kn,
+            r.min_kn,
+            100.0 * r.utilisation,
+            r.bearing_kpa,
+            r.status
+        );
+    }
+    out
+}
