@@ -27,6 +27,7 @@ pub mod json;
 pub mod layout;
 pub mod loads;
 pub mod model;
+pub mod palette;
 pub mod rigid_base;
 pub mod schedule;
 pub mod solve;

@@ -1,0 +1,168 @@
+//! The utilisation colour ramp shared by the 3D view, the pictures and the report.
+//!
+//! Lightness falls steadily from a pale aqua (lightly used) through warm sand to a deep brick
+//! red (at capacity), interpolated in the OKLab perceptual space, so the order reads in grey
+//! scale and for red–green colour-blind readers alike. Over capacity is a near-black aubergine,
+//! and is also drawn with a second cue (see [`Cue`]) so it never depends on colour alone.
+
+use crate::check::Status;
+
+/// Utilisation bands used for colouring and in legends.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
+pub enum Band {
+    /// Below 50 %.
+    Light,
+    /// 50 % to 70 %.
+    Moderate,
+    /// 70 % to 85 %.
+    High,
+    /// 85 % to 100 %.
+    Near,
+    /// Above 100 %.
+    Over,
+}
+
+impl Band {
+    /// All bands, lowest first.
+    pub const ALL: [Band; 5] = [Band::Light, Band::Moderate, Band::High, Band::Near, Band::Over];
+
+    /// The band of a utilisation ratio (1.0 = capacity). NaN counts as over: never look safe.
+    pub fn of(utilisation: f64) -> Band {
+        match utilisation {
+            u if u < 0.5 => Band::Light,
+            u if u < 0.7 => Band::Moderate,
+            u if u < 0.85 => Band::High,
+            u if u <= 1.0 + 1e-9 => Band::Near,
+            _ => Band::Over,
+        }
+    }
+
+    /// Range of utilisation covered, as ratios (upper bound `None` for over).
+    pub fn range(self) -> (f64, Option<f64>) {
+        match self {
+            Band::Light => (0.0, Some(0.5)),
+            Band::Moderate => (0.5, Some(0.7)),
+            Band::High => (0.7, Some(0.85)),
+            Band::Near => (0.85, Some(1.0)),
+            Band::Over => (1.0, None),
+        }
+    }
+
+    /// Legend label, e.g. `70–85 %`.
+    pub fn label(self) -> String {
+        match self.range() {
+            (lo, Some(hi)) => format!("{:.0}–{:.0} %", lo * 100.0, hi * 100.0),
+            (lo, None) => format!("over {:.0} %", lo * 100.0),
+        }
+    }
+
+    /// sRGB colour of the band: the ramp at the band's middle; a fixed dark colour for over.
+    pub fn colour(self) -> [u8; 3] {
+        match self {
+            Band::Over => OVER_COLOUR,
+            b => {
+                let (lo, hi) = b.range();
+                ramp(0.5 * (lo + hi.unwrap_or(1.0)))
+            }
+        }
+    }
+}
+
+/// Colour of over-capacity plates.
+pub const OVER_COLOUR: [u8; 3] = [0x3a, 0x16, 0x36];
+
+/// Ramp control points in OKLab (L, a, b): pale aqua, warm sand, deep brick red.
+const STOPS: [[f64; 3]; 3] = [[0.95, -0.045, -0.012], [0.80, 0.012, 0.075], [0.50, 0.125, 0.070]];
+
+/// Continuous ramp colour for a utilisation ratio in 0..=1 (clamped), sRGB.
+pub fn ramp(utilisation: f64) -> [u8; 3] {
+    let t = if utilisation.is_nan() { 1.0 } else { utilisation.clamp(0.0, 1.0) } * (STOPS.len() - 1) as f64;
+    let i = (t.floor() as usize).min(STOPS.len() - 2);
+    let f = t - i as f64;
+    let lab = [0, 1, 2].map(|k| STOPS[i][k] + f * (STOPS[i + 1][k] - STOPS[i][k]));
+    oklab_to_srgb(lab)
+}
+
+/// OKLab → sRGB (8-bit, gamut-clipped).
+pub fn oklab_to_srgb([l, a, b]: [f64; 3]) -> [u8; 3] {
+    let l_ = l + 0.396_337_777_4 * a + 0.215_803_757_3 * b;
+    let m_ = l - 0.105_561_345_8 * a - 0.063_854_172_8 * b;
+    let s_ = l - 0.089_484_177_5 * a - 1.291_485_548 * b;
+    let (l3, m3, s3) = (l_ * l_ * l_, m_ * m_ * m_, s_ * s_ * s_);
+    let lin = [
+        4.076_741_662_1 * l3 - 3.307_711_591_3 * m3 + 0.230_969_929_2 * s3,
+        -1.268_438_004_6 * l3 + 2.609_757_401_1 * m3 - 0.341_319_396_5 * s3,
+        -0.004_196_086_3 * l3 - 0.703_418_614_7 * m3 + 1.707_614_701 * s3,
+    ];
+    lin.map(|c| {
+        let c = c.clamp(0.0, 1.0);
+        let s = if c <= 0.003_130_8 { 12.92 * c } else { 1.055 * c.powf(1.0 / 2.4) - 0.055 };
+        (s * 255.0).round() as u8
+    })
+}
+
+/// The second cue drawn besides colour, so a finding never rests on colour alone.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
+pub enum Cue {
+    /// Nothing extra.
+    None,
+    /// Over capacity: drawn with a bold contrasting outline / cross-hatch.
+    Over,
+    /// The plate lifts: drawn with an upward marker.
+    Uplift,
+    /// Both.
+    OverAndUplift,
+}
+
+impl Cue {
+    /// The cue for a plate's status.
+    pub fn of(status: Status) -> Cue {
+        match (status.over, status.uplift) {
+            (false, false) => Cue::None,
+            (true, false) => Cue::Over,
+            (false, true) => Cue::Uplift,
+            (true, true) => Cue::OverAndUplift,
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Relative luminance of an sRGB colour (WCAG definition).
+    fn luminance(c: [u8; 3]) -> f64 {
+        // source: WCAG 2.1 relative luminance formula (sRGB linearisation, Rec. 709 weights)
+        let lin = c.map(|v| {
+            let s = v as f64 / 255.0;
+            if s <= 0.04045 { s / 12.92 } else { ((s + 0.055) / 1.055).powf(2.4) }
+        });
+        0.2126 * lin[0] + 0.7152 * lin[1] + 0.0722 * lin[2]
+    }
+
+    #[test]
+    fn oklab_white_and_black() {
+        // source: OKLab definition (B. Ottosson, 2020): L=1, a=b=0 is white; L=0 is black
+        assert_eq!(oklab_to_srgb([1.0, 0.0, 0.0]), [255, 255, 255]);
+        assert_eq!(oklab_to_srgb([0.0, 0.0, 0.0]), [0, 0, 0]);
+    }
+
+    #[test]
+    fn bands_darken_monotonically_so_they_read_without_hue() {
+        // common practice, no source: a sequential scale must be ordered in lightness
+        let lum: Vec<f64> = Band::ALL.iter().map(|b| luminance(b.colour())).collect();
+        for w in lum.windows(2) {
+            assert!(w[1] < w[0] * 0.85, "bands too close in lightness: {lum:?}");
+        }
+    }
+
+    #[test]
+    fn band_edges() {
+        // common practice, no source
+        assert_eq!(Band::of(0.0), Band::Light);
+        assert_eq!(Band::of(0.5), Band::Moderate);
+        assert_eq!(Band::of(1.0), Band::Near);
+        assert_eq!(Band::of(1.01), Band::Over);
+        assert_eq!(Band::of(f64::NAN), Band::Over);
+    }
+}
