@@ -68,12 +68,13 @@ pub struct CaseEquilibrium {
     pub applied: Resultant,
     /// Resultant of the base reactions.
     pub reactions: Resultant,
-    /// |ΣF|, kN.
+    /// |ΣF| of each load item of the case, summed, kN. Each item must balance on its own, so
+    /// opposite loads in one case (wind from either side) cannot hide an error.
     pub force_residual_kn: f64,
-    /// |ΣM| about the origin, kN·m.
+    /// |ΣM| about the origin of each load item, summed, kN·m.
     pub moment_residual_knm: f64,
-    /// Largest of |ΣF| / F and |ΣM| / (F·L), with F the sum of applied force magnitudes and L the
-    /// size of the scene; 0 when there is no load.
+    /// Worst item's largest of |ΣF| / F and |ΣM| / (F·L), with F the magnitude of the item's
+    /// applied force and L the size of the base; 0 when there is no load.
     pub relative: f64,
 }
 
@@ -199,20 +200,25 @@ pub fn equilibrium(solution: &Solution) -> [CaseEquilibrium; 3] {
         let d = (0..3).map(|k| (hi[k] - lo[k]).max(0.0)).fold(0.0, f64::max);
         d.max(1.0)
     };
+    let norm = |v: [f64; 3]| (v[0] * v[0] + v[1] * v[1] + v[2] * v[2]).sqrt();
     Case::ALL.map(|case| {
         let mut applied = Resultant::default();
         let mut reactions = Resultant::default();
-        let mut magnitude = 0.0;
+        let (mut fr, mut mr, mut relative) = (0.0, 0.0, 0.0f64);
+        // Each item is balanced on its own, so opposite loads in one case cannot hide an error.
         for item in solution.items.iter().filter(|i| i.case == case) {
+            let r = item.reaction_resultant(plates);
             applied = applied.plus(&item.applied);
-            reactions = reactions.plus(&item.reaction_resultant(plates));
-            let f = item.applied.force;
-            magnitude += (f[0] * f[0] + f[1] * f[1] + f[2] * f[2]).sqrt();
+            reactions = reactions.plus(&r);
+            let sum = item.applied.plus(&r);
+            let (f, m) = (norm(sum.force), norm(sum.moment));
+            fr += f;
+            mr += m;
+            let magnitude = norm(item.applied.force);
+            if magnitude > 0.0 {
+                relative = relative.max(f / magnitude).max(m / (magnitude * size));
+            }
         }
-        let sum = applied.plus(&reactions);
-        let norm = |v: [f64; 3]| (v[0] * v[0] + v[1] * v[1] + v[2] * v[2]).sqrt();
-        let (fr, mr) = (norm(sum.force), norm(sum.moment));
-        let relative = if magnitude > 0.0 { (fr / magnitude).max(mr / (magnitude * size)) } else { 0.0 };
         CaseEquilibrium { case, applied, reactions, force_residual_kn: fr, moment_residual_knm: mr, relative }
     })
 }

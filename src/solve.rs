@@ -281,6 +281,7 @@ pub fn solve(model: &Model) -> Result<Solution, SolveError> {
         contributions: Vec::new(),
     };
     // Slot 0: self-weight; slot k + 1: the scene's load k.
+    let mut permanent_tee: Vec<(usize, f64, f64)> = Vec::new();
     let mut items: Vec<Option<Item>> = vec![None; scene.loads.len() + 1];
 
     // Self-weight of every element: one permanent item.
@@ -298,7 +299,7 @@ pub fn solve(model: &Model) -> Result<Solution, SolveError> {
             s.push_bearer(b, BeamLoad::Uniform { from: line.start, to: line.end, w });
         }
         let item = 0;
-        s.share_bearers(item, Case::G, None)?;
+        s.share_bearers(item, Case::G, &mut permanent_tee);
         for (i, p) in scene.posts.iter().enumerate() {
             let wt = p.self_weight_kn_per_m * (p.top_level - p.base_level);
             applied.add_down(p.x, p.y, wt);
@@ -348,12 +349,21 @@ pub fn solve(model: &Model) -> Result<Solution, SolveError> {
             }
             _ => unreachable!("validation resolves every vertical load to its element"),
         }
-        s.share_bearers(item, load.case, Some(&load.id))?;
+        if load.case == Case::G {
+            s.share_bearers(item, load.case, &mut permanent_tee);
+        } else {
+            let mut own = Vec::new();
+            s.share_bearers(item, load.case, &mut own);
+            tee_head_balances(model, &own, &load.id)?;
+        }
         if let (LoadKind::PostTop { kn, .. }, Target::Post(p)) = (&load.kind, model.load_targets[k]) {
             s.post_direct(item, p, *kn, Route::PostTop, load.case);
         }
         items[k + 1] = Some(Item { id: load.id.clone(), case: load.case, applied, vertical: s.plates.take(), shear: Vec::new(), direction: None, vertical_permanent_basis: None });
     }
+
+    // Permanent loads are always present together, so their moments on a T-head may cancel.
+    tee_head_balances(model, &permanent_tee, "permanent load")?;
 
     // Horizontal loads, after the vertical ones: a notional load is a share of them.
     for (k, load) in scene.loads.iter().enumerate() {
@@ -436,11 +446,11 @@ impl Solver<'_, '_> {
         }
     }
 
-    /// Share the gathered loads of every touched bearer among its posts.
-    fn share_bearers(&mut self, item: u32, case: Case, load_id: Option<&str>) -> Result<(), SolveError> {
+    /// Share the gathered loads of every touched bearer among its posts. Single-post bearers add
+    /// the moment they cannot balance to `unbalanced` as (bearer, moment, scale).
+    fn share_bearers(&mut self, item: u32, case: Case, unbalanced: &mut Vec<(usize, f64, f64)>) {
         let mut touched = std::mem::take(&mut self.bearers_touched);
         touched.sort_unstable();
-        let mut result = Ok(());
         for &b in &touched {
             let line = &self.model.bearers[b];
             let n = line.supports.len();
@@ -448,21 +458,17 @@ impl Solver<'_, '_> {
             let mut sums = std::mem::take(&mut self.piece_sums);
             sums.clear();
             sums.resize(n + 1, [0.0; 2]);
-            let mut unbalanced = 0.0;
+            let mut moment = 0.0;
             let mut scale = 0.0;
             for load in &self.bearer_loads[b] {
                 scale += load.total().abs() * (line.end - line.start).max(1.0);
-                unbalanced += share_simple(&line.supports, load, &mut |k, piece, r| {
+                moment += share_simple(&line.supports, load, &mut |k, piece, r| {
                     let (slot, side) = piece_slot(piece, k, n);
                     sums[slot][side] += r;
                 });
             }
-            if n == 1 && unbalanced.abs() > 1e-9 * scale.max(1e-9) && result.is_ok() {
-                result = Err(SolveError::TeeHeadTips {
-                    bearer: self.model.scene.bearers[b].id.clone(),
-                    load: load_id.unwrap_or(SELF_WEIGHT_ID).to_owned(),
-                    moment_knm: unbalanced.abs(),
-                });
+            if n == 1 {
+                unbalanced.push((b, moment, scale));
             }
             for (slot, pair) in sums.iter().enumerate() {
                 for (side, &r) in pair.iter().enumerate() {
@@ -481,7 +487,6 @@ impl Solver<'_, '_> {
         }
         touched.clear();
         self.bearers_touched = touched;
-        result
     }
 
     fn post_direct(&mut self, item: u32, post: usize, kn: f64, route: Route, case: Case) {
@@ -531,6 +536,27 @@ impl Solver<'_, '_> {
             _ => Vec::new(),
         }
     }
+}
+
+/// A single-post bearer must balance about its post under each load that can act alone
+/// (each variable load) and under all permanent load together.
+fn tee_head_balances(model: &Model, moments: &[(usize, f64, f64)], load: &str) -> Result<(), SolveError> {
+    let mut by_bearer: Vec<(usize, f64, f64)> = Vec::new();
+    for &(b, m, scale) in moments {
+        match by_bearer.iter_mut().find(|e| e.0 == b) {
+            Some(e) => {
+                e.1 += m;
+                e.2 += scale;
+            }
+            None => by_bearer.push((b, m, scale)),
+        }
+    }
+    for (b, m, scale) in by_bearer {
+        if m.abs() > 1e-9 * scale.max(1e-9) {
+            return Err(SolveError::TeeHeadTips { bearer: model.scene.bearers[b].id.clone(), load: load.to_owned(), moment_knm: m.abs() });
+        }
+    }
+    Ok(())
 }
 
 fn horizontal_direction(kind: &LoadKind) -> Option<[f64; 2]> {

@@ -1,0 +1,111 @@
+//! The command line, run as a new user would.
+
+use std::process::{Command, Output};
+
+use crate::util::scene_path;
+
+fn plateload(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_plateload")).args(args).output().expect("the binary runs")
+}
+
+fn text(o: &Output) -> (String, String) {
+    (String::from_utf8_lossy(&o.stdout).into_owned(), String::from_utf8_lossy(&o.stderr).into_owned())
+}
+
+fn scene(name: &str) -> String {
+    scene_path(name).display().to_string()
+}
+
+fn temp(name: &str) -> std::path::PathBuf {
+    let dir = std::env::temp_dir().join(format!("plateload-cli-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    dir.join(name)
+}
+
+#[test]
+fn validate_solve_schedule_trace_on_every_demo() {
+    // common practice, no source: every command succeeds on the shipped demos
+    for name in ["larkfield-falsework.ron", "tannery-loading-bay.ron", "harbour-sheeted-face.ron"] {
+        let file = scene(name);
+        let o = plateload(&["validate", &file]);
+        let (out, err) = text(&o);
+        assert!(o.status.success(), "{name}: {err}");
+        assert!(out.contains("valid"), "{out}");
+
+        let o = plateload(&["solve", &file]);
+        let (out, err) = text(&o);
+        assert!(o.status.success(), "{name}: {err}");
+        assert!(out.contains(plateload::CAUTION), "solve output must carry the caution");
+        assert!(out.contains("equilibrium") && out.contains("relative") && out.contains("worst base"), "{out}");
+
+        let o = plateload(&["solve", "--json", &file]);
+        assert!(o.status.success());
+        let v: serde_json::Value = serde_json::from_slice(&o.stdout).expect("valid JSON");
+        assert!(v["bases"].as_array().is_some_and(|b| !b.is_empty()));
+
+        let csv = temp(&format!("{name}.csv"));
+        let o = plateload(&["schedule", &file, "-o", csv.to_str().unwrap()]);
+        let (_, err) = text(&o);
+        assert!(o.status.success(), "{err}");
+        assert!(err.contains(plateload::CAUTION));
+        assert!(std::fs::read_to_string(&csv).unwrap().contains("TOTAL"));
+
+        let o = plateload(&["trace", &file, "A1"]);
+        let (out, err) = text(&o);
+        assert!(o.status.success(), "{err}");
+        assert!(out.contains("Base A1") && out.contains("total G") && out.contains(plateload::CAUTION), "{out}");
+    }
+}
+
+#[test]
+fn strict_check_fails_when_a_plate_is_over() {
+    // common practice, no source: exit codes 0 ok, 1 invalid input, 3 strict check failed
+    let o = plateload(&["solve", "--strict", &scene("larkfield-falsework.ron")]);
+    assert_eq!(o.status.code(), Some(3), "{:?}", text(&o));
+    assert!(text(&o).1.contains("strict check failed"));
+    let o = plateload(&["solve", &scene("larkfield-falsework.ron")]);
+    assert_eq!(o.status.code(), Some(0));
+}
+
+#[test]
+fn bad_input_gives_a_clear_message_and_exit_code_1() {
+    // common practice, no source
+    let bad = temp("syntax.ron");
+    std::fs::write(&bad, "(\n  site: (name: \"x\" allowable_bearing_kpa: 1.0),\n)\n").unwrap();
+    let o = plateload(&["solve", bad.to_str().unwrap()]);
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(err.contains(&format!("{}:2:", bad.display())), "{err}");
+
+    let invalid = temp("invalid.ron");
+    std::fs::write(&invalid, "(site: (name: \"x\", allowable_bearing_kpa: -5.0), posts: [(id: \"P\", x: 0.0, y: 0.0, base_level: 0.0, top_level: 1.0)])").unwrap();
+    let o = plateload(&["validate", invalid.to_str().unwrap()]);
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(err.contains("allowable bearing pressure") && err.contains("post P: has no support type"), "{err}");
+
+    let o = plateload(&["trace", &scene("larkfield-falsework.ron"), "Z99"]);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(text(&o).1.contains("no base plate \"Z99\""));
+}
+
+#[test]
+fn demos_can_be_listed_and_printed() {
+    // common practice, no source
+    let o = plateload(&["demo"]);
+    let (out, _) = text(&o);
+    assert!(out.lines().count() >= 3 && out.contains("larkfield-falsework"));
+    let o = plateload(&["demo", "tannery-loading-bay"]);
+    let s = plateload::io::parse_scene(&String::from_utf8(o.stdout).unwrap(), "stdout").unwrap();
+    assert!(!s.posts.is_empty());
+}
+
+#[test]
+fn every_command_has_help() {
+    // common practice, no source
+    for cmd in ["validate", "solve", "schedule", "trace", "demo", "edit"] {
+        let o = plateload(&[cmd, "--help"]);
+        assert!(o.status.success(), "{cmd} --help");
+        assert!(!o.stdout.is_empty());
+    }
+}

@@ -1,0 +1,15 @@
+//! The engine against outside references, end to end.
+
+// Shared scene builders and the demo scenes.
+mod util;
+
+// Load paths: beam-formula cases carried through whole scenes, rigid base, stability.
+mod solve;
+// Combinations, utilisation, bearing, schedule and JSON.
+mod check;
+// Scene files: syntax errors with positions, round trips, atomic saves.
+mod io;
+// Validation: every problem at once, with element ids.
+mod validation;
+// The command line run as a user would.
+mod cli;
