@@ -147,10 +147,9 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
         .enumerate()
         .map(|(i, (post, combinations))| {
             let support = &scene.support_types[model.post_support[i]];
-            let candidates: Vec<usize> = if capacity_combos.is_empty() { (0..combinations.len()).collect() } else { capacity_combos.clone() };
-            let governing = candidates
-                .iter()
-                .copied()
+            let all = 0..combinations.len();
+            let governing = all
+                .filter(|&c| capacity_combos.is_empty() || capacity_combos.contains(&c))
                 .max_by(|&a, &b| combinations[a].utilisation.partial_cmp(&combinations[b].utilisation).unwrap_or(std::cmp::Ordering::Equal))
                 .unwrap_or(0);
             let status = combinations.iter().fold(Status::default(), |s, c| s.or(c.status));

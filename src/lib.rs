@@ -22,6 +22,7 @@ pub mod beam;
 pub mod check;
 pub mod combination;
 pub mod demo;
+mod fxhash;
 pub mod io;
 pub mod json;
 pub mod layout;

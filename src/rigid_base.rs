@@ -40,57 +40,121 @@ pub enum RigidBaseError {
     },
 }
 
-/// Reactions of a rigid base to a vertical load `v` (kN, downwards) and moments about the plate
-/// centroid: `mx` tips towards +y, `my` tips towards +x (kN·m, so that a downward load at
-/// eccentricity (ex, ey) gives `my = v·ex`, `mx = v·ey`). Returns the upward reaction of each plate.
-pub fn share_vertical(plates: &[(f64, f64)], v: f64, mx: f64, my: f64) -> Result<Vec<f64>, RigidBaseError> {
-    let n = plates.len();
-    if n == 0 {
-        return Err(RigidBaseError::NoPlates);
-    }
-    let (xc, yc) = centroid(plates);
-    let (b, c) = linear_share(plates, (xc, yc), my, mx)?;
-    Ok(plates.iter().map(|&(x, y)| v / n as f64 + b * (x - xc) + c * (y - yc)).collect())
+/// The plan geometry of a set of base plates, prepared once for any number of loads.
+#[derive(Debug, Clone)]
+pub struct RigidBase {
+    plates: Vec<[f64; 3]>,
+    centroid: (f64, f64),
+    /// Σ r² about the centroid (polar), m².
+    polar: f64,
+    /// Principal second moments of the plate positions and their axes.
+    principal: [(f64, Vector2<f64>); 2],
 }
 
-fn centroid(plates: &[(f64, f64)]) -> (f64, f64) {
-    let n = plates.len() as f64;
-    let (sx, sy) = plates.iter().fold((0.0, 0.0), |(a, b), &(x, y)| (a + x, b + y));
-    (sx / n, sy / n)
-}
-
-/// Coefficients (b, c) of ΔR = b (x − x̄) + c (y − ȳ) with Σ ΔR (x − x̄) = `sx` and
-/// Σ ΔR (y − ȳ) = `sy`.
-fn linear_share(plates: &[(f64, f64)], (xc, yc): (f64, f64), sx: f64, sy: f64) -> Result<(f64, f64), RigidBaseError> {
-    let (mut ixx, mut iyy, mut ixy) = (0.0, 0.0, 0.0);
-    for &(x, y) in plates {
-        let (dx, dy) = (x - xc, y - yc);
-        ixx += dx * dx;
-        iyy += dy * dy;
-        ixy += dx * dy;
-    }
-    let rhs = Vector2::new(sx, sy);
-    let scale = rhs.norm();
-    if scale == 0.0 {
-        return Ok((0.0, 0.0));
-    }
-    // Solve in principal axes so a line of plates can still take moments about the other axis.
-    let eig = Matrix2::new(ixx, ixy, ixy, iyy).symmetric_eigen();
-    let largest = eig.eigenvalues.iter().cloned().fold(0.0, f64::max);
-    let mut coeff = Vector2::zeros();
-    for k in 0..2 {
-        let lambda = eig.eigenvalues[k];
-        let axis = eig.eigenvectors.column(k).into_owned();
-        let along = axis.dot(&rhs);
-        if lambda <= 1e-12 * largest.max(1e-300) || lambda <= 0.0 {
-            if along.abs() > 1e-9 * scale.max(1.0) {
-                return Err(RigidBaseError::Collinear { moment_knm: along.abs() });
-            }
-        } else {
-            coeff += axis * (along / lambda);
+impl RigidBase {
+    /// Prepare plates at (x, y, z).
+    pub fn new(plates: &[[f64; 3]]) -> Result<Self, RigidBaseError> {
+        let n = plates.len();
+        if n == 0 {
+            return Err(RigidBaseError::NoPlates);
         }
+        let nf = n as f64;
+        let (sx, sy) = plates.iter().fold((0.0, 0.0), |(a, b), p| (a + p[0], b + p[1]));
+        let (xc, yc) = (sx / nf, sy / nf);
+        let (mut ixx, mut iyy, mut ixy) = (0.0, 0.0, 0.0);
+        for p in plates {
+            let (dx, dy) = (p[0] - xc, p[1] - yc);
+            ixx += dx * dx;
+            iyy += dy * dy;
+            ixy += dx * dy;
+        }
+        let eig = Matrix2::new(ixx, ixy, ixy, iyy).symmetric_eigen();
+        let principal = [0, 1].map(|k| (eig.eigenvalues[k], eig.eigenvectors.column(k).into_owned()));
+        Ok(RigidBase { plates: plates.to_vec(), centroid: (xc, yc), polar: ixx + iyy, principal })
     }
-    Ok((coeff[0], coeff[1]))
+
+    /// Coefficients (b, c) of ΔR = b (x − x̄) + c (y − ȳ) with Σ ΔR (x − x̄) = `sx` and
+    /// Σ ΔR (y − ȳ) = `sy`, solved in principal axes so a line of plates can still take moments
+    /// about the other axis.
+    fn linear_share(&self, sx: f64, sy: f64) -> Result<(f64, f64), RigidBaseError> {
+        let rhs = Vector2::new(sx, sy);
+        let scale = rhs.norm();
+        if scale == 0.0 {
+            return Ok((0.0, 0.0));
+        }
+        let largest = self.principal.iter().map(|p| p.0).fold(0.0, f64::max);
+        let mut coeff = Vector2::zeros();
+        for (lambda, axis) in &self.principal {
+            let along = axis.dot(&rhs);
+            if *lambda <= 1e-12 * largest.max(1e-300) || *lambda <= 0.0 {
+                if along.abs() > 1e-9 * scale.max(1.0) {
+                    return Err(RigidBaseError::Collinear { moment_knm: along.abs() });
+                }
+            } else {
+                coeff += axis * (along / lambda);
+            }
+        }
+        Ok((coeff[0], coeff[1]))
+    }
+
+    /// Upward reaction of each plate to a vertical load `v` (kN, downwards) and moments about the
+    /// plate centroid: `mx` tips towards +y, `my` towards +x (kN·m; a downward load at
+    /// eccentricity (ex, ey) gives `my = v·ex`, `mx = v·ey`).
+    pub fn share_vertical(&self, v: f64, mx: f64, my: f64) -> Result<Vec<f64>, RigidBaseError> {
+        let (xc, yc) = self.centroid;
+        let (b, c) = self.linear_share(my, mx)?;
+        let n = self.plates.len() as f64;
+        Ok(self.plates.iter().map(|p| v / n + b * (p[0] - xc) + c * (p[1] - yc)).collect())
+    }
+
+    /// Share a horizontal resultant — force (fx, fy) kN and its moment about the origin
+    /// (mx, my, mz) kN·m — so that all six equilibrium equations hold.
+    pub fn share_horizontal(&self, f: [f64; 2], m: [f64; 3]) -> Result<HorizontalShare, RigidBaseError> {
+        let (xc, yc) = self.centroid;
+        // Twist about the vertical through the centroid that the plates must resist.
+        let twist = -m[2] + xc * f[1] - yc * f[0];
+        let t = if self.polar > 1e-12 {
+            twist / self.polar
+        } else if twist.abs() > 1e-9 * (f[0].hypot(f[1]) + 1.0) {
+            return Err(RigidBaseError::NoTorsion { moment_knm: twist.abs() });
+        } else {
+            0.0
+        };
+        let nf = self.plates.len() as f64;
+        let shear: Vec<[f64; 2]> = self.plates.iter().map(|p| [-f[0] / nf - t * (p[1] - yc), -f[1] / nf + t * (p[0] - xc)]).collect();
+        // Moment still to be balanced after the shears: that is the overturning moment.
+        let (mut rx, mut ry) = (m[0], m[1]);
+        for (p, s) in self.plates.iter().zip(&shear) {
+            rx += -p[2] * s[1];
+            ry += p[2] * s[0];
+        }
+        // Vertical reactions R give moment (Σ y R, −Σ x R); they must cancel (rx, ry).
+        let (b, c) = self.linear_share(ry, -rx)?;
+        let vertical = self.plates.iter().map(|p| b * (p[0] - xc) + c * (p[1] - yc)).collect();
+        Ok(HorizontalShare { vertical, shear })
+    }
+}
+
+/// Resultant force (fx, fy) and moment about the origin of horizontal forces.
+pub fn resultant(forces: &[HorizontalForce]) -> ([f64; 2], [f64; 3]) {
+    let (mut f, mut m) = ([0.0f64; 2], [0.0f64; 3]);
+    for h in forces {
+        let [x, y, z] = h.at;
+        let [fx, fy] = h.force;
+        f[0] += fx;
+        f[1] += fy;
+        m[0] += -z * fy;
+        m[1] += z * fx;
+        m[2] += x * fy - y * fx;
+    }
+    (f, m)
+}
+
+/// Reactions of a rigid base at plan points to a vertical load and moments; see
+/// [`RigidBase::share_vertical`].
+pub fn share_vertical(plates: &[(f64, f64)], v: f64, mx: f64, my: f64) -> Result<Vec<f64>, RigidBaseError> {
+    let at: Vec<[f64; 3]> = plates.iter().map(|&(x, y)| [x, y, 0.0]).collect();
+    RigidBase::new(&at)?.share_vertical(v, mx, my)
 }
 
 /// Base reactions of a rigid braced structure to horizontal forces.
@@ -102,47 +166,10 @@ pub struct HorizontalShare {
     pub shear: Vec<[f64; 2]>,
 }
 
-/// Share horizontal forces among plates at `(x, y, z)` so that all six equilibrium equations hold.
+/// Share horizontal forces among plates at `(x, y, z)`; see [`RigidBase::share_horizontal`].
 pub fn share_horizontal(plates: &[[f64; 3]], forces: &[HorizontalForce]) -> Result<HorizontalShare, RigidBaseError> {
-    let n = plates.len();
-    if n == 0 {
-        return Err(RigidBaseError::NoPlates);
-    }
-    // Resultant force and moment about the origin of the applied forces.
-    let (mut f, mut m) = ([0.0f64; 2], [0.0f64; 3]);
-    for h in forces {
-        let [x, y, z] = h.at;
-        let [fx, fy] = h.force;
-        f[0] += fx;
-        f[1] += fy;
-        m[0] += -z * fy;
-        m[1] += z * fx;
-        m[2] += x * fy - y * fx;
-    }
-    let plan: Vec<(f64, f64)> = plates.iter().map(|p| (p[0], p[1])).collect();
-    let (xc, yc) = centroid(&plan);
-    let j: f64 = plan.iter().map(|&(x, y)| (x - xc).powi(2) + (y - yc).powi(2)).sum();
-    // Twist about the vertical through the centroid that the plates must resist.
-    let twist = -m[2] + xc * f[1] - yc * f[0];
-    let t = if j > 1e-12 {
-        twist / j
-    } else if twist.abs() > 1e-9 * (f[0].hypot(f[1]) + 1.0) {
-        return Err(RigidBaseError::NoTorsion { moment_knm: twist.abs() });
-    } else {
-        0.0
-    };
-    let nf = n as f64;
-    let shear: Vec<[f64; 2]> = plan.iter().map(|&(x, y)| [-f[0] / nf - t * (y - yc), -f[1] / nf + t * (x - xc)]).collect();
-    // Moment still to be balanced after the shears: that is the overturning moment.
-    let (mut rx, mut ry) = (m[0], m[1]);
-    for (p, s) in plates.iter().zip(&shear) {
-        rx += -p[2] * s[1];
-        ry += p[2] * s[0];
-    }
-    // Vertical reactions R give moment (Σ y R, −Σ x R); they must cancel (rx, ry).
-    let (b, c) = linear_share(&plan, (xc, yc), ry, -rx)?;
-    let vertical = plan.iter().map(|&(x, y)| b * (x - xc) + c * (y - yc)).collect();
-    Ok(HorizontalShare { vertical, shear })
+    let (f, m) = resultant(forces);
+    RigidBase::new(plates)?.share_horizontal(f, m)
 }
 
 #[cfg(test)]

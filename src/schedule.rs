@@ -7,18 +7,97 @@
 use crate::analysis::Analysis;
 use crate::loads::Case;
 
+/// A CSV text being built: fields are quoted only when they need it.
+struct Csv {
+    out: String,
+    first: bool,
+}
+
+impl Csv {
+    fn field(&mut self, v: &str) {
+        if !self.first {
+            self.out.push(',');
+        }
+        self.first = false;
+        if v.contains([',', '"', '\n', '\r']) {
+            self.out.push('"');
+            self.out.push_str(&v.replace('"', "\"\""));
+            self.out.push('"');
+        } else {
+            self.out.push_str(v);
+        }
+    }
+    /// A number with a fixed count of decimals, without going through `format!` (the schedule
+    /// of a large scene has hundreds of thousands of them).
+    fn fixed(&mut self, v: f64, decimals: u32) {
+        if !self.first {
+            self.out.push(',');
+        }
+        self.first = false;
+        push_fixed(&mut self.out, v, decimals);
+    }
+    fn end(&mut self) {
+        self.out.push_str("\r\n");
+        self.first = true;
+    }
+    fn record<S: AsRef<str>>(&mut self, fields: &[S]) {
+        for f in fields {
+            self.field(f.as_ref());
+        }
+        self.end();
+    }
+}
+
+/// Append `v` rounded to `decimals` places (at most 6), like `format!("{v:.3}")` but without the
+/// negative zero.
+pub fn push_fixed(out: &mut String, v: f64, decimals: u32) {
+    use std::fmt::Write;
+    let decimals = decimals.min(6);
+    let scale = 10u64.pow(decimals);
+    let scaled = (v * scale as f64).round();
+    if !scaled.is_finite() || scaled.abs() >= 9.0e15 {
+        let _ = write!(out, "{v:.*}", decimals as usize);
+        return;
+    }
+    // Digits right to left into a stack buffer: sign, integer part, point, `decimals` digits.
+    let negative = scaled < 0.0;
+    let mut n = scaled.abs() as u64;
+    let mut buf = [0u8; 32];
+    let mut i = buf.len();
+    let mut put = |b: u8| {
+        i -= 1;
+        buf[i] = b;
+    };
+    for _ in 0..decimals {
+        put(b'0' + (n % 10) as u8);
+        n /= 10;
+    }
+    if decimals > 0 {
+        put(b'.');
+    }
+    loop {
+        put(b'0' + (n % 10) as u8);
+        n /= 10;
+        if n == 0 {
+            break;
+        }
+    }
+    if negative && scaled != 0.0 {
+        put(b'-');
+    }
+    out.push_str(std::str::from_utf8(&buf[i..]).expect("ASCII digits"));
+}
+
 /// Write the schedule as CSV text.
 pub fn schedule_csv(analysis: &Analysis) -> String {
-    let mut w = csv::WriterBuilder::new().flexible(true).from_writer(Vec::new());
-    let f3 = |v: f64| format!("{v:.3}");
-    let mut rec = |fields: Vec<String>| w.write_record(&fields).expect("writing to memory");
-    rec(vec!["Support-load schedule".into(), analysis.scene_name.clone()]);
-    rec(vec!["Caution".into(), crate::CAUTION.into()]);
-    rec(vec!["Units".into(), "loads kN (upward reaction positive; negative = uplift); positions m; areas m2; pressures kPa; utilisation as a ratio (1.000 = capacity)".into()]);
+    let mut w = Csv { out: String::with_capacity(256 * (analysis.plates.len() + 16)), first: true };
+    w.record(&["Support-load schedule", analysis.scene_name.as_str()]);
+    w.record(&["Caution", crate::CAUTION]);
+    w.record(&["Units", "loads kN (upward reaction positive; negative = uplift); positions m; areas m2; pressures kPa; utilisation as a ratio (1.000 = capacity)"]);
     for c in &analysis.combinations {
         let f = c.factors;
-        rec(vec![
-            "Combination".into(),
+        w.record(&[
+            "Combination".to_string(),
             c.name.clone(),
             format!("G unfavourable {}", f.g_unfavourable),
             format!("G favourable {}", f.g_favourable),
@@ -30,16 +109,16 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         ]);
     }
     for e in &analysis.equilibrium {
-        rec(vec![
+        w.record(&[
             format!("Equilibrium {}", e.case),
-            format!("applied {} kN", f3(e.applied.down())),
-            format!("reactions {} kN", f3(e.reactions.force[2])),
+            format!("applied {:.3} kN", e.applied.down()),
+            format!("reactions {:.3} kN", e.reactions.force[2]),
             format!("|sum F| {:.3e} kN", e.force_residual_kn),
             format!("|sum M| {:.3e} kN.m", e.moment_residual_knm),
             format!("relative {:.1e}", e.relative),
         ]);
     }
-    rec(vec![]);
+    w.end();
     let mut head: Vec<String> = ["id", "x (m)", "y (m)", "base level (m)", "support", "G (kN)", "Q (kN)", "W (kN)"].map(String::from).to_vec();
     for c in &analysis.combinations {
         head.push(format!("{} max (kN)", c.name));
@@ -49,33 +128,67 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         ["SWL (kN)", "utilisation", "governing combination", "bearing area (m2)", "bearing pressure (kPa)", "allowable (kPa)", "bearing utilisation", "status"]
             .map(String::from),
     );
-    rec(head);
+    w.record(&head);
     let mut totals = [0.0; 3];
     for p in &analysis.plates {
         let g = p.governing();
-        let mut row = vec![p.id.clone(), f3(p.x), f3(p.y), f3(p.base_level), p.support.clone()];
+        w.field(&p.id);
+        w.fixed(p.x, 3);
+        w.fixed(p.y, 3);
+        w.fixed(p.base_level, 3);
+        w.field(&p.support);
         for c in Case::ALL {
-            row.push(f3(p.case_kn[c.index()]));
+            w.fixed(p.case_kn[c.index()], 3);
             totals[c.index()] += p.case_kn[c.index()];
         }
         for pc in &p.combinations {
-            row.push(f3(pc.max_kn));
-            row.push(f3(pc.min_kn));
+            w.fixed(pc.max_kn, 3);
+            w.fixed(pc.min_kn, 3);
         }
-        row.extend([
-            f3(p.swl_kn),
-            f3(g.utilisation),
-            analysis.combinations[p.governing].name.clone(),
-            format!("{:.4}", p.bearing_area_m2),
-            format!("{:.1}", g.bearing_kpa),
-            format!("{:.1}", p.allowable_kpa),
-            f3(g.bearing_utilisation),
-            p.status.label().into(),
-        ]);
-        rec(row);
+        w.fixed(p.swl_kn, 3);
+        w.fixed(g.utilisation, 3);
+        w.field(&analysis.combinations[p.governing].name);
+        w.fixed(p.bearing_area_m2, 4);
+        w.fixed(g.bearing_kpa, 1);
+        w.fixed(p.allowable_kpa, 1);
+        w.fixed(g.bearing_utilisation, 3);
+        w.field(p.status.label());
+        w.end();
     }
-    let mut row = vec!["TOTAL".into(), String::new(), String::new(), String::new(), String::new()];
-    row.extend(totals.iter().map(|&t| f3(t)));
-    rec(row);
-    String::from_utf8(w.into_inner().expect("in-memory writer")).expect("ASCII and ids are UTF-8")
+    for f in ["TOTAL", "", "", "", ""] {
+        w.field(f);
+    }
+    for t in totals {
+        w.fixed(t, 3);
+    }
+    w.end();
+    w.out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::push_fixed;
+
+    #[test]
+    fn fixed_matches_standard_formatting() {
+        // source: Rust std `{:.N}` formatting as the reference; ties may round either way, so
+        // the check is that both lie within half a unit in the last place of the true value.
+        for v in [0.0, 1.0, -1.0, 0.5, 2.675, -12.3456, 1234567.891, 0.0004, 99.9995, 1e-9, 42.0, -7.25] {
+            for d in [0, 1, 3, 4] {
+                let mut s = String::new();
+                push_fixed(&mut s, v, d);
+                let expect = format!("{v:.*}", d as usize);
+                let half = 0.5 * 10f64.powi(-(d as i32)) * (1.0 + 1e-9);
+                let got: f64 = s.parse().unwrap();
+                assert!((got - v).abs() <= half, "{v} {d}: {s} vs {expect}");
+                assert_eq!(s.split('.').nth(1).map_or(0, str::len), d as usize, "{s}");
+                if (v * 10f64.powi(d as i32)).fract().abs() != 0.5 {
+                    assert_eq!(s.trim_start_matches('-'), expect.trim_start_matches('-'), "{v} {d}");
+                }
+            }
+        }
+        let mut s = String::new();
+        push_fixed(&mut s, -0.0001, 3);
+        assert_eq!(s, "0.000", "no negative zero");
+    }
 }

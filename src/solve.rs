@@ -8,7 +8,7 @@
 
 use crate::beam::{share_simple, BeamLoad, Piece};
 use crate::loads::{Case, LoadKind};
-use crate::rigid_base::{share_horizontal, HorizontalForce, RigidBaseError};
+use crate::rigid_base::{RigidBase, RigidBaseError};
 use crate::validate::{Model, Target};
 
 /// Force (kN) and moment about the origin (kN·m) of a set of forces.
@@ -235,6 +235,8 @@ struct Nodes {
     post_top_first: usize,
     /// Vertical load per node per case, kN (downwards positive).
     load: Vec<[f64; 3]>,
+    /// Per case: ΣV, ΣV·x, ΣV·y, ΣV·z over the nodes, once the vertical loads are all in.
+    moments: [[f64; 4]; 3],
 }
 
 impl Nodes {
@@ -250,7 +252,22 @@ impl Nodes {
         at.extend(scene.posts.iter().enumerate().map(|(i, p)| (i, p.top_level)));
         at.extend(scene.posts.iter().enumerate().map(|(i, p)| (i, 0.5 * (p.base_level + p.top_level))));
         let load = vec![[0.0; 3]; at.len()];
-        Nodes { at, bearer_first, post_top_first, load }
+        Nodes { at, bearer_first, post_top_first, load, moments: [[0.0; 4]; 3] }
+    }
+
+    /// Sum the first moments of the node loads per case.
+    fn sum_moments(&mut self, scene: &crate::model::Scene) {
+        let mut m = [[0.0; 4]; 3];
+        for (&(post, z), v) in self.at.iter().zip(&self.load) {
+            let p = &scene.posts[post];
+            for c in 0..3 {
+                m[c][0] += v[c];
+                m[c][1] += v[c] * p.x;
+                m[c][2] += v[c] * p.y;
+                m[c][3] += v[c] * z;
+            }
+        }
+        self.moments = m;
     }
 }
 
@@ -366,28 +383,25 @@ pub fn solve(model: &Model) -> Result<Solution, SolveError> {
     tee_head_balances(model, &permanent_tee, "permanent load")?;
 
     // Horizontal loads, after the vertical ones: a notional load is a share of them.
+    let mut rigid: Option<RigidBase> = None;
+    s.nodes.sum_moments(scene);
     for (k, load) in scene.loads.iter().enumerate() {
         if !load.kind.is_horizontal() {
             continue;
         }
         let item = (k + 1) as u32;
-        let forces = s.horizontal_forces(&load.kind, None);
-        let mut applied = Resultant::default();
-        for h in &forces {
-            applied.add(h.at, [h.force[0], h.force[1], 0.0]);
-        }
-        let share_of = |forces: &[HorizontalForce]| {
-            if forces.is_empty() {
-                Ok(crate::rigid_base::HorizontalShare { vertical: vec![0.0; plates.len()], shear: vec![[0.0; 2]; plates.len()] })
-            } else {
-                share_horizontal(&plates, forces).map_err(|reason| SolveError::Horizontal { load: load.id.clone(), reason })
-            }
+        let applied = s.horizontal_resultant(&load.kind, None);
+        let base = match &rigid {
+            Some(b) => b,
+            None => rigid.insert(RigidBase::new(&plates).map_err(|reason| SolveError::Horizontal { load: load.id.clone(), reason })?),
         };
-        let share = share_of(&forces)?;
+        let share_of = |r: &Resultant| {
+            base.share_horizontal([r.force[0], r.force[1]], r.moment).map_err(|reason| SolveError::Horizontal { load: load.id.clone(), reason })
+        };
+        let share = share_of(&applied)?;
         let vertical_permanent_basis = match &load.kind {
             LoadKind::Notional { basis, .. } if basis.iter().any(|c| *c != Case::G) => {
-                let permanent = s.horizontal_forces(&load.kind, Some(&[Case::G]));
-                let part = share_of(&permanent)?;
+                let part = share_of(&s.horizontal_resultant(&load.kind, Some(&[Case::G])))?;
                 Some(part.vertical.iter().enumerate().map(|(p, &v)| (p as u32, v)).collect())
             }
             _ => None,
@@ -499,42 +513,43 @@ impl Solver<'_, '_> {
         self.contributions.push(Contribution { plate: post as u32, item, route, kn });
     }
 
-    /// The forces a horizontal load applies, as points and vectors. A notional load takes its
-    /// percentage of the vertical load of `basis` if given, else of its own basis cases.
-    fn horizontal_forces(&self, kind: &LoadKind, basis: Option<&[Case]>) -> Vec<HorizontalForce> {
-        let scene = self.model.scene;
+    /// Resultant of the forces a horizontal load applies. A notional load takes its percentage
+    /// of the vertical load of `basis` if given, else of its own basis cases, at every node
+    /// where that load enters a post.
+    fn horizontal_resultant(&self, kind: &LoadKind, basis: Option<&[Case]>) -> Resultant {
+        let mut r = Resultant::default();
         match kind {
             LoadKind::Horizontal { x, y, level, kn, direction } => {
                 let (ux, uy) = direction.unit();
-                vec![HorizontalForce { at: [*x, *y, *level], force: [kn * ux, kn * uy] }]
+                r.add([*x, *y, *level], [kn * ux, kn * uy, 0.0]);
             }
             LoadKind::Wind { face, kpa, direction } => {
                 let (ux, uy) = direction.unit();
                 let (dx, dy) = (face.to.0 - face.from.0, face.to.1 - face.from.1);
                 let projected = (dx * uy - dy * ux).abs();
                 let f = kpa * projected * (face.top - face.bottom);
-                if f == 0.0 {
-                    return Vec::new();
-                }
                 let at = [0.5 * (face.from.0 + face.to.0), 0.5 * (face.from.1 + face.to.1), 0.5 * (face.bottom + face.top)];
-                vec![HorizontalForce { at, force: [f * ux, f * uy] }]
+                r.add(at, [f * ux, f * uy, 0.0]);
             }
             LoadKind::Notional { percent, direction, basis: own } => {
                 let basis = basis.unwrap_or(own);
                 let (ux, uy) = direction.unit();
                 let share = percent / 100.0;
-                let mut out = Vec::new();
-                for (node, &(post, level)) in self.nodes.at.iter().enumerate() {
-                    let v: f64 = basis.iter().map(|c| self.nodes.load[node][c.index()]).sum::<f64>();
-                    if v != 0.0 {
-                        let p = &scene.posts[post];
-                        out.push(HorizontalForce { at: [p.x, p.y, level], force: [share * v * ux, share * v * uy] });
-                    }
-                }
-                out
+                // Forces share·V·u at every node: only the node sums ΣV, ΣVx, ΣVy, ΣVz matter.
+                let [v, vx, vy, vz] = basis.iter().fold([0.0; 4], |a, c| {
+                    let m = self.nodes.moments[c.index()];
+                    [a[0] + m[0], a[1] + m[1], a[2] + m[2], a[3] + m[3]]
+                });
+                let (fx, fy) = (share * v * ux, share * v * uy);
+                r.force[0] += fx;
+                r.force[1] += fy;
+                r.moment[0] += -share * vz * uy;
+                r.moment[1] += share * vz * ux;
+                r.moment[2] += share * (vx * uy - vy * ux);
             }
-            _ => Vec::new(),
+            _ => {}
         }
+        r
     }
 }
 

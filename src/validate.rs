@@ -1,7 +1,7 @@
 //! Validation: every problem of a scene at once, with element ids, and the resolved geometry the
 //! solver works on (ids turned into indices, bearer and deck lines set up).
 
-use std::collections::HashMap;
+use crate::fxhash::FxMap as HashMap;
 use std::fmt;
 
 use crate::loads::{Intensity, LoadKind};
@@ -229,7 +229,7 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
     }
 
     // Ids: present and unique across the whole scene, so one id names one thing everywhere.
-    let mut seen: HashMap<&str, ElementKind> = HashMap::new();
+    let mut seen: HashMap<&str, ElementKind> = HashMap::default();
     for (kind, id) in scene.element_ids() {
         if id.trim().is_empty() {
             c.err(kind, id, "has an empty id");
@@ -305,7 +305,9 @@ fn check_posts(c: &mut Checker, support_ix: &HashMap<&str, usize>) -> Vec<Option
     let mut out = Vec::with_capacity(scene.posts.len());
     // Coincident posts: bucket plan positions into tolerance-sized cells.
     let cell = |v: f64| (v / GEOMETRY_TOLERANCE_M).round() as i64;
-    let mut cells: HashMap<(i64, i64), Vec<usize>> = HashMap::new();
+    // First post in each cell, and for each post the next one in its cell.
+    let mut cells: HashMap<(i64, i64), usize> = HashMap::default();
+    let mut next_in_cell: Vec<usize> = vec![usize::MAX; scene.posts.len()];
     for (i, p) in scene.posts.iter().enumerate() {
         let ok_x = c.number(K::Post, &p.id, "x (m)", p.x, LIMIT_M);
         let ok_y = c.number(K::Post, &p.id, "y (m)", p.y, LIMIT_M);
@@ -333,17 +335,21 @@ fn check_posts(c: &mut Checker, support_ix: &HashMap<&str, usize>) -> Vec<Option
             let (cx, cy) = (cell(p.x), cell(p.y));
             for dx in -1..=1 {
                 for dy in -1..=1 {
-                    for &j in cells.get(&(cx + dx, cy + dy)).map(Vec::as_slice).unwrap_or(&[]) {
+                    let mut j = cells.get(&(cx + dx, cy + dy)).copied().unwrap_or(usize::MAX);
+                    while j != usize::MAX {
                         let q = &scene.posts[j];
                         let close = (q.x - p.x).hypot(q.y - p.y) < GEOMETRY_TOLERANCE_M;
                         let overlap = p.base_level < q.top_level && q.base_level < p.top_level;
                         if close && overlap {
                             c.err(K::Post, &p.id, format!("stands in the same place as post {}", q.id));
                         }
+                        j = next_in_cell[j];
                     }
                 }
             }
-            cells.entry((cx, cy)).or_default().push(i);
+            if let Some(first) = cells.insert((cx, cy), i) {
+                next_in_cell[i] = first;
+            }
         }
     }
     out
@@ -353,7 +359,9 @@ fn check_bearers(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Vec<Option<
     use ElementKind as K;
     let scene = c.scene;
     let mut out = Vec::with_capacity(scene.bearers.len());
-    for b in &scene.bearers {
+    // Which bearer last listed each post, to spot a post listed twice in one bearer.
+    let mut listed_by = vec![usize::MAX; scene.posts.len()];
+    for (bi, b) in scene.bearers.iter().enumerate() {
         let id = b.id.as_str();
         let mut ok = c.number(K::Bearer, id, "level (m)", b.level, LIMIT_M);
         ok &= c.positive(K::Bearer, id, "start overhang (m)", b.overhang_start_m, LIMIT_M, true);
@@ -366,11 +374,14 @@ fn check_bearers(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Vec<Option<
                     c.err(K::Bearer, id, format!("post \"{pid}\" does not exist"));
                     ok = false;
                 }
-                Some(&ix) if posts.contains(&ix) => {
+                Some(&ix) if listed_by[ix] == bi => {
                     c.err(K::Bearer, id, format!("rests on post {pid} twice"));
                     ok = false;
                 }
-                Some(&ix) => posts.push(ix),
+                Some(&ix) => {
+                    listed_by[ix] = bi;
+                    posts.push(ix);
+                }
             }
         }
         if b.posts.is_empty() {
@@ -440,7 +451,8 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
     use ElementKind as K;
     let scene = c.scene;
     let mut out = Vec::with_capacity(scene.decks.len());
-    for d in &scene.decks {
+    let mut listed_by = vec![usize::MAX; scene.bearers.len()];
+    for (di, d) in scene.decks.iter().enumerate() {
         let id = d.id.as_str();
         let mut ok = c.number(K::Deck, id, "level (m)", d.level, LIMIT_M);
         c.positive(K::Deck, id, "self-weight (kPa)", d.self_weight_kpa, LIMIT_KN, true);
@@ -463,11 +475,14 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
                     c.err(K::Deck, id, format!("bearer \"{bid}\" does not exist"));
                     ok = false;
                 }
-                Some(&ix) if list.contains(&ix) => {
+                Some(&ix) if listed_by[ix] == di => {
                     c.err(K::Deck, id, format!("lists bearer {bid} twice"));
                     ok = false;
                 }
-                Some(&ix) => list.push(ix),
+                Some(&ix) => {
+                    listed_by[ix] = di;
+                    list.push(ix);
+                }
             }
         }
         if !ok || list.iter().any(|&b| bearers[b].is_none()) {
