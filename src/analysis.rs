@@ -119,6 +119,19 @@ impl Analysis {
     pub fn any_failure(&self) -> bool {
         self.plates.iter().any(|p| !p.status.is_ok())
     }
+    /// Base shear taken by the plates under each horizontal load on its own: (load id, case,
+    /// [x, y] kN). Opposite loads of one case would cancel in the case totals.
+    pub fn horizontal_base_shear(&self) -> Vec<(&str, Case, [f64; 2])> {
+        self.solution
+            .items
+            .iter()
+            .filter(|i| i.direction.is_some())
+            .map(|i| {
+                let s = i.shear.iter().fold([0.0; 2], |a, &(_, v)| [a[0] + v[0], a[1] + v[1]]);
+                (i.id.as_str(), i.case, s)
+            })
+            .collect()
+    }
     /// Total base shear per case, [x, y] kN.
     pub fn base_shear(&self) -> [[f64; 2]; 3] {
         let mut s = [[0.0; 2]; 3];

@@ -36,8 +36,16 @@ struct Doc<'a> {
     bases: Vec<Base<'a>>,
     totals: Totals,
     equilibrium: Vec<Equilibrium>,
+    horizontal_loads: Vec<HorizontalLoad<'a>>,
     stability: &'a Stability,
     warnings: Vec<String>,
+}
+
+#[derive(Serialize)]
+struct HorizontalLoad<'a> {
+    id: &'a str,
+    case: Case,
+    base_shear_kn: [f64; 2],
 }
 
 #[derive(Serialize)]
@@ -150,6 +158,7 @@ pub fn analysis_json(a: &Analysis) -> String {
             base_shear_kn: PerCase::of(a.base_shear()),
         },
         equilibrium: a.equilibrium.iter().map(Equilibrium::from).collect(),
+        horizontal_loads: a.horizontal_base_shear().into_iter().map(|(id, case, base_shear_kn)| HorizontalLoad { id, case, base_shear_kn }).collect(),
         stability: &a.stability,
         warnings: a.warnings.iter().map(|w| w.to_string()).collect(),
     };

@@ -223,15 +223,20 @@ fn solve_text(a: &Analysis) -> String {
             s,
             "  {}: applied {:>10.3} kN down, reactions {:>10.3} kN up, |ΣF| {:.1e} kN, |ΣM| {:.1e} kN·m, relative {:.1e}",
             e.case,
-            e.applied.down(),
-            e.reactions.force[2],
+            tidy(e.applied.down()),
+            tidy(e.reactions.force[2]),
             e.force_residual_kn,
             e.moment_residual_knm,
             e.relative
         );
     }
-    let shear = a.base_shear();
-    let _ = writeln!(s, "base shear: G ({:.3}, {:.3}) kN, Q ({:.3}, {:.3}) kN, W ({:.3}, {:.3}) kN", shear[0][0], shear[0][1], shear[1][0], shear[1][1], shear[2][0], shear[2][1]);
+    let horizontal = a.horizontal_base_shear();
+    if !horizontal.is_empty() {
+        let _ = writeln!(s, "base shear under each horizontal load (plates on the structure, kN):");
+        for (id, case, [x, y]) in horizontal {
+            let _ = writeln!(s, "  {id} ({case}): ({:.3}, {:.3}), {:.3} kN", tidy(x), tidy(y), x.hypot(y));
+        }
+    }
     let st = &a.stability;
     let _ = write!(s, "\nstability: permanent load {:.3} kN", st.permanent_kn);
     if let Some((x, y)) = st.centre_of_gravity {
@@ -264,6 +269,11 @@ fn solve_text(a: &Analysis) -> String {
         }
     }
     s
+}
+
+/// A value for printing: rounding noise around zero shown as 0.
+fn tidy(v: f64) -> f64 {
+    if v.abs() < 5e-10 { 0.0 } else { v }
 }
 
 #[cfg(feature = "viewer")]
