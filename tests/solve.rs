@@ -331,3 +331,52 @@ fn single_post_tee_head_must_balance() {
     let err = analyse(&s).unwrap_err().to_string();
     assert!(err.contains("bearer T") && err.contains("under load q"), "{err}");
 }
+
+mod properties {
+    use plateload::layout::{generate, LayoutSpec};
+    use plateload::loads::{Case, LoadKind, PlanDirection};
+    use plateload::Rect;
+    use proptest::prelude::*;
+
+    use crate::util::load;
+
+    /// A generated braced layout with a patch, a point load and a wind load placed at random.
+    fn scene(bx: usize, by: usize, sx: f64, sy: f64, lifts: usize, u: f64, v: f64, wind_deg: f64) -> plateload::Scene {
+        let spec = LayoutSpec { bays_x: bx, bays_y: by, bay_x_m: sx, bay_y_m: sy, lifts, deck_lifts: vec![lifts], ..LayoutSpec::default() };
+        let mut s = generate("prop", 200.0, &spec);
+        let deck = s.decks[0].id.clone();
+        let (w, d) = (bx as f64 * sx, by as f64 * sy);
+        let (x0, y0) = (u * w * 0.5, v * d * 0.5);
+        let area = Rect { x: (x0, x0 + 0.4 * w), y: (y0, y0 + 0.4 * d) };
+        s.loads.push(load("patch", Case::Q, LoadKind::DeckPatch { deck: deck.clone(), area, intensity: plateload::Intensity::Kpa(7.0) }));
+        s.loads.push(load("point", Case::G, LoadKind::DeckPoint { deck, x: u * w, y: v * d, kn: 4.0 }));
+        let face = plateload::loads::Face { from: (0.0, 0.0), to: (w, 0.0), bottom: 0.0, top: lifts as f64 * 2.0 };
+        s.loads.push(load("wind", Case::W, LoadKind::Wind { face, kpa: 0.4, direction: PlanDirection::Degrees(wind_deg) }));
+        s
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 64, ..ProptestConfig::default() })]
+
+        #[test]
+        fn moment_sum_vanishes_about_any_point(
+            bx in 1usize..5, by in 1usize..4, sx in 0.8f64..3.0, sy in 0.8f64..2.5, lifts in 1usize..4,
+            u in 0.0f64..1.0, v in 0.0f64..1.0, wind_deg in 0.0f64..360.0,
+            px in -50.0f64..50.0, py in -50.0f64..50.0, pz in -10.0f64..30.0,
+        ) {
+            // common practice, no source: ΣF = 0 and ΣM = 0 about every point, for each load item
+            let s = scene(bx, by, sx, sy, lifts, u, v, wind_deg);
+            let a = plateload::analyse(&s).unwrap();
+            let size = (bx as f64 * sx).max(by as f64 * sy) + px.abs().max(py.abs()) + pz.abs();
+            for item in &a.solution.items {
+                let total = item.applied.plus(&item.reaction_resultant(&a.solution.plates));
+                let f: f64 = item.applied.force.iter().map(|c| c.abs()).sum();
+                let m = total.moment_about([px, py, pz]);
+                let norm = (m[0] * m[0] + m[1] * m[1] + m[2] * m[2]).sqrt();
+                prop_assert!(norm <= 1e-9 * f.max(1e-6) * size, "item {} about ({px},{py},{pz}): {norm}", item.id);
+                let fr = (total.force[0].powi(2) + total.force[1].powi(2) + total.force[2].powi(2)).sqrt();
+                prop_assert!(fr <= 1e-9 * f.max(1e-6), "item {}: |ΣF| {fr}", item.id);
+            }
+        }
+    }
+}
