@@ -21,6 +21,7 @@ pub mod analysis;
 pub mod beam;
 pub mod check;
 pub mod combination;
+pub mod continuous;
 pub mod demo;
 pub mod io;
 pub mod json;
