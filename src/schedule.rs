@@ -29,9 +29,23 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
             c.source.clone(),
         ]);
     }
-    for e in &analysis.equilibrium {
+    let methods = analysis.method_count();
+    if methods == 1 {
+        rec(vec!["Method".into(), analysis.method_label(0).into()]);
+    } else {
+        let all: Vec<&str> = (0..methods).map(|m| analysis.method_label(m)).collect();
         rec(vec![
-            format!("Equilibrium {}", e.case),
+            "Method".into(),
+            "envelope: each max and min is the worse of the methods".into(),
+            format!("methods: {}", all.join("; ")),
+            format!("G, Q, W columns: {}", analysis.method_label(0)),
+        ]);
+    }
+    let tagged = analysis.equilibrium_by_method.iter().enumerate().flat_map(|(m, eq)| eq.iter().map(move |e| (m, e)));
+    for (m, e) in tagged {
+        let name = if m == 0 { format!("Equilibrium {}", e.case) } else { format!("Equilibrium {} [{}]", e.case, analysis.method_label(m)) };
+        rec(vec![
+            name,
             format!("applied {} kN", f3(e.applied.down())),
             format!("reactions {} kN", f3(e.reactions.force[2])),
             format!("|sum F| {:.3e} kN", e.force_residual_kn),
@@ -46,12 +60,12 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         head.push(format!("{} min (kN)", c.name));
     }
     head.extend(
-        ["SWL (kN)", "utilisation", "governing combination", "bearing area (m2)", "bearing pressure (kPa)", "allowable (kPa)", "bearing utilisation", "status"]
+        ["SWL (kN)", "utilisation", "governing combination", "method for max", "method for min", "bearing area (m2)", "bearing pressure (kPa)", "allowable (kPa)", "bearing utilisation", "status"]
             .map(String::from),
     );
     rec(head);
     let mut totals = [0.0; 3];
-    for p in &analysis.plates {
+    for (i, p) in analysis.plates.iter().enumerate() {
         let g = p.governing();
         let mut row = vec![p.id.clone(), f3(p.x), f3(p.y), f3(p.base_level), p.support.clone()];
         for c in Case::ALL {
@@ -66,6 +80,8 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
             f3(p.swl_kn),
             f3(g.utilisation),
             analysis.combinations[p.governing].name.clone(),
+            analysis.governing_method_label(i).into(),
+            analysis.min_method_label(i).into(),
             format!("{:.4}", p.bearing_area_m2),
             format!("{:.1}", g.bearing_kpa),
             format!("{:.1}", p.allowable_kpa),
