@@ -408,7 +408,7 @@ impl Default for MemberStiffness {
 pub const STEEL_E_KPA: f64 = 210.0e6;
 
 /// Second moment of area of a 48.3 × 4.0 mm tube, m⁴: π (D⁴ − d⁴) / 64 with D = 48.3 mm,
-/// d = 40.3 mm, = 13.78 cm⁴ (a 48.3 × 3.2 tube has 11.59 cm⁴).
+/// d = 40.3 mm, = 13.77 cm⁴ (a 48.3 × 3.2 tube has 11.59 cm⁴).
 // source: dimensions EN 39:2001 (type 4 tube); the formula is the section property of a circular
 // hollow section; the tabulated 13.8 cm⁴ of EN 10219-2 / EN 12811-1 tables is from memory.
 pub const TUBE_I_M4: f64 = std::f64::consts::PI * (0.0483 * 0.0483 * 0.0483 * 0.0483 - 0.0403 * 0.0403 * 0.0403 * 0.0403) / 64.0;
