@@ -209,7 +209,7 @@ impl ContinuousBeam {
                 }
             }
             BeamLoad::Uniform { from, to, w } => {
-                if w == 0.0 || !(to > from) {
+                if w == 0.0 || to.partial_cmp(&from) != Some(std::cmp::Ordering::Greater) {
                     return false;
                 }
                 let mut any = false;

@@ -223,8 +223,8 @@ impl Behaviour {
         }
     }
 
-    /// How a member with its own setting `own` behaves in `pass` of a scene whose method is
-    /// `scene_method`, on the level (decks or bearers) whose enveloped members behave as `level`.
+    /// How a member with its own setting `own` behaves in a scene whose method is `scene_method`,
+    /// in a pass where the enveloped members of its level (decks or bearers) behave as `level`.
     fn of(own: Option<BeamMethod>, scene_method: BeamMethod, level: Behaviour) -> Behaviour {
         match own.unwrap_or(scene_method) {
             BeamMethod::SimpleSpans => Behaviour::SimpleSpans,
@@ -263,9 +263,8 @@ impl MethodPass {
 /// two mixtures of decks and bearers.
 pub fn method_passes(scene: &Scene) -> Vec<MethodPass> {
     let global = scene.analysis.method;
-    let methods_of = |own: &mut dyn Iterator<Item = Option<BeamMethod>>| -> Vec<BeamMethod> { own.map(|m| m.unwrap_or(global)).collect() };
-    let decks = methods_of(&mut scene.decks.iter().map(|d| d.method));
-    let bearers = methods_of(&mut scene.bearers.iter().map(|b| b.method));
+    let decks: Vec<BeamMethod> = scene.decks.iter().map(|d| d.method.unwrap_or(global)).collect();
+    let bearers: Vec<BeamMethod> = scene.bearers.iter().map(|b| b.method.unwrap_or(global)).collect();
     let enveloped = |ms: &[BeamMethod]| ms.contains(&BeamMethod::Envelope);
     // A level without enveloped members is described by what its members are set to.
     let fixed = |ms: &[BeamMethod]| -> Option<&'static str> {
