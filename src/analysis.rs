@@ -1,11 +1,11 @@
 //! One call from a scene to everything a site team needs: validate, solve, combine, check,
 //! prove equilibrium and summarise stability.
 
-use crate::check::{bearing_area, combine, PlateCombination, Status};
+use crate::check::{bearing_area, combine_envelope, PlateCombination, Status};
 use crate::combination::Combination;
 use crate::loads::Case;
 use crate::model::Scene;
-use crate::solve::{solve, Resultant, Solution, SolveError};
+use crate::solve::{solve_methods, MethodPass, Resultant, Solution, SolveError};
 use crate::stability::{stability, Stability};
 use crate::validate::{validate, Braced, Problem, ValidationError};
 
@@ -44,12 +44,26 @@ pub struct PlateResult {
     pub case_kn: [f64; 3],
     /// Horizontal reaction per case (G, Q, W), [x, y] kN.
     pub case_shear_kn: [[f64; 2]; 3],
-    /// Results under each combination, in the scene's order.
+    /// Results under each combination, in the scene's order: the envelope over the method
+    /// passes (the larger maximum, the smaller minimum), each naming the pass that gave it.
     pub combinations: Vec<PlateCombination>,
     /// Index of the combination that governs the utilisation.
     pub governing: usize,
     /// Findings over all combinations.
     pub status: Status,
+    /// Method pass ([`Analysis::method_label`]) that gives the maximum of the governing
+    /// combination.
+    pub governing_method: usize,
+    /// Method pass that gives the lowest minimum over the combinations that check uplift (over
+    /// all combinations if none does).
+    pub min_method: usize,
+    /// Whether every method pass gives this plate the same maximum and minimum in every
+    /// combination (within 1e-6 relative): then the method does not matter here.
+    pub methods_agree: bool,
+    /// Vertical reaction per case (G, Q, W) under each method pass, kN; `[0]` equals `case_kn`.
+    pub case_kn_by_method: Vec<[f64; 3]>,
+    /// Results under each combination for each method pass alone: `[pass][combination]`.
+    pub combinations_by_method: Vec<Vec<PlateCombination>>,
 }
 
 impl PlateResult {
@@ -85,12 +99,17 @@ pub struct Analysis {
     pub scene_name: String,
     /// Combinations checked, in order.
     pub combinations: Vec<Combination>,
-    /// The solver's per-item reactions and trace.
+    /// The solver's per-item reactions and trace, under the primary method pass (the case loads
+    /// of [`PlateResult::case_kn`] and [`Analysis::equilibrium`] come from it).
     pub solution: Solution,
+    /// The solutions of the other method passes, in pass order (empty when one pass suffices).
+    pub other_solutions: Vec<Solution>,
     /// One result per base plate, in post order.
     pub plates: Vec<PlateResult>,
-    /// Equilibrium proof per case (G, Q, W).
+    /// Equilibrium proof per case (G, Q, W), primary method pass.
     pub equilibrium: [CaseEquilibrium; 3],
+    /// Equilibrium proof per case for every method pass; `[0]` equals `equilibrium`.
+    pub equilibrium_by_method: Vec<[CaseEquilibrium; 3]>,
     /// Stability summary.
     pub stability: Stability,
     /// Braced plan directions.
@@ -111,9 +130,36 @@ impl Analysis {
     pub fn plate_index(&self, id: &str) -> Option<usize> {
         self.plates.iter().position(|p| p.id == id)
     }
-    /// Worst relative equilibrium residual over the cases.
+    /// Worst relative equilibrium residual over the cases and method passes.
     pub fn worst_residual(&self) -> f64 {
-        self.equilibrium.iter().map(|e| e.relative).fold(0.0, f64::max)
+        self.equilibrium_by_method.iter().flatten().chain(&self.equilibrium).map(|e| e.relative).fold(0.0, f64::max)
+    }
+    /// Number of method passes solved.
+    pub fn method_count(&self) -> usize {
+        1 + self.other_solutions.len()
+    }
+    /// Solution of method pass `m` (0 = primary).
+    pub fn solution_of(&self, m: usize) -> &Solution {
+        if m == 0 { &self.solution } else { &self.other_solutions[m - 1] }
+    }
+    /// Method pass `m`.
+    pub fn method(&self, m: usize) -> &MethodPass {
+        &self.solution_of(m).method
+    }
+    /// Name of method pass `m`, e.g. `continuous`.
+    pub fn method_label(&self, m: usize) -> &str {
+        &self.method(m).label
+    }
+    /// What governs a plate's maximum, for outputs: the pass's name, or `any (methods agree)`
+    /// when several passes were solved and all give this plate the same loads.
+    pub fn governing_method_label(&self, plate: usize) -> &str {
+        let p = &self.plates[plate];
+        if self.method_count() > 1 && p.methods_agree { METHODS_AGREE } else { self.method_label(p.governing_method) }
+    }
+    /// What governs a plate's minimum, for outputs, as [`Analysis::governing_method_label`].
+    pub fn min_method_label(&self, plate: usize) -> &str {
+        let p = &self.plates[plate];
+        if self.method_count() > 1 && p.methods_agree { METHODS_AGREE } else { self.method_label(p.min_method) }
     }
     /// Whether any plate is over capacity or lifts.
     pub fn any_failure(&self) -> bool {
@@ -145,18 +191,26 @@ impl Analysis {
     }
 }
 
+/// Output label of a plate whose loads are the same under every method pass.
+pub const METHODS_AGREE: &str = "any (methods agree)";
+
+/// Relative tolerance within which two method passes count as agreeing at a plate.
+const AGREE_RELATIVE: f64 = 1e-6;
+
 /// Validate, solve and check a scene.
 pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
     let model = validate(scene).map_err(AnalysisError::Invalid)?;
-    let solution = solve(&model).map_err(AnalysisError::Unsolvable)?;
-    let per_plate = combine(scene, &solution, &model.post_support);
-    let case_kn = solution.case_vertical();
-    let case_shear = solution.case_shear();
+    let mut solutions = solve_methods(&model).map_err(AnalysisError::Unsolvable)?;
+    let envelope = combine_envelope(scene, &solutions, &model.post_support);
+    let case_by_method: Vec<Vec<[f64; 3]>> = solutions.iter().map(Solution::case_vertical).collect();
+    let case_shear = solutions[0].case_shear();
     let capacity_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_capacity).collect();
+    let uplift_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_uplift).collect();
+    let all_combos: Vec<usize> = (0..scene.combinations.len()).collect();
     let plates = scene
         .posts
         .iter()
-        .zip(per_plate)
+        .zip(envelope.envelope)
         .enumerate()
         .map(|(i, (post, combinations))| {
             let support = &scene.support_types[model.post_support[i]];
@@ -166,6 +220,17 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
                 .max_by(|&a, &b| combinations[a].utilisation.partial_cmp(&combinations[b].utilisation).unwrap_or(std::cmp::Ordering::Equal))
                 .unwrap_or(0);
             let status = combinations.iter().fold(Status::default(), |s, c| s.or(c.status));
+            let lows: &[usize] = if uplift_combos.is_empty() { &all_combos } else { &uplift_combos };
+            let lowest = lows
+                .iter()
+                .copied()
+                .min_by(|&a, &b| combinations[a].min_kn.partial_cmp(&combinations[b].min_kn).unwrap_or(std::cmp::Ordering::Equal))
+                .unwrap_or(0);
+            let combinations_by_method: Vec<Vec<PlateCombination>> = envelope.by_method.iter().map(|m| m[i].clone()).collect();
+            let same = |a: f64, b: f64| (a - b).abs() <= AGREE_RELATIVE * a.abs().max(b.abs()).max(1.0);
+            let methods_agree = combinations_by_method
+                .iter()
+                .all(|m| m.iter().zip(&combinations).all(|(c, e)| same(c.max_kn, e.max_kn) && same(c.min_kn, e.min_kn)));
             PlateResult {
                 id: post.id.clone(),
                 x: post.x,
@@ -175,22 +240,39 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
                 swl_kn: support.swl_kn,
                 bearing_area_m2: bearing_area(scene, support),
                 allowable_kpa: scene.site.allowable_bearing_kpa,
-                case_kn: case_kn[i],
+                case_kn: case_by_method[0][i],
                 case_shear_kn: case_shear[i],
+                governing_method: combinations.get(governing).map_or(0, |c| c.max_method),
+                min_method: combinations.get(lowest).map_or(0, |c| c.min_method),
+                methods_agree,
+                case_kn_by_method: case_by_method.iter().map(|m| m[i]).collect(),
+                combinations_by_method,
                 combinations,
                 governing,
                 status,
             }
         })
         .collect();
-    let equilibrium = equilibrium(&solution);
-    let stability = stability(&solution, scene.stability.target_factor);
+    let equilibrium_by_method: Vec<[CaseEquilibrium; 3]> = solutions.iter().map(equilibrium).collect();
+    // Overturning depends on the applied loads only; a notional load's follows the vertical
+    // load into each post, which the method can shift between levels. The worst pass is kept.
+    let stability = solutions
+        .iter()
+        .map(|s| stability(s, scene.stability.target_factor))
+        .min_by(|a, b| {
+            let f = |s: &Stability| s.governing().and_then(|d| d.factor).unwrap_or(f64::INFINITY);
+            f(a).partial_cmp(&f(b)).unwrap_or(std::cmp::Ordering::Equal)
+        })
+        .expect("at least one method pass");
+    let solution = solutions.remove(0);
     Ok(Analysis {
         scene_name: scene.site.name.clone(),
         combinations: scene.combinations.clone(),
         solution,
+        other_solutions: solutions,
         plates,
-        equilibrium,
+        equilibrium: equilibrium_by_method[0],
+        equilibrium_by_method,
         stability,
         braced: model.braced,
         warnings: model.warnings,

@@ -57,6 +57,8 @@ pub enum Piece {
     EndOverhang,
     /// The whole member on its only support.
     Single,
+    /// The whole member, continuous over all its supports ([`crate::continuous`]).
+    Continuous,
 }
 
 /// Share one load among the supports by segment moment balance.

@@ -78,6 +78,10 @@ pub struct PlateCombination {
     pub utilisation: f64,
     /// What this combination finds (only the checks it is set to make).
     pub status: Status,
+    /// Method pass ([`crate::solve::method_passes`]) that gives `max_kn`: the first of equals.
+    pub max_method: usize,
+    /// Method pass that gives `min_kn`: the first of equals.
+    pub min_method: usize,
 }
 
 /// Combine the case reactions of every plate under every combination.
@@ -159,7 +163,58 @@ fn plate_combination(comb: &Combination, max_kn: f64, min_kn: f64, swl: f64, are
         over: comb.checks_capacity && utilisation > 1.0 + 1e-9,
         uplift: comb.checks_uplift && min_kn < -UPLIFT_TOLERANCE_KN,
     };
-    PlateCombination { max_kn, min_kn, load_utilisation, bearing_kpa, bearing_utilisation, utilisation, status }
+    PlateCombination { max_kn, min_kn, load_utilisation, bearing_kpa, bearing_utilisation, utilisation, status, max_method: 0, min_method: 0 }
+}
+
+/// Relative margin by which a later method pass must exceed an earlier one to govern: below it
+/// the two are the same number up to rounding, and the earlier (primary) pass is named.
+pub const METHOD_TIE_RELATIVE: f64 = 1e-9;
+
+/// Combined plate loads of several method passes of one scene.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MethodEnvelope {
+    /// Per plate and combination: the largest maximum and the smallest minimum over the passes,
+    /// checked as one, with the pass that gave each.
+    pub envelope: Vec<Vec<PlateCombination>>,
+    /// The same per pass: `[pass][plate][combination]`.
+    pub by_method: Vec<Vec<Vec<PlateCombination>>>,
+}
+
+/// [`combine`] every solution (one per method pass, in pass order) and take, per plate and
+/// combination, the larger maximum and the smaller minimum. The structure's behaviour is one for
+/// all loads of a combination, so each pass is combined whole before the envelope is taken.
+pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[usize]) -> MethodEnvelope {
+    let by_method: Vec<_> = solutions.iter().map(|s| combine(scene, s, post_support)).collect();
+    let bearing: Vec<f64> = scene.support_types.iter().map(|s| bearing_area(scene, s)).collect();
+    let allowable = scene.site.allowable_bearing_kpa;
+    let n = solutions.first().map_or(0, |s| s.plates.len());
+    let envelope = (0..n)
+        .map(|p| {
+            scene
+                .combinations
+                .iter()
+                .enumerate()
+                .map(|(c, comb)| {
+                    let (mut hi, mut lo) = ((f64::NEG_INFINITY, 0), (f64::INFINITY, 0));
+                    for (m, per_plate) in by_method.iter().enumerate() {
+                        let pc = per_plate[p][c];
+                        if pc.max_kn > hi.0 + METHOD_TIE_RELATIVE * hi.0.abs().max(1.0) || m == 0 {
+                            hi = (pc.max_kn, m);
+                        }
+                        if pc.min_kn < lo.0 - METHOD_TIE_RELATIVE * lo.0.abs().max(1.0) || m == 0 {
+                            lo = (pc.min_kn, m);
+                        }
+                    }
+                    let support = &scene.support_types[post_support[p]];
+                    let mut out = plate_combination(comb, hi.0, lo.0, support.swl_kn, bearing[post_support[p]], allowable);
+                    out.max_method = hi.1;
+                    out.min_method = lo.1;
+                    out
+                })
+                .collect()
+        })
+        .collect();
+    MethodEnvelope { envelope, by_method }
 }
 
 #[cfg(test)]

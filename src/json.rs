@@ -1,5 +1,11 @@
 //! The machine-readable result: one JSON document whose shape is documented in the README
 //! ("JSON output") and versioned by `plateload_json`.
+//!
+//! Method fields (added without a version change; old readers can ignore them): `methods` lists
+//! the method passes solved, primary first (its loads fill `cases_kn` and `equilibrium`); each
+//! base has `governing_method` and `min_method` (a pass name, or `any (methods agree)`) and
+//! `cases_kn_by_method`; each base combination has `max_method` and `min_method`;
+//! `equilibrium_by_method` proves every pass.
 
 use serde::Serialize;
 
@@ -33,10 +39,12 @@ struct Doc<'a> {
     scene: &'a str,
     units: Units,
     combinations: &'a [crate::Combination],
+    methods: Vec<&'a str>,
     bases: Vec<Base<'a>>,
     totals: Totals,
     equilibrium: Vec<Equilibrium>,
     horizontal_loads: Vec<HorizontalLoad<'a>>,
+    equilibrium_by_method: Vec<MethodEquilibrium<'a>>,
     stability: &'a Stability,
     warnings: Vec<String>,
 }
@@ -72,7 +80,23 @@ struct Base<'a> {
     utilisation: f64,
     bearing_kpa: f64,
     governing_combination: &'a str,
+    governing_method: &'a str,
+    min_method: &'a str,
+    cases_kn_by_method: Vec<MethodCases<'a>>,
     status: &'static str,
+}
+
+#[derive(Serialize)]
+struct MethodCases<'a> {
+    method: &'a str,
+    #[serde(flatten)]
+    cases_kn: PerCase<f64>,
+}
+
+#[derive(Serialize)]
+struct MethodEquilibrium<'a> {
+    method: &'a str,
+    cases: Vec<Equilibrium>,
 }
 
 #[derive(Serialize)]
@@ -85,6 +109,8 @@ struct BaseCombination<'a> {
     bearing_utilisation: f64,
     utilisation: f64,
     status: &'static str,
+    max_method: &'a str,
+    min_method: &'a str,
 }
 
 #[derive(Serialize)]
@@ -113,7 +139,8 @@ pub fn analysis_json(a: &Analysis) -> String {
     let bases = a
         .plates
         .iter()
-        .map(|p| Base {
+        .enumerate()
+        .map(|(i, p)| Base {
             id: &p.id,
             x: p.x,
             y: p.y,
@@ -137,11 +164,16 @@ pub fn analysis_json(a: &Analysis) -> String {
                     bearing_utilisation: c.bearing_utilisation,
                     utilisation: c.utilisation,
                     status: c.status.label(),
+                    max_method: a.method_label(c.max_method),
+                    min_method: a.method_label(c.min_method),
                 })
                 .collect(),
             utilisation: p.governing().utilisation,
             bearing_kpa: p.governing().bearing_kpa,
             governing_combination: &a.combinations[p.governing].name,
+            governing_method: a.governing_method_label(i),
+            min_method: a.min_method_label(i),
+            cases_kn_by_method: p.case_kn_by_method.iter().enumerate().map(|(m, &c)| MethodCases { method: a.method_label(m), cases_kn: PerCase::of(c) }).collect(),
             status: p.status.label(),
         })
         .collect();
@@ -151,6 +183,7 @@ pub fn analysis_json(a: &Analysis) -> String {
         scene: &a.scene_name,
         units: Units { force: "kN", length: "m", pressure: "kPa", moment: "kN.m" },
         combinations: &a.combinations,
+        methods: (0..a.method_count()).map(|m| a.method_label(m)).collect(),
         bases,
         totals: Totals {
             applied_kn: PerCase::of(a.equilibrium.map(|e| e.applied.down())),
@@ -159,6 +192,12 @@ pub fn analysis_json(a: &Analysis) -> String {
         },
         equilibrium: a.equilibrium.iter().map(Equilibrium::from).collect(),
         horizontal_loads: a.horizontal_base_shear().into_iter().map(|(id, case, base_shear_kn)| HorizontalLoad { id, case, base_shear_kn }).collect(),
+        equilibrium_by_method: a
+            .equilibrium_by_method
+            .iter()
+            .enumerate()
+            .map(|(m, eq)| MethodEquilibrium { method: a.method_label(m), cases: eq.iter().map(Equilibrium::from).collect() })
+            .collect(),
         stability: &a.stability,
         warnings: a.warnings.iter().map(|w| w.to_string()).collect(),
     };

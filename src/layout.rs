@@ -123,6 +123,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 overhang_start_m: 0.0,
                 overhang_end_m: 0.0,
                 self_weight_kn_per_m: STEEL_TUBE_KN_PER_M,
+                method: None,
             });
         }
         for i in 0..nx {
@@ -134,6 +135,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 overhang_start_m: 0.0,
                 overhang_end_m: 0.0,
                 self_weight_kn_per_m: STEEL_TUBE_KN_PER_M,
+                method: None,
             });
         }
         if deck {
@@ -144,6 +146,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 extent: Rect { x: (x(0), x(nx - 1)), y: (y(0), y(ny - 1)) },
                 bearers: scene.bearers[first_bearer..first_bearer + ny].iter().map(|b| b.id.clone()).collect(),
                 self_weight_kpa: spec.deck_self_weight_kpa,
+                method: None,
             });
             if let Some(class) = spec.duty_class {
                 scene.loads.push(Load { id: format!("{p}Q-{id}"), case: Case::Q, kind: LoadKind::DeckArea { deck: id, intensity: Intensity::DutyUniform(class) } });

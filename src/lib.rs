@@ -7,11 +7,12 @@
 //!   loads tagged G / Q / W, combinations — plain data, read and written as RON by [`io`].
 //! - **validate** ([`validate()`]): every problem at once, with element ids; resolves ids to
 //!   indices and sets up member lines ([`Model`]).
-//! - **solve** ([`solve()`]): each load item is carried deck strip → bearer segment → post →
-//!   base plate by segment moment balance ([`beam`]); horizontal loads go to the plates through
-//!   the rigid braced base ([`rigid_base`]). Every share is kept for tracing ([`trace`]).
-//! - **check** ([`analyse`]): combinations, uplift, utilisation of jack and ground, equilibrium
-//!   proof per case, stability ([`stability`]).
+//! - **solve** ([`solve()`]): each load item is carried deck strip → bearer → post → base plate,
+//!   by segment moment balance ([`beam`]) or over continuous members ([`continuous`]) — both, in
+//!   separate method passes, by default; horizontal loads go to the plates through the rigid
+//!   braced base ([`rigid_base`]). Every share is kept for tracing ([`trace`]).
+//! - **check** ([`analyse`]): combinations, the worse method pass at every plate, uplift,
+//!   utilisation of jack and ground, equilibrium proof per case and pass, stability ([`stability`]).
 //! - **export**: the support-load schedule ([`schedule`]) and JSON ([`json`]).
 //!
 //! Units: m, kN, kPa, kN·m. Results are a planning aid; see [`CAUTION`].
@@ -21,6 +22,7 @@ pub mod analysis;
 pub mod beam;
 pub mod check;
 pub mod combination;
+pub mod continuous;
 pub mod demo;
 mod fxhash;
 pub mod io;
@@ -40,7 +42,7 @@ pub use analysis::{analyse, Analysis, AnalysisError, CaseEquilibrium, PlateResul
 pub use check::Status;
 pub use combination::{Combination, Factors};
 pub use loads::{Case, Intensity, Load, LoadKind, PlanDirection};
-pub use model::{Bearer, Brace, Deck, Post, Rect, Scene, Site, SupportType};
+pub use model::{AnalysisSettings, BeamMethod, Bearer, Brace, Deck, Post, Rect, Scene, Site, SupportType};
 pub use solve::{solve, Solution, SolveError};
 pub use validate::{validate, Model, Problem, ValidationError};
 

@@ -199,14 +199,14 @@ fn solve_text(a: &Analysis) -> String {
     for c in &a.combinations {
         let _ = write!(s, " {:>21}", format!("{} max/min kN", c.name));
     }
-    let _ = writeln!(s, " {:>7} {:>9} {:>12}  status", "util %", "kPa", "governs");
-    for p in &a.plates {
+    let _ = writeln!(s, " {:>7} {:>9} {:>12}  {:<20} status", "util %", "kPa", "governs", "method");
+    for (i, p) in a.plates.iter().enumerate() {
         let _ = write!(s, "{:<10} {:>8.3} {:>8.3} {:>9.3} {:>9.3} {:>9.3}", p.id, p.x, p.y, p.case_kn[0], p.case_kn[1], p.case_kn[2]);
         for c in &p.combinations {
             let _ = write!(s, " {:>10.3}/{:<10.3}", c.max_kn, c.min_kn);
         }
         let g = p.governing();
-        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {}", 100.0 * g.utilisation, g.bearing_kpa, a.combinations[p.governing].name, p.status);
+        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<20} {}", 100.0 * g.utilisation, g.bearing_kpa, a.combinations[p.governing].name, a.governing_method_label(i), p.status);
     }
     if let Some(w) = a.worst_plate() {
         let p = &a.plates[w];
@@ -217,11 +217,19 @@ fn solve_text(a: &Analysis) -> String {
     let over = a.plates.iter().filter(|p| p.status.over).count();
     let uplift = a.plates.iter().filter(|p| p.status.uplift).count();
     let _ = writeln!(s, "over capacity: {over}   lifting: {uplift}   of {} base plates", a.plates.len());
+    let methods: Vec<&str> = (0..a.method_count()).map(|m| a.method_label(m)).collect();
+    if methods.len() > 1 {
+        let _ = writeln!(s, "method: envelope of {} (each max and min is the worse; G/Q/W columns: {})", methods.join("; "), methods[0]);
+    } else {
+        let _ = writeln!(s, "method: {}", methods[0]);
+    }
     let _ = writeln!(s, "\nequilibrium (applied loads against base reactions):");
-    for e in &a.equilibrium {
+    let tagged = a.equilibrium_by_method.iter().enumerate().flat_map(|(m, eq)| eq.iter().map(move |e| (m, e)));
+    for (m, e) in tagged {
+        let tag = if methods.len() > 1 { format!(" [{}]", methods[m]) } else { String::new() };
         let _ = writeln!(
             s,
-            "  {}: applied {:>10.3} kN down, reactions {:>10.3} kN up, |ΣF| {:.1e} kN, |ΣM| {:.1e} kN·m, relative {:.1e}",
+            "  {}{tag}: applied {:>10.3} kN down, reactions {:>10.3} kN up, |ΣF| {:.1e} kN, |ΣM| {:.1e} kN·m, relative {:.1e}",
             e.case,
             tidy(e.applied.down()),
             tidy(e.reactions.force[2]),

@@ -49,6 +49,10 @@ pub struct Scene {
     /// Settings of the overturning check.
     #[serde(default)]
     pub stability: StabilitySettings,
+    /// How members share load among their supports. Omitted in older files (and not written
+    /// while it holds the defaults): the defaults.
+    #[serde(default, skip_serializing_if = "AnalysisSettings::is_default")]
+    pub analysis: AnalysisSettings,
 }
 
 fn format_version() -> u32 {
@@ -202,6 +206,10 @@ pub struct Bearer {
     /// Self-weight, kN/m. Default: 48.3 × 4.0 steel tube.
     #[serde(default = "steel_tube")]
     pub self_weight_kn_per_m: f64,
+    /// How this member shares load among its posts, if not as the scene's
+    /// [`AnalysisSettings::method`].
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub method: Option<BeamMethod>,
 }
 
 /// A deck spanning across parallel bearers.
@@ -218,6 +226,10 @@ pub struct Deck {
     pub bearers: Vec<String>,
     /// Self-weight of the decking, kPa.
     pub self_weight_kpa: f64,
+    /// How this deck shares load among its bearers, if not as the scene's
+    /// [`AnalysisSettings::method`].
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub method: Option<BeamMethod>,
 }
 
 /// An axis-aligned rectangle in plan, m.
@@ -304,6 +316,120 @@ fn steel_tube() -> f64 {
     STEEL_TUBE_KN_PER_M
 }
 
+/// How a member (bearer, ledger, transom, or a deck across its bearers) shares its load among
+/// its supports.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+pub enum BeamMethod {
+    /// Every span between two supports is simply supported; overhangs are balanced about the
+    /// end support. The way the load path is traced by hand; right for members jointed at every
+    /// support.
+    SimpleSpans,
+    /// The member is continuous over all its supports (elastic, direct stiffness method). Inner
+    /// supports take more: 1.25 wL at the middle of two equal spans instead of 1.0 wL.
+    Continuous,
+    /// Both, and each base plate takes whichever is worse: the larger maximum and the smaller
+    /// minimum. The default, since a member's continuity is rarely certain on site.
+    #[default]
+    Envelope,
+}
+
+impl BeamMethod {
+    /// Short name for outputs.
+    pub fn label(self) -> &'static str {
+        match self {
+            BeamMethod::SimpleSpans => "simple spans",
+            BeamMethod::Continuous => "continuous",
+            BeamMethod::Envelope => "envelope",
+        }
+    }
+}
+
+/// How members share load among their supports, and their bending stiffness.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize, Default)]
+#[serde(deny_unknown_fields)]
+pub struct AnalysisSettings {
+    /// Method for every member that does not set its own.
+    #[serde(default)]
+    pub method: BeamMethod,
+    /// Bending stiffness of each kind of member, for the continuous method.
+    #[serde(default)]
+    pub stiffness: MemberStiffness,
+}
+
+impl AnalysisSettings {
+    /// Whether these are the default settings (they are then left out of scene files).
+    pub fn is_default(&self) -> bool {
+        *self == AnalysisSettings::default()
+    }
+}
+
+/// Bending stiffness EI of each kind of member, used by the continuous method.
+///
+/// A member has one section along its length, and the reactions of a continuous member of one
+/// section do not depend on its EI (the stiffness matrix scales with EI, the loads do not), so
+/// these values change no result today. They are kept, validated and passed to the analysis so
+/// that support settlement or members of several sections can be added without a file change.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct MemberStiffness {
+    /// Bearers, kN·m². Default: 48.3 × 4.0 steel tube.
+    #[serde(default = "tube_ei")]
+    pub bearer_knm2: f64,
+    /// Ledgers, kN·m². Default: 48.3 × 4.0 steel tube.
+    #[serde(default = "tube_ei")]
+    pub ledger_knm2: f64,
+    /// Transoms, kN·m². Default: 48.3 × 4.0 steel tube.
+    #[serde(default = "tube_ei")]
+    pub transom_knm2: f64,
+    /// Decks, per metre of width, kN·m²/m. Default: 38 mm C24 timber boards.
+    #[serde(default = "board_ei")]
+    pub deck_knm2_per_m: f64,
+}
+
+impl MemberStiffness {
+    /// Stiffness of a member of the given role, kN·m².
+    pub fn of(&self, role: BeamRole) -> f64 {
+        match role {
+            BeamRole::Bearer => self.bearer_knm2,
+            BeamRole::Ledger => self.ledger_knm2,
+            BeamRole::Transom => self.transom_knm2,
+        }
+    }
+}
+
+impl Default for MemberStiffness {
+    fn default() -> Self {
+        MemberStiffness { bearer_knm2: TUBE_EI_KNM2, ledger_knm2: TUBE_EI_KNM2, transom_knm2: TUBE_EI_KNM2, deck_knm2_per_m: BOARD_EI_KNM2_PER_M }
+    }
+}
+
+/// Young's modulus of structural steel, kPa (210 000 N/mm²).
+// source: EN 1993-1-1 cl. 3.2.6 (from memory)
+pub const STEEL_E_KPA: f64 = 210.0e6;
+
+/// Second moment of area of a 48.3 × 4.0 mm tube, m⁴: π (D⁴ − d⁴) / 64 with D = 48.3 mm,
+/// d = 40.3 mm, = 13.77 cm⁴ (a 48.3 × 3.2 tube has 11.59 cm⁴).
+// source: dimensions EN 39:2001 (type 4 tube); the formula is the section property of a circular
+// hollow section; the tabulated 13.8 cm⁴ of EN 10219-2 / EN 12811-1 tables is from memory.
+pub const TUBE_I_M4: f64 = std::f64::consts::PI * (0.0483 * 0.0483 * 0.0483 * 0.0483 - 0.0403 * 0.0403 * 0.0403 * 0.0403) / 64.0;
+
+/// EI of a 48.3 × 4.0 mm steel tube, kN·m² (≈ 28.9).
+pub const TUBE_EI_KNM2: f64 = STEEL_E_KPA * TUBE_I_M4;
+
+/// EI of 38 mm timber boards per metre of deck width, kN·m²/m: E₀,mean = 11 000 N/mm² (C24)
+/// × 1.0 × 0.038³ / 12 m⁴/m ≈ 50.3.
+// source: C24 mean modulus parallel to grain, EN 338 (from memory); board thickness as BS 2482
+// (see REFERENCES §5).
+pub const BOARD_EI_KNM2_PER_M: f64 = 11.0e6 * 0.038 * 0.038 * 0.038 / 12.0;
+
+fn tube_ei() -> f64 {
+    TUBE_EI_KNM2
+}
+
+fn board_ei() -> f64 {
+    BOARD_EI_KNM2_PER_M
+}
+
 impl Scene {
     /// An empty scene on a site with the given name and allowable bearing pressure.
     pub fn empty(name: &str, allowable_bearing_kpa: f64) -> Self {
@@ -318,6 +444,7 @@ impl Scene {
             loads: Vec::new(),
             combinations: Combination::defaults(),
             stability: StabilitySettings::default(),
+            analysis: AnalysisSettings::default(),
         }
     }
 

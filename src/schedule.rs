@@ -108,9 +108,23 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
             c.source.clone(),
         ]);
     }
-    for e in &analysis.equilibrium {
+    let methods = analysis.method_count();
+    if methods == 1 {
+        w.record(&["Method", analysis.method_label(0)]);
+    } else {
+        let all: Vec<&str> = (0..methods).map(|m| analysis.method_label(m)).collect();
         w.record(&[
-            format!("Equilibrium {}", e.case),
+            "Method".to_string(),
+            "envelope: each max and min is the worse of the methods".into(),
+            format!("methods: {}", all.join("; ")),
+            format!("G, Q, W columns: {}", analysis.method_label(0)),
+        ]);
+    }
+    let tagged = analysis.equilibrium_by_method.iter().enumerate().flat_map(|(m, eq)| eq.iter().map(move |e| (m, e)));
+    for (m, e) in tagged {
+        let name = if m == 0 { format!("Equilibrium {}", e.case) } else { format!("Equilibrium {} [{}]", e.case, analysis.method_label(m)) };
+        w.record(&[
+            name,
             format!("applied {:.3} kN", e.applied.down()),
             format!("reactions {:.3} kN", e.reactions.force[2]),
             format!("|sum F| {:.3e} kN", e.force_residual_kn),
@@ -125,12 +139,12 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         head.push(format!("{} min (kN)", c.name));
     }
     head.extend(
-        ["SWL (kN)", "utilisation", "governing combination", "bearing area (m2)", "bearing pressure (kPa)", "allowable (kPa)", "bearing utilisation", "status"]
+        ["SWL (kN)", "utilisation", "governing combination", "method for max", "method for min", "bearing area (m2)", "bearing pressure (kPa)", "allowable (kPa)", "bearing utilisation", "status"]
             .map(String::from),
     );
     w.record(&head);
     let mut totals = [0.0; 3];
-    for p in &analysis.plates {
+    for (i, p) in analysis.plates.iter().enumerate() {
         let g = p.governing();
         w.field(&p.id);
         w.fixed(p.x, 3);
@@ -148,6 +162,8 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         w.fixed(p.swl_kn, 3);
         w.fixed(g.utilisation, 3);
         w.field(&analysis.combinations[p.governing].name);
+        w.field(analysis.governing_method_label(i));
+        w.field(analysis.min_method_label(i));
         w.fixed(p.bearing_area_m2, 4);
         w.fixed(g.bearing_kpa, 1);
         w.fixed(p.allowable_kpa, 1);

@@ -1,13 +1,21 @@
 //! Carrying every load down to the base plates, one load at a time, keeping the trace.
 //!
 //! Each load of the scene (and the self-weight of everything, as one more permanent load) is an
-//! *item*. Vertical items go deck strip → bearer segment → post → base plate by segment moment
-//! balance ([`crate::beam`]); horizontal items go to the plates through the rigid braced base
+//! *item*. Vertical items go deck strip → bearer → post → base plate, each member sharing its
+//! load among its supports either by segment moment balance ([`crate::beam`]) or as a continuous
+//! beam ([`crate::continuous`]); horizontal items go to the plates through the rigid braced base
 //! ([`crate::rigid_base`]). Each item's plate reactions are kept separately, so combinations can
 //! take each variable load only where it is unfavourable, and every reaction can be traced back.
+//!
+//! A scene whose members follow the method envelope is solved once per [`MethodPass`]
+//! ([`method_passes`]): decks and bearers each take both behaviours, independently, so a deck
+//! jointed at every bearer over continuous bearers is covered as well as all-simple and
+//! all-continuous. [`crate::check`] then takes the worst pass at every plate.
 
 use crate::beam::{share_simple, BeamLoad, Piece};
+use crate::continuous::ContinuousBeam;
 use crate::loads::{Case, LoadKind};
+use crate::model::{BeamMethod, Scene};
 use crate::rigid_base::{RigidBase, RigidBaseError};
 use crate::validate::{Model, Target};
 
@@ -168,6 +176,8 @@ pub struct Solution {
     pub items: Vec<Item>,
     /// Every reaction share, for tracing.
     pub contributions: Vec<Contribution>,
+    /// How the members shared their loads in this solution.
+    pub method: MethodPass,
 }
 
 impl Solution {
@@ -193,6 +203,92 @@ impl Solution {
         }
         out
     }
+}
+
+/// How one member shares its load in one solution.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
+pub enum Behaviour {
+    /// Simply supported spans and balanced overhangs ([`share_simple`]).
+    SimpleSpans,
+    /// Continuous over all its supports ([`ContinuousBeam`]).
+    Continuous,
+}
+
+impl Behaviour {
+    /// Short name for outputs.
+    pub fn label(self) -> &'static str {
+        match self {
+            Behaviour::SimpleSpans => BeamMethod::SimpleSpans.label(),
+            Behaviour::Continuous => BeamMethod::Continuous.label(),
+        }
+    }
+
+    /// How a member with its own setting `own` behaves in a scene whose method is `scene_method`,
+    /// in a pass where the enveloped members of its level (decks or bearers) behave as `level`.
+    fn of(own: Option<BeamMethod>, scene_method: BeamMethod, level: Behaviour) -> Behaviour {
+        match own.unwrap_or(scene_method) {
+            BeamMethod::SimpleSpans => Behaviour::SimpleSpans,
+            BeamMethod::Continuous => Behaviour::Continuous,
+            BeamMethod::Envelope => level,
+        }
+    }
+}
+
+/// One way of solving the whole scene. Members that set a method of their own always follow it;
+/// members that follow the envelope behave as their level says here.
+#[derive(Debug, Clone, PartialEq, Eq, serde::Serialize)]
+pub struct MethodPass {
+    /// Behaviour of the enveloped decks.
+    pub decks: Behaviour,
+    /// Behaviour of the enveloped bearers, ledgers and transoms.
+    pub bearers: Behaviour,
+    /// What it is called in outputs, e.g. `continuous` or `decks simple spans, bearers continuous`.
+    pub label: String,
+}
+
+impl MethodPass {
+    /// Behaviour of bearer `b` of `scene` in this pass.
+    pub fn bearer(&self, scene: &Scene, b: usize) -> Behaviour {
+        Behaviour::of(scene.bearers[b].method, scene.analysis.method, self.bearers)
+    }
+    /// Behaviour of deck `d` of `scene` in this pass.
+    pub fn deck(&self, scene: &Scene, d: usize) -> Behaviour {
+        Behaviour::of(scene.decks[d].method, scene.analysis.method, self.decks)
+    }
+}
+
+/// The solutions a scene needs, the first being the primary one (its case loads fill the
+/// schedule's case columns): one if no member follows the envelope, else both behaviours for
+/// each level that has enveloped members — up to four: all simple spans, all continuous, and the
+/// two mixtures of decks and bearers.
+pub fn method_passes(scene: &Scene) -> Vec<MethodPass> {
+    let global = scene.analysis.method;
+    let decks: Vec<BeamMethod> = scene.decks.iter().map(|d| d.method.unwrap_or(global)).collect();
+    let bearers: Vec<BeamMethod> = scene.bearers.iter().map(|b| b.method.unwrap_or(global)).collect();
+    let enveloped = |ms: &[BeamMethod]| ms.contains(&BeamMethod::Envelope);
+    // A level without enveloped members is described by what its members are set to.
+    let fixed = |ms: &[BeamMethod]| -> Option<&'static str> {
+        let first = *ms.first()?;
+        Some(if ms.iter().all(|&m| m == first) { first.label() } else { "as set per member" })
+    };
+    let (deck_env, bearer_env) = (enveloped(&decks), enveloped(&bearers));
+    use Behaviour::{Continuous as C, SimpleSpans as S};
+    let mut out = Vec::new();
+    for (d, b) in [(S, S), (C, C), (S, C), (C, S)] {
+        if (d == C && !deck_env) || (b == C && !bearer_env) {
+            continue;
+        }
+        let deck_part = if deck_env { Some(d.label()) } else { fixed(&decks) };
+        let bearer_part = if bearer_env { Some(b.label()) } else { fixed(&bearers) };
+        let label = match (deck_part, bearer_part) {
+            (None, None) => global.label().to_owned(),
+            (Some(a), None) | (None, Some(a)) => a.to_owned(),
+            (Some(a), Some(b)) if a == b => a.to_owned(),
+            (Some(a), Some(b)) => format!("decks {a}, bearers {b}"),
+        };
+        out.push(MethodPass { decks: d, bearers: b, label });
+    }
+    out
 }
 
 /// Dense per-plate accumulator that remembers which plates it touched.
@@ -282,12 +378,44 @@ struct Solver<'m, 's> {
     piece_sums: Vec<[f64; 2]>,
     nodes: Nodes,
     contributions: Vec<Contribution>,
+    /// Each bearer that is continuous in this pass (and has two or more posts), factorised once.
+    bearer_beams: Vec<Option<ContinuousBeam>>,
+    /// Each deck that is continuous in this pass, per metre of width.
+    deck_beams: Vec<Option<ContinuousBeam>>,
+    /// Reactions of one continuous member.
+    reactions: Vec<f64>,
 }
 
-/// Carry every load of a validated scene down to the base plates.
+/// Carry every load of a validated scene down to the base plates, the way the scene's primary
+/// method pass says (the first of [`method_passes`]).
 pub fn solve(model: &Model) -> Result<Solution, SolveError> {
+    let pass = method_passes(model.scene).swap_remove(0);
+    solve_pass(model, pass)
+}
+
+/// One solution per method pass of the scene ([`method_passes`]), primary first.
+pub fn solve_methods(model: &Model) -> Result<Vec<Solution>, SolveError> {
+    method_passes(model.scene).into_iter().map(|pass| solve_pass(model, pass)).collect()
+}
+
+/// Carry every load of a validated scene down to the base plates, members behaving as `pass` says.
+pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveError> {
     let scene = model.scene;
     let plates: Vec<[f64; 3]> = scene.posts.iter().map(|p| [p.x, p.y, p.base_level]).collect();
+    let stiffness = scene.analysis.stiffness;
+    // Validation guarantees increasing supports and a positive EI; a member that still fails to
+    // set up (it cannot) would fall back to simple spans rather than stop the analysis.
+    let bearer_beams = (0..model.bearers.len())
+        .map(|b| {
+            let line = &model.bearers[b];
+            (pass.bearer(scene, b) == Behaviour::Continuous && line.supports.len() >= 2)
+                .then(|| ContinuousBeam::new(&line.supports, stiffness.of(scene.bearers[b].role)).ok())
+                .flatten()
+        })
+        .collect();
+    let deck_beams = (0..model.decks.len())
+        .map(|d| (pass.deck(scene, d) == Behaviour::Continuous).then(|| ContinuousBeam::new(&model.decks[d].supports, stiffness.deck_knm2_per_m).ok()).flatten())
+        .collect();
     let mut s = Solver {
         model,
         plates: Sparse::new(plates.len()),
@@ -296,6 +424,9 @@ pub fn solve(model: &Model) -> Result<Solution, SolveError> {
         piece_sums: Vec::new(),
         nodes: Nodes::new(model),
         contributions: Vec::new(),
+        bearer_beams,
+        deck_beams,
+        reactions: Vec::new(),
     };
     // Slot 0: self-weight; slot k + 1: the scene's load k.
     let mut permanent_tee: Vec<(usize, f64, f64)> = Vec::new();
@@ -416,7 +547,7 @@ pub fn solve(model: &Model) -> Result<Solution, SolveError> {
         items[k + 1] = Some(Item { id: load.id.clone(), case: load.case, applied, vertical, shear, direction, vertical_permanent_basis });
     }
     let items = items.into_iter().map(|i| i.expect("every load is solved once")).collect();
-    Ok(Solution { plates, items, contributions: s.contributions })
+    Ok(Solution { plates, items, contributions: s.contributions, method: pass })
 }
 
 impl Solver<'_, '_> {
@@ -436,7 +567,13 @@ impl Solver<'_, '_> {
         let mut per_metre = std::mem::take(&mut self.piece_sums);
         per_metre.clear();
         per_metre.resize(deck.bearers.len(), [0.0; 2]);
-        share_simple(&deck.supports, &load, &mut |k, _, r| per_metre[k][0] += r);
+        if let Some(beam) = &mut self.deck_beams[d] {
+            self.reactions.resize(deck.bearers.len(), 0.0);
+            beam.share(&[load], &mut self.reactions);
+            per_metre.iter_mut().zip(&self.reactions).for_each(|(m, &r)| m[0] = r);
+        } else {
+            share_simple(&deck.supports, &load, &mut |k, _, r| per_metre[k][0] += r);
+        }
         for (k, &b) in deck.bearers.iter().enumerate() {
             let w = per_metre[k][0];
             let line = &self.model.bearers[b];
@@ -451,8 +588,15 @@ impl Solver<'_, '_> {
     fn deck_point(&mut self, d: usize, x: f64, y: f64, p: f64) {
         let deck = &self.model.decks[d];
         let (_, s) = deck.split(x, y);
+        let load = BeamLoad::Point { at: s, p };
         let mut shares: Vec<(usize, f64)> = Vec::with_capacity(2);
-        share_simple(&deck.supports, &BeamLoad::Point { at: s, p }, &mut |k, _, r| shares.push((k, r)));
+        if let Some(beam) = &mut self.deck_beams[d] {
+            self.reactions.resize(deck.bearers.len(), 0.0);
+            beam.share(&[load], &mut self.reactions);
+            shares.extend(self.reactions.iter().enumerate().filter(|(_, r)| **r != 0.0).map(|(k, &r)| (k, r)));
+        } else {
+            share_simple(&deck.supports, &load, &mut |k, _, r| shares.push((k, r)));
+        }
         for (k, r) in shares {
             let b = deck.bearers[k];
             let at = self.model.bearers[b].distance_of(x, y);
@@ -468,6 +612,22 @@ impl Solver<'_, '_> {
         for &b in &touched {
             let line = &self.model.bearers[b];
             let n = line.supports.len();
+            if let Some(beam) = &mut self.bearer_beams[b] {
+                // Continuous: one solve for all of this item's loads on the member.
+                self.reactions.resize(n, 0.0);
+                beam.share(&self.bearer_loads[b], &mut self.reactions);
+                for (k, &r) in self.reactions.iter().enumerate() {
+                    if r == 0.0 {
+                        continue;
+                    }
+                    let post = line.posts[k];
+                    self.plates.add(post, r);
+                    self.nodes.load[self.nodes.bearer_first[b] + k][case.index()] += r;
+                    self.contributions.push(Contribution { plate: post as u32, item, route: Route::Bearer { bearer: b as u32, piece: Piece::Continuous }, kn: r });
+                }
+                self.bearer_loads[b].clear();
+                continue;
+            }
             // Pieces: spans 0..n-1, then start and end overhang (or the single support).
             let mut sums = std::mem::take(&mut self.piece_sums);
             sums.clear();
@@ -591,6 +751,7 @@ fn piece_slot(piece: Piece, k: usize, n: usize) -> (usize, usize) {
         Piece::StartOverhang => (n - 1, k),
         Piece::EndOverhang => (n, k + 2 - n),
         Piece::Single => (0, 0),
+        Piece::Continuous => unreachable!("segment moment balance reports no continuous piece"),
     }
 }
 

@@ -19,6 +19,7 @@ pub fn route_words(scene: &Scene, route: Route) -> String {
                 Piece::StartOverhang => format!("{} {}, overhang before {}", role(b.role), b.id, post(0)),
                 Piece::EndOverhang => format!("{} {}, overhang after {}", role(b.role), b.id, post(b.posts.len() - 1)),
                 Piece::Single => format!("{} {} on its single post", role(b.role), b.id),
+                Piece::Continuous => format!("{} {}, continuous over {} posts", role(b.role), b.id, b.posts.len()),
             }
         }
         Route::PostSelfWeight => "own weight of the post".into(),
@@ -36,17 +37,28 @@ fn role(r: crate::model::BeamRole) -> &'static str {
 }
 
 /// A text account of every share that makes up one plate's load, grouped by load item, with
-/// per-case totals that equal the plate's case loads.
+/// per-case totals that equal the plate's case loads. The shares are those of the method pass
+/// that governs the plate's maximum; the other passes' case loads follow.
 pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
     let p = &analysis.plates[plate];
     let mut out = String::new();
     let _ = writeln!(out, "Base {} at ({:.3}, {:.3}), base level {:.3} m, support {}", p.id, p.x, p.y, p.base_level, p.support);
-    let mut shares: Vec<_> = analysis.solution.contributions.iter().filter(|c| c.plate as usize == plate).collect();
+    let m = p.governing_method;
+    let methods = analysis.method_count();
+    if methods == 1 {
+        let _ = writeln!(out, "  method: {}", analysis.method_label(0));
+    } else {
+        let all: Vec<&str> = (0..methods).map(|k| analysis.method_label(k)).collect();
+        let why = if p.methods_agree { "all methods give this base the same loads" } else { "it governs this base's maximum" };
+        let _ = writeln!(out, "  method: {} ({why}; envelope of: {})", analysis.method_label(m), all.join("; "));
+    }
+    let solution = analysis.solution_of(m);
+    let mut shares: Vec<_> = solution.contributions.iter().filter(|c| c.plate as usize == plate).collect();
     shares.sort_by_key(|c| (c.item, c.route));
     let mut totals = [0.0; 3];
     let mut last_item = u32::MAX;
     for c in shares {
-        let item = &analysis.solution.items[c.item as usize];
+        let item = &solution.items[c.item as usize];
         if c.item != last_item {
             let _ = writeln!(out, "  {} ({})", item.id, item.case);
             last_item = c.item;
@@ -54,11 +66,15 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
         let _ = writeln!(out, "    {:>10.3} kN  via {}", c.kn, route_words(scene, c.route));
         totals[item.case.index()] += c.kn;
     }
+    let case_kn = p.case_kn_by_method.get(m).copied().unwrap_or(p.case_kn);
     for c in Case::ALL {
-        let _ = writeln!(out, "  total {}: {:.3} kN (plate load {:.3} kN)", c, totals[c.index()], p.case_kn[c.index()]);
+        let _ = writeln!(out, "  total {}: {:.3} kN (plate load {:.3} kN)", c, totals[c.index()], case_kn[c.index()]);
+    }
+    for (k, cases) in p.case_kn_by_method.iter().enumerate().filter(|&(k, _)| k != m) {
+        let _ = writeln!(out, "  under {}: G {:.3} kN, Q {:.3} kN, W {:.3} kN", analysis.method_label(k), cases[0], cases[1], cases[2]);
     }
     for (comb, r) in analysis.combinations.iter().zip(&p.combinations) {
-        let _ = writeln!(
+        let _ = write!(
             out,
             "  {:<12} max {:>9.3} kN  min {:>9.3} kN  utilisation {:>6.1}%  bearing {:>7.1} kPa  {}",
             comb.name,
@@ -68,6 +84,10 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
             r.bearing_kpa,
             r.status
         );
+        if methods > 1 && !p.methods_agree {
+            let _ = write!(out, "  (max: {}; min: {})", analysis.method_label(r.max_method), analysis.method_label(r.min_method));
+        }
+        let _ = writeln!(out);
     }
     out
 }

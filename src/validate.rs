@@ -284,6 +284,15 @@ fn check_site(c: &mut Checker) {
     }
     let target = c.scene.stability.target_factor;
     c.positive(K::Site, &name, "target overturning factor", target, 1e3, false);
+    let ei = c.scene.analysis.stiffness;
+    for (what, v) in [
+        ("bearer stiffness EI (kN·m²)", ei.bearer_knm2),
+        ("ledger stiffness EI (kN·m²)", ei.ledger_knm2),
+        ("transom stiffness EI (kN·m²)", ei.transom_knm2),
+        ("deck stiffness EI (kN·m²/m)", ei.deck_knm2_per_m),
+    ] {
+        c.positive(K::Site, &name, what, v, 1e12, false);
+    }
 }
 
 fn check_support_types(c: &mut Checker) {

@@ -45,12 +45,13 @@ pub fn bearer(id: &str, level: f64, posts: &[&str]) -> Bearer {
         overhang_start_m: 0.0,
         overhang_end_m: 0.0,
         self_weight_kn_per_m: 0.0,
+        method: None,
     }
 }
 
 /// A weightless deck.
 pub fn deck(id: &str, level: f64, x: (f64, f64), y: (f64, f64), bearers: &[&str]) -> Deck {
-    Deck { id: id.into(), level, extent: Rect { x, y }, bearers: bearers.iter().map(|b| b.to_string()).collect(), self_weight_kpa: 0.0 }
+    Deck { id: id.into(), level, extent: Rect { x, y }, bearers: bearers.iter().map(|b| b.to_string()).collect(), self_weight_kpa: 0.0, method: None }
 }
 
 /// A load.

@@ -1,0 +1,481 @@
+//! Load sharing along one straight member that runs continuously over its supports, by the direct
+//! stiffness method with Euler–Bernoulli beam elements.
+//!
+//! Nodes sit at the supports only. Every support holds the member vertically and lets it rotate,
+//! so the only unknowns are the support rotations θ₀…θₙ₋₁. Loads inside a span enter as exact
+//! fixed-end actions of that element (point load and part-span uniform load, closed form), so no
+//! extra nodes are needed. An overhang beyond the first or last support is a free cantilever: it
+//! is statically determinate, so its loads reach the end support as a force and a moment, exactly
+//! as a cantilever element would deliver them — its stiffness cannot change any reaction.
+//!
+//! With vertical displacements held at every node the rotation stiffness matrix is tridiagonal,
+//! symmetric and strictly diagonally dominant (`4(kᵢ₋₁ + kᵢ)` on the diagonal against
+//! `2kᵢ₋₁ + 2kᵢ` off it, `kᵢ = EI/Lᵢ`), so an LDLᵀ factorisation without pivoting is stable. It is
+//! factorised once per member ([`ContinuousBeam::new`]) and every load set is then an O(n)
+//! forward and back substitution ([`ContinuousBeam::share`]).
+//!
+//! Reactions follow from the element end shears: span `j` with rotations θa, θb adds
+//! `Va = V⁰a + 6k(θa + θb)/L` and `Vb = V⁰b − 6k(θa + θb)/L` to its two supports (V⁰ the fixed-end
+//! shears). Each element is in equilibrium by construction and each node's moment balance is the
+//! solved equation, so ΣF and ΣM of the reactions match the loads to rounding.
+//!
+//! For a member of one section (one EI throughout, as here) the reactions do not depend on EI at
+//! all: every term of the stiffness matrix scales with it and the load vector does not. EI is kept
+//! so that sections and support settlement can be added without changing the interface.
+
+use crate::beam::BeamLoad;
+
+/// Why a continuous member could not be set up.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[non_exhaustive]
+pub enum ContinuousError {
+    /// Supports must be finite and strictly increasing.
+    #[error("supports must be finite and in increasing order (support {index} at {at} m)")]
+    SupportOrder {
+        /// Index of the first offending support.
+        index: usize,
+        /// Its position, m.
+        at: f64,
+    },
+    /// Flexural stiffness must be finite and positive.
+    #[error("flexural stiffness EI must be a positive number (it is {0} kN·m²)")]
+    Stiffness(f64),
+}
+
+/// A member continuous over supports at fixed positions, factorised once, ready to share any
+/// number of load sets among its supports.
+#[derive(Debug, Clone)]
+pub struct ContinuousBeam {
+    supports: Vec<f64>,
+    ei: f64,
+    /// `EI / L` of each span.
+    k: Vec<f64>,
+    /// LDLᵀ pivots of the rotation stiffness matrix.
+    pivot: Vec<f64>,
+    /// LDLᵀ multipliers: row `i` (≥ 1) of the unit lower factor has `mult[i]` at column `i − 1`.
+    mult: Vec<f64>,
+    /// Fixed-end actions (Va, Ma, Vb, Mb) of each span for the current load set.
+    fixed: Vec<[f64; 4]>,
+    /// Right-hand side, then the support rotations (rad) of the last load set.
+    theta: Vec<f64>,
+    /// Force (kN, down) and moment (kN·m, anticlockwise) that each overhang puts on its end support.
+    overhang: [(f64, f64); 2],
+}
+
+impl ContinuousBeam {
+    /// Set up a member on supports at distances `supports` (strictly increasing) with flexural
+    /// stiffness `ei`, kN·m².
+    pub fn new(supports: &[f64], ei: f64) -> Result<Self, ContinuousError> {
+        if !(ei.is_finite() && ei > 0.0) {
+            return Err(ContinuousError::Stiffness(ei));
+        }
+        for (i, &s) in supports.iter().enumerate() {
+            if !s.is_finite() || (i > 0 && s <= supports[i - 1]) {
+                return Err(ContinuousError::SupportOrder { index: i, at: s });
+            }
+        }
+        let n = supports.len();
+        let spans = n.saturating_sub(1);
+        let k: Vec<f64> = supports.windows(2).map(|w| ei / (w[1] - w[0])).collect();
+        let (mut pivot, mut mult) = (vec![0.0; n], vec![0.0; n]);
+        if n >= 2 {
+            // Tridiagonal LDLᵀ: diagonal 4(k_{i-1} + k_i), off-diagonal 2k_i between i and i+1.
+            pivot[0] = 4.0 * k[0];
+            for i in 1..n {
+                let off = 2.0 * k[i - 1];
+                let diag = 4.0 * (k[i - 1] + if i < spans { k[i] } else { 0.0 });
+                mult[i] = off / pivot[i - 1];
+                pivot[i] = diag - mult[i] * off;
+            }
+        }
+        Ok(ContinuousBeam { supports: supports.to_vec(), ei, k, pivot, mult, fixed: vec![[0.0; 4]; spans], theta: vec![0.0; n], overhang: [(0.0, 0.0); 2] })
+    }
+
+    /// Support positions, m.
+    pub fn supports(&self) -> &[f64] {
+        &self.supports
+    }
+
+    /// Flexural stiffness, kN·m².
+    pub fn ei(&self) -> f64 {
+        self.ei
+    }
+
+    /// Share a set of loads among the supports: `reactions[i]` (kN, upward positive) is
+    /// overwritten for every support. Loads beyond the end supports sit on free cantilevers.
+    ///
+    /// Returns the moment about the support that a single-support member cannot balance, kN·m
+    /// (0 for two or more supports), as [`crate::beam::share_simple`] does.
+    pub fn share(&mut self, loads: &[BeamLoad], reactions: &mut [f64]) -> f64 {
+        let n = self.supports.len();
+        assert_eq!(reactions.len(), n, "one reaction slot per support");
+        reactions.iter_mut().for_each(|r| *r = 0.0);
+        self.theta.iter_mut().for_each(|t| *t = 0.0);
+        if n == 0 {
+            return 0.0;
+        }
+        if n == 1 {
+            reactions[0] = loads.iter().map(BeamLoad::total).sum();
+            return loads.iter().map(|l| l.moment_about(self.supports[0])).sum();
+        }
+        self.fixed.iter_mut().for_each(|f| *f = [0.0; 4]);
+        self.overhang = [(0.0, 0.0); 2];
+        let mut any_span = false;
+        for load in loads {
+            any_span |= self.add_fixed_end_actions(load);
+        }
+        // Overhangs: their force goes straight into the end support.
+        reactions[0] += self.overhang[0].0;
+        reactions[n - 1] += self.overhang[1].0;
+        let (m_start, m_end) = (self.overhang[0].1, self.overhang[1].1);
+        if !any_span && m_start == 0.0 && m_end == 0.0 {
+            // Nothing bends the spans: every load sits on a support.
+            return 0.0;
+        }
+        // Right-hand side: applied nodal moments minus the fixed-end moments of the spans.
+        let th = &mut self.theta;
+        th[0] = m_start;
+        th[n - 1] += m_end;
+        for (j, f) in self.fixed.iter().enumerate() {
+            th[j] -= f[1];
+            th[j + 1] -= f[3];
+        }
+        // Forward substitution (L y = b), then D and the back substitution (Lᵀ θ = D⁻¹ y).
+        for i in 1..n {
+            th[i] -= self.mult[i] * th[i - 1];
+        }
+        th[n - 1] /= self.pivot[n - 1];
+        for i in (0..n - 1).rev() {
+            th[i] = th[i] / self.pivot[i] - self.mult[i + 1] * th[i + 1];
+        }
+        for (j, f) in self.fixed.iter().enumerate() {
+            let l = self.supports[j + 1] - self.supports[j];
+            let shear = 6.0 * self.k[j] * (th[j] + th[j + 1]) / l;
+            reactions[j] += f[0] + shear;
+            reactions[j + 1] += f[2] - shear;
+        }
+        0.0
+    }
+
+    /// Support rotations of the last [`share`](Self::share), rad (anticlockwise positive, with
+    /// distance increasing to the right). All zero when nothing bent the spans.
+    pub fn rotations(&self) -> &[f64] {
+        &self.theta
+    }
+
+    /// Bending moment at each support for the last [`share`](Self::share), kN·m, sagging
+    /// positive (so a continuous beam's inner supports show negative, hogging values). Empty for
+    /// fewer than two supports.
+    pub fn support_moments(&self) -> Vec<f64> {
+        let n = self.supports.len();
+        if n < 2 {
+            return Vec::new();
+        }
+        let th = &self.theta;
+        let end_moments = |j: usize| {
+            let f = self.fixed[j];
+            let k = self.k[j];
+            (f[1] + k * (4.0 * th[j] + 2.0 * th[j + 1]), f[3] + k * (2.0 * th[j] + 4.0 * th[j + 1]))
+        };
+        // An anticlockwise end moment on the left end of a span is hogging; on the right end, sagging.
+        (0..n).map(|i| if i < n - 1 { -end_moments(i).0 } else { end_moments(n - 2).1 }).collect()
+    }
+
+    /// Add one load's fixed-end actions (spans) and end-support actions (overhangs). Returns
+    /// whether any part of it lies inside a span.
+    fn add_fixed_end_actions(&mut self, load: &BeamLoad) -> bool {
+        let ContinuousBeam { supports: s, fixed, overhang, .. } = self;
+        let n = s.len();
+        // A resultant `p` (kN, down) at `at` on the start or end overhang: a downward force at
+        // lever (at − s) has anticlockwise moment −p (at − s) about the end support s.
+        let mut on_overhang = |end: bool, p: f64, at: f64| {
+            let (slot, support) = if end { (1, s[n - 1]) } else { (0, s[0]) };
+            overhang[slot].0 += p;
+            overhang[slot].1 -= p * (at - support);
+        };
+        match *load {
+            BeamLoad::Point { at, p } => {
+                if p == 0.0 {
+                    return false;
+                }
+                let k = s.partition_point(|&x| x <= at);
+                if k == 0 || k == n {
+                    on_overhang(k == n, p, at);
+                    false
+                } else {
+                    let j = k - 1;
+                    add_point_fea(&mut fixed[j], s[j + 1] - s[j], at - s[j], p);
+                    true
+                }
+            }
+            BeamLoad::Uniform { from, to, w } => {
+                if w == 0.0 || to.partial_cmp(&from) != Some(std::cmp::Ordering::Greater) {
+                    return false;
+                }
+                let mut any = false;
+                let mut cur = from;
+                let mut k = s.partition_point(|&x| x <= cur);
+                while cur < to {
+                    let next = if k < n { s[k].min(to) } else { to };
+                    if next > cur {
+                        let (a, c) = (cur, next - cur);
+                        if k == 0 || k == n {
+                            on_overhang(k == n, w * c, a + 0.5 * c);
+                        } else {
+                            let j = k - 1;
+                            add_uniform_fea(&mut fixed[j], s[j + 1] - s[j], a - s[j], c, w);
+                            any = true;
+                        }
+                    }
+                    cur = next;
+                    k += 1;
+                }
+                any
+            }
+        }
+    }
+}
+
+/// Fixed-end actions of a point load `p` (down) at `a` from the left end of a span of length `l`:
+/// `Va = p b²(3a + b)/l³`, `Ma = p a b²/l²`, `Mb = −p a² b/l²`, `Vb = p − Va` (b = l − a).
+// source: fixed-end moments of a fixed-fixed beam under a concentrated load, AISC Steel
+// Construction Manual Table 3-23 case 18 (case number from memory); shears by statics.
+fn add_point_fea(f: &mut [f64; 4], l: f64, a: f64, p: f64) {
+    let b = l - a;
+    let va = p * b * b * (3.0 * a + b) / (l * l * l);
+    f[0] += va;
+    f[1] += p * a * b * b / (l * l);
+    f[2] += p - va;
+    f[3] -= p * a * a * b / (l * l);
+}
+
+/// Fixed-end actions of a uniform load `w` on `[a, a + c]` of a span of length `l`: the point-load
+/// actions integrated over the loaded length, written about the load's centroid `s = a + c/2`
+/// (t = l − s) so that short patches on long spans lose no digits:
+/// `Va = wc((2s + l)t² + (s − t)c²/4)/l³`, `Ma = wc(st² + (s − 2t)c²/12)/l²`,
+/// `Mb = −wc(ts² + (t − 2s)c²/12)/l²`, `Vb = wc − Va`.
+// common practice, no source: derived here by integrating the point-load actions above; checked
+// against them by quadrature in the tests and against a general-purpose library in
+// tests/pycba_check.py.
+fn add_uniform_fea(f: &mut [f64; 4], l: f64, a: f64, c: f64, w: f64) {
+    let total = w * c;
+    let s = a + 0.5 * c;
+    let t = l - s;
+    let c2 = c * c;
+    let va = total * ((2.0 * s + l) * t * t + (s - t) * c2 / 4.0) / (l * l * l);
+    f[0] += va;
+    f[1] += total * (s * t * t + (s - 2.0 * t) * c2 / 12.0) / (l * l);
+    f[2] += total - va;
+    f[3] -= total * (t * s * s + (t - 2.0 * s) * c2 / 12.0) / (l * l);
+}
+
+/// Reactions of a continuous member under `loads`, one per support (kN, upward positive). A
+/// convenience over [`ContinuousBeam`] for one-off use.
+pub fn continuous_reactions(supports: &[f64], loads: &[BeamLoad], ei: f64) -> Result<Vec<f64>, ContinuousError> {
+    let mut beam = ContinuousBeam::new(supports, ei)?;
+    let mut r = vec![0.0; supports.len()];
+    beam.share(loads, &mut r);
+    Ok(r)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use proptest::prelude::*;
+
+    /// Any EI: the reactions of a one-section member do not depend on it.
+    const EI: f64 = 28.9;
+
+    fn close(got: &[f64], want: &[f64], tol: f64) -> bool {
+        got.len() == want.len() && got.iter().zip(want).all(|(g, w)| (g - w).abs() <= tol * (1.0 + w.abs()))
+    }
+
+    fn udl(from: f64, to: f64, w: f64) -> BeamLoad {
+        BeamLoad::Uniform { from, to, w }
+    }
+
+    #[test]
+    fn two_equal_spans_uniform_load() {
+        // source: Hicks, Civil Engineering Formulas, Fig. 2.2 / Table 2.1; AISC Table 3-23
+        // (continuous beam, two equal spans, uniform load): 3/8, 10/8, 3/8 wL; M at the centre
+        // support wL²/8 (hogging). L=2, w=5 → 3.75, 12.5, 3.75; M = 2.5
+        let mut beam = ContinuousBeam::new(&[0.0, 2.0, 4.0], EI).unwrap();
+        let mut r = [0.0; 3];
+        beam.share(&[udl(0.0, 4.0, 5.0)], &mut r);
+        assert!(close(&r, &[3.75, 12.5, 3.75], 1e-12), "{r:?}");
+        let m = beam.support_moments();
+        assert!((m[1] + 2.5).abs() < 1e-12 && m[0].abs() < 1e-12 && m[2].abs() < 1e-12, "{m:?}");
+    }
+
+    #[test]
+    fn two_equal_spans_one_span_loaded() {
+        // source: Hicks Table 2.1 / AISC Table 3-23 (two equal spans, uniform load on one span):
+        // 7/16, 5/8, −1/16 wL. L=1, w=16 → 7, 10, −1
+        let r = continuous_reactions(&[0.0, 1.0, 2.0], &[udl(0.0, 1.0, 16.0)], EI).unwrap();
+        assert!(close(&r, &[7.0, 10.0, -1.0], 1e-12), "{r:?}");
+    }
+
+    #[test]
+    fn three_equal_spans_uniform_load() {
+        // source: Hicks Table 2.1 / AISC Table 3-23 (three equal spans, uniform load): 0.4, 1.1,
+        // 1.1, 0.4 wL; M at the inner supports 0.1 wL². L=1.5, w=4 → 2.4, 6.6, 6.6, 2.4; M = 0.9
+        let mut beam = ContinuousBeam::new(&[0.0, 1.5, 3.0, 4.5], EI).unwrap();
+        let mut r = [0.0; 4];
+        beam.share(&[udl(0.0, 4.5, 4.0)], &mut r);
+        assert!(close(&r, &[2.4, 6.6, 6.6, 2.4], 1e-12), "{r:?}");
+        let m = beam.support_moments();
+        assert!((m[1] + 0.9).abs() < 1e-12 && (m[2] + 0.9).abs() < 1e-12, "{m:?}");
+    }
+
+    #[test]
+    fn three_equal_spans_two_spans_loaded() {
+        // source: Hicks Table 2.1 / AISC Table 3-23 (three equal spans, uniform load on spans 1–2):
+        // R1..R4 = 0.383, 1.200, 0.450, −0.033 wL (exactly 23/60, 6/5, 9/20, −1/30). L=1, w=60
+        let r = continuous_reactions(&[0.0, 1.0, 2.0, 3.0], &[udl(0.0, 2.0, 60.0)], EI).unwrap();
+        assert!(close(&r, &[23.0, 72.0, 27.0, -2.0], 1e-12), "{r:?}");
+        // The published three-decimal values.
+        let published = [0.383, 1.200, 0.450, -0.033];
+        assert!(r.iter().zip(published).all(|(r, p)| (r / 60.0 - p).abs() < 5e-4), "{r:?}");
+    }
+
+    #[test]
+    fn propped_cantilever_as_half_of_a_symmetric_two_span_beam() {
+        // source: Hicks case 10; AISC Table 3-23 case 12 (beam fixed at one end, supported at the
+        // other, uniform load): prop 3/8 wL, fixed end 5/8 wL, M fixed wL²/8. L=4, w=5 → 7.5, 12.5,
+        // M = 10. Modelled here without a rotational restraint: two equal spans under symmetric
+        // load have zero rotation at the middle support, which is therefore a fixed end for each
+        // half; the middle reaction is the two fixed-end reactions together.
+        let mut beam = ContinuousBeam::new(&[0.0, 4.0, 8.0], EI).unwrap();
+        let mut r = [0.0; 3];
+        beam.share(&[udl(0.0, 8.0, 5.0)], &mut r);
+        assert!(close(&r, &[7.5, 25.0, 7.5], 1e-12), "{r:?}");
+        assert!(beam.rotations()[1].abs() < 1e-15, "{:?}", beam.rotations());
+        assert!((beam.support_moments()[1] + 10.0).abs() < 1e-12);
+    }
+
+    #[test]
+    fn two_supports_match_the_simple_span_tables() {
+        // source: AISC Table 3-23 cases 1, 8, 24 and 25 (see beam.rs): a member on two supports is
+        // statically determinate, so the continuous analysis must give the simple-span values.
+        let s = [0.0, 4.0];
+        let cases = [
+            (BeamLoad::Point { at: 1.0, p: 10.0 }, [7.5, 2.5]),
+            (udl(0.0, 4.0, 3.0), [6.0, 6.0]),
+            (udl(4.0, 5.0, 10.0), [-1.25, 11.25]),
+            (udl(0.0, 5.0, 1.0), [1.875, 3.125]),
+            (BeamLoad::Point { at: -1.0, p: 10.0 }, [12.5, -2.5]),
+        ];
+        for (load, want) in cases {
+            let r = continuous_reactions(&s, &[load], EI).unwrap();
+            assert!(close(&r, &want, 1e-12), "{load:?}: {r:?}");
+        }
+    }
+
+    #[test]
+    fn reactions_do_not_depend_on_ei() {
+        // common practice, no source: K scales with EI, the loads do not, so u ∝ 1/EI and K·u is
+        // unchanged.
+        let s = [0.0, 1.2, 2.0, 3.5, 4.1];
+        let loads = [udl(-0.4, 4.6, 2.5), BeamLoad::Point { at: 2.7, p: 3.0 }];
+        let a = continuous_reactions(&s, &loads, 1.0).unwrap();
+        let b = continuous_reactions(&s, &loads, 1.0e6).unwrap();
+        assert!(close(&a, &b, 1e-12), "{a:?} {b:?}");
+    }
+
+    #[test]
+    fn uniform_fixed_end_actions_equal_integrated_point_actions() {
+        // common practice, no source: a uniform load is a row of point loads; midpoint-rule
+        // quadrature of the point-load actions must converge to the closed form.
+        let (l, a, c, w) = (3.0, 0.7, 1.6, 2.0);
+        let mut exact = [0.0; 4];
+        add_uniform_fea(&mut exact, l, a, c, w);
+        let mut sum = [0.0; 4];
+        let steps = 20_000;
+        for i in 0..steps {
+            let x = a + (i as f64 + 0.5) * c / steps as f64;
+            add_point_fea(&mut sum, l, x, w * c / steps as f64);
+        }
+        assert!(close(&exact, &sum, 1e-8), "{exact:?} {sum:?}");
+    }
+
+    #[test]
+    fn zero_load_costs_no_solve_and_gives_zero() {
+        // common practice, no source
+        let mut beam = ContinuousBeam::new(&[0.0, 1.0, 2.0, 3.0], EI).unwrap();
+        let mut r = [9.0; 4];
+        beam.share(&[udl(0.0, 3.0, 0.0), BeamLoad::Point { at: 1.0, p: 0.0 }], &mut r);
+        assert_eq!(r, [0.0; 4]);
+        // A point load right on a support goes to that support alone.
+        beam.share(&[BeamLoad::Point { at: 2.0, p: 5.0 }], &mut r);
+        assert!(close(&r, &[0.0, 0.0, 5.0, 0.0], 1e-15), "{r:?}");
+    }
+
+    #[test]
+    fn single_support_reports_unbalanced_moment() {
+        // common practice, no source: as share_simple.
+        let mut beam = ContinuousBeam::new(&[2.0], EI).unwrap();
+        let mut r = [0.0];
+        let m = beam.share(&[BeamLoad::Point { at: 3.0, p: 4.0 }], &mut r);
+        assert_eq!((r[0], m), (4.0, 4.0));
+    }
+
+    #[test]
+    fn bad_input_is_an_error_not_a_panic() {
+        // common practice, no source
+        assert!(matches!(ContinuousBeam::new(&[0.0, 0.0], EI), Err(ContinuousError::SupportOrder { index: 1, .. })));
+        assert!(matches!(ContinuousBeam::new(&[0.0, f64::NAN], EI), Err(ContinuousError::SupportOrder { .. })));
+        assert!(matches!(ContinuousBeam::new(&[0.0, 1.0], 0.0), Err(ContinuousError::Stiffness(_))));
+        assert!(matches!(ContinuousBeam::new(&[0.0, 1.0], f64::INFINITY), Err(ContinuousError::Stiffness(_))));
+    }
+
+    #[test]
+    fn a_thousand_spans_stay_in_equilibrium() {
+        // common practice, no source: ΣR = ΣW and ΣR·s = ΣW·c, relative residual ≤ 1e-9.
+        let s: Vec<f64> = (0..=1000).map(|i| 1.5 * i as f64 + 0.3 * ((i * 7919) % 13) as f64 / 13.0).collect();
+        let loads = [udl(-0.5, s[1000] + 0.7, 3.0), BeamLoad::Point { at: 700.2, p: 40.0 }];
+        let r = continuous_reactions(&s, &loads, EI).unwrap();
+        let (f, m) = residual(&s, &loads, &r);
+        assert!(f <= 1e-9 && m <= 1e-9, "{f:e} {m:e}");
+        // Far from the ends every inner support of a long uniformly loaded beam carries about wL.
+        assert!((r[500] / (3.0 * 0.5 * (s[501] - s[499])) - 1.0).abs() < 0.2, "{}", r[500]);
+    }
+
+    /// Relative force and moment residuals of reactions against loads.
+    fn residual(s: &[f64], loads: &[BeamLoad], r: &[f64]) -> (f64, f64) {
+        let w: f64 = loads.iter().map(BeamLoad::total).sum();
+        let scale: f64 = loads.iter().map(|l| l.total().abs()).sum::<f64>().max(1e-300);
+        let span = (s[s.len() - 1] - s[0]).max(1.0);
+        let mw: f64 = loads.iter().map(|l| l.moment_about(0.0)).sum();
+        let fr: f64 = r.iter().sum();
+        let mr: f64 = r.iter().zip(s).map(|(r, s)| r * s).sum();
+        ((fr - w).abs() / scale, (mr - mw).abs() / (scale * span))
+    }
+
+    fn arb_beam() -> impl Strategy<Value = (Vec<f64>, Vec<BeamLoad>)> {
+        let spans = prop::collection::vec(0.2f64..5.0, 1..12);
+        let loads = prop::collection::vec((0u8..2, 0.0f64..1.0, 0.0f64..1.0, -5.0f64..20.0), 1..6);
+        (spans, loads, 0.0f64..1.5, 0.0f64..1.5).prop_map(|(spans, loads, o0, o1)| {
+            let mut s = vec![0.0];
+            for l in spans {
+                s.push(s[s.len() - 1] + l);
+            }
+            let (start, end) = (-o0, s[s.len() - 1] + o1);
+            let at = |u: f64| start + u * (end - start);
+            let loads = loads
+                .into_iter()
+                .map(|(kind, u, v, p)| if kind == 0 { BeamLoad::Point { at: at(u), p } } else { udl(at(u.min(v)), at(u.max(v)), p) })
+                .collect();
+            (s, loads)
+        })
+    }
+
+    proptest! {
+        #[test]
+        fn equilibrium_holds_for_any_beam((s, loads) in arb_beam(), ei in 0.1f64..1e4) {
+            // common practice, no source: statics of the whole member, relative residual ≤ 1e-9.
+            let r = continuous_reactions(&s, &loads, ei).unwrap();
+            let (f, m) = residual(&s, &loads, &r);
+            prop_assert!(f <= 1e-9 && m <= 1e-9, "{f:e} {m:e}");
+        }
+    }
+}
