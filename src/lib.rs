@@ -12,7 +12,8 @@
 //!   the rigid braced base ([`rigid_base`]). Every share is kept for tracing ([`trace`]).
 //! - **check** ([`analyse`]): combinations, uplift, utilisation of jack and ground, equilibrium
 //!   proof per case, stability ([`stability`]).
-//! - **export**: the support-load schedule ([`schedule`]) and JSON ([`json`]).
+//! - **export**: the support-load schedule ([`schedule`]), JSON ([`json`]) and the printable
+//!   HTML report ([`report`]).
 //!
 //! Units: m, kN, kPa, kN·m. Results are a planning aid; see [`CAUTION`].
 #![warn(missing_docs)]
@@ -28,6 +29,7 @@ pub mod layout;
 pub mod loads;
 pub mod model;
 pub mod palette;
+pub mod report;
 pub mod rigid_base;
 pub mod schedule;
 pub mod solve;
