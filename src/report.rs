@@ -61,7 +61,7 @@ pub fn today_utc() -> String {
 /// Calendar date (year, month 1–12, day 1–31) of a day count since 1970-01-01, proleptic
 /// Gregorian calendar.
 // source: H. Hinnant, "chrono-Compatible Low-Level Date Algorithms", civil_from_days
-pub fn civil_from_days(days: i64) -> (i64, u32, u32) {
+fn civil_from_days(days: i64) -> (i64, u32, u32) {
     let z = days + 719_468;
     let era = if z >= 0 { z } else { z - 146_096 } / 146_097;
     let doe = z - era * 146_097; // day of era, 0..=146096
@@ -121,7 +121,7 @@ pub fn report_html(scene: &Scene, analysis: &Analysis, opts: &ReportOptions) -> 
 // Text helpers
 
 /// Escape text for HTML element content and attribute values.
-pub fn esc(s: &str) -> String {
+fn esc(s: &str) -> String {
     let mut out = String::with_capacity(s.len());
     for ch in s.chars() {
         match ch {
@@ -263,7 +263,8 @@ fn css(paper: Paper, scene_name: &str) -> String {
   @bottom-right {{ content: "page " counter(page) " of " counter(pages); font: 7pt sans-serif; color: #444; }} }}
 @page wide {{ size: {size} landscape; }}
 html {{ -webkit-print-color-adjust: exact; print-color-adjust: exact; }}
-body {{ font-family: "DejaVu Sans", "Liberation Sans", Arial, Helvetica, sans-serif; font-size: 9.5pt; color: #111; line-height: 1.35; margin: 0 auto; max-width: 190mm; padding: 6mm; }}
+body {{ font-family: "DejaVu Sans", "Liberation Sans", Arial, Helvetica, sans-serif; font-size: 9.5pt; color: #111; line-height: 1.35; margin: 0 auto; padding: 6mm; }}
+@media screen {{ body {{ max-width: 277mm; }} }}
 @media print {{ body {{ max-width: none; padding: 0; }} }}
 h1 {{ font-size: 15pt; margin: 0; }}
 h2 {{ font-size: 11.5pt; margin: 6mm 0 2mm; border-bottom: 1.5px solid #111; padding-bottom: 1mm; break-after: avoid-page; }}
@@ -305,14 +306,14 @@ footer {{ margin-top: 6mm; border-top: 1px solid #111; font-size: 8pt; color: #3
 fn title_block(h: &mut String, scene: &Scene, a: &Analysis, opts: &ReportOptions) {
     let note = if opts.revision_note.trim().is_empty() { "—".to_owned() } else { esc(&opts.revision_note).replace('\n', "<br>") };
     let source = if opts.source.is_empty() { "—".to_owned() } else { esc(&opts.source) };
-    let _ = write!(
+    let _ = writeln!(
         h,
         "<table class=\"titleblock\"><tr><td colspan=\"4\"><h1>Base-plate load report</h1></td></tr>\
 <tr><td class=\"k\">Scene</td><td colspan=\"3\"><strong>{}</strong></td></tr>\
 <tr><td class=\"k\">Date</td><td>{}</td><td class=\"k\">Scene file</td><td>{}</td></tr>\
 <tr><td class=\"k\">Revision note</td><td colspan=\"3\">{}</td></tr>\
 <tr><td class=\"k\">Contents</td><td colspan=\"3\">{} base plates, {} bearers, {} decks, {} braces, {} loads, {} combinations</td></tr>\
-<tr><td class=\"k\">Prepared with</td><td>plateload {}</td><td class=\"k\">Checked by</td><td>&nbsp;</td></tr></table>\n",
+<tr><td class=\"k\">Prepared with</td><td>plateload {}</td><td class=\"k\">Checked by</td><td>&nbsp;</td></tr></table>",
         esc(&scene.site.name),
         esc(&opts.date),
         source,
@@ -493,7 +494,7 @@ fn nice_length(max: f64) -> f64 {
 }
 
 /// The plan drawing of the base plates as SVG.
-pub fn plan_svg(scene: &Scene, a: &Analysis) -> String {
+fn plan_svg(scene: &Scene, a: &Analysis) -> String {
     const WIDTH: f64 = 1000.0;
     const MARGIN: f64 = 60.0;
     const TOP: f64 = 50.0;
@@ -761,19 +762,45 @@ fn label_box(r: &[f64; 4], label: &[String], f: f64) -> [f64; 4] {
 
 /// The largest label size (6 to 17 units) at which no label runs into another label or plate.
 fn label_font(rects: &[[f64; 4]], labels: &[Vec<String>]) -> f64 {
+    const LARGEST: f64 = 17.0;
     let overlap = |a: [f64; 4], b: [f64; 4]| a[0] < b[2] && b[0] < a[2] && a[1] < b[3] && b[1] < a[3];
-    let fits = |f: f64| {
-        let boxes: Vec<[f64; 4]> = rects.iter().zip(labels).map(|(r, l)| label_box(r, l, f)).collect();
-        for (i, b) in boxes.iter().enumerate() {
-            for (j, r) in rects.iter().enumerate() {
-                if i != j && (overlap(*b, boxes[j]) || overlap(*b, [r[0] - r[2], r[1] - r[3], r[0] + r[2], r[1] + r[3]])) {
-                    return false;
-                }
+    let plate = |r: &[f64; 4]| [r[0] - r[2], r[1] - r[3], r[0] + r[2], r[1] + r[3]];
+    // A label box shrinks towards its anchor as the font gets smaller, so only pairs that clash
+    // at the largest size can clash at all. Find those through a grid, not every pair.
+    let big: Vec<[f64; 4]> = rects.iter().zip(labels).map(|(r, l)| label_box(r, l, LARGEST)).collect();
+    let hull: Vec<[f64; 4]> = big.iter().zip(rects).map(|(b, r)| {
+        let p = plate(r);
+        [b[0].min(p[0]), b[1].min(p[1]), b[2].max(p[2]), b[3].max(p[3])]
+    }).collect();
+    let cell = hull.iter().map(|h| (h[2] - h[0]).max(h[3] - h[1])).fold(1.0, f64::max);
+    let key = |v: f64| (v / cell).floor() as i64;
+    let mut grid: std::collections::HashMap<(i64, i64), Vec<usize>> = std::collections::HashMap::new();
+    for (j, h) in hull.iter().enumerate() {
+        for gx in key(h[0])..=key(h[2]) {
+            for gy in key(h[1])..=key(h[3]) {
+                grid.entry((gx, gy)).or_default().push(j);
             }
         }
-        true
+    }
+    let mut pairs: Vec<(usize, usize)> = Vec::new();
+    for (i, b) in big.iter().enumerate() {
+        let mut near: Vec<usize> = Vec::new();
+        for gx in key(b[0])..=key(b[2]) {
+            for gy in key(b[1])..=key(b[3]) {
+                near.extend(grid.get(&(gx, gy)).into_iter().flatten().copied());
+            }
+        }
+        near.sort_unstable();
+        near.dedup();
+        pairs.extend(near.into_iter().filter(|&j| j != i && overlap(*b, hull[j])).map(|j| (i, j)));
+    }
+    let fits = |f: f64| {
+        pairs.iter().all(|&(i, j)| {
+            let b = label_box(&rects[i], &labels[i], f);
+            !overlap(b, label_box(&rects[j], &labels[j], f)) && !overlap(b, plate(&rects[j]))
+        })
     };
-    let mut f = 17.0;
+    let mut f = LARGEST;
     while f > 6.0 && !fits(f) {
         f -= 0.5;
     }
@@ -1043,12 +1070,13 @@ mod tests {
 
     #[test]
     fn civil_dates() {
-        // source: POSIX time definitions — 0 s is 1970-01-01; 946684800 s is 2000-01-01;
-        // 951782400 s is 2000-03-01 (leap day before it); 1709164800 s is 2024-02-29
+        // source: POSIX time (days of 86 400 s since 1970-01-01 UTC), dates as given by Python's
+        // datetime.utcfromtimestamp: 946684800 s is 2000-01-01; 951782400 s is 2000-02-29 (a
+        // leap day: 2000 is divisible by 400); 1709164800 s is 2024-02-29
         assert_eq!(civil_from_days(0), (1970, 1, 1));
         assert_eq!(civil_from_days(946_684_800 / 86_400), (2000, 1, 1));
-        assert_eq!(civil_from_days(951_782_400 / 86_400), (2000, 3, 1));
-        assert_eq!(civil_from_days(951_782_400 / 86_400 - 1), (2000, 2, 29));
+        assert_eq!(civil_from_days(951_782_400 / 86_400), (2000, 2, 29));
+        assert_eq!(civil_from_days(951_782_400 / 86_400 + 1), (2000, 3, 1));
         assert_eq!(civil_from_days(1_709_164_800 / 86_400), (2024, 2, 29));
         assert_eq!(civil_from_days(-1), (1969, 12, 31));
     }
