@@ -366,10 +366,17 @@ fn glance(h: &mut String, a: &Analysis) {
     match st.governing() {
         Some(d) => {
             let f = d.factor.unwrap_or(f64::INFINITY);
-            let verdict = if f + 1e-9 >= st.target_factor { "meets".to_owned() } else { "<span class=\"bad\">below</span>".to_owned() };
+            let verdict = if f + 1e-9 >= st.target_factor {
+                "meets it".to_owned()
+            } else {
+                match d.kentledge_kn {
+                    Some(k) if k > 0.0 => format!("<span class=\"bad\">below it: add {} kN kentledge</span> (section 5)", kn(k)),
+                    _ => "<span class=\"bad\">below it</span>".to_owned(),
+                }
+            };
             let _ = writeln!(
                 h,
-                "<tr><td class=\"k\">Lowest overturning factor</td><td>{} tipping towards {} ({verdict} the target {})</td></tr>",
+                "<tr><td class=\"k\">Lowest overturning factor</td><td>{} tipping towards {}; target {}: {verdict}</td></tr>",
                 num(f, 2),
                 d.direction,
                 num(st.target_factor, 2)
