@@ -13,7 +13,8 @@
 //!   braced base ([`rigid_base`]). Every share is kept for tracing ([`trace`]).
 //! - **check** ([`analyse`]): combinations, the worse method pass at every plate, uplift,
 //!   utilisation of jack and ground, equilibrium proof per case and pass, stability ([`stability`]).
-//! - **export**: the support-load schedule ([`schedule`]) and JSON ([`json`]).
+//! - **export**: the support-load schedule ([`schedule`]), JSON ([`json`]) and the printable
+//!   HTML report ([`report`]).
 //!
 //! Units: m, kN, kPa, kN·m. Results are a planning aid; see [`CAUTION`].
 #![warn(missing_docs)]
@@ -31,6 +32,7 @@ pub mod layout;
 pub mod loads;
 pub mod model;
 pub mod palette;
+pub mod report;
 pub mod rigid_base;
 pub mod schedule;
 pub mod solve;

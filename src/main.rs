@@ -53,6 +53,29 @@ enum Command {
         #[arg(long)]
         strict: bool,
     },
+    /// Write the printable load report: one self-contained HTML file (print it to A4 or A3).
+    Report {
+        /// Scene file (RON).
+        file: PathBuf,
+        /// Output file (HTML). Written atomically.
+        #[arg(short, long)]
+        output: PathBuf,
+        /// Revision note for the title block.
+        #[arg(long, default_value = "")]
+        note: String,
+        /// Date for the title block (default: today, UTC).
+        #[arg(long)]
+        date: Option<String>,
+        /// A rendered picture of the scene (PNG) to include.
+        #[arg(long)]
+        picture: Option<PathBuf>,
+        /// Paper size the print rules are set for.
+        #[arg(long, value_enum, default_value_t = PaperArg::A4)]
+        paper: PaperArg,
+        /// Exit with code 3 if any base plate is over capacity or lifts.
+        #[arg(long)]
+        strict: bool,
+    },
     /// Show where one base plate's load comes from, share by share.
     Trace {
         /// Scene file (RON).
@@ -70,6 +93,13 @@ enum Command {
         /// Scene file (RON). Created on first save if it does not exist.
         file: Option<PathBuf>,
     },
+}
+
+/// Paper sizes for `report --paper`.
+#[derive(Clone, Copy, clap::ValueEnum)]
+enum PaperArg {
+    A4,
+    A3,
 }
 
 fn main() -> ExitCode {
@@ -109,6 +139,32 @@ fn run() -> anyhow::Result<ExitCode> {
                 }
                 None => print!("{csv}"),
             }
+            Ok(strict_code(strict, &analysis))
+        }
+        Command::Report { file, output, note, date, picture, paper, strict } => {
+            let (scene, analysis) = load_and_analyse(&file)?;
+            let picture_png = match picture {
+                None => None,
+                Some(path) => {
+                    let bytes = std::fs::read(&path).with_context(|| format!("reading {}", path.display()))?;
+                    // source: PNG specification (ISO/IEC 15948) §5.2, the 8-byte signature
+                    anyhow::ensure!(bytes.starts_with(b"\x89PNG\r\n\x1a\n"), "{} is not a PNG file", path.display());
+                    Some(bytes)
+                }
+            };
+            let opts = plateload::report::ReportOptions {
+                revision_note: note,
+                date: date.unwrap_or_else(plateload::report::today_utc),
+                source: file.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default(),
+                picture_png,
+                paper: match paper {
+                    PaperArg::A4 => plateload::report::Paper::A4,
+                    PaperArg::A3 => plateload::report::Paper::A3,
+                },
+            };
+            plateload::report::save_report(&output, &scene, &analysis, &opts).with_context(|| format!("writing {}", output.display()))?;
+            eprintln!("wrote the report of {} base plates to {}", analysis.plates.len(), output.display());
+            eprintln!("{CAUTION}");
             Ok(strict_code(strict, &analysis))
         }
         Command::Trace { file, base } => {

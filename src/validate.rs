@@ -16,6 +16,9 @@ pub const MIN_SPAN_M: f64 = 0.01;
 pub const LIMIT_M: f64 = 1.0e4;
 /// Largest force accepted, kN (and kN/m, kPa).
 pub const LIMIT_KN: f64 = 1.0e6;
+/// Smallest capacity accepted (safe working load, kN; allowable bearing pressure, kPa). Smaller
+/// values are input mistakes that would turn utilisations into meaningless huge numbers.
+pub const MIN_CAPACITY: f64 = 1.0e-3;
 
 /// One problem found in a scene, tied to the element it is about.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
@@ -193,13 +196,17 @@ impl<'s> Checker<'s> {
     fn warn(&mut self, kind: ElementKind, id: &str, message: impl Into<String>) {
         self.warnings.push(Problem { kind, id: id.to_owned(), message: message.into() });
     }
+    /// A number as written in messages: plain, or in exponent form when very large or small.
+    fn show(v: f64) -> String {
+        if v != 0.0 && v.is_finite() && !(1e-4..1e9).contains(&v.abs()) { format!("{v:e}") } else { format!("{v}") }
+    }
     /// A finite number within ±limit; reports and returns false otherwise.
     fn number(&mut self, kind: ElementKind, id: &str, what: &str, v: f64, limit: f64) -> bool {
         if !v.is_finite() {
             self.err(kind, id, format!("{what} is not a number ({v})"));
             false
         } else if v.abs() > limit {
-            self.err(kind, id, format!("{what} = {v} is outside the plausible range (±{limit})"));
+            self.err(kind, id, format!("{what} = {} is outside the plausible range (±{})", Self::show(v), Self::show(limit)));
             false
         } else {
             true
@@ -213,6 +220,17 @@ impl<'s> Checker<'s> {
         if v < 0.0 || (!allow_zero && v == 0.0) {
             let need = if allow_zero { "zero or more" } else { "more than zero" };
             self.err(kind, id, format!("{what} must be {need} (it is {v})"));
+            return false;
+        }
+        true
+    }
+    /// A finite number from `min` up to `limit`.
+    fn at_least(&mut self, kind: ElementKind, id: &str, what: &str, v: f64, min: f64, limit: f64) -> bool {
+        if !self.positive(kind, id, what, v, limit, false) {
+            return false;
+        }
+        if v < min {
+            self.err(kind, id, format!("{what} = {} is below the smallest plausible value ({})", Self::show(v), Self::show(min)));
             return false;
         }
         true
@@ -253,6 +271,7 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
     let braced = check_braces(&mut c, &post_ix);
     let load_targets = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers, braced);
     check_combinations(&mut c);
+    check_one_braced_body(&mut c, &post_ix);
 
     if c.problems.is_empty() {
         Ok(Model {
@@ -273,7 +292,7 @@ fn check_site(c: &mut Checker) {
     use ElementKind as K;
     let site = &c.scene.site;
     let name = site.name.clone();
-    c.positive(K::Site, &name, "allowable bearing pressure (kPa)", site.allowable_bearing_kpa, LIMIT_KN, false);
+    c.at_least(K::Site, &name, "allowable bearing pressure (kPa)", site.allowable_bearing_kpa, MIN_CAPACITY, LIMIT_KN);
     if let Some(layer) = site.granular_layer {
         c.positive(K::Site, &name, "granular layer thickness (m)", layer.thickness_m, LIMIT_M, true);
         if let crate::model::LoadSpread::AngleDeg(a) = layer.spread {
@@ -298,12 +317,12 @@ fn check_site(c: &mut Checker) {
 fn check_support_types(c: &mut Checker) {
     use ElementKind as K;
     for s in &c.scene.support_types {
-        c.positive(K::SupportType, &s.id, "base plate width (m)", s.base_plate.width_m, LIMIT_M, false);
-        c.positive(K::SupportType, &s.id, "base plate length (m)", s.base_plate.length_m, LIMIT_M, false);
-        c.positive(K::SupportType, &s.id, "safe working load (kN)", s.swl_kn, LIMIT_KN, false);
+        c.at_least(K::SupportType, &s.id, "base plate width (m)", s.base_plate.width_m, MIN_SPAN_M, LIMIT_M);
+        c.at_least(K::SupportType, &s.id, "base plate length (m)", s.base_plate.length_m, MIN_SPAN_M, LIMIT_M);
+        c.at_least(K::SupportType, &s.id, "safe working load (kN)", s.swl_kn, MIN_CAPACITY, LIMIT_KN);
         if let Some(sole) = s.sole_plate {
-            c.positive(K::SupportType, &s.id, "sole plate width (m)", sole.width_m, LIMIT_M, false);
-            c.positive(K::SupportType, &s.id, "sole plate length (m)", sole.length_m, LIMIT_M, false);
+            c.at_least(K::SupportType, &s.id, "sole plate width (m)", sole.width_m, MIN_SPAN_M, LIMIT_M);
+            c.at_least(K::SupportType, &s.id, "sole plate length (m)", sole.length_m, MIN_SPAN_M, LIMIT_M);
         }
     }
 }
@@ -734,6 +753,9 @@ fn check_loads(
                 if basis.is_empty() {
                     c.err(K::Load, id, "names no load case to take a percentage of");
                 }
+                if let Some(twice) = basis.iter().enumerate().find(|(i, b)| basis[..*i].contains(b)) {
+                    c.err(K::Load, id, format!("names case {} twice: its percentage would be counted twice", twice.1));
+                }
                 check_direction(c, id, *direction, braced);
                 Some(Target::None)
             }
@@ -741,6 +763,62 @@ fn check_loads(
         out.push(target.unwrap_or(Target::None));
     }
     out
+}
+
+/// Horizontal loads are shared among all base plates as one rigid braced body. That holds only
+/// if every post is joined to the others by bearers or braces: separate structures would lean
+/// on each other through nothing, so refuse rather than give a wrong share.
+fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>) {
+    let scene = c.scene;
+    let n = scene.posts.len();
+    if n < 2 || !scene.loads.iter().any(|l| l.kind.is_horizontal()) {
+        return;
+    }
+    let mut parent: Vec<usize> = (0..n).collect();
+    fn root(parent: &mut [usize], mut i: usize) -> usize {
+        while parent[i] != i {
+            parent[i] = parent[parent[i]];
+            i = parent[i];
+        }
+        i
+    }
+    let join = |parent: &mut Vec<usize>, a: &str, b: &str| {
+        if let (Some(&a), Some(&b)) = (post_ix.get(a), post_ix.get(b)) {
+            let (ra, rb) = (root(parent, a), root(parent, b));
+            parent[ra] = rb;
+        }
+    };
+    for b in &scene.bearers {
+        for w in b.posts.windows(2) {
+            join(&mut parent, &w[0], &w[1]);
+        }
+    }
+    for b in &scene.braces {
+        join(&mut parent, &b.from.post, &b.to.post);
+    }
+    // First post of each separate group, in file order.
+    let mut firsts: Vec<(usize, usize)> = Vec::new();
+    for i in 0..n {
+        let r = root(&mut parent, i);
+        if !firsts.iter().any(|&(root, _)| root == r) {
+            firsts.push((r, i));
+        }
+    }
+    if firsts.len() > 1 {
+        let names: Vec<&str> = firsts.iter().take(4).map(|&(_, i)| scene.posts[i].id.as_str()).collect();
+        let more = if firsts.len() > 4 { ", …" } else { "" };
+        for l in scene.loads.iter().filter(|l| l.kind.is_horizontal()) {
+            c.err(
+                ElementKind::Load,
+                &l.id,
+                format!(
+                    "acts horizontally, but the posts form {} separate structures not joined by any bearer or brace (the groups of {}{more}): horizontal load cannot be shared between them; join them or analyse each in its own scene",
+                    firsts.len(),
+                    names.join(", ")
+                ),
+            );
+        }
+    }
 }
 
 /// A horizontal load needs bracing in each plan direction it has a component in.

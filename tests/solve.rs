@@ -85,6 +85,8 @@ fn braced_square() -> plateload::Scene {
     let mut s = bare_scene();
     s.posts = vec![post("NE", 1.0, 1.0, 4.0), post("SE", 1.0, -1.0, 4.0), post("NW", -1.0, 1.0, 4.0), post("SW", -1.0, -1.0, 4.0)];
     s.braces = vec![brace("bx", "SW", "SE", 4.0), brace("by", "SW", "NW", 4.0)];
+    // Weightless ledgers join the four posts into one structure.
+    s.bearers = vec![bearer("north", 4.0, &["NW", "NE"]), bearer("east", 4.0, &["SE", "NE"])];
     for p in ["NE", "SE", "NW", "SW"] {
         s.loads.push(load(&format!("top-{p}"), Case::G, LoadKind::PostTop { post: p.into(), kn: 10.0 }));
     }

@@ -15,3 +15,9 @@ mod continuous;
 mod validation;
 // The command line run as a user would.
 mod cli;
+// The printable report, checked in headless Chromium too.
+mod report;
+// Fuzzing of the loader and validator, properties of generated scenes, degenerate inputs.
+mod hardening;
+// Inputs that once broke something.
+mod regression;

@@ -1,0 +1,1109 @@
+//! The printable load report: one self-contained HTML file a site team can file and hand to
+//! whoever does the ground-bearing check.
+//!
+//! Everything is inline (CSS, the SVG plan, an optional PNG as a data URI): no fonts, scripts or
+//! links are fetched, so the file prints the same anywhere. Print rules target A4 (or A3) with the
+//! wide schedule on a landscape page. All user text (ids, names, notes) is escaped.
+//!
+//! Contents, in order: title block, caution, findings at a glance, inputs (ground, supports,
+//! combinations, loads), plan of the base plates coloured by [`crate::palette`], the schedule,
+//! stability, equilibrium proof per case, warnings, and the optional 3D picture.
+
+use std::fmt::Write as _;
+use std::path::Path;
+
+use crate::analysis::{Analysis, PlateResult};
+use crate::loads::{Case, Intensity, LoadKind, PlanDirection};
+use crate::model::{LoadSpread, Scene};
+use crate::palette::{Band, Cue};
+
+/// Paper size the print rules are written for.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum Paper {
+    /// ISO A4 (210 × 297 mm); the schedule goes on a landscape page.
+    #[default]
+    A4,
+    /// ISO A3 (297 × 420 mm); the schedule goes on a landscape page.
+    A3,
+}
+
+impl Paper {
+    fn css(self) -> &'static str {
+        match self {
+            Paper::A4 => "A4",
+            Paper::A3 => "A3",
+        }
+    }
+}
+
+/// What the report needs besides the scene and its analysis.
+#[derive(Debug, Clone, Default)]
+pub struct ReportOptions {
+    /// Revision note typed by the user, e.g. "Rev B: sole boards under row 3".
+    pub revision_note: String,
+    /// Date shown in the title block, as the caller wants it written (see [`today_utc`]).
+    pub date: String,
+    /// Name of the scene file, shown in the title block; may be empty.
+    pub source: String,
+    /// A rendered 3D picture (PNG bytes) to include, if any.
+    pub picture_png: Option<Vec<u8>>,
+    /// Paper size for printing.
+    pub paper: Paper,
+}
+
+/// Today's date in UTC as `YYYY-MM-DD`, from the system clock.
+pub fn today_utc() -> String {
+    let secs = std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map_or(0, |d| d.as_secs());
+    let (y, m, d) = civil_from_days((secs / 86_400) as i64);
+    format!("{y:04}-{m:02}-{d:02}")
+}
+
+/// Calendar date (year, month 1–12, day 1–31) of a day count since 1970-01-01, proleptic
+/// Gregorian calendar.
+// source: H. Hinnant, "chrono-Compatible Low-Level Date Algorithms", civil_from_days
+fn civil_from_days(days: i64) -> (i64, u32, u32) {
+    let z = days + 719_468;
+    let era = if z >= 0 { z } else { z - 146_096 } / 146_097;
+    let doe = z - era * 146_097; // day of era, 0..=146096
+    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365; // year of era, 0..=399
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100); // day of year from 1 March, 0..=365
+    let mp = (5 * doy + 2) / 153; // month from March, 0..=11
+    let d = (doy - (153 * mp + 2) / 5 + 1) as u32;
+    let m = if mp < 10 { mp + 3 } else { mp - 9 } as u32;
+    let y = yoe + era * 400 + i64::from(m <= 2);
+    (y, m, d)
+}
+
+/// Write the report of a scene to `path` atomically (temporary file, then rename).
+pub fn save_report(path: &Path, scene: &Scene, analysis: &Analysis, opts: &ReportOptions) -> std::io::Result<()> {
+    crate::io::write_atomic(path, report_html(scene, analysis, opts).as_bytes())
+}
+
+/// The whole report as one HTML document.
+///
+/// `analysis` must be the analysis of `scene` (as from [`crate::analyse`]).
+pub fn report_html(scene: &Scene, analysis: &Analysis, opts: &ReportOptions) -> String {
+    let mut h = String::with_capacity(64 * 1024 + analysis.plates.len() * 600);
+    let title = format!("Base-plate load report — {}", scene.site.name);
+    let _ = write!(
+        h,
+        "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n<title>{}</title>\n<style>\n{}</style>\n</head>\n<body>\n",
+        esc(&title),
+        css(opts.paper, &scene.site.name)
+    );
+    title_block(&mut h, scene, analysis, opts);
+    let _ = writeln!(h, "<div class=\"caution\" role=\"note\"><strong>Caution.</strong> {}</div>", esc(crate::CAUTION));
+    glance(&mut h, analysis);
+    inputs(&mut h, scene, analysis);
+    plan(&mut h, scene, analysis);
+    schedule(&mut h, analysis);
+    stability(&mut h, analysis);
+    equilibrium(&mut h, analysis);
+    warnings(&mut h, analysis);
+    if let Some(png) = &opts.picture_png {
+        let _ = writeln!(
+            h,
+            "<section class=\"picture\"><h2>8. 3D view</h2><figure><img alt=\"3D view of the scene\" src=\"data:image/png;base64,{}\"><figcaption>Rendered view of the scene, for orientation only; the numbers above govern.</figcaption></figure></section>",
+            base64(png)
+        );
+    }
+    let _ = writeln!(
+        h,
+        "<footer><p class=\"caution-small\">{}</p><p>Generated by plateload {} on {}. Units: kN, m, kPa, kN·m. Reactions are upward positive; a negative minimum is uplift.</p></footer>\n</body>\n</html>",
+        esc(crate::CAUTION),
+        env!("CARGO_PKG_VERSION"),
+        esc(&opts.date)
+    );
+    h
+}
+
+// ---------------------------------------------------------------------------------------------
+// Text helpers
+
+/// Escape text for HTML element content and attribute values.
+fn esc(s: &str) -> String {
+    let mut out = String::with_capacity(s.len());
+    for ch in s.chars() {
+        match ch {
+            '&' => out.push_str("&amp;"),
+            '<' => out.push_str("&lt;"),
+            '>' => out.push_str("&gt;"),
+            '"' => out.push_str("&quot;"),
+            '\'' => out.push_str("&#39;"),
+            // Control characters other than tab/newline have no place in a report.
+            c if c.is_control() && c != '\n' && c != '\t' => out.push('\u{FFFD}'),
+            c => out.push(c),
+        }
+    }
+    out
+}
+
+/// Escape text for a CSS string literal: everything but plain letters, digits and spaces as a
+/// hex escape, so no quote, backslash or `</style>` can break out.
+fn css_string(s: &str) -> String {
+    let mut out = String::new();
+    for ch in s.chars() {
+        if ch.is_ascii_alphanumeric() || ch == ' ' || ch == '-' || ch == '.' || ch == ',' || ch == '(' || ch == ')' {
+            out.push(ch);
+        } else if ch.is_control() {
+            out.push(' ');
+        } else {
+            let _ = write!(out, "\\{:x} ", ch as u32);
+        }
+    }
+    out
+}
+
+/// Standard base64 with padding.
+// source: RFC 4648 §4 (alphabet and padding)
+fn base64(bytes: &[u8]) -> String {
+    const ALPHABET: &[u8; 64] = b"ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/";
+    let mut out = String::with_capacity(bytes.len().div_ceil(3) * 4);
+    for chunk in bytes.chunks(3) {
+        let b = [chunk[0], *chunk.get(1).unwrap_or(&0), *chunk.get(2).unwrap_or(&0)];
+        let n = (u32::from(b[0]) << 16) | (u32::from(b[1]) << 8) | u32::from(b[2]);
+        for k in 0..4 {
+            if k <= chunk.len() {
+                out.push(ALPHABET[((n >> (18 - 6 * k)) & 63) as usize] as char);
+            } else {
+                out.push('=');
+            }
+        }
+    }
+    out
+}
+
+/// A number with `dp` decimals, never written as `-0.00`.
+fn num(v: f64, dp: usize) -> String {
+    let s = format!("{v:.dp$}");
+    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') { s[1..].to_owned() } else { s }
+}
+
+/// kN to two decimals.
+fn kn(v: f64) -> String {
+    num(v, 2)
+}
+
+/// A ratio as a percentage with one decimal.
+fn pct(v: f64) -> String {
+    format!("{} %", num(100.0 * v, 1))
+}
+
+/// A relative residual in scientific notation.
+fn sci(v: f64) -> String {
+    format!("{v:.1e}")
+}
+
+fn hex([r, g, b]: [u8; 3]) -> String {
+    format!("#{r:02x}{g:02x}{b:02x}")
+}
+
+/// Black or white, whichever reads better on `c`.
+fn ink_on(c: [u8; 3]) -> &'static str {
+    // common practice, no source: Rec. 601 luma threshold for picking text colour
+    let y = 0.299 * f64::from(c[0]) + 0.587 * f64::from(c[1]) + 0.114 * f64::from(c[2]);
+    if y < 120.0 { "#ffffff" } else { "#000000" }
+}
+
+fn direction_words(d: PlanDirection) -> String {
+    match d {
+        PlanDirection::PlusX => "+x".into(),
+        PlanDirection::MinusX => "−x".into(),
+        PlanDirection::PlusY => "+y".into(),
+        PlanDirection::MinusY => "−y".into(),
+        PlanDirection::Degrees(a) => format!("{}° from +x", num(a, 1)),
+    }
+}
+
+fn intensity_words(i: Intensity) -> String {
+    let q = i.kpa().map_or_else(|| "?".into(), |q| num(q, 2));
+    match i {
+        Intensity::Kpa(_) => format!("{q} kPa"),
+        Intensity::DutyUniform(c) => format!("{q} kPa (service class {c}, uniform q1)"),
+        Intensity::DutyPartial(c) => format!("{q} kPa (service class {c}, partial area q2)"),
+    }
+}
+
+/// (where, how much) of a load, in words.
+fn load_words(kind: &LoadKind) -> (String, String) {
+    let m = |v: f64| num(v, 3);
+    match kind {
+        LoadKind::DeckArea { deck, intensity } => (format!("whole deck {deck}"), intensity_words(*intensity)),
+        LoadKind::DeckPatch { deck, area, intensity } => {
+            (format!("deck {deck}, x {}–{}, y {}–{} m", m(area.x.0), m(area.x.1), m(area.y.0), m(area.y.1)), intensity_words(*intensity))
+        }
+        LoadKind::DeckPoint { deck, x, y, kn: p } => (format!("deck {deck} at ({}, {}) m", m(*x), m(*y)), format!("{} kN", kn(*p))),
+        LoadKind::BearerPoint { bearer, at_m, kn: p } => (format!("bearer {bearer}, {} m from its first post", m(*at_m)), format!("{} kN", kn(*p))),
+        LoadKind::BearerLine { bearer, from_m, to_m, kn_per_m } => {
+            (format!("bearer {bearer}, {}–{} m from its first post", m(*from_m), m(*to_m)), format!("{} kN/m", num(*kn_per_m, 3)))
+        }
+        LoadKind::PostTop { post, kn: p } => (format!("top of post {post}"), format!("{} kN", kn(*p))),
+        LoadKind::Horizontal { x, y, level, kn: p, direction } => {
+            (format!("({}, {}) m at level {} m", m(*x), m(*y), m(*level)), format!("{} kN towards {}", kn(*p), direction_words(*direction)))
+        }
+        LoadKind::Wind { face, kpa, direction } => (
+            format!("face ({}, {})–({}, {}) m, levels {}–{} m", m(face.from.0), m(face.from.1), m(face.to.0), m(face.to.1), m(face.bottom), m(face.top)),
+            format!("{} kPa towards {}", num(*kpa, 3), direction_words(*direction)),
+        ),
+        LoadKind::Notional { percent, direction, basis } => {
+            let cases: Vec<&str> = basis.iter().map(|c| c.name()).collect();
+            ("every post, where vertical load enters".into(), format!("{} % of {} towards {}", num(*percent, 2), cases.join("+"), direction_words(*direction)))
+        }
+    }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Sections
+
+fn css(paper: Paper, scene_name: &str) -> String {
+    let size = paper.css();
+    format!(
+        r#"@page {{ size: {size} portrait; margin: 14mm 12mm 16mm 12mm;
+  @bottom-left {{ content: "{name}  —  planning aid only: to be checked by a competent temporary-works designer"; font: 7pt sans-serif; color: #444; }}
+  @bottom-right {{ content: "page " counter(page) " of " counter(pages); font: 7pt sans-serif; color: #444; }} }}
+@page wide {{ size: {size} landscape; }}
+html {{ -webkit-print-color-adjust: exact; print-color-adjust: exact; }}
+body {{ font-family: "DejaVu Sans", "Liberation Sans", Arial, Helvetica, sans-serif; font-size: 9.5pt; color: #111; line-height: 1.35; margin: 0 auto; padding: 6mm; }}
+@media screen {{ body {{ max-width: 277mm; }} }}
+@media print {{ body {{ max-width: none; padding: 0; }} }}
+h1 {{ font-size: 15pt; margin: 0; }}
+h2 {{ font-size: 11.5pt; margin: 6mm 0 2mm; border-bottom: 1.5px solid #111; padding-bottom: 1mm; break-after: avoid-page; }}
+h3 {{ font-size: 10pt; margin: 3mm 0 1mm; break-after: avoid-page; }}
+p {{ margin: 1mm 0 2mm; }}
+table {{ border-collapse: collapse; width: 100%; margin: 1mm 0 3mm; }}
+th, td {{ border: 0.6px solid #777; padding: 1px 4px; vertical-align: top; }}
+th {{ background: #e8e8e8; text-align: left; font-weight: 600; }}
+td.n, th.n {{ text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }}
+thead {{ display: table-header-group; }}
+tr {{ break-inside: avoid; }}
+.titleblock {{ border: 2px solid #111; width: 100%; margin-bottom: 3mm; }}
+.titleblock td {{ border: 1px solid #111; padding: 2px 6px; }}
+.titleblock .k {{ width: 24mm; font-size: 7.5pt; text-transform: uppercase; letter-spacing: 0.04em; color: #333; background: #f2f2f2; }}
+.caution {{ border: 2.5px solid #111; background: #fff4c2; padding: 2.5mm 3mm; font-size: 10pt; margin: 2mm 0 3mm; break-inside: avoid; }}
+.glance td {{ border: none; padding: 0.5mm 3mm 0.5mm 0; }}
+.glance td.k {{ color: #333; width: 48mm; }}
+.bad {{ font-weight: 700; }}
+.plan {{ break-inside: avoid-page; }}
+.plan svg.plan-drawing {{ width: 100%; height: auto; max-height: 200mm; border: 0.6px solid #777; }}
+.legend {{ display: flex; flex-wrap: wrap; gap: 2mm 5mm; align-items: center; font-size: 8.5pt; margin: 1.5mm 0 3mm; }}
+.legend span.sw {{ display: inline-block; width: 9mm; height: 3.8mm; border: 0.6px solid #333; vertical-align: middle; margin-right: 1.2mm; }}
+.legend svg {{ vertical-align: middle; margin-right: 1.2mm; }}
+.wide {{ page: wide; }}
+.sched {{ font-size: 8.5pt; }}
+.sched th {{ font-size: 8pt; }}
+.sched td.u {{ font-weight: 700; }}
+.sched tr.total td {{ font-weight: 700; border-top: 1.5px solid #111; }}
+.note {{ font-size: 8.5pt; color: #333; }}
+.picture img {{ max-width: 100%; max-height: 170mm; border: 0.6px solid #777; }}
+.picture {{ break-inside: avoid-page; }}
+footer {{ margin-top: 6mm; border-top: 1px solid #111; font-size: 8pt; color: #333; }}
+.caution-small {{ font-weight: 700; }}
+"#,
+        name = css_string(scene_name)
+    )
+}
+
+fn title_block(h: &mut String, scene: &Scene, a: &Analysis, opts: &ReportOptions) {
+    let note = if opts.revision_note.trim().is_empty() { "—".to_owned() } else { esc(&opts.revision_note).replace('\n', "<br>") };
+    let source = if opts.source.is_empty() { "—".to_owned() } else { esc(&opts.source) };
+    let _ = writeln!(
+        h,
+        "<table class=\"titleblock\"><tr><td colspan=\"4\"><h1>Base-plate load report</h1></td></tr>\
+<tr><td class=\"k\">Scene</td><td colspan=\"3\"><strong>{}</strong></td></tr>\
+<tr><td class=\"k\">Date</td><td>{}</td><td class=\"k\">Scene file</td><td>{}</td></tr>\
+<tr><td class=\"k\">Revision note</td><td colspan=\"3\">{}</td></tr>\
+<tr><td class=\"k\">Contents</td><td colspan=\"3\">{} base plates, {} bearers, {} decks, {} braces, {} loads, {} combinations</td></tr>\
+<tr><td class=\"k\">Prepared with</td><td>plateload {}</td><td class=\"k\">Checked by</td><td>&nbsp;</td></tr></table>",
+        esc(&scene.site.name),
+        esc(&opts.date),
+        source,
+        note,
+        a.plates.len(),
+        scene.bearers.len(),
+        scene.decks.len(),
+        scene.braces.len(),
+        scene.loads.len(),
+        scene.combinations.len(),
+        env!("CARGO_PKG_VERSION"),
+    );
+}
+
+/// Which capacity governs a plate's utilisation.
+fn governed_by(p: &PlateResult) -> &'static str {
+    let g = p.governing();
+    if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" }
+}
+
+fn glance(h: &mut String, a: &Analysis) {
+    let _ = writeln!(h, "<section><h2>1. Findings at a glance</h2><table class=\"glance\">");
+    if let Some(w) = a.worst_plate() {
+        let p = &a.plates[w];
+        let g = p.governing();
+        let _ = writeln!(
+            h,
+            "<tr><td class=\"k\">Most utilised base plate</td><td><strong>{}</strong>: {} kN, {} ({}, combination {})</td></tr>",
+            esc(&p.id),
+            kn(g.max_kn),
+            pct(g.utilisation),
+            governed_by(p),
+            esc(&a.combinations[p.governing].name)
+        );
+    }
+    let over: Vec<&str> = a.plates.iter().filter(|p| p.status.over).map(|p| p.id.as_str()).collect();
+    let uplift: Vec<&str> = a.plates.iter().filter(|p| p.status.uplift).map(|p| p.id.as_str()).collect();
+    let list = |ids: &[&str]| {
+        if ids.is_empty() {
+            "none".to_owned()
+        } else {
+            let shown: Vec<String> = ids.iter().take(20).map(|s| esc(s)).collect();
+            let more = if ids.len() > 20 { format!(" and {} more", ids.len() - 20) } else { String::new() };
+            format!("<span class=\"bad\">{}: {}{more}</span>", ids.len(), shown.join(", "))
+        }
+    };
+    let _ = writeln!(h, "<tr><td class=\"k\">Over capacity</td><td>{}</td></tr>", list(&over));
+    let _ = writeln!(h, "<tr><td class=\"k\">Lifting (uplift)</td><td>{}</td></tr>", list(&uplift));
+    let st = &a.stability;
+    match st.governing() {
+        Some(d) => {
+            let f = d.factor.unwrap_or(f64::INFINITY);
+            let verdict = if f + 1e-9 >= st.target_factor {
+                "meets it".to_owned()
+            } else {
+                match d.kentledge_kn {
+                    Some(k) if k > 0.0 => format!("<span class=\"bad\">below it: add {} kN kentledge</span> (section 5)", kn(k)),
+                    _ => "<span class=\"bad\">below it</span>".to_owned(),
+                }
+            };
+            let _ = writeln!(
+                h,
+                "<tr><td class=\"k\">Lowest overturning factor</td><td>{} tipping towards {}; target {}: {verdict}</td></tr>",
+                num(f, 2),
+                d.direction,
+                num(st.target_factor, 2)
+            );
+        }
+        None => {
+            let _ = writeln!(h, "<tr><td class=\"k\">Lowest overturning factor</td><td>nothing overturns</td></tr>");
+        }
+    }
+    let _ = writeln!(h, "<tr><td class=\"k\">Equilibrium (worst case)</td><td>relative residual {} (section 6)</td></tr>", sci(a.worst_residual()));
+    let _ = writeln!(h, "<tr><td class=\"k\">Warnings</td><td>{}</td></tr></table></section>", a.warnings.len());
+}
+
+fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
+    let site = &scene.site;
+    let _ = writeln!(h, "<section><h2>2. Inputs</h2><h3>Ground</h3><table><tbody>");
+    let _ = writeln!(h, "<tr><th>Allowable ground bearing pressure</th><td class=\"n\">{} kPa</td><td>entered by the planner; confirm with site data</td></tr>", num(site.allowable_bearing_kpa, 1));
+    match site.granular_layer {
+        None => {
+            let _ = writeln!(h, "<tr><th>Granular layer</th><td class=\"n\">none</td><td>plates bear directly on the ground</td></tr>");
+        }
+        Some(l) => {
+            let rule = match l.spread {
+                LoadSpread::TwoToOne => "2 vertical : 1 horizontal spread, P/((B+z)(L+z)) (Das; Bowles)".to_owned(),
+                LoadSpread::FortyFive => "45° spread, P/((B+2z)(L+2z)) (common practice)".to_owned(),
+                LoadSpread::AngleDeg(d) => format!("spread at {}° from the vertical", num(d, 1)),
+            };
+            let _ = writeln!(h, "<tr><th>Granular layer</th><td class=\"n\">{} m</td><td>{}</td></tr>", num(l.thickness_m, 3), esc(&rule));
+        }
+    }
+    let _ = writeln!(h, "<tr><th>Target overturning factor</th><td class=\"n\">{}</td><td>restoring ÷ overturning moment</td></tr></tbody></table>", num(scene.stability.target_factor, 2));
+
+    let _ = writeln!(
+        h,
+        "<h3>Support types</h3><table><thead><tr><th>Id</th><th>Base plate (mm)</th><th>Sole plate (mm)</th><th class=\"n\">SWL (kN)</th><th class=\"n\">Bearing area at formation (m²)</th><th class=\"n\">Plates</th></tr></thead><tbody>"
+    );
+    for s in &scene.support_types {
+        let mm = |p: crate::model::PlateSize| format!("{} × {}", num(p.width_m * 1000.0, 0), num(p.length_m * 1000.0, 0));
+        let used = a.plates.iter().filter(|p| p.support == s.id).count();
+        let _ = writeln!(
+            h,
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{used}</td></tr>",
+            esc(&s.id),
+            mm(s.base_plate),
+            s.sole_plate.map_or_else(|| "none".into(), mm),
+            kn(s.swl_kn),
+            num(crate::check::bearing_area(scene, s), 4)
+        );
+    }
+    let _ = writeln!(h, "</tbody></table>");
+
+    let _ = writeln!(
+        h,
+        "<h3>Load combinations</h3><table><thead><tr><th>Name</th><th class=\"n\">γG unfav.</th><th class=\"n\">γG fav.</th><th class=\"n\">γQ</th><th class=\"n\">γW</th><th>Checks</th><th>Source of the factors</th></tr></thead><tbody>"
+    );
+    for c in &a.combinations {
+        let f = c.factors;
+        let mut checks = Vec::new();
+        if c.checks_capacity {
+            checks.push("capacity");
+        }
+        if c.checks_uplift {
+            checks.push("uplift");
+        }
+        let source = if c.source.trim().is_empty() { "not given".to_owned() } else { esc(&c.source) };
+        let _ = writeln!(
+            h,
+            "<tr><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td>{}</td><td>{source}</td></tr>",
+            esc(&c.name),
+            num(f.g_unfavourable, 2),
+            num(f.g_favourable, 2),
+            num(f.q, 2),
+            num(f.w, 2),
+            if checks.is_empty() { "reported only".into() } else { checks.join(", ") }
+        );
+    }
+    let _ = writeln!(
+        h,
+        "</tbody></table><p class=\"note\">Permanent load takes, per plate, whichever factor is worse. Each imposed load counts only where it makes the result worse; of the horizontal loads, the worst single plan direction counts.</p>"
+    );
+
+    let _ = writeln!(h, "<h3>Loads</h3><table><thead><tr><th>Id</th><th>Case</th><th>Kind</th><th>Where</th><th>Value</th></tr></thead><tbody>");
+    let _ = writeln!(h, "<tr><td>self-weight</td><td>G</td><td>self-weight</td><td>every post, bearer and deck</td><td>from the members' kN/m and the decks' kPa</td></tr>");
+    for l in &scene.loads {
+        let (place, value) = load_words(&l.kind);
+        let _ = writeln!(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>", esc(&l.id), l.case, l.kind.label(), esc(&place), esc(&value));
+    }
+    let braced = match (a.braced.x, a.braced.y) {
+        (true, true) => "x and y",
+        (true, false) => "x only",
+        (false, true) => "y only",
+        (false, false) => "neither direction",
+    };
+    let _ = writeln!(h, "</tbody></table><p class=\"note\">Braced plan directions: {braced}. Cases: G permanent, Q imposed, W horizontal.</p></section>");
+}
+
+/// Plan geometry in drawing units (1 unit ≈ 0.19 mm when printed across A4).
+struct View {
+    scale: f64,
+    x0: f64,
+    y1: f64,
+    margin: f64,
+    top: f64,
+}
+
+impl View {
+    fn x(&self, x: f64) -> f64 {
+        self.margin + (x - self.x0) * self.scale
+    }
+    fn y(&self, y: f64) -> f64 {
+        self.top + (self.y1 - y) * self.scale
+    }
+}
+
+/// Round length for a scale bar: 1, 2 or 5 × 10ⁿ, not above `max`.
+fn nice_length(max: f64) -> f64 {
+    if !(max.is_finite() && max > 0.0) {
+        return 1.0;
+    }
+    let p = 10f64.powf(max.log10().floor());
+    [5.0, 2.0, 1.0].into_iter().map(|k| k * p).find(|&l| l <= max).unwrap_or(p)
+}
+
+/// The plan drawing of the base plates as SVG.
+fn plan_svg(scene: &Scene, a: &Analysis) -> String {
+    const WIDTH: f64 = 1000.0;
+    const MARGIN: f64 = 60.0;
+    const TOP: f64 = 50.0;
+    const BOTTOM: f64 = 110.0;
+    const MIN_PLATE: f64 = 9.0;
+    let model = crate::validate(scene).ok();
+    // Plan extent: plates with their bearing size, decks and bearers.
+    let (mut x0, mut x1, mut y0, mut y1) = (f64::INFINITY, f64::NEG_INFINITY, f64::INFINITY, f64::NEG_INFINITY);
+    let mut grow = |x: f64, y: f64| {
+        x0 = x0.min(x);
+        x1 = x1.max(x);
+        y0 = y0.min(y);
+        y1 = y1.max(y);
+    };
+    let plate_size = |p: &PlateResult| {
+        scene.support_types.iter().find(|s| s.id == p.support).map_or((0.0, 0.0), |s| {
+            let b = s.bearing_plate();
+            (b.width_m, b.length_m)
+        })
+    };
+    for p in &a.plates {
+        let (w, l) = plate_size(p);
+        grow(p.x - w / 2.0, p.y - l / 2.0);
+        grow(p.x + w / 2.0, p.y + l / 2.0);
+    }
+    for d in &scene.decks {
+        grow(d.extent.x.0, d.extent.y.0);
+        grow(d.extent.x.1, d.extent.y.1);
+    }
+    if let Some(m) = &model {
+        for line in &m.bearers {
+            let (a, b) = (line.point_at(line.start), line.point_at(line.end));
+            grow(a.0, a.1);
+            grow(b.0, b.1);
+        }
+    }
+    if !x0.is_finite() {
+        (x0, x1, y0, y1) = (0.0, 1.0, 0.0, 1.0);
+    }
+    let (dx, dy) = ((x1 - x0).max(0.5), (y1 - y0).max(0.5));
+    // Labels sit to the right of each plate: keep room on the right.
+    let label_room = 110.0;
+    let scale = ((WIDTH - 2.0 * MARGIN - label_room) / dx).min(900.0 / dy);
+    let view = View { scale, x0, y1: y0 + dy, margin: MARGIN, top: TOP };
+    let labels: Vec<Vec<String>> = a.plates.iter().map(plate_label).collect();
+    // Drawn plate rectangles (centre x, centre y, half width, half length), drawing units.
+    let rects: Vec<[f64; 4]> = a
+        .plates
+        .iter()
+        .map(|p| {
+            let (w, l) = plate_size(p);
+            [view.x(p.x), view.y(p.y), (w * scale).max(MIN_PLATE) / 2.0, (l * scale).max(MIN_PLATE) / 2.0]
+        })
+        .collect();
+    let font = label_font(&rects, &labels);
+    // Room below for the lowest labels, then the axes and the scale bar.
+    let lowest = rects.iter().zip(&labels).map(|(r, l)| label_box(r, l, font)[3]).fold(TOP + dy * scale, f64::max);
+    let height = lowest + BOTTOM;
+
+    let mut s = String::new();
+    let _ = write!(
+        s,
+        "<svg class=\"plan-drawing\" xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 {WIDTH} {}\" font-family=\"DejaVu Sans, Liberation Sans, Arial, sans-serif\" role=\"img\" aria-label=\"Plan of the base plates\">",
+        num(height, 1)
+    );
+    let _ = write!(
+        s,
+        "<defs><pattern id=\"hatch\" width=\"6\" height=\"6\" patternUnits=\"userSpaceOnUse\"><path d=\"M0 0L6 6M6 0L0 6\" stroke=\"#ffffff\" stroke-width=\"1.3\"/></pattern>\
+<marker id=\"arrow\" viewBox=\"0 0 10 10\" refX=\"9\" refY=\"5\" markerWidth=\"7\" markerHeight=\"7\" orient=\"auto-start-reverse\"><path d=\"M0 0L10 5L0 10z\" fill=\"#111\"/></marker></defs>"
+    );
+    let _ = write!(s, "<rect x=\"0\" y=\"0\" width=\"{WIDTH}\" height=\"{}\" fill=\"#ffffff\"/>", num(height, 1));
+    // Decks: pale fill, dashed edge, id in the corner.
+    for d in &scene.decks {
+        let (ax, ay, bx, by) = (view.x(d.extent.x.0), view.y(d.extent.y.1), view.x(d.extent.x.1), view.y(d.extent.y.0));
+        let _ = write!(
+            s,
+            "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"#f3f3f3\" fill-opacity=\"0.7\" stroke=\"#9a9a9a\" stroke-width=\"1\" stroke-dasharray=\"6 4\"><title>deck {}</title></rect>",
+            num(ax, 1),
+            num(ay, 1),
+            num(bx - ax, 1),
+            num(by - ay, 1),
+            esc(&d.id)
+        );
+    }
+    // Bearers: thin grey lines, for orientation.
+    if let Some(m) = &model {
+        for line in &m.bearers {
+            let (p, q) = (line.point_at(line.start), line.point_at(line.end));
+            if (p.0 - q.0).hypot(p.1 - q.1) < 1e-9 {
+                continue;
+            }
+            let _ = write!(
+                s,
+                "<line x1=\"{}\" y1=\"{}\" x2=\"{}\" y2=\"{}\" stroke=\"#b5b5b5\" stroke-width=\"1.6\"/>",
+                num(view.x(p.0), 1),
+                num(view.y(p.1), 1),
+                num(view.x(q.0), 1),
+                num(view.y(q.1), 1)
+            );
+        }
+    }
+    // Wind faces: a dash-dot line with an arrow showing which way the wind blows.
+    for l in &scene.loads {
+        if let LoadKind::Wind { face, direction, .. } = &l.kind {
+            let (fx, fy) = (view.x(face.from.0), view.y(face.from.1));
+            let (tx, ty) = (view.x(face.to.0), view.y(face.to.1));
+            let (mx, my) = ((fx + tx) / 2.0, (fy + ty) / 2.0);
+            let (ux, uy) = direction.unit();
+            let _ = write!(
+                s,
+                "<line x1=\"{}\" y1=\"{}\" x2=\"{}\" y2=\"{}\" stroke=\"#1f4e79\" stroke-width=\"2.5\" stroke-dasharray=\"10 3 2 3\"/><line x1=\"{}\" y1=\"{}\" x2=\"{}\" y2=\"{}\" stroke=\"#111\" stroke-width=\"1.5\" marker-end=\"url(#arrow)\"/><title>wind {}</title>",
+                num(fx, 1),
+                num(fy, 1),
+                num(tx, 1),
+                num(ty, 1),
+                num(mx - ux * 30.0, 1),
+                num(my + uy * 30.0, 1),
+                num(mx, 1),
+                num(my, 1),
+                esc(&l.id)
+            );
+        }
+    }
+    // Plates at scale (never smaller than MIN_PLATE units), coloured by band, with cues.
+    let mut enlarged = false;
+    for (p, label) in a.plates.iter().zip(&labels) {
+        let g = p.governing();
+        let band = Band::of(g.utilisation);
+        let cue = Cue::of(p.status);
+        let (w, l) = plate_size(p);
+        let (mut pw, mut pl) = (w * scale, l * scale);
+        if pw < MIN_PLATE || pl < MIN_PLATE {
+            enlarged = true;
+            pw = pw.max(MIN_PLATE);
+            pl = pl.max(MIN_PLATE);
+        }
+        let (cx, cy) = (view.x(p.x), view.y(p.y));
+        let (rx, ry) = (cx - pw / 2.0, cy - pl / 2.0);
+        let over = matches!(cue, Cue::Over | Cue::OverAndUplift);
+        let uplift = matches!(cue, Cue::Uplift | Cue::OverAndUplift);
+        let _ = write!(s, "<g class=\"plate\" data-id=\"{}\">", esc(&p.id));
+        let _ = write!(
+            s,
+            "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"{}\" stroke=\"#222\" stroke-width=\"1\"/>",
+            num(rx, 1),
+            num(ry, 1),
+            num(pw, 1),
+            num(pl, 1),
+            hex(band.colour())
+        );
+        if over {
+            // Second cue for over capacity: white cross-hatch and a bold outline ring.
+            let _ = write!(
+                s,
+                "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"url(#hatch)\"/><rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"none\" stroke=\"#000\" stroke-width=\"3.5\"/>",
+                num(rx, 1),
+                num(ry, 1),
+                num(pw, 1),
+                num(pl, 1),
+                num(rx - 4.5, 1),
+                num(ry - 4.5, 1),
+                num(pw + 9.0, 1),
+                num(pl + 9.0, 1)
+            );
+        }
+        if uplift {
+            // Second cue for uplift: an upward marker above the plate.
+            let (tx, ty) = (cx, ry - 8.0);
+            let k = font * 0.8;
+            let _ = write!(
+                s,
+                "<path d=\"M{} {}L{} {}L{} {}z\" fill=\"#ffffff\" stroke=\"#000\" stroke-width=\"2\"/><line x1=\"{}\" y1=\"{}\" x2=\"{}\" y2=\"{}\" stroke=\"#000\" stroke-width=\"2\"/>",
+                num(tx, 1),
+                num(ty - k * 1.6, 1),
+                num(tx - k * 0.7, 1),
+                num(ty - k * 0.5, 1),
+                num(tx + k * 0.7, 1),
+                num(ty - k * 0.5, 1),
+                num(tx, 1),
+                num(ty - k * 0.5, 1),
+                num(tx, 1),
+                num(ty, 1)
+            );
+        }
+        let lx = cx + pw / 2.0 + 4.0;
+        let ly = cy - font * 0.55;
+        let _ = write!(
+            s,
+            "<text x=\"{}\" y=\"{}\" font-size=\"{}\" paint-order=\"stroke\" stroke=\"#ffffff\" stroke-width=\"3\" stroke-linejoin=\"round\"><tspan font-weight=\"700\">{}</tspan>",
+            num(lx, 1),
+            num(ly, 1),
+            num(font, 1),
+            esc(&label[0]),
+        );
+        for (k, line) in label.iter().enumerate().skip(1) {
+            let weight = if k >= 3 { " font-weight=\"700\"" } else { "" };
+            let _ = write!(s, "<tspan x=\"{}\" dy=\"1.1em\"{weight}>{}</tspan>", num(lx, 1), esc(line));
+        }
+        s.push_str("</text></g>");
+    }
+    // Axes arrows and scale bar along the bottom.
+    let base_y = height - 40.0;
+    let ox = MARGIN;
+    let _ = write!(
+        s,
+        "<g font-size=\"13\"><line x1=\"{ox}\" y1=\"{by}\" x2=\"{}\" y2=\"{by}\" stroke=\"#111\" stroke-width=\"1.8\" marker-end=\"url(#arrow)\"/><text x=\"{}\" y=\"{}\">+x</text>\
+<line x1=\"{ox}\" y1=\"{by}\" x2=\"{ox}\" y2=\"{}\" stroke=\"#111\" stroke-width=\"1.8\" marker-end=\"url(#arrow)\"/><text x=\"{}\" y=\"{}\">+y</text>\
+<text x=\"{}\" y=\"{}\" font-size=\"10.5\" fill=\"#444\">plan axes of the scene (site north is not recorded)</text></g>",
+        ox + 55.0,
+        ox + 60.0,
+        base_y + 5.0,
+        base_y - 55.0,
+        ox + 8.0,
+        base_y - 50.0,
+        ox,
+        base_y + 24.0,
+        by = num(base_y, 1)
+    );
+    let bar = nice_length(dx * 0.4);
+    let bar_px = bar * scale;
+    let bx = WIDTH - MARGIN - bar_px;
+    let _ = write!(s, "<g font-size=\"12\">");
+    for k in 0..4 {
+        let fill = if k % 2 == 0 { "#111" } else { "#fff" };
+        let _ = write!(
+            s,
+            "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"7\" fill=\"{fill}\" stroke=\"#111\" stroke-width=\"1\"/>",
+            num(bx + k as f64 * bar_px / 4.0, 1),
+            num(base_y - 7.0, 1),
+            num(bar_px / 4.0, 1)
+        );
+    }
+    let _ = write!(
+        s,
+        "<text x=\"{}\" y=\"{}\" text-anchor=\"middle\">0</text><text x=\"{}\" y=\"{}\" text-anchor=\"middle\">{} m</text><text x=\"{}\" y=\"{}\" text-anchor=\"middle\" font-size=\"10.5\" fill=\"#444\">scale bar</text></g>",
+        num(bx, 1),
+        num(base_y + 10.0, 1),
+        num(bx + bar_px, 1),
+        num(base_y + 10.0, 1),
+        num(bar, 3).trim_end_matches('0').trim_end_matches('.'),
+        num(bx + bar_px / 2.0, 1),
+        num(base_y + 24.0, 1)
+    );
+    if enlarged {
+        let _ = write!(
+            s,
+            "<text x=\"{}\" y=\"{}\" font-size=\"10.5\" fill=\"#444\" text-anchor=\"end\">plates smaller than the drawing can show are drawn enlarged</text>",
+            num(WIDTH - MARGIN, 1),
+            num(TOP - 28.0, 1)
+        );
+    }
+    s.push_str("</svg>");
+    s
+}
+
+/// Box of a plate's label at font size `f`: to the right of the plate, starting a little above
+/// its centre. Characters are taken as 0.62 em wide (a little over the average of sans faces).
+fn label_box(r: &[f64; 4], label: &[String], f: f64) -> [f64; 4] {
+    let chars = label.iter().map(|t| t.chars().count()).max().unwrap_or(1) as f64;
+    let lines = label.len() as f64;
+    let x0 = r[0] + r[2] + 4.0;
+    let y0 = r[1] - 1.35 * f;
+    [x0, y0, x0 + 0.62 * f * chars, y0 + 1.1 * f * lines + 0.3 * f]
+}
+
+/// The largest label size (6 to 17 units) at which no label runs into another label or plate.
+fn label_font(rects: &[[f64; 4]], labels: &[Vec<String>]) -> f64 {
+    const LARGEST: f64 = 17.0;
+    let overlap = |a: [f64; 4], b: [f64; 4]| a[0] < b[2] && b[0] < a[2] && a[1] < b[3] && b[1] < a[3];
+    let plate = |r: &[f64; 4]| [r[0] - r[2], r[1] - r[3], r[0] + r[2], r[1] + r[3]];
+    // A label box shrinks towards its anchor as the font gets smaller, so only pairs that clash
+    // at the largest size can clash at all. Find those through a grid, not every pair.
+    let big: Vec<[f64; 4]> = rects.iter().zip(labels).map(|(r, l)| label_box(r, l, LARGEST)).collect();
+    let hull: Vec<[f64; 4]> = big.iter().zip(rects).map(|(b, r)| {
+        let p = plate(r);
+        [b[0].min(p[0]), b[1].min(p[1]), b[2].max(p[2]), b[3].max(p[3])]
+    }).collect();
+    let cell = hull.iter().map(|h| (h[2] - h[0]).max(h[3] - h[1])).fold(1.0, f64::max);
+    let key = |v: f64| (v / cell).floor() as i64;
+    let mut grid: std::collections::HashMap<(i64, i64), Vec<usize>> = std::collections::HashMap::new();
+    for (j, h) in hull.iter().enumerate() {
+        for gx in key(h[0])..=key(h[2]) {
+            for gy in key(h[1])..=key(h[3]) {
+                grid.entry((gx, gy)).or_default().push(j);
+            }
+        }
+    }
+    let mut pairs: Vec<(usize, usize)> = Vec::new();
+    for (i, b) in big.iter().enumerate() {
+        let mut near: Vec<usize> = Vec::new();
+        for gx in key(b[0])..=key(b[2]) {
+            for gy in key(b[1])..=key(b[3]) {
+                near.extend(grid.get(&(gx, gy)).into_iter().flatten().copied());
+            }
+        }
+        near.sort_unstable();
+        near.dedup();
+        pairs.extend(near.into_iter().filter(|&j| j != i && overlap(*b, hull[j])).map(|j| (i, j)));
+    }
+    let fits = |f: f64| {
+        pairs.iter().all(|&(i, j)| {
+            let b = label_box(&rects[i], &labels[i], f);
+            !overlap(b, label_box(&rects[j], &labels[j], f)) && !overlap(b, plate(&rects[j]))
+        })
+    };
+    let mut f = LARGEST;
+    while f > 6.0 && !fits(f) {
+        f -= 0.5;
+    }
+    f
+}
+
+/// The label lines of a plate on the plan: id, governing kN, utilisation, then any findings
+/// (with the worst uplift load where the plate lifts). The first line and the findings are bold.
+fn plate_label(p: &PlateResult) -> Vec<String> {
+    let g = p.governing();
+    let mut lines = vec![p.id.clone(), format!("{} kN", kn(g.max_kn)), pct(g.utilisation)];
+    if p.status.over {
+        lines.push("OVER".into());
+    }
+    if p.status.uplift {
+        let lift = p.combinations.iter().filter(|c| c.status.uplift).map(|c| c.min_kn).fold(f64::INFINITY, f64::min);
+        lines.push("UPLIFT".into());
+        lines.push(format!("min {} kN", kn(lift)));
+    }
+    lines
+}
+
+fn legend() -> String {
+    let mut l = String::from("<div class=\"legend\"><strong>Governing utilisation:</strong>");
+    for b in Band::ALL {
+        let _ = write!(l, "<span><span class=\"sw\" style=\"background:{}\"></span>{}</span>", hex(b.colour()), esc(&b.label()));
+    }
+    let over = hex(Band::Over.colour());
+    let _ = write!(
+        l,
+        "<span><svg width=\"26\" height=\"18\" viewBox=\"0 0 26 18\"><defs><pattern id=\"lh\" width=\"5\" height=\"5\" patternUnits=\"userSpaceOnUse\"><path d=\"M0 0L5 5M5 0L0 5\" stroke=\"#fff\" stroke-width=\"1\"/></pattern></defs><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"{over}\"/><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"url(#lh)\"/><rect x=\"2\" y=\"1\" width=\"22\" height=\"16\" fill=\"none\" stroke=\"#000\" stroke-width=\"2.5\"/></svg>over capacity: hatched, bold ring</span>\
+<span><svg width=\"18\" height=\"18\" viewBox=\"0 0 18 18\"><path d=\"M9 1L3 9L15 9z\" fill=\"#fff\" stroke=\"#000\" stroke-width=\"1.6\"/><line x1=\"9\" y1=\"9\" x2=\"9\" y2=\"17\" stroke=\"#000\" stroke-width=\"1.6\"/></svg>uplift: upward marker</span></div>"
+    );
+    l
+}
+
+fn plan(h: &mut String, scene: &Scene, a: &Analysis) {
+    let _ = writeln!(
+        h,
+        "<section class=\"plan\"><h2>3. Plan of the base plates</h2><p class=\"note\">Each plate is drawn at the size of its bearing plate (sole plate if any), coloured by its governing utilisation, and labelled with its id, governing load (kN) and utilisation. Grey lines are bearers; dashed outlines are the decks ({}).{}</p>",
+        if scene.decks.is_empty() { "none".to_owned() } else { scene.decks.iter().map(|d| esc(&d.id)).collect::<Vec<_>>().join(", ") },
+        wind_note(scene)
+    );
+    h.push_str(&plan_svg(scene, a));
+    h.push_str(&legend());
+    h.push_str("</section>\n");
+}
+
+/// Caption words for the wind faces drawn on the plan.
+fn wind_note(scene: &Scene) -> String {
+    let faces: Vec<String> = scene
+        .loads
+        .iter()
+        .filter_map(|l| match &l.kind {
+            LoadKind::Wind { direction, .. } => Some(format!("{} (towards {})", esc(&l.id), direction_words(*direction))),
+            _ => None,
+        })
+        .collect();
+    if faces.is_empty() { String::new() } else { format!(" Blue dash-dot lines are wind faces, the arrow showing the wind: {}.", faces.join(", ")) }
+}
+
+fn schedule(h: &mut String, a: &Analysis) {
+    let _ = writeln!(h, "<section class=\"wide\"><h2>4. Support-load schedule</h2>");
+    let _ = write!(
+        h,
+        "<table class=\"sched\"><thead><tr><th rowspan=\"2\">Plate</th><th rowspan=\"2\" class=\"n\">x (m)</th><th rowspan=\"2\" class=\"n\">y (m)</th><th rowspan=\"2\">Support</th><th colspan=\"3\">Reaction per case (kN)</th>"
+    );
+    for c in &a.combinations {
+        let _ = write!(h, "<th colspan=\"2\">{} (kN)</th>", esc(&c.name));
+    }
+    let _ = write!(
+        h,
+        "<th rowspan=\"2\" class=\"n\">SWL (kN)</th><th rowspan=\"2\" class=\"n\">Bearing area (m²)</th><th rowspan=\"2\" class=\"n\">Bearing (kPa)</th><th rowspan=\"2\" class=\"n\">Allowed (kPa)</th><th rowspan=\"2\" class=\"n\">Utilisation</th><th rowspan=\"2\">Governs</th><th rowspan=\"2\">Status</th></tr><tr><th class=\"n\">G</th><th class=\"n\">Q</th><th class=\"n\">W</th>"
+    );
+    for _ in &a.combinations {
+        h.push_str("<th class=\"n\">max</th><th class=\"n\">min</th>");
+    }
+    h.push_str("</tr></thead><tbody>\n");
+    let mut totals = [0.0; 3];
+    for p in &a.plates {
+        let g = p.governing();
+        let colour = Band::of(g.utilisation).colour();
+        let _ = write!(h, "<tr><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td>{}</td>", esc(&p.id), num(p.x, 3), num(p.y, 3), esc(&p.support));
+        for c in Case::ALL {
+            totals[c.index()] += p.case_kn[c.index()];
+            let _ = write!(h, "<td class=\"n\">{}</td>", kn(p.case_kn[c.index()]));
+        }
+        for pc in &p.combinations {
+            let min_cls = if pc.min_kn < -crate::check::UPLIFT_TOLERANCE_KN { " bad" } else { "" };
+            let _ = write!(h, "<td class=\"n\">{}</td><td class=\"n{min_cls}\">{}</td>", kn(pc.max_kn), kn(pc.min_kn));
+        }
+        let status = if p.status.is_ok() { "OK".to_owned() } else { format!("<span class=\"bad\">{}</span>", p.status.label()) };
+        let _ = writeln!(
+            h,
+            "<td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n u\" style=\"background:{};color:{}\">{}</td><td>{}, {}</td><td>{status}</td></tr>",
+            kn(p.swl_kn),
+            num(p.bearing_area_m2, 4),
+            num(g.bearing_kpa, 1),
+            num(p.allowable_kpa, 1),
+            hex(colour),
+            ink_on(colour),
+            pct(g.utilisation),
+            esc(&a.combinations[p.governing].name),
+            governed_by(p)
+        );
+    }
+    let span = 3 + 2 * a.combinations.len() + 7;
+    let _ = writeln!(
+        h,
+        "<tr class=\"total\"><td colspan=\"4\">Total of the reactions</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td colspan=\"{}\"></td></tr></tbody></table>",
+        kn(totals[0]),
+        kn(totals[1]),
+        kn(totals[2]),
+        span - 3
+    );
+    let _ = writeln!(
+        h,
+        "<p class=\"note\">Reactions upward positive; a negative minimum is uplift. Utilisation is the larger of load ÷ SWL and bearing pressure ÷ allowable, under the combination that governs (capacity-checking combinations only). The per-case totals equal the applied load of each case (section 6). The W column adds every horizontal load item, including alternatives from opposite sides, so it is an equilibrium total, not a design value: the combination columns take the worst single direction.</p></section>"
+    );
+}
+
+fn stability(h: &mut String, a: &Analysis) {
+    let st = &a.stability;
+    let _ = writeln!(h, "<section><h2>5. Stability against overturning</h2><table class=\"glance\">");
+    let _ = writeln!(h, "<tr><td class=\"k\">Permanent load</td><td>{} kN</td></tr>", kn(st.permanent_kn));
+    let cog = st.centre_of_gravity.map_or_else(|| "— (no permanent load)".to_owned(), |(x, y)| format!("x = {} m, y = {} m", num(x, 3), num(y, 3)));
+    let _ = writeln!(h, "<tr><td class=\"k\">Centre of gravity (plan)</td><td>{cog}</td></tr>");
+    let _ = writeln!(h, "<tr><td class=\"k\">Target factor</td><td>{}</td></tr></table>", num(st.target_factor, 2));
+    let _ = writeln!(
+        h,
+        "<table><thead><tr><th>Tipping towards</th><th class=\"n\">Edge at (m)</th><th class=\"n\">Restoring (kN·m)</th><th class=\"n\">Overturning (kN·m)</th><th class=\"n\">Factor</th><th class=\"n\">Kentledge needed (kN)</th><th>Verdict</th></tr></thead><tbody>"
+    );
+    for d in &st.directions {
+        let axis = if d.direction.ends_with('x') { "x" } else { "y" };
+        let (factor, kent, verdict) = match d.factor {
+            None => ("—".to_owned(), "0.00".to_owned(), "nothing overturns".to_owned()),
+            Some(f) => {
+                let k = match d.kentledge_kn {
+                    Some(k) => kn(k),
+                    None => "—".into(),
+                };
+                let v = match d.kentledge_kn {
+                    Some(k) if k > 0.0 => format!("<span class=\"bad\">below target: add {} kN over the opposite edge</span>", kn(k)),
+                    Some(_) => "meets the target".into(),
+                    None => "<span class=\"bad\">below target; no base width to add kentledge on</span>".into(),
+                };
+                (num(f, 2), k, v)
+            }
+        };
+        let _ = writeln!(
+            h,
+            "<tr><td>{}</td><td class=\"n\">{axis} = {}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{factor}</td><td class=\"n\">{kent}</td><td>{verdict}</td></tr>",
+            d.direction,
+            num(d.edge_m, 3),
+            num(d.restoring_knm, 2),
+            num(d.overturning_knm, 2)
+        );
+    }
+    let _ = writeln!(
+        h,
+        "</tbody></table><p class=\"note\">About each edge of the base footprint: permanent load restores; every imposed load that overturns and the worst single direction of horizontal load overturn. Kentledge is placed over the opposite edge.</p></section>"
+    );
+}
+
+fn equilibrium(h: &mut String, a: &Analysis) {
+    let _ = writeln!(
+        h,
+        "<section><h2>6. Equilibrium proof per case</h2><p class=\"note\">Applied loads are summed from their own definitions, reactions from the base plates; ΣF and ΣM (about the origin) of both together must vanish.</p>"
+    );
+    let _ = writeln!(
+        h,
+        "<table><thead><tr><th>Case</th><th class=\"n\">Applied down (kN)</th><th class=\"n\">Reactions up (kN)</th><th class=\"n\">Applied horizontal x, y (kN)</th><th class=\"n\">Base shear x, y (kN)</th><th class=\"n\">|ΣF| (kN)</th><th class=\"n\">|ΣM| (kN·m)</th><th class=\"n\">Relative</th><th>Verdict</th></tr></thead><tbody>"
+    );
+    for e in &a.equilibrium {
+        // common practice, no source: a rounding-level residual; anything larger is a defect
+        let ok = e.relative <= 1e-9;
+        let _ = writeln!(
+            h,
+            "<tr><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}, {}</td><td class=\"n\">{}, {}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td>{}</td></tr>",
+            e.case,
+            kn(e.applied.down()),
+            kn(e.reactions.force[2]),
+            kn(e.applied.force[0]),
+            kn(e.applied.force[1]),
+            kn(e.reactions.force[0]),
+            kn(e.reactions.force[1]),
+            sci(e.force_residual_kn),
+            sci(e.moment_residual_knm),
+            sci(e.relative),
+            if ok { "balanced" } else { "<span class=\"bad\">NOT BALANCED</span>" }
+        );
+    }
+    let _ = writeln!(h, "</tbody></table>");
+    // Horizontal loads act as alternatives, so their case totals can cancel; prove each alone.
+    let size = plan_size(&a.solution.plates);
+    let horizontal: Vec<&crate::solve::Item> = a.solution.items.iter().filter(|i| i.direction.is_some()).collect();
+    if !horizontal.is_empty() {
+        let _ = writeln!(
+            h,
+            "<h3>Horizontal loads one at a time</h3><table><thead><tr><th>Load</th><th>Case</th><th class=\"n\">Applied x, y (kN)</th><th class=\"n\">Base shear x, y (kN)</th><th class=\"n\">Largest plate pull/push (kN)</th><th class=\"n\">|ΣF| (kN)</th><th class=\"n\">|ΣM| (kN·m)</th><th class=\"n\">Relative</th><th>Verdict</th></tr></thead><tbody>"
+        );
+        for item in horizontal {
+            let r = item.reaction_resultant(&a.solution.plates);
+            let sum = item.applied.plus(&r);
+            let norm = |v: [f64; 3]| v.iter().map(|c| c * c).sum::<f64>().sqrt();
+            let f = norm(item.applied.force);
+            let (fr, mr) = (norm(sum.force), norm(sum.moment));
+            let rel = if f > 0.0 { (fr / f).max(mr / (f * size)) } else { 0.0 };
+            let couple = item.vertical.iter().map(|&(_, v)| v.abs()).fold(0.0, f64::max);
+            let _ = writeln!(
+                h,
+                "<tr><td>{}</td><td>{}</td><td class=\"n\">{}, {}</td><td class=\"n\">{}, {}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td>{}</td></tr>",
+                esc(&item.id),
+                item.case,
+                kn(item.applied.force[0]),
+                kn(item.applied.force[1]),
+                kn(r.force[0]),
+                kn(r.force[1]),
+                kn(couple),
+                sci(fr),
+                sci(mr),
+                sci(rel),
+                if rel <= 1e-9 { "balanced" } else { "<span class=\"bad\">NOT BALANCED</span>" }
+            );
+        }
+        let _ = writeln!(h, "</tbody></table>");
+    }
+    let _ = writeln!(h, "</section>");
+}
+
+/// Largest plan or level extent of the plates, at least 1 m: the lever arm that makes a moment
+/// residual relative.
+fn plan_size(plates: &[[f64; 3]]) -> f64 {
+    (0..3)
+        .map(|k| {
+            let (lo, hi) = plates.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p[k]), hi.max(p[k])));
+            (hi - lo).max(0.0)
+        })
+        .fold(1.0, f64::max)
+}
+
+fn warnings(h: &mut String, a: &Analysis) {
+    let _ = writeln!(h, "<section><h2>7. Warnings</h2>");
+    if a.warnings.is_empty() {
+        h.push_str("<p>None.</p>");
+    } else {
+        h.push_str("<ul>");
+        for w in &a.warnings {
+            let _ = write!(h, "<li>{}</li>", esc(&w.to_string()));
+        }
+        h.push_str("</ul>");
+    }
+    h.push_str("</section>\n");
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn base64_rfc_vectors() {
+        // source: RFC 4648 §10 test vectors
+        for (input, out) in [("", ""), ("f", "Zg=="), ("fo", "Zm8="), ("foo", "Zm9v"), ("foob", "Zm9vYg=="), ("fooba", "Zm9vYmE="), ("foobar", "Zm9vYmFy")] {
+            assert_eq!(base64(input.as_bytes()), out);
+        }
+    }
+
+    #[test]
+    fn civil_dates() {
+        // source: POSIX time (days of 86 400 s since 1970-01-01 UTC), dates as given by Python's
+        // datetime.utcfromtimestamp: 946684800 s is 2000-01-01; 951782400 s is 2000-02-29 (a
+        // leap day: 2000 is divisible by 400); 1709164800 s is 2024-02-29
+        assert_eq!(civil_from_days(0), (1970, 1, 1));
+        assert_eq!(civil_from_days(946_684_800 / 86_400), (2000, 1, 1));
+        assert_eq!(civil_from_days(951_782_400 / 86_400), (2000, 2, 29));
+        assert_eq!(civil_from_days(951_782_400 / 86_400 + 1), (2000, 3, 1));
+        assert_eq!(civil_from_days(1_709_164_800 / 86_400), (2024, 2, 29));
+        assert_eq!(civil_from_days(-1), (1969, 12, 31));
+    }
+
+    #[test]
+    fn escaping() {
+        // common practice, no source: the five HTML-significant characters
+        assert_eq!(esc("<b a=\"x\">'&'</b>"), "&lt;b a=&quot;x&quot;&gt;&#39;&amp;&#39;&lt;/b&gt;");
+        assert!(!css_string("x\"}</style><script>").contains('"'));
+        assert!(!css_string("x\"}</style><script>").contains('<'));
+        assert_eq!(num(-0.0001, 2), "0.00");
+        assert_eq!(num(-1.5, 1), "-1.5");
+    }
+
+    #[test]
+    fn scale_bar_lengths() {
+        // common practice, no source: 1-2-5 series
+        assert_eq!(nice_length(3.7), 2.0);
+        assert_eq!(nice_length(0.6), 0.5);
+        assert_eq!(nice_length(12.0), 10.0);
+        assert_eq!(nice_length(55.0), 50.0);
+    }
+}
