@@ -271,7 +271,7 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
     let braced = check_braces(&mut c, &post_ix);
     let load_targets = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers, braced);
     check_combinations(&mut c);
-    check_one_braced_body(&mut c, &post_ix);
+    check_one_braced_body(&mut c, &post_ix, &bearers);
 
     if c.problems.is_empty() {
         Ok(Model {
@@ -768,7 +768,7 @@ fn check_loads(
 /// Horizontal loads are shared among all base plates as one rigid braced body. That holds only
 /// if every post is joined to the others by bearers or braces: separate structures would lean
 /// on each other through nothing, so refuse rather than give a wrong share.
-fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>) {
+fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>, bearers: &[Option<BearerLine>]) {
     let scene = c.scene;
     let n = scene.posts.len();
     if n < 2 || !scene.loads.iter().any(|l| l.kind.is_horizontal()) {
@@ -782,25 +782,28 @@ fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>) {
         }
         i
     }
-    let join = |parent: &mut Vec<usize>, a: &str, b: &str| {
-        if let (Some(&a), Some(&b)) = (post_ix.get(a), post_ix.get(b)) {
-            let (ra, rb) = (root(parent, a), root(parent, b));
-            parent[ra] = rb;
-        }
-    };
-    for b in &scene.bearers {
-        for w in b.posts.windows(2) {
-            join(&mut parent, &w[0], &w[1]);
+    fn join(parent: &mut [usize], a: usize, b: usize) {
+        let (ra, rb) = (root(parent, a), root(parent, b));
+        parent[ra] = rb;
+    }
+    // Bearers by their resolved posts (ids already looked up once); braces by id.
+    for line in bearers.iter().flatten() {
+        for w in line.posts.windows(2) {
+            join(&mut parent, w[0], w[1]);
         }
     }
     for b in &scene.braces {
-        join(&mut parent, &b.from.post, &b.to.post);
+        if let (Some(&a), Some(&z)) = (post_ix.get(b.from.post.as_str()), post_ix.get(b.to.post.as_str())) {
+            join(&mut parent, a, z);
+        }
     }
     // First post of each separate group, in file order.
     let mut firsts: Vec<(usize, usize)> = Vec::new();
+    let mut root_seen = vec![false; n];
     for i in 0..n {
         let r = root(&mut parent, i);
-        if !firsts.iter().any(|&(root, _)| root == r) {
+        if !root_seen[r] {
+            root_seen[r] = true;
             firsts.push((r, i));
         }
     }
