@@ -255,14 +255,14 @@ fn solve_text(a: &Analysis) -> String {
     for c in &a.combinations {
         let _ = write!(s, " {:>21}", format!("{} max/min kN", c.name));
     }
-    let _ = writeln!(s, " {:>7} {:>9} {:>12}  {:<20} status", "util %", "kPa", "governs", "method");
+    let _ = writeln!(s, " {:>7} {:>9} {:>12}  {:<11} method (for max)", "util %", "kPa", "governs", "status");
     for (i, p) in a.plates.iter().enumerate() {
         let _ = write!(s, "{:<10} {:>8.3} {:>8.3} {:>9.3} {:>9.3} {:>9.3}", p.id, p.x, p.y, p.case_kn[0], p.case_kn[1], p.case_kn[2]);
         for c in &p.combinations {
             let _ = write!(s, " {:>10.3}/{:<10.3}", c.max_kn, c.min_kn);
         }
         let g = p.governing();
-        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<20} {}", 100.0 * g.utilisation, g.bearing_kpa, a.combinations[p.governing].name, a.governing_method_label(i), p.status);
+        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<11} {}", 100.0 * g.utilisation, g.bearing_kpa, a.combinations[p.governing].name, p.status.label(), a.governing_method_label(i));
     }
     if let Some(w) = a.worst_plate() {
         let p = &a.plates[w];
