@@ -13,6 +13,8 @@
 //! - **check** ([`analyse`]): combinations, uplift, utilisation of jack and ground, equilibrium
 //!   proof per case, stability ([`stability`]).
 //! - **export**: the support-load schedule ([`schedule`]) and JSON ([`json`]).
+//! - **editing** (for the editor shell): undoable commands ([`edit`]), drawing geometry, ray
+//!   picking and the view camera ([`pick`]), recovery copies of unsaved work ([`recovery`]).
 //!
 //! Units: m, kN, kPa, kN·m. Results are a planning aid; see [`CAUTION`].
 #![warn(missing_docs)]
@@ -22,12 +24,15 @@ pub mod beam;
 pub mod check;
 pub mod combination;
 pub mod demo;
+pub mod edit;
 pub mod io;
 pub mod json;
 pub mod layout;
 pub mod loads;
 pub mod model;
 pub mod palette;
+pub mod pick;
+pub mod recovery;
 pub mod rigid_base;
 pub mod schedule;
 pub mod solve;
