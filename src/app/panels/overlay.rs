@@ -1,0 +1,389 @@
+//! What is drawn over the 3D view: the legend with the numeric scale and the cues, labels on
+//! the worst plates (and the hovered and selected ones), a summary of the worst plate, and in
+//! pictures the title and the caution.
+
+use bevy_egui::egui::{self, Align2, Color32, FontId, Pos2, Rect, Stroke, StrokeKind, Vec2};
+use plateload::palette::Band;
+use plateload::{Analysis, AnalysisError, CAUTION};
+
+use super::rgb;
+use crate::app::doc::{SceneDoc, Selection};
+use crate::app::view::draw::{reading, CASE_COLOURS, CUE_BAND_M, CUE_GAP_M};
+use crate::app::view::ViewState;
+
+/// Most plates labelled without being hovered or selected.
+pub const MAX_LABELS: usize = 12;
+
+/// Width of the side column of a picture (summary and legend), pixels.
+const PICTURE_SIDE_W: f32 = 350.0;
+/// Height of a picture's title strip, pixels.
+const PICTURE_TITLE_H: f32 = 44.0;
+/// Font size of the caution in pictures.
+const CAUTION_SIZE: f32 = 15.0;
+
+/// The part of a picture the 3D view takes: the window less the title strip, the caution and
+/// (when the picture is wide enough) the side column with the summary and the legend.
+pub fn picture_view_rect(ctx: &egui::Context, full: Rect) -> Rect {
+    let caution_h = ctx.fonts_mut(|f| f.layout(CAUTION.to_string(), FontId::proportional(CAUTION_SIZE), Color32::BLACK, full.width() - 32.0).size().y) + 12.0;
+    let side = if full.width() >= 900.0 { PICTURE_SIDE_W } else { 0.0 };
+    Rect::from_min_max(Pos2::new(full.min.x, full.min.y + PICTURE_TITLE_H), Pos2::new(full.max.x - side, full.max.y - caution_h))
+}
+
+/// Draw the overlay: labels inside `rect` (the 3D view); summary and legend inside it in the
+/// editor, beside it in a picture; in a picture also the title and the caution.
+pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &ViewState, selection: &Selection, picture: bool) {
+    if rect.width() < 50.0 || rect.height() < 50.0 || !view.ready() {
+        return;
+    }
+    let painter = ctx.layer_painter(egui::LayerId::new(egui::Order::Middle, egui::Id::new("view-overlay")));
+    let in_view = painter.with_clip_rect(rect);
+    let comb_name = view.settings.combination.and_then(|c| doc.scene.combinations.get(c)).map_or("governing combination".to_string(), |c| format!("combination “{}”", c.name));
+    // Where the summary and the legend go: the side column of a picture, else the view.
+    let side = picture && rect.max.x < full.max.x - 100.0;
+    let column = if side { Rect::from_min_max(Pos2::new(rect.max.x + 10.0, rect.min.y), Pos2::new(full.max.x - 10.0, rect.max.y)) } else { rect.shrink(10.0) };
+    if picture {
+        // Backgrounds go under everything else egui draws (the legend is an area of its own).
+        let back = ctx.layer_painter(egui::LayerId::background());
+        back.rect_filled(Rect::from_min_max(full.min, Pos2::new(full.max.x, rect.min.y)), 0.0, Color32::WHITE);
+        if side {
+            back.rect_filled(Rect::from_min_max(Pos2::new(rect.max.x, rect.min.y), Pos2::new(full.max.x, rect.max.y)), 0.0, Color32::from_gray(246));
+        }
+        let title = format!("{} — base plate utilisation, {comb_name}", doc.scene.site.name);
+        painter.text(Pos2::new(full.min.x + 12.0, full.min.y + 10.0), Align2::LEFT_TOP, title, FontId::proportional(22.0), Color32::BLACK);
+    }
+    match &doc.result {
+        Ok(a) => {
+            if view.settings.labels {
+                plate_labels(&in_view, rect, a, doc, view, selection);
+            }
+            if let Some((x, y)) = a.stability.centre_of_gravity {
+                let z = doc.scene.posts.iter().map(|p| p.base_level).fold(f64::INFINITY, f64::min);
+                if let Some(p) = view.to_window([x, y, if z.is_finite() { z } else { 0.0 }]) {
+                    in_view.text(Pos2::new(p[0] + 12.0, p[1] + 10.0), Align2::LEFT_TOP, "centre of gravity (G)", FontId::proportional(13.0), Color32::BLACK);
+                }
+            }
+            let s = summary(&painter, column, a, view.settings.combination, &comb_name, side);
+            let legend_at = if side { Some(Pos2::new(column.min.x, s.max.y + 10.0)) } else { None };
+            legend(ctx, column, legend_at, a, view.settings.combination, &comb_name);
+        }
+        Err(e) => {
+            let n = match e {
+                AnalysisError::Invalid(v) => format!("{} problem(s) stop the solve", v.problems.len()),
+                other => other.to_string(),
+            };
+            let text = format!("No results: {n} — see the results panel.");
+            let at = if side { Pos2::new(column.min.x, column.min.y) } else { Pos2::new(column.max.x, column.min.y) };
+            let align = if side { Align2::LEFT_TOP } else { Align2::RIGHT_TOP };
+            painter.text(at, align, text, FontId::proportional(16.0), Color32::from_rgb(0xb0, 0x20, 0x20));
+        }
+    }
+    if picture {
+        caution_banner(&painter, full);
+    }
+}
+
+/// The caution across the bottom of a picture.
+fn caution_banner(painter: &egui::Painter, rect: Rect) {
+    let galley = painter.layout(CAUTION.to_string(), FontId::proportional(CAUTION_SIZE), Color32::BLACK, rect.width() - 32.0);
+    let h = galley.size().y + 12.0;
+    let band = Rect::from_min_max(Pos2::new(rect.min.x, rect.max.y - h), rect.max);
+    painter.rect_filled(band, 0.0, Color32::from_rgb(0xff, 0xe0, 0x82));
+    painter.galley(Pos2::new(rect.min.x + 16.0, band.min.y + 6.0), galley, Color32::BLACK);
+}
+
+/// Worst plate and counts: at the top of `column` (left-aligned beside the view, else
+/// right-aligned inside it). Returns where it was drawn.
+fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usize>, comb_name: &str, side: bool) -> Rect {
+    let worst = (0..a.plates.len()).max_by(|&i, &j| reading(&a.plates[i], comb).0.partial_cmp(&reading(&a.plates[j], comb).0).unwrap_or(std::cmp::Ordering::Equal));
+    let Some(w) = worst else { return Rect::from_min_size(column.min, Vec2::ZERO) };
+    let p = &a.plates[w];
+    let (u, status) = reading(p, comb);
+    let c = comb.unwrap_or(p.governing);
+    let pc = &p.combinations[c.min(p.combinations.len().saturating_sub(1))];
+    let by = if pc.bearing_utilisation >= pc.load_utilisation {
+        format!("ground bearing {:.0} kPa of {:.0} kPa allowed", pc.bearing_kpa, p.allowable_kpa)
+    } else {
+        format!("{:.1} kN on a {:.1} kN jack", pc.max_kn, p.swl_kn)
+    };
+    let over = a.plates.iter().filter(|p| reading(p, comb).1.over).count();
+    let lift = a.plates.iter().filter(|p| reading(p, comb).1.uplift).count();
+    let lines = [
+        (format!("Worst base plate: {} at {:.1} %", p.id, 100.0 * u), 20.0, true),
+        (format!("{by} ({})", a.combinations[c].name), 14.0, false),
+        (format!("{over} over capacity · {lift} lifting · {} base plates", a.plates.len()), 14.0, false),
+        (format!("colours: {comb_name}"), 12.0, false),
+    ];
+    // Wrapped to the column beside a picture; one line each inside the editor's view.
+    let wrap = if side { column.width() - 24.0 } else { f32::INFINITY };
+    let galleys: Vec<_> = lines.iter().map(|(t, s, _)| painter.layout(t.clone(), FontId::proportional(*s), Color32::BLACK, wrap)).collect();
+    let w_box = galleys.iter().map(|g| g.size().x).fold(0.0, f32::max) + 24.0;
+    let h_box = galleys.iter().map(|g| g.size().y + 2.0).sum::<f32>() + 14.0;
+    let w_box = if side { column.width() } else { w_box };
+    let x = if side { column.min.x } else { column.max.x - w_box };
+    let bx = Rect::from_min_size(Pos2::new(x, column.min.y), Vec2::new(w_box, h_box));
+    painter.rect_filled(bx, 4.0, Color32::from_rgba_unmultiplied(255, 255, 255, 235));
+    let stripe = Rect::from_min_size(bx.min, Vec2::new(8.0, h_box));
+    painter.rect_filled(stripe, 2.0, rgb(Band::of(u).colour()));
+    if !status.is_ok() {
+        painter.rect_stroke(bx, 4.0, Stroke::new(3.0, Color32::BLACK), StrokeKind::Inside);
+    }
+    let mut y = bx.min.y + 7.0;
+    for g in galleys {
+        let h = g.size().y;
+        painter.galley(Pos2::new(bx.min.x + 16.0, y), g, Color32::BLACK);
+        y += h + 2.0;
+    }
+    bx
+}
+
+/// Legend: numeric scale, plate counts per band, cues, load cases.
+/// `at`: top-left corner (beside the view); `None`: bottom-left corner of `column`.
+fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, comb: Option<usize>, comb_name: &str) {
+    let mut counts = [0usize; 5];
+    for p in &a.plates {
+        counts[Band::of(reading(p, comb).0) as usize] += 1;
+    }
+    let beside = at.is_some();
+    let (pivot, pos) = match at {
+        Some(p) => (Align2::LEFT_TOP, p),
+        None => (Align2::LEFT_BOTTOM, Pos2::new(column.min.x, column.max.y)),
+    };
+    egui::Area::new(egui::Id::new("legend"))
+        .order(egui::Order::Middle)
+        .pivot(pivot)
+        .fixed_pos(pos)
+        .constrain_to(column)
+        .show(ctx, |ui| {
+            egui::Frame::new().fill(Color32::from_rgba_unmultiplied(255, 255, 255, 235)).corner_radius(4.0).inner_margin(10.0).show(ui, |ui| {
+                ui.visuals_mut().override_text_color = Some(Color32::BLACK);
+                ui.set_max_width((column.width() - 24.0).min(360.0));
+                ui.label(egui::RichText::new("Base plate utilisation").strong().size(15.0).color(Color32::BLACK));
+                ui.label(egui::RichText::new(format!("larger of load ÷ SWL and pressure ÷ allowable; {comb_name}")).size(11.0));
+                if !beside {
+                    // In the editor the legend folds away so it does not hide the scene.
+                    let id = ui.make_persistent_id("legend-open");
+                    let mut open = ui.data_mut(|d| *d.get_persisted_mut_or(id, true));
+                    if ui.small_button(if open { "hide legend" } else { "show legend" }).clicked() {
+                        open = !open;
+                        ui.data_mut(|d| d.insert_persisted(id, open));
+                    }
+                    if !open {
+                        return;
+                    }
+                }
+                for b in Band::ALL.iter().rev() {
+                    ui.horizontal(|ui| {
+                        let (r, _) = ui.allocate_exact_size(Vec2::new(26.0, 16.0), egui::Sense::hover());
+                        ui.painter().rect_filled(r, 2.0, rgb(b.colour()));
+                        ui.painter().rect_stroke(r, 2.0, Stroke::new(1.0, Color32::from_gray(90)), StrokeKind::Inside);
+                        let n = counts[*b as usize];
+                        ui.label(egui::RichText::new(format!("{:<10} {n} plate{}", b.label(), if n == 1 { "" } else { "s" })).monospace().size(13.0));
+                    });
+                }
+                ui.add_space(4.0);
+                ui.horizontal(|ui| {
+                    let (r, _) = ui.allocate_exact_size(Vec2::new(26.0, 18.0), egui::Sense::hover());
+                    cue_square(ui.painter(), r.center(), 8.0);
+                    ui.label("square frame: over capacity");
+                });
+                ui.horizontal(|ui| {
+                    let (r, _) = ui.allocate_exact_size(Vec2::new(26.0, 18.0), egui::Sense::hover());
+                    cue_ring(ui.painter(), r.center(), 8.0);
+                    ui.label("round ring and raised cone: plate lifts");
+                });
+                ui.horizontal(|ui| {
+                    let (r, _) = ui.allocate_exact_size(Vec2::new(26.0, 18.0), egui::Sense::hover());
+                    cog_symbol(ui.painter(), r.center(), 7.0);
+                    ui.label("centre of gravity of permanent load");
+                });
+                ui.horizontal_wrapped(|ui| {
+                    ui.label("load arrows:");
+                    for (c, col) in ["G permanent", "Q imposed", "W horizontal"].iter().zip(CASE_COLOURS) {
+                        let (r, _) = ui.allocate_exact_size(Vec2::new(12.0, 12.0), egui::Sense::hover());
+                        ui.painter().rect_filled(r, 1.0, rgb(col));
+                        ui.label(*c);
+                    }
+                });
+            });
+        });
+}
+
+fn cue_square(p: &egui::Painter, c: Pos2, h: f32) {
+    let r = Rect::from_center_size(c, Vec2::splat(2.0 * h));
+    p.rect_stroke(r, 0.0, Stroke::new(5.0, Color32::BLACK), StrokeKind::Middle);
+    p.rect_stroke(r, 0.0, Stroke::new(2.5, Color32::WHITE), StrokeKind::Middle);
+}
+
+fn cue_ring(p: &egui::Painter, c: Pos2, r: f32) {
+    p.circle_stroke(c, r, Stroke::new(5.0, Color32::BLACK));
+    p.circle_stroke(c, r, Stroke::new(2.5, Color32::WHITE));
+}
+
+fn cog_symbol(p: &egui::Painter, c: Pos2, r: f32) {
+    p.circle_filled(c, r, Color32::WHITE);
+    for q in [0.0f32, 2.0] {
+        let a0 = q * std::f32::consts::FRAC_PI_2;
+        let pts: Vec<Pos2> = std::iter::once(c).chain((0..=8).map(|i| {
+            let t = a0 + i as f32 / 8.0 * std::f32::consts::FRAC_PI_2;
+            c + Vec2::new(t.cos(), -t.sin()) * r
+        })).collect();
+        p.add(egui::Shape::convex_polygon(pts, Color32::BLACK, Stroke::NONE));
+    }
+    p.circle_stroke(c, r, Stroke::new(1.0, Color32::BLACK));
+}
+
+/// A label to place: the plate's screen footprint and its text.
+#[derive(Debug, Clone, PartialEq)]
+pub struct LabelRequest {
+    /// Plate footprint on screen (with its cue), pixels.
+    pub anchor: Rect,
+    /// Label size, pixels.
+    pub size: Vec2,
+}
+
+/// Place labels near their anchors without covering any plate or another label: the first of
+/// eight positions around the anchor that is free and inside `bounds`; the first position if
+/// none is.
+pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], bounds: Rect) -> Vec<Rect> {
+    let mut placed: Vec<Rect> = Vec::with_capacity(requests.len());
+    for req in requests {
+        let a = req.anchor;
+        let gap = 10.0;
+        let (w, h) = (req.size.x, req.size.y);
+        let c = a.center();
+        let candidates = [
+            Pos2::new(a.max.x + gap, a.min.y - gap - h),
+            Pos2::new(a.min.x - gap - w, a.min.y - gap - h),
+            Pos2::new(a.max.x + gap, a.max.y + gap),
+            Pos2::new(a.min.x - gap - w, a.max.y + gap),
+            Pos2::new(c.x - w / 2.0, a.min.y - gap - h),
+            Pos2::new(c.x - w / 2.0, a.max.y + gap),
+            Pos2::new(a.max.x + gap, c.y - h / 2.0),
+            Pos2::new(a.min.x - gap - w, c.y - h / 2.0),
+        ];
+        let rects = candidates.map(|p| Rect::from_min_size(p, req.size));
+        let free = |r: &Rect| bounds.contains_rect(*r) && !placed.iter().any(|o| o.expand(2.0).intersects(*r)) && !plates.iter().any(|p| p.intersects(*r));
+        let chosen = rects.iter().find(|r| free(r)).or_else(|| rects.iter().find(|r| bounds.contains_rect(**r))).copied().unwrap_or(rects[0]);
+        placed.push(chosen);
+    }
+    placed
+}
+
+/// Label the worst plates, every plate that is over capacity or lifts (up to [`MAX_LABELS`]),
+/// and the hovered and selected ones. Returns the label rectangles.
+fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDoc, view: &ViewState, selection: &Selection) -> Vec<Rect> {
+    let comb = view.settings.combination;
+    let supports: std::collections::HashMap<&str, &plateload::SupportType> = doc.scene.support_types.iter().map(|s| (s.id.as_str(), s)).collect();
+    // Screen footprint of every plate, its cue included (the ring of a lifting plate reaches
+    // its corners' circle).
+    let footprint = |i: usize, with_cue: bool| -> Option<Rect> {
+        let p = &a.plates[i];
+        let post = doc.scene.posts.get(i)?;
+        let s = post.support.as_deref().and_then(|s| supports.get(s))?;
+        let b = s.bearing_plate();
+        let st = reading(p, comb).1;
+        let pad = if with_cue && !st.is_ok() { CUE_GAP_M + CUE_BAND_M } else { 0.0 };
+        let (mut hx, mut hy) = (b.width_m.max(s.base_plate.width_m) / 2.0, b.length_m.max(s.base_plate.length_m) / 2.0);
+        if with_cue && st.uplift {
+            let r = hx.hypot(hy);
+            (hx, hy) = (r, r);
+        }
+        let (hx, hy) = (hx + pad, hy + pad);
+        let mut out: Option<Rect> = None;
+        for (dx, dy) in [(-hx, -hy), (hx, -hy), (hx, hy), (-hx, hy)] {
+            let q = view.to_window([p.x + dx, p.y + dy, p.base_level])?;
+            let pt = Pos2::new(q[0], q[1]);
+            out = Some(out.map_or(Rect::from_min_max(pt, pt), |o| o.union(Rect::from_min_max(pt, pt))));
+        }
+        out.map(|o| o.expand(2.0))
+    };
+    let plates: Vec<Option<Rect>> = (0..a.plates.len()).map(|i| footprint(i, true)).collect();
+    let mut order: Vec<usize> = (0..a.plates.len()).collect();
+    order.sort_by(|&i, &j| reading(&a.plates[j], comb).0.partial_cmp(&reading(&a.plates[i], comb).0).unwrap_or(std::cmp::Ordering::Equal));
+    let mut chosen: Vec<usize> = Vec::new();
+    let add = |i: usize, chosen: &mut Vec<usize>| {
+        if !chosen.contains(&i) {
+            chosen.push(i);
+        }
+    };
+    for &i in &order {
+        let (u, st) = reading(&a.plates[i], comb);
+        // The three worst, then every plate that fails or is near capacity, up to the limit.
+        let notable = !st.is_ok() || u >= Band::Near.range().0;
+        if (chosen.len() < 3 || notable) && chosen.len() < MAX_LABELS {
+            add(i, &mut chosen);
+        }
+    }
+    for r in selection.items.iter().chain(selection.hovered.iter()) {
+        if let Some(i) = a.plate_index(&r.id).filter(|_| r.kind == plateload::model::ElementKind::Post) {
+            add(i, &mut chosen);
+        }
+    }
+    let font = FontId::proportional(14.0);
+    let texts: Vec<String> = chosen
+        .iter()
+        .map(|&i| {
+            let p = &a.plates[i];
+            let (u, st) = reading(p, comb);
+            let c = comb.unwrap_or(p.governing);
+            let pc = &p.combinations[c.min(p.combinations.len().saturating_sub(1))];
+            let mut t = format!("{}  {:.1} %", p.id, 100.0 * u);
+            if st.over {
+                t.push_str("  OVER");
+            }
+            if st.uplift {
+                t.push_str(&format!("  lifts {:.2} kN", p.combinations.iter().map(|c| c.min_kn).fold(f64::INFINITY, f64::min)));
+            }
+            let _ = pc;
+            t
+        })
+        .collect();
+    let galleys: Vec<_> = texts.iter().map(|t| painter.layout_no_wrap(t.clone(), font.clone(), Color32::BLACK)).collect();
+    let requests: Vec<LabelRequest> = chosen
+        .iter()
+        .zip(&galleys)
+        .filter_map(|(&i, g)| plates[i].map(|anchor| LabelRequest { anchor, size: g.size() + Vec2::new(18.0, 6.0) }))
+        .collect();
+    let all_plates: Vec<Rect> = plates.iter().flatten().copied().collect();
+    let bounds = rect.shrink(4.0);
+    let placed = place_labels(&requests, &all_plates, bounds);
+    let mut k = 0;
+    for (n, &i) in chosen.iter().enumerate() {
+        let Some(anchor) = footprint(i, false) else { continue };
+        let lr = placed[k];
+        k += 1;
+        let (u, st) = reading(&a.plates[i], comb);
+        // Leader from the footprint's edge towards the label, with a dot on the plate side.
+        let to = lr.center();
+        let edge = Pos2::new(to.x.clamp(anchor.min.x, anchor.max.x), to.y.clamp(anchor.min.y, anchor.max.y));
+        painter.line_segment([edge, to], Stroke::new(2.0, Color32::from_gray(20)));
+        painter.circle_filled(edge, 3.0, Color32::from_gray(20));
+        painter.rect_filled(lr, 3.0, Color32::from_rgba_unmultiplied(255, 255, 255, 240));
+        painter.rect_filled(Rect::from_min_size(lr.min, Vec2::new(7.0, lr.height())), 2.0, rgb(Band::of(u).colour()));
+        let stroke = if st.is_ok() { Stroke::new(1.0, Color32::from_gray(60)) } else { Stroke::new(2.5, Color32::BLACK) };
+        painter.rect_stroke(lr, 3.0, stroke, StrokeKind::Inside);
+        painter.galley(Pos2::new(lr.min.x + 12.0, lr.min.y + 3.0), galleys[n].clone(), Color32::BLACK);
+    }
+    placed
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn labels_avoid_plates_and_each_other() {
+        // common practice, no source: labels must not hide what they label
+        let plates = vec![Rect::from_min_size(Pos2::new(100.0, 100.0), Vec2::splat(20.0)), Rect::from_min_size(Pos2::new(140.0, 60.0), Vec2::splat(20.0))];
+        let req = |p: &Rect| LabelRequest { anchor: *p, size: Vec2::new(60.0, 18.0) };
+        let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::splat(400.0));
+        let placed = place_labels(&[req(&plates[0]), req(&plates[1]), req(&plates[0])], &plates, bounds);
+        for (i, r) in placed.iter().enumerate() {
+            assert!(bounds.contains_rect(*r));
+            assert!(!plates.iter().any(|p| p.intersects(*r)), "label {i} covers a plate: {r:?}");
+            for (j, o) in placed.iter().enumerate() {
+                assert!(i == j || !o.intersects(*r), "labels {i} and {j} overlap");
+            }
+        }
+    }
+}

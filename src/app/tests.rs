@@ -1,0 +1,1 @@
+//! Headless tests of the editor.
