@@ -134,6 +134,14 @@ pub struct Shape {
     pub case: Option<Case>,
 }
 
+/// Gap between a plate's footprint and the second cue drawn around it (square frame when over
+/// capacity, round ring when it lifts), m. Drawing sizes only, shared with the picture tests.
+pub const CUE_GAP_M: f64 = 0.04;
+/// Width of a cue, m: a white band between two black edges.
+pub const CUE_BAND_M: f64 = 0.09;
+/// Width of each black edge of a cue, m.
+pub const CUE_EDGE_M: f64 = 0.015;
+
 /// Drawing sizes that are not in the scene: thicknesses and arrow scales.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct ShapeOptions {

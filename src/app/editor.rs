@@ -24,6 +24,8 @@ pub struct EditorPlugin;
 impl Plugin for EditorPlugin {
     fn build(&self, app: &mut App) {
         app.add_message::<Action>()
+            .add_message::<ViewRequestMessage>()
+            .add_message::<WindowCloseRequested>()
             .add_message::<ViewClick>()
             .add_message::<ViewDrag>()
             .init_resource::<Selection>()

@@ -37,9 +37,8 @@ pub struct ViewPlugin;
 
 impl Plugin for ViewPlugin {
     fn build(&self, app: &mut App) {
-        app.add_message::<ViewRequestMessage>()
-            .init_resource::<ViewState>()
-            .add_plugins(draw::DrawPlugin)
+        app.init_resource::<ViewState>()
+            .add_plugins((draw::DrawPlugin, draw::GizmoDrawPlugin))
             .add_systems(Startup, spawn_cameras)
             .add_systems(Update, (camera_controls, pointer).chain().in_set(EditorSystems::Input))
             .add_systems(Update, view_requests.after(EditorSystems::Sync).before(EditorSystems::Recolour))

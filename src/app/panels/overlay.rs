@@ -8,7 +8,8 @@ use plateload::{Analysis, AnalysisError, CAUTION};
 
 use super::rgb;
 use crate::app::doc::{SceneDoc, Selection};
-use crate::app::view::draw::{reading, CASE_COLOURS, CUE_BAND_M, CUE_GAP_M};
+use crate::app::view::draw::{reading, CASE_COLOURS};
+use plateload::pick::{CUE_BAND_M, CUE_GAP_M};
 use crate::app::view::ViewState;
 
 /// Most plates labelled without being hovered or selected.
@@ -53,15 +54,11 @@ pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &
     }
     match &doc.result {
         Ok(a) => {
-            if view.settings.labels {
-                plate_labels(&in_view, rect, a, doc, view, selection);
-            }
-            if let Some((x, y)) = a.stability.centre_of_gravity {
+            let cog = a.stability.centre_of_gravity.and_then(|(x, y)| {
                 let z = doc.scene.posts.iter().map(|p| p.base_level).fold(f64::INFINITY, f64::min);
-                if let Some(p) = view.to_window([x, y, if z.is_finite() { z } else { 0.0 }]) {
-                    in_view.text(Pos2::new(p[0] + 12.0, p[1] + 10.0), Align2::LEFT_TOP, "centre of gravity (G)", FontId::proportional(13.0), Color32::BLACK);
-                }
-            }
+                view.to_window([x, y, if z.is_finite() { z } else { 0.0 }]).map(|p| Pos2::new(p[0], p[1]))
+            });
+            plate_labels(&in_view, rect, a, doc, view, selection, cog);
             let s = summary(&painter, column, a, view.settings.combination, &comb_name, side);
             let legend_at = if side { Some(Pos2::new(column.min.x, s.max.y + 10.0)) } else { None };
             legend(ctx, column, legend_at, a, view.settings.combination, &comb_name);
@@ -262,17 +259,51 @@ pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], bounds: Rect) ->
             Pos2::new(a.min.x - gap - w, c.y - h / 2.0),
         ];
         let rects = candidates.map(|p| Rect::from_min_size(p, req.size));
-        let free = |r: &Rect| bounds.contains_rect(*r) && !placed.iter().any(|o| o.expand(2.0).intersects(*r)) && !plates.iter().any(|p| p.intersects(*r));
+        // Free: inside, clear of other labels and of every plate, and its leader crosses no
+        // other plate.
+        let free = |r: &Rect| {
+            bounds.contains_rect(*r)
+                && !placed.iter().any(|o| o.expand(2.0).intersects(*r))
+                && !plates.iter().any(|p| p.intersects(*r))
+                && !plates.iter().filter(|p| !p.intersects(a)).any(|p| segment_hits_rect(leader_start(a, r.center()), r.center(), *p))
+        };
         let chosen = rects.iter().find(|r| free(r)).or_else(|| rects.iter().find(|r| bounds.contains_rect(**r))).copied().unwrap_or(rects[0]);
         placed.push(chosen);
     }
     placed
 }
 
+/// Where a leader leaves a plate's footprint towards a label centre.
+pub fn leader_start(anchor: Rect, to: Pos2) -> Pos2 {
+    Pos2::new(to.x.clamp(anchor.min.x, anchor.max.x), to.y.clamp(anchor.min.y, anchor.max.y))
+}
+
+/// Whether the segment a–b passes through the rectangle (slab test).
+pub fn segment_hits_rect(a: Pos2, b: Pos2, r: Rect) -> bool {
+    let (mut t0, mut t1) = (0.0f32, 1.0f32);
+    for (o, d, lo, hi) in [(a.x, b.x - a.x, r.min.x, r.max.x), (a.y, b.y - a.y, r.min.y, r.max.y)] {
+        if d.abs() < 1e-6 {
+            if o < lo || o > hi {
+                return false;
+            }
+        } else {
+            let (u, v) = ((lo - o) / d, (hi - o) / d);
+            t0 = t0.max(u.min(v));
+            t1 = t1.min(u.max(v));
+            if t0 > t1 {
+                return false;
+            }
+        }
+    }
+    true
+}
+
 /// Label the worst plates, every plate that is over capacity or lifts (up to [`MAX_LABELS`]),
 /// and the hovered and selected ones. Returns the label rectangles.
-fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDoc, view: &ViewState, selection: &Selection) -> Vec<Rect> {
+/// The centre of gravity's label, at `cog`, is placed the same way, last.
+fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDoc, view: &ViewState, selection: &Selection, cog: Option<Pos2>) -> Vec<Rect> {
     let comb = view.settings.combination;
+    let labels_on = view.settings.labels;
     let supports: std::collections::HashMap<&str, &plateload::SupportType> = doc.scene.support_types.iter().map(|s| (s.id.as_str(), s)).collect();
     // Screen footprint of every plate, its cue included (the ring of a lifting plate reaches
     // its corners' circle).
@@ -310,7 +341,7 @@ fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDo
         let (u, st) = reading(&a.plates[i], comb);
         // The three worst, then every plate that fails or is near capacity, up to the limit.
         let notable = !st.is_ok() || u >= Band::Near.range().0;
-        if (chosen.len() < 3 || notable) && chosen.len() < MAX_LABELS {
+        if labels_on && (chosen.len() < 3 || notable) && chosen.len() < MAX_LABELS {
             add(i, &mut chosen);
         }
     }
@@ -339,11 +370,15 @@ fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDo
         })
         .collect();
     let galleys: Vec<_> = texts.iter().map(|t| painter.layout_no_wrap(t.clone(), font.clone(), Color32::BLACK)).collect();
-    let requests: Vec<LabelRequest> = chosen
+    let mut requests: Vec<LabelRequest> = chosen
         .iter()
         .zip(&galleys)
         .filter_map(|(&i, g)| plates[i].map(|anchor| LabelRequest { anchor, size: g.size() + Vec2::new(18.0, 6.0) }))
         .collect();
+    let cog_galley = painter.layout_no_wrap("centre of gravity (G)".into(), FontId::proportional(13.0), Color32::BLACK);
+    if let Some(c) = cog {
+        requests.push(LabelRequest { anchor: Rect::from_center_size(c, Vec2::splat(16.0)), size: cog_galley.size() + Vec2::new(8.0, 4.0) });
+    }
     let all_plates: Vec<Rect> = plates.iter().flatten().copied().collect();
     let bounds = rect.shrink(4.0);
     let placed = place_labels(&requests, &all_plates, bounds);
@@ -355,7 +390,7 @@ fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDo
         let (u, st) = reading(&a.plates[i], comb);
         // Leader from the footprint's edge towards the label, with a dot on the plate side.
         let to = lr.center();
-        let edge = Pos2::new(to.x.clamp(anchor.min.x, anchor.max.x), to.y.clamp(anchor.min.y, anchor.max.y));
+        let edge = leader_start(anchor, to);
         painter.line_segment([edge, to], Stroke::new(2.0, Color32::from_gray(20)));
         painter.circle_filled(edge, 3.0, Color32::from_gray(20));
         painter.rect_filled(lr, 3.0, Color32::from_rgba_unmultiplied(255, 255, 255, 240));
@@ -363,6 +398,12 @@ fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDo
         let stroke = if st.is_ok() { Stroke::new(1.0, Color32::from_gray(60)) } else { Stroke::new(2.5, Color32::BLACK) };
         painter.rect_stroke(lr, 3.0, stroke, StrokeKind::Inside);
         painter.galley(Pos2::new(lr.min.x + 12.0, lr.min.y + 3.0), galleys[n].clone(), Color32::BLACK);
+    }
+    if let (Some(c), Some(lr)) = (cog, placed.get(k)) {
+        let anchor = Rect::from_center_size(c, Vec2::splat(16.0));
+        painter.line_segment([leader_start(anchor, lr.center()), lr.center()], Stroke::new(1.0, Color32::from_gray(40)));
+        painter.rect_filled(*lr, 2.0, Color32::from_rgba_unmultiplied(255, 255, 255, 200));
+        painter.galley(lr.min + Vec2::new(4.0, 2.0), cog_galley, Color32::BLACK);
     }
     placed
 }

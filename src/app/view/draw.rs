@@ -14,7 +14,7 @@ use bevy::prelude::*;
 use plateload::edit::ElementRef;
 use plateload::model::{BeamRole, ElementKind};
 use plateload::palette::{Band, Cue};
-use plateload::pick::{self, Part, Prim, Shape, ShapeOptions, V3};
+use plateload::pick::{self, Part, Prim, Shape, ShapeOptions, CUE_BAND_M, CUE_EDGE_M, CUE_GAP_M, V3};
 use plateload::{Case, PlateResult, Status as PlateStatus};
 
 use super::{to_bevy, ViewState, ON_TOP_LAYER, SCENE_LAYER};
@@ -29,10 +29,19 @@ impl Plugin for DrawPlugin {
     fn build(&self, app: &mut App) {
         app.init_resource::<SceneShapes>()
             .init_resource::<Drawn>()
-            .init_gizmo_group::<OnTopGizmos>()
-            .add_systems(Startup, (init_assets, configure_gizmos))
+            .add_systems(Startup, init_assets)
             .add_systems(Update, sync_entities.in_set(EditorSystems::Sync))
-            .add_systems(Update, recolour.in_set(EditorSystems::Recolour))
+            .add_systems(Update, recolour.in_set(EditorSystems::Recolour));
+    }
+}
+
+/// The metric grid and the highlights (needs bevy's gizmos, so not in headless tests).
+pub struct GizmoDrawPlugin;
+
+impl Plugin for GizmoDrawPlugin {
+    fn build(&self, app: &mut App) {
+        app.init_gizmo_group::<OnTopGizmos>()
+            .add_systems(Startup, configure_gizmos)
             .add_systems(Update, (draw_grid, draw_highlights).after(EditorSystems::Recolour));
     }
 }
@@ -230,12 +239,6 @@ fn flat_mesh(pos: Vec<[f32; 3]>, col: Vec<[f32; 4]>) -> Mesh {
         .with_inserted_indices(Indices::U32((0..n as u32).collect()))
 }
 
-/// Gap between a plate and its cue, width of the cue and of its dark edges, m.
-pub const CUE_GAP_M: f64 = 0.04;
-/// Width of a cue, m.
-pub const CUE_BAND_M: f64 = 0.09;
-/// Width of the black edges of a cue, m.
-const CUE_EDGE_M: f64 = 0.015;
 
 /// Over-capacity frame (square, black–white–black) and uplift ring (round, the same bands)
 /// around a plate footprint of half sizes `hx` × `hy` (bevy x, z), in metres.
