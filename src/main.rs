@@ -89,7 +89,7 @@ enum Command {
         /// Frames to wait after the scene is drawn before the picture is taken.
         #[arg(long, default_value_t = 30)]
         settle_frames: u32,
-        /// Time this many edits (a post moved to and fro) first and log the figures.
+        /// Time this many edits (a load put on a post and taken off) first and log the figures.
         #[arg(long, default_value_t = 0, hide = true)]
         timing_edits: u32,
         /// Also write the camera and viewport used, as JSON (for tests that check pixels).
@@ -98,6 +98,9 @@ enum Command {
         /// Show the editor's panels instead of the picture layout.
         #[arg(long, hide = true)]
         with_panels: bool,
+        /// Select this post first: its plate is labelled and outlined.
+        #[arg(long)]
+        select: Option<String>,
     },
 }
 
@@ -187,7 +190,7 @@ fn run() -> anyhow::Result<ExitCode> {
             Ok(ExitCode::SUCCESS)
         }
         Command::Edit { file } => edit(file),
-        Command::Snapshot { file, output, size, view, combination, settle_frames, timing_edits, camera_json, with_panels } => {
+        Command::Snapshot { file, output, size, view, combination, settle_frames, timing_edits, camera_json, with_panels, select } => {
             let scene = read(&file)?;
             let combination = match combination {
                 None => None,
@@ -196,7 +199,12 @@ fn run() -> anyhow::Result<ExitCode> {
                     anyhow::anyhow!("no combination \"{name}\" in {} (it has: {})", file.display(), names.join(", "))
                 })?),
             };
-            snapshot(scene, output, size, view, combination, (settle_frames, timing_edits), (camera_json, with_panels))
+            if let Some(id) = &select {
+                if !scene.posts.iter().any(|p| p.id == *id) {
+                    anyhow::bail!("no post \"{id}\" in {}", file.display());
+                }
+            }
+            snapshot(scene, output, size, view, combination, (settle_frames, timing_edits), (camera_json, with_panels, select))
         }
     }
 }
@@ -337,7 +345,7 @@ fn edit(file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
 }
 
 #[cfg(feature = "viewer")]
-fn snapshot(scene: Scene, out: PathBuf, (w, h): (u32, u32), view: PictureView, combination: Option<usize>, (settle_frames, timing_edits): (u32, u32), (camera_out, editor_ui): (Option<PathBuf>, bool)) -> anyhow::Result<ExitCode> {
+fn snapshot(scene: Scene, out: PathBuf, (w, h): (u32, u32), view: PictureView, combination: Option<usize>, (settle_frames, timing_edits): (u32, u32), (camera_out, editor_ui, select): (Option<PathBuf>, bool, Option<String>)) -> anyhow::Result<ExitCode> {
     use plateload::pick::ViewPreset;
     let view = match view {
         PictureView::Iso => ViewPreset::Iso,
@@ -345,14 +353,14 @@ fn snapshot(scene: Scene, out: PathBuf, (w, h): (u32, u32), view: PictureView, c
         PictureView::Front => ViewPreset::Front,
         PictureView::Side => ViewPreset::Side,
     };
-    app::snapshot(scene, app::snapshot::PictureSpec { out: out.clone(), size: [w, h], view, combination, settle_frames, timing_edits, camera_out, editor_ui })?;
+    app::snapshot(scene, app::snapshot::PictureSpec { out: out.clone(), size: [w, h], view, combination, settle_frames, timing_edits, camera_out, editor_ui, select: select.map(plateload::edit::ElementRef::post) })?;
     eprintln!("wrote {}", out.display());
     eprintln!("{CAUTION}");
     Ok(ExitCode::SUCCESS)
 }
 
 #[cfg(not(feature = "viewer"))]
-fn snapshot(_: Scene, _: PathBuf, _: (u32, u32), _: PictureView, _: Option<usize>, _: (u32, u32), _: (Option<PathBuf>, bool)) -> anyhow::Result<ExitCode> {
+fn snapshot(_: Scene, _: PathBuf, _: (u32, u32), _: PictureView, _: Option<usize>, _: (u32, u32), _: (Option<PathBuf>, bool, Option<String>)) -> anyhow::Result<ExitCode> {
     anyhow::bail!("this build has no renderer (it was built without the `viewer` feature)")
 }
 

@@ -136,11 +136,11 @@ pub struct Shape {
 
 /// Gap between a plate's footprint and the second cue drawn around it (square frame when over
 /// capacity, round ring when it lifts), m. Drawing sizes only, shared with the picture tests.
-pub const CUE_GAP_M: f64 = 0.04;
+pub const CUE_GAP_M: f64 = 0.03;
 /// Width of a cue, m: a white band between two black edges.
-pub const CUE_BAND_M: f64 = 0.09;
+pub const CUE_BAND_M: f64 = 0.10;
 /// Width of each black edge of a cue, m.
-pub const CUE_EDGE_M: f64 = 0.015;
+pub const CUE_EDGE_M: f64 = 0.025;
 
 /// Drawing sizes that are not in the scene: thicknesses and arrow scales.
 #[derive(Debug, Clone, Copy, PartialEq)]

@@ -37,8 +37,10 @@ pub struct SceneDoc {
 impl SceneDoc {
     /// A document for a scene (solved at once) read from `path`, if any.
     pub fn new(scene: Scene, path: Option<PathBuf>) -> Self {
+        let t = std::time::Instant::now();
         let result = plateload::analyse(&scene);
-        SceneDoc { scene, history: History::default(), path, saved_state: Some(0), revision: 1, result, solved_revision: 1, solve_time: Duration::ZERO }
+        let solve_time = t.elapsed();
+        SceneDoc { scene, history: History::default(), path, saved_state: Some(0), revision: 1, result, solved_revision: 1, solve_time }
     }
 
     /// Whether the scene differs from its file.

@@ -43,6 +43,7 @@ impl Plugin for EditorPlugin {
             .add_systems(Update, (shortcuts, tool_clicks, drag_moves, close_requests).in_set(EditorSystems::Input))
             .add_systems(Update, (handle_actions, prune_selection).chain().in_set(EditorSystems::Apply))
             .add_systems(Update, solve.run_if(resource_changed::<SceneDoc>).in_set(EditorSystems::Solve))
+            .add_systems(Update, own_timing.after(EditorSystems::Recolour))
             .add_systems(Last, (write_recovery, finish_timing));
     }
 }
@@ -207,6 +208,10 @@ pub struct EditTimings {
     pub started: Option<Instant>,
     /// Recent edit → recoloured durations (the ECS part of the frame), newest last.
     pub recent: Vec<Duration>,
+    /// The part of each of those spent in this editor's own systems (edit, solve, drawing,
+    /// recolouring — up to the end of `Update`); the rest is bevy's transform, visibility
+    /// and egui work of the same frame.
+    pub own: Vec<Duration>,
     /// Log every measurement (set by `PLATELOAD_FRAME_LOG`).
     pub log: bool,
 }
@@ -219,6 +224,13 @@ impl EditTimings {
             self.recent.remove(0);
         }
         self.recent.push(d);
+    }
+    /// Record the editor's own part of one measurement.
+    pub fn push_own(&mut self, d: Duration) {
+        if self.own.len() == Self::KEEP {
+            self.own.remove(0);
+        }
+        self.own.push(d);
     }
 }
 
@@ -253,6 +265,13 @@ fn solve(mut doc: ResMut<SceneDoc>) {
     // Writing the result must not count as a change of the document, or this would run again
     // every frame; the view reacts to the same change that triggered this system.
     doc.bypass_change_detection().solve_if_stale();
+}
+
+/// The editor's own share of an edit frame ends with the recolouring.
+fn own_timing(mut timings: ResMut<EditTimings>) {
+    if let Some(t0) = timings.started {
+        timings.push_own(t0.elapsed());
+    }
 }
 
 /// Remember when the frame's edit started and stop the clock when the frame is done.

@@ -147,7 +147,7 @@ fn spawn_cameras(mut commands: Commands, mut egui_settings: ResMut<bevy_egui::Eg
     }
     // Exact colours: the legend's swatches and the plates must match, so no tonemapping or
     // dithering changes them (the plates are unlit).
-    let exact = (Tonemapping::None, DebandDither::Disabled);
+    let exact = (Tonemapping::None, DebandDither::Disabled, msaa());
     commands.spawn((SceneCamera, Camera3d::default(), Camera { order: 0, clear_color: ClearColorConfig::Custom(Color::srgb_u8(0xe9, 0xec, 0xef)), ..default() }, exact, RenderLayers::layer(SCENE_LAYER)));
     commands.spawn((OnTopCamera, Camera3d::default(), Camera { order: 1, clear_color: ClearColorConfig::None, ..default() }, exact, RenderLayers::layer(ON_TOP_LAYER)));
     commands.spawn((
@@ -164,6 +164,17 @@ fn spawn_cameras(mut commands: Commands, mut egui_settings: ResMut<bevy_egui::Eg
     ));
     commands.spawn((DirectionalLight { illuminance: 6_000.0, shadow_maps_enabled: false, ..default() }, Transform::from_xyz(-4.0, 10.0, 6.0).looking_at(Vec3::ZERO, Vec3::Y)));
     commands.insert_resource(GlobalAmbientLight { brightness: 900.0, ..default() });
+}
+
+/// Multisampling of the cameras: off by default, since a software renderer spends most of a
+/// frame on it; `PLATELOAD_MSAA=4` (or 2, 8) turns it on.
+fn msaa() -> Msaa {
+    match std::env::var("PLATELOAD_MSAA").ok().as_deref() {
+        Some("2") => Msaa::Sample2,
+        Some("4") => Msaa::Sample4,
+        Some("8") => Msaa::Sample8,
+        _ => Msaa::Off,
+    }
 }
 
 /// Set the bevy cameras from the view camera.

@@ -65,6 +65,8 @@ pub struct Panels {
     pub right: RightTab,
     /// Show the results panel.
     pub show_results: bool,
+    /// Labels of the 3D view, placed once per view.
+    pub labels: overlay::LabelCache,
 }
 
 impl Default for Panels {
@@ -79,6 +81,7 @@ impl Default for Panels {
             files: default(),
             right: default(),
             show_results: true,
+            labels: default(),
         }
     }
 }
@@ -164,7 +167,7 @@ fn draw_ui(
     if view.viewport != vp {
         view.viewport = vp;
     }
-    overlay::draw(&ctx, full, rect, &doc, &view, &selection, picture);
+    overlay::draw(&ctx, full, rect, &doc, &view, &selection, picture, &mut panels.labels);
     let pointer_in_view = !picture && ctx.pointer_latest_pos().is_some_and(|p| rect.contains(p)) && !ctx.is_pointer_over_egui() && !ctx.egui_is_using_pointer();
     let keyboard = ctx.egui_wants_keyboard_input();
     if focus.pointer_in_view != pointer_in_view || focus.keyboard != keyboard {

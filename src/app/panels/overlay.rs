@@ -32,7 +32,7 @@ pub fn picture_view_rect(ctx: &egui::Context, full: Rect) -> Rect {
 
 /// Draw the overlay: labels inside `rect` (the 3D view); summary and legend inside it in the
 /// editor, beside it in a picture; in a picture also the title and the caution.
-pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &ViewState, selection: &Selection, picture: bool) {
+pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &ViewState, selection: &Selection, picture: bool, cache: &mut LabelCache) {
     if rect.width() < 50.0 || rect.height() < 50.0 || !view.ready() {
         return;
     }
@@ -54,14 +54,21 @@ pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &
     }
     match &doc.result {
         Ok(a) => {
+            // Summary and legend first: the labels keep clear of them.
+            let s = summary(&painter, column, a, view.settings.combination, &comb_name, side);
+            let legend_at = if side { Some(Pos2::new(column.min.x, s.max.y + 10.0)) } else { None };
+            let l = legend(ctx, column, legend_at, a, view.settings.combination, &comb_name);
             let cog = a.stability.centre_of_gravity.and_then(|(x, y)| {
                 let z = doc.scene.posts.iter().map(|p| p.base_level).fold(f64::INFINITY, f64::min);
                 view.to_window([x, y, if z.is_finite() { z } else { 0.0 }]).map(|p| Pos2::new(p[0], p[1]))
             });
-            plate_labels(&in_view, rect, a, doc, view, selection, cog);
-            let s = summary(&painter, column, a, view.settings.combination, &comb_name, side);
-            let legend_at = if side { Some(Pos2::new(column.min.x, s.max.y + 10.0)) } else { None };
-            legend(ctx, column, legend_at, a, view.settings.combination, &comb_name);
+            let keep_clear = if side { Vec::new() } else { vec![s.expand(4.0), l.expand(4.0)] };
+            plate_labels(&in_view, rect, a, doc, view, selection, cog, &keep_clear, cache);
+            if let Some(h) = selection.hovered.as_ref().filter(|h| h.kind == plateload::model::ElementKind::Post) {
+                if let (Some(i), Some(pointer)) = (a.plate_index(&h.id), ctx.pointer_hover_pos().filter(|p| rect.contains(*p))) {
+                    hover_card(&painter, rect, pointer, a, i, view.settings.combination);
+                }
+            }
         }
         Err(e) => {
             let n = match e {
@@ -79,6 +86,44 @@ pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &
     }
 }
 
+/// The hovered plate's numbers beside the pointer: kN per case, the combined load, the
+/// utilisation and the bearing pressure.
+fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, i: usize, comb: Option<usize>) {
+    let p = &a.plates[i];
+    let (u, st) = reading(p, comb);
+    let c = comb.unwrap_or(p.governing).min(p.combinations.len().saturating_sub(1));
+    let pc = &p.combinations[c];
+    let text = format!(
+        "base plate {} — {:.1} % {}\nG {:.2} kN · Q {:.2} kN · W {:.2} kN\n{}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\nbearing {:.1} kPa of {:.0} kPa allowed",
+        p.id,
+        100.0 * u,
+        st.label(),
+        p.case_kn[0],
+        p.case_kn[1],
+        p.case_kn[2],
+        a.combinations[c].name,
+        pc.max_kn,
+        pc.min_kn,
+        p.swl_kn,
+        pc.bearing_kpa,
+        p.allowable_kpa
+    );
+    let g = painter.layout_no_wrap(text, FontId::proportional(13.0), Color32::BLACK);
+    let size = g.size() + Vec2::new(20.0, 10.0);
+    let mut at = pointer + Vec2::new(18.0, 18.0);
+    if at.x + size.x > rect.max.x {
+        at.x = pointer.x - 18.0 - size.x;
+    }
+    if at.y + size.y > rect.max.y {
+        at.y = pointer.y - 18.0 - size.y;
+    }
+    let bx = Rect::from_min_size(at, size);
+    painter.rect_filled(bx, 4.0, Color32::from_rgba_unmultiplied(255, 255, 255, 245));
+    painter.rect_filled(Rect::from_min_size(bx.min, Vec2::new(7.0, size.y)), 2.0, rgb(Band::of(u).colour()));
+    painter.rect_stroke(bx, 4.0, Stroke::new(1.0, Color32::from_gray(60)), StrokeKind::Inside);
+    painter.galley(bx.min + Vec2::new(14.0, 5.0), g, Color32::BLACK);
+}
+
 /// The caution across the bottom of a picture.
 fn caution_banner(painter: &egui::Painter, rect: Rect) {
     let galley = painter.layout(CAUTION.to_string(), FontId::proportional(CAUTION_SIZE), Color32::BLACK, rect.width() - 32.0);
@@ -91,8 +136,7 @@ fn caution_banner(painter: &egui::Painter, rect: Rect) {
 /// Worst plate and counts: at the top of `column` (left-aligned beside the view, else
 /// right-aligned inside it). Returns where it was drawn.
 fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usize>, comb_name: &str, side: bool) -> Rect {
-    let worst = (0..a.plates.len()).max_by(|&i, &j| reading(&a.plates[i], comb).0.partial_cmp(&reading(&a.plates[j], comb).0).unwrap_or(std::cmp::Ordering::Equal));
-    let Some(w) = worst else { return Rect::from_min_size(column.min, Vec2::ZERO) };
+    let Some(&w) = worst_first(a, comb).first() else { return Rect::from_min_size(column.min, Vec2::ZERO) };
     let p = &a.plates[w];
     let (u, status) = reading(p, comb);
     let c = comb.unwrap_or(p.governing);
@@ -135,7 +179,8 @@ fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usi
 
 /// Legend: numeric scale, plate counts per band, cues, load cases.
 /// `at`: top-left corner (beside the view); `None`: bottom-left corner of `column`.
-fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, comb: Option<usize>, comb_name: &str) {
+/// Returns where it was drawn.
+fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, comb: Option<usize>, comb_name: &str) -> Rect {
     let mut counts = [0usize; 5];
     for p in &a.plates {
         counts[Band::of(reading(p, comb).0) as usize] += 1;
@@ -145,7 +190,7 @@ fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, com
         Some(p) => (Align2::LEFT_TOP, p),
         None => (Align2::LEFT_BOTTOM, Pos2::new(column.min.x, column.max.y)),
     };
-    egui::Area::new(egui::Id::new("legend"))
+    let shown = egui::Area::new(egui::Id::new("legend"))
         .order(egui::Order::Middle)
         .pivot(pivot)
         .fixed_pos(pos)
@@ -203,6 +248,7 @@ fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, com
                 });
             });
         });
+    shown.response.rect
 }
 
 fn cue_square(p: &egui::Painter, c: Pos2, h: f32) {
@@ -239,10 +285,12 @@ pub struct LabelRequest {
 }
 
 /// Place labels near their anchors without covering any plate or another label: the first of
-/// eight positions around the anchor that is free and inside `bounds`; the first position if
-/// none is.
-pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], bounds: Rect) -> Vec<Rect> {
-    let mut placed: Vec<Rect> = Vec::with_capacity(requests.len());
+/// eight positions around the anchor that is free and inside `bounds`; where every position
+/// covers some plate (a dense grid), the first that covers no other label; `None` (no label)
+/// when even that fails, rather than labels piled on each other.
+/// `keep_clear`: other boxes no label may cover (the summary, the legend).
+pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], keep_clear: &[Rect], bounds: Rect) -> Vec<Option<Rect>> {
+    let mut placed: Vec<Option<Rect>> = Vec::with_capacity(requests.len());
     for req in requests {
         let a = req.anchor;
         let gap = 10.0;
@@ -259,18 +307,26 @@ pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], bounds: Rect) ->
             Pos2::new(a.min.x - gap - w, c.y - h / 2.0),
         ];
         let rects = candidates.map(|p| Rect::from_min_size(p, req.size));
-        // Free: inside, clear of other labels and of every plate, and its leader crosses no
-        // other plate.
+        // Only plates near the anchor can be in the way of a label or its leader.
+        let reach = Rect::from_min_max(a.min - req.size - Vec2::splat(gap), a.max + req.size + Vec2::splat(gap));
+        let plates: Vec<&Rect> = plates.iter().filter(|p| p.intersects(reach)).collect();
+        let clear_of_labels = |r: &Rect| bounds.contains_rect(*r) && !keep_clear.iter().any(|k| k.intersects(*r)) && !placed.iter().flatten().any(|o| o.expand(2.0).intersects(*r));
+        // Free: also clear of every plate, and its leader crosses no other plate.
         let free = |r: &Rect| {
-            bounds.contains_rect(*r)
-                && !placed.iter().any(|o| o.expand(2.0).intersects(*r))
+            clear_of_labels(r)
                 && !plates.iter().any(|p| p.intersects(*r))
-                && !plates.iter().filter(|p| !p.intersects(a)).any(|p| segment_hits_rect(leader_start(a, r.center()), r.center(), *p))
+                && !plates.iter().filter(|p| !p.intersects(a)).any(|p| segment_hits_rect(leader_start(a, r.center()), r.center(), **p))
         };
-        let chosen = rects.iter().find(|r| free(r)).or_else(|| rects.iter().find(|r| bounds.contains_rect(**r))).copied().unwrap_or(rects[0]);
-        placed.push(chosen);
+        placed.push(rects.iter().find(|r| free(r)).or_else(|| rects.iter().find(|r| clear_of_labels(r))).copied());
     }
     placed
+}
+
+/// Plate indices from the highest utilisation down (ties in scene order).
+pub fn worst_first(a: &Analysis, comb: Option<usize>) -> Vec<usize> {
+    let mut order: Vec<usize> = (0..a.plates.len()).collect();
+    order.sort_by(|&i, &j| reading(&a.plates[j], comb).0.partial_cmp(&reading(&a.plates[i], comb).0).unwrap_or(std::cmp::Ordering::Equal));
+    order
 }
 
 /// Where a leader leaves a plate's footprint towards a label centre.
@@ -300,8 +356,83 @@ pub fn segment_hits_rect(a: Pos2, b: Pos2, r: Rect) -> bool {
 
 /// Label the worst plates, every plate that is over capacity or lifts (up to [`MAX_LABELS`]),
 /// and the hovered and selected ones. Returns the label rectangles.
-/// The centre of gravity's label, at `cog`, is placed the same way, last.
-fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDoc, view: &ViewState, selection: &Selection, cog: Option<Pos2>) -> Vec<Rect> {
+/// The centre of gravity's label, at `cog`, is placed the same way, last. Placing looks at
+/// every plate, so it is done again only when the view, the results or the selection change.
+#[allow(clippy::too_many_arguments)]
+fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDoc, view: &ViewState, selection: &Selection, cog: Option<Pos2>, keep_clear: &[Rect], cache: &mut LabelCache) {
+    let key = LabelKey {
+        revision: doc.revision,
+        solved: doc.solved_revision,
+        camera: view.camera,
+        viewport: view.viewport,
+        settings: (view.settings.combination, view.settings.labels),
+        selection: selection.items.clone(),
+        hovered: selection.hovered.clone(),
+        rect,
+        keep_clear: keep_clear.to_vec(),
+    };
+    if cache.key.as_ref() != Some(&key) {
+        cache.labels = place_plate_labels(painter, rect, a, doc, view, selection, cog, keep_clear);
+        cache.key = Some(key);
+    }
+    paint_labels(painter, &cache.labels);
+}
+
+/// What the label cache was made from.
+#[derive(Debug, Clone, PartialEq)]
+struct LabelKey {
+    revision: u64,
+    solved: u64,
+    camera: plateload::pick::ViewCamera,
+    viewport: [f32; 4],
+    settings: (Option<usize>, bool),
+    selection: Vec<plateload::edit::ElementRef>,
+    hovered: Option<plateload::edit::ElementRef>,
+    rect: Rect,
+    keep_clear: Vec<Rect>,
+}
+
+/// One placed label, ready to paint.
+#[derive(Debug, Clone)]
+struct PlacedLabel {
+    rect: Rect,
+    leader_from: Pos2,
+    /// Band colour and whether the plate fails; `None` for the centre of gravity.
+    band: Option<(Band, bool)>,
+    text: std::sync::Arc<egui::Galley>,
+}
+
+/// Labels placed for the last view, kept between frames.
+#[derive(Debug, Default)]
+pub struct LabelCache {
+    key: Option<LabelKey>,
+    labels: Vec<PlacedLabel>,
+}
+
+fn paint_labels(painter: &egui::Painter, labels: &[PlacedLabel]) {
+    for l in labels {
+        let lr = l.rect;
+        match l.band {
+            Some((band, failing)) => {
+                painter.line_segment([l.leader_from, lr.center()], Stroke::new(2.0, Color32::from_gray(20)));
+                painter.circle_filled(l.leader_from, 3.0, Color32::from_gray(20));
+                painter.rect_filled(lr, 3.0, Color32::from_rgba_unmultiplied(255, 255, 255, 240));
+                painter.rect_filled(Rect::from_min_size(lr.min, Vec2::new(7.0, lr.height())), 2.0, rgb(band.colour()));
+                let stroke = if failing { Stroke::new(2.5, Color32::BLACK) } else { Stroke::new(1.0, Color32::from_gray(60)) };
+                painter.rect_stroke(lr, 3.0, stroke, StrokeKind::Inside);
+                painter.galley(Pos2::new(lr.min.x + 12.0, lr.min.y + 3.0), l.text.clone(), Color32::BLACK);
+            }
+            None => {
+                painter.line_segment([l.leader_from, lr.center()], Stroke::new(1.0, Color32::from_gray(40)));
+                painter.rect_filled(lr, 2.0, Color32::from_rgba_unmultiplied(255, 255, 255, 200));
+                painter.galley(lr.min + Vec2::new(4.0, 2.0), l.text.clone(), Color32::BLACK);
+            }
+        }
+    }
+}
+
+#[allow(clippy::too_many_arguments)]
+fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDoc, view: &ViewState, selection: &Selection, cog: Option<Pos2>, keep_clear: &[Rect]) -> Vec<PlacedLabel> {
     let comb = view.settings.combination;
     let labels_on = view.settings.labels;
     let supports: std::collections::HashMap<&str, &plateload::SupportType> = doc.scene.support_types.iter().map(|s| (s.id.as_str(), s)).collect();
@@ -329,8 +460,7 @@ fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDo
         out.map(|o| o.expand(2.0))
     };
     let plates: Vec<Option<Rect>> = (0..a.plates.len()).map(|i| footprint(i, true)).collect();
-    let mut order: Vec<usize> = (0..a.plates.len()).collect();
-    order.sort_by(|&i, &j| reading(&a.plates[j], comb).0.partial_cmp(&reading(&a.plates[i], comb).0).unwrap_or(std::cmp::Ordering::Equal));
+    let order = worst_first(a, comb);
     let mut chosen: Vec<usize> = Vec::new();
     let add = |i: usize, chosen: &mut Vec<usize>| {
         if !chosen.contains(&i) {
@@ -381,31 +511,22 @@ fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDo
     }
     let all_plates: Vec<Rect> = plates.iter().flatten().copied().collect();
     let bounds = rect.shrink(4.0);
-    let placed = place_labels(&requests, &all_plates, bounds);
+    let placed = place_labels(&requests, &all_plates, keep_clear, bounds);
+    let mut out = Vec::new();
     let mut k = 0;
     for (n, &i) in chosen.iter().enumerate() {
         let Some(anchor) = footprint(i, false) else { continue };
-        let lr = placed[k];
+        let slot = placed[k];
         k += 1;
+        let Some(lr) = slot else { continue };
         let (u, st) = reading(&a.plates[i], comb);
-        // Leader from the footprint's edge towards the label, with a dot on the plate side.
-        let to = lr.center();
-        let edge = leader_start(anchor, to);
-        painter.line_segment([edge, to], Stroke::new(2.0, Color32::from_gray(20)));
-        painter.circle_filled(edge, 3.0, Color32::from_gray(20));
-        painter.rect_filled(lr, 3.0, Color32::from_rgba_unmultiplied(255, 255, 255, 240));
-        painter.rect_filled(Rect::from_min_size(lr.min, Vec2::new(7.0, lr.height())), 2.0, rgb(Band::of(u).colour()));
-        let stroke = if st.is_ok() { Stroke::new(1.0, Color32::from_gray(60)) } else { Stroke::new(2.5, Color32::BLACK) };
-        painter.rect_stroke(lr, 3.0, stroke, StrokeKind::Inside);
-        painter.galley(Pos2::new(lr.min.x + 12.0, lr.min.y + 3.0), galleys[n].clone(), Color32::BLACK);
+        out.push(PlacedLabel { rect: lr, leader_from: leader_start(anchor, lr.center()), band: Some((Band::of(u), !st.is_ok())), text: galleys[n].clone() });
     }
-    if let (Some(c), Some(lr)) = (cog, placed.get(k)) {
+    if let (Some(c), Some(Some(lr))) = (cog, placed.get(k)) {
         let anchor = Rect::from_center_size(c, Vec2::splat(16.0));
-        painter.line_segment([leader_start(anchor, lr.center()), lr.center()], Stroke::new(1.0, Color32::from_gray(40)));
-        painter.rect_filled(*lr, 2.0, Color32::from_rgba_unmultiplied(255, 255, 255, 200));
-        painter.galley(lr.min + Vec2::new(4.0, 2.0), cog_galley, Color32::BLACK);
+        out.push(PlacedLabel { rect: *lr, leader_from: leader_start(anchor, lr.center()), band: None, text: cog_galley });
     }
-    placed
+    out
 }
 
 #[cfg(test)]
@@ -413,12 +534,29 @@ mod tests {
     use super::*;
 
     #[test]
+    fn crowded_labels_are_left_out_rather_than_piled_up() {
+        // common practice, no source
+        let plate = Rect::from_min_size(Pos2::new(50.0, 50.0), Vec2::splat(10.0));
+        let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::new(160.0, 110.0));
+        let req = LabelRequest { anchor: plate, size: Vec2::new(60.0, 30.0) };
+        let placed = place_labels(&vec![req; 12], &[plate], &[], bounds);
+        let shown: Vec<Rect> = placed.iter().flatten().copied().collect();
+        assert!(!shown.is_empty() && shown.len() < 12, "{}", shown.len());
+        for (i, r) in shown.iter().enumerate() {
+            for o in &shown[i + 1..] {
+                assert!(!o.intersects(*r));
+            }
+        }
+    }
+
+    #[test]
     fn labels_avoid_plates_and_each_other() {
         // common practice, no source: labels must not hide what they label
         let plates = vec![Rect::from_min_size(Pos2::new(100.0, 100.0), Vec2::splat(20.0)), Rect::from_min_size(Pos2::new(140.0, 60.0), Vec2::splat(20.0))];
         let req = |p: &Rect| LabelRequest { anchor: *p, size: Vec2::new(60.0, 18.0) };
         let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::splat(400.0));
-        let placed = place_labels(&[req(&plates[0]), req(&plates[1]), req(&plates[0])], &plates, bounds);
+        let placed = place_labels(&[req(&plates[0]), req(&plates[1]), req(&plates[0])], &plates, &[], bounds);
+        let placed: Vec<Rect> = placed.into_iter().map(|r| r.expect("room for every label")).collect();
         for (i, r) in placed.iter().enumerate() {
             assert!(bounds.contains_rect(*r));
             assert!(!plates.iter().any(|p| p.intersects(*r)), "label {i} covers a plate: {r:?}");

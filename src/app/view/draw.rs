@@ -98,6 +98,8 @@ pub struct Drawn {
     pub entities: HashMap<DrawKey, Entity>,
     /// Plate entities by post id.
     pub plates: HashMap<String, PlateEntities>,
+    /// Keys and entities in the order the last sync visited them.
+    order: Vec<(DrawKey, Entity)>,
     /// Revision of the scene drawn.
     pub revision: u64,
     /// Whether loads and decks were drawn (settings at the last sync).
@@ -106,6 +108,8 @@ pub struct Drawn {
     coloured: Option<ColourKey>,
     /// How many entities the last sync spawned, updated and removed.
     pub last_sync: [usize; 3],
+    /// How long the last sync and the last recolouring took.
+    pub last_times: [std::time::Duration; 2],
 }
 
 #[derive(Debug, Clone, PartialEq)]
@@ -187,7 +191,9 @@ fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut mat
         selected: unlit(m, HIGHLIGHT),
         // The cue meshes carry their own black and white vertex colours.
         cue: unlit(m, Color::WHITE),
-        ground_mat: lit(m, Color::srgb_u8(0xc9, 0xc6, 0xbd), 0.95),
+        // Unlit, so the ground keeps one known colour under any light: never white, which is
+        // the colour of the cues.
+        ground_mat: unlit(m, Color::srgb_u8(0xbf, 0xbc, 0xb4)),
     };
     // The ground: a large plane under everything, scaled to the scene when it is drawn.
     commands.spawn((Mesh3d(assets.ground.clone()), MeshMaterial3d(assets.ground_mat.clone()), Transform::from_scale(Vec3::ZERO), GroundPlane, RenderLayers::layer(SCENE_LAYER)));
@@ -205,7 +211,7 @@ pub struct OnTopGizmos;
 fn configure_gizmos(mut store: ResMut<GizmoConfigStore>) {
     let (cfg, _) = store.config_mut::<OnTopGizmos>();
     cfg.render_layers = RenderLayers::layer(ON_TOP_LAYER);
-    cfg.line.width = 3.0;
+    cfg.line.width = 2.0;
     cfg.depth_bias = -1.0;
     let (cfg, _) = store.config_mut::<DefaultGizmoConfigGroup>();
     cfg.render_layers = RenderLayers::layer(SCENE_LAYER);
@@ -323,6 +329,102 @@ fn on_top(part: Part) -> bool {
     matches!(part, Part::BasePlate | Part::SolePlate)
 }
 
+/// What an entity should draw, borrowed from the scene: compared with the last frame's keys
+/// without building a key, so an edit costs no allocation per unchanged entity.
+#[derive(Clone, Copy)]
+enum Want<'a> {
+    Shape(&'a ElementRef, Part, u32),
+    Over(&'a str),
+    Uplift(&'a str),
+    Arrow(&'a str),
+    Cog,
+}
+
+impl Want<'_> {
+    fn matches(&self, k: &DrawKey) -> bool {
+        match (self, k) {
+            (Want::Shape(e, p, i), DrawKey::Shape(ke, kp, ki)) => p == kp && i == ki && *e == ke,
+            (Want::Over(id), DrawKey::OverCue(k)) | (Want::Uplift(id), DrawKey::UpliftCue(k)) | (Want::Arrow(id), DrawKey::UpliftArrow(k)) => *id == k,
+            (Want::Cog, DrawKey::CentreOfGravity) => true,
+            _ => false,
+        }
+    }
+    fn key(&self) -> DrawKey {
+        match *self {
+            Want::Shape(e, p, i) => DrawKey::Shape(e.clone(), p, i),
+            Want::Over(id) => DrawKey::OverCue(id.to_owned()),
+            Want::Uplift(id) => DrawKey::UpliftCue(id.to_owned()),
+            Want::Arrow(id) => DrawKey::UpliftArrow(id.to_owned()),
+            Want::Cog => DrawKey::CentreOfGravity,
+        }
+    }
+}
+
+/// Matching this frame's wanted entities against last frame's, in order.
+struct Reconcile {
+    old: Vec<Option<(DrawKey, Entity)>>,
+    cursor: usize,
+    order: Vec<(DrawKey, Entity)>,
+    reused: bevy::ecs::entity::EntityHashSet,
+    spawned: usize,
+    updated: usize,
+}
+
+/// How far ahead of the expected position a wanted entity is looked for before the hash map:
+/// enough to step over a few deleted elements.
+const LOOKAHEAD: usize = 8;
+
+impl Reconcile {
+    /// The entity for `want`: last frame's (moved if needed) or a new one.
+    #[allow(clippy::too_many_arguments)]
+    fn place(
+        &mut self,
+        want: Want,
+        mesh: &Handle<Mesh>,
+        t: Transform,
+        layer: usize,
+        hidden: bool,
+        map: &mut HashMap<DrawKey, Entity>,
+        commands: &mut Commands,
+        transforms: &mut Query<(&mut Transform, &mut Mesh3d), (With<DrawnPart>, Without<GroundPlane>)>,
+        material: &Handle<StandardMaterial>,
+    ) -> Entity {
+        let hit = (0..=LOOKAHEAD).map(|d| self.cursor + d).find(|&i| matches!(self.old.get(i), Some(Some((k, _))) if want.matches(k)));
+        let found = match hit {
+            Some(i) => {
+                self.cursor = i + 1;
+                self.old[i].take()
+            }
+            None => {
+                let key = want.key();
+                map.get(&key).copied().map(|e| (key, e))
+            }
+        };
+        if let Some((key, e)) = found {
+            if let Ok((mut tr, mut m)) = transforms.get_mut(e) {
+                if *tr != t {
+                    *tr = t;
+                    self.updated += 1;
+                }
+                if m.0 != *mesh {
+                    m.0 = mesh.clone();
+                }
+            }
+            self.reused.insert(e);
+            self.order.push((key, e));
+            return e;
+        }
+        let key = want.key();
+        self.spawned += 1;
+        let vis = if hidden { Visibility::Hidden } else { Visibility::Inherited };
+        let e = commands.spawn((DrawnPart(key.clone()), Mesh3d(mesh.clone()), MeshMaterial3d(material.clone()), t, vis, RenderLayers::layer(layer))).id();
+        map.insert(key.clone(), e);
+        self.reused.insert(e);
+        self.order.push((key, e));
+        e
+    }
+}
+
 /// Make the entities follow the scene: update what moved, spawn what is new, despawn what went.
 #[allow(clippy::too_many_arguments)]
 fn sync_entities(
@@ -340,6 +442,7 @@ fn sync_entities(
     if drawn.revision == doc.revision && drawn.shown == shown && drawn.revision != 0 {
         return;
     }
+    let started = std::time::Instant::now();
     let analysis = doc.analysis();
     let mut opts = ShapeOptions::for_scene(&doc.scene, analysis);
     opts.loads = view.settings.show_loads;
@@ -350,31 +453,13 @@ fn sync_entities(
     let (lo, hi) = pick::structure_bounds(&doc.scene);
     let ground_z = doc.scene.posts.iter().map(|p| p.base_level).fold(f64::INFINITY, f64::min);
     let ground_z = if ground_z.is_finite() { ground_z - opts.sole_plate_thickness_m - 0.002 } else { 0.0 };
-    let mut seen: HashSet<DrawKey> = HashSet::with_capacity(list.len() + doc.scene.posts.len() * 3);
-    let mut plates: HashMap<String, PlateEntities> = HashMap::with_capacity(doc.scene.posts.len());
-    let (mut spawned, mut updated) = (0, 0);
     let drawn = &mut *drawn;
-    let first_material = assets.no_result.clone();
-    let mut place = |key: DrawKey, mesh: &Handle<Mesh>, t: Transform, layer: usize, hidden: bool, commands: &mut Commands| -> Entity {
-        seen.insert(key.clone());
-        if let Some(&e) = drawn.entities.get(&key) {
-            if let Ok((mut tr, mut m)) = transforms.get_mut(e) {
-                if *tr != t {
-                    *tr = t;
-                    updated += 1;
-                }
-                if m.0 != *mesh {
-                    m.0 = mesh.clone();
-                }
-            }
-            return e;
-        }
-        spawned += 1;
-        let vis = if hidden { Visibility::Hidden } else { Visibility::Inherited };
-        let e = commands.spawn((DrawnPart(key.clone()), Mesh3d(mesh.clone()), MeshMaterial3d(first_material.clone()), t, vis, RenderLayers::layer(layer))).id();
-        drawn.entities.insert(key, e);
-        e
-    };
+    let material = assets.no_result.clone();
+    let old = std::mem::take(&mut drawn.order);
+    let mut rc = Reconcile { old: old.into_iter().map(Some).collect(), cursor: 0, order: Vec::with_capacity(drawn.entities.len()), reused: default(), spawned: 0, updated: 0 };
+    let post_index: HashMap<&str, usize> = doc.scene.posts.iter().enumerate().map(|(i, p)| (p.id.as_str(), i)).collect();
+    let mut plate_vec: Vec<PlateEntities> = vec![PlateEntities::default(); doc.scene.posts.len()];
+    let map = &mut drawn.entities;
     for s in &list {
         let Some(t) = prim_transform(&s.prim) else { continue };
         let mesh = match s.prim {
@@ -383,13 +468,14 @@ fn sync_entities(
             Prim::Cuboid { .. } => &assets.cube,
         };
         let layer = if on_top(s.part) { ON_TOP_LAYER } else { SCENE_LAYER };
-        let e = place(DrawKey::Shape(s.element.clone(), s.part, s.index), mesh, t, layer, false, &mut commands);
+        let e = rc.place(Want::Shape(&s.element, s.part, s.index), mesh, t, layer, false, map, &mut commands, &mut transforms, &material);
         if s.element.kind == ElementKind::Post {
-            let pe = plates.entry(s.element.id.clone()).or_default();
-            match s.part {
-                Part::Post => pe.post = Some(e),
-                Part::BasePlate | Part::SolePlate => pe.plates.push(e),
-                _ => {}
+            if let Some(&i) = post_index.get(s.element.id.as_str()) {
+                match s.part {
+                    Part::Post => plate_vec[i].post = Some(e),
+                    Part::BasePlate | Part::SolePlate => plate_vec[i].plates.push(e),
+                    _ => {}
+                }
             }
         }
     }
@@ -397,7 +483,7 @@ fn sync_entities(
     // result calls for them.
     let supports: HashMap<&str, &plateload::model::SupportType> = doc.scene.support_types.iter().map(|s| (s.id.as_str(), s)).collect();
     let mut cue_reach = 0.0f64;
-    for p in &doc.scene.posts {
+    for (i, p) in doc.scene.posts.iter().enumerate() {
         let Some(s) = p.support.as_deref().and_then(|s| supports.get(s)) else { continue };
         let b = s.bearing_plate();
         let (hx, hy) = ((b.width_m.max(s.base_plate.width_m)) / 2.0, (b.length_m.max(s.base_plate.length_m)) / 2.0);
@@ -413,36 +499,47 @@ fn sync_entities(
         let (frame, ring) = (frame.clone(), ring.clone());
         let at = to_bevy([p.x, p.y, p.base_level + opts.base_plate_thickness_m + 0.001]);
         let t = Transform::from_translation(at);
-        let pe = plates.entry(p.id.clone()).or_default();
-        pe.over = Some(place(DrawKey::OverCue(p.id.clone()), &frame, t, ON_TOP_LAYER, true, &mut commands));
-        let ring_e = place(DrawKey::UpliftCue(p.id.clone()), &ring, t, ON_TOP_LAYER, true, &mut commands);
+        let over = rc.place(Want::Over(&p.id), &frame, t, ON_TOP_LAYER, true, map, &mut commands, &mut transforms, &material);
+        let ring_e = rc.place(Want::Uplift(&p.id), &ring, t, ON_TOP_LAYER, true, map, &mut commands, &mut transforms, &material);
         // An upward cone standing above the plate: uplift reads in elevation too.
         let h = (0.5 * hx.hypot(hy) + 0.15).min(0.6);
         let cone = Prim::Cone { base: [p.x, p.y, p.base_level + 0.35], tip: [p.x, p.y, p.base_level + 0.35 + h], radius: 0.35 * h };
         // In the scene layer: seen from above it stays under the plate, so never hides its colour.
-        let arrow_e = prim_transform(&cone).map(|t| place(DrawKey::UpliftArrow(p.id.clone()), &assets.cone, t, SCENE_LAYER, true, &mut commands));
-        pe.uplift = std::iter::once(ring_e).chain(arrow_e).collect();
+        let arrow_e = prim_transform(&cone).map(|t| rc.place(Want::Arrow(&p.id), &assets.cone, t, SCENE_LAYER, true, map, &mut commands, &mut transforms, &material));
+        plate_vec[i].over = Some(over);
+        plate_vec[i].uplift = std::iter::once(ring_e).chain(arrow_e).collect();
     }
     if let Some((x, y)) = analysis.and_then(|a| a.stability.centre_of_gravity) {
         let r = (0.02 * (hi[0] - lo[0]).max(hi[1] - lo[1])).clamp(0.12, 1.5) as f32;
         let t = Transform::from_translation(to_bevy([x, y, ground_z + 0.004])).with_scale(Vec3::new(r, 1.0, r));
-        place(DrawKey::CentreOfGravity, &assets.cog, t, ON_TOP_LAYER, false, &mut commands);
+        rc.place(Want::Cog, &assets.cog, t, ON_TOP_LAYER, false, map, &mut commands, &mut transforms, &material);
     }
-    let stale: Vec<DrawKey> = drawn.entities.keys().filter(|k| !seen.contains(*k)).cloned().collect();
-    for k in &stale {
-        if let Some(e) = drawn.entities.remove(k) {
+    // Whatever last frame had and this one does not want goes.
+    let mut removed = 0;
+    for (k, e) in rc.old.into_iter().flatten() {
+        if !rc.reused.contains(&e) {
+            map.remove(&k);
             commands.entity(e).despawn();
+            removed += 1;
         }
     }
     if let Ok(mut g) = ground.single_mut() {
         let pad = 4.0 + 0.3 * (hi[0] - lo[0]).max(hi[1] - lo[1]);
         let (cx, cy) = ((lo[0] + hi[0]) / 2.0, (lo[1] + hi[1]) / 2.0);
-        *g = Transform::from_translation(to_bevy([cx, cy, ground_z - 0.002])).with_scale(Vec3::new((hi[0] - lo[0] + 2.0 * pad) as f32, 1.0, (hi[1] - lo[1] + 2.0 * pad) as f32));
+        let t = Transform::from_translation(to_bevy([cx, cy, ground_z - 0.002])).with_scale(Vec3::new((hi[0] - lo[0] + 2.0 * pad) as f32, 1.0, (hi[1] - lo[1] + 2.0 * pad) as f32));
+        if *g != t {
+            *g = t;
+        }
     }
-    drawn.plates = plates;
+    // The by-id table of plate entities only changes when entities came or went.
+    if rc.spawned + removed > 0 || drawn.plates.len() != doc.scene.posts.len() {
+        drawn.plates = doc.scene.posts.iter().zip(plate_vec).map(|(p, pe)| (p.id.clone(), pe)).collect();
+    }
+    drawn.order = rc.order;
     drawn.revision = doc.revision;
     drawn.shown = shown;
-    drawn.last_sync = [spawned, updated, stale.len()];
+    drawn.last_sync = [rc.spawned, rc.updated, removed];
+    drawn.last_times[0] = started.elapsed();
     // Frame the cues too: the ring around a lifting plate reaches past its corners.
     let reach = cue_reach.max(0.0);
     shapes.bounds = pick::shapes_bounds(&list).map(|(lo, hi)| ([lo[0] - reach, lo[1] - reach, lo[2]], [hi[0] + reach, hi[1] + reach, hi[2]]));
@@ -481,6 +578,7 @@ fn recolour(
     if drawn.coloured.as_ref() == Some(&key) {
         return;
     }
+    let started = std::time::Instant::now();
     let analysis = doc.analysis();
     let readings: HashMap<&str, (f64, PlateStatus)> = analysis.map(|a| a.plates.iter().map(|p| (p.id.as_str(), reading(p, key.combination))).collect()).unwrap_or_default();
     let selected: HashSet<&ElementRef> = selection.items.iter().collect();
@@ -532,6 +630,7 @@ fn recolour(
         }
     }
     drawn.coloured = Some(key);
+    drawn.last_times[1] = started.elapsed();
 }
 
 /// Metric grid on the ground: 1 m lines, every 5 m darker.
@@ -562,10 +661,16 @@ fn draw_grid(mut gizmos: Gizmos, shapes: Res<SceneShapes>) {
 
 /// Outline the hovered element, and the selected ones.
 fn draw_highlights(mut gizmos: Gizmos<OnTopGizmos>, shapes: Res<SceneShapes>, selection: Res<Selection>) {
-    let mut outline = |s: &Shape, c: Color| match s.prim {
+    // Boxes are outlined by a rectangle on their top face, a little outside it, so a plate's
+    // colour stays visible inside its highlight.
+    let mut outline = |s: &Shape, c: Color, pad: f64| match s.prim {
         Prim::Cuboid { min, max } => {
-            let (a, b) = (to_bevy(min), to_bevy(max));
-            gizmos.cube(Transform::from_translation((a + b) / 2.0).with_scale((b - a).abs() + Vec3::splat(0.01)), c);
+            let z = max[2];
+            let corners = [[min[0] - pad, min[1] - pad], [max[0] + pad, min[1] - pad], [max[0] + pad, max[1] + pad], [min[0] - pad, max[1] + pad]];
+            for k in 0..4 {
+                let (a, b) = (corners[k], corners[(k + 1) % 4]);
+                gizmos.line(to_bevy([a[0], a[1], z]), to_bevy([b[0], b[1], z]), c);
+            }
         }
         Prim::Bar { a, b, .. } | Prim::Cone { base: a, tip: b, .. } => {
             gizmos.line(to_bevy(a), to_bevy(b), c);
@@ -573,13 +678,21 @@ fn draw_highlights(mut gizmos: Gizmos<OnTopGizmos>, shapes: Res<SceneShapes>, se
     };
     if let Some(h) = &selection.hovered {
         for s in shapes.shapes.iter().filter(|s| &s.element == h) {
-            outline(s, Color::srgb(1.0, 0.55, 0.0));
+            outline(s, Color::srgb(1.0, 0.55, 0.0), 0.02);
         }
     }
     if !selection.items.is_empty() {
         let sel: HashSet<&ElementRef> = selection.items.iter().collect();
-        for s in shapes.shapes.iter().filter(|s| sel.contains(&s.element) && matches!(s.part, Part::BasePlate | Part::SolePlate)) {
-            outline(s, HIGHLIGHT);
+        // A selected post's plate footprint, outlined outside any cue so its colour shows.
+        let pad = CUE_GAP_M + CUE_BAND_M + 0.03;
+        for s in shapes.shapes.iter().filter(|s| sel.contains(&s.element) && s.part == Part::SolePlate) {
+            outline(s, HIGHLIGHT, pad);
+        }
+        for s in shapes.shapes.iter().filter(|s| sel.contains(&s.element) && s.part == Part::BasePlate) {
+            // Without a sole plate the base plate is the footprint.
+            if !shapes.shapes.iter().any(|o| o.element == s.element && o.part == Part::SolePlate) {
+                outline(s, HIGHLIGHT, pad);
+            }
         }
     }
 }
