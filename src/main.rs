@@ -199,10 +199,10 @@ fn run() -> anyhow::Result<ExitCode> {
                     anyhow::anyhow!("no combination \"{name}\" in {} (it has: {})", file.display(), names.join(", "))
                 })?),
             };
-            if let Some(id) = &select {
-                if !scene.posts.iter().any(|p| p.id == *id) {
-                    anyhow::bail!("no post \"{id}\" in {}", file.display());
-                }
+            if let Some(id) = &select
+                && !scene.posts.iter().any(|p| p.id == *id)
+            {
+                anyhow::bail!("no post \"{id}\" in {}", file.display());
             }
             snapshot(scene, output, size, view, combination, (settle_frames, timing_edits), (camera_json, with_panels, select))
         }

@@ -211,11 +211,11 @@ fn notional_forces<'a>(scene: &'a Scene, analysis: Option<&Analysis>) -> HashMap
     let mut out = HashMap::new();
     let Some(a) = analysis else { return out };
     for l in &scene.loads {
-        if let LoadKind::Notional { .. } = l.kind {
-            if let Some(item) = a.solution.items.iter().find(|i| i.id == l.id) {
-                let f = item.applied.force;
-                out.insert(l.id.as_str(), f[0].hypot(f[1]));
-            }
+        if let LoadKind::Notional { .. } = l.kind
+            && let Some(item) = a.solution.items.iter().find(|i| i.id == l.id)
+        {
+            let f = item.applied.force;
+            out.insert(l.id.as_str(), f[0].hypot(f[1]));
         }
     }
     out
@@ -367,7 +367,8 @@ fn load_arrows(
     let over_area = |d: &mut LoadDrawing, x: (f64, f64), y: (f64, f64), z: f64, intensity: Intensity, max: usize| {
         let q = intensity.kpa().unwrap_or(0.0);
         let len = q * opts.arrow_m_per_kpa;
-        if !(len.abs() > 1e-6) {
+        // Nothing to draw for a zero (or not-a-number) pressure.
+        if len.is_nan() || len.abs() <= 1e-6 {
             return;
         }
         let spacing = ((x.1 - x.0).max(y.1 - y.0) / max as f64).max(0.5);
@@ -400,25 +401,25 @@ fn load_arrows(
             }
         }
         LoadKind::BearerPoint { bearer, at_m, kn } => {
-            if let (Some(b), Some(line)) = (bearers.get(bearer.as_str()), lines.get(bearer.as_str())) {
-                if let Some(first) = b.posts.first().and_then(|p| posts.get(p.as_str())) {
-                    let p = add([first.x, first.y, b.level], scale(line.2, *at_m));
-                    d.arrows.push(down(p, kn * opts.arrow_m_per_kn));
-                }
+            if let (Some(b), Some(line)) = (bearers.get(bearer.as_str()), lines.get(bearer.as_str()))
+                && let Some(first) = b.posts.first().and_then(|p| posts.get(p.as_str()))
+            {
+                let p = add([first.x, first.y, b.level], scale(line.2, *at_m));
+                d.arrows.push(down(p, kn * opts.arrow_m_per_kn));
             }
         }
         LoadKind::BearerLine { bearer, from_m, to_m, kn_per_m } => {
-            if let (Some(b), Some(line)) = (bearers.get(bearer.as_str()), lines.get(bearer.as_str())) {
-                if let Some(first) = b.posts.first().and_then(|p| posts.get(p.as_str())) {
-                    let len = kn_per_m * (to_m - from_m) * opts.arrow_m_per_kn;
-                    let n = (((to_m - from_m) / 0.5).ceil() as usize).clamp(2, 8);
-                    let at = |s: f64| add([first.x, first.y, b.level], scale(line.2, s));
-                    for k in 0..n {
-                        let s = from_m + (to_m - from_m) * k as f64 / (n - 1) as f64;
-                        d.arrows.push(down(at(s), len));
-                    }
-                    d.spread.push(Prim::Bar { a: add(at(*from_m), [0.0, 0.0, len]), b: add(at(*to_m), [0.0, 0.0, len]), radius: opts.arrow_radius_m * 0.6 });
+            if let (Some(b), Some(line)) = (bearers.get(bearer.as_str()), lines.get(bearer.as_str()))
+                && let Some(first) = b.posts.first().and_then(|p| posts.get(p.as_str()))
+            {
+                let len = kn_per_m * (to_m - from_m) * opts.arrow_m_per_kn;
+                let n = (((to_m - from_m) / 0.5).ceil() as usize).clamp(2, 8);
+                let at = |s: f64| add([first.x, first.y, b.level], scale(line.2, s));
+                for k in 0..n {
+                    let s = from_m + (to_m - from_m) * k as f64 / (n - 1) as f64;
+                    d.arrows.push(down(at(s), len));
                 }
+                d.spread.push(Prim::Bar { a: add(at(*from_m), [0.0, 0.0, len]), b: add(at(*to_m), [0.0, 0.0, len]), radius: opts.arrow_radius_m * 0.6 });
             }
         }
         LoadKind::PostTop { post, kn } => {

@@ -493,9 +493,14 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
                 t.push_str("  OVER");
             }
             if st.uplift {
-                t.push_str(&format!("  lifts {:.2} kN", p.combinations.iter().map(|c| c.min_kn).fold(f64::INFINITY, f64::min)));
+                // The least load where uplift is looked for: in the chosen combination, else
+                // over the combinations that check for it.
+                let least = match comb {
+                    Some(_) => pc.min_kn,
+                    None => p.combinations.iter().zip(&a.combinations).filter(|(_, c)| c.checks_uplift).map(|(pc, _)| pc.min_kn).fold(f64::INFINITY, f64::min),
+                };
+                t.push_str(&format!("  lifts {least:.2} kN"));
             }
-            let _ = pc;
             t
         })
         .collect();
