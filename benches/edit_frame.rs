@@ -14,6 +14,15 @@ use bevy::prelude::*;
 use plateload::edit::{Edit, ElementRef};
 use plateload::layout::{generate, LayoutSpec};
 
+/// Target for one edit → recoloured ECS update.
+const TARGET: Duration = Duration::from_millis(16);
+
+fn median(v: &[Duration]) -> Duration {
+    let mut v = v.to_vec();
+    v.sort();
+    v[v.len() / 2]
+}
+
 fn stats(name: &str, v: &mut [Duration]) {
     v.sort();
     let ms = |d: Duration| d.as_secs_f64() * 1e3;
@@ -75,11 +84,18 @@ fn main() {
         }
         runs.push((kind, frame, solve, sync, colour));
     }
+    let mut over = false;
     for (kind, mut frame, mut solve, mut sync, mut colour) in runs {
+        over |= median(&frame) > TARGET;
         println!("{kind}:");
         stats("  edit + solve + redraw + recolour (ECS)", &mut frame);
         stats("    of which solve", &mut solve);
         stats("    of which entities follow the scene", &mut sync);
         stats("    of which recolour", &mut colour);
     }
+    if over {
+        println!("FAILED: the median edit → recoloured update is over the {} ms target", TARGET.as_millis());
+        std::process::exit(1);
+    }
+    println!("ok: the median edit → recoloured update is within the {} ms target", TARGET.as_millis());
 }
