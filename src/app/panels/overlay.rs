@@ -284,40 +284,43 @@ pub struct LabelRequest {
     pub size: Vec2,
 }
 
-/// Place labels near their anchors without covering any plate or another label: the first of
-/// eight positions around the anchor that is free and inside `bounds`; where every position
-/// covers some plate (a dense grid), the first that covers no other label; `None` (no label)
-/// when even that fails, rather than labels piled on each other.
-/// `keep_clear`: other boxes no label may cover (the summary, the legend).
+/// Place labels near their anchors without covering any plate, another label or a box to keep
+/// clear: the first of eight positions around the anchor (then further out) that is free and
+/// inside `bounds`, preferring one whose leader crosses no other plate. `None` (no label) when
+/// there is no such place, as in a dense grid seen from afar: a label never hides a plate.
 pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], keep_clear: &[Rect], bounds: Rect) -> Vec<Option<Rect>> {
     let mut placed: Vec<Option<Rect>> = Vec::with_capacity(requests.len());
     for req in requests {
         let a = req.anchor;
-        let gap = 10.0;
         let (w, h) = (req.size.x, req.size.y);
         let c = a.center();
-        let candidates = [
-            Pos2::new(a.max.x + gap, a.min.y - gap - h),
-            Pos2::new(a.min.x - gap - w, a.min.y - gap - h),
-            Pos2::new(a.max.x + gap, a.max.y + gap),
-            Pos2::new(a.min.x - gap - w, a.max.y + gap),
-            Pos2::new(c.x - w / 2.0, a.min.y - gap - h),
-            Pos2::new(c.x - w / 2.0, a.max.y + gap),
-            Pos2::new(a.max.x + gap, c.y - h / 2.0),
-            Pos2::new(a.min.x - gap - w, c.y - h / 2.0),
-        ];
-        let rects = candidates.map(|p| Rect::from_min_size(p, req.size));
+        let rects: Vec<Rect> = [10.0f32, 40.0, 90.0]
+            .iter()
+            .flat_map(|&gap| {
+                [
+                    Pos2::new(a.max.x + gap, a.min.y - gap - h),
+                    Pos2::new(a.min.x - gap - w, a.min.y - gap - h),
+                    Pos2::new(a.max.x + gap, a.max.y + gap),
+                    Pos2::new(a.min.x - gap - w, a.max.y + gap),
+                    Pos2::new(c.x - w / 2.0, a.min.y - gap - h),
+                    Pos2::new(c.x - w / 2.0, a.max.y + gap),
+                    Pos2::new(a.max.x + gap, c.y - h / 2.0),
+                    Pos2::new(a.min.x - gap - w, c.y - h / 2.0),
+                ]
+            })
+            .map(|p| Rect::from_min_size(p, req.size))
+            .collect();
         // Only plates near the anchor can be in the way of a label or its leader.
-        let reach = Rect::from_min_max(a.min - req.size - Vec2::splat(gap), a.max + req.size + Vec2::splat(gap));
+        let reach = Rect::from_min_max(a.min - req.size - Vec2::splat(100.0), a.max + req.size + Vec2::splat(100.0));
         let plates: Vec<&Rect> = plates.iter().filter(|p| p.intersects(reach)).collect();
-        let clear_of_labels = |r: &Rect| bounds.contains_rect(*r) && !keep_clear.iter().any(|k| k.intersects(*r)) && !placed.iter().flatten().any(|o| o.expand(2.0).intersects(*r));
-        // Free: also clear of every plate, and its leader crosses no other plate.
-        let free = |r: &Rect| {
-            clear_of_labels(r)
+        let allowed = |r: &Rect| {
+            bounds.contains_rect(*r)
+                && !keep_clear.iter().any(|k| k.intersects(*r))
+                && !placed.iter().flatten().any(|o| o.expand(2.0).intersects(*r))
                 && !plates.iter().any(|p| p.intersects(*r))
-                && !plates.iter().filter(|p| !p.intersects(a)).any(|p| segment_hits_rect(leader_start(a, r.center()), r.center(), **p))
         };
-        placed.push(rects.iter().find(|r| free(r)).or_else(|| rects.iter().find(|r| clear_of_labels(r))).copied());
+        let clean_leader = |r: &Rect| !plates.iter().filter(|p| !p.intersects(a)).any(|p| segment_hits_rect(leader_start(a, r.center()), r.center(), **p));
+        placed.push(rects.iter().find(|r| allowed(r) && clean_leader(r)).or_else(|| rects.iter().find(|r| allowed(r))).copied());
     }
     placed
 }
