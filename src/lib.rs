@@ -15,6 +15,8 @@
 //!   utilisation of jack and ground, equilibrium proof per case and pass, stability ([`stability`]).
 //! - **export**: the support-load schedule ([`schedule`]), JSON ([`json`]) and the printable
 //!   HTML report ([`report`]).
+//! - **editing** (for the editor shell): undoable commands ([`edit`]), drawing geometry, ray
+//!   picking and the view camera ([`pick`]), recovery copies of unsaved work ([`recovery`]).
 //!
 //! Units: m, kN, kPa, kN·m. Results are a planning aid; see [`CAUTION`].
 #![warn(missing_docs)]
@@ -25,6 +27,7 @@ pub mod check;
 pub mod combination;
 pub mod continuous;
 pub mod demo;
+pub mod edit;
 mod fxhash;
 pub mod io;
 pub mod json;
@@ -32,6 +35,8 @@ pub mod layout;
 pub mod loads;
 pub mod model;
 pub mod palette;
+pub mod pick;
+pub mod recovery;
 pub mod report;
 pub mod rigid_base;
 pub mod schedule;

@@ -93,6 +93,57 @@ enum Command {
         /// Scene file (RON). Created on first save if it does not exist.
         file: Option<PathBuf>,
     },
+    /// Render a picture of a scene to PNG (needs a display; a virtual one such as Xvfb will do).
+    Snapshot {
+        /// Scene file (RON).
+        file: PathBuf,
+        /// PNG file to write.
+        #[arg(short, long)]
+        output: PathBuf,
+        /// Picture size in pixels, WIDTHxHEIGHT.
+        #[arg(long, default_value = "1600x1000", value_parser = parse_size)]
+        size: (u32, u32),
+        /// Direction of view.
+        #[arg(long, value_enum, default_value_t = PictureView::Iso)]
+        view: PictureView,
+        /// Colour by this combination (by name) instead of each plate's governing one.
+        #[arg(long)]
+        combination: Option<String>,
+        /// Frames to wait after the scene is drawn before the picture is taken.
+        #[arg(long, default_value_t = 30)]
+        settle_frames: u32,
+        /// Time this many edits (a load put on a post and taken off) first and log the figures.
+        #[arg(long, default_value_t = 0, hide = true)]
+        timing_edits: u32,
+        /// Also write the camera and viewport used, as JSON (for tests that check pixels).
+        #[arg(long, hide = true)]
+        camera_json: Option<PathBuf>,
+        /// Show the editor's panels instead of the picture layout.
+        #[arg(long, hide = true)]
+        with_panels: bool,
+        /// Select this post first: its plate is labelled and outlined.
+        #[arg(long)]
+        select: Option<String>,
+    },
+}
+
+/// Directions of view of a picture.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
+enum PictureView {
+    /// Isometric from the south-west.
+    Iso,
+    /// Plan, north up.
+    Plan,
+    /// Elevation looking north.
+    Front,
+    /// Elevation looking west.
+    Side,
+}
+
+fn parse_size(s: &str) -> Result<(u32, u32), String> {
+    let (w, h) = s.split_once(['x', 'X']).ok_or_else(|| format!("size \"{s}\" is not WIDTHxHEIGHT, e.g. 1600x1000"))?;
+    let n = |v: &str| v.trim().parse::<u32>().ok().filter(|&v| (64..=8192).contains(&v)).ok_or_else(|| format!("size \"{s}\": each side must be a whole number from 64 to 8192"));
+    Ok((n(w)?, n(h)?))
 }
 
 /// Paper sizes for `report --paper`.
@@ -195,6 +246,22 @@ fn run() -> anyhow::Result<ExitCode> {
             Ok(ExitCode::SUCCESS)
         }
         Command::Edit { file } => edit(file),
+        Command::Snapshot { file, output, size, view, combination, settle_frames, timing_edits, camera_json, with_panels, select } => {
+            let scene = read(&file)?;
+            let combination = match combination {
+                None => None,
+                Some(name) => Some(scene.combinations.iter().position(|c| c.name == name).ok_or_else(|| {
+                    let names: Vec<&str> = scene.combinations.iter().map(|c| c.name.as_str()).collect();
+                    anyhow::anyhow!("no combination \"{name}\" in {} (it has: {})", file.display(), names.join(", "))
+                })?),
+            };
+            if let Some(id) = &select
+                && !scene.posts.iter().any(|p| p.id == *id)
+            {
+                anyhow::bail!("no post \"{id}\" in {}", file.display());
+            }
+            snapshot(scene, output, size, view, combination, (settle_frames, timing_edits), (camera_json, with_panels, select))
+        }
     }
 }
 
@@ -347,8 +414,28 @@ fn edit(file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
         Some(_) => plateload::demo::default_scene(),
         None => plateload::demo::default_scene(),
     };
-    app::run(scene, file);
+    app::run(scene, file)?;
     Ok(ExitCode::SUCCESS)
+}
+
+#[cfg(feature = "viewer")]
+fn snapshot(scene: Scene, out: PathBuf, (w, h): (u32, u32), view: PictureView, combination: Option<usize>, (settle_frames, timing_edits): (u32, u32), (camera_out, editor_ui, select): (Option<PathBuf>, bool, Option<String>)) -> anyhow::Result<ExitCode> {
+    use plateload::pick::ViewPreset;
+    let view = match view {
+        PictureView::Iso => ViewPreset::Iso,
+        PictureView::Plan => ViewPreset::Plan,
+        PictureView::Front => ViewPreset::Front,
+        PictureView::Side => ViewPreset::Side,
+    };
+    app::snapshot(scene, app::snapshot::PictureSpec { out: out.clone(), size: [w, h], view, combination, settle_frames, timing_edits, camera_out, editor_ui, select: select.map(plateload::edit::ElementRef::post) })?;
+    eprintln!("wrote {}", out.display());
+    eprintln!("{CAUTION}");
+    Ok(ExitCode::SUCCESS)
+}
+
+#[cfg(not(feature = "viewer"))]
+fn snapshot(_: Scene, _: PathBuf, _: (u32, u32), _: PictureView, _: Option<usize>, _: (u32, u32), _: (Option<PathBuf>, bool, Option<String>)) -> anyhow::Result<ExitCode> {
+    anyhow::bail!("this build has no renderer (it was built without the `viewer` feature)")
 }
 
 #[cfg(not(feature = "viewer"))]

@@ -21,3 +21,6 @@ mod report;
 mod hardening;
 // Inputs that once broke something.
 mod regression;
+// The pictures of the editor's view, pixel by pixel (needs the editor and a display).
+#[cfg(feature = "viewer")]
+mod render;

@@ -1,0 +1,441 @@
+//! The inspector: every field of the selected element, edited through undoable replacements,
+//! and, for a post, its base plate's results.
+
+use bevy_egui::egui;
+use plateload::edit::{dependants, DeleteMode, Edit, Element};
+use plateload::loads::{Case, Face, Intensity, LoadKind, PlanDirection};
+use plateload::model::{BeamRole, ElementKind, PlateSize, Rect};
+use plateload::palette::Band;
+use plateload::Scene;
+
+use super::rgb;
+use crate::app::doc::{SceneDoc, Selection};
+use crate::app::{Action, ViewRequest};
+
+/// The inspector's state.
+#[derive(Debug, Default)]
+pub struct InspectorPanel {
+    /// Text being typed into a list-of-ids or id field, by field key.
+    drafts: std::collections::HashMap<String, String>,
+}
+
+/// Edits gathered while drawing one element's fields.
+struct Fields<'a> {
+    key: String,
+    merge: Option<String>,
+    seal: bool,
+    drafts: &'a mut std::collections::HashMap<String, String>,
+}
+
+impl Fields<'_> {
+    /// A number field; dragging or typing merges into one undo step per field.
+    fn num(&mut self, ui: &mut egui::Ui, label: &str, v: &mut f64, speed: f64, unit: &str) {
+        ui.label(label);
+        let r = ui.add(egui::DragValue::new(v).speed(speed).max_decimals(4).suffix(unit));
+        if r.changed() {
+            self.merge = Some(format!("{}.{label}", self.key));
+        }
+        if r.drag_stopped() || r.lost_focus() {
+            self.seal = true;
+        }
+        ui.end_row();
+    }
+    /// A text field applied when Enter is pressed or the field is left.
+    fn text(&mut self, ui: &mut egui::Ui, label: &str, v: &mut String) -> bool {
+        ui.label(label);
+        let k = format!("{}.{label}", self.key);
+        let draft = self.drafts.entry(k.clone()).or_insert_with(|| v.clone());
+        let r = ui.add(egui::TextEdit::singleline(draft).desired_width(170.0));
+        ui.end_row();
+        if r.lost_focus() {
+            let d = self.drafts.remove(&k).unwrap_or_default();
+            if d != *v {
+                *v = d;
+                return true;
+            }
+        } else if !r.has_focus() {
+            // Not being typed in: follow the scene (undo, other edits).
+            *self.drafts.get_mut(&k).expect("inserted above") = v.clone();
+        }
+        false
+    }
+    /// A comma-separated list of ids.
+    fn ids(&mut self, ui: &mut egui::Ui, label: &str, v: &mut Vec<String>) -> bool {
+        let mut s = v.join(", ");
+        if self.text(ui, label, &mut s) {
+            *v = s.split(',').map(|p| p.trim().to_owned()).filter(|p| !p.is_empty()).collect();
+            return true;
+        }
+        false
+    }
+}
+
+/// A choice among ids.
+fn pick_id(ui: &mut egui::Ui, label: &str, salt: &str, v: &mut String, options: &[&str]) {
+    ui.label(label);
+    egui::ComboBox::from_id_salt(salt).selected_text(v.as_str()).show_ui(ui, |ui| {
+        for o in options {
+            ui.selectable_value(v, (*o).to_owned(), *o);
+        }
+    });
+    ui.end_row();
+}
+
+fn direction_ui(ui: &mut egui::Ui, salt: &str, d: &mut PlanDirection) {
+    ui.label("Direction");
+    ui.horizontal(|ui| {
+        let label = match d {
+            PlanDirection::PlusX => "+x".to_string(),
+            PlanDirection::MinusX => "−x".into(),
+            PlanDirection::PlusY => "+y".into(),
+            PlanDirection::MinusY => "−y".into(),
+            PlanDirection::Degrees(a) => format!("{a}°"),
+        };
+        egui::ComboBox::from_id_salt(salt).selected_text(label).show_ui(ui, |ui| {
+            ui.selectable_value(d, PlanDirection::PlusX, "+x");
+            ui.selectable_value(d, PlanDirection::MinusX, "−x");
+            ui.selectable_value(d, PlanDirection::PlusY, "+y");
+            ui.selectable_value(d, PlanDirection::MinusY, "−y");
+            if ui.selectable_label(matches!(d, PlanDirection::Degrees(_)), "angle").clicked() && !matches!(d, PlanDirection::Degrees(_)) {
+                *d = PlanDirection::Degrees(45.0);
+            }
+        });
+        if let PlanDirection::Degrees(a) = d {
+            ui.add(egui::DragValue::new(a).speed(1.0).suffix("° from +x"));
+        }
+    });
+    ui.end_row();
+}
+
+fn intensity_ui(ui: &mut egui::Ui, f: &mut Fields, i: &mut Intensity) {
+    ui.label("Intensity");
+    ui.horizontal(|ui| {
+        let mut kind = match i {
+            Intensity::Kpa(_) => 0,
+            Intensity::DutyUniform(_) => 1,
+            Intensity::DutyPartial(_) => 2,
+        };
+        let was = kind;
+        egui::ComboBox::from_id_salt(format!("{}-int", f.key)).selected_text(["pressure", "duty class q1", "duty class q2"][kind]).show_ui(ui, |ui| {
+            ui.selectable_value(&mut kind, 0, "pressure");
+            ui.selectable_value(&mut kind, 1, "duty class q1 (uniform)");
+            ui.selectable_value(&mut kind, 2, "duty class q2 (partial area)");
+        });
+        if kind != was {
+            *i = match kind {
+                0 => Intensity::Kpa(i.kpa().unwrap_or(1.0)),
+                1 => Intensity::DutyUniform(3),
+                _ => Intensity::DutyPartial(4),
+            };
+        }
+        match i {
+            Intensity::Kpa(q) => {
+                if ui.add(egui::DragValue::new(q).speed(0.05).suffix(" kPa")).changed() {
+                    f.merge = Some(format!("{}.kpa", f.key));
+                }
+            }
+            Intensity::DutyUniform(c) | Intensity::DutyPartial(c) => {
+                ui.add(egui::DragValue::new(c).range(1..=6).prefix("class "));
+            }
+        }
+    });
+    ui.end_row();
+    if let Some(q) = i.kpa() {
+        ui.label("");
+        ui.label(format!("= {q} kPa"));
+        ui.end_row();
+    }
+}
+
+impl InspectorPanel {
+    /// Draw the selected element's fields and results.
+    pub fn ui(&mut self, ui: &mut egui::Ui, doc: &SceneDoc, selection: &Selection, actions: &mut Vec<Action>) {
+        let scene = &doc.scene;
+        let Some(r) = selection.single().cloned() else {
+            if selection.items.is_empty() {
+                ui.label("Select an element in the view or in the list.");
+            } else {
+                ui.label(format!("{} elements selected.", selection.items.len()));
+                selection_buttons(ui, actions);
+            }
+            return;
+        };
+        if r.kind == ElementKind::Site {
+            ui.label("The site is edited in the “Site & combinations” tab.");
+            return;
+        }
+        let Some(original) = plateload::edit::get(scene, &r) else {
+            ui.label(format!("{r} is no longer in the scene."));
+            return;
+        };
+        ui.heading(r.to_string());
+        let mut e = original.clone();
+        let mut f = Fields { key: r.to_string(), merge: None, seal: false, drafts: &mut self.drafts };
+        let mut committed = false;
+        let post_ids: Vec<&str> = scene.posts.iter().map(|p| p.id.as_str()).collect();
+        let deck_ids: Vec<&str> = scene.decks.iter().map(|p| p.id.as_str()).collect();
+        let bearer_ids: Vec<&str> = scene.bearers.iter().map(|p| p.id.as_str()).collect();
+        let support_ids: Vec<&str> = scene.support_types.iter().map(|p| p.id.as_str()).collect();
+        egui::Grid::new(format!("fields-{r}")).num_columns(2).striped(true).show(ui, |ui| match &mut e {
+            Element::Post(p) => {
+                committed |= f.text(ui, "Id", &mut p.id);
+                f.num(ui, "x", &mut p.x, 0.01, " m");
+                f.num(ui, "y", &mut p.y, 0.01, " m");
+                f.num(ui, "Base level", &mut p.base_level, 0.01, " m");
+                f.num(ui, "Top level", &mut p.top_level, 0.01, " m");
+                let mut s = p.support.clone().unwrap_or_default();
+                pick_id(ui, "Support type", "post-support", &mut s, &support_ids);
+                p.support = (!s.is_empty()).then_some(s);
+                f.num(ui, "Self-weight", &mut p.self_weight_kn_per_m, 0.001, " kN/m");
+            }
+            Element::Bearer(b) => {
+                committed |= f.text(ui, "Id", &mut b.id);
+                ui.label("Role");
+                egui::ComboBox::from_id_salt("role").selected_text(format!("{:?}", b.role).to_lowercase()).show_ui(ui, |ui| {
+                    for role in [BeamRole::Bearer, BeamRole::Ledger, BeamRole::Transom] {
+                        ui.selectable_value(&mut b.role, role, format!("{role:?}").to_lowercase());
+                    }
+                });
+                ui.end_row();
+                f.num(ui, "Level", &mut b.level, 0.01, " m");
+                committed |= f.ids(ui, "Posts (in order)", &mut b.posts);
+                f.num(ui, "Overhang at start", &mut b.overhang_start_m, 0.01, " m");
+                f.num(ui, "Overhang at end", &mut b.overhang_end_m, 0.01, " m");
+                f.num(ui, "Self-weight", &mut b.self_weight_kn_per_m, 0.001, " kN/m");
+            }
+            Element::Deck(d) => {
+                committed |= f.text(ui, "Id", &mut d.id);
+                f.num(ui, "Level", &mut d.level, 0.01, " m");
+                f.num(ui, "Extent x from", &mut d.extent.x.0, 0.01, " m");
+                f.num(ui, "Extent x to", &mut d.extent.x.1, 0.01, " m");
+                f.num(ui, "Extent y from", &mut d.extent.y.0, 0.01, " m");
+                f.num(ui, "Extent y to", &mut d.extent.y.1, 0.01, " m");
+                committed |= f.ids(ui, "Bearers (across the span)", &mut d.bearers);
+                f.num(ui, "Self-weight", &mut d.self_weight_kpa, 0.01, " kPa");
+            }
+            Element::Brace(b) => {
+                committed |= f.text(ui, "Id", &mut b.id);
+                pick_id(ui, "From post", "brace-from", &mut b.from.post, &post_ids);
+                f.num(ui, "at level", &mut b.from.level, 0.01, " m");
+                pick_id(ui, "To post", "brace-to", &mut b.to.post, &post_ids);
+                f.num(ui, "at level", &mut b.to.level, 0.01, " m");
+            }
+            Element::SupportType(s) => {
+                committed |= f.text(ui, "Id", &mut s.id);
+                f.num(ui, "Base plate width", &mut s.base_plate.width_m, 0.005, " m");
+                f.num(ui, "Base plate length", &mut s.base_plate.length_m, 0.005, " m");
+                f.num(ui, "Safe working load", &mut s.swl_kn, 0.5, " kN");
+                ui.label("Sole plate");
+                let mut has = s.sole_plate.is_some();
+                ui.checkbox(&mut has, "under the base plate");
+                ui.end_row();
+                if has != s.sole_plate.is_some() {
+                    s.sole_plate = has.then_some(PlateSize { width_m: 0.225, length_m: 0.45 });
+                }
+                if let Some(sole) = &mut s.sole_plate {
+                    f.num(ui, "Sole plate width", &mut sole.width_m, 0.005, " m");
+                    f.num(ui, "Sole plate length", &mut sole.length_m, 0.005, " m");
+                }
+            }
+            Element::Load(l) => {
+                committed |= f.text(ui, "Id", &mut l.id);
+                ui.label("Case");
+                ui.horizontal(|ui| {
+                    for c in Case::ALL {
+                        ui.selectable_value(&mut l.case, c, c.name());
+                    }
+                });
+                ui.end_row();
+                ui.label("Kind");
+                ui.label(l.kind.label());
+                ui.end_row();
+                let key = f.key.clone();
+                match &mut l.kind {
+                    LoadKind::DeckArea { deck, intensity } => {
+                        pick_id(ui, "Deck", "load-deck", deck, &deck_ids);
+                        intensity_ui(ui, &mut f, intensity);
+                    }
+                    LoadKind::DeckPatch { deck, area, intensity } => {
+                        pick_id(ui, "Deck", "load-deck", deck, &deck_ids);
+                        rect_ui(ui, &mut f, area);
+                        intensity_ui(ui, &mut f, intensity);
+                    }
+                    LoadKind::DeckPoint { deck, x, y, kn } => {
+                        pick_id(ui, "Deck", "load-deck", deck, &deck_ids);
+                        f.num(ui, "x", x, 0.01, " m");
+                        f.num(ui, "y", y, 0.01, " m");
+                        f.num(ui, "Force", kn, 0.05, " kN");
+                    }
+                    LoadKind::BearerPoint { bearer, at_m, kn } => {
+                        pick_id(ui, "Bearer", "load-bearer", bearer, &bearer_ids);
+                        f.num(ui, "From first post", at_m, 0.01, " m");
+                        f.num(ui, "Force", kn, 0.05, " kN");
+                    }
+                    LoadKind::BearerLine { bearer, from_m, to_m, kn_per_m } => {
+                        pick_id(ui, "Bearer", "load-bearer", bearer, &bearer_ids);
+                        f.num(ui, "From", from_m, 0.01, " m");
+                        f.num(ui, "To", to_m, 0.01, " m");
+                        f.num(ui, "Intensity", kn_per_m, 0.05, " kN/m");
+                    }
+                    LoadKind::PostTop { post, kn } => {
+                        pick_id(ui, "Post", "load-post", post, &post_ids);
+                        f.num(ui, "Force", kn, 0.05, " kN");
+                    }
+                    LoadKind::Horizontal { x, y, level, kn, direction } => {
+                        f.num(ui, "x", x, 0.01, " m");
+                        f.num(ui, "y", y, 0.01, " m");
+                        f.num(ui, "Level", level, 0.01, " m");
+                        f.num(ui, "Force", kn, 0.05, " kN");
+                        direction_ui(ui, &format!("{key}-dir"), direction);
+                    }
+                    LoadKind::Wind { face, kpa, direction } => {
+                        face_ui(ui, &mut f, face);
+                        f.num(ui, "Net pressure", kpa, 0.01, " kPa");
+                        direction_ui(ui, &format!("{key}-dir"), direction);
+                    }
+                    LoadKind::Notional { percent, direction, basis } => {
+                        f.num(ui, "Percent of vertical load", percent, 0.1, " %");
+                        direction_ui(ui, &format!("{key}-dir"), direction);
+                        ui.label("Of the cases");
+                        ui.horizontal(|ui| {
+                            for c in [Case::G, Case::Q] {
+                                let mut on = basis.contains(&c);
+                                if ui.checkbox(&mut on, c.name()).changed() {
+                                    if on {
+                                        basis.push(c);
+                                        basis.sort();
+                                    } else {
+                                        basis.retain(|b| *b != c);
+                                    }
+                                }
+                            }
+                        });
+                        ui.end_row();
+                    }
+                }
+            }
+        });
+        let merge = f.merge.clone();
+        let seal = f.seal;
+        if e != original {
+            // Typed ids and lists are whole steps; number fields merge while dragged or typed.
+            let merge = if committed { None } else { merge.or_else(|| Some(format!("{r}.choice"))) };
+            let select = (e.id() != original.id()).then(|| vec![e.to_ref()]);
+            actions.push(Action::Edit { edit: Edit::Replace { id: original.id().to_owned(), with: e }, merge, select });
+        }
+        if seal {
+            actions.push(Action::Seal);
+        }
+        ui.separator();
+        selection_buttons(ui, actions);
+        if r.kind == ElementKind::Post {
+            plate_results(ui, doc, &r.id);
+        }
+        let deps = dependants(scene, &r);
+        if !deps.is_empty() {
+            ui.separator();
+            ui.label(format!("Depend on it ({}):", deps.len()));
+            ui.horizontal_wrapped(|ui| {
+                for d in deps.iter().take(40) {
+                    if ui.link(d.to_string()).clicked() {
+                        actions.push(Action::Select(vec![d.clone()]));
+                    }
+                }
+            });
+        }
+        refs_of(ui, scene, &original, actions);
+    }
+}
+
+fn selection_buttons(ui: &mut egui::Ui, actions: &mut Vec<Action>) {
+    ui.horizontal(|ui| {
+        if ui.button("Delete").clicked() {
+            actions.push(Action::DeleteSelected(DeleteMode::Refuse));
+        }
+        if ui.button("Frame").on_hover_text("Shift+F").clicked() {
+            actions.push(Action::View(ViewRequest::FitSelection));
+        }
+    });
+}
+
+/// Links to the elements this one rests on.
+fn refs_of(ui: &mut egui::Ui, _scene: &Scene, e: &Element, actions: &mut Vec<Action>) {
+    let refs = plateload::edit::references(e);
+    if refs.is_empty() {
+        return;
+    }
+    ui.label("Rests on / refers to:");
+    ui.horizontal_wrapped(|ui| {
+        for d in refs.iter().take(40) {
+            if ui.link(d.to_string()).clicked() {
+                actions.push(Action::Select(vec![d.clone()]));
+            }
+        }
+    });
+}
+
+fn rect_ui(ui: &mut egui::Ui, f: &mut Fields, r: &mut Rect) {
+    f.num(ui, "x from", &mut r.x.0, 0.01, " m");
+    f.num(ui, "x to", &mut r.x.1, 0.01, " m");
+    f.num(ui, "y from", &mut r.y.0, 0.01, " m");
+    f.num(ui, "y to", &mut r.y.1, 0.01, " m");
+}
+
+fn face_ui(ui: &mut egui::Ui, f: &mut Fields, face: &mut Face) {
+    f.num(ui, "Face from x", &mut face.from.0, 0.01, " m");
+    f.num(ui, "Face from y", &mut face.from.1, 0.01, " m");
+    f.num(ui, "Face to x", &mut face.to.0, 0.01, " m");
+    f.num(ui, "Face to y", &mut face.to.1, 0.01, " m");
+    f.num(ui, "Face bottom", &mut face.bottom, 0.01, " m");
+    f.num(ui, "Face top", &mut face.top, 0.01, " m");
+}
+
+/// The base plate's results: loads per case, every combination, utilisation and bearing.
+pub fn plate_results(ui: &mut egui::Ui, doc: &SceneDoc, id: &str) {
+    ui.separator();
+    let Some(a) = doc.analysis() else {
+        ui.label("No results: the scene has problems (see the results panel).");
+        return;
+    };
+    let Some(p) = a.plates.iter().find(|p| p.id == id) else { return };
+    let g = p.governing();
+    let band = Band::of(g.utilisation);
+    ui.horizontal(|ui| {
+        let (rect, _) = ui.allocate_exact_size(egui::vec2(18.0, 18.0), egui::Sense::hover());
+        ui.painter().rect_filled(rect, 2.0, rgb(band.colour()));
+        ui.heading(format!("Base plate {}: {:.1} % — {}", p.id, 100.0 * g.utilisation, p.status));
+    });
+    let by = if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" };
+    ui.label(format!("Governed by {by} in “{}”.", a.combinations[p.governing].name));
+    egui::Grid::new("plate-cases").num_columns(4).striped(true).show(ui, |ui| {
+        ui.label("");
+        for c in Case::ALL {
+            ui.strong(format!("{c} kN"));
+        }
+        ui.end_row();
+        ui.label("vertical (up +)");
+        for c in Case::ALL {
+            ui.label(format!("{:.3}", p.case_kn[c.index()]));
+        }
+        ui.end_row();
+    });
+    egui::Grid::new("plate-combs").num_columns(6).striped(true).show(ui, |ui| {
+        for h in ["combination", "max kN", "min kN", "util %", "kPa", "status"] {
+            ui.strong(h);
+        }
+        ui.end_row();
+        for (c, pc) in a.combinations.iter().zip(&p.combinations) {
+            ui.label(if c.checks_capacity { c.name.clone() } else { format!("{} (no capacity check)", c.name) });
+            ui.label(format!("{:.3}", pc.max_kn));
+            ui.label(format!("{:.3}", pc.min_kn));
+            ui.label(format!("{:.1}", 100.0 * pc.utilisation));
+            ui.label(format!("{:.1}", pc.bearing_kpa));
+            ui.label(pc.status.label());
+            ui.end_row();
+        }
+    });
+    ui.label(format!(
+        "Support {}: SWL {:.1} kN; bearing area {:.4} m² on {:.0} kPa allowable.",
+        p.support, p.swl_kn, p.bearing_area_m2, p.allowable_kpa
+    ));
+}

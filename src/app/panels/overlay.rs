@@ -1,0 +1,576 @@
+//! What is drawn over the 3D view: the legend with the numeric scale and the cues, labels on
+//! the worst plates (and the hovered and selected ones), a summary of the worst plate, and in
+//! pictures the title and the caution.
+
+use bevy_egui::egui::{self, Align2, Color32, FontId, Pos2, Rect, Stroke, StrokeKind, Vec2};
+use plateload::palette::Band;
+use plateload::{Analysis, AnalysisError, CAUTION};
+
+use super::rgb;
+use crate::app::doc::{SceneDoc, Selection};
+use crate::app::view::draw::{reading, CASE_COLOURS};
+use plateload::pick::{CUE_BAND_M, CUE_GAP_M};
+use crate::app::view::ViewState;
+
+/// Most plates labelled without being hovered or selected.
+pub const MAX_LABELS: usize = 12;
+
+/// Width of the side column of a picture (summary and legend), pixels.
+const PICTURE_SIDE_W: f32 = 350.0;
+/// Height of a picture's title strip, pixels.
+const PICTURE_TITLE_H: f32 = 44.0;
+/// Font size of the caution in pictures.
+const CAUTION_SIZE: f32 = 15.0;
+
+/// The part of a picture the 3D view takes: the window less the title strip, the caution and
+/// (when the picture is wide enough) the side column with the summary and the legend.
+pub fn picture_view_rect(ctx: &egui::Context, full: Rect) -> Rect {
+    let caution_h = ctx.fonts_mut(|f| f.layout(CAUTION.to_string(), FontId::proportional(CAUTION_SIZE), Color32::BLACK, full.width() - 32.0).size().y) + 12.0;
+    let side = if full.width() >= 900.0 { PICTURE_SIDE_W } else { 0.0 };
+    Rect::from_min_max(Pos2::new(full.min.x, full.min.y + PICTURE_TITLE_H), Pos2::new(full.max.x - side, full.max.y - caution_h))
+}
+
+/// Draw the overlay: labels inside `rect` (the 3D view); summary and legend inside it in the
+/// editor, beside it in a picture; in a picture also the title and the caution.
+pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &ViewState, selection: &Selection, picture: bool, cache: &mut LabelCache) {
+    if rect.width() < 50.0 || rect.height() < 50.0 || !view.ready() {
+        return;
+    }
+    let painter = ctx.layer_painter(egui::LayerId::new(egui::Order::Middle, egui::Id::new("view-overlay")));
+    let in_view = painter.with_clip_rect(rect);
+    let comb_name = view.settings.combination.and_then(|c| doc.scene.combinations.get(c)).map_or("governing combination".to_string(), |c| format!("combination “{}”", c.name));
+    // Where the summary and the legend go: the side column of a picture, else the view.
+    let side = picture && rect.max.x < full.max.x - 100.0;
+    let column = if side { Rect::from_min_max(Pos2::new(rect.max.x + 10.0, rect.min.y), Pos2::new(full.max.x - 10.0, rect.max.y)) } else { rect.shrink(10.0) };
+    if picture {
+        // Backgrounds go under everything else egui draws (the legend is an area of its own).
+        let back = ctx.layer_painter(egui::LayerId::background());
+        back.rect_filled(Rect::from_min_max(full.min, Pos2::new(full.max.x, rect.min.y)), 0.0, Color32::WHITE);
+        if side {
+            back.rect_filled(Rect::from_min_max(Pos2::new(rect.max.x, rect.min.y), Pos2::new(full.max.x, rect.max.y)), 0.0, Color32::from_gray(246));
+        }
+        let title = format!("{} — base plate utilisation, {comb_name}", doc.scene.site.name);
+        painter.text(Pos2::new(full.min.x + 12.0, full.min.y + 10.0), Align2::LEFT_TOP, title, FontId::proportional(22.0), Color32::BLACK);
+    }
+    match &doc.result {
+        Ok(a) => {
+            // Summary and legend first: the labels keep clear of them.
+            let s = summary(&painter, column, a, view.settings.combination, &comb_name, side);
+            let legend_at = if side { Some(Pos2::new(column.min.x, s.max.y + 10.0)) } else { None };
+            let l = legend(ctx, column, legend_at, a, view.settings.combination, &comb_name);
+            let cog = a.stability.centre_of_gravity.and_then(|(x, y)| {
+                let z = doc.scene.posts.iter().map(|p| p.base_level).fold(f64::INFINITY, f64::min);
+                view.to_window([x, y, if z.is_finite() { z } else { 0.0 }]).map(|p| Pos2::new(p[0], p[1]))
+            });
+            let keep_clear = if side { Vec::new() } else { vec![s.expand(4.0), l.expand(4.0)] };
+            plate_labels(&in_view, rect, a, doc, view, selection, cog, &keep_clear, cache);
+            if let Some(h) = selection.hovered.as_ref().filter(|h| h.kind == plateload::model::ElementKind::Post) {
+                if let (Some(i), Some(pointer)) = (a.plate_index(&h.id), ctx.pointer_hover_pos().filter(|p| rect.contains(*p))) {
+                    hover_card(&painter, rect, pointer, a, i, view.settings.combination);
+                }
+            }
+        }
+        Err(e) => {
+            let n = match e {
+                AnalysisError::Invalid(v) => format!("{} problem(s) stop the solve", v.problems.len()),
+                other => other.to_string(),
+            };
+            let text = format!("No results: {n} — see the results panel.");
+            let at = if side { Pos2::new(column.min.x, column.min.y) } else { Pos2::new(column.max.x, column.min.y) };
+            let align = if side { Align2::LEFT_TOP } else { Align2::RIGHT_TOP };
+            painter.text(at, align, text, FontId::proportional(16.0), Color32::from_rgb(0xb0, 0x20, 0x20));
+        }
+    }
+    if picture {
+        caution_banner(&painter, full);
+    }
+}
+
+/// The hovered plate's numbers beside the pointer: kN per case, the combined load, the
+/// utilisation and the bearing pressure.
+fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, i: usize, comb: Option<usize>) {
+    let p = &a.plates[i];
+    let (u, st) = reading(p, comb);
+    let c = comb.unwrap_or(p.governing).min(p.combinations.len().saturating_sub(1));
+    let pc = &p.combinations[c];
+    let text = format!(
+        "base plate {} — {:.1} % {}\nG {:.2} kN · Q {:.2} kN · W {:.2} kN\n{}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\nbearing {:.1} kPa of {:.0} kPa allowed",
+        p.id,
+        100.0 * u,
+        st.label(),
+        p.case_kn[0],
+        p.case_kn[1],
+        p.case_kn[2],
+        a.combinations[c].name,
+        pc.max_kn,
+        pc.min_kn,
+        p.swl_kn,
+        pc.bearing_kpa,
+        p.allowable_kpa
+    );
+    let g = painter.layout_no_wrap(text, FontId::proportional(13.0), Color32::BLACK);
+    let size = g.size() + Vec2::new(20.0, 10.0);
+    let mut at = pointer + Vec2::new(18.0, 18.0);
+    if at.x + size.x > rect.max.x {
+        at.x = pointer.x - 18.0 - size.x;
+    }
+    if at.y + size.y > rect.max.y {
+        at.y = pointer.y - 18.0 - size.y;
+    }
+    let bx = Rect::from_min_size(at, size);
+    painter.rect_filled(bx, 4.0, Color32::from_rgba_unmultiplied(255, 255, 255, 245));
+    painter.rect_filled(Rect::from_min_size(bx.min, Vec2::new(7.0, size.y)), 2.0, rgb(Band::of(u).colour()));
+    painter.rect_stroke(bx, 4.0, Stroke::new(1.0, Color32::from_gray(60)), StrokeKind::Inside);
+    painter.galley(bx.min + Vec2::new(14.0, 5.0), g, Color32::BLACK);
+}
+
+/// The caution across the bottom of a picture.
+fn caution_banner(painter: &egui::Painter, rect: Rect) {
+    let galley = painter.layout(CAUTION.to_string(), FontId::proportional(CAUTION_SIZE), Color32::BLACK, rect.width() - 32.0);
+    let h = galley.size().y + 12.0;
+    let band = Rect::from_min_max(Pos2::new(rect.min.x, rect.max.y - h), rect.max);
+    painter.rect_filled(band, 0.0, Color32::from_rgb(0xff, 0xe0, 0x82));
+    painter.galley(Pos2::new(rect.min.x + 16.0, band.min.y + 6.0), galley, Color32::BLACK);
+}
+
+/// Worst plate and counts: at the top of `column` (left-aligned beside the view, else
+/// right-aligned inside it). Returns where it was drawn.
+fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usize>, comb_name: &str, side: bool) -> Rect {
+    let Some(&w) = worst_first(a, comb).first() else { return Rect::from_min_size(column.min, Vec2::ZERO) };
+    let p = &a.plates[w];
+    let (u, status) = reading(p, comb);
+    let c = comb.unwrap_or(p.governing);
+    let pc = &p.combinations[c.min(p.combinations.len().saturating_sub(1))];
+    let by = if pc.bearing_utilisation >= pc.load_utilisation {
+        format!("ground bearing {:.0} kPa of {:.0} kPa allowed", pc.bearing_kpa, p.allowable_kpa)
+    } else {
+        format!("{:.1} kN on a {:.1} kN jack", pc.max_kn, p.swl_kn)
+    };
+    let over = a.plates.iter().filter(|p| reading(p, comb).1.over).count();
+    let lift = a.plates.iter().filter(|p| reading(p, comb).1.uplift).count();
+    let lines = [
+        (format!("Worst base plate: {} at {:.1} %", p.id, 100.0 * u), 20.0, true),
+        (format!("{by} ({})", a.combinations[c].name), 14.0, false),
+        (format!("{over} over capacity · {lift} lifting · {} base plates", a.plates.len()), 14.0, false),
+        (format!("colours: {comb_name}"), 12.0, false),
+    ];
+    // Wrapped to the column beside a picture; one line each inside the editor's view.
+    let wrap = if side { column.width() - 24.0 } else { f32::INFINITY };
+    let galleys: Vec<_> = lines.iter().map(|(t, s, _)| painter.layout(t.clone(), FontId::proportional(*s), Color32::BLACK, wrap)).collect();
+    let w_box = galleys.iter().map(|g| g.size().x).fold(0.0, f32::max) + 24.0;
+    let h_box = galleys.iter().map(|g| g.size().y + 2.0).sum::<f32>() + 14.0;
+    let w_box = if side { column.width() } else { w_box };
+    let x = if side { column.min.x } else { column.max.x - w_box };
+    let bx = Rect::from_min_size(Pos2::new(x, column.min.y), Vec2::new(w_box, h_box));
+    painter.rect_filled(bx, 4.0, Color32::from_rgba_unmultiplied(255, 255, 255, 235));
+    let stripe = Rect::from_min_size(bx.min, Vec2::new(8.0, h_box));
+    painter.rect_filled(stripe, 2.0, rgb(Band::of(u).colour()));
+    if !status.is_ok() {
+        painter.rect_stroke(bx, 4.0, Stroke::new(3.0, Color32::BLACK), StrokeKind::Inside);
+    }
+    let mut y = bx.min.y + 7.0;
+    for g in galleys {
+        let h = g.size().y;
+        painter.galley(Pos2::new(bx.min.x + 16.0, y), g, Color32::BLACK);
+        y += h + 2.0;
+    }
+    bx
+}
+
+/// Legend: numeric scale, plate counts per band, cues, load cases.
+/// `at`: top-left corner (beside the view); `None`: bottom-left corner of `column`.
+/// Returns where it was drawn.
+fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, comb: Option<usize>, comb_name: &str) -> Rect {
+    let mut counts = [0usize; 5];
+    for p in &a.plates {
+        counts[Band::of(reading(p, comb).0) as usize] += 1;
+    }
+    let beside = at.is_some();
+    let (pivot, pos) = match at {
+        Some(p) => (Align2::LEFT_TOP, p),
+        None => (Align2::LEFT_BOTTOM, Pos2::new(column.min.x, column.max.y)),
+    };
+    let shown = egui::Area::new(egui::Id::new("legend"))
+        .order(egui::Order::Middle)
+        .pivot(pivot)
+        .fixed_pos(pos)
+        .constrain_to(column)
+        .show(ctx, |ui| {
+            egui::Frame::new().fill(Color32::from_rgba_unmultiplied(255, 255, 255, 235)).corner_radius(4.0).inner_margin(10.0).show(ui, |ui| {
+                ui.visuals_mut().override_text_color = Some(Color32::BLACK);
+                ui.set_max_width((column.width() - 24.0).min(360.0));
+                ui.label(egui::RichText::new("Base plate utilisation").strong().size(15.0).color(Color32::BLACK));
+                ui.label(egui::RichText::new(format!("larger of load ÷ SWL and pressure ÷ allowable; {comb_name}")).size(11.0));
+                if !beside {
+                    // In the editor the legend folds away so it does not hide the scene.
+                    let id = ui.make_persistent_id("legend-open");
+                    let mut open = ui.data_mut(|d| *d.get_persisted_mut_or(id, true));
+                    if ui.small_button(if open { "hide legend" } else { "show legend" }).clicked() {
+                        open = !open;
+                        ui.data_mut(|d| d.insert_persisted(id, open));
+                    }
+                    if !open {
+                        return;
+                    }
+                }
+                for b in Band::ALL.iter().rev() {
+                    ui.horizontal(|ui| {
+                        let (r, _) = ui.allocate_exact_size(Vec2::new(26.0, 16.0), egui::Sense::hover());
+                        ui.painter().rect_filled(r, 2.0, rgb(b.colour()));
+                        ui.painter().rect_stroke(r, 2.0, Stroke::new(1.0, Color32::from_gray(90)), StrokeKind::Inside);
+                        let n = counts[*b as usize];
+                        ui.label(egui::RichText::new(format!("{:<10} {n} plate{}", b.label(), if n == 1 { "" } else { "s" })).monospace().size(13.0));
+                    });
+                }
+                ui.add_space(4.0);
+                ui.horizontal(|ui| {
+                    let (r, _) = ui.allocate_exact_size(Vec2::new(26.0, 18.0), egui::Sense::hover());
+                    cue_square(ui.painter(), r.center(), 8.0);
+                    ui.label("square frame: over capacity");
+                });
+                ui.horizontal(|ui| {
+                    let (r, _) = ui.allocate_exact_size(Vec2::new(26.0, 18.0), egui::Sense::hover());
+                    cue_ring(ui.painter(), r.center(), 8.0);
+                    ui.label("round ring and raised cone: plate lifts");
+                });
+                ui.horizontal(|ui| {
+                    let (r, _) = ui.allocate_exact_size(Vec2::new(26.0, 18.0), egui::Sense::hover());
+                    cog_symbol(ui.painter(), r.center(), 7.0);
+                    ui.label("centre of gravity of permanent load");
+                });
+                ui.horizontal_wrapped(|ui| {
+                    ui.label("load arrows:");
+                    for (c, col) in ["G permanent", "Q imposed", "W horizontal"].iter().zip(CASE_COLOURS) {
+                        let (r, _) = ui.allocate_exact_size(Vec2::new(12.0, 12.0), egui::Sense::hover());
+                        ui.painter().rect_filled(r, 1.0, rgb(col));
+                        ui.label(*c);
+                    }
+                });
+            });
+        });
+    shown.response.rect
+}
+
+fn cue_square(p: &egui::Painter, c: Pos2, h: f32) {
+    let r = Rect::from_center_size(c, Vec2::splat(2.0 * h));
+    p.rect_stroke(r, 0.0, Stroke::new(5.0, Color32::BLACK), StrokeKind::Middle);
+    p.rect_stroke(r, 0.0, Stroke::new(2.5, Color32::WHITE), StrokeKind::Middle);
+}
+
+fn cue_ring(p: &egui::Painter, c: Pos2, r: f32) {
+    p.circle_stroke(c, r, Stroke::new(5.0, Color32::BLACK));
+    p.circle_stroke(c, r, Stroke::new(2.5, Color32::WHITE));
+}
+
+fn cog_symbol(p: &egui::Painter, c: Pos2, r: f32) {
+    p.circle_filled(c, r, Color32::WHITE);
+    for q in [0.0f32, 2.0] {
+        let a0 = q * std::f32::consts::FRAC_PI_2;
+        let pts: Vec<Pos2> = std::iter::once(c).chain((0..=8).map(|i| {
+            let t = a0 + i as f32 / 8.0 * std::f32::consts::FRAC_PI_2;
+            c + Vec2::new(t.cos(), -t.sin()) * r
+        })).collect();
+        p.add(egui::Shape::convex_polygon(pts, Color32::BLACK, Stroke::NONE));
+    }
+    p.circle_stroke(c, r, Stroke::new(1.0, Color32::BLACK));
+}
+
+/// A label to place: the plate's screen footprint and its text.
+#[derive(Debug, Clone, PartialEq)]
+pub struct LabelRequest {
+    /// Plate footprint on screen (with its cue), pixels.
+    pub anchor: Rect,
+    /// Label size, pixels.
+    pub size: Vec2,
+}
+
+/// Place labels near their anchors without covering any plate, another label or a box to keep
+/// clear: the first of eight positions around the anchor (then further out) that is free and
+/// inside `bounds`, preferring one whose leader crosses no other plate. `None` (no label) when
+/// there is no such place, as in a dense grid seen from afar: a label never hides a plate.
+pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], keep_clear: &[Rect], bounds: Rect) -> Vec<Option<Rect>> {
+    let mut placed: Vec<Option<Rect>> = Vec::with_capacity(requests.len());
+    for req in requests {
+        let a = req.anchor;
+        let (w, h) = (req.size.x, req.size.y);
+        let c = a.center();
+        let rects: Vec<Rect> = [10.0f32, 40.0, 90.0]
+            .iter()
+            .flat_map(|&gap| {
+                [
+                    Pos2::new(a.max.x + gap, a.min.y - gap - h),
+                    Pos2::new(a.min.x - gap - w, a.min.y - gap - h),
+                    Pos2::new(a.max.x + gap, a.max.y + gap),
+                    Pos2::new(a.min.x - gap - w, a.max.y + gap),
+                    Pos2::new(c.x - w / 2.0, a.min.y - gap - h),
+                    Pos2::new(c.x - w / 2.0, a.max.y + gap),
+                    Pos2::new(a.max.x + gap, c.y - h / 2.0),
+                    Pos2::new(a.min.x - gap - w, c.y - h / 2.0),
+                ]
+            })
+            .map(|p| Rect::from_min_size(p, req.size))
+            .collect();
+        // Only plates near the anchor can be in the way of a label or its leader.
+        let reach = Rect::from_min_max(a.min - req.size - Vec2::splat(100.0), a.max + req.size + Vec2::splat(100.0));
+        let plates: Vec<&Rect> = plates.iter().filter(|p| p.intersects(reach)).collect();
+        let allowed = |r: &Rect| {
+            bounds.contains_rect(*r)
+                && !keep_clear.iter().any(|k| k.intersects(*r))
+                && !placed.iter().flatten().any(|o| o.expand(2.0).intersects(*r))
+                && !plates.iter().any(|p| p.intersects(*r))
+        };
+        let clean_leader = |r: &Rect| !plates.iter().filter(|p| !p.intersects(a)).any(|p| segment_hits_rect(leader_start(a, r.center()), r.center(), **p));
+        placed.push(rects.iter().find(|r| allowed(r) && clean_leader(r)).or_else(|| rects.iter().find(|r| allowed(r))).copied());
+    }
+    placed
+}
+
+/// Plate indices from the highest utilisation down (ties in scene order).
+pub fn worst_first(a: &Analysis, comb: Option<usize>) -> Vec<usize> {
+    let mut order: Vec<usize> = (0..a.plates.len()).collect();
+    order.sort_by(|&i, &j| reading(&a.plates[j], comb).0.partial_cmp(&reading(&a.plates[i], comb).0).unwrap_or(std::cmp::Ordering::Equal));
+    order
+}
+
+/// Where a leader leaves a plate's footprint towards a label centre.
+pub fn leader_start(anchor: Rect, to: Pos2) -> Pos2 {
+    Pos2::new(to.x.clamp(anchor.min.x, anchor.max.x), to.y.clamp(anchor.min.y, anchor.max.y))
+}
+
+/// Whether the segment a–b passes through the rectangle (slab test).
+pub fn segment_hits_rect(a: Pos2, b: Pos2, r: Rect) -> bool {
+    let (mut t0, mut t1) = (0.0f32, 1.0f32);
+    for (o, d, lo, hi) in [(a.x, b.x - a.x, r.min.x, r.max.x), (a.y, b.y - a.y, r.min.y, r.max.y)] {
+        if d.abs() < 1e-6 {
+            if o < lo || o > hi {
+                return false;
+            }
+        } else {
+            let (u, v) = ((lo - o) / d, (hi - o) / d);
+            t0 = t0.max(u.min(v));
+            t1 = t1.min(u.max(v));
+            if t0 > t1 {
+                return false;
+            }
+        }
+    }
+    true
+}
+
+/// Label the worst plates, every plate that is over capacity or lifts (up to [`MAX_LABELS`]),
+/// and the hovered and selected ones. Returns the label rectangles.
+/// The centre of gravity's label, at `cog`, is placed the same way, last. Placing looks at
+/// every plate, so it is done again only when the view, the results or the selection change.
+#[allow(clippy::too_many_arguments)]
+fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDoc, view: &ViewState, selection: &Selection, cog: Option<Pos2>, keep_clear: &[Rect], cache: &mut LabelCache) {
+    let key = LabelKey {
+        revision: doc.revision,
+        solved: doc.solved_revision,
+        camera: view.camera,
+        viewport: view.viewport,
+        settings: (view.settings.combination, view.settings.labels),
+        selection: selection.items.clone(),
+        hovered: selection.hovered.clone(),
+        rect,
+        keep_clear: keep_clear.to_vec(),
+    };
+    if cache.key.as_ref() != Some(&key) {
+        cache.labels = place_plate_labels(painter, rect, a, doc, view, selection, cog, keep_clear);
+        cache.key = Some(key);
+    }
+    paint_labels(painter, &cache.labels);
+}
+
+/// What the label cache was made from.
+#[derive(Debug, Clone, PartialEq)]
+struct LabelKey {
+    revision: u64,
+    solved: u64,
+    camera: plateload::pick::ViewCamera,
+    viewport: [f32; 4],
+    settings: (Option<usize>, bool),
+    selection: Vec<plateload::edit::ElementRef>,
+    hovered: Option<plateload::edit::ElementRef>,
+    rect: Rect,
+    keep_clear: Vec<Rect>,
+}
+
+/// One placed label, ready to paint.
+#[derive(Debug, Clone)]
+struct PlacedLabel {
+    rect: Rect,
+    leader_from: Pos2,
+    /// Band colour and whether the plate fails; `None` for the centre of gravity.
+    band: Option<(Band, bool)>,
+    text: std::sync::Arc<egui::Galley>,
+}
+
+/// Labels placed for the last view, kept between frames.
+#[derive(Debug, Default)]
+pub struct LabelCache {
+    key: Option<LabelKey>,
+    labels: Vec<PlacedLabel>,
+}
+
+fn paint_labels(painter: &egui::Painter, labels: &[PlacedLabel]) {
+    for l in labels {
+        let lr = l.rect;
+        match l.band {
+            Some((band, failing)) => {
+                painter.line_segment([l.leader_from, lr.center()], Stroke::new(2.0, Color32::from_gray(20)));
+                painter.circle_filled(l.leader_from, 3.0, Color32::from_gray(20));
+                painter.rect_filled(lr, 3.0, Color32::from_rgba_unmultiplied(255, 255, 255, 240));
+                painter.rect_filled(Rect::from_min_size(lr.min, Vec2::new(7.0, lr.height())), 2.0, rgb(band.colour()));
+                let stroke = if failing { Stroke::new(2.5, Color32::BLACK) } else { Stroke::new(1.0, Color32::from_gray(60)) };
+                painter.rect_stroke(lr, 3.0, stroke, StrokeKind::Inside);
+                painter.galley(Pos2::new(lr.min.x + 12.0, lr.min.y + 3.0), l.text.clone(), Color32::BLACK);
+            }
+            None => {
+                painter.line_segment([l.leader_from, lr.center()], Stroke::new(1.0, Color32::from_gray(40)));
+                painter.rect_filled(lr, 2.0, Color32::from_rgba_unmultiplied(255, 255, 255, 200));
+                painter.galley(lr.min + Vec2::new(4.0, 2.0), l.text.clone(), Color32::BLACK);
+            }
+        }
+    }
+}
+
+#[allow(clippy::too_many_arguments)]
+fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDoc, view: &ViewState, selection: &Selection, cog: Option<Pos2>, keep_clear: &[Rect]) -> Vec<PlacedLabel> {
+    let comb = view.settings.combination;
+    let labels_on = view.settings.labels;
+    let supports: std::collections::HashMap<&str, &plateload::SupportType> = doc.scene.support_types.iter().map(|s| (s.id.as_str(), s)).collect();
+    // Screen footprint of every plate, its cue included (the ring of a lifting plate reaches
+    // its corners' circle).
+    let footprint = |i: usize, with_cue: bool| -> Option<Rect> {
+        let p = &a.plates[i];
+        let post = doc.scene.posts.get(i)?;
+        let s = post.support.as_deref().and_then(|s| supports.get(s))?;
+        let b = s.bearing_plate();
+        let st = reading(p, comb).1;
+        let pad = if with_cue && !st.is_ok() { CUE_GAP_M + CUE_BAND_M } else { 0.0 };
+        let (mut hx, mut hy) = (b.width_m.max(s.base_plate.width_m) / 2.0, b.length_m.max(s.base_plate.length_m) / 2.0);
+        if with_cue && st.uplift {
+            let r = hx.hypot(hy);
+            (hx, hy) = (r, r);
+        }
+        let (hx, hy) = (hx + pad, hy + pad);
+        let mut out: Option<Rect> = None;
+        for (dx, dy) in [(-hx, -hy), (hx, -hy), (hx, hy), (-hx, hy)] {
+            let q = view.to_window([p.x + dx, p.y + dy, p.base_level])?;
+            let pt = Pos2::new(q[0], q[1]);
+            out = Some(out.map_or(Rect::from_min_max(pt, pt), |o| o.union(Rect::from_min_max(pt, pt))));
+        }
+        out.map(|o| o.expand(2.0))
+    };
+    let plates: Vec<Option<Rect>> = (0..a.plates.len()).map(|i| footprint(i, true)).collect();
+    let order = worst_first(a, comb);
+    let mut chosen: Vec<usize> = Vec::new();
+    let add = |i: usize, chosen: &mut Vec<usize>| {
+        if !chosen.contains(&i) {
+            chosen.push(i);
+        }
+    };
+    for &i in &order {
+        let (u, st) = reading(&a.plates[i], comb);
+        // The three worst, then every plate that fails or is near capacity, up to the limit.
+        let notable = !st.is_ok() || u >= Band::Near.range().0;
+        if labels_on && (chosen.len() < 3 || notable) && chosen.len() < MAX_LABELS {
+            add(i, &mut chosen);
+        }
+    }
+    for r in selection.items.iter().chain(selection.hovered.iter()) {
+        if let Some(i) = a.plate_index(&r.id).filter(|_| r.kind == plateload::model::ElementKind::Post) {
+            add(i, &mut chosen);
+        }
+    }
+    let font = FontId::proportional(14.0);
+    let texts: Vec<String> = chosen
+        .iter()
+        .map(|&i| {
+            let p = &a.plates[i];
+            let (u, st) = reading(p, comb);
+            let c = comb.unwrap_or(p.governing);
+            let pc = &p.combinations[c.min(p.combinations.len().saturating_sub(1))];
+            let mut t = format!("{}  {:.1} %", p.id, 100.0 * u);
+            if st.over {
+                t.push_str("  OVER");
+            }
+            if st.uplift {
+                // The least load where uplift is looked for: in the chosen combination, else
+                // over the combinations that check for it.
+                let least = match comb {
+                    Some(_) => pc.min_kn,
+                    None => p.combinations.iter().zip(&a.combinations).filter(|(_, c)| c.checks_uplift).map(|(pc, _)| pc.min_kn).fold(f64::INFINITY, f64::min),
+                };
+                t.push_str(&format!("  lifts {least:.2} kN"));
+            }
+            t
+        })
+        .collect();
+    let galleys: Vec<_> = texts.iter().map(|t| painter.layout_no_wrap(t.clone(), font.clone(), Color32::BLACK)).collect();
+    let mut requests: Vec<LabelRequest> = chosen
+        .iter()
+        .zip(&galleys)
+        .filter_map(|(&i, g)| plates[i].map(|anchor| LabelRequest { anchor, size: g.size() + Vec2::new(18.0, 6.0) }))
+        .collect();
+    let cog_galley = painter.layout_no_wrap("centre of gravity (G)".into(), FontId::proportional(13.0), Color32::BLACK);
+    if let Some(c) = cog {
+        requests.push(LabelRequest { anchor: Rect::from_center_size(c, Vec2::splat(16.0)), size: cog_galley.size() + Vec2::new(8.0, 4.0) });
+    }
+    let all_plates: Vec<Rect> = plates.iter().flatten().copied().collect();
+    let bounds = rect.shrink(4.0);
+    let placed = place_labels(&requests, &all_plates, keep_clear, bounds);
+    let mut out = Vec::new();
+    let mut k = 0;
+    for (n, &i) in chosen.iter().enumerate() {
+        let Some(anchor) = footprint(i, false) else { continue };
+        let slot = placed[k];
+        k += 1;
+        let Some(lr) = slot else { continue };
+        let (u, st) = reading(&a.plates[i], comb);
+        out.push(PlacedLabel { rect: lr, leader_from: leader_start(anchor, lr.center()), band: Some((Band::of(u), !st.is_ok())), text: galleys[n].clone() });
+    }
+    if let (Some(c), Some(Some(lr))) = (cog, placed.get(k)) {
+        let anchor = Rect::from_center_size(c, Vec2::splat(16.0));
+        out.push(PlacedLabel { rect: *lr, leader_from: leader_start(anchor, lr.center()), band: None, text: cog_galley });
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn crowded_labels_are_left_out_rather_than_piled_up() {
+        // common practice, no source
+        let plate = Rect::from_min_size(Pos2::new(50.0, 50.0), Vec2::splat(10.0));
+        let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::new(160.0, 110.0));
+        let req = LabelRequest { anchor: plate, size: Vec2::new(60.0, 30.0) };
+        let placed = place_labels(&vec![req; 12], &[plate], &[], bounds);
+        let shown: Vec<Rect> = placed.iter().flatten().copied().collect();
+        assert!(!shown.is_empty() && shown.len() < 12, "{}", shown.len());
+        for (i, r) in shown.iter().enumerate() {
+            for o in &shown[i + 1..] {
+                assert!(!o.intersects(*r));
+            }
+        }
+    }
+
+    #[test]
+    fn labels_avoid_plates_and_each_other() {
+        // common practice, no source: labels must not hide what they label
+        let plates = vec![Rect::from_min_size(Pos2::new(100.0, 100.0), Vec2::splat(20.0)), Rect::from_min_size(Pos2::new(140.0, 60.0), Vec2::splat(20.0))];
+        let req = |p: &Rect| LabelRequest { anchor: *p, size: Vec2::new(60.0, 18.0) };
+        let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::splat(400.0));
+        let placed = place_labels(&[req(&plates[0]), req(&plates[1]), req(&plates[0])], &plates, &[], bounds);
+        let placed: Vec<Rect> = placed.into_iter().map(|r| r.expect("room for every label")).collect();
+        for (i, r) in placed.iter().enumerate() {
+            assert!(bounds.contains_rect(*r));
+            assert!(!plates.iter().any(|p| p.intersects(*r)), "label {i} covers a plate: {r:?}");
+            for (j, o) in placed.iter().enumerate() {
+                assert!(i == j || !o.intersects(*r), "labels {i} and {j} overlap");
+            }
+        }
+    }
+}

@@ -1,0 +1,194 @@
+//! Pictures: open a window, frame the scene from a preset, wait until everything is drawn,
+//! save a screenshot as PNG (atomically), exit. The view is the editor's own, without panels.
+//!
+//! With `timing_edits`, the picture run first makes that many edits (a load put on and off),
+//! one per frame, and logs how long each took from the edit to its recoloured frame, and the
+//! frame times, so the figures come from the real renderer.
+
+use std::path::PathBuf;
+use std::time::{Duration, Instant};
+
+use bevy::prelude::*;
+use bevy::render::view::screenshot::{Screenshot, ScreenshotCaptured};
+use plateload::edit::{Edit, Element, ElementRef};
+use plateload::pick::ViewPreset;
+
+use super::doc::SceneDoc;
+use super::editor::EditTimings;
+use super::view::draw::Drawn;
+use super::view::ViewState;
+use super::{Action, Mode};
+
+/// What picture to make.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PictureSpec {
+    /// PNG file to write.
+    pub out: PathBuf,
+    /// Size (width, height), pixels.
+    pub size: [u32; 2],
+    /// Direction of view.
+    pub view: ViewPreset,
+    /// Combination colouring the plates (`None`: governing).
+    pub combination: Option<usize>,
+    /// Frames to wait after the scene is drawn, so every pipeline is ready.
+    pub settle_frames: u32,
+    /// Edits to time before the picture (0: none).
+    pub timing_edits: u32,
+    /// Also write the camera and the viewport used, as JSON (for tests that look at pixels).
+    pub camera_out: Option<PathBuf>,
+    /// Show the editor's panels instead of the picture layout (to look at the editor).
+    pub editor_ui: bool,
+    /// Select this element first (its plate is labelled and outlined).
+    pub select: Option<plateload::edit::ElementRef>,
+}
+
+/// Takes the picture in picture mode.
+pub struct SnapshotPlugin;
+
+impl Plugin for SnapshotPlugin {
+    fn build(&self, app: &mut App) {
+        app.init_resource::<PictureState>().add_systems(Startup, preselect).add_systems(Last, run_picture);
+    }
+}
+
+/// Progress of the picture.
+#[derive(Resource, Default, Debug)]
+pub struct PictureState {
+    frames_ready: u32,
+    frames_total: u32,
+    edits_done: u32,
+    frame_times: Vec<Duration>,
+    last_frame: Option<Instant>,
+    requested: bool,
+    /// Outcome of writing the file, once known.
+    pub saved: Option<Result<PathBuf, String>>,
+}
+
+/// Longest a picture may take, in frames, before giving up.
+const MAX_FRAMES: u32 = 3_000;
+
+fn preselect(mode: Res<Mode>, mut selection: ResMut<super::doc::Selection>) {
+    if let Mode::Picture(PictureSpec { select: Some(r), .. }) = &*mode {
+        selection.items = vec![r.clone()];
+    }
+}
+
+#[allow(clippy::too_many_arguments)]
+fn run_picture(
+    mut commands: Commands,
+    mode: Res<Mode>,
+    doc: Res<SceneDoc>,
+    drawn: Res<Drawn>,
+    view: Res<ViewState>,
+    mut timings: ResMut<EditTimings>,
+    mut state: ResMut<PictureState>,
+    mut actions: MessageWriter<Action>,
+    mut exit: MessageWriter<AppExit>,
+) {
+    let Mode::Picture(spec) = &*mode else { return };
+    state.frames_total += 1;
+    if let Some(result) = state.saved.take() {
+        match result {
+            Ok(p) => {
+                info!("picture saved to {}", p.display());
+                exit.write(AppExit::Success);
+            }
+            Err(e) => {
+                error!("{e}");
+                exit.write(AppExit::error());
+            }
+        }
+        return;
+    }
+    if state.frames_total > MAX_FRAMES {
+        error!("the picture was not ready after {MAX_FRAMES} frames");
+        exit.write(AppExit::error());
+        return;
+    }
+    let ready = doc.solved_revision == doc.revision && drawn.revision == doc.revision && view.ready() && view.pending_fit.is_none();
+    if !ready || state.requested {
+        return;
+    }
+    // Timed edits: a point load put on the middle post and taken off again, one edit per
+    // frame; the scene stays valid, so each edit is solved and every plate recoloured.
+    if state.edits_done < spec.timing_edits {
+        timings.log = true;
+        let now = Instant::now();
+        if let Some(t) = state.last_frame.replace(now) {
+            state.frame_times.push(now - t);
+        }
+        let Some(post) = doc.scene.posts.get(doc.scene.posts.len() / 2) else {
+            state.edits_done = spec.timing_edits;
+            return;
+        };
+        let id = "timing-load";
+        let edit = if state.edits_done % 2 == 0 {
+            Edit::Add(Element::Load(plateload::Load { id: id.into(), case: plateload::Case::Q, kind: plateload::LoadKind::PostTop { post: post.id.clone(), kn: 5.0 } }))
+        } else {
+            Edit::Delete { targets: vec![ElementRef::new(plateload::model::ElementKind::Load, id)], mode: Default::default() }
+        };
+        actions.write(Action::Edit { edit, merge: None, select: None });
+        state.edits_done += 1;
+        if state.edits_done == spec.timing_edits {
+            report_timings(&timings, &state.frame_times, doc.scene.posts.len());
+        }
+        return;
+    }
+    state.frames_ready += 1;
+    if state.frames_ready < spec.settle_frames {
+        return;
+    }
+    state.requested = true;
+    if let Some(path) = &spec.camera_out {
+        let c = &view.camera;
+        let json = serde_json::json!({
+            "viewport": view.viewport,
+            "target": c.target,
+            "yaw_deg": c.yaw_deg,
+            "pitch_deg": c.pitch_deg,
+            "distance": c.distance,
+            "fov_y_deg": c.fov_y_deg,
+            "orthographic": c.orthographic,
+        });
+        if let Err(e) = plateload::io::write_atomic(path, json.to_string().as_bytes()) {
+            error!("could not write {}: {e}", path.display());
+            exit.write(AppExit::error());
+            return;
+        }
+    }
+    let out = spec.out.clone();
+    commands.spawn(Screenshot::primary_window()).observe(move |captured: On<ScreenshotCaptured>, mut state: ResMut<PictureState>| {
+        state.saved = Some(write_png(&out, captured.image.clone()));
+    });
+}
+
+fn report_timings(timings: &EditTimings, frames: &[Duration], posts: usize) {
+    let stats = |v: &[Duration]| -> String {
+        if v.is_empty() {
+            return "no samples".into();
+        }
+        let mut ms: Vec<f64> = v.iter().map(|d| d.as_secs_f64() * 1e3).collect();
+        ms.sort_by(|a, b| a.partial_cmp(b).unwrap_or(std::cmp::Ordering::Equal));
+        let q = |f: f64| ms[((ms.len() - 1) as f64 * f).round() as usize];
+        format!("n {}, median {:.2} ms, p95 {:.2} ms, max {:.2} ms", ms.len(), q(0.5), q(0.95), ms[ms.len() - 1])
+    };
+    info!("timing on {posts} posts: edit → recoloured, editor systems (edit, solve, redraw, recolour): {}", stats(&timings.own));
+    info!("timing on {posts} posts: edit → recoloured, whole ECS update of the frame (no GPU): {}", stats(&timings.recent));
+    info!("timing on {posts} posts: whole frames while editing (GPU included): {}", stats(frames));
+}
+
+/// Encode a screenshot as PNG and write it atomically.
+fn write_png(path: &std::path::Path, image: Image) -> Result<PathBuf, String> {
+    let rgb = image.try_into_dynamic().map_err(|e| format!("the screenshot could not be read: {e}"))?.to_rgb8();
+    let (w, h) = (rgb.width(), rgb.height());
+    let mut bytes = Vec::new();
+    {
+        let mut enc = png::Encoder::new(&mut bytes, w, h);
+        enc.set_color(png::ColorType::Rgb);
+        enc.set_depth(png::BitDepth::Eight);
+        let mut writer = enc.write_header().map_err(|e| format!("PNG: {e}"))?;
+        writer.write_image_data(rgb.as_raw()).map_err(|e| format!("PNG: {e}"))?;
+    }
+    plateload::io::write_atomic(path, &bytes).map_err(|e| format!("could not write {}: {e}", path.display()))?;
+    Ok(path.to_owned())
+}

@@ -1,0 +1,357 @@
+//! Headless tests of the editor: a bevy `App` with the editor's plugins and no renderer or
+//! window, driven by actions, clicks and keys, checked on the document and the entities.
+
+use std::path::PathBuf;
+
+use bevy::input::keyboard::KeyCode;
+use bevy::prelude::*;
+use plateload::edit::{DeleteMode, Edit, Element, ElementRef};
+use plateload::layout::LayoutSpec;
+use plateload::loads::{Case, Load, LoadKind};
+use plateload::model::ElementKind;
+use plateload::palette::Band;
+use plateload::pick::{Hit, Part};
+use plateload::recovery::RecoveryStore;
+use plateload::Scene;
+
+use super::doc::{SceneDoc, Selection, Status};
+use super::editor::{EditorPlugin, Prompt, Prompts, RecoveryState, Tool, ToolState, ViewClick};
+use super::view::draw::{DrawKey, DrawPlugin, Drawn, ViewAssets};
+use super::view::ViewState;
+use super::{Action, Mode, Then};
+
+/// An editor app without window or renderer, on a scene, after its first frame.
+fn app_with(scene: Scene, recovery: Option<RecoveryStore>) -> App {
+    let mut app = App::new();
+    app.add_plugins((MinimalPlugins, bevy::asset::AssetPlugin::default(), bevy::transform::TransformPlugin));
+    app.init_asset::<Mesh>().init_asset::<StandardMaterial>();
+    app.init_resource::<ButtonInput<KeyCode>>();
+    app.insert_resource(Mode::Editor).insert_resource(SceneDoc::new(scene, None)).init_resource::<ViewState>();
+    app.insert_resource(RecoveryState { store: recovery, interval: std::time::Duration::ZERO, ..default() });
+    app.add_plugins((EditorPlugin, DrawPlugin));
+    app.update();
+    app
+}
+
+fn act(app: &mut App, a: Action) {
+    app.world_mut().write_message(a);
+    app.update();
+}
+
+fn doc(app: &App) -> &SceneDoc {
+    app.world().resource::<SceneDoc>()
+}
+
+fn temp_dir(name: &str) -> PathBuf {
+    let d = std::env::temp_dir().join(format!("plateload-app-{name}-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&d);
+    std::fs::create_dir_all(&d).expect("temp dir");
+    d
+}
+
+fn demo() -> Scene {
+    plateload::demo::default_scene()
+}
+
+#[test]
+fn add_post_resolves_at_once_and_undo_restores_the_scene() {
+    // common practice, no source: an edit is solved in the same frame; undo restores exactly.
+    // Without horizontal loads a post standing on its own is a valid structure (with them it is
+    // refused: see the next test).
+    let mut scene = demo();
+    scene.loads.retain(|l| !l.kind.is_horizontal());
+    let mut app = app_with(scene, None);
+    let before = doc(&app).scene.clone();
+    let n = before.posts.len();
+    let post = plateload::edit::place::post_at(&before, 7.5, 0.0, 0.0, 3.6);
+    act(&mut app, Action::Edit { edit: Edit::Add(Element::Post(post.clone())), merge: None, select: Some(vec![ElementRef::post(&post.id)]) });
+    let d = doc(&app);
+    assert_eq!(d.scene.posts.len(), n + 1);
+    assert_eq!(d.solved_revision, d.revision, "solved in the frame of the edit");
+    let a = d.analysis().expect("the scene with a free-standing post still solves");
+    let r = a.plates.iter().find(|p| p.id == post.id).expect("a result for the new plate");
+    // A lone post carries only its own weight: 3.6 m of 48.3 × 4.0 tube.
+    // source: EN 39:2001 tube mass 4.37 kg/m → 0.0429 kN/m (the engine's constant)
+    assert!((r.case_kn[Case::G.index()] - 3.6 * 0.0429).abs() < 1e-9, "{:?}", r.case_kn);
+    assert!(d.is_dirty());
+    assert_eq!(app.world().resource::<Selection>().items, vec![ElementRef::post(&post.id)]);
+    act(&mut app, Action::Undo);
+    let d = doc(&app);
+    assert_eq!(d.scene, before);
+    assert!(!d.is_dirty(), "back to the state of the file");
+    assert_eq!(d.analysis().unwrap().plates.len(), n);
+    assert!(app.world().resource::<Selection>().items.is_empty(), "the undone post is no longer selected");
+}
+
+#[test]
+fn a_lone_post_beside_a_braced_structure_under_horizontal_load_is_reported_at_once() {
+    // common practice, no source: horizontal load cannot be shared with a post joined to nothing;
+    // the editor shows why instead of a number
+    let mut app = app_with(demo(), None);
+    let before = doc(&app).scene.clone();
+    let post = plateload::edit::place::post_at(&before, 7.5, 0.0, 0.0, 3.6);
+    act(&mut app, Action::Edit { edit: Edit::Add(Element::Post(post.clone())), merge: None, select: None });
+    let d = doc(&app);
+    assert_eq!(d.solved_revision, d.revision, "solved in the frame of the edit");
+    let err = d.result.as_ref().err().expect("refused").to_string();
+    assert!(err.contains("separate structures") && err.contains(&post.id), "{err}");
+    act(&mut app, Action::Undo);
+    assert!(doc(&app).analysis().is_some());
+}
+
+#[test]
+fn post_tool_click_places_a_snapped_post_and_a_support_type_in_an_empty_scene() {
+    // common practice, no source
+    let mut app = app_with(Scene::empty("t", 100.0), None);
+    app.world_mut().resource_mut::<ToolState>().tool = Tool::Post;
+    app.world_mut().write_message(ViewClick { hit: None, ground: Some([1.13, 2.38]), shift: false });
+    app.update(); // the click becomes an action
+    app.update(); // the action is applied
+    let d = doc(&app);
+    assert_eq!(d.scene.posts.len(), 1);
+    let p = &d.scene.posts[0];
+    assert_eq!((p.x, p.y), (1.25, 2.5), "snapped to the 0.25 m grid");
+    assert_eq!(d.scene.support_types.len(), 1);
+    assert_eq!(p.support.as_deref(), Some(d.scene.support_types[0].id.as_str()));
+    assert!(d.analysis().is_some());
+    // One undo step takes both away.
+    act(&mut app, Action::Undo);
+    assert_eq!(doc(&app).scene, Scene::empty("t", 100.0));
+}
+
+#[test]
+fn bearer_tool_lays_a_bearer_on_the_picked_posts() {
+    // common practice, no source
+    let mut app = app_with(demo(), None);
+    app.world_mut().resource_mut::<ToolState>().tool = Tool::Bearer;
+    for id in ["C4", "A4"] {
+        let hit = Hit { element: ElementRef::post(id), part: Part::Post, distance: 1.0, point: [0.0; 3] };
+        app.world_mut().write_message(ViewClick { hit: Some(hit), ground: None, shift: false });
+        app.update();
+    }
+    assert_eq!(app.world().resource::<ToolState>().picked, ["C4", "A4"]);
+    act(&mut app, Action::BuildBearer(vec!["C4".into(), "B4".into(), "A4".into()]));
+    let d = doc(&app);
+    let b = d.scene.bearers.last().unwrap();
+    assert_eq!(b.posts, ["A4", "B4", "C4"]);
+    assert!(d.analysis().is_some());
+}
+
+#[test]
+fn layout_generator_makes_the_counts_asked_for() {
+    // common practice, no source: (bx+1)(by+1) posts; per lift (by+1) ledgers + (bx+1) transoms;
+    // one deck per deck lift; 4 face braces per lift
+    let mut app = app_with(demo(), None);
+    let spec = LayoutSpec { bays_x: 5, bays_y: 3, lifts: 4, deck_lifts: vec![2, 4], ..LayoutSpec::default() };
+    act(&mut app, Action::Edit { edit: Edit::ApplyLayout { spec, replace: true }, merge: None, select: Some(Vec::new()) });
+    let d = doc(&app);
+    assert_eq!(d.scene.posts.len(), 6 * 4);
+    assert_eq!(d.scene.bearers.len(), 4 * (4 + 6));
+    assert_eq!(d.scene.decks.len(), 2);
+    assert_eq!(d.scene.braces.len(), 4 * 4);
+    assert_eq!(d.scene.site, demo().site, "the site stays");
+    let a = d.analysis().expect("a generated layout solves");
+    assert_eq!(a.plates.len(), 24);
+    // The view drew every post's plate.
+    let drawn = app.world().resource::<Drawn>();
+    assert_eq!(drawn.plates.len(), 24);
+}
+
+#[test]
+fn delete_with_dependants_asks_then_cascades_and_undo_restores() {
+    // common practice, no source
+    let mut app = app_with(demo(), None);
+    let before = doc(&app).scene.clone();
+    act(&mut app, Action::Select(vec![ElementRef::post("B2")]));
+    act(&mut app, Action::DeleteSelected(DeleteMode::Refuse));
+    assert_eq!(doc(&app).scene, before, "refused: nothing deleted");
+    let prompts = &app.world().resource::<Prompts>().0;
+    let Some(Prompt::Dependants { targets, message }) = prompts.first() else { panic!("no question asked: {prompts:?}") };
+    assert_eq!(targets, &vec![ElementRef::post("B2")]);
+    assert!(message.contains("bearer L1-2") && message.contains("4 elements depend"), "{message}");
+    let status = app.world().resource::<Status>();
+    assert!(status.error && status.text == *message);
+    act(&mut app, Action::Delete { targets: vec![ElementRef::post("B2")], mode: DeleteMode::Cascade });
+    let d = doc(&app);
+    assert!(!d.scene.posts.iter().any(|p| p.id == "B2"));
+    assert!(d.scene.decks.is_empty(), "the deck rested on a bearer that went");
+    assert!(d.analysis().is_some());
+    act(&mut app, Action::Undo);
+    assert_eq!(doc(&app).scene, before);
+}
+
+#[test]
+fn keyboard_undo_and_redo() {
+    // common practice, no source: Ctrl+Z undoes, Ctrl+Y redoes
+    let mut app = app_with(demo(), None);
+    let before = doc(&app).scene.clone();
+    act(&mut app, Action::Edit { edit: Edit::Move { targets: vec![ElementRef::post("A1")], by: [0.5, 0.0, 0.0] }, merge: None, select: None });
+    let moved = doc(&app).scene.clone();
+    assert_ne!(moved, before);
+    let press = |app: &mut App, keys: &[KeyCode]| {
+        {
+            let mut input = app.world_mut().resource_mut::<ButtonInput<KeyCode>>();
+            for k in keys {
+                input.press(*k);
+            }
+        }
+        app.update(); // the shortcut becomes an action
+        app.update(); // the action is applied
+        let mut input = app.world_mut().resource_mut::<ButtonInput<KeyCode>>();
+        input.release_all();
+        input.clear();
+    };
+    press(&mut app, &[KeyCode::ControlLeft, KeyCode::KeyZ]);
+    assert_eq!(doc(&app).scene, before);
+    press(&mut app, &[KeyCode::ControlLeft, KeyCode::KeyY]);
+    assert_eq!(doc(&app).scene, moved);
+    press(&mut app, &[KeyCode::ControlLeft, KeyCode::ShiftLeft, KeyCode::KeyZ]);
+    assert_eq!(doc(&app).scene, moved, "nothing left to redo");
+}
+
+#[test]
+fn opening_over_unsaved_changes_asks_first() {
+    // common practice, no source
+    let dir = temp_dir("open");
+    let other = dir.join("other.ron");
+    plateload::io::save_scene(&other, &plateload::demo::demo_scene(1).unwrap()).unwrap();
+    let mut app = app_with(demo(), None);
+    act(&mut app, Action::Edit { edit: Edit::Move { targets: vec![ElementRef::post("A1")], by: [0.5, 0.0, 0.0] }, merge: None, select: None });
+    let edited = doc(&app).scene.clone();
+    act(&mut app, Action::Open(other.clone()));
+    assert_eq!(doc(&app).scene, edited, "not opened over the changes");
+    assert!(matches!(app.world().resource::<Prompts>().0.first(), Some(Prompt::Unsaved { then: Then::Open(_) })));
+    act(&mut app, Action::Continue { then: Then::Open(other.clone()), save: false });
+    let d = doc(&app);
+    assert_eq!(d.scene, plateload::demo::demo_scene(1).unwrap());
+    assert_eq!(d.path.as_deref(), Some(other.as_path()));
+    assert!(!d.is_dirty());
+    // A file with a syntax error is refused with its line and column; the document stays.
+    let bad = dir.join("bad.ron");
+    std::fs::write(&bad, "(format: 1,\n  site: (name: \"x\", allowable_bearing_kpa: ),\n)").unwrap();
+    act(&mut app, Action::Open(bad.clone()));
+    let status = app.world().resource::<Status>();
+    assert!(status.error && status.text.contains(&format!("{}:2:", bad.display())), "{}", status.text);
+    assert_eq!(doc(&app).path.as_deref(), Some(other.as_path()));
+    let _ = std::fs::remove_dir_all(dir);
+}
+
+#[test]
+fn closing_with_unsaved_changes_asks_and_saving_writes_the_file() {
+    // common practice, no source
+    let dir = temp_dir("quit");
+    let mut app = app_with(demo(), None);
+    act(&mut app, Action::Edit { edit: Edit::Move { targets: vec![ElementRef::post("A1")], by: [0.5, 0.0, 0.0] }, merge: None, select: None });
+    act(&mut app, Action::Quit);
+    assert!(app.world().resource::<Messages<AppExit>>().is_empty(), "did not exit over unsaved changes");
+    assert!(matches!(app.world().resource::<Prompts>().0.first(), Some(Prompt::Unsaved { then: Then::Quit })));
+    // "Save" on an untitled scene asks for a name; saving under it then closes.
+    act(&mut app, Action::Continue { then: Then::Quit, save: true });
+    assert!(matches!(app.world().resource::<Prompts>().0.first(), Some(Prompt::SaveAs { then: Some(Then::Quit) })));
+    let path = dir.join("saved.ron");
+    act(&mut app, Action::SaveAs { path: path.clone(), then: Some(Then::Quit) });
+    assert_eq!(plateload::io::read_scene(&path).unwrap(), doc(&app).scene);
+    assert!(!doc(&app).is_dirty());
+    let exits: Vec<AppExit> = app.world_mut().resource_mut::<Messages<AppExit>>().drain().collect();
+    assert_eq!(exits, vec![AppExit::Success]);
+    let _ = std::fs::remove_dir_all(dir);
+}
+
+#[test]
+fn unsaved_work_is_kept_in_a_recovery_copy_and_offered_on_the_next_start() {
+    // common practice, no source
+    let dir = temp_dir("recovery");
+    let store = RecoveryStore::at(dir.join("store"));
+    let mut app = app_with(demo(), Some(store.clone()));
+    assert!(store.find(None).unwrap().is_none(), "nothing written while the scene is unchanged");
+    act(&mut app, Action::Edit { edit: Edit::Move { targets: vec![ElementRef::post("A1")], by: [0.5, 0.0, 0.0] }, merge: None, select: None });
+    let edited = doc(&app).scene.clone();
+    let copy = store.find(None).unwrap().expect("a recovery copy of the unsaved change");
+    assert_eq!(copy.scene, edited);
+    // The "crash": the app goes away without closing. The next start offers the copy.
+    drop(app);
+    let mut app = app_with(demo(), Some(store.clone()));
+    assert!(matches!(app.world().resource::<Prompts>().0.first(), Some(Prompt::Recovery(_))));
+    act(&mut app, Action::Recover(true));
+    let d = doc(&app);
+    assert_eq!(d.scene, edited);
+    assert!(d.is_dirty(), "restored work is not saved yet");
+    // Saving removes the copy.
+    act(&mut app, Action::SaveAs { path: dir.join("kept.ron"), then: None });
+    assert!(store.find(Some(&dir.join("kept.ron"))).unwrap().is_none());
+    assert!(store.find(None).unwrap().is_none());
+    let _ = std::fs::remove_dir_all(dir);
+}
+
+#[test]
+fn the_view_follows_edits_in_place_and_recolours_plates() {
+    // common practice, no source: no respawn on an edit; a plate past capacity takes the over
+    // colour and shows its frame
+    let mut app = app_with(demo(), None);
+    let entities = |app: &App| {
+        let mut v: Vec<(DrawKey, Entity)> = app.world().resource::<Drawn>().entities.iter().map(|(k, e)| (k.clone(), *e)).collect();
+        v.sort_by_key(|(_, e)| *e);
+        v
+    };
+    let before = entities(&app);
+    let key = DrawKey::Shape(ElementRef::post("A1"), Part::Post, 0);
+    let post_entity = app.world().resource::<Drawn>().entities[&key];
+    let x0 = app.world().get::<Transform>(post_entity).unwrap().translation.x;
+    // Move the whole first line of posts out by 0.25 m: every member stays straight, so the
+    // scene still solves.
+    let line: Vec<ElementRef> = ["A1", "A2", "A3", "A4"].map(ElementRef::post).to_vec();
+    act(&mut app, Action::Edit { edit: Edit::Move { targets: line, by: [-0.25, 0.0, 0.0] }, merge: None, select: None });
+    assert!(doc(&app).analysis().is_some(), "{:?}", doc(&app).result.as_ref().err());
+    let after = entities(&app);
+    let gone: Vec<_> = before.iter().filter(|x| !after.contains(x)).collect();
+    let new: Vec<_> = after.iter().filter(|x| !before.contains(x)).collect();
+    assert!(gone.is_empty() && new.is_empty(), "respawned: {gone:?} became {new:?}");
+    let x1 = app.world().get::<Transform>(post_entity).unwrap().translation.x;
+    assert!((x1 - x0 + 0.25).abs() < 1e-5, "{x0} → {x1}");
+    let [spawned, updated, removed] = app.world().resource::<Drawn>().last_sync;
+    assert_eq!((spawned, removed), (0, 0));
+    // At least the 4 posts with their base and sole plates, the 8 ledgers and 2 transoms on them.
+    assert!(updated >= 4 * 3 + 8 + 2, "{updated} entities updated");
+    // Overload A4 with a 40 kN point load on its top: over its 30 kN jack.
+    let load = Load { id: "test-load".into(), case: Case::Q, kind: LoadKind::PostTop { post: "A4".into(), kn: 40.0 } };
+    act(&mut app, Action::Edit { edit: Edit::Add(Element::Load(load)), merge: None, select: None });
+    let d = doc(&app);
+    let a = d.analysis().unwrap();
+    let plate = a.plates.iter().find(|p| p.id == "A4").unwrap();
+    assert!(plate.status.over);
+    let drawn = app.world().resource::<Drawn>();
+    let assets = app.world().resource::<ViewAssets>();
+    let pe = &drawn.plates["A4"];
+    for e in &pe.plates {
+        let m = app.world().get::<MeshMaterial3d<StandardMaterial>>(*e).unwrap();
+        assert_eq!(m.0, assets.bands[Band::Over as usize]);
+    }
+    assert_eq!(*app.world().get::<Visibility>(pe.over.unwrap()).unwrap(), Visibility::Inherited, "the over-capacity frame shows");
+    // A plate that is fine keeps its band and no frame.
+    let ok = &drawn.plates["A1"];
+    let u = a.plates.iter().find(|p| p.id == "A1").unwrap().governing().utilisation;
+    let m = app.world().get::<MeshMaterial3d<StandardMaterial>>(ok.plates[0]).unwrap();
+    assert_eq!(m.0, assets.bands[Band::of(u) as usize]);
+    assert_eq!(*app.world().get::<Visibility>(ok.over.unwrap()).unwrap(), Visibility::Hidden);
+    // Deleting the load takes its arrow entities away and leaves the rest.
+    let n = drawn.entities.len();
+    act(&mut app, Action::Delete { targets: vec![ElementRef::new(ElementKind::Load, "test-load")], mode: DeleteMode::Refuse });
+    let drawn = app.world().resource::<Drawn>();
+    assert_eq!(drawn.entities.len(), n - 2, "shaft and head of the arrow");
+}
+
+#[test]
+fn inspector_drags_merge_into_one_undo_step() {
+    // common practice, no source
+    let mut app = app_with(demo(), None);
+    let before = doc(&app).scene.clone();
+    for x in [0.1, 0.2, 0.3] {
+        let mut p = before.posts[0].clone();
+        p.x = x;
+        act(&mut app, Action::Edit { edit: Edit::Replace { id: p.id.clone(), with: Element::Post(p) }, merge: Some("post A1.x".into()), select: None });
+    }
+    act(&mut app, Action::Seal);
+    assert_eq!(doc(&app).history.undo_len(), 1);
+    act(&mut app, Action::Undo);
+    assert_eq!(doc(&app).scene, before);
+}

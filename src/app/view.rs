@@ -1,0 +1,379 @@
+//! The 3D view: cameras, orbit / pan / zoom, pointer picking, and (in [`draw`]) the scene's
+//! entities, drawn from the engine's geometry and coloured by the engine's results.
+//!
+//! The camera is the engine's [`ViewCamera`]; the bevy camera is set from it every time it
+//! changes, so the picture, the picking rays and the render test's projections all agree.
+//! Base plates, their cues and the centre of gravity are drawn by a second camera on top of
+//! everything else, so a deck or a post in front never hides the colour of a plate.
+
+pub mod draw;
+
+use bevy::camera::visibility::RenderLayers;
+use bevy::camera::{CameraOutputMode, ScalingMode, Viewport};
+use bevy::core_pipeline::tonemapping::{DebandDither, Tonemapping};
+use bevy::input::mouse::{AccumulatedMouseMotion, AccumulatedMouseScroll, MouseScrollUnit};
+use bevy::prelude::*;
+use bevy::render::render_resource::BlendState;
+use bevy::window::PrimaryWindow;
+use bevy_egui::PrimaryEguiContext;
+use plateload::pick::{self, ViewCamera, ViewPreset, V3};
+
+use super::doc::{SceneDoc, Selection};
+use super::editor::{Tool, ToolState, UiFocus, ViewClick, ViewDrag, ViewRequestMessage};
+use super::{EditorSystems, Mode, ViewRequest};
+
+/// Render layer of the ordinary scene.
+pub const SCENE_LAYER: usize = 0;
+/// Render layer drawn on top: base plates, their cues, the centre of gravity, highlights.
+pub const ON_TOP_LAYER: usize = 1;
+
+/// Scene (x, y, z up) to bevy (x, y up, −z north): right-handed both.
+pub fn to_bevy(p: V3) -> Vec3 {
+    Vec3::new(p[0] as f32, p[2] as f32, -p[1] as f32)
+}
+
+/// Cameras, input, entities and colours of the 3D view.
+pub struct ViewPlugin;
+
+impl Plugin for ViewPlugin {
+    fn build(&self, app: &mut App) {
+        app.init_resource::<ViewState>()
+            .add_plugins((draw::DrawPlugin, draw::GizmoDrawPlugin))
+            .add_systems(Startup, spawn_cameras)
+            .add_systems(Update, (camera_controls, pointer).chain().in_set(EditorSystems::Input))
+            .add_systems(Update, view_requests.after(EditorSystems::Sync).before(EditorSystems::Recolour))
+            .add_systems(PostUpdate, apply_camera.before(bevy::camera::CameraUpdateSystems).before(bevy::transform::TransformSystems::Propagate));
+    }
+}
+
+/// What the view shows and how.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ViewSettings {
+    /// Combination whose utilisation colours the plates; `None`: each plate's governing one.
+    pub combination: Option<usize>,
+    /// Colour posts like their plates.
+    pub colour_posts: bool,
+    /// Draw load arrows.
+    pub show_loads: bool,
+    /// Label the worst plates (and the hovered and selected ones).
+    pub labels: bool,
+    /// Draw decks.
+    pub show_decks: bool,
+}
+
+impl Default for ViewSettings {
+    fn default() -> Self {
+        ViewSettings { combination: None, colour_posts: false, show_loads: true, labels: true, show_decks: true }
+    }
+}
+
+/// The view camera and the part of the window it draws in.
+#[derive(Resource, Debug, Clone, PartialEq)]
+pub struct ViewState {
+    /// The camera.
+    pub camera: ViewCamera,
+    /// Where the 3D view is in the window: (x, y, width, height), logical pixels from the
+    /// top-left corner. Zero size until the window (and the panels) are known.
+    pub viewport: [f32; 4],
+    /// What to show.
+    pub settings: ViewSettings,
+    /// Preset to frame the scene with once the viewport is known.
+    pub pending_fit: Option<ViewPreset>,
+}
+
+impl Default for ViewState {
+    fn default() -> Self {
+        ViewState { camera: ViewCamera::default(), viewport: [0.0; 4], settings: ViewSettings::default(), pending_fit: Some(ViewPreset::Iso) }
+    }
+}
+
+impl ViewState {
+    /// Viewport size (width, height), pixels.
+    pub fn size(&self) -> [f64; 2] {
+        [self.viewport[2] as f64, self.viewport[3] as f64]
+    }
+    /// Whether the viewport is known.
+    pub fn ready(&self) -> bool {
+        self.viewport[2] >= 1.0 && self.viewport[3] >= 1.0
+    }
+    /// Window position (logical pixels) of a scene point, if in front of the camera.
+    pub fn to_window(&self, p: V3) -> Option<[f32; 2]> {
+        let q = self.camera.project(p, self.size())?;
+        Some([self.viewport[0] + q[0] as f32, self.viewport[1] + q[1] as f32])
+    }
+    /// The ray under a window position (logical pixels).
+    pub fn ray_at(&self, window_px: Vec2) -> pick::Ray {
+        let local = [(window_px.x - self.viewport[0]) as f64, (window_px.y - self.viewport[1]) as f64];
+        self.camera.ray(local, self.size())
+    }
+    /// Whether a window position is inside the viewport.
+    pub fn contains(&self, p: Vec2) -> bool {
+        let [x, y, w, h] = self.viewport;
+        p.x >= x && p.y >= y && p.x < x + w && p.y < y + h
+    }
+    /// Frame a box from a preset direction (or the current one).
+    pub fn frame(&mut self, lo: V3, hi: V3, preset: Option<ViewPreset>) {
+        let aspect = if self.ready() { (self.viewport[2] / self.viewport[3]) as f64 } else { 1.6 };
+        if let Some(p) = preset {
+            let (yaw, pitch) = p.angles();
+            self.camera.yaw_deg = yaw;
+            self.camera.pitch_deg = pitch;
+            if p == ViewPreset::Plan || p == ViewPreset::Front || p == ViewPreset::Side {
+                self.camera.orthographic = true;
+            }
+        }
+        self.camera.frame(lo, hi, aspect);
+    }
+}
+
+/// How far behind the target the eye of a parallel view stands, m.
+const ORTHO_BACK_M: f64 = 2_000.0;
+
+/// Marks the camera that draws the scene.
+#[derive(Component)]
+pub struct SceneCamera;
+/// Marks the camera that draws plates on top of the scene.
+#[derive(Component)]
+pub struct OnTopCamera;
+
+fn spawn_cameras(mut commands: Commands, mut egui_settings: ResMut<bevy_egui::EguiGlobalSettings>, mode: Res<Mode>, mut view: ResMut<ViewState>) {
+    // The egui context goes on its own full-window camera, so the 3D cameras can draw in the
+    // part of the window the panels leave free.
+    egui_settings.auto_create_primary_context = false;
+    if let Mode::Picture(spec) = &*mode {
+        view.settings.combination = spec.combination;
+        view.camera.orthographic = true;
+        view.pending_fit = Some(spec.view);
+    }
+    // Exact colours: the legend's swatches and the plates must match, so no tonemapping or
+    // dithering changes them (the plates are unlit).
+    let exact = (Tonemapping::None, DebandDither::Disabled, msaa());
+    commands.spawn((SceneCamera, Camera3d::default(), Camera { order: 0, clear_color: ClearColorConfig::Custom(Color::srgb_u8(0xe9, 0xec, 0xef)), ..default() }, exact, RenderLayers::layer(SCENE_LAYER)));
+    commands.spawn((OnTopCamera, Camera3d::default(), Camera { order: 1, clear_color: ClearColorConfig::None, ..default() }, exact, RenderLayers::layer(ON_TOP_LAYER)));
+    commands.spawn((
+        PrimaryEguiContext,
+        Camera2d,
+        RenderLayers::none(),
+        exact,
+        Camera {
+            order: 2,
+            output_mode: CameraOutputMode::Write { blend_state: Some(BlendState::ALPHA_BLENDING), clear_color: ClearColorConfig::None },
+            clear_color: ClearColorConfig::Custom(Color::NONE),
+            ..default()
+        },
+    ));
+    commands.spawn((DirectionalLight { illuminance: 6_000.0, shadow_maps_enabled: false, ..default() }, Transform::from_xyz(-4.0, 10.0, 6.0).looking_at(Vec3::ZERO, Vec3::Y)));
+    commands.insert_resource(GlobalAmbientLight { brightness: 900.0, ..default() });
+}
+
+/// Multisampling of the cameras: off by default, since a software renderer spends most of a
+/// frame on it; `PLATELOAD_MSAA=4` (or 2, 8) turns it on.
+fn msaa() -> Msaa {
+    match std::env::var("PLATELOAD_MSAA").ok().as_deref() {
+        Some("2") => Msaa::Sample2,
+        Some("4") => Msaa::Sample4,
+        Some("8") => Msaa::Sample8,
+        _ => Msaa::Off,
+    }
+}
+
+/// Set the bevy cameras from the view camera.
+fn apply_camera(view: Res<ViewState>, mode: Res<Mode>, windows: Query<&Window, With<PrimaryWindow>>, mut cams: Query<(&mut Transform, &mut Projection, &mut Camera), Or<(With<SceneCamera>, With<OnTopCamera>)>>) {
+    if !view.is_changed() {
+        return;
+    }
+    let c = &view.camera;
+    let (_, u, f) = c.basis();
+    // Without perspective the eye's distance changes nothing in the picture, so it stands far
+    // back and the near plane stays at zero (bevy culls against it).
+    let eye = if c.orthographic {
+        let back = ORTHO_BACK_M + c.distance;
+        let t = c.target;
+        let e = c.towards_eye();
+        [t[0] + e[0] * back, t[1] + e[1] * back, t[2] + e[2] * back]
+    } else {
+        c.eye()
+    };
+    let transform = Transform::from_translation(to_bevy(eye)).looking_to(to_bevy(f), to_bevy(u));
+    let projection = if c.orthographic {
+        Projection::Orthographic(OrthographicProjection {
+            scaling_mode: ScalingMode::FixedVertical { viewport_height: (2.0 * c.half_height()) as f32 },
+            near: 0.0,
+            far: (2.0 * (ORTHO_BACK_M + c.distance)) as f32,
+            ..OrthographicProjection::default_3d()
+        })
+    } else {
+        Projection::Perspective(PerspectiveProjection { fov: c.fov_y_deg.to_radians() as f32, near: 0.05, far: 20_000.0, ..default() })
+    };
+    let scale = windows.single().map_or(1.0, |w| w.scale_factor());
+    let _ = &mode;
+    let viewport = view.ready().then(|| {
+        let [x, y, w, h] = view.viewport;
+        Viewport { physical_position: UVec2::new((x * scale) as u32, (y * scale) as u32), physical_size: UVec2::new(((w * scale) as u32).max(1), ((h * scale) as u32).max(1)), ..default() }
+    });
+    for (mut t, mut p, mut cam) in &mut cams {
+        *t = transform;
+        *p = projection.clone();
+        let same = match (&cam.viewport, &viewport) {
+            (None, None) => true,
+            (Some(a), Some(b)) => a.physical_position == b.physical_position && a.physical_size == b.physical_size,
+            _ => false,
+        };
+        if !same {
+            cam.viewport = viewport.clone();
+        }
+    }
+}
+
+/// Fit and preset requests; the first fit once the viewport is known.
+fn view_requests(mut requests: MessageReader<ViewRequestMessage>, mut view: ResMut<ViewState>, doc: Res<SceneDoc>, selection: Res<Selection>, shapes: Res<draw::SceneShapes>) {
+    let bounds = || shapes.bounds.unwrap_or_else(|| pick::structure_bounds(&doc.scene));
+    for ViewRequestMessage(r) in requests.read() {
+        match r {
+            ViewRequest::Fit => view.frame(bounds().0, bounds().1, None),
+            ViewRequest::Preset(p) => {
+                let (lo, hi) = bounds();
+                view.frame(lo, hi, Some(*p));
+            }
+            ViewRequest::TogglePerspective => {
+                view.camera.orthographic = !view.camera.orthographic;
+                let (lo, hi) = bounds();
+                view.frame(lo, hi, None);
+            }
+            ViewRequest::FitSelection => {
+                let sel: Vec<&pick::Shape> = shapes.shapes.iter().filter(|s| selection.contains(&s.element)).collect();
+                let b = sel.iter().map(|s| s.prim.bounds()).reduce(|(a, b), (c, d)| ([0, 1, 2].map(|k| a[k].min(c[k])), [0, 1, 2].map(|k| b[k].max(d[k]))));
+                if let Some((lo, hi)) = b {
+                    let pad = 0.5;
+                    view.frame(lo.map(|v| v - pad), hi.map(|v| v + pad), None);
+                }
+            }
+        }
+    }
+    if view.ready() && !shapes.shapes.is_empty() || view.ready() && doc.scene.posts.is_empty() {
+        if let Some(p) = view.pending_fit.take() {
+            let (lo, hi) = bounds();
+            view.frame(lo, hi, Some(p));
+        }
+    }
+}
+
+/// Orbit (right drag), pan (middle drag, or shift + right drag) and zoom (wheel).
+fn camera_controls(
+    buttons: Option<Res<ButtonInput<MouseButton>>>,
+    keys: Option<Res<ButtonInput<KeyCode>>>,
+    motion: Option<Res<AccumulatedMouseMotion>>,
+    scroll: Option<Res<AccumulatedMouseScroll>>,
+    focus: Res<UiFocus>,
+    mut view: ResMut<ViewState>,
+    mut dragging: Local<bool>,
+) {
+    let (Some(buttons), Some(motion), Some(scroll)) = (buttons, motion, scroll) else { return };
+    let shift = keys.is_some_and(|k| k.any_pressed([KeyCode::ShiftLeft, KeyCode::ShiftRight]));
+    let (right, middle) = (buttons.pressed(MouseButton::Right), buttons.pressed(MouseButton::Middle));
+    if buttons.any_just_pressed([MouseButton::Right, MouseButton::Middle]) {
+        *dragging = focus.pointer_in_view;
+    }
+    if !right && !middle {
+        *dragging = false;
+    }
+    let d = motion.delta;
+    if *dragging && d != Vec2::ZERO {
+        let cam = &mut view.camera;
+        if middle || (right && shift) {
+            let h = view.viewport[3].max(1.0) as f64;
+            let per_px = 2.0 * view.camera.half_height() / h;
+            let (r, u, _) = view.camera.basis();
+            let t = &mut view.camera.target;
+            for k in 0..3 {
+                t[k] += (-r[k] * d.x as f64 + u[k] * d.y as f64) * per_px;
+            }
+        } else {
+            cam.yaw_deg -= 0.3 * d.x as f64;
+            cam.pitch_deg = (cam.pitch_deg + 0.3 * d.y as f64).clamp(-89.0, 90.0);
+        }
+    }
+    if focus.pointer_in_view && scroll.delta.y != 0.0 {
+        let lines = match scroll.unit {
+            MouseScrollUnit::Line => scroll.delta.y as f64,
+            MouseScrollUnit::Pixel => scroll.delta.y as f64 / 40.0,
+        };
+        let cam = &mut view.camera;
+        cam.distance = (cam.distance * 0.88f64.powf(lines)).clamp(0.2, 50_000.0);
+    }
+}
+
+/// Press state of the left button in the view.
+#[derive(Default)]
+struct Press {
+    at: Option<Vec2>,
+    grab: Option<(f64, [f64; 2])>,
+    dragging: bool,
+    serial: u64,
+}
+
+/// Hover picking, clicks and drags of the left button.
+#[allow(clippy::too_many_arguments)]
+fn pointer(
+    buttons: Option<Res<ButtonInput<MouseButton>>>,
+    keys: Option<Res<ButtonInput<KeyCode>>>,
+    windows: Query<&Window, With<PrimaryWindow>>,
+    focus: Res<UiFocus>,
+    view: Res<ViewState>,
+    shapes: Res<draw::SceneShapes>,
+    tools: Res<ToolState>,
+    mut selection: ResMut<Selection>,
+    mut clicks: MessageWriter<ViewClick>,
+    mut drags: MessageWriter<ViewDrag>,
+    mut press: Local<Press>,
+    mut last_cursor: Local<Option<Vec2>>,
+) {
+    let (Some(buttons), Ok(window)) = (buttons, windows.single()) else { return };
+    let cursor = window.cursor_position().filter(|c| view.ready() && view.contains(*c) && focus.pointer_in_view);
+    let shift = keys.is_some_and(|k| k.any_pressed([KeyCode::ShiftLeft, KeyCode::ShiftRight]));
+    let tol = view.camera.pick_tolerance(4.0, view.viewport[3].max(1.0) as f64);
+    let pick_at = |c: Vec2| pick::pick(&shapes.shapes, &view.ray_at(c), &tol);
+    // Hover: only when the pointer moved or the scene changed under it.
+    if cursor != *last_cursor || shapes.is_changed() {
+        *last_cursor = cursor;
+        let hovered = cursor.and_then(|c| pick_at(c)).map(|h| h.element);
+        if selection.hovered != hovered {
+            selection.hovered = hovered;
+        }
+    }
+    let Some(c) = cursor else {
+        if buttons.just_released(MouseButton::Left) {
+            *press = Press { serial: press.serial, ..default() };
+        }
+        return;
+    };
+    if buttons.just_pressed(MouseButton::Left) {
+        let hit = pick_at(c);
+        let grab = hit.filter(|h| tools.tool == Tool::Select && selection.contains(&h.element)).and_then(|h| {
+            let ray = view.ray_at(c);
+            pick::ray_plane_z(&ray, h.point[2]).map(|g| (h.point[2], g))
+        });
+        *press = Press { at: Some(c), grab, dragging: false, serial: press.serial + 1 };
+    }
+    if let (Some(at), Some((z, from))) = (press.at, press.grab) {
+        if buttons.pressed(MouseButton::Left) && (press.dragging || c.distance(at) > 4.0) {
+            press.dragging = true;
+            if let Some(to) = pick::ray_plane_z(&view.ray_at(c), z) {
+                drags.write(ViewDrag { from, to, done: false, serial: press.serial });
+            }
+        }
+    }
+    if buttons.just_released(MouseButton::Left) {
+        if press.dragging {
+            if let (Some((z, from)), Some(to)) = (press.grab, pick::ray_plane_z(&view.ray_at(c), press.grab.map_or(0.0, |g| g.0))) {
+                let _ = z;
+                drags.write(ViewDrag { from, to, done: true, serial: press.serial });
+            }
+        } else if press.at.is_some_and(|a| a.distance(c) <= 4.0) {
+            let ray = view.ray_at(c);
+            let ground = pick::ray_plane_z(&ray, shapes.ground_z);
+            clicks.write(ViewClick { hit: pick_at(c), ground, shift });
+        }
+        *press = Press { serial: press.serial, ..default() };
+    }
+}

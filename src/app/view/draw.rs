@@ -1,0 +1,698 @@
+//! The scene's entities: one per engine shape, kept in step with the scene without respawning,
+//! and coloured by the results.
+//!
+//! Meshes are shared (one unit bar, cone, cube, and one cue mesh per plate size) and so are
+//! materials (one per utilisation band, one per member kind and load case), so an edit only
+//! changes the transforms and material handles of the entities it affects.
+
+use std::collections::{HashMap, HashSet};
+
+use bevy::asset::RenderAssetUsages;
+use bevy::camera::visibility::RenderLayers;
+use bevy::mesh::{Indices, PrimitiveTopology};
+use bevy::prelude::*;
+use plateload::edit::ElementRef;
+use plateload::model::{BeamRole, ElementKind};
+use plateload::palette::{Band, Cue};
+use plateload::pick::{self, Part, Prim, Shape, ShapeOptions, CUE_BAND_M, CUE_EDGE_M, CUE_GAP_M, V3};
+use plateload::{Case, PlateResult, Status as PlateStatus};
+
+use super::{to_bevy, ViewState, ON_TOP_LAYER, SCENE_LAYER};
+use crate::app::doc::{SceneDoc, Selection};
+use crate::app::editor::ToolState;
+use crate::app::EditorSystems;
+
+/// Keeps the drawing in step with the document.
+pub struct DrawPlugin;
+
+impl Plugin for DrawPlugin {
+    fn build(&self, app: &mut App) {
+        app.init_resource::<SceneShapes>()
+            .init_resource::<Drawn>()
+            .add_systems(Startup, init_assets)
+            .add_systems(Update, sync_entities.in_set(EditorSystems::Sync))
+            .add_systems(Update, recolour.in_set(EditorSystems::Recolour));
+    }
+}
+
+/// The metric grid and the highlights (needs bevy's gizmos, so not in headless tests).
+pub struct GizmoDrawPlugin;
+
+impl Plugin for GizmoDrawPlugin {
+    fn build(&self, app: &mut App) {
+        app.init_gizmo_group::<OnTopGizmos>()
+            .add_systems(Startup, configure_gizmos)
+            .add_systems(Update, (draw_grid, draw_highlights).after(EditorSystems::Recolour));
+    }
+}
+
+/// The engine's drawing of the current scene, as last drawn; picking uses the same.
+#[derive(Resource, Default)]
+pub struct SceneShapes {
+    /// Every solid.
+    pub shapes: Vec<Shape>,
+    /// Box around them.
+    pub bounds: Option<(V3, V3)>,
+    /// Level of the ground plane, m.
+    pub ground_z: f64,
+    /// Sizes used.
+    pub options: Option<ShapeOptions>,
+}
+
+/// What an entity draws.
+#[derive(Debug, Clone, PartialEq, Eq, Hash)]
+pub enum DrawKey {
+    /// An engine shape of an element.
+    Shape(ElementRef, Part, u32),
+    /// The over-capacity frame around a post's plate.
+    OverCue(String),
+    /// The uplift ring around a post's plate.
+    UpliftCue(String),
+    /// The uplift arrow above a post's plate.
+    UpliftArrow(String),
+    /// The centre-of-gravity mark.
+    CentreOfGravity,
+}
+
+/// Tags an entity with what it draws.
+#[derive(Component, Debug, Clone)]
+pub struct DrawnPart(pub DrawKey);
+
+/// Entities of a post's plate, for recolouring.
+#[derive(Debug, Clone, Default)]
+pub struct PlateEntities {
+    /// Post tube.
+    pub post: Option<Entity>,
+    /// Base and sole plate.
+    pub plates: Vec<Entity>,
+    /// Over-capacity frame.
+    pub over: Option<Entity>,
+    /// Uplift ring and arrow.
+    pub uplift: Vec<Entity>,
+}
+
+/// Every drawn entity by key, and the document revision drawn.
+#[derive(Resource, Default)]
+pub struct Drawn {
+    /// Entity of each key.
+    pub entities: HashMap<DrawKey, Entity>,
+    /// Plate entities by post id.
+    pub plates: HashMap<String, PlateEntities>,
+    /// Keys and entities in the order the last sync visited them.
+    order: Vec<(DrawKey, Entity)>,
+    /// Revision of the scene drawn.
+    pub revision: u64,
+    /// Whether loads and decks were drawn (settings at the last sync).
+    shown: (bool, bool),
+    /// What the colours were last set from.
+    coloured: Option<ColourKey>,
+    /// How many entities the last sync spawned, updated and removed.
+    pub last_sync: [usize; 3],
+    /// How long the last sync and the last recolouring took.
+    pub last_times: [std::time::Duration; 2],
+}
+
+#[derive(Debug, Clone, PartialEq)]
+struct ColourKey {
+    sync_revision: u64,
+    solved_revision: u64,
+    combination: Option<usize>,
+    colour_posts: bool,
+    selection: Vec<ElementRef>,
+    picked: Vec<String>,
+}
+
+/// Shared meshes and materials.
+#[derive(Resource)]
+pub struct ViewAssets {
+    bar: Handle<Mesh>,
+    cone: Handle<Mesh>,
+    cube: Handle<Mesh>,
+    cog: Handle<Mesh>,
+    ground: Handle<Mesh>,
+    /// Cue meshes per plate footprint (mm × mm): over frame, uplift ring.
+    cues: HashMap<(i64, i64), (Handle<Mesh>, Handle<Mesh>)>,
+    /// Unlit band colours for plates.
+    pub bands: [Handle<StandardMaterial>; 5],
+    /// Lit band colours for posts.
+    bands_lit: [Handle<StandardMaterial>; 5],
+    no_result: Handle<StandardMaterial>,
+    steel: Handle<StandardMaterial>,
+    ledger: Handle<StandardMaterial>,
+    transom: Handle<StandardMaterial>,
+    brace: Handle<StandardMaterial>,
+    deck: Handle<StandardMaterial>,
+    loads: [Handle<StandardMaterial>; 3],
+    sheets: [Handle<StandardMaterial>; 3],
+    selected: Handle<StandardMaterial>,
+    cue: Handle<StandardMaterial>,
+    ground_mat: Handle<StandardMaterial>,
+}
+
+/// Colour of highlights (selection, picked elements): a saturated blue, apart from every
+/// band of the utilisation ramp.
+pub const HIGHLIGHT: Color = Color::srgb(0.0, 0.45, 1.0);
+
+/// Load case colours of arrows: grey, indigo, green (none of them on the utilisation ramp).
+pub const CASE_COLOURS: [[u8; 3]; 3] = [[0x5a, 0x5a, 0x5a], [0x33, 0x4a, 0xa8], [0x1f, 0x7a, 0x4a]];
+
+fn srgb([r, g, b]: [u8; 3]) -> Color {
+    Color::srgb_u8(r, g, b)
+}
+
+fn unlit(materials: &mut Assets<StandardMaterial>, c: Color) -> Handle<StandardMaterial> {
+    materials.add(StandardMaterial { base_color: c, unlit: true, ..default() })
+}
+
+fn lit(materials: &mut Assets<StandardMaterial>, c: Color, roughness: f32) -> Handle<StandardMaterial> {
+    materials.add(StandardMaterial { base_color: c, perceptual_roughness: roughness, metallic: 0.0, ..default() })
+}
+
+fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut materials: ResMut<Assets<StandardMaterial>>) {
+    let m = &mut *materials;
+    let translucent = |m: &mut Assets<StandardMaterial>, c: Color| m.add(StandardMaterial { base_color: c, alpha_mode: AlphaMode::Blend, double_sided: true, cull_mode: None, unlit: true, ..default() });
+    let assets = ViewAssets {
+        bar: meshes.add(Cylinder::new(1.0, 1.0)),
+        cone: meshes.add(Cone { radius: 1.0, height: 1.0 }),
+        cube: meshes.add(Cuboid::new(1.0, 1.0, 1.0)),
+        cog: meshes.add(cog_mesh()),
+        ground: meshes.add(Plane3d::default().mesh().size(1.0, 1.0)),
+        cues: HashMap::new(),
+        bands: Band::ALL.map(|b| unlit(m, srgb(b.colour()))),
+        bands_lit: Band::ALL.map(|b| lit(m, srgb(b.colour()), 0.7)),
+        no_result: unlit(m, Color::srgb_u8(0x9a, 0x9a, 0x9a)),
+        steel: lit(m, Color::srgb_u8(0x8c, 0x93, 0x9b), 0.45),
+        ledger: lit(m, Color::srgb_u8(0x74, 0x7c, 0x86), 0.5),
+        transom: lit(m, Color::srgb_u8(0x9e, 0x8f, 0x7a), 0.5),
+        brace: lit(m, Color::srgb_u8(0x6f, 0x8a, 0x6f), 0.5),
+        deck: translucent(m, Color::srgba_u8(0xb8, 0x9a, 0x6a, 0x30)),
+        loads: CASE_COLOURS.map(|c| lit(m, srgb(c), 0.6)),
+        sheets: CASE_COLOURS.map(|[r, g, b]| translucent(m, Color::srgba_u8(r, g, b, 0x14))),
+        selected: unlit(m, HIGHLIGHT),
+        // The cue meshes carry their own black and white vertex colours.
+        cue: unlit(m, Color::WHITE),
+        // Unlit, so the ground keeps one known colour under any light: never white, which is
+        // the colour of the cues.
+        ground_mat: unlit(m, Color::srgb_u8(0xbf, 0xbc, 0xb4)),
+    };
+    // The ground: a large plane under everything, scaled to the scene when it is drawn.
+    commands.spawn((Mesh3d(assets.ground.clone()), MeshMaterial3d(assets.ground_mat.clone()), Transform::from_scale(Vec3::ZERO), GroundPlane, RenderLayers::layer(SCENE_LAYER)));
+    commands.insert_resource(assets);
+}
+
+/// Marks the ground plane.
+#[derive(Component)]
+pub struct GroundPlane;
+
+/// Gizmos drawn on top (highlights, picked elements).
+#[derive(Default, Reflect, GizmoConfigGroup)]
+pub struct OnTopGizmos;
+
+fn configure_gizmos(mut store: ResMut<GizmoConfigStore>) {
+    let (cfg, _) = store.config_mut::<OnTopGizmos>();
+    cfg.render_layers = RenderLayers::layer(ON_TOP_LAYER);
+    cfg.line.width = 2.0;
+    cfg.depth_bias = -1.0;
+    let (cfg, _) = store.config_mut::<DefaultGizmoConfigGroup>();
+    cfg.render_layers = RenderLayers::layer(SCENE_LAYER);
+    cfg.line.width = 1.0;
+}
+
+/// Flat disc in quarters, black and white: the usual centre-of-gravity mark. Radius 1.
+fn cog_mesh() -> Mesh {
+    let mut pos = Vec::new();
+    let mut col = Vec::new();
+    let seg = 12;
+    for q in 0..4 {
+        let c = if q % 2 == 0 { [0.0, 0.0, 0.0, 1.0] } else { [1.0, 1.0, 1.0, 1.0] };
+        for i in 0..seg {
+            let a0 = (q * seg + i) as f32 / (4 * seg) as f32 * std::f32::consts::TAU;
+            let a1 = (q * seg + i + 1) as f32 / (4 * seg) as f32 * std::f32::consts::TAU;
+            pos.extend([[0.0, 0.0, 0.0], [a1.cos(), 0.0, a1.sin()], [a0.cos(), 0.0, a0.sin()]]);
+            col.extend([c; 3]);
+        }
+    }
+    flat_mesh(pos, col)
+}
+
+/// A horizontal triangle list facing up, with vertex colours.
+fn flat_mesh(pos: Vec<[f32; 3]>, col: Vec<[f32; 4]>) -> Mesh {
+    let n = pos.len();
+    Mesh::new(PrimitiveTopology::TriangleList, RenderAssetUsages::default())
+        .with_inserted_attribute(Mesh::ATTRIBUTE_POSITION, pos)
+        .with_inserted_attribute(Mesh::ATTRIBUTE_NORMAL, vec![[0.0f32, 1.0, 0.0]; n])
+        .with_inserted_attribute(Mesh::ATTRIBUTE_COLOR, col)
+        .with_inserted_indices(Indices::U32((0..n as u32).collect()))
+}
+
+
+/// Over-capacity frame (square, black–white–black) and uplift ring (round, the same bands)
+/// around a plate footprint of half sizes `hx` × `hy` (bevy x, z), in metres.
+fn cue_meshes(hx: f64, hy: f64) -> (Mesh, Mesh) {
+    let black = [0.0, 0.0, 0.0, 1.0];
+    let white = [1.0, 1.0, 1.0, 1.0];
+    // Bands outwards from the gap: black edge, white, black edge (m).
+    let bands = [(0.0, CUE_EDGE_M, black), (CUE_EDGE_M, CUE_BAND_M - CUE_EDGE_M, white), (CUE_BAND_M - CUE_EDGE_M, CUE_BAND_M, black)];
+    let (mut pos, mut col) = (Vec::new(), Vec::new());
+    // Square frame: four trapezoids per band.
+    for (a, b, c) in bands {
+        let (i, o) = (CUE_GAP_M + a, CUE_GAP_M + b);
+        let ix = (hx + i) as f32;
+        let iy = (hy + i) as f32;
+        let ox = (hx + o) as f32;
+        let oy = (hy + o) as f32;
+        let corners_in = [[-ix, -iy], [ix, -iy], [ix, iy], [-ix, iy]];
+        let corners_out = [[-ox, -oy], [ox, -oy], [ox, oy], [-ox, oy]];
+        for k in 0..4 {
+            let (a0, a1) = (corners_in[k], corners_in[(k + 1) % 4]);
+            let (b0, b1) = (corners_out[k], corners_out[(k + 1) % 4]);
+            for p in [b0, b1, a1, b0, a1, a0] {
+                pos.push([p[0], 0.0, p[1]]);
+                col.push(c);
+            }
+        }
+    }
+    let frame = flat_mesh(fix_winding(pos), col);
+    // Round ring around the frame's corners.
+    let r0 = pick::uplift_ring_radius(hx, hy);
+    let (mut pos, mut col) = (Vec::new(), Vec::new());
+    let seg = 48;
+    for (a, b, c) in bands {
+        let (ri, ro) = ((r0 + a) as f32, (r0 + b) as f32);
+        for s in 0..seg {
+            let t0 = s as f32 / seg as f32 * std::f32::consts::TAU;
+            let t1 = (s + 1) as f32 / seg as f32 * std::f32::consts::TAU;
+            let p = |r: f32, t: f32| [r * t.cos(), 0.0, r * t.sin()];
+            for q in [p(ro, t0), p(ro, t1), p(ri, t1), p(ro, t0), p(ri, t1), p(ri, t0)] {
+                pos.push(q);
+                col.push(c);
+            }
+        }
+    }
+    (frame, flat_mesh(fix_winding(pos), col))
+}
+
+/// Make every triangle face up (+y), whatever order its corners were listed in.
+fn fix_winding(mut pos: Vec<[f32; 3]>) -> Vec<[f32; 3]> {
+    for t in pos.chunks_mut(3) {
+        let (a, b, c) = (Vec3::from(t[0]), Vec3::from(t[1]), Vec3::from(t[2]));
+        if (b - a).cross(c - a).y < 0.0 {
+            t.swap(1, 2);
+        }
+    }
+    pos
+}
+
+/// Transform of a unit mesh (bar or cone along +y, centred; cube 1 m) for a solid.
+fn prim_transform(prim: &Prim) -> Option<Transform> {
+    match *prim {
+        Prim::Bar { a, b, radius } | Prim::Cone { base: a, tip: b, radius } => {
+            let (a, b) = (to_bevy(a), to_bevy(b));
+            let d = b - a;
+            let len = d.length();
+            if !(len > 1e-6 && len.is_finite()) {
+                return None;
+            }
+            let rot = Quat::from_rotation_arc(Vec3::Y, d / len);
+            Some(Transform { translation: (a + b) / 2.0, rotation: rot, scale: Vec3::new(radius as f32, len, radius as f32) })
+        }
+        Prim::Cuboid { min, max } => {
+            let (a, b) = (to_bevy(min), to_bevy(max));
+            let size = (b - a).abs();
+            (size.is_finite()).then(|| Transform { translation: (a + b) / 2.0, rotation: Quat::IDENTITY, scale: size.max(Vec3::splat(1e-4)) })
+        }
+    }
+}
+
+/// Whether a shape is drawn on top of everything.
+fn on_top(part: Part) -> bool {
+    matches!(part, Part::BasePlate | Part::SolePlate)
+}
+
+/// What an entity should draw, borrowed from the scene: compared with the last frame's keys
+/// without building a key, so an edit costs no allocation per unchanged entity.
+#[derive(Clone, Copy)]
+enum Want<'a> {
+    Shape(&'a ElementRef, Part, u32),
+    Over(&'a str),
+    Uplift(&'a str),
+    Arrow(&'a str),
+    Cog,
+}
+
+impl Want<'_> {
+    fn matches(&self, k: &DrawKey) -> bool {
+        match (self, k) {
+            (Want::Shape(e, p, i), DrawKey::Shape(ke, kp, ki)) => p == kp && i == ki && *e == ke,
+            (Want::Over(id), DrawKey::OverCue(k)) | (Want::Uplift(id), DrawKey::UpliftCue(k)) | (Want::Arrow(id), DrawKey::UpliftArrow(k)) => *id == k,
+            (Want::Cog, DrawKey::CentreOfGravity) => true,
+            _ => false,
+        }
+    }
+    fn key(&self) -> DrawKey {
+        match *self {
+            Want::Shape(e, p, i) => DrawKey::Shape(e.clone(), p, i),
+            Want::Over(id) => DrawKey::OverCue(id.to_owned()),
+            Want::Uplift(id) => DrawKey::UpliftCue(id.to_owned()),
+            Want::Arrow(id) => DrawKey::UpliftArrow(id.to_owned()),
+            Want::Cog => DrawKey::CentreOfGravity,
+        }
+    }
+}
+
+/// Matching this frame's wanted entities against last frame's, in order.
+struct Reconcile {
+    old: Vec<Option<(DrawKey, Entity)>>,
+    cursor: usize,
+    order: Vec<(DrawKey, Entity)>,
+    reused: bevy::ecs::entity::EntityHashSet,
+    spawned: usize,
+    updated: usize,
+}
+
+/// How far ahead of the expected position a wanted entity is looked for before the hash map:
+/// enough to step over a few deleted elements.
+const LOOKAHEAD: usize = 8;
+
+impl Reconcile {
+    /// The entity for `want`: last frame's (moved if needed) or a new one.
+    #[allow(clippy::too_many_arguments)]
+    fn place(
+        &mut self,
+        want: Want,
+        mesh: &Handle<Mesh>,
+        t: Transform,
+        layer: usize,
+        hidden: bool,
+        map: &mut HashMap<DrawKey, Entity>,
+        commands: &mut Commands,
+        transforms: &mut Query<(&mut Transform, &mut Mesh3d), (With<DrawnPart>, Without<GroundPlane>)>,
+        material: &Handle<StandardMaterial>,
+    ) -> Entity {
+        let hit = (0..=LOOKAHEAD).map(|d| self.cursor + d).find(|&i| matches!(self.old.get(i), Some(Some((k, _))) if want.matches(k)));
+        let found = match hit {
+            Some(i) => {
+                self.cursor = i + 1;
+                self.old[i].take()
+            }
+            None => {
+                let key = want.key();
+                map.get(&key).copied().map(|e| (key, e))
+            }
+        };
+        if let Some((key, e)) = found {
+            if let Ok((mut tr, mut m)) = transforms.get_mut(e) {
+                if *tr != t {
+                    *tr = t;
+                    self.updated += 1;
+                }
+                if m.0 != *mesh {
+                    m.0 = mesh.clone();
+                }
+            }
+            self.reused.insert(e);
+            self.order.push((key, e));
+            return e;
+        }
+        let key = want.key();
+        self.spawned += 1;
+        let vis = if hidden { Visibility::Hidden } else { Visibility::Inherited };
+        let e = commands.spawn((DrawnPart(key.clone()), Mesh3d(mesh.clone()), MeshMaterial3d(material.clone()), t, vis, RenderLayers::layer(layer))).id();
+        map.insert(key.clone(), e);
+        self.reused.insert(e);
+        self.order.push((key, e));
+        e
+    }
+}
+
+/// Make the entities follow the scene: update what moved, spawn what is new, despawn what went.
+#[allow(clippy::too_many_arguments)]
+fn sync_entities(
+    mut commands: Commands,
+    doc: Res<SceneDoc>,
+    view: Res<ViewState>,
+    mut shapes: ResMut<SceneShapes>,
+    mut drawn: ResMut<Drawn>,
+    mut assets: ResMut<ViewAssets>,
+    mut meshes: ResMut<Assets<Mesh>>,
+    mut transforms: Query<(&mut Transform, &mut Mesh3d), (With<DrawnPart>, Without<GroundPlane>)>,
+    mut ground: Query<&mut Transform, With<GroundPlane>>,
+) {
+    let shown = (view.settings.show_loads, view.settings.show_decks);
+    if drawn.revision == doc.revision && drawn.shown == shown && drawn.revision != 0 {
+        return;
+    }
+    let started = std::time::Instant::now();
+    let analysis = doc.analysis();
+    let mut opts = ShapeOptions::for_scene(&doc.scene, analysis);
+    opts.loads = view.settings.show_loads;
+    let mut list = pick::shapes(&doc.scene, &opts, analysis);
+    if !view.settings.show_decks {
+        list.retain(|s| s.part != Part::Deck);
+    }
+    let (lo, hi) = pick::structure_bounds(&doc.scene);
+    let ground_z = doc.scene.posts.iter().map(|p| p.base_level).fold(f64::INFINITY, f64::min);
+    let ground_z = if ground_z.is_finite() { ground_z - opts.sole_plate_thickness_m - 0.002 } else { 0.0 };
+    let drawn = &mut *drawn;
+    let material = assets.no_result.clone();
+    let old = std::mem::take(&mut drawn.order);
+    let mut rc = Reconcile { old: old.into_iter().map(Some).collect(), cursor: 0, order: Vec::with_capacity(drawn.entities.len()), reused: default(), spawned: 0, updated: 0 };
+    let post_index: HashMap<&str, usize> = doc.scene.posts.iter().enumerate().map(|(i, p)| (p.id.as_str(), i)).collect();
+    let mut plate_vec: Vec<PlateEntities> = vec![PlateEntities::default(); doc.scene.posts.len()];
+    let map = &mut drawn.entities;
+    for s in &list {
+        let Some(t) = prim_transform(&s.prim) else { continue };
+        let mesh = match s.prim {
+            Prim::Bar { .. } => &assets.bar,
+            Prim::Cone { .. } => &assets.cone,
+            Prim::Cuboid { .. } => &assets.cube,
+        };
+        let layer = if on_top(s.part) { ON_TOP_LAYER } else { SCENE_LAYER };
+        let e = rc.place(Want::Shape(&s.element, s.part, s.index), mesh, t, layer, false, map, &mut commands, &mut transforms, &material);
+        if s.element.kind == ElementKind::Post {
+            if let Some(&i) = post_index.get(s.element.id.as_str()) {
+                match s.part {
+                    Part::Post => plate_vec[i].post = Some(e),
+                    Part::BasePlate | Part::SolePlate => plate_vec[i].plates.push(e),
+                    _ => {}
+                }
+            }
+        }
+    }
+    // Cues around each plate footprint (the larger of base and sole plate), hidden until a
+    // result calls for them.
+    let supports: HashMap<&str, &plateload::model::SupportType> = doc.scene.support_types.iter().map(|s| (s.id.as_str(), s)).collect();
+    let mut cue_reach = 0.0f64;
+    for (i, p) in doc.scene.posts.iter().enumerate() {
+        let Some(s) = p.support.as_deref().and_then(|s| supports.get(s)) else { continue };
+        let b = s.bearing_plate();
+        let (hx, hy) = ((b.width_m.max(s.base_plate.width_m)) / 2.0, (b.length_m.max(s.base_plate.length_m)) / 2.0);
+        if !(hx.is_finite() && hy.is_finite() && hx > 0.0 && hy > 0.0) {
+            continue;
+        }
+        cue_reach = cue_reach.max(pick::uplift_ring_radius(hx, hy) + CUE_BAND_M - hx.min(hy));
+        let key = ((hx * 2000.0).round() as i64, (hy * 2000.0).round() as i64);
+        let (frame, ring) = assets.cues.entry(key).or_insert_with(|| {
+            let (f, r) = cue_meshes(hx, hy);
+            (meshes.add(f), meshes.add(r))
+        });
+        let (frame, ring) = (frame.clone(), ring.clone());
+        let at = to_bevy([p.x, p.y, p.base_level + opts.base_plate_thickness_m + 0.001]);
+        let t = Transform::from_translation(at);
+        let over = rc.place(Want::Over(&p.id), &frame, t, ON_TOP_LAYER, true, map, &mut commands, &mut transforms, &material);
+        let ring_e = rc.place(Want::Uplift(&p.id), &ring, t, ON_TOP_LAYER, true, map, &mut commands, &mut transforms, &material);
+        // An upward cone standing above the plate: uplift reads in elevation too.
+        let h = (0.5 * hx.hypot(hy) + 0.15).min(0.6);
+        let cone = Prim::Cone { base: [p.x, p.y, p.base_level + 0.35], tip: [p.x, p.y, p.base_level + 0.35 + h], radius: 0.35 * h };
+        // In the scene layer: seen from above it stays under the plate, so never hides its colour.
+        let arrow_e = prim_transform(&cone).map(|t| rc.place(Want::Arrow(&p.id), &assets.cone, t, SCENE_LAYER, true, map, &mut commands, &mut transforms, &material));
+        plate_vec[i].over = Some(over);
+        plate_vec[i].uplift = std::iter::once(ring_e).chain(arrow_e).collect();
+    }
+    if let Some((x, y)) = analysis.and_then(|a| a.stability.centre_of_gravity) {
+        let r = (0.02 * (hi[0] - lo[0]).max(hi[1] - lo[1])).clamp(0.12, 1.5) as f32;
+        let t = Transform::from_translation(to_bevy([x, y, ground_z + 0.004])).with_scale(Vec3::new(r, 1.0, r));
+        rc.place(Want::Cog, &assets.cog, t, ON_TOP_LAYER, false, map, &mut commands, &mut transforms, &material);
+    }
+    // Whatever last frame had and this one does not want goes.
+    let mut removed = 0;
+    for (k, e) in rc.old.into_iter().flatten() {
+        if !rc.reused.contains(&e) {
+            map.remove(&k);
+            commands.entity(e).despawn();
+            removed += 1;
+        }
+    }
+    if let Ok(mut g) = ground.single_mut() {
+        let pad = 4.0 + 0.3 * (hi[0] - lo[0]).max(hi[1] - lo[1]);
+        let (cx, cy) = ((lo[0] + hi[0]) / 2.0, (lo[1] + hi[1]) / 2.0);
+        let t = Transform::from_translation(to_bevy([cx, cy, ground_z - 0.002])).with_scale(Vec3::new((hi[0] - lo[0] + 2.0 * pad) as f32, 1.0, (hi[1] - lo[1] + 2.0 * pad) as f32));
+        if *g != t {
+            *g = t;
+        }
+    }
+    // The by-id table of plate entities only changes when entities came or went.
+    if rc.spawned + removed > 0 || drawn.plates.len() != doc.scene.posts.len() {
+        drawn.plates = doc.scene.posts.iter().zip(plate_vec).map(|(p, pe)| (p.id.clone(), pe)).collect();
+    }
+    drawn.order = rc.order;
+    drawn.revision = doc.revision;
+    drawn.shown = shown;
+    drawn.last_sync = [rc.spawned, rc.updated, removed];
+    drawn.last_times[0] = started.elapsed();
+    // Frame the cues too: the ring around a lifting plate reaches past its corners.
+    let reach = cue_reach.max(0.0);
+    shapes.bounds = pick::shapes_bounds(&list).map(|(lo, hi)| ([lo[0] - reach, lo[1] - reach, lo[2]], [hi[0] + reach, hi[1] + reach, hi[2]]));
+    shapes.shapes = list;
+    shapes.ground_z = ground_z;
+    shapes.options = Some(opts);
+}
+
+/// Utilisation and findings of a plate in the chosen combination (`None`: governing).
+pub fn reading(plate: &PlateResult, combination: Option<usize>) -> (f64, PlateStatus) {
+    match combination.and_then(|c| plate.combinations.get(c)) {
+        Some(c) => (c.utilisation, c.status),
+        None => (plate.governing().utilisation, plate.status),
+    }
+}
+
+/// Set every entity's material from the results, the selection and the settings.
+#[allow(clippy::too_many_arguments)]
+fn recolour(
+    doc: Res<SceneDoc>,
+    view: Res<ViewState>,
+    selection: Res<Selection>,
+    tools: Res<ToolState>,
+    mut drawn: ResMut<Drawn>,
+    assets: Res<ViewAssets>,
+    mut parts: Query<(&DrawnPart, &mut MeshMaterial3d<StandardMaterial>, &mut Visibility)>,
+) {
+    let key = ColourKey {
+        sync_revision: drawn.revision,
+        solved_revision: doc.solved_revision,
+        combination: view.settings.combination,
+        colour_posts: view.settings.colour_posts,
+        selection: selection.items.clone(),
+        picked: tools.picked.clone(),
+    };
+    if drawn.coloured.as_ref() == Some(&key) {
+        return;
+    }
+    let started = std::time::Instant::now();
+    let analysis = doc.analysis();
+    let readings: HashMap<&str, (f64, PlateStatus)> = analysis.map(|a| a.plates.iter().map(|p| (p.id.as_str(), reading(p, key.combination))).collect()).unwrap_or_default();
+    let selected: HashSet<&ElementRef> = selection.items.iter().collect();
+    let picked: HashSet<&str> = tools.picked.iter().map(String::as_str).collect();
+    for (part, mut mat, mut vis) in &mut parts {
+        let (want, show) = match &part.0 {
+            DrawKey::Shape(e, p, _) => {
+                let sel = selected.contains(e) || picked.contains(e.id.as_str());
+                let band = readings.get(e.id.as_str()).map(|r| Band::of(r.0) as usize);
+                let m = match p {
+                    // A selected plate keeps its colour; it is outlined instead.
+                    Part::BasePlate | Part::SolePlate => match band {
+                        Some(b) => &assets.bands[b],
+                        None => &assets.no_result,
+                    },
+                    _ if sel => &assets.selected,
+                    Part::Post => match band {
+                        Some(b) if key.colour_posts => &assets.bands_lit[b],
+                        _ => &assets.steel,
+                    },
+                    Part::Bearer(BeamRole::Bearer) => &assets.steel,
+                    Part::Bearer(BeamRole::Ledger) => &assets.ledger,
+                    Part::Bearer(BeamRole::Transom) => &assets.transom,
+                    Part::Brace => &assets.brace,
+                    Part::Deck => &assets.deck,
+                    Part::LoadArrow | Part::LoadSpread => {
+                        let case = match e.kind {
+                            ElementKind::Load => doc.scene.loads.iter().find(|l| l.id == e.id).map_or(Case::G, |l| l.case),
+                            _ => Case::G,
+                        };
+                        if *p == Part::LoadArrow { &assets.loads[case.index()] } else { &assets.sheets[case.index()] }
+                    }
+                };
+                (m, true)
+            }
+            DrawKey::OverCue(id) => (&assets.cue, readings.get(id.as_str()).is_some_and(|r| matches!(Cue::of(r.1), Cue::Over | Cue::OverAndUplift))),
+            DrawKey::UpliftCue(id) | DrawKey::UpliftArrow(id) => {
+                let m = if matches!(part.0, DrawKey::UpliftArrow(_)) { &assets.loads[0] } else { &assets.cue };
+                (m, readings.get(id.as_str()).is_some_and(|r| matches!(Cue::of(r.1), Cue::Uplift | Cue::OverAndUplift)))
+            }
+            DrawKey::CentreOfGravity => (&assets.cue, true),
+        };
+        if mat.0 != *want {
+            mat.0 = want.clone();
+        }
+        let v = if show { Visibility::Inherited } else { Visibility::Hidden };
+        if *vis != v {
+            *vis = v;
+        }
+    }
+    drawn.coloured = Some(key);
+    drawn.last_times[1] = started.elapsed();
+}
+
+/// Metric grid on the ground: 1 m lines, every 5 m darker.
+fn draw_grid(mut gizmos: Gizmos, shapes: Res<SceneShapes>) {
+    let Some((lo, hi)) = shapes.bounds else { return };
+    let pad = 2.0;
+    let (x0, x1) = ((lo[0] - pad).floor(), (hi[0] + pad).ceil());
+    let (y0, y1) = ((lo[1] - pad).floor(), (hi[1] + pad).ceil());
+    let z = shapes.ground_z;
+    // At most a few hundred lines: coarser steps on large sites.
+    let span = (x1 - x0).max(y1 - y0);
+    let step = if span > 400.0 { 10.0 } else if span > 120.0 { 5.0 } else { 1.0 };
+    let minor = Color::srgba(0.25, 0.25, 0.25, 0.35);
+    let major = Color::srgba(0.15, 0.15, 0.15, 0.75);
+    let mut x = (x0 / step).floor() * step;
+    while x <= x1 {
+        let c = if (x / (5.0 * step)).round() * 5.0 * step == x { major } else { minor };
+        gizmos.line(to_bevy([x, y0, z]), to_bevy([x, y1, z]), c);
+        x += step;
+    }
+    let mut y = (y0 / step).floor() * step;
+    while y <= y1 {
+        let c = if (y / (5.0 * step)).round() * 5.0 * step == y { major } else { minor };
+        gizmos.line(to_bevy([x0, y, z]), to_bevy([x1, y, z]), c);
+        y += step;
+    }
+}
+
+/// Outline the hovered element, and the selected ones.
+fn draw_highlights(mut gizmos: Gizmos<OnTopGizmos>, shapes: Res<SceneShapes>, selection: Res<Selection>) {
+    // Boxes are outlined by a rectangle on their top face, a little outside it, so a plate's
+    // colour stays visible inside its highlight.
+    let mut outline = |s: &Shape, c: Color, pad: f64| match s.prim {
+        Prim::Cuboid { min, max } => {
+            let z = max[2];
+            let corners = [[min[0] - pad, min[1] - pad], [max[0] + pad, min[1] - pad], [max[0] + pad, max[1] + pad], [min[0] - pad, max[1] + pad]];
+            for k in 0..4 {
+                let (a, b) = (corners[k], corners[(k + 1) % 4]);
+                gizmos.line(to_bevy([a[0], a[1], z]), to_bevy([b[0], b[1], z]), c);
+            }
+        }
+        Prim::Bar { a, b, .. } | Prim::Cone { base: a, tip: b, .. } => {
+            gizmos.line(to_bevy(a), to_bevy(b), c);
+        }
+    };
+    if let Some(h) = &selection.hovered {
+        for s in shapes.shapes.iter().filter(|s| &s.element == h) {
+            outline(s, Color::srgb(1.0, 0.55, 0.0), 0.02);
+        }
+    }
+    if !selection.items.is_empty() {
+        let sel: HashSet<&ElementRef> = selection.items.iter().collect();
+        // A selected post's plate footprint, outlined outside any cue so its colour shows.
+        let pad = CUE_GAP_M + CUE_BAND_M + 0.03;
+        for s in shapes.shapes.iter().filter(|s| sel.contains(&s.element) && s.part == Part::SolePlate) {
+            outline(s, HIGHLIGHT, pad);
+        }
+        for s in shapes.shapes.iter().filter(|s| sel.contains(&s.element) && s.part == Part::BasePlate) {
+            // Without a sole plate the base plate is the footprint.
+            if !shapes.shapes.iter().any(|o| o.element == s.element && o.part == Part::SolePlate) {
+                outline(s, HIGHLIGHT, pad);
+            }
+        }
+    }
+}
