@@ -400,6 +400,17 @@ fn handle_actions(
                 }
                 None => status.error("the scene cannot be solved, so there is no schedule to write; see the problems listed"),
             },
+            Action::WriteReport { path, note } => match doc.analysis() {
+                Some(a) => {
+                    let source = doc.path.as_ref().and_then(|p| p.file_name()).map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
+                    let opts = plateload::report::ReportOptions { revision_note: note, date: plateload::report::today_utc(), source, ..Default::default() };
+                    match plateload::report::save_report(&path, &doc.scene, a, &opts) {
+                        Ok(()) => status.info(format!("wrote the report of {} base plates to {}", a.plates.len(), path.display())),
+                        Err(e) => status.error(format!("could not write {}: {e}", path.display())),
+                    }
+                }
+                None => status.error("the scene cannot be solved, so there is no report to write; see the problems listed"),
+            },
             Action::Quit => {
                 if doc.is_dirty() {
                     if !prompts.0.iter().any(|p| matches!(p, Prompt::Unsaved { then: Then::Quit })) {

@@ -89,6 +89,13 @@ pub enum Action {
     },
     /// Write the support-load schedule CSV.
     ExportSchedule(PathBuf),
+    /// Write the printable HTML report, with a revision note for its title block.
+    WriteReport {
+        /// The file.
+        path: PathBuf,
+        /// Revision note.
+        note: String,
+    },
     /// Close the editor (asks first if there are unsaved changes).
     Quit,
     /// Answer to "unsaved changes": carry on with `then`, saving first if `save` is set.

@@ -355,3 +355,24 @@ fn inspector_drags_merge_into_one_undo_step() {
     act(&mut app, Action::Undo);
     assert_eq!(doc(&app).scene, before);
 }
+
+#[test]
+fn schedule_and_report_are_written_from_the_editor() {
+    // common practice, no source: the exports carry the caution and one entry per base plate
+    let dir = temp_dir("exports");
+    let mut app = app_with(demo(), None);
+    let csv = dir.join("site.schedule.csv");
+    let html = dir.join("site.report.html");
+    act(&mut app, Action::ExportSchedule(csv.clone()));
+    act(&mut app, Action::WriteReport { path: html.clone(), note: "Rev C <for ground check>".into() });
+    let n = doc(&app).scene.posts.len();
+    let schedule = std::fs::read_to_string(&csv).expect("schedule written");
+    assert!(schedule.contains(plateload::CAUTION));
+    assert_eq!(schedule.lines().filter(|l| l.starts_with(|c: char| c.is_ascii_uppercase()) && l.contains(",jack-")).count(), n);
+    let report = std::fs::read_to_string(&html).expect("report written");
+    assert!(report.contains("PLANNING AID ONLY"), "the report carries the caution");
+    assert!(report.contains("Rev C &lt;for ground check&gt;"), "the revision note, escaped");
+    for p in &doc(&app).scene.posts {
+        assert!(report.contains(&p.id), "report names plate {}", p.id);
+    }
+}

@@ -1,5 +1,5 @@
 //! A small file dialog (a path field and the scene files of its folder), for open, save as and
-//! the schedule export. It needs no desktop toolkit, so it works the same on every platform.
+//! the schedule and report exports. It needs no desktop toolkit, so it works the same on every platform.
 
 use std::path::{Path, PathBuf};
 
@@ -19,6 +19,8 @@ pub enum Purpose {
     SaveAs,
     /// Write the support-load schedule.
     Schedule,
+    /// Write the printable report (HTML).
+    Report,
 }
 
 /// The dialog's state.
@@ -32,6 +34,8 @@ pub struct FileDialog {
     pub path: String,
     /// What to do after saving (when the save was asked for by "unsaved changes").
     pub then: Option<Then>,
+    /// Revision note for the report's title block.
+    pub note: String,
 }
 
 impl FileDialog {
@@ -47,8 +51,10 @@ impl FileDialog {
             Purpose::Open => doc.path.as_ref().and_then(|p| p.parent()).map_or_else(|| "./".into(), |d| format!("{}/", d.display())),
             Purpose::SaveAs => doc.path.clone().unwrap_or_else(|| PathBuf::from(format!("{stem}.ron"))).display().to_string(),
             Purpose::Schedule => with_extension(doc.path.as_deref(), "schedule.csv", &stem).display().to_string(),
+            Purpose::Report => with_extension(doc.path.as_deref(), "report.html", &stem).display().to_string(),
         };
-        *self = FileDialog { open: true, purpose, path, then };
+        let note = std::mem::take(&mut self.note);
+        *self = FileDialog { open: true, purpose, path, then, note };
     }
 
     /// Draw the dialog if shown.
@@ -57,11 +63,12 @@ impl FileDialog {
             return;
         }
         let _ = doc;
-        let Self { open, purpose, path, then } = self;
+        let Self { open, purpose, path, then, note } = self;
         let title = match purpose {
             Purpose::Open => "Open a scene",
             Purpose::SaveAs => "Save the scene as",
             Purpose::Schedule => "Export the support-load schedule (CSV)",
+            Purpose::Report => "Write the printable load report (HTML)",
         };
         let mut done = false;
         let mut keep_open = true;
@@ -73,10 +80,20 @@ impl FileDialog {
                     done = true;
                 }
             });
-            // The .ron (or .csv) files next to the typed path, to click instead of typing.
+            if *purpose == Purpose::Report {
+                ui.horizontal(|ui| {
+                    ui.label("Revision note:");
+                    ui.add(egui::TextEdit::singleline(note).desired_width(360.0).hint_text("e.g. Rev B: sole boards under row 3"));
+                });
+            }
+            // The .ron (or .csv, .html) files next to the typed path, to click instead of typing.
             let typed = Path::new(path.as_str());
             let dir = if path.ends_with('/') || typed.is_dir() { typed.to_path_buf() } else { typed.parent().filter(|p| !p.as_os_str().is_empty()).unwrap_or(Path::new(".")).to_path_buf() };
-            let ext = if *purpose == Purpose::Schedule { "csv" } else { "ron" };
+            let ext = match purpose {
+                Purpose::Schedule => "csv",
+                Purpose::Report => "html",
+                Purpose::Open | Purpose::SaveAs => "ron",
+            };
             let mut entries: Vec<(bool, PathBuf)> = std::fs::read_dir(&dir)
                 .map(|rd| {
                     rd.filter_map(Result::ok)
@@ -108,7 +125,7 @@ impl FileDialog {
                 let verb = match purpose {
                     Purpose::Open => "Open",
                     Purpose::SaveAs => "Save",
-                    Purpose::Schedule => "Export",
+                    Purpose::Schedule | Purpose::Report => "Write",
                 };
                 if ui.button(verb).clicked() {
                     done = true;
@@ -130,6 +147,7 @@ impl FileDialog {
                 Purpose::Open => actions.push(Action::Open(p)),
                 Purpose::SaveAs => actions.push(Action::SaveAs { path: p, then: then.take() }),
                 Purpose::Schedule => actions.push(Action::ExportSchedule(p)),
+                Purpose::Report => actions.push(Action::WriteReport { path: p, note: note.clone() }),
             }
             *open = false;
         }

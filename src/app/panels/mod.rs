@@ -222,10 +222,10 @@ fn menu_bar(ui: &mut egui::Ui, doc: &SceneDoc, selection: &Selection, view: &mut
                 panels.files.open_for(files::Purpose::Schedule, doc);
                 ui.close();
             }
-            // REPORT: the HTML report (`plateload::report`, written in parallel) plugs in here:
-            // open the file dialog with a `.html` default and write the report of
-            // `doc.analysis()` atomically, like the schedule export above.
-            ui.add_enabled(false, egui::Button::new("Write report…")).on_disabled_hover_text("The HTML report is not part of this build yet.");
+            if ui.add_enabled(doc.analysis().is_some(), egui::Button::new("Write report…")).clicked() {
+                panels.files.open_for(files::Purpose::Report, doc);
+                ui.close();
+            }
             ui.separator();
             if ui.button("Quit  (Ctrl+Q)").clicked() {
                 actions.push(Action::Quit);
