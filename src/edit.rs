@@ -25,7 +25,7 @@ use std::fmt;
 use crate::combination::Combination;
 use crate::layout::{add_layout, LayoutSpec};
 use crate::loads::{Load, LoadKind};
-use crate::model::{Bearer, Brace, Deck, ElementKind, Post, Scene, Site, StabilitySettings, SupportType};
+use crate::model::{AnalysisSettings, Bearer, Brace, Deck, ElementKind, Post, Scene, Site, StabilitySettings, SupportType};
 
 /// One element of a scene named by kind and id.
 #[derive(Debug, Clone, PartialEq, Eq, Hash)]
@@ -198,6 +198,8 @@ pub enum Edit {
     SetCombinations(Vec<Combination>),
     /// Set the stability check settings.
     SetStability(StabilitySettings),
+    /// Set how members are analysed (simple spans, continuous or the envelope) and their stiffness.
+    SetAnalysis(AnalysisSettings),
     /// Add a generated layout; with `replace`, every element of the scene is removed first
     /// (site, combinations and settings stay).
     ApplyLayout {
@@ -232,6 +234,7 @@ impl Edit {
             Edit::SetSite(_) => "edit site".into(),
             Edit::SetCombinations(_) => "edit combinations".into(),
             Edit::SetStability(_) => "edit stability settings".into(),
+            Edit::SetAnalysis(_) => "edit analysis method".into(),
             Edit::ApplyLayout { spec, replace } => {
                 let what = format!("{} × {} bay layout", spec.bays_x, spec.bays_y);
                 if *replace { format!("replace scene with {what}") } else { format!("add {what}") }
@@ -346,6 +349,7 @@ enum Change {
     Site(Site),
     Combinations(Vec<Combination>),
     Stability(StabilitySettings),
+    Analysis(AnalysisSettings),
 }
 
 fn change(scene: &mut Scene, c: Change) -> Change {
@@ -394,6 +398,7 @@ fn change(scene: &mut Scene, c: Change) -> Change {
         Change::Site(s) => Change::Site(std::mem::replace(&mut scene.site, s)),
         Change::Combinations(c) => Change::Combinations(std::mem::replace(&mut scene.combinations, c)),
         Change::Stability(s) => Change::Stability(std::mem::replace(&mut scene.stability, s)),
+        Change::Analysis(a) => Change::Analysis(std::mem::replace(&mut scene.analysis, a)),
     }
 }
 
@@ -432,6 +437,10 @@ impl Tx<'_> {
             }
             Edit::SetStability(s) => {
                 self.make(Change::Stability(*s));
+                Ok(())
+            }
+            Edit::SetAnalysis(a) => {
+                self.make(Change::Analysis(*a));
                 Ok(())
             }
             Edit::ApplyLayout { spec, replace } => self.layout(spec, *replace),

@@ -130,13 +130,13 @@ enum Command {
 /// Directions of view of a picture.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
 enum PictureView {
-    /// Isometric from the south-west.
+    /// Isometric, seen from −x, −y and above.
     Iso,
-    /// Plan, north up.
+    /// Plan, +y up.
     Plan,
-    /// Elevation looking north.
+    /// Elevation looking along +y, x to the right.
     Front,
-    /// Elevation looking west.
+    /// Elevation looking along −x, y to the right.
     Side,
 }
 

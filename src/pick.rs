@@ -624,13 +624,13 @@ pub fn ray_plane_z(ray: &Ray, z: f64) -> Option<[f64; 2]> {
 /// Named viewing directions.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
 pub enum ViewPreset {
-    /// Isometric from the south-west (from −x, −y, above).
+    /// Isometric, seen from −x, −y and above.
     Iso,
     /// Plan, looking down, +y up the screen.
     Plan,
-    /// Elevation looking north (+y), x to the right.
+    /// Elevation looking along +y, x to the right.
     Front,
-    /// Elevation looking west (−x), y to the right.
+    /// Elevation looking along −x, y to the right.
     Side,
 }
 

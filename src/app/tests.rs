@@ -376,3 +376,24 @@ fn schedule_and_report_are_written_from_the_editor() {
         assert!(report.contains(&p.id), "report names plate {}", p.id);
     }
 }
+
+#[test]
+fn the_analysis_method_is_an_undoable_edit_and_the_results_name_it() {
+    // source: two equal spans under uniform load, middle support 10/8 wL continuous against
+    // 1.0 wL on simple spans (beam tables) — so switching the method must change some plate
+    let mut app = app_with(demo(), None);
+    let env = doc(&app).analysis().unwrap().method_count();
+    assert!(env > 1, "the demo is solved as an envelope by default");
+    let mut settings = doc(&app).scene.analysis;
+    settings.method = plateload::BeamMethod::SimpleSpans;
+    act(&mut app, Action::Edit { edit: Edit::SetAnalysis(settings), merge: None, select: None });
+    let simple = doc(&app).analysis().unwrap();
+    assert_eq!(simple.method_count(), 1);
+    assert_eq!(simple.method_label(0), "simple spans");
+    let max_simple: Vec<f64> = simple.plates.iter().map(|p| p.governing().max_kn).collect();
+    act(&mut app, Action::Undo);
+    let back = doc(&app).analysis().unwrap();
+    assert_eq!(back.method_count(), env);
+    let changed = back.plates.iter().zip(&max_simple).filter(|(p, s)| p.governing().max_kn > **s + 1e-9).count();
+    assert!(changed > 0, "continuity raises some plate's maximum");
+}

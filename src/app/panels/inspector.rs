@@ -4,7 +4,7 @@
 use bevy_egui::egui;
 use plateload::edit::{dependants, DeleteMode, Edit, Element};
 use plateload::loads::{Case, Face, Intensity, LoadKind, PlanDirection};
-use plateload::model::{BeamRole, ElementKind, PlateSize, Rect};
+use plateload::model::{BeamMethod, BeamRole, ElementKind, PlateSize, Rect};
 use plateload::palette::Band;
 use plateload::Scene;
 
@@ -202,6 +202,7 @@ impl InspectorPanel {
                 f.num(ui, "Overhang at start", &mut b.overhang_start_m, 0.01, " m");
                 f.num(ui, "Overhang at end", &mut b.overhang_end_m, 0.01, " m");
                 f.num(ui, "Self-weight", &mut b.self_weight_kn_per_m, 0.001, " kN/m");
+                method_choice(ui, "bearer-method", &mut b.method, scene.analysis.method);
             }
             Element::Deck(d) => {
                 committed |= f.text(ui, "Id", &mut d.id);
@@ -212,6 +213,7 @@ impl InspectorPanel {
                 f.num(ui, "Extent y to", &mut d.extent.y.1, 0.01, " m");
                 committed |= f.ids(ui, "Bearers (across the span)", &mut d.bearers);
                 f.num(ui, "Self-weight", &mut d.self_weight_kpa, 0.01, " kPa");
+                method_choice(ui, "deck-method", &mut d.method, scene.analysis.method);
             }
             Element::Brace(b) => {
                 committed |= f.text(ui, "Id", &mut b.id);
@@ -390,6 +392,21 @@ fn face_ui(ui: &mut egui::Ui, f: &mut Fields, face: &mut Face) {
     f.num(ui, "Face top", &mut face.top, 0.01, " m");
 }
 
+/// A member's own analysis method, or the scene's.
+fn method_choice(ui: &mut egui::Ui, salt: &str, method: &mut Option<BeamMethod>, scene_method: BeamMethod) {
+    ui.label("Analysis");
+    let text = |m: Option<BeamMethod>| match m {
+        None => format!("as the scene ({})", scene_method.label()),
+        Some(m) => m.label().to_string(),
+    };
+    egui::ComboBox::from_id_salt(salt).selected_text(text(*method)).show_ui(ui, |ui| {
+        for m in [None, Some(BeamMethod::SimpleSpans), Some(BeamMethod::Continuous), Some(BeamMethod::Envelope)] {
+            ui.selectable_value(method, m, text(m));
+        }
+    });
+    ui.end_row();
+}
+
 /// The base plate's results: loads per case, every combination, utilisation and bearing.
 pub fn plate_results(ui: &mut egui::Ui, doc: &SceneDoc, id: &str) {
     ui.separator();
@@ -407,17 +424,31 @@ pub fn plate_results(ui: &mut egui::Ui, doc: &SceneDoc, id: &str) {
     });
     let by = if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" };
     ui.label(format!("Governed by {by} in “{}”.", a.combinations[p.governing].name));
+    let i = a.plate_index(id).unwrap_or(0);
+    if a.method_count() > 1 {
+        ui.label(format!("Method: the maximum comes from {}, the minimum from {}.", a.governing_method_label(i), a.min_method_label(i)));
+    } else {
+        ui.label(format!("Method: {}.", a.method_label(0)));
+    }
     egui::Grid::new("plate-cases").num_columns(4).striped(true).show(ui, |ui| {
         ui.label("");
         for c in Case::ALL {
             ui.strong(format!("{c} kN"));
         }
         ui.end_row();
-        ui.label("vertical (up +)");
+        ui.label(if a.method_count() > 1 { format!("{} (up +)", a.method_label(0)) } else { "vertical (up +)".to_string() });
         for c in Case::ALL {
             ui.label(format!("{:.3}", p.case_kn[c.index()]));
         }
         ui.end_row();
+        // Each further method pass, so the effect of continuity on this plate can be read off.
+        for (m, loads) in p.case_kn_by_method.iter().enumerate().skip(1) {
+            ui.label(a.method_label(m));
+            for c in Case::ALL {
+                ui.label(format!("{:.3}", loads[c.index()]));
+            }
+            ui.end_row();
+        }
     });
     egui::Grid::new("plate-combs").num_columns(6).striped(true).show(ui, |ui| {
         for h in ["combination", "max kN", "min kN", "util %", "kPa", "status"] {

@@ -260,7 +260,7 @@ fn menu_bar(ui: &mut egui::Ui, doc: &SceneDoc, selection: &Selection, view: &mut
         });
         ui.menu_button("View", |ui| {
             use plateload::pick::ViewPreset as P;
-            for (label, p) in [("Isometric  (1)", P::Iso), ("Plan  (2)", P::Plan), ("Elevation, looking north  (3)", P::Front), ("Elevation, looking west  (4)", P::Side)] {
+            for (label, p) in [("Isometric  (1)", P::Iso), ("Plan  (2)", P::Plan), ("Elevation, looking along +y  (3)", P::Front), ("Elevation, looking along −x  (4)", P::Side)] {
                 if ui.button(label).clicked() {
                     actions.push(Action::View(super::ViewRequest::Preset(p)));
                     ui.close();

@@ -94,7 +94,7 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
     let c = comb.unwrap_or(p.governing).min(p.combinations.len().saturating_sub(1));
     let pc = &p.combinations[c];
     let text = format!(
-        "base plate {} — {:.1} % {}\nG {:.2} kN · Q {:.2} kN · W {:.2} kN\n{}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\nbearing {:.1} kPa of {:.0} kPa allowed",
+        "base plate {} — {:.1} % {}\nG {:.2} kN · Q {:.2} kN · W {:.2} kN\n{}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\nbearing {:.1} kPa of {:.0} kPa allowed\nmax by {}",
         p.id,
         100.0 * u,
         st.label(),
@@ -106,7 +106,8 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
         pc.min_kn,
         p.swl_kn,
         pc.bearing_kpa,
-        p.allowable_kpa
+        p.allowable_kpa,
+        a.method_label(pc.max_method)
     );
     let g = painter.layout_no_wrap(text, FontId::proportional(13.0), Color32::BLACK);
     let size = g.size() + Vec2::new(20.0, 10.0);

@@ -181,10 +181,10 @@ impl ResultsPanel {
                         }
                     }
                 };
-                let widths = [70.0, 60.0, 60.0, 62.0, 62.0, 62.0, 75.0, 75.0, 62.0, 68.0, 80.0, 90.0];
+                let widths = [70.0, 60.0, 60.0, 62.0, 62.0, 62.0, 75.0, 75.0, 62.0, 68.0, 80.0, 90.0, 230.0];
                 let row_h = 20.0;
                 ui.horizontal(|ui| {
-                    let cols: [(&str, Option<SortBy>); 12] = [
+                    let cols: [(&str, Option<SortBy>); 13] = [
                         ("base", Some(SortBy::Id)),
                         ("x m", None),
                         ("y m", None),
@@ -197,6 +197,7 @@ impl ResultsPanel {
                         ("kPa", Some(SortBy::Bearing)),
                         ("governs", None),
                         ("status", None),
+                        ("method (for max)", None),
                     ];
                     for ((label, by), w) in cols.into_iter().zip(widths) {
                         ui.allocate_ui(egui::vec2(w, row_h), |ui| match by {
@@ -230,6 +231,7 @@ impl ResultsPanel {
                                     format!("{:.1}", pc.bearing_kpa),
                                     a.combinations[c].name.clone(),
                                     status.label().to_string(),
+                                    a.method_label(pc.max_method).to_string(),
                                 ];
                                 for (k, (text, w)) in cells.into_iter().zip(widths).enumerate() {
                                     ui.allocate_ui(egui::vec2(w, row_h), |ui| {

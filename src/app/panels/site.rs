@@ -4,7 +4,7 @@
 use bevy_egui::egui;
 use plateload::combination::{Combination, Factors};
 use plateload::edit::{place, Edit, Element, ElementRef};
-use plateload::model::{ElementKind, GranularLayer, LoadSpread};
+use plateload::model::{BeamMethod, ElementKind, GranularLayer, LoadSpread};
 use plateload::Scene;
 
 use crate::app::Action;
@@ -93,6 +93,17 @@ impl SitePanel {
             if r.changed() {
                 push(actions, Edit::SetStability(st), "stability", &r);
             }
+            ui.label("Members analysed as");
+            let mut analysis = scene.analysis;
+            egui::ComboBox::from_id_salt("method").selected_text(method_text(analysis.method)).show_ui(ui, |ui| {
+                for m in [BeamMethod::Envelope, BeamMethod::SimpleSpans, BeamMethod::Continuous] {
+                    ui.selectable_value(&mut analysis.method, m, method_text(m));
+                }
+            });
+            ui.end_row();
+            if analysis != scene.analysis {
+                actions.push(Action::Edit { edit: Edit::SetAnalysis(analysis), merge: None, select: None });
+            }
         });
 
         ui.separator();
@@ -148,5 +159,14 @@ impl SitePanel {
             let sel = vec![ElementRef::new(ElementKind::SupportType, &s.id)];
             actions.push(Action::Edit { edit: Edit::Add(Element::SupportType(s)), merge: None, select: Some(sel) });
         }
+    }
+}
+
+/// Words for a member analysis method in the site panel.
+fn method_text(m: BeamMethod) -> &'static str {
+    match m {
+        BeamMethod::Envelope => "envelope: the worse of simple spans and continuous",
+        BeamMethod::SimpleSpans => "simple spans (jointed at every support)",
+        BeamMethod::Continuous => "continuous over their supports",
     }
 }
