@@ -5,8 +5,8 @@
 use std::hint::black_box;
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use plateload::beam::BeamLoad;
-use plateload::continuous::ContinuousBeam;
+use plateload::solve::beam::BeamLoad;
+use plateload::solve::continuous::ContinuousBeam;
 
 /// Spans 1.0–2.0 m from a fixed sequence (no randomness crate needed), cumulative positions.
 fn supports(spans: usize, seed: u64) -> Vec<f64> {

@@ -12,7 +12,7 @@ use std::time::{Duration, Instant};
 
 use bevy::prelude::*;
 use plateload::edit::{Edit, ElementRef};
-use plateload::layout::{generate, LayoutSpec};
+use plateload::scene::layout::{generate, LayoutSpec};
 
 /// Target for one edit → recoloured ECS update.
 const TARGET: Duration = Duration::from_millis(16);
@@ -40,8 +40,8 @@ fn main() {
         let mut v = Vec::new();
         for _ in 0..20 {
             let t = Instant::now();
-            let opts = plateload::pick::ShapeOptions::for_scene(&scene, an.as_ref());
-            let sh = plateload::pick::shapes(&scene, &opts, an.as_ref());
+            let opts = plateload::edit::pick::ShapeOptions::for_scene(&scene, an.as_ref());
+            let sh = plateload::edit::pick::shapes(&scene, &opts, an.as_ref());
             std::hint::black_box(&sh);
             v.push(t.elapsed());
         }
@@ -67,7 +67,7 @@ fn main() {
                     case: plateload::Case::Q,
                     kind: plateload::LoadKind::PostTop { post: "T26".into(), kn: 25.0 },
                 })),
-                (true, _) => Edit::Delete { targets: vec![ElementRef::new(plateload::model::ElementKind::Load, format!("bench-{}", i - 1))], mode: Default::default() },
+                (true, _) => Edit::Delete { targets: vec![ElementRef::new(plateload::scene::model::ElementKind::Load, format!("bench-{}", i - 1))], mode: Default::default() },
                 // A whole line moves, so every member stays straight and the scene solves.
                 (false, k) => Edit::Move { targets: column.clone(), by: [if k == 0 { 0.25 } else { -0.25 }, 0.0, 0.0] },
             };

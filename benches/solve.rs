@@ -3,8 +3,8 @@
 //! Target: 10,000 posts in under 20 ms with simple spans (one pass over the members). Run: `cargo bench --no-default-features --bench solve`.
 
 use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion};
-use plateload::layout::{generate, LayoutSpec};
-use plateload::model::BeamMethod;
+use plateload::scene::layout::{generate, LayoutSpec};
+use plateload::scene::model::BeamMethod;
 
 fn falsework(posts_per_side: usize, method: BeamMethod) -> plateload::Scene {
     let spec = LayoutSpec { bays_x: posts_per_side - 1, bays_y: posts_per_side - 1, bay_x_m: 1.5, bay_y_m: 1.2, lifts: 3, lift_m: 1.8, deck_lifts: vec![3], ..LayoutSpec::default() };
@@ -30,7 +30,7 @@ fn bench_method(c: &mut Criterion, name: &str, method: BeamMethod) {
         group.bench_with_input(BenchmarkId::from_parameter(format!("{posts} posts")), &scene, |b, scene| {
             b.iter(|| {
                 let analysis = plateload::analyse(scene).expect("generated scenes are valid");
-                let csv = plateload::schedule::schedule_csv(&analysis);
+                let csv = plateload::export::schedule::schedule_csv(&analysis);
                 std::hint::black_box(csv.len())
             })
         });

@@ -14,8 +14,8 @@
 use std::io::Read;
 use std::time::Instant;
 
-use plateload::beam::BeamLoad;
-use plateload::continuous::ContinuousBeam;
+use plateload::solve::beam::BeamLoad;
+use plateload::solve::continuous::ContinuousBeam;
 
 #[derive(serde::Deserialize)]
 struct Input {

@@ -1,57 +1,45 @@
 //! # plateload — base-plate loads of scaffolds and falsework
 //!
 //! The engine behind the editor and the command line. It holds no display code. Data flows one
-//! way:
+//! way, one folder per stage; a stage never imports from a later one:
 //!
-//! - **model** ([`Scene`]): site and ground, support types, posts, bearers, decks, braces,
-//!   loads tagged G / Q / W, combinations — plain data, read and written as RON by [`io`].
-//! - **validate** ([`validate()`]): every problem at once, with element ids; resolves ids to
-//!   indices and sets up member lines ([`Model`]).
-//! - **solve** ([`solve()`]): each load item is carried deck strip → bearer → post → base plate,
-//!   by segment moment balance ([`beam`]) or over continuous members ([`continuous`]) — both, in
-//!   separate method passes, by default; horizontal loads go to the plates through the rigid
-//!   braced base ([`rigid_base`]). Every share is kept for tracing ([`trace`]).
-//! - **check** ([`analyse`]): combinations, the worse method pass at every plate, uplift,
-//!   utilisation of jack and ground, equilibrium proof per case and pass, stability ([`stability`]).
-//! - **export**: the support-load schedule ([`schedule`]), JSON ([`json`]) and the printable
-//!   HTML report ([`report`]).
-//! - **editing** (for the editor shell): undoable commands ([`edit`]), drawing geometry, ray
-//!   picking and the view camera ([`pick`]), recovery copies of unsaved work ([`recovery`]).
+//! 1. **[`scene`]** — what the planner lays out and loads ([`Scene`]): site and ground, support
+//!    types, posts, bearers, decks, braces, loads tagged G / Q / W, combinations; read and
+//!    written as RON ([`scene::io`]); validated with every problem listed by element id
+//!    ([`validate()`]), which resolves ids to indices ([`Model`]).
+//! 2. **[`solve`](mod@solve)** — each load item carried deck strip → bearer → post → base plate
+//!    ([`solve::load_path`]), by segment moment balance ([`solve::beam`]) or over continuous
+//!    members ([`solve::continuous`]), both in separate method passes by default; horizontal
+//!    loads through the braced base ([`solve::rigid_base`]). Every share is kept for tracing.
+//! 3. **[`check`]** — combinations per plate, the worse method pass at every plate, uplift,
+//!    utilisation of jack and ground ([`check::plates`]), stability ([`check::stability`]) and the
+//!    equilibrium proof ([`check::equilibrium`](mod@check::equilibrium)); [`analyse`] runs stages 1–3 in one call.
+//! 4. **[`export`]** — the support-load schedule, JSON, the printable report, the trace of one
+//!    plate, and the colour ramp shared with the view.
+//!
+//! Beside them, **[`edit`]** holds the editor's pure helpers: undoable commands, drawing geometry,
+//! ray picking, recovery copies.
+//!
+//! To find where a number is computed: loads and their values come from `scene/`, reactions
+//! from `solve/`, maxima, minima, utilisations and factors of safety from `check/`, and only
+//! formatting in `export/`.
 //!
 //! Units: m, kN, kPa, kN·m. Results are a planning aid; see [`CAUTION`].
 #![warn(missing_docs)]
 
-pub mod analysis;
-pub mod beam;
 pub mod check;
-pub mod combination;
-pub mod continuous;
-pub mod demo;
 pub mod edit;
+pub mod export;
 mod fxhash;
-pub mod io;
-pub mod json;
-pub mod layout;
-pub mod loads;
-pub mod model;
-pub mod palette;
-pub mod pick;
-pub mod recovery;
-pub mod report;
-pub mod rigid_base;
-pub mod schedule;
+pub mod scene;
 pub mod solve;
-pub mod stability;
-pub mod trace;
-pub mod validate;
 
-pub use analysis::{analyse, Analysis, AnalysisError, CaseEquilibrium, PlateResult};
-pub use check::Status;
-pub use combination::{Combination, Factors};
-pub use loads::{Case, Intensity, Load, LoadKind, PlanDirection};
-pub use model::{AnalysisSettings, BeamMethod, Bearer, Brace, Deck, Post, Rect, Scene, Site, SupportType};
+pub use check::{analyse, Analysis, AnalysisError, CaseEquilibrium, PlateResult, Status};
+pub use scene::{
+    validate, AnalysisSettings, BeamMethod, Bearer, Brace, Case, Combination, Deck, Factors, Intensity, Load, LoadKind, Model, PlanDirection, Post, Problem, Rect, Scene,
+    Site, SupportType, ValidationError,
+};
 pub use solve::{solve, Solution, SolveError};
-pub use validate::{validate, Model, Problem, ValidationError};
 
 /// The caution shown with every result: in the editor, the command line and every export.
 pub const CAUTION: &str = "PLANNING AID ONLY: these results are for planning. The design must be checked by a competent temporary-works designer against local codes and site data.";

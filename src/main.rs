@@ -7,7 +7,7 @@ use std::process::ExitCode;
 
 use anyhow::Context;
 use clap::{Parser, Subcommand};
-use plateload::{analyse, io, Analysis, AnalysisError, Scene, CAUTION};
+use plateload::{analyse, scene::io, Analysis, AnalysisError, Scene, CAUTION};
 
 #[cfg(feature = "viewer")]
 mod app;
@@ -173,7 +173,7 @@ fn run() -> anyhow::Result<ExitCode> {
         Command::Solve { file, json, strict } => {
             let (_, analysis) = load_and_analyse(&file)?;
             if json {
-                println!("{}", plateload::json::analysis_json(&analysis));
+                println!("{}", plateload::export::json::analysis_json(&analysis));
             } else {
                 print!("{}", solve_text(&analysis));
             }
@@ -181,7 +181,7 @@ fn run() -> anyhow::Result<ExitCode> {
         }
         Command::Schedule { file, output, strict } => {
             let (_, analysis) = load_and_analyse(&file)?;
-            let csv = plateload::schedule::schedule_csv(&analysis);
+            let csv = plateload::export::schedule::schedule_csv(&analysis);
             match output {
                 Some(path) => {
                     io::write_atomic(&path, csv.as_bytes()).with_context(|| format!("writing {}", path.display()))?;
@@ -203,17 +203,17 @@ fn run() -> anyhow::Result<ExitCode> {
                     Some(bytes)
                 }
             };
-            let opts = plateload::report::ReportOptions {
+            let opts = plateload::export::report::ReportOptions {
                 revision_note: note,
-                date: date.unwrap_or_else(plateload::report::today_utc),
+                date: date.unwrap_or_else(plateload::export::report::today_utc),
                 source: file.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default(),
                 picture_png,
                 paper: match paper {
-                    PaperArg::A4 => plateload::report::Paper::A4,
-                    PaperArg::A3 => plateload::report::Paper::A3,
+                    PaperArg::A4 => plateload::export::report::Paper::A4,
+                    PaperArg::A3 => plateload::export::report::Paper::A3,
                 },
             };
-            plateload::report::save_report(&output, &scene, &analysis, &opts).with_context(|| format!("writing {}", output.display()))?;
+            plateload::export::report::save_report(&output, &scene, &analysis, &opts).with_context(|| format!("writing {}", output.display()))?;
             eprintln!("wrote the report of {} base plates to {}", analysis.plates.len(), output.display());
             eprintln!("{CAUTION}");
             Ok(strict_code(strict, &analysis))
@@ -225,11 +225,11 @@ fn run() -> anyhow::Result<ExitCode> {
                 anyhow::bail!("no base plate \"{base}\" in {} (some ids: {})", file.display(), known.join(", "));
             };
             println!("{CAUTION}\n");
-            print!("{}", plateload::trace::trace_text(&scene, &analysis, plate));
+            print!("{}", plateload::export::trace::trace_text(&scene, &analysis, plate));
             Ok(ExitCode::SUCCESS)
         }
         Command::Demo { name } => {
-            let demos = plateload::demo::DEMO_SCENES;
+            let demos = plateload::scene::demo::DEMO_SCENES;
             match name {
                 None => {
                     for (file, _) in demos {
@@ -411,8 +411,8 @@ fn tidy(v: f64) -> f64 {
 fn edit(file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
     let scene = match &file {
         Some(path) if path.exists() => read(path)?,
-        Some(_) => plateload::demo::default_scene(),
-        None => plateload::demo::default_scene(),
+        Some(_) => plateload::scene::demo::default_scene(),
+        None => plateload::scene::demo::default_scene(),
     };
     app::run(scene, file)?;
     Ok(ExitCode::SUCCESS)
@@ -420,7 +420,7 @@ fn edit(file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
 
 #[cfg(feature = "viewer")]
 fn snapshot(scene: Scene, out: PathBuf, (w, h): (u32, u32), view: PictureView, combination: Option<usize>, (settle_frames, timing_edits): (u32, u32), (camera_out, editor_ui, select): (Option<PathBuf>, bool, Option<String>)) -> anyhow::Result<ExitCode> {
-    use plateload::pick::ViewPreset;
+    use plateload::edit::pick::ViewPreset;
     let view = match view {
         PictureView::Iso => ViewPreset::Iso,
         PictureView::Plan => ViewPreset::Plan,

@@ -1,7 +1,7 @@
 //! Combinations, utilisation against the entered capacities, schedule and JSON.
 
-use plateload::loads::{Case, LoadKind};
-use plateload::model::{GranularLayer, LoadSpread, PlateSize};
+use plateload::scene::loads::{Case, LoadKind};
+use plateload::scene::model::{GranularLayer, LoadSpread, PlateSize};
 use plateload::analyse;
 
 use crate::util::*;
@@ -58,7 +58,7 @@ fn schedule_totals_equal_the_applied_load() {
     // common practice, no source: ΣR = ΣP per case.
     for (name, scene) in demo_scenes() {
         let a = analyse(&scene).unwrap();
-        let csv = plateload::schedule::schedule_csv(&a);
+        let csv = plateload::export::schedule::schedule_csv(&a);
         assert!(csv.contains(plateload::CAUTION), "{name}: schedule must carry the caution");
         assert!(csv.is_ascii(), "{name}: schedule must be plain ASCII for spreadsheets");
         let mut rdr = csv::ReaderBuilder::new().has_headers(false).flexible(true).from_reader(csv.as_bytes());
@@ -83,9 +83,9 @@ fn schedule_totals_equal_the_applied_load() {
 #[test]
 fn json_has_the_documented_shape() {
     // common practice, no source: the documented fields are present for every base.
-    let scene = plateload::io::read_scene(&scene_path("larkfield-falsework.ron")).unwrap();
+    let scene = plateload::scene::io::read_scene(&scene_path("larkfield-falsework.ron")).unwrap();
     let a = analyse(&scene).unwrap();
-    let v: serde_json::Value = serde_json::from_str(&plateload::json::analysis_json(&a)).unwrap();
+    let v: serde_json::Value = serde_json::from_str(&plateload::export::json::analysis_json(&a)).unwrap();
     assert_eq!(v["plateload_json"], 1);
     assert_eq!(v["caution"], plateload::CAUTION);
     let bases = v["bases"].as_array().unwrap();

@@ -96,7 +96,7 @@ fn demos_can_be_listed_and_printed() {
     let (out, _) = text(&o);
     assert!(out.lines().count() >= 3 && out.contains("larkfield-falsework"));
     let o = plateload(&["demo", "tannery-loading-bay"]);
-    let s = plateload::io::parse_scene(&String::from_utf8(o.stdout).unwrap(), "stdout").unwrap();
+    let s = plateload::scene::io::parse_scene(&String::from_utf8(o.stdout).unwrap(), "stdout").unwrap();
     assert!(!s.posts.is_empty());
 }
 

@@ -1,9 +1,9 @@
 //! Continuous members in whole scenes: the method envelope, per-member overrides, equilibrium of
 //! every method pass, outputs that name the method, and old scene files.
 
-use plateload::io::parse_scene;
-use plateload::loads::{Case, Intensity, Load, LoadKind};
-use plateload::model::{BeamMethod, BeamRole, Bearer, Deck, Post, Rect, Scene, SupportType, PlateSize};
+use plateload::scene::io::parse_scene;
+use plateload::scene::loads::{Case, Intensity, Load, LoadKind};
+use plateload::scene::model::{BeamMethod, BeamRole, Bearer, Deck, Post, Rect, Scene, SupportType, PlateSize};
 use plateload::{analyse, Analysis};
 
 fn post(id: &str, x: f64, y: f64) -> Post {
@@ -191,7 +191,7 @@ fn deck_point_load_reaches_every_bearer_of_a_continuous_deck() {
 #[test]
 fn every_method_pass_is_in_equilibrium() {
     // common practice, no source: each method conserves force and moment; relative ≤ 1e-9.
-    let mut scenes: Vec<Scene> = (0..plateload::demo::DEMO_SCENES.len()).map(|i| plateload::demo::demo_scene(i).unwrap()).collect();
+    let mut scenes: Vec<Scene> = (0..plateload::scene::demo::DEMO_SCENES.len()).map(|i| plateload::scene::demo::demo_scene(i).unwrap()).collect();
     scenes.push(deck_on_three_bearers());
     let mut with_overhang = three_span_bearer(BeamMethod::Envelope);
     with_overhang.bearers[0].overhang_end_m = 0.8;
@@ -221,7 +221,7 @@ fn schedule_json_and_trace_name_the_method() {
     // common practice, no source
     let s = three_span_bearer(BeamMethod::Envelope);
     let a = analyse(&s).unwrap();
-    let csv = plateload::schedule::schedule_csv(&a);
+    let csv = plateload::export::schedule::schedule_csv(&a);
     let mut rows = csv.lines().skip_while(|l| !l.starts_with("id,"));
     let head: Vec<&str> = rows.next().unwrap().split(',').collect();
     let col = head.iter().position(|h| *h == "method for max").expect("method column");
@@ -232,13 +232,13 @@ fn schedule_json_and_trace_name_the_method() {
     // The totals row still equals the applied load (primary pass case columns).
     let total = csv.lines().find(|l| l.starts_with("TOTAL")).unwrap();
     assert!(total.contains(",18.000,"), "{total}");
-    let json: serde_json::Value = serde_json::from_str(&plateload::json::analysis_json(&a)).unwrap();
+    let json: serde_json::Value = serde_json::from_str(&plateload::export::json::analysis_json(&a)).unwrap();
     assert_eq!(json["methods"], serde_json::json!(["simple spans", "continuous"]));
     assert_eq!(json["bases"][1]["governing_method"], "continuous");
     assert_eq!(json["bases"][1]["combinations"][0]["max_method"], "continuous");
     assert_eq!(json["bases"][1]["cases_kn_by_method"][1]["Q"].as_f64().map(|v| (v - 6.6).abs() < 1e-9), Some(true));
     assert_eq!(json["equilibrium_by_method"].as_array().map(Vec::len), Some(2));
-    let trace = plateload::trace::trace_text(&s, &a, 1);
+    let trace = plateload::export::trace::trace_text(&s, &a, 1);
     assert!(trace.contains("method: continuous"), "{trace}");
     assert!(trace.contains("bearer B, continuous over 4 posts"), "{trace}");
     assert!(trace.contains("total Q: 6.600 kN (plate load 6.600 kN)"), "{trace}");
@@ -256,25 +256,25 @@ fn two_post_bearers_give_the_same_loads_by_both_methods() {
     let a = analyse(&s).unwrap();
     assert_eq!(a.method_count(), 2);
     assert!(a.plates.iter().all(|p| p.methods_agree));
-    assert_eq!(a.governing_method_label(0), plateload::analysis::METHODS_AGREE);
+    assert_eq!(a.governing_method_label(0), plateload::check::analysis::METHODS_AGREE);
 }
 
 #[test]
 fn old_scene_files_load_and_new_fields_round_trip() {
     // common practice, no source: files without the new fields still load; the defaults are not
     // written back; unknown fields are still refused.
-    let text = plateload::demo::DEMO_SCENES[0].1;
+    let text = plateload::scene::demo::DEMO_SCENES[0].1;
     assert!(!text.contains("analysis"));
     let s = parse_scene(text, "demo").unwrap();
     assert_eq!(s.analysis.method, BeamMethod::Envelope);
     assert!(s.bearers.iter().all(|b| b.method.is_none()));
-    let written = plateload::io::scene_to_ron(&s);
+    let written = plateload::scene::io::scene_to_ron(&s);
     assert!(!written.contains("analysis") && !written.contains("method"), "defaults are left out");
 
     let mut t = three_span_bearer(BeamMethod::Continuous);
     t.bearers[0].method = Some(BeamMethod::SimpleSpans);
     t.analysis.stiffness.deck_knm2_per_m = 12.0;
-    let back = parse_scene(&plateload::io::scene_to_ron(&t), "t").unwrap();
+    let back = parse_scene(&plateload::scene::io::scene_to_ron(&t), "t").unwrap();
     assert_eq!(back, t);
 
     let bad = text.replacen("format: 1,", "format: 1,\n  analysis: (method: Envelope, speed: 3),", 1);
@@ -300,8 +300,8 @@ fn default_stiffness_values() {
     // source: 48.3 × 4.0 tube (EN 39 dimensions), I = π(D⁴ − d⁴)/64 = 13.77 cm⁴; E = 210 GPa
     // (EN 1993-1-1 cl. 3.2.6, from memory) → EI ≈ 28.91 kN·m². 38 mm boards, E = 11 GPa (C24, EN
     // 338, from memory) → 50.30 kN·m² per metre.
-    let i_cm4 = plateload::model::TUBE_I_M4 * 1e8;
+    let i_cm4 = plateload::scene::model::TUBE_I_M4 * 1e8;
     assert!((i_cm4 - 13.77).abs() < 0.01, "{i_cm4}");
-    assert!((plateload::model::TUBE_EI_KNM2 - 28.91).abs() < 0.01);
-    assert!((plateload::model::BOARD_EI_KNM2_PER_M - 50.30).abs() < 0.01);
+    assert!((plateload::scene::model::TUBE_EI_KNM2 - 28.91).abs() < 0.01);
+    assert!((plateload::scene::model::BOARD_EI_KNM2_PER_M - 50.30).abs() < 0.01);
 }

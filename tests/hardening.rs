@@ -7,9 +7,9 @@
 use std::sync::mpsc;
 use std::time::{Duration, Instant};
 
-use plateload::loads::Face;
-use plateload::model::{PostNode, StabilitySettings};
-use plateload::{analyse, io, Analysis, Case, Intensity, Load, LoadKind, PlanDirection, Rect, Scene};
+use plateload::scene::loads::Face;
+use plateload::scene::model::{PostNode, StabilitySettings};
+use plateload::{analyse, scene::io, Analysis, Case, Intensity, Load, LoadKind, PlanDirection, Rect, Scene};
 use proptest::prelude::*;
 use proptest::test_runner::{Config, RngAlgorithm, TestRng, TestRunner};
 
@@ -45,7 +45,7 @@ fn within<T: Send + 'static>(budget: Duration, f: impl FnOnce() -> T + Send + 's
 }
 
 fn demo_texts() -> Vec<&'static str> {
-    plateload::demo::DEMO_SCENES.iter().map(|(_, t)| *t).collect()
+    plateload::scene::demo::DEMO_SCENES.iter().map(|(_, t)| *t).collect()
 }
 
 /// Every number a successful analysis reports must be finite: a NaN or infinity in a schedule
@@ -97,13 +97,13 @@ fn exercise(scene: &Scene) {
     match analyse(scene) {
         Ok(a) => {
             assert_finite(&a);
-            let _ = plateload::schedule::schedule_csv(&a);
-            let _ = plateload::json::analysis_json(&a);
-            let opts = plateload::report::ReportOptions { date: "2026-01-01".into(), ..Default::default() };
-            let html = plateload::report::report_html(scene, &a, &opts);
+            let _ = plateload::export::schedule::schedule_csv(&a);
+            let _ = plateload::export::json::analysis_json(&a);
+            let opts = plateload::export::report::ReportOptions { date: "2026-01-01".into(), ..Default::default() };
+            let html = plateload::export::report::report_html(scene, &a, &opts);
             assert!(html.contains("PLANNING AID ONLY"));
             if let Some(w) = a.worst_plate() {
-                let _ = plateload::trace::trace_text(scene, &a, w);
+                let _ = plateload::export::trace::trace_text(scene, &a, w);
             }
             // What was analysed can be saved and read back unchanged.
             let text = io::scene_to_ron(scene);
@@ -318,7 +318,7 @@ fn numbers_mut(s: &mut Scene) -> Vec<&mut f64> {
     v.push(&mut s.site.allowable_bearing_kpa);
     if let Some(l) = &mut s.site.granular_layer {
         v.push(&mut l.thickness_m);
-        if let plateload::model::LoadSpread::AngleDeg(a) = &mut l.spread {
+        if let plateload::scene::model::LoadSpread::AngleDeg(a) = &mut l.spread {
             v.push(a);
         }
     }
@@ -636,7 +636,7 @@ fn scene_gen() -> impl Strategy<Value = SceneGen> {
 /// loads of every kind.
 fn build(g: &SceneGen) -> Scene {
     let deck_lifts: Vec<usize> = (1..=g.lifts).filter(|l| g.deck_mask & (1 << (l - 1)) != 0).collect();
-    let spec = plateload::layout::LayoutSpec {
+    let spec = plateload::scene::layout::LayoutSpec {
         bays_x: g.bays.0,
         bays_y: g.bays.1,
         bay_x_m: g.bay_m.0,
@@ -649,7 +649,7 @@ fn build(g: &SceneGen) -> Scene {
         duty_class: g.duty,
         ..Default::default()
     };
-    let mut s = plateload::layout::generate("generated", 150.0, &spec);
+    let mut s = plateload::scene::layout::generate("generated", 150.0, &spec);
     let (x0, y0) = g.origin;
     let (x1, y1) = (x0 + g.bays.0 as f64 * g.bay_m.0, y0 + g.bays.1 as f64 * g.bay_m.1);
     // Overhanging ledgers under the decks, and decks reaching onto the overhangs and past the
@@ -1110,8 +1110,8 @@ fn reactions_follow_a_mirrored_or_moved_scene() {
 
 /// A small valid scene: a braced 2 × 1 bay birdcage with a deck.
 fn small() -> Scene {
-    let spec = plateload::layout::LayoutSpec { bays_x: 2, bays_y: 1, lifts: 1, deck_lifts: vec![1], ..Default::default() };
-    plateload::layout::generate("small", 100.0, &spec)
+    let spec = plateload::scene::layout::LayoutSpec { bays_x: 2, bays_y: 1, lifts: 1, deck_lifts: vec![1], ..Default::default() };
+    plateload::scene::layout::generate("small", 100.0, &spec)
 }
 
 /// The analysis error text, which must mention every `needles`.
@@ -1196,8 +1196,8 @@ fn mechanism_in_the_horizontal_system_is_refused() {
 
     // Two towers side by side, not joined: refused for horizontal load, accepted without.
     let mut s = small();
-    let spec2 = plateload::layout::LayoutSpec { bays_x: 1, bays_y: 1, lifts: 1, deck_lifts: vec![1], origin: (10.0, 0.0), id_prefix: "T2-".into(), ..Default::default() };
-    plateload::layout::add_layout(&mut s, &spec2);
+    let spec2 = plateload::scene::layout::LayoutSpec { bays_x: 1, bays_y: 1, lifts: 1, deck_lifts: vec![1], origin: (10.0, 0.0), id_prefix: "T2-".into(), ..Default::default() };
+    plateload::scene::layout::add_layout(&mut s, &spec2);
     refused(&s, &["load N+x", "separate structures", "A1", "T2-A1"]);
     s.loads.retain(|l| !l.kind.is_horizontal());
     analyse(&s).expect("two unjoined towers under vertical load only are fine");
@@ -1242,7 +1242,7 @@ fn extreme_values_are_refused() {
     s.support_types[0].swl_kn = 1e-9;
     refused(&s, &["support type jack", "base plate width", "safe working load", "smallest plausible"]);
     let mut s = small();
-    s.support_types[0].sole_plate = Some(plateload::model::PlateSize { width_m: 1e-9, length_m: 0.45 });
+    s.support_types[0].sole_plate = Some(plateload::scene::model::PlateSize { width_m: 1e-9, length_m: 0.45 });
     refused(&s, &["support type jack", "sole plate width"]);
     // Non-finite numbers.
     let mut s = small();
@@ -1389,8 +1389,8 @@ fn child_saver() {
     let Ok(spec) = std::env::var(CHILD_ENV) else { return };
     let mut lines = spec.lines();
     let (path, ready) = (std::path::PathBuf::from(lines.next().unwrap()), std::path::PathBuf::from(lines.next().unwrap()));
-    let layout = plateload::layout::LayoutSpec { bays_x: 30, bays_y: 30, lifts: 3, deck_lifts: vec![3], ..Default::default() };
-    let big = plateload::layout::generate("big", 100.0, &layout);
+    let layout = plateload::scene::layout::LayoutSpec { bays_x: 30, bays_y: 30, lifts: 3, deck_lifts: vec![3], ..Default::default() };
+    let big = plateload::scene::layout::generate("big", 100.0, &layout);
     let text = io::scene_to_ron(&big);
     let _ = io::write_atomic_with(&path, text.as_bytes(), |_| {
         std::fs::write(&ready, b"ready")?;

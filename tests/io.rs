@@ -1,6 +1,6 @@
 //! Scene files: errors with positions, round trips, atomic saves.
 
-use plateload::io::{parse_scene, read_scene, save_scene, scene_to_ron, write_atomic_with, SceneFileError};
+use plateload::scene::io::{parse_scene, read_scene, save_scene, scene_to_ron, write_atomic_with, SceneFileError};
 
 use crate::util::*;
 
@@ -50,7 +50,7 @@ fn minimal_scene_uses_documented_defaults() {
     // common practice, no source: omitted sections take their defaults
     let s = parse_scene("(site: (name: \"m\", allowable_bearing_kpa: 80.0))", "m").unwrap();
     assert_eq!(s.combinations, plateload::Combination::defaults());
-    assert_eq!(s.stability.target_factor, plateload::model::DEFAULT_TARGET_OVERTURNING_FACTOR);
+    assert_eq!(s.stability.target_factor, plateload::scene::model::DEFAULT_TARGET_OVERTURNING_FACTOR);
     assert!(s.posts.is_empty());
 }
 

@@ -7,8 +7,8 @@
 use std::path::{Path, PathBuf};
 use std::process::Command;
 
-use plateload::palette::Band;
-use plateload::pick::{ViewCamera, CUE_BAND_M, CUE_EDGE_M, CUE_GAP_M, V3};
+use plateload::export::palette::Band;
+use plateload::edit::pick::{ViewCamera, CUE_BAND_M, CUE_EDGE_M, CUE_GAP_M, V3};
 use plateload::{analyse, Scene};
 
 struct Picture {
@@ -100,7 +100,7 @@ fn snapshot(scene: &str, view: &str) -> Shot {
 }
 
 fn scene(name: &str) -> Scene {
-    plateload::io::read_scene(&Path::new(env!("CARGO_MANIFEST_DIR")).join("scenes").join(format!("{name}.ron"))).expect("demo scene")
+    plateload::scene::io::read_scene(&Path::new(env!("CARGO_MANIFEST_DIR")).join("scenes").join(format!("{name}.ron"))).expect("demo scene")
 }
 
 fn close(a: [u8; 3], b: [u8; 3], tol: u8) -> bool {
@@ -165,7 +165,7 @@ fn check(scene_name: &str, view: &str) -> (usize, usize) {
         // Round ring: around the frame's corners, measured in the four axis directions. A load
         // arrow, a label or the centre-of-gravity mark may cover it on one side, and a mark on
         // one side is not a ring: it counts as shown where at least two sides show it.
-        let r = plateload::pick::uplift_ring_radius(hx, hy);
+        let r = plateload::edit::pick::uplift_ring_radius(hx, hy);
         let ring_side = |(dx, dy): (f64, f64)| {
             let at = |d: f64| [plate.x + dx * d, plate.y + dy * d, z];
             band_at(&shot, at(r - CUE_GAP_M / 2.0), at(r + CUE_BAND_M / 2.0), at(r + CUE_BAND_M + CUE_EDGE_M))

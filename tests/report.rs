@@ -5,12 +5,12 @@ use std::path::{Path, PathBuf};
 use std::process::{Command, Stdio};
 use std::time::{Duration, Instant};
 
-use plateload::palette::{Band, Cue};
-use plateload::report::{report_html, ReportOptions};
+use plateload::export::palette::{Band, Cue};
+use plateload::export::report::{report_html, ReportOptions};
 use plateload::{analyse, Analysis, Scene, CAUTION};
 
 fn demos() -> Vec<(&'static str, Scene)> {
-    plateload::demo::DEMO_SCENES.iter().map(|(name, text)| (*name, plateload::io::parse_scene(text, name).unwrap())).collect()
+    plateload::scene::demo::DEMO_SCENES.iter().map(|(name, text)| (*name, plateload::scene::io::parse_scene(text, name).unwrap())).collect()
 }
 
 fn opts(note: &str) -> ReportOptions {
@@ -153,8 +153,8 @@ fn picture_is_embedded_as_a_data_uri() {
 #[test]
 fn a_large_scene_still_makes_a_report() {
     // common practice, no source: label fitting must not grow with the square of the plates
-    let spec = plateload::layout::LayoutSpec { bays_x: 45, bays_y: 45, lifts: 1, deck_lifts: vec![1], ..Default::default() };
-    let scene = plateload::layout::generate("big", 150.0, &spec);
+    let spec = plateload::scene::layout::LayoutSpec { bays_x: 45, bays_y: 45, lifts: 1, deck_lifts: vec![1], ..Default::default() };
+    let scene = plateload::scene::layout::generate("big", 150.0, &spec);
     let a = analyse(&scene).unwrap();
     let (tx, rx) = std::sync::mpsc::channel();
     std::thread::spawn(move || {
@@ -181,7 +181,7 @@ fn plateload_cli() -> Command {
 }
 
 fn demo_file(dir: &Path, prefix: &str) -> PathBuf {
-    let (name, text) = plateload::demo::DEMO_SCENES.iter().find(|(n, _)| n.starts_with(prefix)).unwrap();
+    let (name, text) = plateload::scene::demo::DEMO_SCENES.iter().find(|(n, _)| n.starts_with(prefix)).unwrap();
     let path = dir.join(name);
     std::fs::write(&path, text).unwrap();
     path
@@ -207,7 +207,7 @@ fn report_command_writes_the_file() {
     // Without --date the title block has today's date.
     let run = plateload_cli().arg("report").arg(&scene).arg("-o").arg(&out).status().unwrap();
     assert!(run.success());
-    assert!(std::fs::read_to_string(&out).unwrap().contains(&plateload::report::today_utc()));
+    assert!(std::fs::read_to_string(&out).unwrap().contains(&plateload::export::report::today_utc()));
 }
 
 #[test]
@@ -305,7 +305,7 @@ fn report_prints_in_headless_chromium() {
     let profile = dir.join("profile");
     for prefix in ["tannery", "harbour", "larkfield"] {
         let scene_path = demo_file(&dir, prefix);
-        let scene = plateload::io::read_scene(&scene_path).unwrap();
+        let scene = plateload::scene::io::read_scene(&scene_path).unwrap();
         let a = analyse(&scene).unwrap();
         let html = dir.join(format!("{prefix}.html"));
         let run = plateload_cli().arg("report").arg(&scene_path).arg("-o").arg(&html).args(["--note", "Rev B: issued for the ground check", "--date", "2026-06-30"]).output().unwrap();

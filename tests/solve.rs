@@ -1,6 +1,6 @@
 //! Load paths through whole scenes, checked against published formulas.
 
-use plateload::loads::{Case, Face, LoadKind, PlanDirection, DUTY_CLASSES};
+use plateload::scene::loads::{Case, Face, LoadKind, PlanDirection, DUTY_CLASSES};
 use plateload::{analyse, Intensity};
 
 use crate::util::*;
@@ -127,7 +127,7 @@ fn wind_force_is_pressure_times_projected_area() {
     // common practice, no source: F = q·A on the area projected normal to the wind.
     // 0.3 kPa on a 12 m × 6 m sheeted face → 21.6 kN; at 30° to the face normal the projected
     // width is 12·cos 30°.
-    let scene = plateload::io::read_scene(&scene_path("harbour-sheeted-face.ron")).unwrap();
+    let scene = plateload::scene::io::read_scene(&scene_path("harbour-sheeted-face.ron")).unwrap();
     let a = analyse(&scene).unwrap();
     close("base shear", a.base_shear()[Case::W.index()][1].abs(), 21.6, 1e-9);
     let mut s = braced_square();
@@ -304,7 +304,7 @@ fn trace_adds_up_to_the_plate_load() {
             }
         }
         let worst = a.worst_plate().unwrap();
-        let text = plateload::trace::trace_text(&scene, &a, worst);
+        let text = plateload::export::trace::trace_text(&scene, &a, worst);
         assert!(text.contains(&a.plates[worst].id) && text.contains("via bearer"), "{text}");
     }
 }
@@ -335,8 +335,8 @@ fn single_post_tee_head_must_balance() {
 }
 
 mod properties {
-    use plateload::layout::{generate, LayoutSpec};
-    use plateload::loads::{Case, LoadKind, PlanDirection};
+    use plateload::scene::layout::{generate, LayoutSpec};
+    use plateload::scene::loads::{Case, LoadKind, PlanDirection};
     use plateload::Rect;
     use proptest::prelude::*;
 
@@ -352,7 +352,7 @@ mod properties {
         let area = Rect { x: (x0, x0 + 0.4 * w), y: (y0, y0 + 0.4 * d) };
         s.loads.push(load("patch", Case::Q, LoadKind::DeckPatch { deck: deck.clone(), area, intensity: plateload::Intensity::Kpa(7.0) }));
         s.loads.push(load("point", Case::G, LoadKind::DeckPoint { deck, x: u * w, y: v * d, kn: 4.0 }));
-        let face = plateload::loads::Face { from: (0.0, 0.0), to: (w, 0.0), bottom: 0.0, top: lifts as f64 * 2.0 };
+        let face = plateload::scene::loads::Face { from: (0.0, 0.0), to: (w, 0.0), bottom: 0.0, top: lifts as f64 * 2.0 };
         s.loads.push(load("wind", Case::W, LoadKind::Wind { face, kpa: 0.4, direction: PlanDirection::Degrees(wind_deg) }));
         s
     }

@@ -2,8 +2,8 @@
 
 use std::path::PathBuf;
 
-use plateload::loads::{Case, Intensity, Load, LoadKind, PlanDirection};
-use plateload::model::{Bearer, BeamRole, Brace, Deck, PlateSize, Post, PostNode, Rect, Scene, SupportType};
+use plateload::scene::loads::{Case, Intensity, Load, LoadKind, PlanDirection};
+use plateload::scene::model::{Bearer, BeamRole, Brace, Deck, PlateSize, Post, PostNode, Rect, Scene, SupportType};
 
 /// Path of a file under the repository's `scenes/`.
 pub fn scene_path(name: &str) -> PathBuf {
@@ -16,7 +16,7 @@ pub fn demo_scenes() -> Vec<(String, Scene)> {
         .expect("scenes/ exists")
         .filter_map(|e| e.ok().map(|e| e.path()))
         .filter(|p| p.extension().is_some_and(|x| x == "ron"))
-        .map(|p| (p.file_name().unwrap().to_string_lossy().into_owned(), plateload::io::read_scene(&p).unwrap_or_else(|e| panic!("{e}"))))
+        .map(|p| (p.file_name().unwrap().to_string_lossy().into_owned(), plateload::scene::io::read_scene(&p).unwrap_or_else(|e| panic!("{e}"))))
         .collect();
     out.sort_by(|a, b| a.0.cmp(&b.0));
     assert!(out.len() >= 3, "expected the three demo scenes");

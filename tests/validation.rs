@@ -1,6 +1,6 @@
 //! Validation lists every problem at once, each with its element id.
 
-use plateload::loads::{Case, LoadKind};
+use plateload::scene::loads::{Case, LoadKind};
 use plateload::{analyse, validate};
 
 use crate::util::*;

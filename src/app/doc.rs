@@ -83,8 +83,8 @@ impl SceneDoc {
     }
 
     /// Save to `path` atomically and make it the document's file.
-    pub fn save_to(&mut self, path: &Path) -> Result<(), plateload::io::SceneFileError> {
-        plateload::io::save_scene(path, &self.scene)?;
+    pub fn save_to(&mut self, path: &Path) -> Result<(), plateload::scene::io::SceneFileError> {
+        plateload::scene::io::save_scene(path, &self.scene)?;
         self.path = Some(path.to_owned());
         self.saved_state = Some(self.history.state());
         self.history.seal();
@@ -110,7 +110,7 @@ impl SceneDoc {
 
     /// Whether an element exists.
     pub fn has(&self, r: &ElementRef) -> bool {
-        edit::index_of(&self.scene, r).is_some() || matches!(r.kind, plateload::model::ElementKind::Site)
+        edit::index_of(&self.scene, r).is_some() || matches!(r.kind, plateload::scene::model::ElementKind::Site)
     }
 
     /// The file name for titles.

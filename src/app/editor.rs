@@ -10,10 +10,10 @@ use bevy::input::keyboard::KeyCode;
 use bevy::prelude::*;
 use bevy::window::WindowCloseRequested;
 use plateload::edit::{place, DeleteMode, Edit, EditError, Element, ElementRef};
-use plateload::loads::{Case, Intensity, Load, LoadKind, PlanDirection};
-use plateload::model::{ElementKind, Rect};
-use plateload::pick::Hit;
-use plateload::recovery::{RecoveryStore, Recovered};
+use plateload::scene::loads::{Case, Intensity, Load, LoadKind, PlanDirection};
+use plateload::scene::model::{ElementKind, Rect};
+use plateload::edit::pick::Hit;
+use plateload::edit::recovery::{RecoveryStore, Recovered};
 
 use super::doc::{SceneDoc, Selection, Status};
 use super::{Action, EditorSystems, Then, ViewRequest};
@@ -392,8 +392,8 @@ fn handle_actions(
             }
             Action::ExportSchedule(path) => match doc.analysis() {
                 Some(a) => {
-                    let csv = plateload::schedule::schedule_csv(a);
-                    match plateload::io::write_atomic(&path, csv.as_bytes()) {
+                    let csv = plateload::export::schedule::schedule_csv(a);
+                    match plateload::scene::io::write_atomic(&path, csv.as_bytes()) {
                         Ok(()) => status.info(format!("wrote the schedule of {} base plates to {}", a.plates.len(), path.display())),
                         Err(e) => status.error(format!("could not write {}: {e}", path.display())),
                     }
@@ -403,8 +403,8 @@ fn handle_actions(
             Action::WriteReport { path, note } => match doc.analysis() {
                 Some(a) => {
                     let source = doc.path.as_ref().and_then(|p| p.file_name()).map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
-                    let opts = plateload::report::ReportOptions { revision_note: note, date: plateload::report::today_utc(), source, ..Default::default() };
-                    match plateload::report::save_report(&path, &doc.scene, a, &opts) {
+                    let opts = plateload::export::report::ReportOptions { revision_note: note, date: plateload::export::report::today_utc(), source, ..Default::default() };
+                    match plateload::export::report::save_report(&path, &doc.scene, a, &opts) {
                         Ok(()) => status.info(format!("wrote the report of {} base plates to {}", a.plates.len(), path.display())),
                         Err(e) => status.error(format!("could not write {}: {e}", path.display())),
                     }
@@ -562,7 +562,7 @@ fn carry_on(
             }
             exit.write(AppExit::Success);
         }
-        Then::Open(path) => match plateload::io::read_scene(&path) {
+        Then::Open(path) => match plateload::scene::io::read_scene(&path) {
             Ok(scene) => {
                 doc.replace(scene, Some(path.clone()), true);
                 selection.items.clear();
@@ -694,10 +694,10 @@ fn shortcuts(
         actions.write(Action::View(if shift { ViewRequest::FitSelection } else { ViewRequest::Fit }));
     }
     for (k, preset) in [
-        (KeyCode::Digit1, plateload::pick::ViewPreset::Iso),
-        (KeyCode::Digit2, plateload::pick::ViewPreset::Plan),
-        (KeyCode::Digit3, plateload::pick::ViewPreset::Front),
-        (KeyCode::Digit4, plateload::pick::ViewPreset::Side),
+        (KeyCode::Digit1, plateload::edit::pick::ViewPreset::Iso),
+        (KeyCode::Digit2, plateload::edit::pick::ViewPreset::Plan),
+        (KeyCode::Digit3, plateload::edit::pick::ViewPreset::Front),
+        (KeyCode::Digit4, plateload::edit::pick::ViewPreset::Side),
     ] {
         if hit(k) {
             actions.write(Action::View(ViewRequest::Preset(preset)));
@@ -839,7 +839,7 @@ fn load_at(doc: &SceneDoc, tools: &ToolState, kind: LoadTool, h: &Hit, p: [f64; 
     let scene = &doc.scene;
     let need = |what: &str| EditError::Placement(format!("click a {what} for this load"));
     // A deck hit by the click, or the deck above the post/bearer clicked.
-    let deck = || -> Option<&plateload::model::Deck> {
+    let deck = || -> Option<&plateload::scene::model::Deck> {
         match h.element.kind {
             ElementKind::Deck => scene.decks.iter().find(|d| d.id == h.element.id),
             ElementKind::Load => {

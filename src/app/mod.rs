@@ -3,9 +3,9 @@
 //! Add [`PlateloadPlugins`] and insert a [`SceneDoc`]. The shell holds no engineering logic:
 //! panels and tools send [`Action`]s; [`editor`] turns them into undoable
 //! [`plateload::edit::Edit`]s on the document, re-solves with [`plateload::analyse`] when the
-//! scene changed, and [`view`] shows the engine's drawing geometry ([`plateload::pick::shapes`])
+//! scene changed, and [`view`] shows the engine's drawing geometry ([`plateload::edit::pick::shapes`])
 //! coloured by the engine's results with the engine's palette. Picking and the camera maths are
-//! the engine's too ([`plateload::pick`]).
+//! the engine's too ([`plateload::edit::pick`]).
 //!
 //! Frame order ([`EditorSystems`], chained in `Update`): input → apply actions → solve → draw
 //! the scene → recolour. The egui panels run afterwards in `EguiPrimaryContextPass` and their
@@ -25,7 +25,7 @@ use std::path::PathBuf;
 use bevy::app::PluginGroupBuilder;
 use bevy::prelude::*;
 use plateload::edit::{DeleteMode, Edit, ElementRef};
-use plateload::pick::ViewPreset;
+use plateload::edit::pick::ViewPreset;
 use plateload::Scene;
 
 pub use doc::SceneDoc;

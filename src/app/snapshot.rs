@@ -11,7 +11,7 @@ use std::time::{Duration, Instant};
 use bevy::prelude::*;
 use bevy::render::view::screenshot::{Screenshot, ScreenshotCaptured};
 use plateload::edit::{Edit, Element, ElementRef};
-use plateload::pick::ViewPreset;
+use plateload::edit::pick::ViewPreset;
 
 use super::doc::SceneDoc;
 use super::editor::EditTimings;
@@ -125,7 +125,7 @@ fn run_picture(
         let edit = if state.edits_done % 2 == 0 {
             Edit::Add(Element::Load(plateload::Load { id: id.into(), case: plateload::Case::Q, kind: plateload::LoadKind::PostTop { post: post.id.clone(), kn: 5.0 } }))
         } else {
-            Edit::Delete { targets: vec![ElementRef::new(plateload::model::ElementKind::Load, id)], mode: Default::default() }
+            Edit::Delete { targets: vec![ElementRef::new(plateload::scene::model::ElementKind::Load, id)], mode: Default::default() }
         };
         actions.write(Action::Edit { edit, merge: None, select: None });
         state.edits_done += 1;
@@ -150,7 +150,7 @@ fn run_picture(
             "fov_y_deg": c.fov_y_deg,
             "orthographic": c.orthographic,
         });
-        if let Err(e) = plateload::io::write_atomic(path, json.to_string().as_bytes()) {
+        if let Err(e) = plateload::scene::io::write_atomic(path, json.to_string().as_bytes()) {
             error!("could not write {}: {e}", path.display());
             exit.write(AppExit::error());
             return;
@@ -189,6 +189,6 @@ fn write_png(path: &std::path::Path, image: Image) -> Result<PathBuf, String> {
         let mut writer = enc.write_header().map_err(|e| format!("PNG: {e}"))?;
         writer.write_image_data(rgb.as_raw()).map_err(|e| format!("PNG: {e}"))?;
     }
-    plateload::io::write_atomic(path, &bytes).map_err(|e| format!("could not write {}: {e}", path.display()))?;
+    plateload::scene::io::write_atomic(path, &bytes).map_err(|e| format!("could not write {}: {e}", path.display()))?;
     Ok(path.to_owned())
 }

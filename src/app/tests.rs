@@ -6,12 +6,12 @@ use std::path::PathBuf;
 use bevy::input::keyboard::KeyCode;
 use bevy::prelude::*;
 use plateload::edit::{DeleteMode, Edit, Element, ElementRef};
-use plateload::layout::LayoutSpec;
-use plateload::loads::{Case, Load, LoadKind};
-use plateload::model::ElementKind;
-use plateload::palette::Band;
-use plateload::pick::{Hit, Part};
-use plateload::recovery::RecoveryStore;
+use plateload::scene::layout::LayoutSpec;
+use plateload::scene::loads::{Case, Load, LoadKind};
+use plateload::scene::model::ElementKind;
+use plateload::export::palette::Band;
+use plateload::edit::pick::{Hit, Part};
+use plateload::edit::recovery::RecoveryStore;
 use plateload::Scene;
 
 use super::doc::{SceneDoc, Selection, Status};
@@ -50,7 +50,7 @@ fn temp_dir(name: &str) -> PathBuf {
 }
 
 fn demo() -> Scene {
-    plateload::demo::default_scene()
+    plateload::scene::demo::default_scene()
 }
 
 #[test]
@@ -214,7 +214,7 @@ fn opening_over_unsaved_changes_asks_first() {
     // common practice, no source
     let dir = temp_dir("open");
     let other = dir.join("other.ron");
-    plateload::io::save_scene(&other, &plateload::demo::demo_scene(1).unwrap()).unwrap();
+    plateload::scene::io::save_scene(&other, &plateload::scene::demo::demo_scene(1).unwrap()).unwrap();
     let mut app = app_with(demo(), None);
     act(&mut app, Action::Edit { edit: Edit::Move { targets: vec![ElementRef::post("A1")], by: [0.5, 0.0, 0.0] }, merge: None, select: None });
     let edited = doc(&app).scene.clone();
@@ -223,7 +223,7 @@ fn opening_over_unsaved_changes_asks_first() {
     assert!(matches!(app.world().resource::<Prompts>().0.first(), Some(Prompt::Unsaved { then: Then::Open(_) })));
     act(&mut app, Action::Continue { then: Then::Open(other.clone()), save: false });
     let d = doc(&app);
-    assert_eq!(d.scene, plateload::demo::demo_scene(1).unwrap());
+    assert_eq!(d.scene, plateload::scene::demo::demo_scene(1).unwrap());
     assert_eq!(d.path.as_deref(), Some(other.as_path()));
     assert!(!d.is_dirty());
     // A file with a syntax error is refused with its line and column; the document stays.
@@ -250,7 +250,7 @@ fn closing_with_unsaved_changes_asks_and_saving_writes_the_file() {
     assert!(matches!(app.world().resource::<Prompts>().0.first(), Some(Prompt::SaveAs { then: Some(Then::Quit) })));
     let path = dir.join("saved.ron");
     act(&mut app, Action::SaveAs { path: path.clone(), then: Some(Then::Quit) });
-    assert_eq!(plateload::io::read_scene(&path).unwrap(), doc(&app).scene);
+    assert_eq!(plateload::scene::io::read_scene(&path).unwrap(), doc(&app).scene);
     assert!(!doc(&app).is_dirty());
     let exits: Vec<AppExit> = app.world_mut().resource_mut::<Messages<AppExit>>().drain().collect();
     assert_eq!(exits, vec![AppExit::Success]);

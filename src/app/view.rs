@@ -16,7 +16,7 @@ use bevy::prelude::*;
 use bevy::render::render_resource::BlendState;
 use bevy::window::PrimaryWindow;
 use bevy_egui::PrimaryEguiContext;
-use plateload::pick::{self, ViewCamera, ViewPreset, V3};
+use plateload::edit::pick::{self, ViewCamera, ViewPreset, V3};
 
 use super::doc::{SceneDoc, Selection};
 use super::editor::{Tool, ToolState, UiFocus, ViewClick, ViewDrag, ViewRequestMessage};

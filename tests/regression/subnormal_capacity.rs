@@ -6,7 +6,7 @@
 //! 5.56e-309. Fixed by a lower limit in validation (`validate::MIN_CAPACITY`, and `MIN_SPAN_M` for
 //! plate sizes).
 
-use plateload::{analyse, io};
+use plateload::{analyse, scene::io};
 
 fn refused_with(scene: &plateload::Scene, needles: &[&str]) {
     let msg = match analyse(scene) {
@@ -31,13 +31,13 @@ fn subnormal_safe_working_load_from_the_fuzzer_is_refused() {
 fn subnormal_plate_and_ground_values_are_refused() {
     // common practice, no source
     let tiny = f64::MIN_POSITIVE / 4.0; // 5.56e-309, the structured fuzzer's value
-    let base = plateload::demo::demo_scene(1).unwrap();
+    let base = plateload::scene::demo::demo_scene(1).unwrap();
     let id = base.support_types[0].id.clone();
     let mut s = base.clone();
     s.support_types[0].base_plate.length_m = tiny;
     refused_with(&s, &[&format!("support type {id}"), "base plate length"]);
     let mut s = base.clone();
-    s.support_types[0].sole_plate = Some(plateload::model::PlateSize { width_m: 0.25, length_m: tiny });
+    s.support_types[0].sole_plate = Some(plateload::scene::model::PlateSize { width_m: 0.25, length_m: tiny });
     refused_with(&s, &["sole plate length"]);
     let mut s = base;
     s.site.allowable_bearing_kpa = tiny;

@@ -2,7 +2,7 @@
 
 use bevy_egui::egui;
 use plateload::edit::ElementRef;
-use plateload::model::ElementKind;
+use plateload::scene::model::ElementKind;
 use plateload::Scene;
 
 use crate::app::doc::Selection;

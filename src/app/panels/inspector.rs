@@ -3,9 +3,9 @@
 
 use bevy_egui::egui;
 use plateload::edit::{dependants, DeleteMode, Edit, Element};
-use plateload::loads::{Case, Face, Intensity, LoadKind, PlanDirection};
-use plateload::model::{BeamMethod, BeamRole, ElementKind, PlateSize, Rect};
-use plateload::palette::Band;
+use plateload::scene::loads::{Case, Face, Intensity, LoadKind, PlanDirection};
+use plateload::scene::model::{BeamMethod, BeamRole, ElementKind, PlateSize, Rect};
+use plateload::export::palette::Band;
 use plateload::Scene;
 
 use super::rgb;

@@ -2,7 +2,7 @@
 
 use bevy_egui::egui;
 use plateload::edit::Edit;
-use plateload::layout::LayoutSpec;
+use plateload::scene::layout::LayoutSpec;
 use plateload::Scene;
 
 use crate::app::{Action, ViewRequest};
@@ -72,7 +72,7 @@ impl LayoutPanel {
             egui::ComboBox::from_id_salt("duty").selected_text(if class == 0 { "none".into() } else { format!("class {class}") }).show_ui(ui, |ui| {
                 ui.selectable_value(&mut class, 0, "none");
                 for c in 1..=6u8 {
-                    let q = plateload::loads::DutyClass::get(c).map_or(0.0, |d| d.uniform_kpa);
+                    let q = plateload::scene::loads::DutyClass::get(c).map_or(0.0, |d| d.uniform_kpa);
                     ui.selectable_value(&mut class, c, format!("class {c} ({q} kPa)"));
                 }
             });
@@ -102,7 +102,7 @@ impl LayoutPanel {
                 ui.checkbox(&mut has, "");
                 ui.end_row();
                 if has != spec.support.sole_plate.is_some() {
-                    spec.support.sole_plate = has.then_some(plateload::model::PlateSize { width_m: 0.225, length_m: 0.45 });
+                    spec.support.sole_plate = has.then_some(plateload::scene::model::PlateSize { width_m: 0.225, length_m: 0.45 });
                 }
                 if let Some(sole) = &mut spec.support.sole_plate {
                     ui.label("");

@@ -195,9 +195,9 @@ fn menu_bar(ui: &mut egui::Ui, doc: &SceneDoc, selection: &Selection, view: &mut
                 ui.close();
             }
             ui.menu_button("Open a demo site", |ui| {
-                for (i, (name, _)) in plateload::demo::DEMO_SCENES.iter().enumerate() {
+                for (i, (name, _)) in plateload::scene::demo::DEMO_SCENES.iter().enumerate() {
                     if ui.button(name.trim_end_matches(".ron")).clicked() {
-                        if let Ok(s) = plateload::demo::demo_scene(i) {
+                        if let Ok(s) = plateload::scene::demo::demo_scene(i) {
                             actions.push(Action::New(Box::new(s)));
                         }
                         ui.close();
@@ -259,7 +259,7 @@ fn menu_bar(ui: &mut egui::Ui, doc: &SceneDoc, selection: &Selection, view: &mut
             }
         });
         ui.menu_button("View", |ui| {
-            use plateload::pick::ViewPreset as P;
+            use plateload::edit::pick::ViewPreset as P;
             for (label, p) in [("Isometric  (1)", P::Iso), ("Plan  (2)", P::Plan), ("Elevation, looking along +y  (3)", P::Front), ("Elevation, looking along −x  (4)", P::Side)] {
                 if ui.button(label).clicked() {
                     actions.push(Action::View(super::ViewRequest::Preset(p)));

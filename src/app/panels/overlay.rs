@@ -3,13 +3,13 @@
 //! pictures the title and the caution.
 
 use bevy_egui::egui::{self, Align2, Color32, FontId, Pos2, Rect, Stroke, StrokeKind, Vec2};
-use plateload::palette::Band;
+use plateload::export::palette::Band;
 use plateload::{Analysis, AnalysisError, CAUTION};
 
 use super::rgb;
 use crate::app::doc::{SceneDoc, Selection};
 use crate::app::view::draw::{reading, CASE_COLOURS};
-use plateload::pick::{CUE_BAND_M, CUE_GAP_M};
+use plateload::edit::pick::{CUE_BAND_M, CUE_GAP_M};
 use crate::app::view::ViewState;
 
 /// Most plates labelled without being hovered or selected.
@@ -64,7 +64,7 @@ pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &
             });
             let keep_clear = if side { Vec::new() } else { vec![s.expand(4.0), l.expand(4.0)] };
             plate_labels(&in_view, rect, a, doc, view, selection, cog, &keep_clear, cache);
-            if let Some(h) = selection.hovered.as_ref().filter(|h| h.kind == plateload::model::ElementKind::Post) {
+            if let Some(h) = selection.hovered.as_ref().filter(|h| h.kind == plateload::scene::model::ElementKind::Post) {
                 if let (Some(i), Some(pointer)) = (a.plate_index(&h.id), ctx.pointer_hover_pos().filter(|p| rect.contains(*p))) {
                     hover_card(&painter, rect, pointer, a, i, view.settings.combination);
                 }
@@ -387,7 +387,7 @@ fn plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &SceneDo
 struct LabelKey {
     revision: u64,
     solved: u64,
-    camera: plateload::pick::ViewCamera,
+    camera: plateload::edit::pick::ViewCamera,
     viewport: [f32; 4],
     settings: (Option<usize>, bool),
     selection: Vec<plateload::edit::ElementRef>,
@@ -480,7 +480,7 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
         }
     }
     for r in selection.items.iter().chain(selection.hovered.iter()) {
-        if let Some(i) = a.plate_index(&r.id).filter(|_| r.kind == plateload::model::ElementKind::Post) {
+        if let Some(i) = a.plate_index(&r.id).filter(|_| r.kind == plateload::scene::model::ElementKind::Post) {
             add(i, &mut chosen);
         }
     }

@@ -3,8 +3,8 @@
 
 use bevy_egui::egui;
 use plateload::edit::ElementRef;
-use plateload::model::ElementKind;
-use plateload::palette::Band;
+use plateload::scene::model::ElementKind;
+use plateload::export::palette::Band;
 use plateload::{AnalysisError, Problem};
 
 use super::rgb;

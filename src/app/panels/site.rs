@@ -2,9 +2,9 @@
 //! support types.
 
 use bevy_egui::egui;
-use plateload::combination::{Combination, Factors};
+use plateload::scene::combination::{Combination, Factors};
 use plateload::edit::{place, Edit, Element, ElementRef};
-use plateload::model::{BeamMethod, ElementKind, GranularLayer, LoadSpread};
+use plateload::scene::model::{BeamMethod, ElementKind, GranularLayer, LoadSpread};
 use plateload::Scene;
 
 use crate::app::Action;

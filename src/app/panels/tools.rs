@@ -1,7 +1,7 @@
 //! The tool bar: which placement tool the next click uses, and its values.
 
 use bevy_egui::egui;
-use plateload::loads::Case;
+use plateload::scene::loads::Case;
 use plateload::Scene;
 
 use crate::app::editor::{LoadTool, Tool, ToolState};

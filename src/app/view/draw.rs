@@ -12,9 +12,9 @@ use bevy::camera::visibility::RenderLayers;
 use bevy::mesh::{Indices, PrimitiveTopology};
 use bevy::prelude::*;
 use plateload::edit::ElementRef;
-use plateload::model::{BeamRole, ElementKind};
-use plateload::palette::{Band, Cue};
-use plateload::pick::{self, Part, Prim, Shape, ShapeOptions, CUE_BAND_M, CUE_EDGE_M, CUE_GAP_M, V3};
+use plateload::scene::model::{BeamRole, ElementKind};
+use plateload::export::palette::{Band, Cue};
+use plateload::edit::pick::{self, Part, Prim, Shape, ShapeOptions, CUE_BAND_M, CUE_EDGE_M, CUE_GAP_M, V3};
 use plateload::{Case, PlateResult, Status as PlateStatus};
 
 use super::{to_bevy, ViewState, ON_TOP_LAYER, SCENE_LAYER};
@@ -481,7 +481,7 @@ fn sync_entities(
     }
     // Cues around each plate footprint (the larger of base and sole plate), hidden until a
     // result calls for them.
-    let supports: HashMap<&str, &plateload::model::SupportType> = doc.scene.support_types.iter().map(|s| (s.id.as_str(), s)).collect();
+    let supports: HashMap<&str, &plateload::scene::model::SupportType> = doc.scene.support_types.iter().map(|s| (s.id.as_str(), s)).collect();
     let mut cue_reach = 0.0f64;
     for (i, p) in doc.scene.posts.iter().enumerate() {
         let Some(s) = p.support.as_deref().and_then(|s| supports.get(s)) else { continue };

@@ -6,7 +6,7 @@ use std::path::{Path, PathBuf};
 
 use ron::extensions::Extensions;
 
-use crate::model::Scene;
+use crate::scene::model::Scene;
 
 /// A scene file that could not be read.
 #[derive(Debug, thiserror::Error)]

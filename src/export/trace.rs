@@ -2,10 +2,10 @@
 
 use std::fmt::Write;
 
-use crate::analysis::Analysis;
-use crate::beam::Piece;
-use crate::loads::Case;
-use crate::model::Scene;
+use crate::check::analysis::Analysis;
+use crate::solve::beam::Piece;
+use crate::scene::loads::Case;
+use crate::scene::model::Scene;
 use crate::solve::Route;
 
 /// Words for a route, using the scene's ids.
@@ -28,11 +28,11 @@ pub fn route_words(scene: &Scene, route: Route) -> String {
     }
 }
 
-fn role(r: crate::model::BeamRole) -> &'static str {
+fn role(r: crate::scene::model::BeamRole) -> &'static str {
     match r {
-        crate::model::BeamRole::Bearer => "bearer",
-        crate::model::BeamRole::Ledger => "ledger",
-        crate::model::BeamRole::Transom => "transom",
+        crate::scene::model::BeamRole::Bearer => "bearer",
+        crate::scene::model::BeamRole::Ledger => "ledger",
+        crate::scene::model::BeamRole::Transom => "transom",
     }
 }
 

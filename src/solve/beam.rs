@@ -57,7 +57,7 @@ pub enum Piece {
     EndOverhang,
     /// The whole member on its only support.
     Single,
-    /// The whole member, continuous over all its supports ([`crate::continuous`]).
+    /// The whole member, continuous over all its supports ([`crate::solve::continuous`]).
     Continuous,
 }
 

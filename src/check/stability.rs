@@ -1,7 +1,7 @@
 //! Overall stability: centre of gravity of the permanent load, factor of safety against
 //! overturning about each edge of the base footprint, and the kentledge that would reach the target.
 
-use crate::loads::Case;
+use crate::scene::loads::Case;
 use crate::solve::{Resultant, Solution};
 
 /// Tipping towards one plan direction about the edge of the base footprint on that side.
@@ -67,7 +67,7 @@ pub fn stability(solution: &Solution, target_factor: f64) -> Stability {
         ("+y", [0.0, ymax, zbase], [-1.0, 0.0, 0.0], ymax - ymin, ymax),
         ("-y", [0.0, ymin, zbase], [1.0, 0.0, 0.0], ymax - ymin, ymin),
     ];
-    let actions = crate::combination::VariableActions::of(&solution.items);
+    let actions = crate::check::actions::VariableActions::of(&solution.items);
     let tip = |r: &Resultant, edge: [f64; 3], axis: [f64; 3]| {
         let m = r.moment_about(edge);
         m[0] * axis[0] + m[1] * axis[1] + m[2] * axis[2]

@@ -2,12 +2,13 @@
 //!
 //! Units throughout: metres (m), kilonewtons (kN), kilopascals (kPa = kN/m²). Plan coordinates are
 //! `x`, `y`; levels are `z`, measured upwards. Every element has a text id that the other elements
-//! refer to; the engine resolves ids to indices once, in [`crate::validate`].
+//! refer to; the engine resolves ids to indices once, in [`crate::scene::validate`](mod@crate::scene::validate).
 
 use serde::{Deserialize, Serialize};
 
-use crate::loads::Load;
-use crate::combination::Combination;
+pub use crate::scene::geometry::Rect;
+use crate::scene::loads::Load;
+use crate::scene::combination::Combination;
 
 /// Schema version written into every scene file.
 pub const FORMAT_VERSION: u32 = 1;
@@ -230,38 +231,6 @@ pub struct Deck {
     /// [`AnalysisSettings::method`].
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub method: Option<BeamMethod>,
-}
-
-/// An axis-aligned rectangle in plan, m.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
-#[serde(deny_unknown_fields)]
-pub struct Rect {
-    /// (min, max) in x, m.
-    pub x: (f64, f64),
-    /// (min, max) in y, m.
-    pub y: (f64, f64),
-}
-
-impl Rect {
-    /// Plan area, m².
-    pub fn area(&self) -> f64 {
-        (self.x.1 - self.x.0) * (self.y.1 - self.y.0)
-    }
-    /// Centre point.
-    pub fn centre(&self) -> (f64, f64) {
-        (0.5 * (self.x.0 + self.x.1), 0.5 * (self.y.0 + self.y.1))
-    }
-    /// Whether `other` lies inside this rectangle, within `tol` metres.
-    pub fn contains_rect(&self, other: &Rect, tol: f64) -> bool {
-        other.x.0 >= self.x.0 - tol
-            && other.x.1 <= self.x.1 + tol
-            && other.y.0 >= self.y.0 - tol
-            && other.y.1 <= self.y.1 + tol
-    }
-    /// Whether the point lies inside, within `tol` metres.
-    pub fn contains(&self, x: f64, y: f64, tol: f64) -> bool {
-        x >= self.x.0 - tol && x <= self.x.1 + tol && y >= self.y.0 - tol && y <= self.y.1 + tol
-    }
 }
 
 /// A point on a post at a level: one end of a brace.

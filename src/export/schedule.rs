@@ -4,8 +4,8 @@
 //! units, combinations and their factors, equilibrium), a blank line, then the table and a
 //! totals row whose case columns equal the applied load of each case.
 
-use crate::analysis::Analysis;
-use crate::loads::Case;
+use crate::check::analysis::Analysis;
+use crate::scene::loads::Case;
 
 /// A CSV text being built: fields are quoted only when they need it.
 struct Csv {

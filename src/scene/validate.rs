@@ -4,8 +4,8 @@
 use crate::fxhash::FxMap as HashMap;
 use std::fmt;
 
-use crate::loads::{Intensity, LoadKind};
-use crate::model::{ElementKind, Scene};
+use crate::scene::loads::{Intensity, LoadKind};
+use crate::scene::model::{ElementKind, Scene};
 
 /// Plan and level tolerance for "the same place", m.
 pub const GEOMETRY_TOLERANCE_M: f64 = 1e-3;
@@ -131,7 +131,7 @@ impl DeckLine {
         }
     }
     /// Split a plan rectangle into (range along the bearers, range across them).
-    pub fn split_rect(&self, r: &crate::model::Rect) -> ((f64, f64), (f64, f64)) {
+    pub fn split_rect(&self, r: &crate::scene::model::Rect) -> ((f64, f64), (f64, f64)) {
         match self.bearer_axis {
             Axis::X => (r.x, r.y),
             Axis::Y => (r.y, r.x),
@@ -242,8 +242,8 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
     let mut c = Checker { scene, problems: Vec::new(), warnings: Vec::new() };
     use ElementKind as K;
 
-    if scene.format != crate::model::FORMAT_VERSION {
-        c.err(K::Site, "", format!("scene format {} is not supported (this build reads format {})", scene.format, crate::model::FORMAT_VERSION));
+    if scene.format != crate::scene::model::FORMAT_VERSION {
+        c.err(K::Site, "", format!("scene format {} is not supported (this build reads format {})", scene.format, crate::scene::model::FORMAT_VERSION));
     }
 
     // Ids: present and unique across the whole scene, so one id names one thing everywhere.
@@ -295,7 +295,7 @@ fn check_site(c: &mut Checker) {
     c.at_least(K::Site, &name, "allowable bearing pressure (kPa)", site.allowable_bearing_kpa, MIN_CAPACITY, LIMIT_KN);
     if let Some(layer) = site.granular_layer {
         c.positive(K::Site, &name, "granular layer thickness (m)", layer.thickness_m, LIMIT_M, true);
-        if let crate::model::LoadSpread::AngleDeg(a) = layer.spread {
+        if let crate::scene::model::LoadSpread::AngleDeg(a) = layer.spread {
             if !(a.is_finite() && (0.0..89.0).contains(&a)) {
                 c.err(K::Site, &name, format!("spread angle {a}° must be from 0° up to 89°"));
             }
@@ -639,7 +639,7 @@ fn check_loads(
                 Intensity::Kpa(q) => {
                     c.number(K::Load, id, "pressure (kPa)", q, LIMIT_KN);
                 }
-                Intensity::DutyUniform(n) if crate::loads::DutyClass::get(n).is_none() => {
+                Intensity::DutyUniform(n) if crate::scene::loads::DutyClass::get(n).is_none() => {
                     c.err(K::Load, id, format!("service class {n} does not exist (1 to 6)"));
                 }
                 Intensity::DutyPartial(n) if Intensity::DutyPartial(n).kpa().is_none() => {
@@ -825,8 +825,8 @@ fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>, bearer
 }
 
 /// A horizontal load needs bracing in each plan direction it has a component in.
-fn check_direction(c: &mut Checker, id: &str, dir: crate::loads::PlanDirection, braced: Braced) -> bool {
-    if let crate::loads::PlanDirection::Degrees(d) = dir {
+fn check_direction(c: &mut Checker, id: &str, dir: crate::scene::loads::PlanDirection, braced: Braced) -> bool {
+    if let crate::scene::loads::PlanDirection::Degrees(d) = dir {
         if !c.number(ElementKind::Load, id, "direction (degrees)", d, 1e4) {
             return false;
         }

@@ -6,16 +6,16 @@
 //! wide schedule on a landscape page. All user text (ids, names, notes) is escaped.
 //!
 //! Contents, in order: title block, caution, findings at a glance, inputs (ground, supports,
-//! combinations, loads), plan of the base plates coloured by [`crate::palette`], the schedule,
+//! combinations, loads), plan of the base plates coloured by [`crate::export::palette`], the schedule,
 //! stability, equilibrium proof per case, warnings, and the optional 3D picture.
 
 use std::fmt::Write as _;
 use std::path::Path;
 
-use crate::analysis::{Analysis, PlateResult};
-use crate::loads::{Case, Intensity, LoadKind, PlanDirection};
-use crate::model::{LoadSpread, Scene};
-use crate::palette::{Band, Cue};
+use crate::check::analysis::{Analysis, PlateResult};
+use crate::scene::loads::{Case, Intensity, LoadKind, PlanDirection};
+use crate::scene::model::{LoadSpread, Scene};
+use crate::export::palette::{Band, Cue};
 
 /// Paper size the print rules are written for.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -76,7 +76,7 @@ fn civil_from_days(days: i64) -> (i64, u32, u32) {
 
 /// Write the report of a scene to `path` atomically (temporary file, then rename).
 pub fn save_report(path: &Path, scene: &Scene, analysis: &Analysis, opts: &ReportOptions) -> std::io::Result<()> {
-    crate::io::write_atomic(path, report_html(scene, analysis, opts).as_bytes())
+    crate::scene::io::write_atomic(path, report_html(scene, analysis, opts).as_bytes())
 }
 
 /// The whole report as one HTML document.
@@ -414,7 +414,7 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
         "<h3>Support types</h3><table><thead><tr><th>Id</th><th>Base plate (mm)</th><th>Sole plate (mm)</th><th class=\"n\">SWL (kN)</th><th class=\"n\">Bearing area at formation (m²)</th><th class=\"n\">Plates</th></tr></thead><tbody>"
     );
     for s in &scene.support_types {
-        let mm = |p: crate::model::PlateSize| format!("{} × {}", num(p.width_m * 1000.0, 0), num(p.length_m * 1000.0, 0));
+        let mm = |p: crate::scene::model::PlateSize| format!("{} × {}", num(p.width_m * 1000.0, 0), num(p.length_m * 1000.0, 0));
         let used = a.plates.iter().filter(|p| p.support == s.id).count();
         let _ = writeln!(
             h,

@@ -146,7 +146,7 @@ pub enum LoadKind {
         /// Deck id.
         deck: String,
         /// Plan rectangle (must lie on the deck).
-        area: crate::model::Rect,
+        area: crate::scene::geometry::Rect,
         /// Pressure or duty-class preset.
         intensity: Intensity,
     },

@@ -9,9 +9,9 @@
 
 use serde::Serialize;
 
-use crate::analysis::{Analysis, CaseEquilibrium};
-use crate::loads::Case;
-use crate::stability::Stability;
+use crate::check::{Analysis, CaseEquilibrium};
+use crate::scene::loads::Case;
+use crate::check::stability::Stability;
 
 /// Version of the JSON shape.
 pub const JSON_VERSION: u32 = 1;

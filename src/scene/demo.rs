@@ -1,13 +1,13 @@
 //! The invented demo sites shipped in `scenes/`. The first is the editor's default scene.
 
-use crate::io::{parse_scene, SceneFileError};
-use crate::model::Scene;
+use crate::scene::io::{parse_scene, SceneFileError};
+use crate::scene::model::Scene;
 
 /// (file name, RON text) of every demo scene, default first.
 pub const DEMO_SCENES: [(&str, &str); 3] = [
-    ("larkfield-falsework.ron", include_str!("../scenes/larkfield-falsework.ron")),
-    ("tannery-loading-bay.ron", include_str!("../scenes/tannery-loading-bay.ron")),
-    ("harbour-sheeted-face.ron", include_str!("../scenes/harbour-sheeted-face.ron")),
+    ("larkfield-falsework.ron", include_str!("../../scenes/larkfield-falsework.ron")),
+    ("tannery-loading-bay.ron", include_str!("../../scenes/tannery-loading-bay.ron")),
+    ("harbour-sheeted-face.ron", include_str!("../../scenes/harbour-sheeted-face.ron")),
 ];
 
 /// The default demo scene.

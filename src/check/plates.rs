@@ -1,8 +1,8 @@
 //! Checking each base plate: combined loads, uplift, load on the jack and pressure on the ground.
 
-use crate::combination::Combination;
-use crate::loads::Case;
-use crate::model::{Scene, SupportType};
+use crate::scene::combination::Combination;
+use crate::scene::loads::Case;
+use crate::scene::model::{Scene, SupportType};
 use crate::solve::Solution;
 
 /// A reaction below this (kN) counts as uplift; above zero by this margin only to ignore
@@ -88,7 +88,7 @@ pub struct PlateCombination {
 ///
 /// Permanent load takes, per plate, whichever of its two factors is worse for the value sought;
 /// each vertical variable item is added only where it makes that value worse, and of the
-/// horizontal loads the worst single plan direction is taken ([`crate::combination::VariableActions`]).
+/// horizontal loads the worst single plan direction is taken ([`crate::check::actions::VariableActions`]).
 /// For the minimum, a notional load counts only with the part due to permanent load: the
 /// variable load it would come from is then absent.
 pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Vec<Vec<PlateCombination>> {
@@ -99,7 +99,7 @@ pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Ve
     let mut out = vec![Vec::with_capacity(scene.combinations.len()); n];
     let (mut hi, mut lo) = (vec![0.0; n], vec![0.0; n]);
     let (mut group_hi, mut group_lo) = (vec![0.0; n], vec![0.0; n]);
-    let actions = crate::combination::VariableActions::of(&solution.items);
+    let actions = crate::check::actions::VariableActions::of(&solution.items);
     for comb in &scene.combinations {
         let f = comb.factors;
         for p in 0..n {
@@ -220,7 +220,7 @@ pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[u
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::model::{GranularLayer, LoadSpread, PlateSize};
+    use crate::scene::model::{GranularLayer, LoadSpread, PlateSize};
 
     fn support(sole: Option<PlateSize>) -> SupportType {
         SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: sole }

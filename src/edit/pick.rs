@@ -12,10 +12,10 @@
 
 use std::collections::HashMap;
 
-use crate::analysis::Analysis;
+use crate::check::analysis::Analysis;
 use crate::edit::ElementRef;
-use crate::loads::{Case, Intensity, LoadKind};
-use crate::model::{BeamRole, ElementKind, Scene};
+use crate::scene::loads::{Case, Intensity, LoadKind};
+use crate::scene::model::{BeamRole, ElementKind, Scene};
 
 /// A point or vector (x, y, z), m.
 pub type V3 = [f64; 3];
@@ -207,7 +207,7 @@ impl ShapeOptions {
 }
 
 /// Net horizontal force of wind on a face, kN: pressure × face area projected normal to the wind.
-fn wind_force(face: &crate::loads::Face, kpa: f64, direction: crate::loads::PlanDirection) -> f64 {
+fn wind_force(face: &crate::scene::loads::Face, kpa: f64, direction: crate::scene::loads::PlanDirection) -> f64 {
     let (ux, uy) = direction.unit();
     let (dx, dy) = (face.to.0 - face.from.0, face.to.1 - face.from.1);
     let width = (dx * uy - dy * ux).abs();
@@ -268,8 +268,8 @@ pub fn shapes_bounds(shapes: &[Shape]) -> Option<(V3, V3)> {
 /// the solved vertical load.
 pub fn shapes(scene: &Scene, opts: &ShapeOptions, analysis: Option<&Analysis>) -> Vec<Shape> {
     let mut out = Vec::with_capacity(scene.posts.len() * 3 + scene.bearers.len() + scene.braces.len() + scene.decks.len());
-    let posts: HashMap<&str, &crate::model::Post> = scene.posts.iter().map(|p| (p.id.as_str(), p)).collect();
-    let supports: HashMap<&str, &crate::model::SupportType> = scene.support_types.iter().map(|s| (s.id.as_str(), s)).collect();
+    let posts: HashMap<&str, &crate::scene::model::Post> = scene.posts.iter().map(|p| (p.id.as_str(), p)).collect();
+    let supports: HashMap<&str, &crate::scene::model::SupportType> = scene.support_types.iter().map(|s| (s.id.as_str(), s)).collect();
     let r = opts.tube_radius_m;
     let mut push = |element: &ElementRef, part: Part, index: u32, prim: Prim, case: Option<Case>| {
         out.push(Shape { element: element.clone(), part, index, prim, case });
@@ -289,7 +289,7 @@ pub fn shapes(scene: &Scene, opts: &ShapeOptions, analysis: Option<&Analysis>) -
             }
         }
     }
-    let bearer_line = |b: &crate::model::Bearer| -> Option<(V3, V3, V3)> {
+    let bearer_line = |b: &crate::scene::model::Bearer| -> Option<(V3, V3, V3)> {
         let first = posts.get(b.posts.first()?.as_str())?;
         let last = posts.get(b.posts.last()?.as_str())?;
         let d = [last.x - first.x, last.y - first.y, 0.0];
@@ -317,8 +317,8 @@ pub fn shapes(scene: &Scene, opts: &ShapeOptions, analysis: Option<&Analysis>) -
         push(&ElementRef::new(ElementKind::Brace, &b.id), Part::Brace, 0, prim, None);
     }
     if opts.loads {
-        let decks: HashMap<&str, &crate::model::Deck> = scene.decks.iter().map(|d| (d.id.as_str(), d)).collect();
-        let bearers: HashMap<&str, &crate::model::Bearer> = scene.bearers.iter().map(|b| (b.id.as_str(), b)).collect();
+        let decks: HashMap<&str, &crate::scene::model::Deck> = scene.decks.iter().map(|d| (d.id.as_str(), d)).collect();
+        let bearers: HashMap<&str, &crate::scene::model::Bearer> = scene.bearers.iter().map(|b| (b.id.as_str(), b)).collect();
         let notional = notional_forces(scene, analysis);
         let (lo, hi) = structure_bounds(scene);
         for l in &scene.loads {
@@ -360,11 +360,11 @@ struct LoadDrawing {
 /// at the point of action.
 #[allow(clippy::too_many_arguments)]
 fn load_arrows(
-    l: &crate::loads::Load,
+    l: &crate::scene::loads::Load,
     opts: &ShapeOptions,
-    posts: &HashMap<&str, &crate::model::Post>,
-    decks: &HashMap<&str, &crate::model::Deck>,
-    bearers: &HashMap<&str, &crate::model::Bearer>,
+    posts: &HashMap<&str, &crate::scene::model::Post>,
+    decks: &HashMap<&str, &crate::scene::model::Deck>,
+    bearers: &HashMap<&str, &crate::scene::model::Bearer>,
     lines: &HashMap<&str, (V3, V3, V3)>,
     notional: &HashMap<&str, f64>,
     (lo, hi): (V3, V3),
@@ -817,7 +817,7 @@ mod tests {
     #[test]
     fn picking_the_demo_from_above_finds_the_post_not_the_deck() {
         // common practice, no source: a see-through deck does not hide what is under it
-        let scene = crate::demo::default_scene();
+        let scene = crate::scene::demo::default_scene();
         let shapes = shapes(&scene, &ShapeOptions::for_scene(&scene, None), None);
         let down = Ray::new([3.0, 1.5, 50.0], [0.0, 0.0, -1.0]);
         let hit = pick(&shapes, &down, &PickTolerance::default()).unwrap();
@@ -832,7 +832,7 @@ mod tests {
     #[test]
     fn a_horizontal_ray_at_the_base_picks_the_first_plate_it_meets() {
         // common practice, no source
-        let scene = crate::demo::default_scene();
+        let scene = crate::scene::demo::default_scene();
         let shapes = shapes(&scene, &ShapeOptions { loads: false, ..ShapeOptions::for_scene(&scene, None) }, None);
         // Along y = 1.5 from the −x side, 5 mm above the base level: through A2's base plate first.
         let ray = Ray::new([-5.0, 1.5, 0.005], [1.0, 0.0, 0.0]);
@@ -845,7 +845,7 @@ mod tests {
     #[test]
     fn a_thin_tube_is_picked_within_the_tolerance_only() {
         // common practice, no source
-        let scene = crate::demo::default_scene();
+        let scene = crate::scene::demo::default_scene();
         let shapes = shapes(&scene, &ShapeOptions { loads: false, ..ShapeOptions::for_scene(&scene, None) }, None);
         // A horizontal ray passing 0.1 m beside post A1 (radius 24 mm) at mid-height.
         let ray = Ray::new([-5.0, 0.1, 1.0], [1.0, 0.0, 0.0]);
@@ -922,10 +922,10 @@ mod tests {
     #[test]
     fn arrows_scale_with_magnitude() {
         // common practice, no source: an arrow twice as long for twice the force
-        let mut scene = crate::demo::default_scene();
+        let mut scene = crate::scene::demo::default_scene();
         scene.loads.retain(|l| !matches!(l.kind, LoadKind::Notional { .. }));
-        scene.loads.push(crate::loads::Load { id: "p1".into(), case: Case::Q, kind: LoadKind::PostTop { post: "A1".into(), kn: 2.0 } });
-        scene.loads.push(crate::loads::Load { id: "p2".into(), case: Case::Q, kind: LoadKind::PostTop { post: "B1".into(), kn: 4.0 } });
+        scene.loads.push(crate::scene::loads::Load { id: "p1".into(), case: Case::Q, kind: LoadKind::PostTop { post: "A1".into(), kn: 2.0 } });
+        scene.loads.push(crate::scene::loads::Load { id: "p2".into(), case: Case::Q, kind: LoadKind::PostTop { post: "B1".into(), kn: 4.0 } });
         let opts = ShapeOptions::for_scene(&scene, None);
         let s = shapes(&scene, &opts, None);
         let len = |id: &str| -> f64 {

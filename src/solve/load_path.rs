@@ -2,9 +2,9 @@
 //!
 //! Each load of the scene (and the self-weight of everything, as one more permanent load) is an
 //! *item*. Vertical items go deck strip → bearer → post → base plate, each member sharing its
-//! load among its supports either by segment moment balance ([`crate::beam`]) or as a continuous
-//! beam ([`crate::continuous`]); horizontal items go to the plates through the rigid braced base
-//! ([`crate::rigid_base`]). Each item's plate reactions are kept separately, so combinations can
+//! load among its supports either by segment moment balance ([`crate::solve::beam`]) or as a continuous
+//! beam ([`crate::solve::continuous`]); horizontal items go to the plates through the rigid braced base
+//! ([`crate::solve::rigid_base`]). Each item's plate reactions are kept separately, so combinations can
 //! take each variable load only where it is unfavourable, and every reaction can be traced back.
 //!
 //! A scene whose members follow the method envelope is solved once per [`MethodPass`]
@@ -12,136 +12,13 @@
 //! jointed at every bearer over continuous bearers is covered as well as all-simple and
 //! all-continuous. [`crate::check`] then takes the worst pass at every plate.
 
-use crate::beam::{share_simple, BeamLoad, Piece};
-use crate::continuous::ContinuousBeam;
-use crate::loads::{Case, LoadKind};
-use crate::model::{BeamMethod, Scene};
-use crate::rigid_base::{RigidBase, RigidBaseError};
-use crate::validate::{Model, Target};
-
-/// Force (kN) and moment about the origin (kN·m) of a set of forces.
-#[derive(Debug, Clone, Copy, PartialEq, Default, serde::Serialize)]
-pub struct Resultant {
-    /// Force (x, y, z), kN; z up.
-    pub force: [f64; 3],
-    /// Moment about the origin (x, y, z), kN·m.
-    pub moment: [f64; 3],
-}
-
-impl Resultant {
-    /// Add a force `f` acting at `r`.
-    pub fn add(&mut self, r: [f64; 3], f: [f64; 3]) {
-        for k in 0..3 {
-            self.force[k] += f[k];
-        }
-        self.moment[0] += r[1] * f[2] - r[2] * f[1];
-        self.moment[1] += r[2] * f[0] - r[0] * f[2];
-        self.moment[2] += r[0] * f[1] - r[1] * f[0];
-    }
-    /// Add a downward load `p` (kN) at plan point (x, y).
-    pub fn add_down(&mut self, x: f64, y: f64, p: f64) {
-        self.add([x, y, 0.0], [0.0, 0.0, -p]);
-    }
-    /// Sum of two resultants.
-    pub fn plus(mut self, o: &Resultant) -> Resultant {
-        for k in 0..3 {
-            self.force[k] += o.force[k];
-            self.moment[k] += o.moment[k];
-        }
-        self
-    }
-    /// Moment about point `p`, kN·m.
-    pub fn moment_about(&self, p: [f64; 3]) -> [f64; 3] {
-        let f = self.force;
-        [
-            self.moment[0] - (p[1] * f[2] - p[2] * f[1]),
-            self.moment[1] - (p[2] * f[0] - p[0] * f[2]),
-            self.moment[2] - (p[0] * f[1] - p[1] * f[0]),
-        ]
-    }
-    /// Total downward force, kN.
-    pub fn down(&self) -> f64 {
-        -self.force[2]
-    }
-}
-
-/// Which route a reaction came by.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
-pub enum Route {
-    /// Through a piece of a bearer onto the post.
-    Bearer {
-        /// Bearer index.
-        bearer: u32,
-        /// Which piece of it.
-        piece: Piece,
-    },
-    /// The post's own weight.
-    PostSelfWeight,
-    /// A load straight onto the post top.
-    PostTop,
-    /// The overturning couple of a horizontal load on the rigid braced base.
-    Overturning,
-}
-
-/// One reaction share at one base plate: the trace behind every number.
-#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
-pub struct Contribution {
-    /// Base plate (post) index.
-    pub plate: u32,
-    /// Item index.
-    pub item: u32,
-    /// Route it came by.
-    pub route: Route,
-    /// Upward reaction, kN.
-    pub kn: f64,
-}
-
-/// One load item and what it does at the base.
-#[derive(Debug, Clone, PartialEq, serde::Serialize)]
-pub struct Item {
-    /// Load id, or `self-weight`.
-    pub id: String,
-    /// Load case.
-    pub case: Case,
-    /// Resultant of the applied load, from its own definition.
-    pub applied: Resultant,
-    /// Upward vertical reaction at each plate it reaches: (plate, kN), one entry per plate.
-    pub vertical: Vec<(u32, f64)>,
-    /// Horizontal reaction at each plate it reaches: (plate, [x, y] kN).
-    pub shear: Vec<(u32, [f64; 2])>,
-    /// Plan direction (unit x, y) of a horizontal load; `None` for vertical loads.
-    pub direction: Option<[f64; 2]>,
-    /// For a notional load whose basis includes variable loads: the vertical reactions of the
-    /// part due to permanent load alone. Where uplift is sought the variable load is absent, and
-    /// so is the notional load it would cause.
-    pub vertical_permanent_basis: Option<Vec<(u32, f64)>>,
-}
-
-impl Item {
-    /// Horizontal loads in the same plan direction act together; loads in different directions
-    /// are alternatives. This key (direction in hundredths of a degree) tells them apart.
-    pub fn direction_key(&self) -> Option<i64> {
-        self.direction.map(|[x, y]| {
-            let deg = y.atan2(x).to_degrees().rem_euclid(360.0);
-            ((deg * 100.0).round() as i64) % 36_000
-        })
-    }
-
-    /// Resultant of the item's plate reactions.
-    pub fn reaction_resultant(&self, plates: &[[f64; 3]]) -> Resultant {
-        let mut r = Resultant::default();
-        for &(p, v) in &self.vertical {
-            r.add(plates[p as usize], [0.0, 0.0, v]);
-        }
-        for &(p, [sx, sy]) in &self.shear {
-            r.add(plates[p as usize], [sx, sy, 0.0]);
-        }
-        r
-    }
-}
-
-/// Id of the item that holds the self-weight of every element.
-pub const SELF_WEIGHT_ID: &str = "self-weight";
+use crate::solve::beam::{share_simple, BeamLoad, Piece};
+use crate::solve::continuous::ContinuousBeam;
+use crate::scene::loads::{Case, LoadKind};
+use crate::solve::rigid_base::{RigidBase, RigidBaseError};
+use crate::scene::validate::{Model, Target};
+use crate::solve::items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
+use crate::solve::passes::{method_passes, Behaviour, MethodPass};
 
 /// Why a valid scene could not be solved.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -165,130 +42,6 @@ pub enum SolveError {
         /// Why.
         reason: RigidBaseError,
     },
-}
-
-/// Everything the solver found, before any combination is applied.
-#[derive(Debug, Clone)]
-pub struct Solution {
-    /// Base plate positions (x, y, base level), in post order.
-    pub plates: Vec<[f64; 3]>,
-    /// Every load item: self-weight first, then the scene's loads in order.
-    pub items: Vec<Item>,
-    /// Every reaction share, for tracing.
-    pub contributions: Vec<Contribution>,
-    /// How the members shared their loads in this solution.
-    pub method: MethodPass,
-}
-
-impl Solution {
-    /// Vertical reaction of each plate in each case, kN: `[plate][case]`.
-    pub fn case_vertical(&self) -> Vec<[f64; 3]> {
-        let mut out = vec![[0.0; 3]; self.plates.len()];
-        for item in &self.items {
-            for &(p, v) in &item.vertical {
-                out[p as usize][item.case.index()] += v;
-            }
-        }
-        out
-    }
-    /// Horizontal reaction of each plate in each case, kN: `[plate][case][x|y]`.
-    pub fn case_shear(&self) -> Vec<[[f64; 2]; 3]> {
-        let mut out = vec![[[0.0; 2]; 3]; self.plates.len()];
-        for item in &self.items {
-            for &(p, [sx, sy]) in &item.shear {
-                let s = &mut out[p as usize][item.case.index()];
-                s[0] += sx;
-                s[1] += sy;
-            }
-        }
-        out
-    }
-}
-
-/// How one member shares its load in one solution.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
-pub enum Behaviour {
-    /// Simply supported spans and balanced overhangs ([`share_simple`]).
-    SimpleSpans,
-    /// Continuous over all its supports ([`ContinuousBeam`]).
-    Continuous,
-}
-
-impl Behaviour {
-    /// Short name for outputs.
-    pub fn label(self) -> &'static str {
-        match self {
-            Behaviour::SimpleSpans => BeamMethod::SimpleSpans.label(),
-            Behaviour::Continuous => BeamMethod::Continuous.label(),
-        }
-    }
-
-    /// How a member with its own setting `own` behaves in a scene whose method is `scene_method`,
-    /// in a pass where the enveloped members of its level (decks or bearers) behave as `level`.
-    fn of(own: Option<BeamMethod>, scene_method: BeamMethod, level: Behaviour) -> Behaviour {
-        match own.unwrap_or(scene_method) {
-            BeamMethod::SimpleSpans => Behaviour::SimpleSpans,
-            BeamMethod::Continuous => Behaviour::Continuous,
-            BeamMethod::Envelope => level,
-        }
-    }
-}
-
-/// One way of solving the whole scene. Members that set a method of their own always follow it;
-/// members that follow the envelope behave as their level says here.
-#[derive(Debug, Clone, PartialEq, Eq, serde::Serialize)]
-pub struct MethodPass {
-    /// Behaviour of the enveloped decks.
-    pub decks: Behaviour,
-    /// Behaviour of the enveloped bearers, ledgers and transoms.
-    pub bearers: Behaviour,
-    /// What it is called in outputs, e.g. `continuous` or `decks simple spans, bearers continuous`.
-    pub label: String,
-}
-
-impl MethodPass {
-    /// Behaviour of bearer `b` of `scene` in this pass.
-    pub fn bearer(&self, scene: &Scene, b: usize) -> Behaviour {
-        Behaviour::of(scene.bearers[b].method, scene.analysis.method, self.bearers)
-    }
-    /// Behaviour of deck `d` of `scene` in this pass.
-    pub fn deck(&self, scene: &Scene, d: usize) -> Behaviour {
-        Behaviour::of(scene.decks[d].method, scene.analysis.method, self.decks)
-    }
-}
-
-/// The solutions a scene needs, the first being the primary one (its case loads fill the
-/// schedule's case columns): one if no member follows the envelope, else both behaviours for
-/// each level that has enveloped members — up to four: all simple spans, all continuous, and the
-/// two mixtures of decks and bearers.
-pub fn method_passes(scene: &Scene) -> Vec<MethodPass> {
-    let global = scene.analysis.method;
-    let decks: Vec<BeamMethod> = scene.decks.iter().map(|d| d.method.unwrap_or(global)).collect();
-    let bearers: Vec<BeamMethod> = scene.bearers.iter().map(|b| b.method.unwrap_or(global)).collect();
-    let enveloped = |ms: &[BeamMethod]| ms.contains(&BeamMethod::Envelope);
-    // A level without enveloped members is described by what its members are set to.
-    let fixed = |ms: &[BeamMethod]| -> Option<&'static str> {
-        let first = *ms.first()?;
-        Some(if ms.iter().all(|&m| m == first) { first.label() } else { "as set per member" })
-    };
-    let (deck_env, bearer_env) = (enveloped(&decks), enveloped(&bearers));
-    use Behaviour::{Continuous as C, SimpleSpans as S};
-    let mut out = Vec::new();
-    for (d, b) in [(S, S), (C, C), (S, C), (C, S)] {
-        if (d == C && !deck_env) || (b == C && !bearer_env) {
-            continue;
-        }
-        let deck_part = if deck_env { Some(d.label()) } else { fixed(&decks) };
-        let bearer_part = if bearer_env { Some(b.label()) } else { fixed(&bearers) };
-        let label = match (deck_part, bearer_part) {
-            (None, None) => global.label().to_owned(),
-            (Some(a), None) | (None, Some(a)) => a.to_owned(),
-            (Some(a), Some(b)) if a == b => a.to_owned(),
-            (Some(a), Some(b)) => format!("decks {a}, bearers {b}"),
-        };
-        out.push(MethodPass { decks: d, bearers: b, label });
-    }
-    out
 }
 
 /// Dense per-plate accumulator that remembers which plates it touched.
@@ -352,7 +105,7 @@ impl Nodes {
     }
 
     /// Sum the first moments of the node loads per case.
-    fn sum_moments(&mut self, scene: &crate::model::Scene) {
+    fn sum_moments(&mut self, scene: &crate::scene::model::Scene) {
         let mut m = [[0.0; 4]; 3];
         for (&(post, z), v) in self.at.iter().zip(&self.load) {
             let p = &scene.posts[post];
@@ -560,7 +313,7 @@ impl Solver<'_, '_> {
 
     /// A uniform pressure `q` on a plan rectangle of deck `d`: each strip between bearers is a
     /// simply supported span across them; the per-metre reactions become line loads on the bearers.
-    fn deck_area(&mut self, d: usize, rect: &crate::model::Rect, q: f64) {
+    fn deck_area(&mut self, d: usize, rect: &crate::scene::model::Rect, q: f64) {
         let deck = &self.model.decks[d];
         let (along, span) = deck.split_rect(rect);
         let load = BeamLoad::Uniform { from: span.0, to: span.1, w: q };
@@ -763,10 +516,10 @@ fn slot_piece(slot: usize, side: usize, n: usize) -> (usize, Piece) {
 }
 
 /// Plan point on a bearer's line at coordinate `u` along the deck's bearer axis.
-fn along_point(axis: crate::validate::Axis, u: f64, line: &crate::validate::BearerLine) -> (f64, f64) {
+fn along_point(axis: crate::scene::validate::Axis, u: f64, line: &crate::scene::validate::BearerLine) -> (f64, f64) {
     match axis {
-        crate::validate::Axis::X => (u, line.origin.1),
-        crate::validate::Axis::Y => (line.origin.0, u),
+        crate::scene::validate::Axis::X => (u, line.origin.1),
+        crate::scene::validate::Axis::Y => (line.origin.0, u),
     }
 }
 

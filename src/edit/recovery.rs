@@ -1,7 +1,7 @@
 //! Recovery copies of unsaved work, so a crash loses at most a few seconds of editing.
 //!
 //! The editor writes the scene it holds to a recovery file every little while when it has
-//! unsaved changes, atomically (see [`crate::io::write_atomic`]), and deletes the file when it
+//! unsaved changes, atomically (see [`crate::scene::io::write_atomic`]), and deletes the file when it
 //! closes normally or saves. A recovery file still there at the next start means the last
 //! session did not close normally; the editor offers it. One file per scene file (named by a
 //! hash of its absolute path), one for an untitled scene. The file is an ordinary scene file
@@ -10,8 +10,8 @@
 use std::path::{Path, PathBuf};
 use std::time::{SystemTime, UNIX_EPOCH};
 
-use crate::io::{parse_scene, scene_to_ron, write_atomic, SceneFileError};
-use crate::model::Scene;
+use crate::scene::io::{parse_scene, scene_to_ron, write_atomic, SceneFileError};
+use crate::scene::model::Scene;
 
 /// Where recovery copies live.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -145,7 +145,7 @@ mod tests {
     fn write_find_discard_round_trip() {
         // common practice, no source
         let store = RecoveryStore::at(temp_dir("rt"));
-        let scene = crate::demo::default_scene();
+        let scene = crate::scene::demo::default_scene();
         let file = Path::new("/some/where/bay.ron");
         assert_eq!(store.find(Some(file)).unwrap(), None);
         let written = store.write(Some(file), &scene).unwrap();

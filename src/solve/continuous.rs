@@ -23,7 +23,7 @@
 //! all: every term of the stiffness matrix scales with it and the load vector does not. EI is kept
 //! so that sections and support settlement can be added without changing the interface.
 
-use crate::beam::BeamLoad;
+use crate::solve::beam::BeamLoad;
 
 /// Why a continuous member could not be set up.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -105,7 +105,7 @@ impl ContinuousBeam {
     /// overwritten for every support. Loads beyond the end supports sit on free cantilevers.
     ///
     /// Returns the moment about the support that a single-support member cannot balance, kN·m
-    /// (0 for two or more supports), as [`crate::beam::share_simple`] does.
+    /// (0 for two or more supports), as [`crate::solve::beam::share_simple`] does.
     pub fn share(&mut self, loads: &[BeamLoad], reactions: &mut [f64]) -> f64 {
         let n = self.supports.len();
         assert_eq!(reactions.len(), n, "one reaction slot per support");

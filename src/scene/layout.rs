@@ -4,8 +4,8 @@
 
 use serde::{Deserialize, Serialize};
 
-use crate::loads::{Case, Intensity, Load, LoadKind, PlanDirection};
-use crate::model::{BeamRole, Bearer, Brace, Deck, PlateSize, Post, PostNode, Rect, Scene, SupportType, STEEL_TUBE_KN_PER_M};
+use crate::scene::loads::{Case, Intensity, Load, LoadKind, PlanDirection};
+use crate::scene::model::{BeamRole, Bearer, Brace, Deck, PlateSize, Post, PostNode, Rect, Scene, SupportType, STEEL_TUBE_KN_PER_M};
 
 /// What to generate.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -189,7 +189,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
 }
 
 fn notional(id: String, direction: PlanDirection) -> Load {
-    Load { id, case: Case::W, kind: LoadKind::Notional { percent: crate::loads::DEFAULT_NOTIONAL_PERCENT, direction, basis: vec![Case::G, Case::Q] } }
+    Load { id, case: Case::W, kind: LoadKind::Notional { percent: crate::scene::loads::DEFAULT_NOTIONAL_PERCENT, direction, basis: vec![Case::G, Case::Q] } }
 }
 
 /// A new scene holding only the generated layout.

@@ -22,10 +22,10 @@
 use std::collections::{HashMap, HashSet};
 use std::fmt;
 
-use crate::combination::Combination;
-use crate::layout::{add_layout, LayoutSpec};
-use crate::loads::{Load, LoadKind};
-use crate::model::{AnalysisSettings, Bearer, Brace, Deck, ElementKind, Post, Scene, Site, StabilitySettings, SupportType};
+use crate::scene::combination::Combination;
+use crate::scene::layout::{add_layout, LayoutSpec};
+use crate::scene::loads::{Load, LoadKind};
+use crate::scene::model::{AnalysisSettings, Bearer, Brace, Deck, ElementKind, Post, Scene, Site, StabilitySettings, SupportType};
 
 /// One element of a scene named by kind and id.
 #[derive(Debug, Clone, PartialEq, Eq, Hash)]
@@ -918,8 +918,8 @@ pub mod place {
     use std::collections::HashSet;
 
     use super::EditError;
-    use crate::model::{BeamRole, Bearer, Brace, Deck, PlateSize, Post, PostNode, Rect, Scene, SupportType, STEEL_TUBE_KN_PER_M};
-    use crate::validate::GEOMETRY_TOLERANCE_M;
+    use crate::scene::model::{BeamRole, Bearer, Brace, Deck, PlateSize, Post, PostNode, Rect, Scene, SupportType, STEEL_TUBE_KN_PER_M};
+    use crate::scene::validate::GEOMETRY_TOLERANCE_M;
 
     /// Round a coordinate to the nearest multiple of `step` (no snap when `step` ≤ 0).
     pub fn snap(v: f64, step: f64) -> f64 {
@@ -1078,11 +1078,11 @@ pub mod place {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::layout::generate;
-    use crate::loads::{Case, Intensity};
+    use crate::scene::layout::generate;
+    use crate::scene::loads::{Case, Intensity};
 
     fn demo() -> Scene {
-        crate::demo::default_scene()
+        crate::scene::demo::default_scene()
     }
 
     #[test]
@@ -1306,7 +1306,7 @@ mod tests {
     fn load_on_deck_follows_a_renamed_deck() {
         // common practice, no source
         let mut s = demo();
-        Edit::Add(Element::Load(Load { id: "pallet".into(), case: Case::Q, kind: LoadKind::DeckPatch { deck: "Deck-2".into(), area: crate::model::Rect { x: (1.0, 2.0), y: (1.0, 2.0) }, intensity: Intensity::Kpa(5.0) } }))
+        Edit::Add(Element::Load(Load { id: "pallet".into(), case: Case::Q, kind: LoadKind::DeckPatch { deck: "Deck-2".into(), area: crate::scene::model::Rect { x: (1.0, 2.0), y: (1.0, 2.0) }, intensity: Intensity::Kpa(5.0) } }))
             .apply(&mut s)
             .unwrap();
         let mut d = s.decks[0].clone();

@@ -1,0 +1,26 @@
+//! Stage 1, the scene: what a planner lays out and loads, read and written as RON, and checked.
+//!
+//! - [`model`]: site and ground, support types, posts, bearers, decks, braces, settings.
+//! - [`geometry`]: plan rectangles shared by elements and loads.
+//! - [`loads`]: applied loads tagged G / Q / W, and the load-class presets.
+//! - [`combination`]: partial factors and what each combination is checked for.
+//! - [`io`]: scene files, with `file:line:col` errors and atomic saves.
+//! - [`validate`](mod@validate): every problem at once, with element ids; resolves ids to indices and
+//!   sets up the member lines the solver works on ([`Model`]).
+//! - [`layout`]: the generator of regular scaffolds and birdcages.
+//! - [`demo`]: the built-in demo scenes.
+
+pub mod combination;
+pub mod demo;
+pub mod geometry;
+pub mod io;
+pub mod layout;
+pub mod loads;
+pub mod model;
+pub mod validate;
+
+pub use combination::{Combination, Factors};
+pub use geometry::Rect;
+pub use loads::{Case, Intensity, Load, LoadKind, PlanDirection};
+pub use model::{AnalysisSettings, BeamMethod, Bearer, Brace, Deck, ElementKind, Post, Scene, Site, SupportType};
+pub use validate::{validate, Model, Problem, ValidationError};

@@ -1,0 +1,167 @@
+//! What the solver hands on: every load item with its plate reactions, and the trace behind them.
+
+use crate::scene::loads::Case;
+use crate::solve::beam::Piece;
+use crate::solve::passes::MethodPass;
+
+/// Force (kN) and moment about the origin (kN·m) of a set of forces.
+#[derive(Debug, Clone, Copy, PartialEq, Default, serde::Serialize)]
+pub struct Resultant {
+    /// Force (x, y, z), kN; z up.
+    pub force: [f64; 3],
+    /// Moment about the origin (x, y, z), kN·m.
+    pub moment: [f64; 3],
+}
+
+impl Resultant {
+    /// Add a force `f` acting at `r`.
+    pub fn add(&mut self, r: [f64; 3], f: [f64; 3]) {
+        for k in 0..3 {
+            self.force[k] += f[k];
+        }
+        self.moment[0] += r[1] * f[2] - r[2] * f[1];
+        self.moment[1] += r[2] * f[0] - r[0] * f[2];
+        self.moment[2] += r[0] * f[1] - r[1] * f[0];
+    }
+    /// Add a downward load `p` (kN) at plan point (x, y).
+    pub fn add_down(&mut self, x: f64, y: f64, p: f64) {
+        self.add([x, y, 0.0], [0.0, 0.0, -p]);
+    }
+    /// Sum of two resultants.
+    pub fn plus(mut self, o: &Resultant) -> Resultant {
+        for k in 0..3 {
+            self.force[k] += o.force[k];
+            self.moment[k] += o.moment[k];
+        }
+        self
+    }
+    /// Moment about point `p`, kN·m.
+    pub fn moment_about(&self, p: [f64; 3]) -> [f64; 3] {
+        let f = self.force;
+        [
+            self.moment[0] - (p[1] * f[2] - p[2] * f[1]),
+            self.moment[1] - (p[2] * f[0] - p[0] * f[2]),
+            self.moment[2] - (p[0] * f[1] - p[1] * f[0]),
+        ]
+    }
+    /// Total downward force, kN.
+    pub fn down(&self) -> f64 {
+        -self.force[2]
+    }
+}
+
+/// Which route a reaction came by.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
+pub enum Route {
+    /// Through a piece of a bearer onto the post.
+    Bearer {
+        /// Bearer index.
+        bearer: u32,
+        /// Which piece of it.
+        piece: Piece,
+    },
+    /// The post's own weight.
+    PostSelfWeight,
+    /// A load straight onto the post top.
+    PostTop,
+    /// The overturning couple of a horizontal load on the rigid braced base.
+    Overturning,
+}
+
+/// One reaction share at one base plate: the trace behind every number.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct Contribution {
+    /// Base plate (post) index.
+    pub plate: u32,
+    /// Item index.
+    pub item: u32,
+    /// Route it came by.
+    pub route: Route,
+    /// Upward reaction, kN.
+    pub kn: f64,
+}
+
+/// One load item and what it does at the base.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct Item {
+    /// Load id, or `self-weight`.
+    pub id: String,
+    /// Load case.
+    pub case: Case,
+    /// Resultant of the applied load, from its own definition.
+    pub applied: Resultant,
+    /// Upward vertical reaction at each plate it reaches: (plate, kN), one entry per plate.
+    pub vertical: Vec<(u32, f64)>,
+    /// Horizontal reaction at each plate it reaches: (plate, [x, y] kN).
+    pub shear: Vec<(u32, [f64; 2])>,
+    /// Plan direction (unit x, y) of a horizontal load; `None` for vertical loads.
+    pub direction: Option<[f64; 2]>,
+    /// For a notional load whose basis includes variable loads: the vertical reactions of the
+    /// part due to permanent load alone. Where uplift is sought the variable load is absent, and
+    /// so is the notional load it would cause.
+    pub vertical_permanent_basis: Option<Vec<(u32, f64)>>,
+}
+
+impl Item {
+    /// Horizontal loads in the same plan direction act together; loads in different directions
+    /// are alternatives. This key (direction in hundredths of a degree) tells them apart.
+    pub fn direction_key(&self) -> Option<i64> {
+        self.direction.map(|[x, y]| {
+            let deg = y.atan2(x).to_degrees().rem_euclid(360.0);
+            ((deg * 100.0).round() as i64) % 36_000
+        })
+    }
+
+    /// Resultant of the item's plate reactions.
+    pub fn reaction_resultant(&self, plates: &[[f64; 3]]) -> Resultant {
+        let mut r = Resultant::default();
+        for &(p, v) in &self.vertical {
+            r.add(plates[p as usize], [0.0, 0.0, v]);
+        }
+        for &(p, [sx, sy]) in &self.shear {
+            r.add(plates[p as usize], [sx, sy, 0.0]);
+        }
+        r
+    }
+}
+
+/// Id of the item that holds the self-weight of every element.
+pub const SELF_WEIGHT_ID: &str = "self-weight";
+
+/// Everything the solver found, before any combination is applied.
+#[derive(Debug, Clone)]
+pub struct Solution {
+    /// Base plate positions (x, y, base level), in post order.
+    pub plates: Vec<[f64; 3]>,
+    /// Every load item: self-weight first, then the scene's loads in order.
+    pub items: Vec<Item>,
+    /// Every reaction share, for tracing.
+    pub contributions: Vec<Contribution>,
+    /// How the members shared their loads in this solution.
+    pub method: MethodPass,
+}
+
+impl Solution {
+    /// Vertical reaction of each plate in each case, kN: `[plate][case]`.
+    pub fn case_vertical(&self) -> Vec<[f64; 3]> {
+        let mut out = vec![[0.0; 3]; self.plates.len()];
+        for item in &self.items {
+            for &(p, v) in &item.vertical {
+                out[p as usize][item.case.index()] += v;
+            }
+        }
+        out
+    }
+    /// Horizontal reaction of each plate in each case, kN: `[plate][case][x|y]`.
+    pub fn case_shear(&self) -> Vec<[[f64; 2]; 3]> {
+        let mut out = vec![[[0.0; 2]; 3]; self.plates.len()];
+        for item in &self.items {
+            for &(p, [sx, sy]) in &item.shear {
+                let s = &mut out[p as usize][item.case.index()];
+                s[0] += sx;
+                s[1] += sy;
+            }
+        }
+        out
+    }
+}

@@ -1,0 +1,22 @@
+//! Stage 2, solve: every load carried down to the base plates, one load item at a time.
+//!
+//! - [`load_path`]: the driver. Vertical items go deck strip → bearer → post → base plate;
+//!   horizontal items go to the plates through the braced base. Every share is kept.
+//! - [`beam`]: one member's load shared among its supports by segment moment balance.
+//! - [`continuous`]: the same member continuous over its supports (direct stiffness method).
+//! - [`rigid_base`]: horizontal loads shared among the plates of a rigid braced structure.
+//! - [`passes`]: the method passes (simple spans, continuous, mixtures) the envelope needs.
+//! - [`items`]: what the solver hands on — load items, their reactions and the trace.
+//!
+//! Nothing here combines or checks; that is [`crate::check`].
+
+pub mod beam;
+pub mod continuous;
+pub mod items;
+pub mod load_path;
+pub mod passes;
+pub mod rigid_base;
+
+pub use items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
+pub use load_path::{solve, solve_methods, solve_pass, SolveError};
+pub use passes::{method_passes, Behaviour, MethodPass};
