@@ -594,7 +594,7 @@ struct SceneGen {
     lifts: usize,
     lift_m: f64,
     deck_mask: u8,
-    duty: Option<u8>,
+    load_class: Option<u8>,
     overhang: (f64, f64),
     deck_reach: (f64, f64),
     cantilever: (f64, f64),
@@ -616,7 +616,7 @@ fn scene_gen() -> impl Strategy<Value = SceneGen> {
         ((0.0..0.7f64), (0.0..0.7f64)),
         prop::collection::vec(load_gen(), 0..9),
     )
-        .prop_map(|(bays, bay_m, origin, base_level, lifts, lift_m, deck_mask, duty, overhang, deck_reach, cantilever, loads)| SceneGen {
+        .prop_map(|(bays, bay_m, origin, base_level, lifts, lift_m, deck_mask, load_class, overhang, deck_reach, cantilever, loads)| SceneGen {
             bays,
             bay_m,
             origin,
@@ -624,7 +624,7 @@ fn scene_gen() -> impl Strategy<Value = SceneGen> {
             lifts,
             lift_m,
             deck_mask,
-            duty,
+            load_class,
             overhang,
             deck_reach,
             cantilever,
@@ -646,7 +646,7 @@ fn build(g: &SceneGen) -> Scene {
         lifts: g.lifts,
         lift_m: g.lift_m,
         deck_lifts: deck_lifts.clone(),
-        duty_class: g.duty,
+        load_class: g.load_class,
         ..Default::default()
     };
     let mut s = plateload::scene::layout::generate("generated", 150.0, &spec);

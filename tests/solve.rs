@@ -1,6 +1,6 @@
 //! Load paths through whole scenes, checked against published formulas.
 
-use plateload::scene::loads::{Case, Face, LoadKind, PlanDirection, DUTY_CLASSES};
+use plateload::scene::loads::{Case, Face, LoadKind, PlanDirection, LOAD_CLASSES};
 use plateload::{analyse, Intensity};
 
 use crate::util::*;
@@ -161,22 +161,22 @@ fn overturning_factor_and_kentledge() {
 }
 
 #[test]
-fn duty_class_loads_follow_the_service_class_table() {
+fn load_class_loads_follow_the_load_class_table() {
     // source: EN 12811-1:2003 Table 3 (q1, q2 via DGUV Information 201-011 Table 2)
     let q1 = [0.75, 1.5, 2.0, 3.0, 4.5, 6.0];
     let q2 = [None, None, None, Some(5.0), Some(7.5), Some(10.0)];
-    for (k, c) in DUTY_CLASSES.iter().enumerate() {
+    for (k, c) in LOAD_CLASSES.iter().enumerate() {
         assert_eq!(c.class as usize, k + 1);
         assert_eq!(c.uniform_kpa, q1[k], "q1 of class {}", c.class);
         assert_eq!(c.partial_kpa, q2[k], "q2 of class {}", c.class);
-        assert_eq!(Intensity::DutyUniform(c.class).kpa(), Some(q1[k]));
+        assert_eq!(Intensity::LoadClassUniform(c.class).kpa(), Some(q1[k]));
     }
     // from memory: F1 on 500 × 500 mm is 1.5 kN for classes 1–3 and 3.0 kN for 4–6
-    assert_eq!(DUTY_CLASSES[2].concentrated_500_kn, 1.5);
-    assert_eq!(DUTY_CLASSES[3].concentrated_500_kn, 3.0);
+    assert_eq!(LOAD_CLASSES[2].concentrated_500_kn, 1.5);
+    assert_eq!(LOAD_CLASSES[3].concentrated_500_kn, 3.0);
     // A class-3 deck of 2 m × 4 m carries 2.0 kPa × 8 m² = 16 kN.
     let mut s = one_bay_deck((0.0, 4.0));
-    s.loads.push(load("duty", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: Intensity::DutyUniform(3) }));
+    s.loads.push(load("class-3", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: Intensity::LoadClassUniform(3) }));
     let a = analyse(&s).unwrap();
     close("total Q", a.equilibrium[Case::Q.index()].reactions.force[2], 16.0, 1e-12);
 }

@@ -29,7 +29,7 @@ fn all_problems_are_reported_together_with_ids() {
     s.support_types[0].swl_kn = 0.0;
     s.loads.push(load("Off", Case::Q, LoadKind::DeckPoint { deck: "D".into(), x: 10.0, y: 1.0, kn: 1.0 }));
     s.loads.push(load("NoDeck", Case::Q, LoadKind::DeckArea { deck: "Missing".into(), intensity: kpa(1.0) }));
-    s.loads.push(load("Class9", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: plateload::Intensity::DutyUniform(9) }));
+    s.loads.push(load("Class9", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: plateload::Intensity::LoadClassUniform(9) }));
     s.loads.push(load("Push", Case::W, LoadKind::Horizontal { x: 0.0, y: 0.0, level: 2.0, kn: 1.0, direction: PLUS_X }));
     let list = problems(&s);
     has(&list, "post A1: id is already used");
@@ -42,7 +42,7 @@ fn all_problems_are_reported_together_with_ids() {
     has(&list, "support type S: safe working load (kN) must be more than zero");
     has(&list, "load Off: point (10, 1) is not on deck D");
     has(&list, "load NoDeck: deck \"Missing\" does not exist");
-    has(&list, "load Class9: service class 9 does not exist");
+    has(&list, "load Class9: load class 9 does not exist");
     has(&list, "load Push: acts horizontally along x, but no brace covers that direction");
     assert!(list.len() >= 12, "{list:#?}");
 }

@@ -1178,7 +1178,7 @@ mod tests {
     #[test]
     fn duplicate_remaps_references_inside_the_copied_set() {
         // common practice, no source
-        let mut s = generate("t", 100.0, &LayoutSpec { bays_x: 1, bays_y: 1, lifts: 1, deck_lifts: vec![], braced: false, duty_class: None, ..LayoutSpec::default() });
+        let mut s = generate("t", 100.0, &LayoutSpec { bays_x: 1, bays_y: 1, lifts: 1, deck_lifts: vec![], braced: false, load_class: None, ..LayoutSpec::default() });
         let targets = vec![ElementRef::post("A1"), ElementRef::post("B1"), ElementRef::new(ElementKind::Bearer, "L1-1")];
         Edit::Duplicate { targets, by: [0.0, 5.0, 0.0] }.apply(&mut s).unwrap();
         let copy = s.bearers.last().unwrap();

@@ -219,8 +219,8 @@ fn intensity_words(i: Intensity) -> String {
     let q = i.kpa().map_or_else(|| "?".into(), |q| num(q, 2));
     match i {
         Intensity::Kpa(_) => format!("{q} kPa"),
-        Intensity::DutyUniform(c) => format!("{q} kPa (service class {c}, uniform q1)"),
-        Intensity::DutyPartial(c) => format!("{q} kPa (service class {c}, partial area q2)"),
+        Intensity::LoadClassUniform(c) => format!("{q} kPa (load class {c}, uniform q1)"),
+        Intensity::LoadClassPartial(c) => format!("{q} kPa (load class {c}, partial area q2)"),
     }
 }
 

@@ -1,5 +1,5 @@
 //! A regular scaffold or birdcage in one step: a grid of posts, members at every lift, decks on
-//! chosen lifts, braces on the faces, a duty-class load and notional horizontal loads.
+//! chosen lifts, braces on the faces, a load-class load and notional horizontal loads.
 //! The result is an ordinary [`Scene`], freely editable afterwards.
 
 use serde::{Deserialize, Serialize};
@@ -31,8 +31,9 @@ pub struct LayoutSpec {
     pub deck_lifts: Vec<usize>,
     /// Self-weight of each deck, kPa.
     pub deck_self_weight_kpa: f64,
-    /// Service class of the imposed load on every deck (1–6), if any.
-    pub duty_class: Option<u8>,
+    /// Load class (EN 12811-1 Table 3) of the imposed load on every deck (1–6), if any.
+    #[serde(alias = "duty_class")]
+    pub load_class: Option<u8>,
     /// Support type of every post; its id is used in the scene.
     pub support: SupportType,
     /// Add face braces in both plan directions and notional horizontal loads both ways.
@@ -56,7 +57,7 @@ impl Default for LayoutSpec {
             // source: timber board 38 mm, C24 mean density 420 kg/m³ (EN 338) ≈ 0.16 kPa dry;
             // 0.25 kPa allows for wet boards and steel fittings (common practice)
             deck_self_weight_kpa: 0.25,
-            duty_class: Some(3),
+            load_class: Some(3),
             support: SupportType {
                 id: "jack".into(),
                 // common practice, no source: 150 × 150 mm scaffold base plate
@@ -148,8 +149,8 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 self_weight_kpa: spec.deck_self_weight_kpa,
                 method: None,
             });
-            if let Some(class) = spec.duty_class {
-                scene.loads.push(Load { id: format!("{p}Q-{id}"), case: Case::Q, kind: LoadKind::DeckArea { deck: id, intensity: Intensity::DutyUniform(class) } });
+            if let Some(class) = spec.load_class {
+                scene.loads.push(Load { id: format!("{p}Q-{id}"), case: Case::Q, kind: LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) } });
             }
         }
     }

@@ -1,4 +1,4 @@
-//! Applied loads, their load cases, and the duty-class presets.
+//! Applied loads, their load cases, and the load-class presets.
 
 use serde::{Deserialize, Serialize};
 
@@ -55,10 +55,12 @@ pub struct Load {
 pub enum Intensity {
     /// A given pressure, kPa.
     Kpa(f64),
-    /// The uniformly distributed load q1 of a service (duty) class 1–6.
-    DutyUniform(u8),
-    /// The partial-area load q2 of a service (duty) class 4–6.
-    DutyPartial(u8),
+    /// The uniformly distributed load q1 of a load class 1–6.
+    #[serde(alias = "DutyUniform")]
+    LoadClassUniform(u8),
+    /// The partial-area load q2 of a load class 4–6.
+    #[serde(alias = "DutyPartial")]
+    LoadClassPartial(u8),
 }
 
 impl Intensity {
@@ -66,8 +68,8 @@ impl Intensity {
     pub fn kpa(self) -> Option<f64> {
         match self {
             Intensity::Kpa(q) => Some(q),
-            Intensity::DutyUniform(class) => DutyClass::get(class).map(|c| c.uniform_kpa),
-            Intensity::DutyPartial(class) => DutyClass::get(class).and_then(|c| c.partial_kpa),
+            Intensity::LoadClassUniform(class) => LoadClass::get(class).map(|c| c.uniform_kpa),
+            Intensity::LoadClassPartial(class) => LoadClass::get(class).and_then(|c| c.partial_kpa),
         }
     }
 }
@@ -138,7 +140,7 @@ pub enum LoadKind {
     DeckArea {
         /// Deck id.
         deck: String,
-        /// Pressure or duty-class preset.
+        /// Pressure or load-class preset.
         intensity: Intensity,
     },
     /// Uniform pressure on a rectangle of a deck.
@@ -147,7 +149,7 @@ pub enum LoadKind {
         deck: String,
         /// Plan rectangle (must lie on the deck).
         area: crate::scene::geometry::Rect,
-        /// Pressure or duty-class preset.
+        /// Pressure or load-class preset.
         intensity: Intensity,
     },
     /// A point load on a deck.
@@ -246,9 +248,9 @@ impl LoadKind {
     }
 }
 
-/// A service (duty) class of working scaffold.
+/// A load class of working scaffold.
 #[derive(Debug, Clone, Copy, PartialEq)]
-pub struct DutyClass {
+pub struct LoadClass {
     /// Class number 1–6.
     pub class: u8,
     /// Uniformly distributed load q1, kPa.
@@ -263,21 +265,21 @@ pub struct DutyClass {
     pub partial_area_factor: Option<f64>,
 }
 
-/// The six service classes.
+/// The six load classes.
 // source: EN 12811-1:2003 Table 3 (q1 and q2 via DGUV Information 201-011 Table 2; F1, F2 and
 // the partial-area factors from memory)
-pub const DUTY_CLASSES: [DutyClass; 6] = [
-    DutyClass { class: 1, uniform_kpa: 0.75, concentrated_500_kn: 1.5, concentrated_200_kn: 1.0, partial_kpa: None, partial_area_factor: None },
-    DutyClass { class: 2, uniform_kpa: 1.50, concentrated_500_kn: 1.5, concentrated_200_kn: 1.0, partial_kpa: None, partial_area_factor: None },
-    DutyClass { class: 3, uniform_kpa: 2.00, concentrated_500_kn: 1.5, concentrated_200_kn: 1.0, partial_kpa: None, partial_area_factor: None },
-    DutyClass { class: 4, uniform_kpa: 3.00, concentrated_500_kn: 3.0, concentrated_200_kn: 1.0, partial_kpa: Some(5.0), partial_area_factor: Some(0.4) },
-    DutyClass { class: 5, uniform_kpa: 4.50, concentrated_500_kn: 3.0, concentrated_200_kn: 1.0, partial_kpa: Some(7.5), partial_area_factor: Some(0.4) },
-    DutyClass { class: 6, uniform_kpa: 6.00, concentrated_500_kn: 3.0, concentrated_200_kn: 1.0, partial_kpa: Some(10.0), partial_area_factor: Some(0.5) },
+pub const LOAD_CLASSES: [LoadClass; 6] = [
+    LoadClass { class: 1, uniform_kpa: 0.75, concentrated_500_kn: 1.5, concentrated_200_kn: 1.0, partial_kpa: None, partial_area_factor: None },
+    LoadClass { class: 2, uniform_kpa: 1.50, concentrated_500_kn: 1.5, concentrated_200_kn: 1.0, partial_kpa: None, partial_area_factor: None },
+    LoadClass { class: 3, uniform_kpa: 2.00, concentrated_500_kn: 1.5, concentrated_200_kn: 1.0, partial_kpa: None, partial_area_factor: None },
+    LoadClass { class: 4, uniform_kpa: 3.00, concentrated_500_kn: 3.0, concentrated_200_kn: 1.0, partial_kpa: Some(5.0), partial_area_factor: Some(0.4) },
+    LoadClass { class: 5, uniform_kpa: 4.50, concentrated_500_kn: 3.0, concentrated_200_kn: 1.0, partial_kpa: Some(7.5), partial_area_factor: Some(0.4) },
+    LoadClass { class: 6, uniform_kpa: 6.00, concentrated_500_kn: 3.0, concentrated_200_kn: 1.0, partial_kpa: Some(10.0), partial_area_factor: Some(0.5) },
 ];
 
-impl DutyClass {
+impl LoadClass {
     /// The class with this number, if it exists.
-    pub fn get(class: u8) -> Option<&'static DutyClass> {
-        DUTY_CLASSES.iter().find(|c| c.class == class)
+    pub fn get(class: u8) -> Option<&'static LoadClass> {
+        LOAD_CLASSES.iter().find(|c| c.class == class)
     }
 }

@@ -639,11 +639,11 @@ fn check_loads(
                 Intensity::Kpa(q) => {
                     c.number(K::Load, id, "pressure (kPa)", q, LIMIT_KN);
                 }
-                Intensity::DutyUniform(n) if crate::scene::loads::DutyClass::get(n).is_none() => {
-                    c.err(K::Load, id, format!("service class {n} does not exist (1 to 6)"));
+                Intensity::LoadClassUniform(n) if crate::scene::loads::LoadClass::get(n).is_none() => {
+                    c.err(K::Load, id, format!("load class {n} does not exist (1 to 6)"));
                 }
-                Intensity::DutyPartial(n) if Intensity::DutyPartial(n).kpa().is_none() => {
-                    c.err(K::Load, id, format!("service class {n} has no partial-area load (classes 4 to 6 do)"));
+                Intensity::LoadClassPartial(n) if Intensity::LoadClassPartial(n).kpa().is_none() => {
+                    c.err(K::Load, id, format!("load class {n} has no partial-area load (classes 4 to 6 do)"));
                 }
                 _ => {}
             }

@@ -112,20 +112,20 @@ fn intensity_ui(ui: &mut egui::Ui, f: &mut Fields, i: &mut Intensity) {
     ui.horizontal(|ui| {
         let mut kind = match i {
             Intensity::Kpa(_) => 0,
-            Intensity::DutyUniform(_) => 1,
-            Intensity::DutyPartial(_) => 2,
+            Intensity::LoadClassUniform(_) => 1,
+            Intensity::LoadClassPartial(_) => 2,
         };
         let was = kind;
-        egui::ComboBox::from_id_salt(format!("{}-int", f.key)).selected_text(["pressure", "duty class q1", "duty class q2"][kind]).show_ui(ui, |ui| {
+        egui::ComboBox::from_id_salt(format!("{}-int", f.key)).selected_text(["pressure", "load class q1", "load class q2"][kind]).show_ui(ui, |ui| {
             ui.selectable_value(&mut kind, 0, "pressure");
-            ui.selectable_value(&mut kind, 1, "duty class q1 (uniform)");
-            ui.selectable_value(&mut kind, 2, "duty class q2 (partial area)");
+            ui.selectable_value(&mut kind, 1, "load class q1 (uniform)");
+            ui.selectable_value(&mut kind, 2, "load class q2 (partial area)");
         });
         if kind != was {
             *i = match kind {
                 0 => Intensity::Kpa(i.kpa().unwrap_or(1.0)),
-                1 => Intensity::DutyUniform(3),
-                _ => Intensity::DutyPartial(4),
+                1 => Intensity::LoadClassUniform(3),
+                _ => Intensity::LoadClassPartial(4),
             };
         }
         match i {
@@ -134,7 +134,7 @@ fn intensity_ui(ui: &mut egui::Ui, f: &mut Fields, i: &mut Intensity) {
                     f.merge = Some(format!("{}.kpa", f.key));
                 }
             }
-            Intensity::DutyUniform(c) | Intensity::DutyPartial(c) => {
+            Intensity::LoadClassUniform(c) | Intensity::LoadClassPartial(c) => {
                 ui.add(egui::DragValue::new(c).range(1..=6).prefix("class "));
             }
         }

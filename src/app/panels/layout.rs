@@ -67,16 +67,16 @@ impl LayoutPanel {
             ui.label("Deck self-weight");
             ui.add(egui::DragValue::new(&mut spec.deck_self_weight_kpa).speed(0.01).range(0.0..=50.0).suffix(" kPa"));
             ui.end_row();
-            ui.label("Duty class");
-            let mut class = spec.duty_class.unwrap_or(0);
-            egui::ComboBox::from_id_salt("duty").selected_text(if class == 0 { "none".into() } else { format!("class {class}") }).show_ui(ui, |ui| {
+            ui.label("load class");
+            let mut class = spec.load_class.unwrap_or(0);
+            egui::ComboBox::from_id_salt("load-class").selected_text(if class == 0 { "none".into() } else { format!("class {class}") }).show_ui(ui, |ui| {
                 ui.selectable_value(&mut class, 0, "none");
                 for c in 1..=6u8 {
-                    let q = plateload::scene::loads::DutyClass::get(c).map_or(0.0, |d| d.uniform_kpa);
+                    let q = plateload::scene::loads::LoadClass::get(c).map_or(0.0, |d| d.uniform_kpa);
                     ui.selectable_value(&mut class, c, format!("class {c} ({q} kPa)"));
                 }
             });
-            spec.duty_class = (class > 0).then_some(class);
+            spec.load_class = (class > 0).then_some(class);
             ui.end_row();
             ui.label("Support type");
             let label = use_support.clone().unwrap_or_else(|| format!("new: {}", spec.support.id));
