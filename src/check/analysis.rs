@@ -2,7 +2,8 @@
 //! prove equilibrium and summarise stability.
 
 use crate::check::equilibrium::{equilibrium, CaseEquilibrium};
-use crate::check::plates::{bearing_area, combine_envelope, PlateCombination, Status};
+use crate::check::bearing::bearing_area;
+use crate::check::plates::{combine_envelope, PlateCombination, Status};
 use crate::scene::combination::Combination;
 use crate::scene::loads::Case;
 use crate::scene::model::Scene;

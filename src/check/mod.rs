@@ -4,15 +4,18 @@
 //! - [`actions`]: which variable load items are independent and which are alternatives.
 //! - [`plates`]: each plate under each combination and method pass — maximum, minimum,
 //!   utilisation of the jack and the ground, status.
+//! - [`bearing`]: the area each plate's load spreads over in the ground.
 //! - [`stability`]: overturning and the kentledge that would reach the target.
 //! - [`equilibrium`](mod@equilibrium): ΣF and ΣM of every load item against its reactions.
 
 pub mod actions;
 pub mod analysis;
+pub mod bearing;
 pub mod equilibrium;
 pub mod plates;
 pub mod stability;
 
 pub use analysis::{analyse, Analysis, AnalysisError, PlateResult, METHODS_AGREE};
 pub use equilibrium::{equilibrium, CaseEquilibrium};
-pub use plates::{bearing_area, combine, combine_envelope, Bearing, MethodEnvelope, PlateCombination, Status, METHOD_TIE_RELATIVE, UPLIFT_TOLERANCE_KN};
+pub use bearing::{bearing_area, Bearing};
+pub use plates::{combine, combine_envelope, MethodEnvelope, PlateCombination, Status, METHOD_TIE_RELATIVE, UPLIFT_TOLERANCE_KN};
