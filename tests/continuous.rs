@@ -25,7 +25,7 @@ fn bearer(id: &str, posts: &[&str]) -> Bearer {
 
 fn scene() -> Scene {
     let mut s = Scene::empty("test site", 1.0e6);
-    s.support_types.push(SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 1.0e6, sole_plate: None });
+    s.support_types.push(SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 1.0e6, sole_plate: None, friction: Vec::new() });
     s
 }
 

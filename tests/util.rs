@@ -26,7 +26,7 @@ pub fn demo_scenes() -> Vec<(String, Scene)> {
 /// An empty scene with one weightless support type "S" (SWL 30 kN, 150 × 150 plate).
 pub fn bare_scene() -> Scene {
     let mut s = Scene::empty("test site", 100.0);
-    s.support_types.push(SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: None });
+    s.support_types.push(SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: None, friction: Vec::new() });
     s
 }
 

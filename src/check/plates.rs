@@ -1,8 +1,7 @@
 //! Checking each base plate: combined loads, uplift, load on the jack and pressure on the ground.
 
 use crate::scene::combination::Combination;
-use crate::scene::loads::Case;
-use crate::check::bearing::bearing_area;
+use crate::check::bearing::Ground;
 use crate::scene::model::Scene;
 use crate::solve::Solution;
 
@@ -17,24 +16,31 @@ pub struct Status {
     pub over: bool,
     /// The plate is pulled up (negative minimum load).
     pub uplift: bool,
+    /// Friction cannot hold the plate's base shear: it must be restrained.
+    #[serde(default)]
+    pub slides: bool,
 }
 
 impl Status {
-    /// Neither over capacity nor lifting.
+    /// Neither over capacity, nor lifting, nor sliding.
     pub fn is_ok(self) -> bool {
-        !self.over && !self.uplift
+        !self.over && !self.uplift && !self.slides
     }
-    /// Both findings of two statuses.
+    /// Every finding of two statuses.
     pub fn or(self, o: Status) -> Status {
-        Status { over: self.over || o.over, uplift: self.uplift || o.uplift }
+        Status { over: self.over || o.over, uplift: self.uplift || o.uplift, slides: self.slides || o.slides }
     }
-    /// Short label: OK, OVER, UPLIFT or OVER+UPLIFT.
+    /// Short label: OK, or the findings joined by `+` (OVER, UPLIFT, SLIDES).
     pub fn label(self) -> &'static str {
-        match (self.over, self.uplift) {
-            (false, false) => "OK",
-            (true, false) => "OVER",
-            (false, true) => "UPLIFT",
-            (true, true) => "OVER+UPLIFT",
+        match (self.over, self.uplift, self.slides) {
+            (false, false, false) => "OK",
+            (true, false, false) => "OVER",
+            (false, true, false) => "UPLIFT",
+            (true, true, false) => "OVER+UPLIFT",
+            (false, false, true) => "SLIDES",
+            (true, false, true) => "OVER+SLIDES",
+            (false, true, true) => "UPLIFT+SLIDES",
+            (true, true, true) => "OVER+UPLIFT+SLIDES",
         }
     }
 }
@@ -54,11 +60,18 @@ pub struct PlateCombination {
     pub min_kn: f64,
     /// max load ÷ safe working load.
     pub load_utilisation: f64,
-    /// Ground pressure under the maximum load, kPa.
+    /// Ground pressure at formation level under the maximum load, kPa: the plate's own spread
+    /// pressure or its overlap group's, whichever is larger, plus the granular layer's weight
+    /// when the allowable is gross ([`crate::check::bearing`]).
     pub bearing_kpa: f64,
-    /// Ground pressure ÷ allowable.
-    pub bearing_utilisation: f64,
-    /// The larger of the two utilisations.
+    /// Formation pressure ÷ allowable; `None` when no allowable is entered (not checked).
+    pub bearing_utilisation: Option<f64>,
+    /// Pressure on the top of the granular layer under the plate or sole board, kPa; `None`
+    /// without a layer.
+    pub layer_top_kpa: Option<f64>,
+    /// Layer-top pressure ÷ the layer's allowable; `None` when not checked.
+    pub layer_utilisation: Option<f64>,
+    /// The largest of the utilisations that are checked.
     pub utilisation: f64,
     /// What this combination finds (only the checks it is set to make).
     pub status: Status,
@@ -66,6 +79,31 @@ pub struct PlateCombination {
     pub max_method: usize,
     /// Method pass that gives `min_kn`: the first of equals.
     pub min_method: usize,
+}
+
+impl PlateCombination {
+    /// Set the bearing pressures and finish the utilisation and status.
+    pub fn set_bearing(&mut self, p: crate::check::bearing::Pressures, comb: &Combination) {
+        self.bearing_kpa = p.formation_kpa;
+        self.bearing_utilisation = p.formation_utilisation;
+        self.layer_top_kpa = p.layer_top_kpa;
+        self.layer_utilisation = p.layer_utilisation;
+        self.utilisation = [p.formation_utilisation, p.layer_utilisation].into_iter().flatten().fold(self.load_utilisation, f64::max);
+        self.status.over = comb.checks_capacity && self.utilisation > 1.0 + 1e-9;
+    }
+    /// What governs the utilisation, in words: `safe working load`, `ground bearing` (at
+    /// formation) or `granular layer` (on its top).
+    pub fn governed_by(&self) -> &'static str {
+        let b = self.bearing_utilisation.unwrap_or(f64::NEG_INFINITY);
+        let l = self.layer_utilisation.unwrap_or(f64::NEG_INFINITY);
+        if self.load_utilisation >= b && self.load_utilisation >= l {
+            "safe working load"
+        } else if b >= l {
+            "ground bearing"
+        } else {
+            "granular layer"
+        }
+    }
 }
 
 /// Combine the case reactions of every plate under every combination.
@@ -76,21 +114,24 @@ pub struct PlateCombination {
 /// For the minimum, a notional load counts only with the part due to permanent load: the
 /// variable load it would come from is then absent.
 pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Vec<Vec<PlateCombination>> {
+    combine_on(scene, solution, post_support, &Ground::new(scene, &solution.plates, post_support))
+}
+
+/// [`combine`] on ground prepared once.
+fn combine_on(scene: &Scene, solution: &Solution, post_support: &[usize], ground: &Ground) -> Vec<Vec<PlateCombination>> {
     let n = solution.plates.len();
-    let case = solution.case_vertical();
-    let bearing: Vec<f64> = scene.support_types.iter().map(|s| bearing_area(scene, s)).collect();
-    let allowable = scene.site.allowable_bearing_kpa;
+    let permanent = crate::check::permanent::permanent_parts(scene, solution);
     let mut out = vec![Vec::with_capacity(scene.combinations.len()); n];
     let (mut hi, mut lo) = (vec![0.0; n], vec![0.0; n]);
     let (mut group_hi, mut group_lo) = (vec![0.0; n], vec![0.0; n]);
     let actions = crate::check::actions::VariableActions::of(&solution.items);
     for comb in &scene.combinations {
         let f = comb.factors;
+        // The parts of the permanent load that press a plate down and those that lift it take
+        // their own factors for the minimum; the maximum takes the whole with the worse factor.
         for p in 0..n {
-            let g = case[p][Case::G.index()];
-            let (a, b) = (f.g_unfavourable * g, f.g_favourable * g);
-            hi[p] = a.max(b);
-            lo[p] = a.min(b);
+            hi[p] = permanent[p].maximum(f.g_favourable, f.g_unfavourable);
+            lo[p] = permanent[p].minimum(f.g_favourable, f.g_unfavourable);
         }
         for &i in &actions.independent {
             let item = &solution.items[i];
@@ -132,22 +173,31 @@ pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Ve
         }
         for p in 0..n {
             let support = &scene.support_types[post_support[p]];
-            out[p].push(plate_combination(comb, hi[p], lo[p], support.swl_kn, bearing[post_support[p]], allowable));
+            out[p].push(plate_combination(comb, hi[p], lo[p], support.swl_kn));
         }
     }
+    ground.fill(&scene.combinations, &mut out);
     out
 }
 
-fn plate_combination(comb: &Combination, max_kn: f64, min_kn: f64, swl: f64, area: f64, allowable: f64) -> PlateCombination {
+/// One plate under one combination, with everything but the ground bearing
+/// ([`PlateCombination::set_bearing`] adds it).
+fn plate_combination(comb: &Combination, max_kn: f64, min_kn: f64, swl: f64) -> PlateCombination {
     let load_utilisation = max_kn.max(0.0) / swl;
-    let bearing_kpa = max_kn.max(0.0) / area;
-    let bearing_utilisation = bearing_kpa / allowable;
-    let utilisation = load_utilisation.max(bearing_utilisation);
-    let status = Status {
-        over: comb.checks_capacity && utilisation > 1.0 + 1e-9,
-        uplift: comb.checks_uplift && min_kn < -UPLIFT_TOLERANCE_KN,
-    };
-    PlateCombination { max_kn, min_kn, load_utilisation, bearing_kpa, bearing_utilisation, utilisation, status, max_method: 0, min_method: 0 }
+    let status = Status { over: comb.checks_capacity && load_utilisation > 1.0 + 1e-9, uplift: comb.checks_uplift && min_kn < -UPLIFT_TOLERANCE_KN, slides: false };
+    PlateCombination {
+        max_kn,
+        min_kn,
+        load_utilisation,
+        bearing_kpa: 0.0,
+        bearing_utilisation: None,
+        layer_top_kpa: None,
+        layer_utilisation: None,
+        utilisation: load_utilisation,
+        status,
+        max_method: 0,
+        min_method: 0,
+    }
 }
 
 /// Relative margin by which a later method pass must exceed an earlier one to govern: below it
@@ -162,17 +212,19 @@ pub struct MethodEnvelope {
     pub envelope: Vec<Vec<PlateCombination>>,
     /// The same per pass: `[pass][plate][combination]`.
     pub by_method: Vec<Vec<Vec<PlateCombination>>>,
+    /// The ground the bearing pressures were found on.
+    pub ground: Ground,
 }
 
 /// [`combine`] every solution (one per method pass, in pass order) and take, per plate and
 /// combination, the larger maximum and the smaller minimum. The structure's behaviour is one for
 /// all loads of a combination, so each pass is combined whole before the envelope is taken.
 pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[usize]) -> MethodEnvelope {
-    let by_method: Vec<_> = solutions.iter().map(|s| combine(scene, s, post_support)).collect();
-    let bearing: Vec<f64> = scene.support_types.iter().map(|s| bearing_area(scene, s)).collect();
-    let allowable = scene.site.allowable_bearing_kpa;
-    let n = solutions.first().map_or(0, |s| s.plates.len());
-    let envelope = (0..n)
+    let Some(first) = solutions.first() else { return MethodEnvelope { envelope: Vec::new(), by_method: Vec::new(), ground: Ground::new(scene, &[], &[]) } };
+    let ground = Ground::new(scene, &first.plates, post_support);
+    let by_method: Vec<_> = solutions.iter().map(|s| combine_on(scene, s, post_support, &ground)).collect();
+    let n = first.plates.len();
+    let mut envelope: Vec<Vec<PlateCombination>> = (0..n)
         .map(|p| {
             scene
                 .combinations
@@ -190,7 +242,7 @@ pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[u
                         }
                     }
                     let support = &scene.support_types[post_support[p]];
-                    let mut out = plate_combination(comb, hi.0, lo.0, support.swl_kn, bearing[post_support[p]], allowable);
+                    let mut out = plate_combination(comb, hi.0, lo.0, support.swl_kn);
                     out.max_method = hi.1;
                     out.min_method = lo.1;
                     out
@@ -198,7 +250,8 @@ pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[u
                 .collect()
         })
         .collect();
-    MethodEnvelope { envelope, by_method }
+    ground.fill(&scene.combinations, &mut envelope);
+    MethodEnvelope { envelope, by_method, ground }
 }
 
 #[cfg(test)]
@@ -209,6 +262,7 @@ mod tests {
     fn status_labels() {
         // common practice, no source
         assert_eq!(Status::default().label(), "OK");
-        assert_eq!(Status { over: true, uplift: true }.to_string(), "OVER+UPLIFT");
+        assert_eq!(Status { over: true, uplift: true, slides: false }.to_string(), "OVER+UPLIFT");
+        assert_eq!(Status { over: false, uplift: true, slides: true }.to_string(), "UPLIFT+SLIDES");
     }
 }

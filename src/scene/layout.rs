@@ -65,6 +65,8 @@ impl Default for LayoutSpec {
                 swl_kn: 30.0,
                 // common practice: 225 mm board, 450 mm long per standard
                 sole_plate: Some(PlateSize { width_m: 0.225, length_m: 0.45 }),
+                // no public value for steel on timber or timber on the ground: left to the planner
+                friction: Vec::new(),
             },
             braced: true,
             id_prefix: String::new(),

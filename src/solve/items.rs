@@ -66,6 +66,8 @@ pub enum Route {
     PostTop,
     /// The overturning couple of a horizontal load on the rigid braced base.
     Overturning,
+    /// Kentledge sitting on the plate.
+    Kentledge,
 }
 
 /// One reaction share at one base plate: the trace behind every number.

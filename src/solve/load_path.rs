@@ -14,7 +14,7 @@
 
 use crate::solve::beam::{share_simple, BeamLoad, Piece};
 use crate::solve::continuous::ContinuousBeam;
-use crate::scene::loads::{Case, LoadKind};
+use crate::scene::loads::{Case, KentledgePlace, LoadKind};
 use crate::solve::rigid_base::{RigidBase, RigidBaseError};
 use crate::scene::validate::{Model, Target};
 use crate::solve::items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
@@ -248,6 +248,17 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
                 let post = &scene.posts[p];
                 applied.add_down(post.x, post.y, *kn);
             }
+            (LoadKind::Kentledge { on: KentledgePlace::Plates(_), kn, .. }, _) => {
+                let on = &model.load_posts[k];
+                for &p in on {
+                    let post = &scene.posts[p];
+                    applied.add_down(post.x, post.y, kn / on.len() as f64);
+                }
+            }
+            (LoadKind::Kentledge { on: KentledgePlace::Deck { x, y, .. }, kn, .. }, Target::Deck(d)) => {
+                applied.add_down(*x, *y, *kn);
+                s.deck_point(d, *x, *y, *kn);
+            }
             _ => unreachable!("validation resolves every vertical load to its element"),
         }
         if load.case == Case::G {
@@ -259,6 +270,16 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
         }
         if let (LoadKind::PostTop { kn, .. }, Target::Post(p)) = (&load.kind, model.load_targets[k]) {
             s.post_direct(item, p, *kn, Route::PostTop, load.case);
+        }
+        if let LoadKind::Kentledge { on: KentledgePlace::Plates(_), kn, .. } = &load.kind {
+            // Straight onto the plates, at base level: no member carries it and it does not lean
+            // with the structure, so it adds nothing to a notional horizontal load.
+            let on = &model.load_posts[k];
+            for &p in on {
+                let share = kn / on.len() as f64;
+                s.plates.add(p, share);
+                s.contributions.push(Contribution { plate: p as u32, item, route: Route::Kentledge, kn: share });
+            }
         }
         items[k + 1] = Some(Item { id: load.id.clone(), case: load.case, applied, vertical: s.plates.take(), shear: Vec::new(), direction: None, vertical_permanent_basis: None });
     }

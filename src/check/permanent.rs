@@ -1,0 +1,66 @@
+//! How the permanent load acts at each plate: the parts that push it down and the parts that lift
+//! it, kept apart so that each can take its own partial factor where equilibrium is checked.
+//!
+//! The parts are as fine as the trace keeps them: one share per load item, plate and route (a
+//! bearer piece, a post's own weight, a kentledge…). A simply supported back span and the
+//! overhang that lifts it are separate shares; loads summed onto one member before it shares
+//! them (a deck's strips on one bearer, a continuous member) are one.
+
+use crate::fxhash::FxMap as HashMap;
+use crate::scene::loads::Case;
+use crate::scene::model::Scene;
+use crate::solve::Solution;
+
+/// Permanent load at one plate, split by what it does there. Reactions upward positive, kN.
+#[derive(Debug, Clone, Copy, PartialEq, Default, serde::Serialize)]
+pub struct PermanentParts {
+    /// Shares that press the plate down and may count where favourable.
+    pub down_kn: f64,
+    /// Shares that press the plate down but may not count where favourable: kentledge that could
+    /// be taken away (removable or water-filled, not secured).
+    pub down_unreliable_kn: f64,
+    /// Shares that lift the plate (negative).
+    pub up_kn: f64,
+}
+
+impl PermanentParts {
+    /// All of it, kN.
+    pub fn total(&self) -> f64 {
+        self.down_kn + self.down_unreliable_kn + self.up_kn
+    }
+    /// The least the plate can carry with partial factors `favourable` on the parts that press
+    /// it down and `unfavourable` on the parts that lift it; unreliable kentledge counts 0.
+    pub fn minimum(&self, favourable: f64, unfavourable: f64) -> f64 {
+        favourable * self.down_kn + unfavourable * self.up_kn
+    }
+    /// The most, whole permanent load with the worse of the two factors (one source, one factor).
+    pub fn maximum(&self, favourable: f64, unfavourable: f64) -> f64 {
+        let g = self.total();
+        (unfavourable * g).max(favourable * g)
+    }
+}
+
+/// Which items of a solution are permanent loads that may count where favourable: per item,
+/// `None` for variable items.
+pub fn favourable_items(scene: &Scene, solution: &Solution) -> Vec<Option<bool>> {
+    let kinds: HashMap<&str, &crate::scene::loads::LoadKind> = scene.loads.iter().map(|l| (l.id.as_str(), &l.kind)).collect();
+    solution.items.iter().map(|i| (i.case == Case::G).then(|| kinds.get(i.id.as_str()).is_none_or(|k| k.may_be_favourable()))).collect()
+}
+
+/// The permanent parts at every plate of a solution, in plate order.
+pub fn permanent_parts(scene: &Scene, solution: &Solution) -> Vec<PermanentParts> {
+    let favourable = favourable_items(scene, solution);
+    let mut out = vec![PermanentParts::default(); solution.plates.len()];
+    for c in &solution.contributions {
+        let Some(reliable) = favourable[c.item as usize] else { continue };
+        let p = &mut out[c.plate as usize];
+        if c.kn < 0.0 {
+            p.up_kn += c.kn;
+        } else if reliable {
+            p.down_kn += c.kn;
+        } else {
+            p.down_unreliable_kn += c.kn;
+        }
+    }
+    out
+}
