@@ -149,12 +149,25 @@ pub fn combine(scene: &Scene, solution: &Solution, caps: &[PostCapacity]) -> Vec
         for &i in &actions.independent {
             let item = &solution.items[i];
             let gamma = comb.variable_factor(item.case);
-            for &(p, v) in item.vertical.iter().chain(&item.internal) {
-                let v = gamma * v;
-                if v > 0.0 {
-                    hi[p as usize] += v;
-                } else {
-                    lo[p as usize] += v;
+            match &item.arranged {
+                // Arranged: at each post, the cells that push it down for the maximum and those
+                // that lift it for the minimum.
+                Some(arranged) => {
+                    for &(p, down, up) in &arranged.extremes {
+                        hi[p as usize] += gamma * down;
+                        lo[p as usize] += gamma * up;
+                    }
+                }
+                // Whole: present everywhere or not at all, whichever is worse.
+                None => {
+                    for &(p, v) in item.vertical.iter().chain(&item.internal) {
+                        let v = gamma * v;
+                        if v > 0.0 {
+                            hi[p as usize] += v;
+                        } else {
+                            lo[p as usize] += v;
+                        }
+                    }
                 }
             }
         }

@@ -1323,7 +1323,7 @@ mod tests {
     fn load_on_deck_follows_a_renamed_deck() {
         // common practice, no source
         let mut s = demo();
-        Edit::Add(Element::Load(Load { id: "pallet".into(), case: Case::Q, kind: LoadKind::DeckPatch { deck: "Deck-2".into(), area: crate::scene::model::Rect { x: (1.0, 2.0), y: (1.0, 2.0) }, intensity: Intensity::Kpa(5.0) } }))
+        Edit::Add(Element::Load(Load::new("pallet", Case::Q, LoadKind::DeckPatch { deck: "Deck-2".into(), area: crate::scene::model::Rect { x: (1.0, 2.0), y: (1.0, 2.0) }, intensity: Intensity::Kpa(5.0) })))
             .apply(&mut s)
             .unwrap();
         let mut d = s.decks[0].clone();

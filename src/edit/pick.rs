@@ -935,8 +935,8 @@ mod tests {
         // common practice, no source: an arrow twice as long for twice the force
         let mut scene = crate::scene::demo::default_scene();
         scene.loads.retain(|l| !matches!(l.kind, LoadKind::Notional { .. }));
-        scene.loads.push(crate::scene::loads::Load { id: "p1".into(), case: Case::Q, kind: LoadKind::PostTop { post: "A1".into(), kn: 2.0 } });
-        scene.loads.push(crate::scene::loads::Load { id: "p2".into(), case: Case::Q, kind: LoadKind::PostTop { post: "B1".into(), kn: 4.0 } });
+        scene.loads.push(crate::scene::loads::Load::new("p1", Case::Q, LoadKind::PostTop { post: "A1".into(), kn: 2.0 }));
+        scene.loads.push(crate::scene::loads::Load::new("p2", Case::Q, LoadKind::PostTop { post: "B1".into(), kn: 4.0 }));
         let opts = ShapeOptions::for_scene(&scene, None);
         let s = shapes(&scene, &opts, None);
         let len = |id: &str| -> f64 {

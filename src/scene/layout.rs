@@ -150,7 +150,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 method: None,
             });
             if let Some(class) = spec.load_class {
-                scene.loads.push(Load { id: format!("{p}Q-{id}"), case: Case::Q, kind: LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) } });
+                scene.loads.push(Load::new(format!("{p}Q-{id}"), Case::Q, LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) }));
             }
         }
     }
@@ -190,7 +190,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
 }
 
 fn notional(id: String, direction: PlanDirection) -> Load {
-    Load { id, case: Case::W, kind: LoadKind::Notional { percent: crate::scene::loads::DEFAULT_NOTIONAL_PERCENT, direction, basis: vec![Case::G, Case::Q] } }
+    Load::new(id, Case::W, LoadKind::Notional { percent: crate::scene::loads::DEFAULT_NOTIONAL_PERCENT, direction, basis: vec![Case::G, Case::Q] })
 }
 
 /// A new scene holding only the generated layout.

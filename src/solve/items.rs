@@ -121,12 +121,61 @@ pub struct Item {
     /// part due to permanent load alone. Where uplift is sought the variable load is absent, and
     /// so is the notional load it would cause.
     pub vertical_permanent_basis: Option<Vec<(u32, f64)>>,
+    /// For an arranged imposed load: its cells and, at every post, the worst arrangement. The
+    /// whole-load reactions above are then the case with every cell loaded.
+    pub arranged: Option<Arranged>,
+}
+
+/// An arranged imposed load: split into cells, each present or absent, so that at every post the
+/// maximum takes only the cells that push it down and the minimum only those that lift it.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct Arranged {
+    /// The cells, with their applied load.
+    pub cells: Vec<Cell>,
+    /// At every post the load reaches: (post, sum of the cells that push it down (≥ 0), sum of
+    /// the cells that lift it (≤ 0)), kN — reactions for a plate, load passed on for any other
+    /// post.
+    pub extremes: Vec<(u32, f64, f64)>,
+    /// Worst relative equilibrium residual of a single cell: largest of |ΣF| / F and
+    /// |ΣM| / (F·L) over the cells (L the plan size of the structure, at least 1 m).
+    pub worst_cell_residual: f64,
+}
+
+/// One cell of an arranged load.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct Cell {
+    /// Where it is.
+    pub place: CellPlace,
+    /// Its applied load.
+    pub applied: Resultant,
+}
+
+/// Where a cell of an arranged load lies.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub enum CellPlace {
+    /// A plan rectangle of a deck: one strip between bearers (or a cantilever) over one span
+    /// between posts (or an overhang).
+    Deck {
+        /// Deck index.
+        deck: u32,
+        /// Plan rectangle, m.
+        rect: crate::scene::geometry::Rect,
+    },
+    /// A stretch of a bearer between posts (or an overhang), distances from its first post.
+    Bearer {
+        /// Bearer index.
+        bearer: u32,
+        /// Start, m.
+        from_m: f64,
+        /// End, m.
+        to_m: f64,
+    },
 }
 
 impl Item {
     /// An item of a load with nothing reaching the base yet.
     pub fn new(id: impl Into<String>, case: Case, applied: Resultant) -> Self {
-        Item { id: id.into(), case, applied, vertical: Vec::new(), internal: Vec::new(), shear: Vec::new(), direction: None, vertical_permanent_basis: None }
+        Item { id: id.into(), case, applied, vertical: Vec::new(), internal: Vec::new(), shear: Vec::new(), direction: None, vertical_permanent_basis: None, arranged: None }
     }
 
     /// Horizontal loads in the same plan direction act together; loads in different directions

@@ -96,12 +96,12 @@ impl Nodes {
 
 /// Where a load on a member came from: applied to it directly, or passed on by a post standing on
 /// it (or on a deck over it).
-type Source = Option<u32>;
+pub(super) type Source = Option<u32>;
 
 /// Work buffers reused from item to item: the loads gathered on each member for the current flow
 /// and the members waiting to pass them on, in top-down order.
-struct Solver<'m, 's> {
-    model: &'m Model<'s>,
+pub(super) struct Solver<'m, 's> {
+    pub(super) model: &'m Model<'s>,
     /// Loads gathered on each bearer for the current flow, with where each came from.
     bearer_loads: Vec<Vec<(BeamLoad, Source)>>,
     /// Load entering each post for the current flow, kN downwards.
@@ -110,23 +110,25 @@ struct Solver<'m, 's> {
     queue: BinaryHeap<Reverse<u32>>,
     queued: Vec<bool>,
     /// Plate reactions and loads passed on at post bases of the current flow: (post, kN).
-    bases: Vec<(u32, f64)>,
-    internal: Vec<(u32, f64)>,
+    pub(super) bases: Vec<(u32, f64)>,
+    pub(super) internal: Vec<(u32, f64)>,
     /// Whether the current flow records its trace and the notional-load nodes (real load items
     /// do; the unit flows of the arrangement analysis do not).
-    record: bool,
+    pub(super) record: bool,
     /// Reaction per (piece, support side) of the bearer being shared.
     piece_sums: Vec<[f64; 2]>,
     nodes: Nodes,
     contributions: Vec<Contribution>,
     /// Each bearer that is continuous in this pass (and has two or more posts), factorised once.
-    bearer_beams: Vec<Option<ContinuousBeam>>,
+    pub(super) bearer_beams: Vec<Option<ContinuousBeam>>,
     /// Each deck that is continuous in this pass, per metre of width.
-    deck_beams: Vec<Option<ContinuousBeam>>,
+    pub(super) deck_beams: Vec<Option<ContinuousBeam>>,
     /// Reactions of one continuous member.
-    reactions: Vec<f64>,
+    pub(super) reactions: Vec<f64>,
     /// Single-post bearers' unbalanced moments of the current flow: (bearer, moment, scale).
-    unbalanced: Vec<(usize, f64, f64)>,
+    pub(super) unbalanced: Vec<(usize, f64, f64)>,
+    /// Single-post bearers' moments under the last arranged load, each way.
+    pub(super) arranged_tee: Vec<crate::solve::arrangement::ArrangedTee>,
 }
 
 /// Carry every load of a validated scene down to the base plates, the way the scene's primary
@@ -219,13 +221,21 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
             _ => unreachable!("validation resolves every vertical load to its element"),
         }
         s.flow(item, load.case);
+        let mut it = s.take_item(Item::new(load.id.clone(), load.case, applied));
         if load.case == Case::G {
             permanent_tee.append(&mut s.unbalanced);
         } else {
             let own = std::mem::take(&mut s.unbalanced);
             tee_head_balances(model, &own, &load.id)?;
         }
-        items[k + 1] = Some(s.take_item(Item::new(load.id.clone(), load.case, applied)));
+        it.arranged = s.arrange(load, model.load_targets[k]);
+        for t in std::mem::take(&mut s.arranged_tee) {
+            // One arm loaded alone: each way must balance on its own.
+            for m in [t.one_way_knm, t.other_way_knm] {
+                tee_head_balances(model, &[(t.bearer, m, t.scale)], &load.id)?;
+            }
+        }
+        items[k + 1] = Some(it);
     }
 
     // Permanent loads are always present together, so their moments on a T-head may cancel.
@@ -273,7 +283,7 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
 }
 
 impl<'m, 's> Solver<'m, 's> {
-    fn new(model: &'m Model<'s>, pass: &MethodPass) -> Self {
+    pub(super) fn new(model: &'m Model<'s>, pass: &MethodPass) -> Self {
         let scene = model.scene;
         let stiffness = scene.analysis.stiffness;
         // Validation guarantees increasing supports and a positive EI; a member that still fails
@@ -306,11 +316,12 @@ impl<'m, 's> Solver<'m, 's> {
             deck_beams,
             reactions: Vec::new(),
             unbalanced: Vec::new(),
+            arranged_tee: Vec::new(),
         }
     }
 
     /// Put a member in line to pass its loads on.
-    fn enqueue(&mut self, m: Member) {
+    pub(super) fn enqueue(&mut self, m: Member) {
         let rank = self.model.graph.rank(m);
         if !self.queued[rank as usize] {
             self.queued[rank as usize] = true;
@@ -318,13 +329,13 @@ impl<'m, 's> Solver<'m, 's> {
         }
     }
 
-    fn push_bearer(&mut self, b: usize, load: BeamLoad, from: Source) {
+    pub(super) fn push_bearer(&mut self, b: usize, load: BeamLoad, from: Source) {
         self.bearer_loads[b].push((load, from));
         self.enqueue(Member::Bearer(b));
     }
 
     /// Load `kn` entering post `post` by `route`.
-    fn post_direct(&mut self, item: u32, post: usize, kn: f64, route: Route, case: Case) {
+    pub(super) fn post_direct(&mut self, item: u32, post: usize, kn: f64, route: Route, case: Case) {
         self.post_load[post] += kn;
         self.enqueue(Member::Post(post));
         if self.record {
@@ -342,7 +353,7 @@ impl<'m, 's> Solver<'m, 's> {
 
     /// Pass every gathered load down, member by member in the top-down order, until it reaches
     /// the base plates.
-    fn flow(&mut self, item: u32, case: Case) {
+    pub(super) fn flow(&mut self, item: u32, case: Case) {
         while let Some(Reverse(rank)) = self.queue.pop() {
             self.queued[rank as usize] = false;
             match self.model.graph.order[rank as usize] {
@@ -355,7 +366,7 @@ impl<'m, 's> Solver<'m, 's> {
     }
 
     /// The item with what the last flow put on the plates and passed on at post bases.
-    fn take_item(&mut self, mut item: Item) -> Item {
+    pub(super) fn take_item(&mut self, mut item: Item) -> Item {
         self.bases.sort_unstable_by_key(|e| e.0);
         self.internal.sort_unstable_by_key(|e| e.0);
         item.vertical = std::mem::take(&mut self.bases);
@@ -364,7 +375,7 @@ impl<'m, 's> Solver<'m, 's> {
     }
 
     /// A post passes everything that entered it to what it stands on.
-    fn pass_post(&mut self, p: usize, item: u32) {
+    pub(super) fn pass_post(&mut self, p: usize, item: u32) {
         let f = std::mem::take(&mut self.post_load[p]);
         let stands_on = self.model.graph.stands_on[p];
         if stands_on.is_plate() {
@@ -395,7 +406,7 @@ impl<'m, 's> Solver<'m, 's> {
     /// A uniform pressure `q` on a plan rectangle of deck `d`: each strip between bearers is a
     /// span across them (simple or continuous); the per-metre reactions become line loads on the
     /// bearers.
-    fn deck_area(&mut self, d: usize, rect: &crate::scene::model::Rect, q: f64) {
+    pub(super) fn deck_area(&mut self, d: usize, rect: &crate::scene::model::Rect, q: f64) {
         let deck = &self.model.decks[d];
         let (along, span) = deck.split_rect(rect);
         let load = BeamLoad::Uniform { from: span.0, to: span.1, w: q };
@@ -421,7 +432,7 @@ impl<'m, 's> Solver<'m, 's> {
 
     /// A point load on deck `d`, shared between the bearers either side by moment balance (or
     /// over all of them, continuous).
-    fn deck_point(&mut self, d: usize, x: f64, y: f64, p: f64, from: Source) {
+    pub(super) fn deck_point(&mut self, d: usize, x: f64, y: f64, p: f64, from: Source) {
         let deck = &self.model.decks[d];
         let (_, s) = deck.split(x, y);
         let load = BeamLoad::Point { at: s, p };
@@ -444,7 +455,7 @@ impl<'m, 's> Solver<'m, 's> {
     /// on it are shared separately, so the trace can say whose load each share is; they are not
     /// new load entering the structure, so they add nothing to the notional-load nodes. A
     /// single-post bearer adds the moment it cannot balance to [`Solver::unbalanced`].
-    fn share_bearer(&mut self, b: usize, item: u32, case: Case) {
+    pub(super) fn share_bearer(&mut self, b: usize, item: u32, case: Case) {
         let mut loads = std::mem::take(&mut self.bearer_loads[b]);
         // Group by source: direct loads first, then each post's, in a stable order.
         loads.sort_by_key(|l| l.1.map_or(0, |p| p as u64 + 1));
@@ -501,7 +512,7 @@ impl<'m, 's> Solver<'m, 's> {
 
     /// Reaction `r` of bearer `b` at its `k`-th post: load entering that post.
     #[allow(clippy::too_many_arguments)]
-    fn bearer_reaction(&mut self, b: usize, k: usize, r: f64, route: Route, new_load: bool, item: u32, case: Case) {
+    pub(super) fn bearer_reaction(&mut self, b: usize, k: usize, r: f64, route: Route, new_load: bool, item: u32, case: Case) {
         let post = self.model.bearers[b].posts[k];
         self.post_load[post] += r;
         self.enqueue(Member::Post(post));
