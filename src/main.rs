@@ -370,6 +370,17 @@ fn solve_text(a: &Analysis) -> String {
     let tagged = a.equilibrium_by_method.iter().enumerate().flat_map(|(m, eq)| eq.iter().map(move |e| (m, e)));
     for (m, e) in tagged {
         let tag = if methods.len() > 1 { format!(" [{}]", methods[m]) } else { String::new() };
+        if !e.one_state {
+            let _ = writeln!(
+                s,
+                "  {}{tag}: support by support, each two-span model balances (relative {:.1e}); its reactions ({:.3} kN) exceed the applied {:.3} kN by design",
+                e.case,
+                e.relative,
+                tidy(e.reactions.force[2]),
+                tidy(e.applied.down())
+            );
+            continue;
+        }
         let _ = writeln!(
             s,
             "  {}{tag}: applied {:>10.3} kN down, reactions {:>10.3} kN up, |ΣF| {:.1e} kN, |ΣM| {:.1e} kN·m, relative {:.1e}",

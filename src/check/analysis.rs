@@ -300,6 +300,21 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
             f(a).partial_cmp(&f(b)).unwrap_or(std::cmp::Ordering::Equal)
         })
         .expect("at least one method pass");
+    let mut warnings = model.warnings;
+    // T-heads that stand on their head's moment capacity: the worst moment over the passes.
+    let mut heads: Vec<&crate::solve::tee_heads::HeadMoment> = solutions.iter().flat_map(|s| &s.head_moments).collect();
+    heads.sort_by(|a, b| a.bearer.cmp(&b.bearer).then(b.moment_knm.total_cmp(&a.moment_knm)));
+    heads.dedup_by_key(|h| h.bearer);
+    for h in heads {
+        warnings.push(Problem {
+            kind: crate::scene::model::ElementKind::Bearer,
+            id: scene.bearers[h.bearer].id.clone(),
+            message: format!(
+                "rests on post {} alone and is out of balance by up to {:.3} kN·m with one arm loaded: it stands on the head's moment capacity of {:.3} kN·m given on the post's support type — check that value against the maker's data",
+                scene.posts[h.post].id, h.moment_knm, h.capacity_knm
+            ),
+        });
+    }
     let solution = solutions.remove(0);
     Ok(Analysis {
         scene_name: scene.site.name.clone(),
@@ -312,7 +327,7 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
         equilibrium_by_method,
         stability,
         braced: model.braced,
-        warnings: model.warnings,
+        warnings,
     })
 }
 

@@ -966,7 +966,7 @@ pub mod place {
     pub fn starter_support(id: &str) -> SupportType {
         // common practice, no source: the usual scaffold base plate size and a typical
         // adjustable base jack working load; placeholders until the planner enters the product's.
-        SupportType { id: id.to_owned(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: None }
+        SupportType { id: id.to_owned(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: None, head_moment_capacity_knm: None }
     }
 
     /// A new post at (x, y). It takes its levels and support type from the nearest post, or
@@ -1034,6 +1034,7 @@ pub mod place {
             overhang_end_m: 0.0,
             self_weight_kn_per_m: STEEL_TUBE_KN_PER_M,
             method: None,
+            joints: None,
         })
     }
 
@@ -1076,7 +1077,7 @@ pub mod place {
         let span = (spans[0].0, spans[spans.len() - 1].0);
         let extent = if along_x { Rect { x: along, y: span } } else { Rect { x: span, y: along } };
         let level = spans.iter().map(|s| s.2.level).fold(f64::NEG_INFINITY, f64::max);
-        Ok(Deck { id: fresh_id(scene, "D"), level, extent, bearers: spans.iter().map(|s| s.2.id.clone()).collect(), self_weight_kpa, method: None })
+        Ok(Deck { id: fresh_id(scene, "D"), level, extent, bearers: spans.iter().map(|s| s.2.id.clone()).collect(), self_weight_kpa, method: None, joints: None })
     }
 
     /// A brace from post `from` at `from_level` to post `to` at `to_level` (defaults: the lower

@@ -147,11 +147,12 @@ struct Equilibrium {
     force_residual_kn: f64,
     moment_residual_knm: f64,
     relative: f64,
+    one_state: bool,
 }
 
 impl From<&CaseEquilibrium> for Equilibrium {
     fn from(e: &CaseEquilibrium) -> Self {
-        Equilibrium { case: e.case, force_residual_kn: e.force_residual_kn, moment_residual_knm: e.moment_residual_knm, relative: e.relative }
+        Equilibrium { case: e.case, force_residual_kn: e.force_residual_kn, moment_residual_knm: e.moment_residual_knm, relative: e.relative, one_state: e.one_state }
     }
 }
 

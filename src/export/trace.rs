@@ -29,6 +29,7 @@ fn piece_words(scene: &Scene, bearer: u32, piece: Piece) -> String {
         Piece::EndOverhang => format!("{} {}, overhang after {}", role(b.role), b.id, post(b.posts.len() - 1)),
         Piece::Single => format!("{} {} on its single post", role(b.role), b.id),
         Piece::Continuous => format!("{} {}, continuous over {} posts", role(b.role), b.id, b.posts.len()),
+        Piece::TwoSpanModel => format!("{} {}, two-span model about this post (joints not known)", role(b.role), b.id),
     }
 }
 

@@ -65,6 +65,7 @@ impl Default for LayoutSpec {
                 swl_kn: 30.0,
                 // common practice: 225 mm board, 450 mm long per standard
                 sole_plate: Some(PlateSize { width_m: 0.225, length_m: 0.45 }),
+                head_moment_capacity_knm: None,
             },
             braced: true,
             id_prefix: String::new(),
@@ -125,6 +126,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 overhang_end_m: 0.0,
                 self_weight_kn_per_m: STEEL_TUBE_KN_PER_M,
                 method: None,
+                joints: None,
             });
         }
         for i in 0..nx {
@@ -137,6 +139,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 overhang_end_m: 0.0,
                 self_weight_kn_per_m: STEEL_TUBE_KN_PER_M,
                 method: None,
+                joints: None,
             });
         }
         if deck {
@@ -148,6 +151,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 bearers: scene.bearers[first_bearer..first_bearer + ny].iter().map(|b| b.id.clone()).collect(),
                 self_weight_kpa: spec.deck_self_weight_kpa,
                 method: None,
+                joints: None,
             });
             if let Some(class) = spec.load_class {
                 scene.loads.push(Load::new(format!("{p}Q-{id}"), Case::Q, LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) }));

@@ -145,6 +145,11 @@ pub struct SupportType {
     /// Timber sole plate or board under the base plate, if any. Bearing is taken on it.
     #[serde(default)]
     pub sole_plate: Option<PlateSize>,
+    /// Moment the head of a post of this type takes, kN·m, from the maker's data: a bearer on a
+    /// single post (a T-head) may then be out of balance by up to this much. `None`: the head
+    /// takes no moment and a T-head must balance.
+    #[serde(default)]
+    pub head_moment_capacity_knm: Option<f64>,
 }
 
 impl SupportType {
@@ -217,6 +222,11 @@ pub struct Bearer {
     /// [`AnalysisSettings::method`].
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub method: Option<BeamMethod>,
+    /// Posts (inner ones, by id) over which the member is jointed — not continuous — when known.
+    /// `None`: not known, so the envelope also covers two-span continuity at every inner post
+    /// ([`BeamMethod::Envelope`]). `Some(vec![])`: known to be continuous throughout.
+    #[serde(default)]
+    pub joints: Option<Vec<String>>,
 }
 
 /// A deck spanning across parallel bearers.
@@ -237,6 +247,11 @@ pub struct Deck {
     /// [`AnalysisSettings::method`].
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub method: Option<BeamMethod>,
+    /// Bearers (inner ones, by id) over which the decking is jointed — not continuous — when
+    /// known. `None`: not known, so the envelope also covers two-span continuity at every inner
+    /// bearer. `Some(vec![])`: known to be continuous throughout.
+    #[serde(default)]
+    pub joints: Option<Vec<String>>,
 }
 
 /// A structure of the permanent works that base plates stand on, such as an existing slab. Its
@@ -322,7 +337,14 @@ pub enum BeamMethod {
     /// supports take more: 1.25 wL at the middle of two equal spans instead of 1.0 wL.
     Continuous,
     /// Both, and each base plate takes whichever is worse: the larger maximum and the smaller
-    /// minimum. The default, since a member's continuity is rarely certain on site.
+    /// minimum. The default, since a member's continuity is rarely certain on site. Where a
+    /// member's joints are not known, the envelope also takes it as jointed at every other
+    /// support, both ways round, so that every inner support is the middle of a two-span piece:
+    /// two-span continuity puts 1.25 wL on the middle support, more than a long continuous member
+    /// (about 1.1 wL) or simple spans (1.0 wL).
+    // source: 5/8 of the load of a stiff beam on three rigid supports goes to the middle one,
+    // where 1/2 is assumed in simple-span design (Advisory Committee on Falsework, final report,
+    // HMSO 1975, via REFERENCES §9); the two-span coefficients are Hicks Table 2.1.
     #[default]
     Envelope,
 }

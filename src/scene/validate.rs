@@ -86,6 +86,8 @@ pub struct BearerLine {
     pub start: f64,
     /// End of the member (last support + end overhang), m.
     pub end: f64,
+    /// Inner supports (indices into `posts`) declared as joints; `None` when not known.
+    pub joints: Option<Vec<usize>>,
 }
 
 impl BearerLine {
@@ -121,6 +123,8 @@ pub struct DeckLine {
     pub supports: Vec<f64>,
     /// Span coordinate range of the deck extent.
     pub span_range: (f64, f64),
+    /// Inner supports (indices into `bearers`) declared as joints; `None` when not known.
+    pub joints: Option<Vec<usize>>,
 }
 
 impl DeckLine {
@@ -369,6 +373,9 @@ fn check_support_types(c: &mut Checker) {
         c.at_least(K::SupportType, &s.id, "base plate width (m)", s.base_plate.width_m, MIN_SPAN_M, LIMIT_M);
         c.at_least(K::SupportType, &s.id, "base plate length (m)", s.base_plate.length_m, MIN_SPAN_M, LIMIT_M);
         c.at_least(K::SupportType, &s.id, "safe working load (kN)", s.swl_kn, MIN_CAPACITY, LIMIT_KN);
+        if let Some(m) = s.head_moment_capacity_knm {
+            c.positive(K::SupportType, &s.id, "head moment capacity (kN·m)", m, LIMIT_KN, true);
+        }
         if let Some(sole) = s.sole_plate {
             c.at_least(K::SupportType, &s.id, "sole plate width (m)", sole.width_m, MIN_SPAN_M, LIMIT_M);
             c.at_least(K::SupportType, &s.id, "sole plate length (m)", sole.length_m, MIN_SPAN_M, LIMIT_M);
@@ -516,9 +523,26 @@ fn check_bearers(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Vec<Option<
             continue;
         }
         let end = supports.last().copied().unwrap_or(0.0) + b.overhang_end_m;
-        out.push(Some(BearerLine { posts, origin, dir, supports, start: -b.overhang_start_m, end }));
+        let names: Vec<&str> = b.posts.iter().map(String::as_str).collect();
+        let joints = inner_joints(c, K::Bearer, id, b.joints.as_deref(), &names, "post");
+        out.push(Some(BearerLine { posts, origin, dir, supports, start: -b.overhang_start_m, end, joints }));
     }
     out
+}
+
+/// Declared joints of a member as support indices: each must name one of its inner supports
+/// (`supports`, in order along it).
+fn inner_joints(c: &mut Checker, kind: ElementKind, id: &str, declared: Option<&[String]>, supports: &[&str], what: &str) -> Option<Vec<usize>> {
+    let declared = declared?;
+    let mut out = Vec::with_capacity(declared.len());
+    for j in declared {
+        match supports.iter().position(|s| s == j) {
+            Some(k) if k > 0 && k + 1 < supports.len() => out.push(k),
+            Some(_) => c.err(kind, id, format!("joint at {what} {j}: a joint must be at an inner {what}, not at an end")),
+            None => c.err(kind, id, format!("joint at {what} {j}: it does not rest on that {what}")),
+        }
+    }
+    Some(out)
 }
 
 fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Option<BearerLine>]) -> Vec<Option<DeckLine>> {
@@ -570,7 +594,7 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
             out.push(None);
             continue;
         };
-        let line = DeckLine { bearers: Vec::new(), bearer_axis: axis, supports: Vec::new(), span_range: (0.0, 0.0) };
+        let line = DeckLine { bearers: Vec::new(), bearer_axis: axis, supports: Vec::new(), span_range: (0.0, 0.0), joints: None };
         let (along_range, span_range) = line.split_rect(&e);
         let mut positions: Vec<(f64, usize)> = Vec::new();
         let mut covered = true;
@@ -611,11 +635,14 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
                 c.warn(K::Deck, id, format!("level {} is below bearer {} at {}", d.level, bl.id, bl.level));
             }
         }
+        let ordered: Vec<&str> = positions.iter().map(|p| scene.bearers[p.1].id.as_str()).collect();
+        let joints = inner_joints(c, K::Deck, id, d.joints.as_deref(), &ordered, "bearer");
         out.push(Some(DeckLine {
             bearers: positions.iter().map(|p| p.1).collect(),
             bearer_axis: axis,
             supports: positions.iter().map(|p| p.0).collect(),
             span_range,
+            joints,
         }));
     }
     out

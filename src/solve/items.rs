@@ -215,6 +215,11 @@ pub struct Solution {
     pub items: Vec<Item>,
     /// Every reaction share, for tracing.
     pub contributions: Vec<Contribution>,
+    /// Single-post bearers that stand only because their post's head takes a moment.
+    pub head_moments: Vec<crate::solve::tee_heads::HeadMoment>,
+    /// Where members are taken support by support ([`MethodPass::is_one_state`] false): the
+    /// worst relative equilibrium residual of their two-span models; 0 otherwise.
+    pub local_residual: f64,
     /// How the members shared their loads in this solution.
     pub method: MethodPass,
 }
