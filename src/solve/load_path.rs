@@ -19,7 +19,7 @@ use crate::scene::standing::{Member, StandsOn};
 use crate::solve::beam::{share_simple, BeamLoad, Piece};
 use crate::solve::continuous::{JointedBeam, TwoSpanLocal};
 use crate::solve::passes::Behaviour;
-use crate::scene::loads::{Case, LoadKind};
+use crate::scene::loads::{Case, Intensity, LoadKind};
 use crate::solve::rigid_base::{RigidBase, RigidBaseError};
 use crate::scene::validate::{Model, Target};
 use crate::solve::items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
@@ -219,6 +219,11 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
         s.flow(item, load.case);
         let mut it = s.take_item(Item::new(load.id.clone(), load.case, applied));
         it.arranged = s.arrange(load, model.load_targets[k]);
+        if let (Case::Q, Target::Deck(d), LoadKind::DeckArea { intensity, .. } | LoadKind::DeckPatch { intensity, .. }) = (load.case, model.load_targets[k], &load.kind) {
+            if matches!(intensity, Intensity::LoadClassUniform(_) | Intensity::LoadClassPartial(_)) {
+                it.working_level = Some(scene.decks[d].level);
+            }
+        }
         if load.case == Case::G {
             heads.permanent(&s.unbalanced);
         } else if it.arranged.is_some() {
