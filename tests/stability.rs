@@ -471,6 +471,47 @@ fn demo_outputs_lead_with_failed_checks() {
     }
 }
 
+#[test]
+fn a_tower_of_spliced_lifts_tips_on_its_base_plates() {
+    // statics, by hand: four base posts at (0|2, 0|2), 3 m, each with a lift spliced on top
+    // (3 to 6 m) carrying 10 kN; bearers along x on the upper lifts overhang x = 2 by 1 m with
+    // 5 kN at each tip. About x = 2 on the base plates: restoring 2 × 10 × 2 = 40, overturning
+    // 2 × 5 × 1 = 10 → 4.0; EN 1990 EQU 1.1 × 10 = 11 against 0.9 × 40 = 36.
+    let mut s = bare_scene();
+    for (id, x, y) in [("A1", 0.0, 0.0), ("B1", 2.0, 0.0), ("A2", 0.0, 2.0), ("B2", 2.0, 2.0)] {
+        s.posts.push(post(id, x, y, 3.0));
+        let mut upper = post(&format!("{id}-2"), x, y, 6.0);
+        upper.base_level = 3.0;
+        upper.support = None;
+        s.posts.push(upper);
+        s.loads.push(load(&format!("G-{id}"), Case::G, LoadKind::PostTop { post: format!("{id}-2"), kn: 10.0 }));
+    }
+    for (id, a, b) in [("U1", "A1-2", "B1-2"), ("U2", "A2-2", "B2-2")] {
+        let mut br = bearer(id, 6.0, &[a, b]);
+        br.overhang_end_m = 1.0;
+        s.bearers.push(br);
+        s.loads.push(load(&format!("tip-{id}"), Case::G, LoadKind::BearerPoint { bearer: id.into(), at_m: 3.0, kn: 5.0 }));
+    }
+    s.braces = vec![brace("bx", "A1", "B1", 3.0), brace("by", "B1", "B2", 3.0)];
+    let a = analyse(&s).unwrap();
+    assert_eq!(a.stability.structures.len(), 1, "splices and bearers join the lifts to their base");
+    assert_eq!(a.stability.structures[0].plate_count, 4);
+    let ax = axis_towards(&a, 0.0);
+    close("restoring", ax.permanent_stabilising_knm, 40.0, 1e-9);
+    close("overturning", ax.permanent_destabilising_knm, 10.0, 1e-9);
+    close("factor", ax.factor.unwrap(), 4.0, 1e-12);
+    close("E_dst", ax.equ_destabilising_knm, 11.0, 1e-9);
+    close("E_stb", ax.equ_stabilising_knm, 36.0, 1e-9);
+    // Kentledge cannot sit on a lift: it has no base plate.
+    let mut bad = s.clone();
+    bad.loads.push(load("K", Case::G, LoadKind::Kentledge { on: KentledgePlace::Plates(vec!["A1-2".into()]), kn: 5.0, form: KentledgeForm::Fixed, secured: true }));
+    bad.stability.kentledge_plates = vec!["B2-2".into()];
+    let msg = analyse(&bad).err().expect("refused").to_string();
+    for needle in ["load K", "post A1-2, which stands on another member", "kentledge plate B2-2", "no base plate"] {
+        assert!(msg.contains(needle), "{needle:?} not in {msg}");
+    }
+}
+
 // ---------------------------------------------------------------------------------------------
 // Properties on generated towers
 

@@ -1,13 +1,48 @@
 //! Ground bearing under each base plate: on the top of the granular layer (under the plate or
 //! sole board), and at formation level (spread through the layer, plus the layer's own weight
 //! where the allowable is gross); plates whose spread areas overlap are also taken together, over
-//! the union of their areas.
+//! the union of their areas. A plate on an existing structure bears on its own area against the
+//! structure's allowable; a post standing on another member has no bearing to check.
 //!
 //! Plate sizes are in plan with the width along x and the length along y.
 
 use crate::fxhash::FxMap as HashMap;
 use crate::scene::combination::Combination;
 use crate::scene::model::{AllowableBasis, GranularLayer, Scene, SupportType};
+use crate::scene::standing::StandsOn;
+use crate::scene::validate::Model;
+
+/// What a post's base bears on.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+pub enum BearsOn {
+    /// The ground (through the granular layer, if any), on a support type (index).
+    Ground {
+        /// Support type index.
+        support: usize,
+    },
+    /// An existing structure (index), on a support type (index).
+    Structure {
+        /// Support type index.
+        support: usize,
+        /// Existing structure index.
+        structure: usize,
+    },
+    /// Nothing to check: the post stands on another member.
+    Nothing,
+}
+
+impl BearsOn {
+    /// What every post of a validated scene bears on, in post order.
+    pub fn of(model: &Model) -> Vec<BearsOn> {
+        (0..model.scene.posts.len())
+            .map(|p| match (model.graph.stands_on[p], model.post_support[p]) {
+                (StandsOn::Ground, Some(support)) => BearsOn::Ground { support },
+                (StandsOn::Structure(structure), Some(support)) => BearsOn::Structure { support, structure },
+                _ => BearsOn::Nothing,
+            })
+            .collect()
+    }
+}
 
 /// Bearing of one support type on the ground.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
@@ -53,10 +88,15 @@ pub struct Ground {
     pub allowable_kpa: Option<f64>,
     /// Whether that allowable is net or gross of the layer's weight.
     pub basis: AllowableBasis,
+    /// What each post bears on.
+    pub bears_on: Vec<BearsOn>,
+    /// Allowable pressure under a plate on each existing structure, kPa.
+    pub structure_allowable_kpa: Vec<f64>,
     /// Per plate: area under its bearing plate (sole plate, else base plate), m² — on the top
-    /// of the layer, or on the ground when there is none.
+    /// of the layer, or on the ground when there is none (0 for a post without a plate).
     pub plate_area_m2: Vec<f64>,
-    /// Per plate: area at formation level, m² (equal to the plate area without a layer).
+    /// Per plate: area at formation level, m² (equal to the plate area without a layer, or on
+    /// an existing structure).
     pub formation_area_m2: Vec<f64>,
     /// Groups of plates whose bearing plates overlap on the top of the layer (or the ground).
     pub surface_groups: Vec<SpreadGroup>,
@@ -88,20 +128,40 @@ const OVERLAP_TOLERANCE_M: f64 = 1e-9;
 const LEVEL_TOLERANCE_M: f64 = 1e-3;
 
 impl Ground {
-    /// Prepare the ground of `scene` under plates at `plates` (x, y, base level) standing on
-    /// support types `plate_support` (indices into `scene.support_types`).
-    pub fn new(scene: &Scene, plates: &[[f64; 3]], plate_support: &[usize]) -> Self {
+    /// Prepare the ground of a validated scene under its posts at `plates` (x, y, base level).
+    pub fn new(model: &Model, plates: &[[f64; 3]]) -> Self {
+        Ground::on(model.scene, plates, &BearsOn::of(model))
+    }
+
+    /// Prepare the ground of `scene` under posts at `plates` (x, y, base level) bearing on `bears`.
+    pub fn on(scene: &Scene, plates: &[[f64; 3]], bears: &[BearsOn]) -> Self {
         let layer = scene.site.granular_layer;
-        let plate_size: Vec<(f64, f64)> = plate_support
+        let plate_size: Vec<(f64, f64)> = bears
             .iter()
-            .map(|&s| {
-                let b = scene.support_types[s].bearing_plate();
-                (b.width_m, b.length_m)
+            .map(|b| match b {
+                BearsOn::Ground { support } | BearsOn::Structure { support, .. } => {
+                    let b = scene.support_types[*support].bearing_plate();
+                    (b.width_m, b.length_m)
+                }
+                BearsOn::Nothing => (0.0, 0.0),
             })
             .collect();
-        let formation_size: Vec<(f64, f64)> = plate_support.iter().map(|&s| formation_size(layer, &scene.support_types[s])).collect();
+        let formation_size: Vec<(f64, f64)> = bears
+            .iter()
+            .zip(&plate_size)
+            .map(|(b, &size)| match b {
+                BearsOn::Ground { support } => formation_size(layer, &scene.support_types[*support]),
+                _ => size,
+            })
+            .collect();
+        // Only plates on the ground share the ground's bearing.
         let rects = |sizes: &[(f64, f64)]| -> Vec<[f64; 4]> {
-            plates.iter().zip(sizes).map(|(p, &(w, l))| [p[0] - w / 2.0, p[1] - l / 2.0, p[0] + w / 2.0, p[1] + l / 2.0]).collect()
+            plates
+                .iter()
+                .zip(sizes)
+                .zip(bears)
+                .map(|((p, &(w, l)), b)| if matches!(b, BearsOn::Ground { .. }) { [p[0] - w / 2.0, p[1] - l / 2.0, p[0] + w / 2.0, p[1] + l / 2.0] } else { [f64::NAN; 4] })
+                .collect()
         };
         let (surface_groups, surface_group_of) = groups(&rects(&plate_size), plates);
         let (formation_groups, formation_group_of) = if layer.is_some() { groups(&rects(&formation_size), plates) } else { (Vec::new(), vec![None; plates.len()]) };
@@ -109,6 +169,8 @@ impl Ground {
             layer,
             allowable_kpa: scene.site.allowable_bearing_kpa,
             basis: scene.site.allowable_basis,
+            bears_on: bears.to_vec(),
+            structure_allowable_kpa: scene.existing_structures.iter().map(|e| e.allowable_kpa).collect(),
             plate_area_m2: plate_size.iter().map(|(w, l)| w * l).collect(),
             formation_area_m2: formation_size.iter().map(|(w, l)| w * l).collect(),
             surface_groups,
@@ -137,7 +199,17 @@ impl Ground {
         let added = self.layer_weight_added_kpa();
         (0..max_kn.len())
             .map(|p| {
+                let structure = match self.bears_on[p] {
+                    BearsOn::Nothing => return Pressures::default(),
+                    BearsOn::Structure { structure, .. } => Some(structure),
+                    BearsOn::Ground { .. } => None,
+                };
                 let own = down(p) / self.plate_area_m2[p];
+                if let Some(e) = structure {
+                    // On an existing structure: under the plate, against its own allowable.
+                    let allowable = self.structure_allowable_kpa[e];
+                    return Pressures { formation_kpa: own, formation_utilisation: Some(own / allowable), layer_top_kpa: None, layer_utilisation: None };
+                }
                 let surface = self.surface_group_of[p].map_or(own, |g| own.max(surface_group_kpa[g as usize]));
                 let (formation_kpa, layer_top_kpa) = match self.layer {
                     None => (surface, None),
@@ -194,25 +266,34 @@ fn groups(rects: &[[f64; 4]], plates: &[[f64; 3]]) -> (Vec<SpreadGroup>, Vec<Opt
     }
     // Cells as large as the largest rectangle: overlapping rectangles have their lower-left
     // corners in the same or neighbouring cells.
-    let cell = rects.iter().map(|r| (r[2] - r[0]).max(r[3] - r[1])).fold(0.0, f64::max);
+    let cell = rects.iter().filter(|r| r[0].is_finite()).map(|r| (r[2] - r[0]).max(r[3] - r[1])).fold(0.0, f64::max);
     let mut any = false;
     if cell > 0.0 && cell.is_finite() {
         let key = |r: &[f64; 4]| ((r[0] / cell).floor() as i64, (r[1] / cell).floor() as i64);
-        let mut cells: HashMap<(i64, i64), Vec<usize>> = HashMap::default();
-        for (i, r) in rects.iter().enumerate() {
-            cells.entry(key(r)).or_default().push(i);
+        // First rectangle of each cell, and for each rectangle the next one in its cell.
+        let mut cells: HashMap<(i64, i64), usize> = HashMap::default();
+        let mut next = vec![usize::MAX; n];
+        for (i, r) in rects.iter().enumerate().filter(|(_, r)| r[0].is_finite()) {
+            if let Some(first) = cells.insert(key(r), i) {
+                next[i] = first;
+            }
         }
-        for (i, r) in rects.iter().enumerate() {
+        for (i, r) in rects.iter().enumerate().filter(|(_, r)| r[0].is_finite()) {
             let (cx, cy) = key(r);
             for dx in -1..=1 {
                 for dy in -1..=1 {
-                    let Some(list) = cells.get(&(cx + dx, cy + dy)) else { continue };
-                    for &j in list.iter().filter(|&&j| j > i) {
-                        let o = &rects[j];
+                    let mut j = cells.get(&(cx + dx, cy + dy)).copied().unwrap_or(usize::MAX);
+                    while j != usize::MAX {
+                        let here = j;
+                        j = next[here];
+                        if here <= i {
+                            continue;
+                        }
+                        let o = &rects[here];
                         let ox = r[2].min(o[2]) - r[0].max(o[0]);
                         let oy = r[3].min(o[3]) - r[1].max(o[1]);
                         if ox > OVERLAP_TOLERANCE_M && oy > OVERLAP_TOLERANCE_M {
-                            let (a, b) = (root(&mut parent, i), root(&mut parent, j));
+                            let (a, b) = (root(&mut parent, i), root(&mut parent, here));
                             if a != b {
                                 parent[a] = b;
                                 any = true;
@@ -314,7 +395,7 @@ mod tests {
     use crate::scene::model::{LoadSpread, PlateSize};
 
     fn support(sole: Option<PlateSize>) -> SupportType {
-        SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: sole, friction: Vec::new() }
+        SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: sole, friction: Vec::new(), head_moment_capacity_knm: None }
     }
 
     #[test]
@@ -369,7 +450,7 @@ mod tests {
         layer.unit_weight_kn_m3 = 19.0;
         scene.site.granular_layer = Some(layer);
         scene.site.allowable_basis = AllowableBasis::Net;
-        let g = Ground::new(&scene, &plates, &[0, 0]);
+        let g = Ground::on(&scene, &plates, &[BearsOn::Ground { support: 0 }; 2]);
         assert_eq!(g.formation_groups.len(), 1);
         let p = g.pressures(&[20.0, 20.0]);
         assert!((p[0].formation_kpa - 40.0 / (0.75 * 0.45)).abs() < 1e-9, "{p:?}");
@@ -378,13 +459,13 @@ mod tests {
         assert!((p[1].layer_top_kpa.unwrap() - 888.888_9).abs() < 1e-3 && p[1].layer_utilisation.is_none());
         // Gross adds the layer's weight.
         scene.site.allowable_basis = AllowableBasis::Gross;
-        let p = Ground::new(&scene, &plates, &[0, 0]).pressures(&[20.0, 20.0]);
+        let p = Ground::on(&scene, &plates, &[BearsOn::Ground { support: 0 }; 2]).pressures(&[20.0, 20.0]);
         assert!((p[0].formation_kpa - (118.518_5 + 2.85)).abs() < 1e-3);
         // 2:1: the footprints touch, so each plate keeps its own spread area.
         scene.site.allowable_basis = AllowableBasis::Net;
         layer.spread = LoadSpread::TwoToOne;
         scene.site.granular_layer = Some(layer);
-        let g = Ground::new(&scene, &plates, &[0, 0]);
+        let g = Ground::on(&scene, &plates, &[BearsOn::Ground { support: 0 }; 2]);
         assert!(g.formation_groups.is_empty());
         assert!((g.pressures(&[20.0, 20.0])[0].formation_kpa - 222.222_2).abs() < 1e-3);
     }
@@ -397,7 +478,7 @@ mod tests {
         scene.support_types.push(support(None));
         scene.site.granular_layer = Some(GranularLayer::new(0.15, LoadSpread::FortyFive));
         scene.site.allowable_basis = AllowableBasis::Net;
-        let g = Ground::new(&scene, &[[0.0, 0.0, 0.0], [0.3, 0.0, 0.0]], &[0, 0]);
+        let g = Ground::on(&scene, &[[0.0, 0.0, 0.0], [0.3, 0.0, 0.0]], &[BearsOn::Ground { support: 0 }; 2]);
         let p = g.pressures(&[40.0, 1.0]);
         assert!((p[0].formation_kpa - 40.0 / (0.45 * 0.45)).abs() < 1e-9);
         assert!((p[1].formation_kpa - 41.0 / (0.75 * 0.45)).abs() < 1e-9);

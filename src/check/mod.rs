@@ -22,5 +22,5 @@ pub mod stability;
 
 pub use analysis::{analyse, Analysis, AnalysisError, PlateResult, METHODS_AGREE};
 pub use equilibrium::{equilibrium, CaseEquilibrium};
-pub use bearing::{bearing_area, Bearing, Ground};
-pub use plates::{combine, combine_envelope, MethodEnvelope, PlateCombination, Status, METHOD_TIE_RELATIVE, UPLIFT_TOLERANCE_KN};
+pub use bearing::{bearing_area, Bearing, BearsOn, Ground};
+pub use plates::{capacities, combine, combine_envelope, MethodEnvelope, PlateCombination, PostCapacity, Status, METHOD_TIE_RELATIVE, UPLIFT_TOLERANCE_KN};

@@ -53,7 +53,7 @@ pub fn permanent_parts(scene: &Scene, solution: &Solution) -> Vec<PermanentParts
     let mut out = vec![PermanentParts::default(); solution.plates.len()];
     for c in &solution.contributions {
         let Some(reliable) = favourable[c.item as usize] else { continue };
-        let p = &mut out[c.plate as usize];
+        let p = &mut out[c.post as usize];
         if c.kn < 0.0 {
             p.up_kn += c.kn;
         } else if reliable {

@@ -1,8 +1,10 @@
 //! Checking each base plate: combined loads, uplift, load on the jack and pressure on the ground.
 
-use crate::scene::combination::Combination;
 use crate::check::bearing::Ground;
+use crate::check::permanent::PermanentParts;
+use crate::scene::combination::Combination;
 use crate::scene::model::Scene;
+use crate::scene::validate::Model;
 use crate::solve::Solution;
 
 /// A reaction below this (kN) counts as uplift; above zero by this margin only to ignore
@@ -49,6 +51,20 @@ impl std::fmt::Display for Status {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         f.write_str(self.label())
     }
+}
+
+/// What one post's base is checked against for its load (its bearing is [`Ground`]'s).
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct PostCapacity {
+    /// Safe working load of its base jack / plate, kN; infinite where it has no support type.
+    pub swl_kn: f64,
+}
+
+/// What each post's base is checked against, in post order: its support's safe working load, if
+/// it has a support type (a post standing on another member may have none).
+pub fn capacities(model: &Model) -> Vec<PostCapacity> {
+    let scene = model.scene;
+    (0..scene.posts.len()).map(|p| PostCapacity { swl_kn: model.post_support[p].map_or(f64::INFINITY, |s| scene.support_types[s].swl_kn) }).collect()
 }
 
 /// One plate under one combination.
@@ -113,36 +129,66 @@ impl PlateCombination {
 /// horizontal loads the worst single plan direction is taken ([`crate::check::actions::VariableActions`]).
 /// For the minimum, a notional load counts only with the part due to permanent load: the
 /// variable load it would come from is then absent.
-pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Vec<Vec<PlateCombination>> {
-    combine_on(scene, solution, post_support, &Ground::new(scene, &solution.plates, post_support))
+///
+/// Every post gets a result: the plate load of a post with a base plate, the load passed on at the
+/// base of any other (where a negative minimum is tension through a splice or a post lifting off
+/// what it stands on).
+pub fn combine(scene: &Scene, solution: &Solution, caps: &[PostCapacity], ground: &Ground) -> Vec<Vec<PlateCombination>> {
+    combine_with(scene, solution, &crate::check::permanent::permanent_parts(scene, solution), caps, ground)
 }
 
-/// [`combine`] on ground prepared once.
-fn combine_on(scene: &Scene, solution: &Solution, post_support: &[usize], ground: &Ground) -> Vec<Vec<PlateCombination>> {
+/// [`combine`] with the permanent parts at every post already split
+/// ([`crate::check::permanent::permanent_parts`]).
+fn combine_with(scene: &Scene, solution: &Solution, permanent: &[PermanentParts], caps: &[PostCapacity], ground: &Ground) -> Vec<Vec<PlateCombination>> {
     let n = solution.plates.len();
-    let permanent = crate::check::permanent::permanent_parts(scene, solution);
     let mut out = vec![Vec::with_capacity(scene.combinations.len()); n];
     let (mut hi, mut lo) = (vec![0.0; n], vec![0.0; n]);
     let (mut group_hi, mut group_lo) = (vec![0.0; n], vec![0.0; n]);
-    let actions = crate::check::actions::VariableActions::of(&solution.items);
+    let actions = crate::check::actions::VariableActions::of(&solution.items, scene.analysis.working_levels);
     for comb in &scene.combinations {
         let f = comb.factors;
-        // The parts of the permanent load that press a plate down and those that lift it take
+        // The parts of the permanent load that press a post down and those that lift it take
         // their own factors for the minimum; the maximum takes the whole with the worse factor.
         for p in 0..n {
             hi[p] = permanent[p].maximum(f.g_favourable, f.g_unfavourable);
             lo[p] = permanent[p].minimum(f.g_favourable, f.g_unfavourable);
         }
         for &i in &actions.independent {
-            let item = &solution.items[i];
-            let gamma = comb.variable_factor(item.case);
-            for &(p, v) in &item.vertical {
-                let v = gamma * v;
-                if v > 0.0 {
-                    hi[p as usize] += v;
-                } else {
-                    lo[p as usize] += v;
+            add_vertical_variable(&solution.items[i], comb, &mut hi, &mut lo);
+        }
+        // Working levels: one level in full with the worse adjacent one at half, at each post.
+        if !actions.by_level.is_empty() {
+            let per_level: Vec<(Vec<f64>, Vec<f64>)> = actions
+                .by_level
+                .iter()
+                .map(|(_, group)| {
+                    let (mut h, mut l) = (vec![0.0; n], vec![0.0; n]);
+                    for &i in group {
+                        add_vertical_variable(&solution.items[i], comb, &mut h, &mut l);
+                    }
+                    (h, l)
+                })
+                .collect();
+            let share = crate::check::actions::ADJACENT_LEVEL_SHARE;
+            for p in 0..n {
+                let (mut best_hi, mut best_lo) = (0.0f64, 0.0f64);
+                for k in 0..per_level.len() {
+                    let adjacent = |f: &dyn Fn(&(Vec<f64>, Vec<f64>)) -> f64, pick: fn(f64, f64) -> f64| {
+                        let below = k.checked_sub(1).map(|j| f(&per_level[j]));
+                        let above = per_level.get(k + 1).map(f);
+                        match (below, above) {
+                            (Some(a), Some(b)) => pick(a, b),
+                            (Some(a), None) | (None, Some(a)) => a,
+                            (None, None) => 0.0,
+                        }
+                    };
+                    let h = per_level[k].0[p] + share * adjacent(&|x| x.0[p], f64::max);
+                    let l = per_level[k].1[p] + share * adjacent(&|x| x.1[p], f64::min);
+                    best_hi = best_hi.max(h);
+                    best_lo = best_lo.min(l);
                 }
+                hi[p] += best_hi;
+                lo[p] += best_lo;
             }
         }
         // Horizontal directions are alternatives: the worst single direction counts.
@@ -154,7 +200,7 @@ fn combine_on(scene: &Scene, solution: &Solution, post_support: &[usize], ground
                 for &i in group {
                     let item = &solution.items[i];
                     let gamma = comb.variable_factor(item.case);
-                    for &(p, v) in &item.vertical {
+                    for &(p, v) in item.vertical.iter().chain(&item.internal) {
                         group_hi[p as usize] += gamma * v;
                     }
                     for &(p, v) in item.vertical_permanent_basis.as_ref().unwrap_or(&item.vertical) {
@@ -172,18 +218,43 @@ fn combine_on(scene: &Scene, solution: &Solution, post_support: &[usize], ground
             }
         }
         for p in 0..n {
-            let support = &scene.support_types[post_support[p]];
-            out[p].push(plate_combination(comb, hi[p], lo[p], support.swl_kn));
+            out[p].push(plate_combination(comb, hi[p], lo[p], caps[p]));
         }
     }
     ground.fill(&scene.combinations, &mut out);
     out
 }
 
-/// One plate under one combination, with everything but the ground bearing
+/// Add one vertical variable item to the maximum and minimum at every post it reaches.
+fn add_vertical_variable(item: &crate::solve::Item, comb: &Combination, hi: &mut [f64], lo: &mut [f64]) {
+    let gamma = comb.variable_factor(item.case);
+    match &item.arranged {
+        // Arranged: at each post, the cells that push it down for the maximum and those that
+        // lift it for the minimum.
+        Some(arranged) => {
+            for &(p, down, up) in &arranged.extremes {
+                hi[p as usize] += gamma * down;
+                lo[p as usize] += gamma * up;
+            }
+        }
+        // Whole: present everywhere or not at all, whichever is worse.
+        None => {
+            for &(p, v) in item.vertical.iter().chain(&item.internal) {
+                let v = gamma * v;
+                if v > 0.0 {
+                    hi[p as usize] += v;
+                } else {
+                    lo[p as usize] += v;
+                }
+            }
+        }
+    }
+}
+
+/// One post under one combination, with everything but the bearing
 /// ([`PlateCombination::set_bearing`] adds it).
-fn plate_combination(comb: &Combination, max_kn: f64, min_kn: f64, swl: f64) -> PlateCombination {
-    let load_utilisation = max_kn.max(0.0) / swl;
+fn plate_combination(comb: &Combination, max_kn: f64, min_kn: f64, cap: PostCapacity) -> PlateCombination {
+    let load_utilisation = max_kn.max(0.0) / cap.swl_kn;
     let status = Status { over: comb.checks_capacity && load_utilisation > 1.0 + 1e-9, uplift: comb.checks_uplift && min_kn < -UPLIFT_TOLERANCE_KN, slides: false };
     PlateCombination {
         max_kn,
@@ -212,18 +283,15 @@ pub struct MethodEnvelope {
     pub envelope: Vec<Vec<PlateCombination>>,
     /// The same per pass: `[pass][plate][combination]`.
     pub by_method: Vec<Vec<Vec<PlateCombination>>>,
-    /// The ground the bearing pressures were found on.
-    pub ground: Ground,
 }
 
 /// [`combine`] every solution (one per method pass, in pass order) and take, per plate and
 /// combination, the larger maximum and the smaller minimum. The structure's behaviour is one for
 /// all loads of a combination, so each pass is combined whole before the envelope is taken.
-pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[usize]) -> MethodEnvelope {
-    let Some(first) = solutions.first() else { return MethodEnvelope { envelope: Vec::new(), by_method: Vec::new(), ground: Ground::new(scene, &[], &[]) } };
-    let ground = Ground::new(scene, &first.plates, post_support);
-    let by_method: Vec<_> = solutions.iter().map(|s| combine_on(scene, s, post_support, &ground)).collect();
-    let n = first.plates.len();
+/// `permanent[pass]` holds the permanent parts at every post of each solution.
+pub fn combine_envelope(scene: &Scene, solutions: &[Solution], permanent: &[Vec<PermanentParts>], caps: &[PostCapacity], ground: &Ground) -> MethodEnvelope {
+    let by_method: Vec<_> = solutions.iter().zip(permanent).map(|(s, parts)| combine_with(scene, s, parts, caps, ground)).collect();
+    let n = solutions.first().map_or(0, |s| s.plates.len());
     let mut envelope: Vec<Vec<PlateCombination>> = (0..n)
         .map(|p| {
             scene
@@ -241,8 +309,7 @@ pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[u
                             lo = (pc.min_kn, m);
                         }
                     }
-                    let support = &scene.support_types[post_support[p]];
-                    let mut out = plate_combination(comb, hi.0, lo.0, support.swl_kn);
+                    let mut out = plate_combination(comb, hi.0, lo.0, caps[p]);
                     out.max_method = hi.1;
                     out.min_method = lo.1;
                     out
@@ -251,7 +318,7 @@ pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[u
         })
         .collect();
     ground.fill(&scene.combinations, &mut envelope);
-    MethodEnvelope { envelope, by_method, ground }
+    MethodEnvelope { envelope, by_method }
 }
 
 #[cfg(test)]

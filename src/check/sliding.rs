@@ -109,45 +109,85 @@ struct Case2 {
     normal_d: f64,
 }
 
+/// Length of a plan vector (shears here are far from overflow, so no `hypot` needed).
+fn norm(v: [f64; 2]) -> f64 {
+    (v[0] * v[0] + v[1] * v[1]).sqrt()
+}
+
+/// The worst direction so far at one plate.
+#[derive(Debug, Clone, Copy)]
+struct Worst {
+    group: usize,
+    shear: f64,
+    normal: f64,
+    factor: Option<f64>,
+    shear_d: f64,
+    friction_d: f64,
+    restraint: f64,
+}
+
 /// Check sliding of every plate and structure; `solutions` are the method passes (the worst is
-/// kept), `structure_plates` and `labels` from the stability check.
-pub fn sliding(scene: &Scene, solutions: &[Solution], post_support: &[usize], structure_plates: &[Vec<u32>], labels: &[String]) -> Sliding {
+/// kept) with the permanent parts at every post of each (`permanent[pass][post]`),
+/// `structure_plates` and `labels` from the stability check.
+pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<PermanentParts>], post_support: &[Option<usize>], structure_plates: &[Vec<u32>], labels: &[String]) -> Sliding {
     let settings = &scene.stability;
     let f = settings.equilibrium;
     let target = settings.sliding_target_factor;
     let n = solutions[0].plates.len();
-    let mu: Vec<Option<f64>> = (0..n).map(|p| scene.support_types[post_support[p]].friction().map(|(m, _)| m)).collect();
-    let actions = VariableActions::of(&solutions[0].items);
+    let mu: Vec<Option<f64>> = (0..n).map(|p| post_support[p].and_then(|s| scene.support_types[s].friction()).map(|(m, _)| m)).collect();
+    // Every imposed load that lifts a plate counts, on every working level (the more cautious).
+    let actions = VariableActions::of(&solutions[0].items, crate::scene::model::WorkingLevels::AllAtOnce);
     let has_permanent_horizontal = solutions[0].items.iter().any(|i| i.case == Case::G && i.direction.is_some());
     // Direction groups; permanent horizontal loads alone if there is no variable one.
     let mut groups: Vec<Vec<usize>> = actions.by_direction.clone();
     if groups.is_empty() && has_permanent_horizontal {
         groups.push(Vec::new());
     }
+    if groups.is_empty() {
+        return Sliding { target_factor: target, checks: Vec::new(), plates_to_restrain: 0, plates: vec![None; n] };
+    }
     let gamma = |case: Case| match case {
         Case::G => f.g_unfavourable,
         Case::Q => f.q,
         Case::W => f.w,
     };
-    let mut plates: Vec<Option<PlateSliding>> = vec![None; n];
+    let towards: Vec<String> = groups
+        .iter()
+        .map(|group| match group.first() {
+            Some(&i) => {
+                let items = &solutions[0].items;
+                let ids: Vec<&str> = group.iter().map(|&k| items[k].id.as_str()).collect();
+                format!("towards {}: {}", items[i].direction.map_or_else(String::new, direction_words), ids.join(", "))
+            }
+            None => "permanent horizontal load".to_owned(),
+        })
+        .collect();
+    let mut worst: Vec<Option<Worst>> = vec![None; n];
     // Per structure and group: the worst over passes.
     let mut checks: Vec<Option<SlidingCheck>> = vec![None; structure_plates.len() * groups.len()];
     let mut cases = vec![Case2::default(); n];
-    for sol in solutions {
-        let parts: Vec<PermanentParts> = crate::check::permanent::permanent_parts(scene, sol);
+    let (mut lift, mut lift_d, mut g_shear) = (vec![0.0; n], vec![0.0; n], vec![[0.0; 2]; n]);
+    for (sol, parts) in solutions.iter().zip(permanent) {
         // Imposed (and other vertical variable) loads that lift a plate: always with it.
-        let (mut lift, mut lift_d) = (vec![0.0; n], vec![0.0; n]);
+        lift.iter_mut().for_each(|v| *v = 0.0);
+        lift_d.iter_mut().for_each(|v| *v = 0.0);
         for &i in &actions.independent {
             let item = &sol.items[i];
-            for &(p, v) in &item.vertical {
-                if v < 0.0 {
+            let y = gamma(item.case);
+            let mut add = |p: u32, v: f64| {
+                if v < 0.0 && sol.is_plate[p as usize] {
                     lift[p as usize] += v;
-                    lift_d[p as usize] += gamma(item.case) * v;
+                    lift_d[p as usize] += y * v;
                 }
+            };
+            match &item.arranged {
+                // An arranged load: the cells that lift the plate.
+                Some(arranged) => arranged.extremes.iter().for_each(|&(p, _, up)| add(p, up)),
+                None => item.vertical.iter().for_each(|&(p, v)| add(p, v)),
             }
         }
         // Permanent horizontal loads: always there.
-        let mut g_shear = vec![[0.0; 2]; n];
+        g_shear.iter_mut().for_each(|v| *v = [0.0; 2]);
         for item in sol.items.iter().filter(|i| i.case == Case::G && i.direction.is_some()) {
             for &(p, s) in &item.shear {
                 g_shear[p as usize][0] += s[0];
@@ -166,7 +206,6 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], post_support: &[usize], st
             // The group's own vertical effect, both ways: the loads that shear the plate press it
             // down or pull it up at the same time. A notional load counts with its share due to
             // permanent load only (the imposed load it would come from is then absent).
-            let (mut v, mut v_d) = (vec![0.0; n], vec![0.0; n]);
             for &i in group {
                 let item = &sol.items[i];
                 let y = gamma(item.case);
@@ -178,60 +217,39 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], post_support: &[usize], st
                     c.shear_d[1] += y * s[1];
                 }
                 for &(p, x) in item.vertical_permanent_basis.as_ref().unwrap_or(&item.vertical) {
-                    v[p as usize] += x;
-                    v_d[p as usize] += y * x;
+                    let c = &mut cases[p as usize];
+                    c.normal += x;
+                    c.normal_d += y * x;
                 }
             }
-            for p in 0..n {
-                cases[p].normal += v[p];
-                cases[p].normal_d += v_d[p];
-            }
-            let towards = match group.first() {
-                Some(&i) => {
-                    let ids: Vec<&str> = group.iter().map(|&k| sol.items[k].id.as_str()).collect();
-                    format!("towards {}: {}", sol.items[i].direction.map_or_else(String::new, direction_words), ids.join(", "))
-                }
-                None => "permanent horizontal load".to_owned(),
-            };
             // Plates.
             for p in 0..n {
                 let c = cases[p];
-                let h = c.shear[0].hypot(c.shear[1]);
+                let h = norm(c.shear);
                 if h <= NO_SHEAR_KN {
                     continue;
                 }
-                let h_d = c.shear_d[0].hypot(c.shear_d[1]);
-                let (factor, friction_d, restraint) = match mu[p] {
+                let h_d = norm(c.shear_d);
+                let here = match mu[p] {
                     Some(m) => {
                         let r = m * c.normal.max(0.0);
                         let r_d = m * c.normal_d.max(0.0);
-                        (Some(r / h), r_d, (target * h - r).max(h_d - r_d).max(0.0))
+                        Worst { group: g, shear: h, normal: c.normal, factor: Some(r / h), shear_d: h_d, friction_d: r_d, restraint: (target * h - r).max(h_d - r_d).max(0.0) }
                     }
-                    None => (None, 0.0, 0.0),
+                    None => Worst { group: g, shear: h, normal: c.normal, factor: None, shear_d: h_d, friction_d: 0.0, restraint: 0.0 },
                 };
-                let here = PlateSliding {
-                    mu: mu[p],
-                    towards: towards.clone(),
-                    shear_kn: h,
-                    normal_kn: c.normal,
-                    factor,
-                    equ_shear_kn: h_d,
-                    equ_friction_kn: friction_d,
-                    restraint_kn: restraint,
-                    slides: restraint > 1e-9 * h.max(1.0),
-                };
-                let worse = match &plates[p] {
+                let worse = match &worst[p] {
                     None => true,
-                    Some(old) => here.restraint_kn > old.restraint_kn || (here.restraint_kn == old.restraint_kn && here.factor.unwrap_or(f64::INFINITY) < old.factor.unwrap_or(f64::INFINITY)),
+                    Some(old) => here.restraint > old.restraint || (here.restraint == old.restraint && here.factor.unwrap_or(f64::INFINITY) < old.factor.unwrap_or(f64::INFINITY)),
                 };
                 if worse {
-                    plates[p] = Some(here);
+                    worst[p] = Some(here);
                 }
             }
             // Structures.
             for (s, list) in structure_plates.iter().enumerate() {
                 let (mut hs, mut hs_d, mut r, mut r_d) = ([0.0; 2], [0.0; 2], 0.0, 0.0);
-                let mut unknown: Vec<String> = Vec::new();
+                let mut unknown: Vec<Option<usize>> = Vec::new();
                 for &p in list {
                     let (p, c) = (p as usize, cases[p as usize]);
                     hs = [hs[0] + c.shear[0], hs[1] + c.shear[1]];
@@ -241,29 +259,29 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], post_support: &[usize], st
                             r += m * c.normal.max(0.0);
                             r_d += m * c.normal_d.max(0.0);
                         }
-                        None if c.shear[0].hypot(c.shear[1]) > NO_SHEAR_KN => {
-                            let st = &scene.support_types[post_support[p]].id;
-                            if !unknown.contains(st) {
-                                unknown.push(st.clone());
+                        None if norm(c.shear) > NO_SHEAR_KN => {
+                            if !unknown.contains(&post_support[p]) {
+                                unknown.push(post_support[p]);
                             }
                         }
                         None => {}
                     }
                 }
-                let h = hs[0].hypot(hs[1]);
+                let h = norm(hs);
                 if h <= NO_SHEAR_KN {
                     // No net horizontal load on this structure (a twist alone): the plates' own
                     // checks cover it.
                     continue;
                 }
-                let h_d = hs_d[0].hypot(hs_d[1]);
+                let h_d = norm(hs_d);
                 let not_checked = (!unknown.is_empty()).then(|| {
-                    format!("no friction coefficient is given for support type {}: give the interfaces under it (friction) to check sliding", unknown.join(", "))
+                    let names: Vec<&str> = unknown.iter().map(|s| s.map_or("(none)", |s| scene.support_types[s].id.as_str())).collect();
+                    format!("no friction coefficient is given for support type {}: give the interfaces under it (friction) to check sliding", names.join(", "))
                 });
                 let factor = not_checked.is_none().then(|| r / h);
                 let here = SlidingCheck {
                     structure: labels.get(s).cloned().unwrap_or_default(),
-                    towards: towards.clone(),
+                    towards: towards[g].clone(),
                     horizontal_kn: h,
                     friction_kn: r,
                     meets_target: factor.is_none_or(|f| f >= target * (1.0 - 1e-9)),
@@ -284,6 +302,23 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], post_support: &[usize], st
             }
         }
     }
+    let plates: Vec<Option<PlateSliding>> = worst
+        .iter()
+        .enumerate()
+        .map(|(p, w)| {
+            w.map(|w| PlateSliding {
+                mu: mu[p],
+                towards: towards[w.group].clone(),
+                shear_kn: w.shear,
+                normal_kn: w.normal,
+                factor: w.factor,
+                equ_shear_kn: w.shear_d,
+                equ_friction_kn: w.friction_d,
+                restraint_kn: w.restraint,
+                slides: w.restraint > 1e-9 * w.shear.max(1.0),
+            })
+        })
+        .collect();
     let plates_to_restrain = plates.iter().flatten().filter(|p| p.slides).count();
     Sliding { target_factor: target, checks: checks.into_iter().flatten().collect(), plates_to_restrain, plates }
 }

@@ -28,7 +28,9 @@ use crate::check::actions::VariableActions;
 use crate::fxhash::FxMap as HashMap;
 use crate::scene::combination::Factors;
 use crate::scene::loads::{Case, KentledgePlace, LoadKind};
+use crate::scene::standing::StandsOn;
 use crate::scene::validate::{Model, Target};
+use crate::solve::items::CellPlace;
 use crate::solve::{Resultant, Solution, SELF_WEIGHT_ID};
 
 /// Distances below this, m, count as on the axis.
@@ -166,8 +168,10 @@ impl Stability {
 // ---------------------------------------------------------------------------------------------
 // Structures
 
-/// Separate structures: groups of posts joined by bearers or braces. Returns each structure's
-/// plate indices (plates are the posts, in post order) in order of their first plate.
+/// Separate structures: groups of posts joined by bearers, braces, splices (a post standing on
+/// another) or transfer members (a post standing on a bearer or deck). Returns each structure's
+/// post indices, in order of their first post; its base plates are those of its posts that have
+/// one.
 pub fn structures(model: &Model) -> Vec<Vec<u32>> {
     let scene = model.scene;
     let n = scene.posts.len();
@@ -188,6 +192,14 @@ pub fn structures(model: &Model) -> Vec<Vec<u32>> {
     for line in &model.bearers {
         for w in line.posts.windows(2) {
             join(w[0], w[1]);
+        }
+    }
+    for (p, on) in model.graph.stands_on.iter().enumerate() {
+        match *on {
+            StandsOn::Post(q) => join(p, q),
+            StandsOn::Bearer { bearer, .. } => join(p, model.bearers[bearer].posts[0]),
+            StandsOn::Deck(d) => join(p, model.bearers[model.decks[d].bearers[0]].posts[0]),
+            StandsOn::Ground | StandsOn::Structure(_) => {}
         }
     }
     if !scene.braces.is_empty() {
@@ -337,10 +349,9 @@ fn polygon_area_centroid(poly: &[[f64; 2]]) -> (f64, [f64; 2]) {
 #[derive(Debug, Clone)]
 struct Group {
     item: usize,
-    /// Whether a variable item may be present on part of its area only: a load over a whole
-    /// deck (imposed load that can stand anywhere on it). Any other variable item is one object,
-    /// present whole or not at all.
-    divisible: bool,
+    /// Whether each part of a variable item is present or absent on its own (the cells of an
+    /// arranged load); otherwise the item is one object, present whole or not at all.
+    cellwise: bool,
     structure: usize,
     range: std::ops::Range<usize>,
     /// Σp, Σp·x, Σp·y.
@@ -370,7 +381,7 @@ fn parts_of(model: &Model, solution: &Solution, structure_of: &[u32]) -> Result<
             continue;
         }
         tagged.clear();
-        let mut divisible = true;
+        let mut cellwise = false;
         let mut put = |post: usize, shape: Shape, p: f64| tagged.push((post, Part { shape, p }));
         if item.id == SELF_WEIGHT_ID && i == 0 {
             for (d, deck) in scene.decks.iter().enumerate() {
@@ -389,8 +400,22 @@ fn parts_of(model: &Model, solution: &Solution, structure_of: &[u32]) -> Result<
                 return Err(format!("load item {} is not a load of the scene, so where it acts is not known", item.id));
             };
             let load = &scene.loads[k];
-            divisible = matches!(load.kind, LoadKind::DeckArea { .. });
             match (&load.kind, model.load_targets[k]) {
+                // An arranged load: each cell present or absent on its own.
+                _ if item.arranged.is_some() => {
+                    cellwise = true;
+                    for cell in &item.arranged.as_ref().expect("checked").cells {
+                        let p = cell.applied.down();
+                        match cell.place {
+                            CellPlace::Deck { deck, rect } => put(deck_anchor(deck as usize), Shape::Area([rect.x.0, rect.y.0, rect.x.1, rect.y.1]), p),
+                            CellPlace::Bearer { bearer, from_m, to_m } => {
+                                let line = &model.bearers[bearer as usize];
+                                let (a, z) = (line.point_at(from_m), line.point_at(to_m));
+                                put(line.posts[0], Shape::Line([a.0, a.1], [z.0, z.1]), p);
+                            }
+                        }
+                    }
+                }
                 (LoadKind::DeckArea { intensity, .. }, Target::Deck(d)) => {
                     let e = &scene.decks[d].extent;
                     put(deck_anchor(d), Shape::Area([e.x.0, e.y.0, e.x.1, e.y.1]), intensity.kpa().unwrap_or(0.0) * e.area());
@@ -437,7 +462,9 @@ fn parts_of(model: &Model, solution: &Solution, structure_of: &[u32]) -> Result<
             return Err(format!("the parts of load {} do not add up to the load the solver applied (off by {off:.3e}), so it cannot be split about a tipping edge", item.id));
         }
         // Group by structure.
-        tagged.sort_by_key(|(post, _)| structure_of[*post]);
+        if tagged.iter().any(|(post, _)| structure_of[*post] != structure_of[tagged[0].0]) {
+            tagged.sort_by_key(|(post, _)| structure_of[*post]);
+        }
         for chunk in tagged.chunk_by(|a, b| structure_of[a.0] == structure_of[b.0]) {
             let start = parts.len();
             parts.extend(chunk.iter().map(|(_, part)| *part));
@@ -450,7 +477,7 @@ fn parts_of(model: &Model, solution: &Solution, structure_of: &[u32]) -> Result<
                 }
                 bounds = [bounds[0].min(b[0]), bounds[1].min(b[1]), bounds[2].max(b[2]), bounds[3].max(b[3])];
             }
-            groups.push(Group { item: i, divisible, structure: structure_of[chunk[0].0] as usize, range: start..parts.len(), sums, bounds });
+            groups.push(Group { item: i, cellwise, structure: structure_of[chunk[0].0] as usize, range: start..parts.len(), sums, bounds });
         }
     }
     Ok(Parts { parts, groups })
@@ -461,8 +488,29 @@ fn parts_of(model: &Model, solution: &Solution, structure_of: &[u32]) -> Result<
 
 /// Convex hull of plan points, anticlockwise, without collinear points; indices into `pts`.
 fn convex_hull(pts: &[[f64; 2]], idx: &[u32]) -> Vec<u32> {
-    let mut order: Vec<u32> = idx.to_vec();
-    order.sort_by(|&a, &b| {
+    // Points well inside the polygon of the eight extreme points (west, south-west, south, …)
+    // cannot be on the hull: drop them before sorting (Akl–Toussaint), which leaves only the
+    // rim of a large grid.
+    let mut order: Vec<u32> = match octagon(pts, idx) {
+        Some(oct) => idx
+            .iter()
+            .copied()
+            .filter(|&i| {
+                let q = pts[i as usize];
+                !(0..oct.len()).all(|k| {
+                    let (a, b) = (oct[k], oct[(k + 1) % oct.len()]);
+                    (b[0] - a[0]) * (q[1] - a[1]) - (b[1] - a[1]) * (q[0] - a[0]) > 1e-6 * ((b[0] - a[0]).abs() + (b[1] - a[1]).abs())
+                })
+            })
+            .collect(),
+        None => idx.to_vec(),
+    };
+    monotone_chain(pts, &mut order)
+}
+
+/// Convex hull (Andrew's monotone chain) of the points `order` (indices into `pts`, reordered).
+fn monotone_chain(pts: &[[f64; 2]], order: &mut Vec<u32>) -> Vec<u32> {
+    order.sort_unstable_by(|&a, &b| {
         let (p, q) = (pts[a as usize], pts[b as usize]);
         p[0].total_cmp(&q[0]).then(p[1].total_cmp(&q[1]))
     });
@@ -471,17 +519,17 @@ fn convex_hull(pts: &[[f64; 2]], idx: &[u32]) -> Vec<u32> {
         (p[0] - q[0]).abs() < ON_AXIS_M && (p[1] - q[1]).abs() < ON_AXIS_M
     });
     if order.len() < 3 {
-        return order;
+        return order.clone();
     }
     let cross = |o: u32, a: u32, b: u32| {
         let (o, a, b) = (pts[o as usize], pts[a as usize], pts[b as usize]);
         (a[0] - o[0]) * (b[1] - o[1]) - (a[1] - o[1]) * (b[0] - o[0])
     };
-    // Size for the collinearity tolerance: points off a line by less than 1e-9 m are on it.
+    // Points off a line by less than 1e-9 m are on it: cross ≤ tol × |ap|, compared squared.
     let mut hull: Vec<u32> = Vec::with_capacity(2 * order.len());
-    let len = |a: u32, b: u32| {
+    let len2 = |a: u32, b: u32| {
         let (p, q) = (pts[a as usize], pts[b as usize]);
-        (q[0] - p[0]).hypot(q[1] - p[1])
+        (q[0] - p[0]) * (q[0] - p[0]) + (q[1] - p[1]) * (q[1] - p[1])
     };
     for pass in 0..2 {
         let start = hull.len();
@@ -489,7 +537,8 @@ fn convex_hull(pts: &[[f64; 2]], idx: &[u32]) -> Vec<u32> {
         for &p in seq {
             while hull.len() >= start + 2 {
                 let (a, b) = (hull[hull.len() - 2], hull[hull.len() - 1]);
-                if cross(a, b, p) <= ON_AXIS_M * len(a, p) {
+                let c = cross(a, b, p);
+                if c <= 0.0 || c * c <= ON_AXIS_M * ON_AXIS_M * len2(a, p) {
                     hull.pop();
                 } else {
                     break;
@@ -504,6 +553,25 @@ fn convex_hull(pts: &[[f64; 2]], idx: &[u32]) -> Vec<u32> {
         return vec![order[0], *order.last().expect("non-empty")];
     }
     hull
+}
+
+/// The extreme points of a set in eight directions, anticlockwise from the west, without
+/// repeats; `None` for fewer than three distinct ones.
+fn octagon(pts: &[[f64; 2]], idx: &[u32]) -> Option<Vec<[f64; 2]>> {
+    if idx.len() < 16 {
+        return None;
+    }
+    // Key of each direction: the point minimising it is the extreme one that way.
+    let keys: [fn([f64; 2]) -> f64; 8] = [|p| p[0], |p| p[0] + p[1], |p| p[1], |p| p[1] - p[0], |p| -p[0], |p| -p[0] - p[1], |p| -p[1], |p| p[0] - p[1]];
+    let mut oct: Vec<[f64; 2]> = keys
+        .iter()
+        .map(|k| idx.iter().map(|&i| pts[i as usize]).min_by(|a, b| k(*a).total_cmp(&k(*b))).expect("non-empty"))
+        .collect();
+    oct.dedup();
+    while oct.len() > 1 && oct.first() == oct.last() {
+        oct.pop();
+    }
+    (oct.len() >= 3).then_some(oct)
 }
 
 /// A tipping axis before it is evaluated.
@@ -657,12 +725,17 @@ pub fn stability(model: &Model, solutions: &[Solution], structure_plates: &[Vec<
         })
         .collect();
     let favourable = crate::check::permanent::favourable_items(scene, primary);
-    let actions = VariableActions::of(&primary.items);
+    // Every working level counts in full here (the working-scaffold rule is not used for
+    // overturning, which is the more cautious).
+    let actions = VariableActions::of(&primary.items, crate::scene::model::WorkingLevels::AllAtOnce);
     let plate_id = |i: u32| scene.posts[i as usize].id.clone();
     let kentledge_at: Vec<usize> = settings.kentledge_plates.iter().filter_map(|id| scene.posts.iter().position(|p| p.id == *id)).collect();
     let pts: Vec<[f64; 2]> = plates.iter().map(|p| [p[0], p[1]]).collect();
 
-    for (s, list) in structure_plates.iter().enumerate() {
+    for (s, posts) in structure_plates.iter().enumerate() {
+        // Its base plates: the posts that have one.
+        let list: Vec<u32> = posts.iter().copied().filter(|&p| primary.is_plate[p as usize]).collect();
+        let list = &list;
         let hull = convex_hull(&pts, list);
         let groups = &groups_of[s];
         // Directions to tip in besides the edges: each horizontal load's, and towards each
@@ -813,9 +886,19 @@ fn evaluate(
                 }
             }
             _ => {
-                // Variable: present only where it overturns; a whole-deck load on the part beyond
-                // the axis only, anything else whole.
-                let v = if g.divisible { dst } else { (beyond + inside).max(0.0) };
+                // Variable: present only where it overturns; an arranged load with the cells that
+                // overturn, anything else whole.
+                let v = if g.cellwise {
+                    parts.parts[g.range.clone()]
+                        .iter()
+                        .map(|part| {
+                            let (a, b) = part.tipping(plan, ax.n);
+                            (a + b).max(0.0)
+                        })
+                        .sum()
+                } else {
+                    (beyond + inside).max(0.0)
+                };
                 v_dst += v;
                 v_dst_equ += v * variable_factor(&f, item.case);
             }
@@ -991,6 +1074,31 @@ mod tests {
         assert_eq!(h.len(), 4, "{h:?}");
         let line: Vec<[f64; 2]> = (0..4).map(|k| [k as f64, 2.0 * k as f64]).collect();
         assert_eq!(convex_hull(&line, &[0, 1, 2, 3]), vec![0, 3]);
+    }
+
+    #[test]
+    fn dropping_inner_points_first_keeps_the_hull() {
+        // common practice, no source: the hull of a point set is the hull of the points outside
+        // any polygon of its own points (Akl–Toussaint); checked against the plain monotone chain.
+        let mut seed = 0x2545_f491_4f6c_dd1d_u64;
+        let mut next = || {
+            seed ^= seed << 13;
+            seed ^= seed >> 7;
+            seed ^= seed << 17;
+            (seed % 10_000) as f64 / 100.0
+        };
+        let random: Vec<[f64; 2]> = (0..800).map(|_| [next(), next()]).collect();
+        let t = 0.3f64;
+        let grid: Vec<[f64; 2]> = (0..400).map(|k| ((k % 20) as f64 * 1.5, (k / 20) as f64 * 1.2)).map(|(x, y)| [x * t.cos() - y * t.sin(), x * t.sin() + y * t.cos()]).collect();
+        for pts in [random, grid] {
+            let idx: Vec<u32> = (0..pts.len() as u32).collect();
+            let mut fast = convex_hull(&pts, &idx);
+            let mut plain = monotone_chain(&pts, &mut idx.clone());
+            assert!(fast.len() >= 3);
+            fast.sort_unstable();
+            plain.sort_unstable();
+            assert_eq!(fast, plain);
+        }
     }
 
     #[test]

@@ -263,6 +263,10 @@ fn plates(a: &Analysis, out: &mut Vec<Finding>) {
         });
         out.push(Finding { verdict: Verdict::Fails, check: "uplift", text: format!("{} plate(s) lift and need holding down: {}{hold}", lift.len(), ids(&list, 12)) });
     }
+    let pulling: Vec<&str> = a.lifts.iter().filter(|l| !l.status.is_ok()).map(|l| l.id.as_str()).collect();
+    if !pulling.is_empty() {
+        out.push(Finding { verdict: Verdict::Fails, check: "posts on members", text: format!("{} post(s) standing on other members pull up or are over their support's load: {}", pulling.len(), ids(&pulling, 12)) });
+    }
     if let Some(w) = a.worst_plate() {
         let p = &a.plates[w];
         let g = p.governing();

@@ -67,6 +67,7 @@ impl Default for LayoutSpec {
                 sole_plate: Some(PlateSize { width_m: 0.225, length_m: 0.45 }),
                 // no public value for steel on timber or timber on the ground: left to the planner
                 friction: Vec::new(),
+                head_moment_capacity_knm: None,
             },
             braced: true,
             id_prefix: String::new(),
@@ -127,6 +128,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 overhang_end_m: 0.0,
                 self_weight_kn_per_m: STEEL_TUBE_KN_PER_M,
                 method: None,
+                joints: None,
             });
         }
         for i in 0..nx {
@@ -139,6 +141,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 overhang_end_m: 0.0,
                 self_weight_kn_per_m: STEEL_TUBE_KN_PER_M,
                 method: None,
+                joints: None,
             });
         }
         if deck {
@@ -150,9 +153,10 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 bearers: scene.bearers[first_bearer..first_bearer + ny].iter().map(|b| b.id.clone()).collect(),
                 self_weight_kpa: spec.deck_self_weight_kpa,
                 method: None,
+                joints: None,
             });
             if let Some(class) = spec.load_class {
-                scene.loads.push(Load { id: format!("{p}Q-{id}"), case: Case::Q, kind: LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) } });
+                scene.loads.push(Load::new(format!("{p}Q-{id}"), Case::Q, LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) }));
             }
         }
     }
@@ -192,7 +196,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
 }
 
 fn notional(id: String, direction: PlanDirection) -> Load {
-    Load { id, case: Case::W, kind: LoadKind::Notional { percent: crate::scene::loads::DEFAULT_NOTIONAL_PERCENT, direction, basis: vec![Case::G, Case::Q] } }
+    Load::new(id, Case::W, LoadKind::Notional { percent: crate::scene::loads::DEFAULT_NOTIONAL_PERCENT, direction, basis: vec![Case::G, Case::Q] })
 }
 
 /// A new scene holding only the generated layout.

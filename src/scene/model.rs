@@ -29,7 +29,8 @@ pub struct Scene {
     /// Kinds of base support (base plate + jack, optional sole plate).
     #[serde(default)]
     pub support_types: Vec<SupportType>,
-    /// Standards (posts), each on one base plate.
+    /// Standards (posts). Each stands on a base plate on the ground or an existing structure, or
+    /// on another post (a lift), a bearer or a deck; see [`crate::scene::standing`].
     #[serde(default)]
     pub posts: Vec<Post>,
     /// Horizontal members resting on posts: bearers, ledgers, transoms.
@@ -41,6 +42,9 @@ pub struct Scene {
     /// Braces between post nodes; they declare which plan directions are braced.
     #[serde(default)]
     pub braces: Vec<Brace>,
+    /// Existing structures of the permanent works (slabs, podium decks) that posts may stand on.
+    #[serde(default)]
+    pub existing_structures: Vec<ExistingStructure>,
     /// Applied loads, each tagged with a load case.
     #[serde(default)]
     pub loads: Vec<Load>,
@@ -207,6 +211,11 @@ pub struct SupportType {
     /// Empty: friction unknown, sliding is not checked for plates on this support.
     #[serde(default, skip_serializing_if = "Vec::is_empty")]
     pub friction: Vec<Interface>,
+    /// Moment the head of a post of this type takes, kN·m, from the maker's data: a bearer on a
+    /// single post (a T-head) may then be out of balance by up to this much. `None`: the head
+    /// takes no moment and a T-head must balance.
+    #[serde(default)]
+    pub head_moment_capacity_knm: Option<f64>,
 }
 
 /// One sliding interface under a support, with its lower-bound friction coefficient.
@@ -269,7 +278,8 @@ impl SupportType {
     }
 }
 
-/// A standard (post) standing on one base plate.
+/// A standard (post), or one lift of a standard: it stands on a base plate, another post, a bearer
+/// or a deck (see [`crate::scene::standing`]).
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Post {
@@ -279,11 +289,12 @@ pub struct Post {
     pub x: f64,
     /// Plan position, m.
     pub y: f64,
-    /// Level of the base plate, m.
+    /// Level of its base (the base plate, or the top of what it stands on), m.
     pub base_level: f64,
     /// Level of the top of the post, m.
     pub top_level: f64,
-    /// Id of its support type.
+    /// Id of its support type: needed where the post has a base plate; optional on a post that
+    /// stands on another member (then its safe working load is still checked).
     #[serde(default)]
     pub support: Option<String>,
     /// Self-weight, kN/m. Default: 48.3 × 4.0 steel tube.
@@ -329,6 +340,11 @@ pub struct Bearer {
     /// [`AnalysisSettings::method`].
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub method: Option<BeamMethod>,
+    /// Posts (inner ones, by id) over which the member is jointed — not continuous — when known.
+    /// `None`: not known, so the envelope also covers two-span continuity at every inner post
+    /// ([`BeamMethod::Envelope`]). `Some(vec![])`: known to be continuous throughout.
+    #[serde(default)]
+    pub joints: Option<Vec<String>>,
 }
 
 /// A deck spanning across parallel bearers.
@@ -349,6 +365,30 @@ pub struct Deck {
     /// [`AnalysisSettings::method`].
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub method: Option<BeamMethod>,
+    /// Bearers (inner ones, by id) over which the decking is jointed — not continuous — when
+    /// known. `None`: not known, so the envelope also covers two-span continuity at every inner
+    /// bearer. `Some(vec![])`: known to be continuous throughout.
+    #[serde(default)]
+    pub joints: Option<Vec<String>>,
+}
+
+/// A structure of the permanent works that base plates stand on, such as an existing slab. Its
+/// plate loads are scheduled for the permanent-works designer; the ground check does not apply.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ExistingStructure {
+    /// Id.
+    pub id: String,
+    /// What it is, in words (e.g. "ground-floor slab, 250 mm").
+    #[serde(default)]
+    pub description: String,
+    /// Level of its top surface, m. Posts whose base is at this level within its extent stand on it.
+    pub level: f64,
+    /// Plan extent, m.
+    pub extent: Rect,
+    /// Allowable bearing pressure under a base plate (or sole plate) on it, kPa, as given by the
+    /// permanent-works designer.
+    pub allowable_kpa: f64,
 }
 
 /// A point on a post at a level: one end of a brace.
@@ -451,7 +491,14 @@ pub enum BeamMethod {
     /// supports take more: 1.25 wL at the middle of two equal spans instead of 1.0 wL.
     Continuous,
     /// Both, and each base plate takes whichever is worse: the larger maximum and the smaller
-    /// minimum. The default, since a member's continuity is rarely certain on site.
+    /// minimum. The default, since a member's continuity is rarely certain on site. Where a
+    /// member's joints are not known, the envelope also takes it as jointed at every other
+    /// support, both ways round, so that every inner support is the middle of a two-span piece:
+    /// two-span continuity puts 1.25 wL on the middle support, more than a long continuous member
+    /// (about 1.1 wL) or simple spans (1.0 wL).
+    // source: 5/8 of the load of a stiff beam on three rigid supports goes to the middle one,
+    // where 1/2 is assumed in simple-span design (Advisory Committee on Falsework, final report,
+    // HMSO 1975, via REFERENCES §9); the two-span coefficients are Hicks Table 2.1.
     #[default]
     Envelope,
 }
@@ -477,6 +524,34 @@ pub struct AnalysisSettings {
     /// Bending stiffness of each kind of member, for the continuous method.
     #[serde(default)]
     pub stiffness: MemberStiffness,
+    /// How the load-class imposed loads of decks at different levels act together.
+    #[serde(default)]
+    pub working_levels: WorkingLevels,
+}
+
+/// How the load-class imposed loads (q1, q2) of decks at different levels act together.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+pub enum WorkingLevels {
+    /// Every level may be loaded at once, each in its worst arrangement. The default: it never
+    /// gives less than the rule below.
+    #[default]
+    AllAtOnce,
+    /// The working-scaffold rule: one level at its full load-class load together with one
+    /// adjacent level (the next above or below) at half of it, whichever pair is worse at each
+    /// plate; other levels unloaded. Other imposed loads (materials, concrete) are not affected.
+    // source: EN 12811-1 in-service loading, one working level at 100 % plus an adjacent level at
+    // 50 % (via a UK industry summary, REFERENCES §9).
+    OneFullAdjacentHalf,
+}
+
+impl WorkingLevels {
+    /// Words for outputs.
+    pub fn label(self) -> &'static str {
+        match self {
+            WorkingLevels::AllAtOnce => "every working level loaded at once",
+            WorkingLevels::OneFullAdjacentHalf => "one working level at full load with an adjacent level at half (EN 12811-1)",
+        }
+    }
 }
 
 impl AnalysisSettings {
@@ -564,6 +639,7 @@ impl Scene {
             bearers: Vec::new(),
             decks: Vec::new(),
             braces: Vec::new(),
+            existing_structures: Vec::new(),
             loads: Vec::new(),
             combinations: Combination::defaults(),
             stability: StabilitySettings::default(),
@@ -581,6 +657,7 @@ impl Scene {
             .chain(tag(ElementKind::Bearer, self.bearers.iter().map(|e| &e.id)))
             .chain(tag(ElementKind::Deck, self.decks.iter().map(|e| &e.id)))
             .chain(tag(ElementKind::Brace, self.braces.iter().map(|e| &e.id)))
+            .chain(tag(ElementKind::ExistingStructure, self.existing_structures.iter().map(|e| &e.id)))
             .chain(tag(ElementKind::Load, self.loads.iter().map(|e| &e.id)))
     }
 }
@@ -598,6 +675,8 @@ pub enum ElementKind {
     Deck,
     /// A [`Brace`].
     Brace,
+    /// An [`ExistingStructure`].
+    ExistingStructure,
     /// A [`Load`].
     Load,
     /// A [`Combination`].
@@ -614,6 +693,7 @@ impl std::fmt::Display for ElementKind {
             ElementKind::Bearer => "bearer",
             ElementKind::Deck => "deck",
             ElementKind::Brace => "brace",
+            ElementKind::ExistingStructure => "existing structure",
             ElementKind::Load => "load",
             ElementKind::Combination => "combination",
             ElementKind::Site => "site",
