@@ -163,12 +163,24 @@ fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usi
     };
     let over = a.plates.iter().filter(|p| reading(p, comb).1.over).count();
     let lift = a.plates.iter().filter(|p| reading(p, comb).1.uplift).count();
-    let lines = [
+    let mut lines = vec![
         (format!("Worst base plate: {} at {:.1} %", p.id, 100.0 * u), 20.0, true),
         (format!("{by} ({})", a.combinations[c].name), 14.0, false),
         (format!("{over} over capacity · {lift} lifting · {} base plates", a.plates.len()), 14.0, false),
-        (format!("colours: {comb_name}"), 12.0, false),
     ];
+    // Whole-structure checks that fail lead the rest (details in "Equilibrium & stability").
+    if let Some(why) = &a.stability.refused {
+        lines.push((format!("overturning NOT CHECKED: {why}"), 14.0, true));
+    } else if a.stability.fails() {
+        if let Some((_, ax)) = a.stability.governing() {
+            let need = ax.kentledge.as_ref().and_then(|k| k.needed_kn).map_or_else(String::new, |k| format!(", needs {k:.2} kN kentledge"));
+            lines.push((format!("overturning FAILS towards {} (factor {}){need}", ax.towards, ax.factor.map_or_else(|| "—".to_owned(), |f| format!("{f:.2}"))), 14.0, true));
+        }
+    }
+    if a.sliding.fails() {
+        lines.push((format!("sliding FAILS: {} plate(s) to restrain", a.sliding.plates_to_restrain), 14.0, true));
+    }
+    lines.push((format!("colours: {comb_name}"), 12.0, false));
     // Wrapped to the column beside a picture; one line each inside the editor's view.
     let wrap = if side { column.width() - 24.0 } else { f32::INFINITY };
     let galleys: Vec<_> = lines.iter().map(|(t, s, _)| painter.layout(t.clone(), FontId::proportional(*s), Color32::BLACK, wrap)).collect();
