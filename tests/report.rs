@@ -93,7 +93,8 @@ fn kentledge_and_uplift_of_the_sheeted_face_are_reported() {
     let html = report_html(&scene, &a, &opts(""));
     let need = a.stability.structures.iter().flat_map(|s| &s.axes).filter_map(|d| d.kentledge.as_ref().and_then(|k| k.needed_kn)).fold(0.0, f64::max);
     assert!(need > 0.0, "the demo needs kentledge");
-    assert!(html.contains(&format!("add {need:.2} kN kentledge over")), "kentledge {need:.2} not reported");
+    assert!(html.contains(&format!("needs {need:.2} kN kentledge over plates")), "kentledge {need:.2} not in the findings");
+    assert!(html.contains(&format!("<strong>{need:.2}</strong>")), "kentledge {need:.2} not in the kentledge table");
     for p in a.plates.iter().filter(|p| p.status.uplift) {
         let lift = p.combinations.iter().filter(|c| c.status.uplift).map(|c| c.min_kn).fold(f64::INFINITY, f64::min);
         assert!(plate_group(&html, &p.id).contains(&format!("min {lift:.2} kN")), "plate {} uplift {lift:.2}", p.id);

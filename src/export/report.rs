@@ -352,6 +352,19 @@ fn glance(h: &mut String, a: &Analysis) {
         let text = if f.verdict == crate::export::findings::Verdict::Fails { format!("<span class=\"bad\">{}</span>", esc(&f.text)) } else { esc(&f.text) };
         let _ = writeln!(h, "<tr><td class=\"k\">{} — {verdict}</td><td>{text}</td></tr>", esc(&capitalise(f.check)));
     }
+    if let Some(w) = a.worst_plate() {
+        let p = &a.plates[w];
+        let g = p.governing();
+        let _ = writeln!(
+            h,
+            "<tr><td class=\"k\">Most utilised base plate</td><td><strong>{}</strong>: {} kN, {} ({}, combination {})</td></tr>",
+            esc(&p.id),
+            kn(g.max_kn),
+            pct(g.utilisation),
+            governed_by(p),
+            esc(&a.combinations[p.governing].name)
+        );
+    }
     let _ = writeln!(h, "<tr><td class=\"k\">Equilibrium (worst case)</td><td>relative residual {} (section 6)</td></tr>", sci(a.worst_residual()));
     let _ = writeln!(h, "<tr><td class=\"k\">Warnings</td><td>{}</td></tr></table><p class=\"note\">Overturning, sliding and kentledge in section 5; every plate in section 4.</p></section>", a.warnings.len());
 }
@@ -908,9 +921,17 @@ fn schedule(h: &mut String, a: &Analysis) {
     for c in &a.combinations {
         let _ = write!(h, "<th colspan=\"2\">{} (kN)</th>", esc(&c.name));
     }
+    // Columns a scene does not need are left out, so the table still fits a landscape page.
+    let show_layer = a.ground.layer.is_some();
+    let show_hold = a.plates.iter().any(|p| p.hold_down.is_some());
+    let show_slide = a.plates.iter().any(|p| p.sliding.is_some());
+    let th = |show: bool, text: &str| if show { format!("<th rowspan=\"2\" class=\"n\">{text}</th>") } else { String::new() };
     let _ = write!(
         h,
-        "<th rowspan=\"2\" class=\"n\">SWL (kN)</th><th rowspan=\"2\" class=\"n\">On layer (kPa)</th><th rowspan=\"2\" class=\"n\">Bearing area (m²)</th><th rowspan=\"2\" class=\"n\">Bearing (kPa)</th><th rowspan=\"2\" class=\"n\">Allowed (kPa)</th><th rowspan=\"2\" class=\"n\">Utilisation</th><th rowspan=\"2\">Governs</th><th rowspan=\"2\" class=\"n\">Hold-down (kN)</th><th rowspan=\"2\" class=\"n\">Restraint (kN)</th><th rowspan=\"2\">Status</th></tr><tr><th class=\"n\">G</th><th class=\"n\">Q</th><th class=\"n\">W</th>"
+        "<th rowspan=\"2\" class=\"n\">SWL (kN)</th>{}<th rowspan=\"2\" class=\"n\">Bearing area (m²)</th><th rowspan=\"2\" class=\"n\">Bearing (kPa)</th><th rowspan=\"2\" class=\"n\">Allowed (kPa)</th><th rowspan=\"2\" class=\"n\">Utilisation</th><th rowspan=\"2\">Governs</th>{}{}<th rowspan=\"2\">Status</th></tr><tr><th class=\"n\">G</th><th class=\"n\">Q</th><th class=\"n\">W</th>",
+        th(show_layer, "On layer (kPa)"),
+        th(show_hold, "Hold-down (kN)"),
+        th(show_slide, "Restraint (kN)")
     );
     for _ in &a.combinations {
         h.push_str("<th class=\"n\">max</th><th class=\"n\">min</th>");
@@ -932,11 +953,12 @@ fn schedule(h: &mut String, a: &Analysis) {
         let status = if p.status.is_ok() { "OK".to_owned() } else { format!("<span class=\"bad\">{}</span>", p.status.label()) };
         let group = crate::export::findings::group_label(p.formation_group, p.surface_group);
         let group = if group.is_empty() { String::new() } else { format!(" ({group})") };
+        let td = |show: bool, text: String| if show { format!("<td class=\"n\">{text}</td>") } else { String::new() };
         let _ = writeln!(
             h,
-            "<td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}{group}</td><td class=\"n\">{}</td><td class=\"n u\" style=\"background:{};color:{}\">{}</td><td>{}, {}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td>{status}</td></tr>",
+            "<td class=\"n\">{}</td>{}<td class=\"n\">{}</td><td class=\"n\">{}{group}</td><td class=\"n\">{}</td><td class=\"n u\" style=\"background:{};color:{}\">{}</td><td>{}, {}</td>{}{}<td>{status}</td></tr>",
             kn(p.swl_kn),
-            g.layer_top_kpa.map_or_else(|| "—".to_owned(), |q| format!("{}{}", num(q, 1), if g.layer_utilisation.is_none() { " (not checked)" } else { "" })),
+            td(show_layer, g.layer_top_kpa.map_or_else(|| "—".to_owned(), |q| format!("{}{}", num(q, 1), if g.layer_utilisation.is_none() { " (not checked)" } else { "" }))),
             num(p.bearing_area_m2, 4),
             num(g.bearing_kpa, 1),
             p.allowable_kpa.map_or_else(|| "not entered".to_owned(), |q| num(q, 1)),
@@ -945,11 +967,11 @@ fn schedule(h: &mut String, a: &Analysis) {
             pct(g.utilisation),
             esc(&a.combinations[p.governing].name),
             governed_by(p),
-            p.hold_down.map_or_else(|| "—".to_owned(), |d| kn(d.anchor_kn)),
-            p.sliding.as_ref().map_or_else(|| "—".to_owned(), |sl| if sl.mu.is_none() { "not checked".into() } else if sl.slides { format!("<span class=\"bad\">{}</span>", kn(sl.restraint_kn)) } else { "0.00".into() })
+            td(show_hold, p.hold_down.map_or_else(|| "—".to_owned(), |d| kn(d.anchor_kn))),
+            td(show_slide, p.sliding.as_ref().map_or_else(|| "—".to_owned(), |sl| if sl.mu.is_none() { "not checked".into() } else if sl.slides { format!("<span class=\"bad\">{}</span>", kn(sl.restraint_kn)) } else { "0.00".into() }))
         );
     }
-    let span = 3 + 2 * a.combinations.len() + 10;
+    let span = 3 + 2 * a.combinations.len() + 7 + usize::from(show_layer) + usize::from(show_hold) + usize::from(show_slide);
     let _ = writeln!(
         h,
         "<tr class=\"total\"><td colspan=\"4\">Total of the reactions</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td colspan=\"{}\"></td></tr></tbody></table>",
@@ -1037,24 +1059,9 @@ fn stability(h: &mut String, a: &Analysis) {
                     why.push("factor below target");
                 }
                 if !ax.equ_ok {
-                    why.push("E_d,dst > E_d,stb");
+                    why.push("E<sub>d,dst</sub> &gt; E<sub>d,stb</sub>");
                 }
-                let fix = match &ax.kentledge {
-                    Some(k) => match (k.needed_kn, &k.cannot) {
-                        (Some(w), _) => format!(
-                            ": add {} kN kentledge over {} (lever {} m; {} kN for the factor, {} for equilibrium), secured to the standards",
-                            kn(w),
-                            esc(&k.plates.iter().take(8).cloned().collect::<Vec<_>>().join(", ")),
-                            num(k.lever_m, 3),
-                            k.for_factor_kn.map_or_else(|| "—".into(), kn),
-                            k.for_equ_kn.map_or_else(|| "—".into(), |v| format!("{} kN", kn(v)))
-                        ),
-                        (None, Some(c)) => format!(": {}", esc(c)),
-                        (None, None) => String::new(),
-                    },
-                    None => String::new(),
-                };
-                format!("<span class=\"bad\">{}</span>{fix}", why.join("; "))
+                format!("<span class=\"bad\">FAILS: {}</span> (kentledge below)", why.join("; "))
             };
             let which = ax.horizontal_loads.as_deref().map_or_else(String::new, |w| format!("<br><span class=\"note\">{}</span>", esc(w)));
             let _ = writeln!(
@@ -1069,6 +1076,33 @@ fn stability(h: &mut String, a: &Analysis) {
             );
         }
         let _ = writeln!(h, "</tbody></table>");
+        let failing: Vec<&crate::check::stability::TippingAxis> = s.axes.iter().filter(|x| !x.passes()).collect();
+        if !failing.is_empty() {
+            let _ = writeln!(
+                h,
+                "<table><thead><tr><th>Kentledge about</th><th>Over plates (secured to their standards)</th><th class=\"n\">Lever (m)</th><th class=\"n\">For the factor (kN)</th><th class=\"n\">For equilibrium (kN)</th><th class=\"n\">To place (kN)</th></tr></thead><tbody>"
+            );
+            for ax in failing {
+                let Some(k) = &ax.kentledge else { continue };
+                let place = match (k.needed_kn, &k.cannot) {
+                    (Some(w), _) => format!("<strong>{}</strong>", kn(w)),
+                    (None, Some(c)) => format!("<span class=\"bad\">none can help: {}</span>", esc(c)),
+                    (None, None) => "—".into(),
+                };
+                let plates = if k.plates.len() > 12 { format!("{} and {} more", k.plates[..12].join(", "), k.plates.len() - 12) } else { k.plates.join(", ") };
+                let _ = writeln!(
+                    h,
+                    "<tr><td>{} (towards {})</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{place}</td></tr>",
+                    esc(&ax.about),
+                    esc(&ax.towards),
+                    esc(&plates),
+                    num(k.lever_m, 3),
+                    k.for_factor_kn.map_or_else(|| "—".into(), kn),
+                    k.for_equ_kn.map_or_else(|| "—".into(), kn)
+                );
+            }
+            let _ = writeln!(h, "</tbody></table>");
+        }
     }
     if quiet > 0 {
         let _ = writeln!(h, "<p>{quiet} structure(s) have nothing that overturns them (no horizontal load, nothing cantilevered beyond their plates).</p>");
@@ -1094,16 +1128,17 @@ fn stability(h: &mut String, a: &Analysis) {
                 None if c.meets_target && c.equ_ok => "meets both".into(),
                 None => "<span class=\"bad\">slides</span>".into(),
             };
+            let checked = c.not_checked.is_none();
             let _ = writeln!(
                 h,
                 "<tr><td>{}</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{} / {}</td><td>{verdict}</td></tr>",
                 esc(&c.structure),
                 esc(&c.towards),
                 kn(c.horizontal_kn),
-                kn(c.friction_kn),
+                if checked { kn(c.friction_kn) } else { "—".into() },
                 c.factor.map_or_else(|| "—".into(), |f| num(f, 2)),
                 kn(c.equ_horizontal_kn),
-                kn(c.equ_friction_kn)
+                if checked { kn(c.equ_friction_kn) } else { "—".into() }
             );
         }
         let _ = writeln!(h, "</tbody></table>");
