@@ -352,7 +352,11 @@ fn pressure_on_the_layer_and_at_formation() {
     // 2:1 footprints just touch → 222.2 kPa; hardcore 19 kN/m³ adds 2.85 kPa. On the layer under
     // each plate 20 / 0.0225 = 888.9 kPa.
     let mut s = bare_scene();
-    s.posts = vec![post("P", 0.0, 0.0, 2.0), post("Q", 0.3, 0.0, 2.0)];
+    // A weightless lift spliced on P, listed first: plates and posts are numbered apart.
+    let mut upper = post("P-2", 0.0, 0.0, 4.0);
+    upper.base_level = 2.0;
+    upper.support = None;
+    s.posts = vec![upper, post("P", 0.0, 0.0, 2.0), post("Q", 0.3, 0.0, 2.0)];
     s.bearers = vec![bearer("B", 2.0, &["P", "Q"])];
     for p in ["P", "Q"] {
         s.loads.push(load(&format!("g-{p}"), Case::G, LoadKind::PostTop { post: p.into(), kn: 20.0 }));
@@ -366,8 +370,13 @@ fn pressure_on_the_layer_and_at_formation() {
     close("gross at formation", pc.bearing_kpa, 40.0 / (0.75 * 0.45) + 19.0 * 0.15, 1e-9);
     close("layer top", pc.layer_top_kpa.unwrap(), 20.0 / 0.0225, 1e-9);
     assert!(pc.layer_utilisation.is_none(), "no allowable for the layer: not checked");
+    assert_eq!(a.plates[0].id, "P");
     assert_eq!(a.plates[0].formation_group, Some(0));
-    assert_eq!(a.ground.formation_groups[0].plates, [0, 1]);
+    assert_eq!(a.ground.formation_groups[0].plates, [1, 2], "post indices");
+    let json: serde_json::Value = serde_json::from_str(&plateload::export::json::analysis_json(&a)).unwrap();
+    assert_eq!(json["ground"]["formation_groups"][0]["plates"], serde_json::json!(["P", "Q"]));
+    let trace = plateload::export::trace::trace_text(&s, &a, 0);
+    assert!(trace.contains("overlap group F1"), "{trace}");
     s.site.allowable_basis = AllowableBasis::Net;
     close("net", analyse(&s).unwrap().plates[0].combinations[0].bearing_kpa, 118.518_5, 1e-3);
     layer.spread = LoadSpread::TwoToOne;
@@ -378,7 +387,7 @@ fn pressure_on_the_layer_and_at_formation() {
     // A 225 × 450 sole board on compact hardcore: allowable 220 kPa on the layer (REFERENCES §12,
     // bearing-capacity formula by hand): 20 kN → 20 / 0.10125 = 197.5 kPa, 89.8 %.
     s.support_types[0].sole_plate = Some(PlateSize { width_m: 0.225, length_m: 0.45 });
-    s.posts[1].x = 1.0;
+    s.posts[2].x = 1.0;
     layer.allowable_kpa = Some(220.0);
     s.site.granular_layer = Some(layer);
     let a = analyse(&s).unwrap();

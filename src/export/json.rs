@@ -299,6 +299,11 @@ pub fn analysis_json(a: &Analysis) -> String {
     serde_json::to_string_pretty(&doc).expect("the document is plain data")
 }
 
+/// Overlap groups with their plates' ids (the groups hold post indices).
 fn groups<'a>(a: &'a Analysis, list: &'a [crate::check::bearing::SpreadGroup]) -> Vec<GroupDoc<'a>> {
-    list.iter().map(|g| GroupDoc { plates: g.plates.iter().map(|&p| a.plates[p as usize].id.as_str()).collect(), union_area_m2: g.union_area_m2, levels_differ: g.levels_differ }).collect()
+    let mut id_of: Vec<&str> = vec![""; a.solution.plates.len()];
+    for p in &a.plates {
+        id_of[p.post] = &p.id;
+    }
+    list.iter().map(|g| GroupDoc { plates: g.plates.iter().map(|&p| id_of[p as usize]).collect(), union_area_m2: g.union_area_m2, levels_differ: g.levels_differ }).collect()
 }

@@ -99,7 +99,7 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
         let _ = writeln!(out);
     }
     // Permanent load split as the minimum uses it.
-    let parts = crate::check::permanent::permanent_parts(scene, analysis.solution_of(p.min_method))[plate];
+    let parts = crate::check::permanent::permanent_parts(scene, analysis.solution_of(p.min_method))[p.post];
     let _ = write!(out, "  permanent load for the minimum: pushes down {:.3} kN, lifts {:.3} kN", parts.down_kn, parts.up_kn);
     if parts.down_unreliable_kn != 0.0 {
         let _ = write!(out, ", and {:.3} kN of kentledge that could be taken away (never counted as holding down)", parts.down_unreliable_kn);

@@ -2,7 +2,8 @@
 //! validation problems (click one to select its element).
 
 use bevy_egui::egui;
-use plateload::edit::ElementRef;
+use plateload::edit::{place, Edit, Element, ElementRef};
+use plateload::scene::loads::{KentledgeForm, KentledgePlace};
 use plateload::scene::model::ElementKind;
 use plateload::export::findings::Verdict;
 use plateload::export::palette::Band;
@@ -163,7 +164,22 @@ impl ResultsPanel {
                                 d.about,
                                 d.equ_utilisation.map_or_else(|| "—".to_owned(), |u| format!("{u:.2}"))
                             );
-                            ui.colored_label(if d.passes() { ui.visuals().text_color() } else { egui::Color32::from_rgb(0xb0, 0x20, 0x20) }, text);
+                            ui.horizontal(|ui| {
+                                ui.colored_label(if d.passes() { ui.visuals().text_color() } else { egui::Color32::from_rgb(0xb0, 0x20, 0x20) }, text);
+                                // Place the reported kentledge as a scene element (undoable),
+                                // secured to the standards as reported; rounded up to 10 N.
+                                if let Some((w, k)) = d.kentledge.as_ref().and_then(|k| k.needed_kn.filter(|w| *w > 0.0).map(|w| (w, k))) {
+                                    if ui.button("place it").on_hover_text("add this kentledge to the scene, secured to the standards of those plates").clicked() {
+                                        let kn = (w * 100.0).ceil() / 100.0;
+                                        let load = plateload::Load::new(
+                                            place::fresh_id(&doc.scene, "kentledge-"),
+                                            plateload::Case::G,
+                                            plateload::LoadKind::Kentledge { on: KentledgePlace::Plates(k.plates.clone()), kn, form: KentledgeForm::Removable, secured: true },
+                                        );
+                                        actions.push(Action::Edit { edit: Edit::Add(Element::Load(load)), merge: None, select: None });
+                                    }
+                                }
+                            });
                         }
                     }
                     for c in &a.sliding.checks {
