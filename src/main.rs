@@ -356,10 +356,20 @@ fn solve_text(a: &Analysis) -> String {
         let g = p.governing();
         let by = if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" };
         let _ = writeln!(s, "\nworst base: {} at {:.1}% ({by}, {})", p.id, 100.0 * g.utilisation, a.combinations[p.governing].name);
+        for note in a.arrangements_at(w) {
+            let _ = writeln!(s, "  arrangement at {}: {}", p.id, note.words());
+        }
     }
     let over = a.plates.iter().filter(|p| p.status.over).count();
     let uplift = a.plates.iter().filter(|p| p.status.uplift).count();
     let _ = writeln!(s, "over capacity: {over}   lifting: {uplift}   of {} base plates", a.plates.len());
+    let whole: Vec<&str> = a.whole_loads.iter().map(String::as_str).collect();
+    let _ = writeln!(
+        s,
+        "imposed loads: each in its worst arrangement at every plate{}; {}",
+        if whole.is_empty() { String::new() } else { format!(", except {} (applied whole, as set)", whole.join(", ")) },
+        a.working_levels.label()
+    );
     let methods: Vec<&str> = (0..a.method_count()).map(|m| a.method_label(m)).collect();
     if methods.len() > 1 {
         let _ = writeln!(s, "method: envelope of {} (each max and min is the worse; G/Q/W columns: {})", methods.join("; "), methods[0]);

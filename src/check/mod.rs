@@ -13,6 +13,6 @@ pub mod equilibrium;
 pub mod plates;
 pub mod stability;
 
-pub use analysis::{analyse, Analysis, AnalysisError, PlateResult, METHODS_AGREE};
+pub use analysis::{analyse, Analysis, AnalysisError, ArrangementAt, LiftResult, PlateResult, METHODS_AGREE};
 pub use equilibrium::{equilibrium, CaseEquilibrium};
 pub use plates::{bearing_area, capacities, combine, combine_envelope, Bearing, PostCapacity, MethodEnvelope, PlateCombination, Status, METHOD_TIE_RELATIVE, UPLIFT_TOLERANCE_KN};

@@ -339,9 +339,11 @@ fn glance(h: &mut String, a: &Analysis) {
     if let Some(w) = a.worst_plate() {
         let p = &a.plates[w];
         let g = p.governing();
+        let arrangement: Vec<String> = a.arrangements_at(w).iter().map(|n| esc(&n.words())).collect();
+        let arrangement = if arrangement.is_empty() { String::new() } else { format!("<br>{}", arrangement.join("<br>")) };
         let _ = writeln!(
             h,
-            "<tr><td class=\"k\">Most utilised base plate</td><td><strong>{}</strong>: {} kN, {} ({}, combination {})</td></tr>",
+            "<tr><td class=\"k\">Most utilised base plate</td><td><strong>{}</strong>: {} kN, {} ({}, combination {}){arrangement}</td></tr>",
             esc(&p.id),
             kn(g.max_kn),
             pct(g.utilisation),
@@ -462,11 +464,18 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
         "</tbody></table><p class=\"note\">Permanent load takes, per plate, whichever factor is worse. Each imposed load counts only where it makes the result worse; of the horizontal loads, the worst single plan direction counts.</p>"
     );
 
-    let _ = writeln!(h, "<h3>Loads</h3><table><thead><tr><th>Id</th><th>Case</th><th>Kind</th><th>Where</th><th>Value</th></tr></thead><tbody>");
-    let _ = writeln!(h, "<tr><td>self-weight</td><td>G</td><td>self-weight</td><td>every post, bearer and deck</td><td>from the members' kN/m and the decks' kPa</td></tr>");
+    let _ = writeln!(h, "<h3>Loads</h3><table><thead><tr><th>Id</th><th>Case</th><th>Kind</th><th>Where</th><th>Value</th><th>Placed</th></tr></thead><tbody>");
+    let _ = writeln!(h, "<tr><td>self-weight</td><td>G</td><td>self-weight</td><td>every post, bearer and deck</td><td>from the members' kN/m and the decks' kPa</td><td>everywhere</td></tr>");
     for l in &scene.loads {
         let (place, value) = load_words(&l.kind);
-        let _ = writeln!(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>", esc(&l.id), l.case, l.kind.label(), esc(&place), esc(&value));
+        let placed = if l.is_arranged() {
+            "in its worst arrangement at each plate"
+        } else if l.case == crate::scene::loads::Case::Q && l.arrangement == crate::scene::loads::Arrangement::Whole {
+            "<strong>whole</strong> (as set)"
+        } else {
+            "whole"
+        };
+        let _ = writeln!(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{placed}</td></tr>", esc(&l.id), l.case, l.kind.label(), esc(&place), esc(&value));
     }
     let braced = match (a.braced.x, a.braced.y) {
         (true, true) => "x and y",
@@ -474,7 +483,11 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
         (false, true) => "y only",
         (false, false) => "neither direction",
     };
-    let _ = writeln!(h, "</tbody></table><p class=\"note\">Braced plan directions: {braced}. Cases: G permanent, Q imposed, W horizontal.</p></section>");
+    let _ = writeln!(
+        h,
+        "</tbody></table><p class=\"note\">Braced plan directions: {braced}. Cases: G permanent, Q imposed, W horizontal. An imposed load placed in its worst arrangement is split into cells (each deck strip between bearers × each stretch between posts, each cantilever or overhang part on its own); at each plate only the cells that push it down count for its maximum, and only those that lift it for its minimum. Working levels: {}.</p></section>",
+        a.working_levels.label()
+    );
 }
 
 /// Plan geometry in drawing units (1 unit ≈ 0.19 mm when printed across A4).

@@ -62,6 +62,32 @@ struct Flow {
     tee: Vec<(usize, f64)>,
 }
 
+/// The effect of each cell of arranged load `load` (index into the scene's loads) at post `post`
+/// in method pass `pass`, kN (upward reaction at a plate, load passed on at any other post), in
+/// the order of [`Arranged::cells`]; `None` if the load is not arranged. For explaining one
+/// post's worst arrangement (the extremes themselves are found without it).
+pub fn cell_effects(model: &crate::scene::validate::Model, pass: &crate::solve::passes::MethodPass, load: usize, post: usize) -> Option<Vec<f64>> {
+    let mut s = Solver::new(model, pass);
+    let l = &model.scene.loads[load];
+    if !l.is_arranged() {
+        return None;
+    }
+    let layout = s.layout(l, model.load_targets[load])?;
+    let nj = layout.stretches.first().map_or(0, Vec::len);
+    let nk = layout.bearers.len();
+    let mut buffer = Vec::new();
+    let mut t = vec![0.0; nk * nj];
+    for k in 0..nk {
+        for j in 0..nj {
+            let (from, to) = layout.stretches[k][j];
+            let flow = s.unit_flow(layout.bearers[k], from, to, &mut buffer);
+            t[k * nj + j] = buffer[flow.entries.clone()].iter().filter(|e| e.0 as usize == post).map(|e| e.1).sum();
+            buffer.clear();
+        }
+    }
+    Some(layout.d.iter().flat_map(|row| (0..nj).map(|j| (0..nk).map(|k| row[k] * t[k * nj + j]).sum()).collect::<Vec<f64>>()).collect())
+}
+
 impl Solver<'_, '_> {
     /// The worst arrangement of load `k` of the scene, if it is arranged.
     pub(super) fn arrange(&mut self, load: &Load, target: Target) -> Option<Arranged> {
@@ -175,6 +201,9 @@ impl Solver<'_, '_> {
         let mut via = vec![NONE; n_posts];
         let mut t_pos = vec![0.0; n_posts];
         let mut t_neg = vec![0.0; n_posts];
+        // Stretches pushing each post down and lifting it (through its one bearer).
+        let mut n_pos = vec![0u32; n_posts];
+        let mut n_neg = vec![0u32; n_posts];
         let mut touched: Vec<u32> = Vec::new();
         for k in 0..nk {
             let loaded = d_pos[k] != 0.0 || d_neg[k] != 0.0;
@@ -194,8 +223,10 @@ impl Solver<'_, '_> {
                     if *slot == k as u32 {
                         if f > 0.0 {
                             t_pos[p as usize] += f;
-                        } else {
+                            n_pos[p as usize] += 1;
+                        } else if f < 0.0 {
                             t_neg[p as usize] += f;
+                            n_neg[p as usize] += 1;
                         }
                     } else {
                         *slot = MANY;
@@ -206,6 +237,9 @@ impl Solver<'_, '_> {
         }
         touched.sort_unstable();
         let mut extremes = Vec::with_capacity(touched.len());
+        let mut counts = Vec::with_capacity(touched.len());
+        // Strips loading each bearer down (D > 0) and up (D < 0).
+        let d_count: Vec<(u32, u32)> = (0..nk).map(|k| layout.d.iter().fold((0, 0), |(a, b), row| (a + (row[k] > 0.0) as u32, b + (row[k] < 0.0) as u32))).collect();
         let many: Vec<u32> = touched.iter().copied().filter(|&p| via[p as usize] == MANY).collect();
         for &p in &touched {
             let k = via[p as usize];
@@ -215,6 +249,9 @@ impl Solver<'_, '_> {
             let (tp, tn) = (t_pos[p as usize], t_neg[p as usize]);
             let (dp, dn) = (d_pos[k as usize], d_neg[k as usize]);
             extremes.push((p, dp * tp + dn * tn, dp * tn + dn * tp));
+            let (sp, sn) = d_count[k as usize];
+            let (tp_n, tn_n) = (n_pos[p as usize], n_neg[p as usize]);
+            counts.push((sp * tp_n + sn * tn_n, sp * tn_n + sn * tp_n));
         }
         if !many.is_empty() {
             // Cell by cell for the posts reached through more than one bearer of the load.
@@ -230,24 +267,29 @@ impl Solver<'_, '_> {
                 }
             }
             for (m, &p) in many.iter().enumerate() {
-                let (mut hi, mut lo) = (0.0, 0.0);
+                let (mut hi, mut lo, mut up, mut down) = (0.0, 0.0, 0u32, 0u32);
                 for row in &layout.d {
                     for j in 0..nj {
                         let r: f64 = (0..nk).map(|k| row[k] * t[m][k * nj + j]).sum();
                         if r > 0.0 {
                             hi += r;
-                        } else {
+                            down += 1;
+                        } else if r < 0.0 {
                             lo += r;
+                            up += 1;
                         }
                     }
                 }
                 extremes.push((p, hi, lo));
+                counts.push((down, up));
             }
-            extremes.sort_unstable_by_key(|e| e.0);
+            let mut both: Vec<((u32, f64, f64), (u32, u32))> = extremes.into_iter().zip(counts).collect();
+            both.sort_unstable_by_key(|e| e.0 .0);
+            (extremes, counts) = both.into_iter().unzip();
         }
         let worst_cell_residual = self.cell_residuals(layout, &flows);
         self.tee_heads_arranged(layout, &flows);
-        Arranged { cells: layout.cells.clone(), extremes, worst_cell_residual }
+        Arranged { cells: layout.cells.clone(), extremes, counts, worst_cell_residual }
     }
 
     /// Every cell's reactions against its applied load: the largest relative residual.
