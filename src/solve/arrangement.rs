@@ -193,7 +193,8 @@ impl Solver<'_, '_> {
             }
         }
         // One unit flow per (bearer, stretch); bearers no strip loads are skipped.
-        let mut buffer: Vec<(u32, f64)> = Vec::new();
+        let mut buffer: Vec<(u32, f64)> = std::mem::take(&mut self.flow_buffer);
+        buffer.clear();
         let mut flows: Vec<Option<Flow>> = Vec::with_capacity(nk * nj);
         // Per post: the one bearer it is reached through (or MANY), and Σⱼ T⁺, Σⱼ T⁻ through it.
         const NONE: u32 = u32::MAX;
@@ -289,6 +290,7 @@ impl Solver<'_, '_> {
         }
         let worst_cell_residual = self.cell_residuals(layout, &flows);
         self.tee_heads_arranged(layout, &flows);
+        self.flow_buffer = buffer;
         Arranged { cells: layout.cells.clone(), extremes, counts, worst_cell_residual }
     }
 
@@ -370,7 +372,17 @@ impl Solver<'_, '_> {
         let model = self.model;
         let line = &model.bearers[b];
         let mut tee = Vec::new();
-        if line.posts.iter().all(|&p| model.graph.is_plate(p)) {
+        let direct = line.posts.iter().all(|&p| model.graph.is_plate(p));
+        // A bearer on base plates only gives the same flow in every pass where it behaves the
+        // same way: kept for the next pass.
+        let key = (b as u32, self.bearer_behaviour[b], from.to_bits(), to.to_bits());
+        if direct {
+            if let Some(cached) = self.flow_cache.get(&key) {
+                buffer.extend_from_slice(&cached.entries);
+                return Flow { entries: start..buffer.len(), sums: cached.sums, tee: cached.tee.clone() };
+            }
+        }
+        if direct {
             // The bearer stands on base plates only: its reactions are the plate loads.
             if let Some(beam) = &mut self.bearer_beams[b] {
                 self.reactions.resize(line.posts.len(), 0.0);
@@ -403,8 +415,22 @@ impl Solver<'_, '_> {
                 sums[2] += post.y * v;
             }
         }
+        if direct {
+            self.flow_cache.insert(key, CachedFlow { entries: buffer[start..].to_vec(), sums, tee: tee.clone() });
+        }
         Flow { entries: start..buffer.len(), sums, tee }
     }
+}
+
+/// Unit flows of bearers standing on base plates only, kept from pass to pass: keyed by bearer,
+/// its behaviour in the pass, and the stretch loaded.
+pub(super) type FlowCache = crate::fxhash::FxMap<(u32, crate::solve::passes::Behaviour, u64, u64), CachedFlow>;
+
+/// One kept unit flow.
+pub(super) struct CachedFlow {
+    entries: Vec<(u32, f64)>,
+    sums: [f64; 3],
+    tee: Vec<(usize, f64)>,
 }
 
 /// Add up entries for the same post appended since `from` (a support reached through two pieces).
