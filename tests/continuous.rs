@@ -7,7 +7,7 @@ use plateload::scene::model::{BeamMethod, BeamRole, Bearer, Deck, Post, Rect, Sc
 use plateload::{analyse, Analysis};
 
 fn post(id: &str, x: f64, y: f64) -> Post {
-    Post { id: id.into(), x, y, base_level: 0.0, top_level: 2.0, support: Some("S".into()), self_weight_kn_per_m: 0.0 }
+    Post { id: id.into(), x, y, base_level: 0.0, top_level: 2.0, support: Some("S".into()), self_weight_kn_per_m: 0.0, section: None }
 }
 
 fn bearer(id: &str, posts: &[&str]) -> Bearer {
@@ -20,12 +20,13 @@ fn bearer(id: &str, posts: &[&str]) -> Bearer {
         overhang_end_m: 0.0,
         self_weight_kn_per_m: 0.0,
         method: None,
+        section: None,
     }
 }
 
 fn scene() -> Scene {
     let mut s = Scene::empty("test site", 1.0e6);
-    s.support_types.push(SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 1.0e6, sole_plate: None });
+    s.support_types.push(SupportType::new("S", PlateSize { width_m: 0.15, length_m: 0.15 }, 1.0e6, None));
     s
 }
 
@@ -138,7 +139,7 @@ fn deck_on_three_bearers() -> Scene {
         s.bearers.push(bearer(&format!("B{j}"), &refs));
         names.push(format!("B{j}"));
     }
-    s.decks.push(Deck { id: "D".into(), level: 2.0, extent: Rect { x: (0.0, 3.0), y: (0.0, 2.0) }, bearers: names, self_weight_kpa: 0.0, method: None });
+    s.decks.push(Deck { id: "D".into(), level: 2.0, extent: Rect { x: (0.0, 3.0), y: (0.0, 2.0) }, bearers: names, self_weight_kpa: 0.0, method: None, decking: None });
     s.loads.push(Load { id: "q".into(), case: Case::Q, kind: LoadKind::DeckArea { deck: "D".into(), intensity: Intensity::Kpa(2.0) } });
     s
 }

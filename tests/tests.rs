@@ -9,6 +9,8 @@ mod solve;
 mod check;
 // Scene files: syntax errors with positions, round trips, atomic saves.
 mod io;
+// The component catalogue: shipped values against their sources, user catalogues, loader errors.
+mod catalogue;
 // Continuous members, the method envelope and its outputs.
 mod continuous;
 // Validation: every problem at once, with element ids.

@@ -1,4 +1,6 @@
 //! Scene files: reading RON with file:line:col errors, writing atomically.
+//!
+//! The reader is shared with the component catalogue ([`parse_ron`]).
 
 use std::fs;
 use std::io::Write;
@@ -8,7 +10,7 @@ use ron::extensions::Extensions;
 
 use crate::scene::model::Scene;
 
-/// A scene file that could not be read.
+/// A scene (or catalogue) file that could not be read.
 #[derive(Debug, thiserror::Error)]
 #[non_exhaustive]
 pub enum SceneFileError {
@@ -20,7 +22,7 @@ pub enum SceneFileError {
         /// What the system said.
         source: std::io::Error,
     },
-    /// The text is not a valid scene.
+    /// The text is not a valid scene (or catalogue).
     #[error("{origin}:{line}:{col}: {message}")]
     Syntax {
         /// File path or other name of the text.
@@ -41,7 +43,13 @@ fn options() -> ron::Options {
 
 /// Parse scene text; `origin` names it in errors (a path, or e.g. `<demo>`).
 pub fn parse_scene(text: &str, origin: &str) -> Result<Scene, SceneFileError> {
-    options().from_str::<Scene>(text).map_err(|e| SceneFileError::Syntax {
+    parse_ron(text, origin)
+}
+
+/// Parse any RON text the way scene files are read (optional values may be written bare),
+/// with `origin:line:col` syntax errors.
+pub fn parse_ron<T: serde::de::DeserializeOwned>(text: &str, origin: &str) -> Result<T, SceneFileError> {
+    options().from_str::<T>(text).map_err(|e| SceneFileError::Syntax {
         origin: origin.to_owned(),
         line: e.span.start.line,
         col: e.span.start.col,

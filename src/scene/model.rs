@@ -129,6 +129,9 @@ impl PlateSize {
 }
 
 /// A kind of base support: base plate (with jack) and optional sole plate or board.
+///
+/// Chosen from the component catalogue ([`crate::scene::catalogue`]), its values are copied in
+/// with the catalogue id and source, so the scene file stays complete on its own.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct SupportType {
@@ -138,12 +141,35 @@ pub struct SupportType {
     pub base_plate: PlateSize,
     /// Safe working load of the base jack / plate, kN.
     pub swl_kn: f64,
+    /// Largest jack extension the safe working load holds for, m, if known. Older files: not
+    /// given.
+    #[serde(default)]
+    pub max_extension_m: Option<f64>,
     /// Timber sole plate or board under the base plate, if any. Bearing is taken on it.
     #[serde(default)]
     pub sole_plate: Option<PlateSize>,
+    /// Catalogue id of the jack the base plate and safe working load were copied from, if any.
+    #[serde(default)]
+    pub catalogue_id: Option<String>,
+    /// Where the safe working load comes from (copied from the catalogue, or the planner's own).
+    #[serde(default)]
+    pub source: String,
+    /// The safe working load is an example value that must be replaced with the manufacturer's;
+    /// validation warns while it is set.
+    #[serde(default)]
+    pub example: bool,
+    /// Catalogue id of the sole plate, if it was chosen from the catalogue.
+    #[serde(default)]
+    pub sole_plate_id: Option<String>,
 }
 
 impl SupportType {
+    /// A support type with the given plates and safe working load, not taken from the
+    /// catalogue: no source, no extension limit.
+    pub fn new(id: &str, base_plate: PlateSize, swl_kn: f64, sole_plate: Option<PlateSize>) -> Self {
+        SupportType { id: id.to_owned(), base_plate, swl_kn, max_extension_m: None, sole_plate, catalogue_id: None, source: String::new(), example: false, sole_plate_id: None }
+    }
+
     /// The plate that bears on the ground (or on the granular layer): the sole plate if there
     /// is one, otherwise the base plate.
     pub fn bearing_plate(&self) -> PlateSize {
@@ -171,6 +197,9 @@ pub struct Post {
     /// Self-weight, kN/m. Default: 48.3 × 4.0 steel tube.
     #[serde(default = "steel_tube")]
     pub self_weight_kn_per_m: f64,
+    /// Catalogue id of the section the self-weight was copied from, if any (informative).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub section: Option<String>,
 }
 
 /// What a horizontal member does; it changes only how it is drawn and listed.
@@ -211,6 +240,9 @@ pub struct Bearer {
     /// [`AnalysisSettings::method`].
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub method: Option<BeamMethod>,
+    /// Catalogue id of the section the self-weight was copied from, if any (informative).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub section: Option<String>,
 }
 
 /// A deck spanning across parallel bearers.
@@ -231,6 +263,9 @@ pub struct Deck {
     /// [`AnalysisSettings::method`].
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub method: Option<BeamMethod>,
+    /// Catalogue id of the deck type the self-weight was copied from, if any (informative).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub decking: Option<String>,
 }
 
 /// A point on a post at a level: one end of a brace.

@@ -324,6 +324,18 @@ fn check_support_types(c: &mut Checker) {
             c.at_least(K::SupportType, &s.id, "sole plate width (m)", sole.width_m, MIN_SPAN_M, LIMIT_M);
             c.at_least(K::SupportType, &s.id, "sole plate length (m)", sole.length_m, MIN_SPAN_M, LIMIT_M);
         }
+        if let Some(e) = s.max_extension_m {
+            c.positive(K::SupportType, &s.id, "maximum jack extension (m)", e, LIMIT_M, true);
+        }
+        if crate::scene::catalogue::uses_example_values(s) {
+            let from = s.catalogue_id.as_deref().map_or(String::new(), |id| format!(" from catalogue entry {id}"));
+            let ext = s.max_extension_m.map_or(String::new(), |e| format!(" (the example holds for up to {e} m)"));
+            c.warn(
+                K::SupportType,
+                &s.id,
+                format!("uses example values{from}: safe working load {} kN is not a manufacturer's figure; replace it with the manufacturer's safe working load for the jack extension used{ext}", s.swl_kn),
+            );
+        }
     }
 }
 
