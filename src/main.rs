@@ -83,6 +83,24 @@ enum Command {
         /// Id of the base plate (its post's id).
         base: String,
     },
+    /// List the component catalogue: the shipped entries and the user's (from the config
+    /// directory and from beside the scene, if one is given), each value with its source.
+    Catalogue {
+        /// A scene file: its folder's catalogue.ron is read too.
+        scene: Option<PathBuf>,
+    },
+    /// Write a scene file again in the current form: one element per line, every value
+    /// written, the comment lines at its top kept. Prints it, or writes it with --output.
+    Rewrite {
+        /// Scene file (RON).
+        file: PathBuf,
+        /// Output file (may be the same file). Written atomically.
+        #[arg(short, long)]
+        output: Option<PathBuf>,
+        /// Go ahead although comments below the top of the file will not be kept.
+        #[arg(long)]
+        drop_comments: bool,
+    },
     /// Print a built-in demo scene as RON, or list them.
     Demo {
         /// Name of the demo (without .ron); omit to list them.
@@ -226,6 +244,43 @@ fn run() -> anyhow::Result<ExitCode> {
             };
             println!("{CAUTION}\n");
             print!("{}", plateload::export::trace::trace_text(&scene, &analysis, plate));
+            Ok(ExitCode::SUCCESS)
+        }
+        Command::Catalogue { scene } => {
+            let loaded = plateload::scene::catalogue::load_for(scene.as_deref());
+            println!("component catalogue: shipped with plateload{}", loaded.files.iter().map(|f| format!(" + {}", f.display())).collect::<String>());
+            if let Some(config) = plateload::scene::catalogue::config_path().filter(|p| !p.exists()) {
+                println!("(your own entries go in {}, or in catalogue.ron beside a scene)", config.display());
+            }
+            println!();
+            print!("{}", plateload::scene::catalogue::list_text(&loaded.catalogue));
+            for n in &loaded.notes {
+                println!("note: {n}");
+            }
+            for p in &loaded.problems {
+                eprintln!("problem: {p}");
+            }
+            Ok(if loaded.problems.is_empty() { ExitCode::SUCCESS } else { ExitCode::from(EXIT_INVALID) })
+        }
+        Command::Rewrite { file, output, drop_comments } => {
+            let text = std::fs::read_to_string(&file).with_context(|| format!("reading {}", file.display()))?;
+            let later = io::comments_after_header(&text);
+            if !later.is_empty() && !drop_comments {
+                let lines: Vec<String> = later.iter().map(|l| l.to_string()).collect();
+                anyhow::bail!(
+                    "{}: the comments on line(s) {} would not be kept (only those at the top of the file are); move them to the top, or pass --drop-comments",
+                    file.display(),
+                    lines.join(", ")
+                );
+            }
+            let out = io::rewrite_scene(&text, &file.display().to_string())?;
+            match output {
+                Some(path) => {
+                    io::write_atomic(&path, out.as_bytes()).with_context(|| format!("writing {}", path.display()))?;
+                    eprintln!("wrote {}", path.display());
+                }
+                None => print!("{out}"),
+            }
             Ok(ExitCode::SUCCESS)
         }
         Command::Demo { name } => {

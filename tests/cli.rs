@@ -109,3 +109,60 @@ fn every_command_has_help() {
         assert!(!o.stdout.is_empty());
     }
 }
+
+#[test]
+fn catalogue_lists_every_entry_with_its_source_and_the_users_additions() {
+    // common practice, no source
+    let dir = temp("catalogue-site");
+    std::fs::create_dir_all(&dir).unwrap();
+    let config = temp("catalogue-config");
+    std::fs::create_dir_all(&config).unwrap();
+    let run = |args: &[&str]| Command::new(env!("CARGO_BIN_EXE_plateload")).args(args).env("XDG_CONFIG_HOME", &config).output().unwrap();
+    let o = run(&["catalogue"]);
+    let (out, err) = text(&o);
+    assert!(o.status.success(), "{err}");
+    assert!(out.contains("example-jack-30") && out.contains("SWL 30 kN up to 0.25 m extension") && out.contains("EXAMPLE — replace with the manufacturer's value"), "{out}");
+    assert!(out.contains("tube-steel-48.3x4.0") && out.contains("EN 39:2001") && out.contains("timber-on-concrete"), "{out}");
+    assert!(out.contains(&config.join("plateload").join("catalogue.ron").display().to_string()), "says where the user's file goes: {out}");
+
+    let scene_file = dir.join("site.ron");
+    std::fs::write(&scene_file, "(site: (name: \"s\", allowable_bearing_kpa: 100.0))").unwrap();
+    std::fs::write(dir.join("catalogue.ron"), "(decks: [(id: \"boards-38-dry\", self_weight_kpa: 0.18, confidence: Confirmed, source: \"weighed on site\")])").unwrap();
+    let o = run(&["catalogue", scene_file.to_str().unwrap()]);
+    let (out, err) = text(&o);
+    assert!(o.status.success(), "{err}");
+    assert!(out.contains("0.18 kPa") && out.contains("weighed on site") && out.contains("note: deck boards-38-dry from") && out.contains("replaces"), "{out}");
+
+    std::fs::write(dir.join("catalogue.ron"), "(decks: [(id: \"d\",, )])").unwrap();
+    let o = run(&["catalogue", scene_file.to_str().unwrap()]);
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(err.contains(&format!("{}:1:", dir.join("catalogue.ron").display())), "{err}");
+}
+
+#[test]
+fn rewrite_turns_an_old_file_into_one_line_per_element() {
+    // common practice, no source
+    let old = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/old-format/tannery-loading-bay.ron");
+    let out = temp("tannery-rewritten.ron");
+    let o = plateload(&["rewrite", old.to_str().unwrap(), "-o", out.to_str().unwrap()]);
+    let (_, err) = text(&o);
+    assert!(o.status.success(), "{err}");
+    let written = std::fs::read_to_string(&out).unwrap();
+    assert!(written.starts_with("// Tannery Yard loading bay"), "header kept");
+    assert!(written.lines().count() < 90, "{written}");
+    let a = plateload::scene::io::read_scene(&old).unwrap();
+    assert_eq!(plateload::scene::io::parse_scene(&written, "w").unwrap(), a);
+
+    // A comment further down would be lost: refused, with its line.
+    let commented = temp("commented.ron");
+    std::fs::write(&commented, "// top\n(\n  site: (name: \"s\", allowable_bearing_kpa: 100.0), // ground from the 2019 survey\n)\n").unwrap();
+    let o = plateload(&["rewrite", commented.to_str().unwrap(), "-o", commented.to_str().unwrap()]);
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(err.contains("line(s) 3") && err.contains("--drop-comments"), "{err}");
+    assert!(std::fs::read_to_string(&commented).unwrap().contains("2019 survey"), "the file is left alone");
+    let o = plateload(&["rewrite", commented.to_str().unwrap(), "--drop-comments"]);
+    assert!(o.status.success());
+    assert!(text(&o).0.starts_with("// top\n(\n"));
+}

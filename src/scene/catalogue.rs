@@ -566,7 +566,7 @@ pub fn list_text(c: &Catalogue) -> String {
     }
     let _ = writeln!(s, "sole plates:");
     for e in &c.sole_plates {
-        let _ = writeln!(s, "  {:<24} {} [{}] source: {}", e.id, mm(e.plate), e.confidence.label(), e.source);
+        let _ = writeln!(s, "  {:<24} {}, {} [{}] source: {}", e.id, mm(e.plate), e.name, e.confidence.label(), e.source);
     }
     let _ = writeln!(s, "member sections:");
     for e in &c.members {

@@ -50,9 +50,8 @@ pub struct Scene {
     /// Settings of the overturning check.
     #[serde(default)]
     pub stability: StabilitySettings,
-    /// How members share load among their supports. Omitted in older files (and not written
-    /// while it holds the defaults): the defaults.
-    #[serde(default, skip_serializing_if = "AnalysisSettings::is_default")]
+    /// How members share load among their supports. Omitted in older files: the defaults.
+    #[serde(default)]
     pub analysis: AnalysisSettings,
 }
 
@@ -238,7 +237,7 @@ pub struct Bearer {
     pub self_weight_kn_per_m: f64,
     /// How this member shares load among its posts, if not as the scene's
     /// [`AnalysisSettings::method`].
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default)]
     pub method: Option<BeamMethod>,
     /// Catalogue id of the section the self-weight was copied from, if any (informative).
     #[serde(default, skip_serializing_if = "Option::is_none")]
@@ -261,7 +260,7 @@ pub struct Deck {
     pub self_weight_kpa: f64,
     /// How this deck shares load among its bearers, if not as the scene's
     /// [`AnalysisSettings::method`].
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default)]
     pub method: Option<BeamMethod>,
     /// Catalogue id of the deck type the self-weight was copied from, if any (informative).
     #[serde(default, skip_serializing_if = "Option::is_none")]
@@ -361,7 +360,7 @@ pub struct AnalysisSettings {
 }
 
 impl AnalysisSettings {
-    /// Whether these are the default settings (they are then left out of scene files).
+    /// Whether these are the default settings.
     pub fn is_default(&self) -> bool {
         *self == AnalysisSettings::default()
     }
