@@ -7,6 +7,7 @@ use std::process::ExitCode;
 
 use anyhow::Context;
 use clap::{Parser, Subcommand};
+use plateload::format::num;
 use plateload::{analyse, scene::io, Analysis, AnalysisError, Scene, CAUTION};
 
 #[cfg(feature = "viewer")]
@@ -379,18 +380,18 @@ fn solve_text(a: &Analysis) -> String {
     }
     let _ = writeln!(s, " {:>7} {:>9} {:>12}  {:<11} method (for max)", "util %", "kPa", "governs", "status");
     for (i, p) in a.plates.iter().enumerate() {
-        let _ = write!(s, "{:<10} {:>8.3} {:>8.3} {:>9.3} {:>9.3} {:>9.3}", p.id, p.x, p.y, p.case_kn[0], p.case_kn[1], p.case_kn[2]);
+        let _ = write!(s, "{:<10} {:>8.3} {:>8.3} {:>9.3} {:>9.3} {:>9.3}", p.id, num(p.x), num(p.y), num(p.case_kn[0]), num(p.case_kn[1]), num(p.case_kn[2]));
         for c in &p.combinations {
-            let _ = write!(s, " {:>10.3}/{:<10.3}", c.max_kn, c.min_kn);
+            let _ = write!(s, " {:>10.3}/{:<10.3}", num(c.max_kn), num(c.min_kn));
         }
         let g = p.governing();
-        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<11} {}", 100.0 * g.utilisation, g.bearing_kpa, a.combinations[p.governing].name, p.status.label(), a.governing_method_label(i));
+        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<11} {}", num(100.0 * g.utilisation), num(g.bearing_kpa), a.combinations[p.governing].name, p.status.label(), a.governing_method_label(i));
     }
     if let Some(w) = a.worst_plate() {
         let p = &a.plates[w];
         let g = p.governing();
         let by = if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" };
-        let _ = writeln!(s, "\nworst base: {} at {:.1}% ({by}, {})", p.id, 100.0 * g.utilisation, a.combinations[p.governing].name);
+        let _ = writeln!(s, "\nworst base: {} at {:.1}% ({by}, {})", p.id, num(100.0 * g.utilisation), a.combinations[p.governing].name);
     }
     let over = a.plates.iter().filter(|p| p.status.over).count();
     let uplift = a.plates.iter().filter(|p| p.status.uplift).count();
@@ -409,26 +410,26 @@ fn solve_text(a: &Analysis) -> String {
             s,
             "  {}{tag}: applied {:>10.3} kN down, reactions {:>10.3} kN up, |ΣF| {:.1e} kN, |ΣM| {:.1e} kN·m, relative {:.1e}",
             e.case,
-            tidy(e.applied.down()),
-            tidy(e.reactions.force[2]),
-            e.force_residual_kn,
-            e.moment_residual_knm,
-            e.relative
+            num(e.applied.down()),
+            num(e.reactions.force[2]),
+            num(e.force_residual_kn),
+            num(e.moment_residual_knm),
+            num(e.relative)
         );
     }
     let horizontal = a.horizontal_base_shear();
     if !horizontal.is_empty() {
         let _ = writeln!(s, "base shear under each horizontal load (plates on the structure, kN):");
         for (id, case, [x, y]) in horizontal {
-            let _ = writeln!(s, "  {id} ({case}): ({:.3}, {:.3}), {:.3} kN", tidy(x), tidy(y), x.hypot(y));
+            let _ = writeln!(s, "  {id} ({case}): ({:.3}, {:.3}), {:.3} kN", num(x), num(y), num(x.hypot(y)));
         }
     }
     let st = &a.stability;
-    let _ = write!(s, "\nstability: permanent load {:.3} kN", st.permanent_kn);
+    let _ = write!(s, "\nstability: permanent load {:.3} kN", num(st.permanent_kn));
     if let Some((x, y)) = st.centre_of_gravity {
-        let _ = write!(s, ", centre of gravity ({x:.3}, {y:.3})");
+        let _ = write!(s, ", centre of gravity ({:.3}, {:.3})", num(x), num(y));
     }
-    let _ = writeln!(s, ", target factor {:.2}", st.target_factor);
+    let _ = writeln!(s, ", target factor {:.2}", num(st.target_factor));
     for d in &st.directions {
         match d.factor {
             None => {
@@ -436,14 +437,18 @@ fn solve_text(a: &Analysis) -> String {
             }
             Some(f) => {
                 let k = match d.kentledge_kn {
-                    Some(k) if k > 0.0 => format!("needs {k:.2} kN kentledge over the opposite edge"),
+                    Some(k) if k > 0.0 => format!("needs {:.2} kN kentledge over the opposite edge", num(k)),
                     Some(_) => "meets the target".into(),
                     None => "no base width to add kentledge on".into(),
                 };
                 let _ = writeln!(
                     s,
                     "  tipping {} about edge {:.3} m: restoring {:.3} kN·m / overturning {:.3} kN·m = {:.2}; {k}",
-                    d.direction, d.edge_m, d.restoring_knm, d.overturning_knm, f
+                    d.direction,
+                    num(d.edge_m),
+                    num(d.restoring_knm),
+                    num(d.overturning_knm),
+                    num(f)
                 );
             }
         }
@@ -455,11 +460,6 @@ fn solve_text(a: &Analysis) -> String {
         }
     }
     s
-}
-
-/// A value for printing: rounding noise around zero shown as 0.
-fn tidy(v: f64) -> f64 {
-    if v.abs() < 5e-10 { 0.0 } else { v }
 }
 
 #[cfg(feature = "viewer")]

@@ -166,3 +166,56 @@ fn rewrite_turns_an_old_file_into_one_line_per_element() {
     assert!(o.status.success());
     assert!(text(&o).0.starts_with("// top\n(\n"));
 }
+
+/// A scene with no permanent and no horizontal load: weightless members, one imposed load.
+fn imposed_only() -> std::path::PathBuf {
+    use crate::util::*;
+    let mut s = bare_scene();
+    for (id, x, y) in [("A1", 0.0, 0.0), ("B1", 2.0, 0.0), ("A2", 0.0, 1.5), ("B2", 2.0, 1.5)] {
+        s.posts.push(post(id, x, y, 2.0));
+    }
+    s.bearers.push(bearer("L1", 2.0, &["A1", "B1"]));
+    s.bearers.push(bearer("L2", 2.0, &["A2", "B2"]));
+    s.decks.push(deck("D", 2.0, (0.0, 2.0), (0.0, 1.5), &["L1", "L2"]));
+    s.loads.push(plateload::Load { id: "q".into(), case: plateload::Case::Q, kind: plateload::LoadKind::DeckArea { deck: "D".into(), intensity: plateload::Intensity::Kpa(1.5) } });
+    let path = temp("imposed-only.ron");
+    plateload::scene::io::save_scene(&path, &s).unwrap();
+    path
+}
+
+#[test]
+fn no_output_shows_a_negative_zero() {
+    // common practice, no source: "-0.000 kN" reads as an uplift that is not there
+    let mut files: Vec<std::path::PathBuf> = ["larkfield-falsework.ron", "tannery-loading-bay.ron", "harbour-sheeted-face.ron"].iter().map(|n| scene_path(n)).collect();
+    files.push(imposed_only());
+    for file in &files {
+        let f = file.to_str().unwrap();
+        let scene = plateload::scene::io::read_scene(file).unwrap();
+        let mut outputs: Vec<(String, String)> = Vec::new();
+        for args in [vec!["validate", f], vec!["solve", f], vec!["solve", "--json", f], vec!["schedule", f]] {
+            let o = plateload(&args);
+            assert!(o.status.success(), "{args:?}: {}", text(&o).1);
+            outputs.push((args.join(" "), text(&o).0));
+        }
+        for p in &scene.posts {
+            let o = plateload(&["trace", f, &p.id]);
+            assert!(o.status.success());
+            outputs.push((format!("trace {}", p.id), text(&o).0));
+        }
+        let html = temp(&format!("{}.html", file.file_stem().unwrap().to_string_lossy()));
+        let o = plateload(&["report", f, "-o", html.to_str().unwrap(), "--date", "2026-01-01"]);
+        assert!(o.status.success(), "{}", text(&o).1);
+        outputs.push(("report".into(), std::fs::read_to_string(&html).unwrap()));
+        for (what, out) in &outputs {
+            if let Some(at) = plateload::format::find_negative_zero(out) {
+                let line = out[..at].lines().count().max(1);
+                panic!("{}: `{what}` prints a negative zero on line {line}: {}", file.display(), out.lines().nth(line - 1).unwrap_or(""));
+            }
+        }
+        if file.ends_with("imposed-only.ron") {
+            let solve = &outputs[1].1;
+            assert!(solve.contains("G [simple spans]: applied      0.000 kN down") || solve.contains("G: applied      0.000 kN down"), "{solve}");
+            assert!(solve.contains("stability: permanent load 0.000 kN"), "{solve}");
+        }
+    }
+}

@@ -175,8 +175,7 @@ fn base64(bytes: &[u8]) -> String {
 
 /// A number with `dp` decimals, never written as `-0.00`.
 fn num(v: f64, dp: usize) -> String {
-    let s = format!("{v:.dp$}");
-    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') { s[1..].to_owned() } else { s }
+    format!("{:.dp$}", crate::format::num(v))
 }
 
 /// kN to two decimals.
@@ -191,7 +190,7 @@ fn pct(v: f64) -> String {
 
 /// A relative residual in scientific notation.
 fn sci(v: f64) -> String {
-    format!("{v:.1e}")
+    format!("{:.1e}", crate::format::num(v))
 }
 
 fn hex([r, g, b]: [u8; 3]) -> String {

@@ -5,6 +5,7 @@
 //! totals row whose case columns equal the applied load of each case.
 
 use crate::check::analysis::Analysis;
+use crate::format::{num, push_fixed};
 use crate::scene::loads::Case;
 
 /// A CSV text being built: fields are quoted only when they need it.
@@ -48,46 +49,6 @@ impl Csv {
     }
 }
 
-/// Append `v` rounded to `decimals` places (at most 6), like `format!("{v:.3}")` but without the
-/// negative zero.
-pub fn push_fixed(out: &mut String, v: f64, decimals: u32) {
-    use std::fmt::Write;
-    let decimals = decimals.min(6);
-    let scale = 10u64.pow(decimals);
-    let scaled = (v * scale as f64).round();
-    if !scaled.is_finite() || scaled.abs() >= 9.0e15 {
-        let _ = write!(out, "{v:.*}", decimals as usize);
-        return;
-    }
-    // Digits right to left into a stack buffer: sign, integer part, point, `decimals` digits.
-    let negative = scaled < 0.0;
-    let mut n = scaled.abs() as u64;
-    let mut buf = [0u8; 32];
-    let mut i = buf.len();
-    let mut put = |b: u8| {
-        i -= 1;
-        buf[i] = b;
-    };
-    for _ in 0..decimals {
-        put(b'0' + (n % 10) as u8);
-        n /= 10;
-    }
-    if decimals > 0 {
-        put(b'.');
-    }
-    loop {
-        put(b'0' + (n % 10) as u8);
-        n /= 10;
-        if n == 0 {
-            break;
-        }
-    }
-    if negative && scaled != 0.0 {
-        put(b'-');
-    }
-    out.push_str(std::str::from_utf8(&buf[i..]).expect("ASCII digits"));
-}
-
 /// Write the schedule as CSV text.
 pub fn schedule_csv(analysis: &Analysis) -> String {
     let mut w = Csv { out: String::with_capacity(256 * (analysis.plates.len() + 16)), first: true };
@@ -99,10 +60,10 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         w.record(&[
             "Combination".to_string(),
             c.name.clone(),
-            format!("G unfavourable {}", f.g_unfavourable),
-            format!("G favourable {}", f.g_favourable),
-            format!("Q {}", f.q),
-            format!("W {}", f.w),
+            format!("G unfavourable {}", num(f.g_unfavourable)),
+            format!("G favourable {}", num(f.g_favourable)),
+            format!("Q {}", num(f.q)),
+            format!("W {}", num(f.w)),
             format!("checks capacity: {}", if c.checks_capacity { "yes" } else { "no" }),
             format!("checks uplift: {}", if c.checks_uplift { "yes" } else { "no" }),
             c.source.clone(),
@@ -125,11 +86,11 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         let name = if m == 0 { format!("Equilibrium {}", e.case) } else { format!("Equilibrium {} [{}]", e.case, analysis.method_label(m)) };
         w.record(&[
             name,
-            format!("applied {:.3} kN", e.applied.down()),
-            format!("reactions {:.3} kN", e.reactions.force[2]),
-            format!("|sum F| {:.3e} kN", e.force_residual_kn),
-            format!("|sum M| {:.3e} kN.m", e.moment_residual_knm),
-            format!("relative {:.1e}", e.relative),
+            format!("applied {:.3} kN", num(e.applied.down())),
+            format!("reactions {:.3} kN", num(e.reactions.force[2])),
+            format!("|sum F| {:.3e} kN", num(e.force_residual_kn)),
+            format!("|sum M| {:.3e} kN.m", num(e.moment_residual_knm)),
+            format!("relative {:.1e}", num(e.relative)),
         ]);
     }
     w.end();
@@ -179,32 +140,4 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
     }
     w.end();
     w.out
-}
-
-#[cfg(test)]
-mod tests {
-    use super::push_fixed;
-
-    #[test]
-    fn fixed_matches_standard_formatting() {
-        // source: Rust std `{:.N}` formatting as the reference; ties may round either way, so
-        // the check is that both lie within half a unit in the last place of the true value.
-        for v in [0.0, 1.0, -1.0, 0.5, 2.675, -12.3456, 1234567.891, 0.0004, 99.9995, 1e-9, 42.0, -7.25] {
-            for d in [0, 1, 3, 4] {
-                let mut s = String::new();
-                push_fixed(&mut s, v, d);
-                let expect = format!("{v:.*}", d as usize);
-                let half = 0.5 * 10f64.powi(-(d as i32)) * (1.0 + 1e-9);
-                let got: f64 = s.parse().unwrap();
-                assert!((got - v).abs() <= half, "{v} {d}: {s} vs {expect}");
-                assert_eq!(s.split('.').nth(1).map_or(0, str::len), d as usize, "{s}");
-                if (v * 10f64.powi(d as i32)).fract().abs() != 0.5 {
-                    assert_eq!(s.trim_start_matches('-'), expect.trim_start_matches('-'), "{v} {d}");
-                }
-            }
-        }
-        let mut s = String::new();
-        push_fixed(&mut s, -0.0001, 3);
-        assert_eq!(s, "0.000", "no negative zero");
-    }
 }
