@@ -8,50 +8,53 @@ use crate::check::analysis::Analysis;
 use crate::format::{num, push_fixed};
 use crate::scene::loads::Case;
 
-/// A CSV text being built: fields are quoted only when they need it.
+/// A CSV text being built by the `csv` crate (quoting, RFC 4180 line ends), with a reused
+/// buffer for numbers.
 struct Csv {
-    out: String,
-    first: bool,
+    w: csv::Writer<Vec<u8>>,
+    number: String,
 }
 
 impl Csv {
-    fn field(&mut self, v: &str) {
-        if !self.first {
-            self.out.push(',');
-        }
-        self.first = false;
-        if v.contains([',', '"', '\n', '\r']) {
-            self.out.push('"');
-            self.out.push_str(&v.replace('"', "\"\""));
-            self.out.push('"');
-        } else {
-            self.out.push_str(v);
-        }
+    fn new(capacity: usize) -> Self {
+        Csv { w: Self::writer(Vec::with_capacity(capacity)), number: String::with_capacity(32) }
     }
-    /// A number with a fixed count of decimals, without going through `format!` (the schedule
-    /// of a large scene has hundreds of thousands of them).
+    fn writer(into: Vec<u8>) -> csv::Writer<Vec<u8>> {
+        // Records have different lengths (header lines, then the table), hence `flexible`.
+        csv::WriterBuilder::new().flexible(true).terminator(csv::Terminator::CRLF).from_writer(into)
+    }
+    fn field(&mut self, v: &str) {
+        self.w.write_field(v).expect("writing to memory cannot fail");
+    }
+    /// A number with a fixed count of decimals, never a negative zero.
     fn fixed(&mut self, v: f64, decimals: u32) {
-        if !self.first {
-            self.out.push(',');
-        }
-        self.first = false;
-        push_fixed(&mut self.out, v, decimals);
+        self.number.clear();
+        push_fixed(&mut self.number, v, decimals);
+        self.w.write_field(&self.number).expect("writing to memory cannot fail");
     }
     fn end(&mut self) {
-        self.out.push_str("\r\n");
-        self.first = true;
+        self.w.write_record(None::<&[u8]>).expect("writing to memory cannot fail");
     }
     fn record<S: AsRef<str>>(&mut self, fields: &[S]) {
-        for f in fields {
-            self.field(f.as_ref());
-        }
-        self.end();
+        self.w.write_record(fields.iter().map(|f| f.as_ref())).expect("writing to memory cannot fail");
+    }
+    /// An empty line (the `csv` crate writes an empty record as `""`).
+    fn blank_line(&mut self) {
+        let w = std::mem::replace(&mut self.w, Self::writer(Vec::new()));
+        let mut bytes = w.into_inner().expect("writing to memory cannot fail");
+        bytes.extend_from_slice(b"\r\n");
+        self.w = Self::writer(bytes);
+    }
+    fn finish(self) -> String {
+        let bytes = self.w.into_inner().expect("writing to memory cannot fail");
+        // Every field came from a `&str`, so the bytes are UTF-8.
+        String::from_utf8(bytes).expect("UTF-8 in, UTF-8 out")
     }
 }
 
 /// Write the schedule as CSV text.
 pub fn schedule_csv(analysis: &Analysis) -> String {
-    let mut w = Csv { out: String::with_capacity(256 * (analysis.plates.len() + 16)), first: true };
+    let mut w = Csv::new(256 * (analysis.plates.len() + 16));
     w.record(&["Support-load schedule", analysis.scene_name.as_str()]);
     w.record(&["Caution", crate::CAUTION]);
     w.record(&["Units", "loads kN (upward reaction positive; negative = uplift); positions m; areas m2; pressures kPa; utilisation as a ratio (1.000 = capacity)"]);
@@ -93,7 +96,7 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
             format!("relative {:.1e}", num(e.relative)),
         ]);
     }
-    w.end();
+    w.blank_line();
     let mut head: Vec<String> = ["id", "x (m)", "y (m)", "base level (m)", "support", "G (kN)", "Q (kN)", "W (kN)"].map(String::from).to_vec();
     for c in &analysis.combinations {
         head.push(format!("{} max (kN)", c.name));
@@ -139,5 +142,5 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         w.fixed(t, 3);
     }
     w.end();
-    w.out
+    w.finish()
 }
