@@ -32,7 +32,6 @@ pub mod check;
 pub mod edit;
 pub mod export;
 pub mod format;
-mod fxhash;
 pub mod scene;
 pub mod solve;
 

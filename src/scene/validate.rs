@@ -1,7 +1,7 @@
 //! Validation: every problem of a scene at once, with element ids, and the resolved geometry the
 //! solver works on (ids turned into indices, bearer and deck lines set up).
 
-use crate::fxhash::FxMap as HashMap;
+use rustc_hash::FxHashMap as HashMap;
 use std::fmt;
 
 use crate::scene::loads::{Intensity, LoadKind};
