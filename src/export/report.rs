@@ -652,7 +652,8 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
             hex(band.colour())
         );
         if over {
-            // Second cue for over capacity: white cross-hatch and a bold outline ring.
+            // Second cue for over capacity: white cross-hatch and a bold square frame (the
+            // editor's cue too; a round ring means uplift).
             let _ = write!(
                 s,
                 "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"url(#hatch)\"/><rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"none\" stroke=\"#000\" stroke-width=\"3.5\"/>",
@@ -667,8 +668,17 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
             );
         }
         if uplift {
-            // Second cue for uplift: an upward marker above the plate.
-            let (tx, ty) = (cx, ry - 8.0);
+            // Second cue for uplift: a bold round ring around the plate (as in the editor) and
+            // an upward marker above it.
+            let ring = 0.5 * pw.hypot(pl) + if over { 9.0 } else { 4.5 };
+            let _ = write!(
+                s,
+                "<circle cx=\"{}\" cy=\"{}\" r=\"{}\" fill=\"none\" stroke=\"#000\" stroke-width=\"3\"/>",
+                num(cx, 1),
+                num(cy, 1),
+                num(ring, 1)
+            );
+            let (tx, ty) = (cx, cy - ring - 2.0);
             let k = font * 0.8;
             let _ = write!(
                 s,
@@ -837,8 +847,8 @@ fn legend() -> String {
     let over = hex(Band::Over.colour());
     let _ = write!(
         l,
-        "<span><svg width=\"26\" height=\"18\" viewBox=\"0 0 26 18\"><defs><pattern id=\"lh\" width=\"5\" height=\"5\" patternUnits=\"userSpaceOnUse\"><path d=\"M0 0L5 5M5 0L0 5\" stroke=\"#fff\" stroke-width=\"1\"/></pattern></defs><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"{over}\"/><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"url(#lh)\"/><rect x=\"2\" y=\"1\" width=\"22\" height=\"16\" fill=\"none\" stroke=\"#000\" stroke-width=\"2.5\"/></svg>over capacity: hatched, bold ring</span>\
-<span><svg width=\"18\" height=\"18\" viewBox=\"0 0 18 18\"><path d=\"M9 1L3 9L15 9z\" fill=\"#fff\" stroke=\"#000\" stroke-width=\"1.6\"/><line x1=\"9\" y1=\"9\" x2=\"9\" y2=\"17\" stroke=\"#000\" stroke-width=\"1.6\"/></svg>uplift: upward marker</span></div>"
+        "<span><svg width=\"26\" height=\"18\" viewBox=\"0 0 26 18\"><defs><pattern id=\"lh\" width=\"5\" height=\"5\" patternUnits=\"userSpaceOnUse\"><path d=\"M0 0L5 5M5 0L0 5\" stroke=\"#fff\" stroke-width=\"1\"/></pattern></defs><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"{over}\"/><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"url(#lh)\"/><rect x=\"2\" y=\"1\" width=\"22\" height=\"16\" fill=\"none\" stroke=\"#000\" stroke-width=\"2.5\"/></svg>over capacity: hatched, square frame</span>\
+<span><svg width=\"30\" height=\"30\" viewBox=\"0 0 30 30\"><circle cx=\"15\" cy=\"18\" r=\"10\" fill=\"none\" stroke=\"#000\" stroke-width=\"2\"/><rect x=\"11\" y=\"15\" width=\"8\" height=\"6\" fill=\"#fff\" stroke=\"#222\" stroke-width=\"0.8\"/><path d=\"M15 0L11 5L19 5z\" fill=\"#fff\" stroke=\"#000\" stroke-width=\"1.4\"/><line x1=\"15\" y1=\"5\" x2=\"15\" y2=\"8\" stroke=\"#000\" stroke-width=\"1.4\"/></svg>lifts (uplift): round ring, upward marker</span></div>"
     );
     l
 }
