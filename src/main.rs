@@ -387,6 +387,26 @@ fn solve_text(a: &Analysis) -> String {
         let g = p.governing();
         let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<11} {}", num(100.0 * g.utilisation), num(g.bearing_kpa), a.combinations[p.governing].name, p.status.label(), a.governing_method_label(i));
     }
+    let on_structures: Vec<String> = a.plates.iter().filter_map(|p| p.on_structure.as_ref().map(|e| format!("{} on {e}", p.id))).collect();
+    if !on_structures.is_empty() {
+        let _ = writeln!(s, "plates on existing structures (loads for the permanent-works designer): {}", on_structures.join(", "));
+    }
+    if !a.lifts.is_empty() {
+        let _ = writeln!(s, "\nposts standing on other members (load they pass on at their base; negative: pulls up):");
+        let _ = write!(s, "{:<10} {:<28} {:>9} {:>9} {:>9}", "post", "stands on", "G kN", "Q kN", "W kN");
+        for c in &a.combinations {
+            let _ = write!(s, " {:>21}", format!("{} max/min kN", c.name));
+        }
+        let _ = writeln!(s, "  status");
+        for l in &a.lifts {
+            let _ = write!(s, "{:<10} {:<28} {:>9.3} {:>9.3} {:>9.3}", l.id, l.stands_on, num(l.case_kn[0]), num(l.case_kn[1]), num(l.case_kn[2]));
+            for c in &l.combinations {
+                let _ = write!(s, " {:>10.3}/{:<10.3}", num(c.max_kn), num(c.min_kn));
+            }
+            let status = if l.status.uplift { "PULLS UP: tie it down or prop it" } else if l.status.over { "OVER its support's safe working load" } else { "OK" };
+            let _ = writeln!(s, "  {status}");
+        }
+    }
     if let Some(w) = a.worst_plate() {
         let p = &a.plates[w];
         let g = p.governing();
@@ -406,6 +426,17 @@ fn solve_text(a: &Analysis) -> String {
     let tagged = a.equilibrium_by_method.iter().enumerate().flat_map(|(m, eq)| eq.iter().map(move |e| (m, e)));
     for (m, e) in tagged {
         let tag = if methods.len() > 1 { format!(" [{}]", methods[m]) } else { String::new() };
+        if !e.one_state {
+            let _ = writeln!(
+                s,
+                "  {}{tag}: support by support, each two-span model balances (relative {:.1e}); its reactions ({:.3} kN) exceed the applied {:.3} kN by design",
+                e.case,
+                e.relative,
+                num(e.reactions.force[2]),
+                num(e.applied.down())
+            );
+            continue;
+        }
         let _ = writeln!(
             s,
             "  {}{tag}: applied {:>10.3} kN down, reactions {:>10.3} kN up, |ΣF| {:.1e} kN, |ΣM| {:.1e} kN·m, relative {:.1e}",

@@ -177,7 +177,7 @@ fn imposed_only() -> std::path::PathBuf {
     s.bearers.push(bearer("L1", 2.0, &["A1", "B1"]));
     s.bearers.push(bearer("L2", 2.0, &["A2", "B2"]));
     s.decks.push(deck("D", 2.0, (0.0, 2.0), (0.0, 1.5), &["L1", "L2"]));
-    s.loads.push(plateload::Load { id: "q".into(), case: plateload::Case::Q, kind: plateload::LoadKind::DeckArea { deck: "D".into(), intensity: plateload::Intensity::Kpa(1.5) } });
+    s.loads.push(plateload::Load::new("q", plateload::Case::Q, plateload::LoadKind::DeckArea { deck: "D".into(), intensity: plateload::Intensity::Kpa(1.5) }));
     let path = temp("imposed-only.ron");
     plateload::scene::io::save_scene(&path, &s).unwrap();
     path

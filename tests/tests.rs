@@ -11,6 +11,10 @@ mod check;
 mod io;
 // The component catalogue: shipped values against their sources, user catalogues, loader errors.
 mod catalogue;
+// Loads through lifts: spliced standards, transfer members, existing structures.
+mod lifts;
+// Imposed loads in their worst arrangement.
+mod arrangements;
 // Continuous members, the method envelope and its outputs.
 mod continuous;
 // Validation: every problem at once, with element ids.

@@ -46,18 +46,19 @@ pub fn bearer(id: &str, level: f64, posts: &[&str]) -> Bearer {
         overhang_end_m: 0.0,
         self_weight_kn_per_m: 0.0,
         method: None,
+        joints: None,
         section: None,
     }
 }
 
 /// A weightless deck.
 pub fn deck(id: &str, level: f64, x: (f64, f64), y: (f64, f64), bearers: &[&str]) -> Deck {
-    Deck { id: id.into(), level, extent: Rect { x, y }, bearers: bearers.iter().map(|b| b.to_string()).collect(), self_weight_kpa: 0.0, method: None, decking: None }
+    Deck { id: id.into(), level, extent: Rect { x, y }, bearers: bearers.iter().map(|b| b.to_string()).collect(), self_weight_kpa: 0.0, method: None, joints: None, decking: None }
 }
 
 /// A load.
 pub fn load(id: &str, case: Case, kind: LoadKind) -> Load {
-    Load { id: id.into(), case, kind }
+    Load::new(id, case, kind)
 }
 
 /// A brace between two posts from level 0 to `top`.

@@ -143,6 +143,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 overhang_end_m: 0.0,
                 self_weight_kn_per_m: spec.member_self_weight_kn_per_m,
                 method: None,
+                joints: None,
                 section: spec.section.clone(),
             });
         }
@@ -156,6 +157,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 overhang_end_m: 0.0,
                 self_weight_kn_per_m: spec.member_self_weight_kn_per_m,
                 method: None,
+                joints: None,
                 section: spec.section.clone(),
             });
         }
@@ -168,10 +170,11 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 bearers: scene.bearers[first_bearer..first_bearer + ny].iter().map(|b| b.id.clone()).collect(),
                 self_weight_kpa: spec.deck_self_weight_kpa,
                 method: None,
+                joints: None,
                 decking: spec.decking.clone(),
             });
             if let Some(class) = spec.load_class {
-                scene.loads.push(Load { id: format!("{p}Q-{id}"), case: Case::Q, kind: LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) } });
+                scene.loads.push(Load::new(format!("{p}Q-{id}"), Case::Q, LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) }));
             }
         }
     }
@@ -211,7 +214,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
 }
 
 fn notional(id: String, direction: PlanDirection) -> Load {
-    Load { id, case: Case::W, kind: LoadKind::Notional { percent: crate::scene::loads::DEFAULT_NOTIONAL_PERCENT, direction, basis: vec![Case::G, Case::Q] } }
+    Load::new(id, Case::W, LoadKind::Notional { percent: crate::scene::loads::DEFAULT_NOTIONAL_PERCENT, direction, basis: vec![Case::G, Case::Q] })
 }
 
 /// A new scene holding only the generated layout.

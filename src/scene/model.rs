@@ -29,7 +29,8 @@ pub struct Scene {
     /// Kinds of base support (base plate + jack, optional sole plate).
     #[serde(default)]
     pub support_types: Vec<SupportType>,
-    /// Standards (posts), each on one base plate.
+    /// Standards (posts). Each stands on a base plate on the ground or an existing structure, or
+    /// on another post (a lift), a bearer or a deck; see [`crate::scene::standing`].
     #[serde(default)]
     pub posts: Vec<Post>,
     /// Horizontal members resting on posts: bearers, ledgers, transoms.
@@ -41,6 +42,9 @@ pub struct Scene {
     /// Braces between post nodes; they declare which plan directions are braced.
     #[serde(default)]
     pub braces: Vec<Brace>,
+    /// Existing structures of the permanent works (slabs, podium decks) that posts may stand on.
+    #[serde(default)]
+    pub existing_structures: Vec<ExistingStructure>,
     /// Applied loads, each tagged with a load case.
     #[serde(default)]
     pub loads: Vec<Load>,
@@ -147,6 +151,11 @@ pub struct SupportType {
     /// Timber sole plate or board under the base plate, if any. Bearing is taken on it.
     #[serde(default)]
     pub sole_plate: Option<PlateSize>,
+    /// Moment the head of a post of this type takes, kN·m, from the maker's data: a bearer on a
+    /// single post (a T-head) may then be out of balance by up to this much. `None`: the head
+    /// takes no moment and a T-head must balance.
+    #[serde(default)]
+    pub head_moment_capacity_knm: Option<f64>,
     /// Catalogue id of the jack the base plate and safe working load were copied from, if any.
     #[serde(default)]
     pub catalogue_id: Option<String>,
@@ -166,7 +175,7 @@ impl SupportType {
     /// A support type with the given plates and safe working load, not taken from the
     /// catalogue: no source, no extension limit.
     pub fn new(id: &str, base_plate: PlateSize, swl_kn: f64, sole_plate: Option<PlateSize>) -> Self {
-        SupportType { id: id.to_owned(), base_plate, swl_kn, max_extension_m: None, sole_plate, catalogue_id: None, source: String::new(), example: false, sole_plate_id: None }
+        SupportType { id: id.to_owned(), base_plate, swl_kn, max_extension_m: None, sole_plate, head_moment_capacity_knm: None, catalogue_id: None, source: String::new(), example: false, sole_plate_id: None }
     }
 
     /// The plate that bears on the ground (or on the granular layer): the sole plate if there
@@ -176,7 +185,8 @@ impl SupportType {
     }
 }
 
-/// A standard (post) standing on one base plate.
+/// A standard (post), or one lift of a standard: it stands on a base plate, another post, a bearer
+/// or a deck (see [`crate::scene::standing`]).
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Post {
@@ -186,11 +196,12 @@ pub struct Post {
     pub x: f64,
     /// Plan position, m.
     pub y: f64,
-    /// Level of the base plate, m.
+    /// Level of its base (the base plate, or the top of what it stands on), m.
     pub base_level: f64,
     /// Level of the top of the post, m.
     pub top_level: f64,
-    /// Id of its support type.
+    /// Id of its support type: needed where the post has a base plate; optional on a post that
+    /// stands on another member (then its safe working load is still checked).
     #[serde(default)]
     pub support: Option<String>,
     /// Self-weight, kN/m. Default: 48.3 × 4.0 steel tube.
@@ -239,6 +250,11 @@ pub struct Bearer {
     /// [`AnalysisSettings::method`].
     #[serde(default)]
     pub method: Option<BeamMethod>,
+    /// Posts (inner ones, by id) over which the member is jointed — not continuous — when known.
+    /// `None`: not known, so the envelope also covers two-span continuity at every inner post
+    /// ([`BeamMethod::Envelope`]). `Some(vec![])`: known to be continuous throughout.
+    #[serde(default)]
+    pub joints: Option<Vec<String>>,
     /// Catalogue id of the section the self-weight was copied from, if any (informative).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub section: Option<String>,
@@ -262,9 +278,33 @@ pub struct Deck {
     /// [`AnalysisSettings::method`].
     #[serde(default)]
     pub method: Option<BeamMethod>,
+    /// Bearers (inner ones, by id) over which the decking is jointed — not continuous — when
+    /// known. `None`: not known, so the envelope also covers two-span continuity at every inner
+    /// bearer. `Some(vec![])`: known to be continuous throughout.
+    #[serde(default)]
+    pub joints: Option<Vec<String>>,
     /// Catalogue id of the deck type the self-weight was copied from, if any (informative).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub decking: Option<String>,
+}
+
+/// A structure of the permanent works that base plates stand on, such as an existing slab. Its
+/// plate loads are scheduled for the permanent-works designer; the ground check does not apply.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ExistingStructure {
+    /// Id.
+    pub id: String,
+    /// What it is, in words (e.g. "ground-floor slab, 250 mm").
+    #[serde(default)]
+    pub description: String,
+    /// Level of its top surface, m. Posts whose base is at this level within its extent stand on it.
+    pub level: f64,
+    /// Plan extent, m.
+    pub extent: Rect,
+    /// Allowable bearing pressure under a base plate (or sole plate) on it, kPa, as given by the
+    /// permanent-works designer.
+    pub allowable_kpa: f64,
 }
 
 /// A point on a post at a level: one end of a brace.
@@ -331,7 +371,14 @@ pub enum BeamMethod {
     /// supports take more: 1.25 wL at the middle of two equal spans instead of 1.0 wL.
     Continuous,
     /// Both, and each base plate takes whichever is worse: the larger maximum and the smaller
-    /// minimum. The default, since a member's continuity is rarely certain on site.
+    /// minimum. The default, since a member's continuity is rarely certain on site. Where a
+    /// member's joints are not known, the envelope also takes it as jointed at every other
+    /// support, both ways round, so that every inner support is the middle of a two-span piece:
+    /// two-span continuity puts 1.25 wL on the middle support, more than a long continuous member
+    /// (about 1.1 wL) or simple spans (1.0 wL).
+    // source: 5/8 of the load of a stiff beam on three rigid supports goes to the middle one,
+    // where 1/2 is assumed in simple-span design (Advisory Committee on Falsework, final report,
+    // HMSO 1975, via REFERENCES §9); the two-span coefficients are Hicks Table 2.1.
     #[default]
     Envelope,
 }
@@ -444,6 +491,7 @@ impl Scene {
             bearers: Vec::new(),
             decks: Vec::new(),
             braces: Vec::new(),
+            existing_structures: Vec::new(),
             loads: Vec::new(),
             combinations: Combination::defaults(),
             stability: StabilitySettings::default(),
@@ -461,6 +509,7 @@ impl Scene {
             .chain(tag(ElementKind::Bearer, self.bearers.iter().map(|e| &e.id)))
             .chain(tag(ElementKind::Deck, self.decks.iter().map(|e| &e.id)))
             .chain(tag(ElementKind::Brace, self.braces.iter().map(|e| &e.id)))
+            .chain(tag(ElementKind::ExistingStructure, self.existing_structures.iter().map(|e| &e.id)))
             .chain(tag(ElementKind::Load, self.loads.iter().map(|e| &e.id)))
     }
 }
@@ -478,6 +527,8 @@ pub enum ElementKind {
     Deck,
     /// A [`Brace`].
     Brace,
+    /// An [`ExistingStructure`].
+    ExistingStructure,
     /// A [`Load`].
     Load,
     /// A [`Combination`].
@@ -494,6 +545,7 @@ impl std::fmt::Display for ElementKind {
             ElementKind::Bearer => "bearer",
             ElementKind::Deck => "deck",
             ElementKind::Brace => "brace",
+            ElementKind::ExistingStructure => "existing structure",
             ElementKind::Load => "load",
             ElementKind::Combination => "combination",
             ElementKind::Site => "site",

@@ -6,6 +6,7 @@ use std::fmt;
 
 use crate::scene::loads::{Intensity, LoadKind};
 use crate::scene::model::{ElementKind, Scene};
+use crate::scene::standing::{self, LoadPathGraph, StandsOn};
 
 /// Plan and level tolerance for "the same place", m.
 pub const GEOMETRY_TOLERANCE_M: f64 = 1e-3;
@@ -85,6 +86,8 @@ pub struct BearerLine {
     pub start: f64,
     /// End of the member (last support + end overhang), m.
     pub end: f64,
+    /// Inner supports (indices into `posts`) declared as joints; `None` when not known.
+    pub joints: Option<Vec<usize>>,
 }
 
 impl BearerLine {
@@ -120,6 +123,8 @@ pub struct DeckLine {
     pub supports: Vec<f64>,
     /// Span coordinate range of the deck extent.
     pub span_range: (f64, f64),
+    /// Inner supports (indices into `bearers`) declared as joints; `None` when not known.
+    pub joints: Option<Vec<usize>>,
 }
 
 impl DeckLine {
@@ -166,8 +171,10 @@ pub struct Braced {
 pub struct Model<'s> {
     /// The scene this was made from.
     pub scene: &'s Scene,
-    /// Support type index of each post.
-    pub post_support: Vec<usize>,
+    /// Support type index of each post (`None` for a post standing on another member without one).
+    pub post_support: Vec<Option<usize>>,
+    /// What each post stands on, and the top-down order of the members.
+    pub graph: LoadPathGraph,
     /// Line of each bearer.
     pub bearers: Vec<BearerLine>,
     /// Span line of each deck.
@@ -269,25 +276,71 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
     let post_support = check_posts(&mut c, &support_ix);
     let bearers = check_bearers(&mut c, &post_ix);
     let decks = check_decks(&mut c, &bearer_ix, &bearers);
+    check_existing_structures(&mut c);
+    let graph = load_path_graph(&mut c, &bearers, &decks);
     let braced = check_braces(&mut c, &post_ix);
     let load_targets = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers, braced);
     check_combinations(&mut c);
-    check_one_braced_body(&mut c, &post_ix, &bearers);
+    check_one_braced_body(&mut c, &post_ix, &bearers, graph.as_ref());
 
-    if c.problems.is_empty() {
-        Ok(Model {
+    match graph {
+        Some(graph) if c.problems.is_empty() => Ok(Model {
             scene,
-            post_support: post_support.into_iter().map(|s| s.unwrap_or(0)).collect(),
+            post_support,
+            graph,
             bearers: bearers.into_iter().map(|b| b.expect("checked")).collect(),
             decks: decks.into_iter().map(|d| d.expect("checked")).collect(),
             load_targets,
             braced,
             warnings: c.warnings,
-        })
-    } else {
-        Err(ValidationError { problems: c.problems })
+        }),
+        _ => Err(ValidationError { problems: c.problems }),
     }
 }
+
+/// Check the declared existing structures of the permanent works.
+fn check_existing_structures(c: &mut Checker) {
+    use ElementKind as K;
+    for e in &c.scene.existing_structures {
+        let id = e.id.as_str();
+        c.number(K::ExistingStructure, id, "level (m)", e.level, LIMIT_M);
+        let r = e.extent;
+        let mut ok = true;
+        for (what, v) in [("extent x min", r.x.0), ("extent x max", r.x.1), ("extent y min", r.y.0), ("extent y max", r.y.1)] {
+            ok &= c.number(K::ExistingStructure, id, what, v, LIMIT_M);
+        }
+        if ok && (r.x.1 - r.x.0 < MIN_SPAN_M || r.y.1 - r.y.0 < MIN_SPAN_M) {
+            c.err(K::ExistingStructure, id, format!("extent x {:?}, y {:?} must have max above min in both directions", r.x, r.y));
+        }
+        c.at_least(K::ExistingStructure, id, "allowable bearing pressure (kPa)", e.allowable_kpa, MIN_CAPACITY, LIMIT_KN);
+    }
+}
+
+/// Work out what every post stands on; a post with a base plate needs a support type.
+fn load_path_graph(c: &mut Checker, bearers: &[Option<BearerLine>], decks: &[Option<DeckLine>]) -> Option<LoadPathGraph> {
+    let scene = c.scene;
+    let usable = |v: f64| v.is_finite() && v.abs() <= LIMIT_M;
+    if scene.posts.iter().any(|p| !(usable(p.x) && usable(p.y) && usable(p.base_level) && usable(p.top_level))) {
+        // Reported by the post checks; without numbers there is nothing to stand on. Every post
+        // without a support type is then taken to need one.
+        for p in scene.posts.iter().filter(|p| p.support.is_none()) {
+            c.err(ElementKind::Post, &p.id, NO_SUPPORT_TYPE);
+        }
+        return None;
+    }
+    let (graph, problems, warnings, stands_on) = standing::resolve(scene, bearers, decks);
+    c.problems.extend(problems);
+    c.warnings.extend(warnings);
+    for (p, s) in scene.posts.iter().zip(&stands_on) {
+        if s.is_plate() && p.support.is_none() {
+            c.err(ElementKind::Post, &p.id, NO_SUPPORT_TYPE);
+        }
+    }
+    graph
+}
+
+/// A post with a base plate and no support type.
+const NO_SUPPORT_TYPE: &str = "has no support type: its base plate needs one (jack, plate and safe working load)";
 
 fn check_site(c: &mut Checker) {
     use ElementKind as K;
@@ -321,6 +374,9 @@ fn check_support_types(c: &mut Checker) {
         c.at_least(K::SupportType, &s.id, "base plate width (m)", s.base_plate.width_m, MIN_SPAN_M, LIMIT_M);
         c.at_least(K::SupportType, &s.id, "base plate length (m)", s.base_plate.length_m, MIN_SPAN_M, LIMIT_M);
         c.at_least(K::SupportType, &s.id, "safe working load (kN)", s.swl_kn, MIN_CAPACITY, LIMIT_KN);
+        if let Some(m) = s.head_moment_capacity_knm {
+            c.positive(K::SupportType, &s.id, "head moment capacity (kN·m)", m, LIMIT_KN, true);
+        }
         if let Some(sole) = s.sole_plate {
             c.at_least(K::SupportType, &s.id, "sole plate width (m)", sole.width_m, MIN_SPAN_M, LIMIT_M);
             c.at_least(K::SupportType, &s.id, "sole plate length (m)", sole.length_m, MIN_SPAN_M, LIMIT_M);
@@ -359,10 +415,7 @@ fn check_posts(c: &mut Checker, support_ix: &HashMap<&str, usize>) -> Vec<Option
             c.err(K::Post, &p.id, format!("top level {} must be above base level {}", p.top_level, p.base_level));
         }
         let support = match &p.support {
-            None => {
-                c.err(K::Post, &p.id, "has no support type");
-                None
-            }
+            None => None,
             Some(s) => match support_ix.get(s.as_str()) {
                 Some(&ix) => Some(ix),
                 None => {
@@ -483,9 +536,26 @@ fn check_bearers(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Vec<Option<
             continue;
         }
         let end = supports.last().copied().unwrap_or(0.0) + b.overhang_end_m;
-        out.push(Some(BearerLine { posts, origin, dir, supports, start: -b.overhang_start_m, end }));
+        let names: Vec<&str> = b.posts.iter().map(String::as_str).collect();
+        let joints = inner_joints(c, K::Bearer, id, b.joints.as_deref(), &names, "post");
+        out.push(Some(BearerLine { posts, origin, dir, supports, start: -b.overhang_start_m, end, joints }));
     }
     out
+}
+
+/// Declared joints of a member as support indices: each must name one of its inner supports
+/// (`supports`, in order along it).
+fn inner_joints(c: &mut Checker, kind: ElementKind, id: &str, declared: Option<&[String]>, supports: &[&str], what: &str) -> Option<Vec<usize>> {
+    let declared = declared?;
+    let mut out = Vec::with_capacity(declared.len());
+    for j in declared {
+        match supports.iter().position(|s| s == j) {
+            Some(k) if k > 0 && k + 1 < supports.len() => out.push(k),
+            Some(_) => c.err(kind, id, format!("joint at {what} {j}: a joint must be at an inner {what}, not at an end")),
+            None => c.err(kind, id, format!("joint at {what} {j}: it does not rest on that {what}")),
+        }
+    }
+    Some(out)
 }
 
 fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Option<BearerLine>]) -> Vec<Option<DeckLine>> {
@@ -537,7 +607,7 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
             out.push(None);
             continue;
         };
-        let line = DeckLine { bearers: Vec::new(), bearer_axis: axis, supports: Vec::new(), span_range: (0.0, 0.0) };
+        let line = DeckLine { bearers: Vec::new(), bearer_axis: axis, supports: Vec::new(), span_range: (0.0, 0.0), joints: None };
         let (along_range, span_range) = line.split_rect(&e);
         let mut positions: Vec<(f64, usize)> = Vec::new();
         let mut covered = true;
@@ -581,11 +651,14 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
                 c.warn(K::Deck, id, format!("level {} is below bearer {} at {}", d.level, bl.id, bl.level));
             }
         }
+        let ordered: Vec<&str> = positions.iter().map(|p| scene.bearers[p.1].id.as_str()).collect();
+        let joints = inner_joints(c, K::Deck, id, d.joints.as_deref(), &ordered, "bearer");
         out.push(Some(DeckLine {
             bearers: positions.iter().map(|p| p.1).collect(),
             bearer_axis: axis,
             supports: positions.iter().map(|p| p.0).collect(),
             span_range,
+            joints,
         }));
     }
     out
@@ -784,7 +857,7 @@ fn check_loads(
 /// Horizontal loads are shared among all base plates as one rigid braced body. That holds only
 /// if every post is joined to the others by bearers or braces: separate structures would lean
 /// on each other through nothing, so refuse rather than give a wrong share.
-fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>, bearers: &[Option<BearerLine>]) {
+fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>, bearers: &[Option<BearerLine>], graph: Option<&LoadPathGraph>) {
     let scene = c.scene;
     let n = scene.posts.len();
     if n < 2 || !scene.loads.iter().any(|l| l.kind.is_horizontal()) {
@@ -811,6 +884,24 @@ fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>, bearer
     for b in &scene.braces {
         if let (Some(&a), Some(&z)) = (post_ix.get(b.from.post.as_str()), post_ix.get(b.to.post.as_str())) {
             join(&mut parent, a, z);
+        }
+    }
+    // A post standing on another member belongs to the structure under it.
+    for (p, s) in graph.map(|g| g.stands_on.as_slice()).unwrap_or_default().iter().enumerate() {
+        match *s {
+            StandsOn::Post(q) => join(&mut parent, p, q),
+            StandsOn::Bearer { bearer, .. } => {
+                if let Some(line) = &bearers[bearer] {
+                    join(&mut parent, p, line.posts[0]);
+                }
+            }
+            StandsOn::Deck(d) => {
+                let first_bearer = scene.decks[d].bearers.first().and_then(|id| scene.bearers.iter().position(|b| &b.id == id));
+                if let Some(line) = first_bearer.and_then(|b| bearers[b].as_ref()) {
+                    join(&mut parent, p, line.posts[0]);
+                }
+            }
+            StandsOn::Ground | StandsOn::Structure(_) => {}
         }
     }
     // First post of each separate group, in file order.
