@@ -550,13 +550,21 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
     let scale = ((WIDTH - 2.0 * MARGIN - label_room) / dx).min(900.0 / dy);
     let view = View { scale, x0, y1: y0 + dy, margin: MARGIN, top: TOP };
     let labels: Vec<Vec<String>> = a.plates.iter().map(plate_label).collect();
-    // Drawn plate rectangles (centre x, centre y, half width, half length), drawing units.
+    // Drawn plate footprints (centre x, centre y, half width, half length), drawing units: the
+    // plate rectangle, or the square round its uplift ring, so labels keep clear of both.
     let rects: Vec<[f64; 4]> = a
         .plates
         .iter()
         .map(|p| {
             let (w, l) = plate_size(p);
-            [view.x(p.x), view.y(p.y), (w * scale).max(MIN_PLATE) / 2.0, (l * scale).max(MIN_PLATE) / 2.0]
+            let (hw, hl) = ((w * scale).max(MIN_PLATE) / 2.0, (l * scale).max(MIN_PLATE) / 2.0);
+            let cue = Cue::of(p.status);
+            if matches!(cue, Cue::Uplift | Cue::OverAndUplift) {
+                let r = uplift_ring_radius(hw, hl, cue == Cue::OverAndUplift) + 1.5;
+                [view.x(p.x), view.y(p.y), r, r]
+            } else {
+                [view.x(p.x), view.y(p.y), hw, hl]
+            }
         })
         .collect();
     let font = label_font(&rects, &labels);
@@ -630,7 +638,7 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
     }
     // Plates at scale (never smaller than MIN_PLATE units), coloured by band, with cues.
     let mut enlarged = false;
-    for (p, label) in a.plates.iter().zip(&labels) {
+    for ((p, label), rect) in a.plates.iter().zip(&labels).zip(&rects) {
         let g = p.governing();
         let band = Band::of(g.utilisation);
         let cue = Cue::of(p.status);
@@ -674,7 +682,7 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
         if uplift {
             // Second cue for uplift: a bold round ring around the plate (as in the editor) and
             // an upward marker above it.
-            let ring = 0.5 * pw.hypot(pl) + if over { 9.0 } else { 4.5 };
+            let ring = uplift_ring_radius(pw / 2.0, pl / 2.0, over);
             let _ = write!(
                 s,
                 "<circle cx=\"{}\" cy=\"{}\" r=\"{}\" fill=\"none\" stroke=\"#000\" stroke-width=\"3\"/>",
@@ -699,7 +707,7 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
                 num(ty, 1)
             );
         }
-        let lx = cx + pw / 2.0 + 4.0;
+        let lx = rect[0] + rect[2] + 4.0;
         let ly = cy - font * 0.55;
         let _ = write!(
             s,
@@ -772,6 +780,12 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
 
 /// Box of a plate's label at font size `f`: to the right of the plate, starting a little above
 /// its centre. Characters are taken as 0.62 em wide (a little over the average of sans faces).
+/// Radius of the ring drawn round a lifting plate of half sizes `hw` × `hl`: clear of its
+/// corners, and of the square frame when the plate is over capacity too.
+fn uplift_ring_radius(hw: f64, hl: f64, over: bool) -> f64 {
+    hw.hypot(hl) + if over { 9.0 } else { 4.5 }
+}
+
 fn label_box(r: &[f64; 4], label: &[String], f: f64) -> [f64; 4] {
     let chars = label.iter().map(|t| t.chars().count()).max().unwrap_or(1) as f64;
     let lines = label.len() as f64;
