@@ -63,6 +63,8 @@ fn report_of_each_demo_holds_the_key_figures() {
         }
         assert!(html.contains("over capacity: hatched, square frame") && html.contains("lifts (uplift): round ring, upward marker"), "{name}: legend words");
         assert!(!html.contains("bold ring"), "{name}: a ring means uplift only");
+        // The demos' safe working loads are examples: the inputs say so beside the value.
+        assert!(html.contains("EXAMPLE VALUE — replace with the manufacturer's"), "{name}: example SWL not marked");
         for b in Band::ALL {
             assert!(html.contains(&b.label()), "{name}: legend lacks {}", b.label());
         }

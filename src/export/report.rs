@@ -414,14 +414,21 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
 
     let _ = writeln!(
         h,
-        "<h3>Support types</h3><table><thead><tr><th>Id</th><th>Base plate (mm)</th><th>Sole plate (mm)</th><th class=\"n\">SWL (kN)</th><th class=\"n\">Bearing area at formation (m²)</th><th class=\"n\">Plates</th></tr></thead><tbody>"
+        "<h3>Support types</h3><table><thead><tr><th>Id</th><th>Base plate (mm)</th><th>Sole plate (mm)</th><th class=\"n\">SWL (kN)</th><th>Source of the SWL</th><th class=\"n\">Bearing area at formation (m²)</th><th class=\"n\">Plates</th></tr></thead><tbody>"
     );
     for s in &scene.support_types {
         let mm = |p: crate::scene::model::PlateSize| format!("{} × {}", num(p.width_m * 1000.0, 0), num(p.length_m * 1000.0, 0));
         let used = a.plates.iter().filter(|p| p.support == s.id).count();
+        let mut source = if s.source.trim().is_empty() { "not given".to_owned() } else { esc(&s.source) };
+        if let Some(e) = s.max_extension_m {
+            source = format!("up to {} m jack extension; {source}", num(e, 2));
+        }
+        if crate::scene::catalogue::uses_example_values(s) {
+            source = format!("<span class=\"bad\">EXAMPLE VALUE — replace with the manufacturer's</span>; {source}");
+        }
         let _ = writeln!(
             h,
-            "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{used}</td></tr>",
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"n\">{}</td><td>{source}</td><td class=\"n\">{}</td><td class=\"n\">{used}</td></tr>",
             esc(&s.id),
             mm(s.base_plate),
             s.sole_plate.map_or_else(|| "none".into(), mm),
