@@ -7,6 +7,7 @@ use std::process::ExitCode;
 
 use anyhow::Context;
 use clap::{Parser, Subcommand};
+use plateload::format::num;
 use plateload::{analyse, scene::io, Analysis, AnalysisError, Scene, CAUTION};
 
 #[cfg(feature = "viewer")]
@@ -82,6 +83,24 @@ enum Command {
         file: PathBuf,
         /// Id of the base plate (its post's id).
         base: String,
+    },
+    /// List the component catalogue: the shipped entries and the user's (from the config
+    /// directory and from beside the scene, if one is given), each value with its source.
+    Catalogue {
+        /// A scene file: its folder's catalogue.ron is read too.
+        scene: Option<PathBuf>,
+    },
+    /// Write a scene file again in the current form: one element per line, every value
+    /// written, the comment lines at its top kept. Prints it, or writes it with --output.
+    Rewrite {
+        /// Scene file (RON).
+        file: PathBuf,
+        /// Output file (may be the same file). Written atomically.
+        #[arg(short, long)]
+        output: Option<PathBuf>,
+        /// Go ahead although comments below the top of the file will not be kept.
+        #[arg(long)]
+        drop_comments: bool,
     },
     /// Print a built-in demo scene as RON, or list them.
     Demo {
@@ -228,6 +247,43 @@ fn run() -> anyhow::Result<ExitCode> {
             print!("{}", plateload::export::trace::trace_text(&scene, &analysis, plate));
             Ok(ExitCode::SUCCESS)
         }
+        Command::Catalogue { scene } => {
+            let loaded = plateload::scene::catalogue::load_for(scene.as_deref());
+            println!("component catalogue: shipped with plateload{}", loaded.files.iter().map(|f| format!(" + {}", f.display())).collect::<String>());
+            if let Some(config) = plateload::scene::catalogue::config_path().filter(|p| !p.exists()) {
+                println!("(your own entries go in {}, or in catalogue.ron beside a scene)", config.display());
+            }
+            println!();
+            print!("{}", plateload::scene::catalogue::list_text(&loaded.catalogue));
+            for n in &loaded.notes {
+                println!("note: {n}");
+            }
+            for p in &loaded.problems {
+                eprintln!("problem: {p}");
+            }
+            Ok(if loaded.problems.is_empty() { ExitCode::SUCCESS } else { ExitCode::from(EXIT_INVALID) })
+        }
+        Command::Rewrite { file, output, drop_comments } => {
+            let text = std::fs::read_to_string(&file).with_context(|| format!("reading {}", file.display()))?;
+            let later = io::comments_after_header(&text);
+            if !later.is_empty() && !drop_comments {
+                let lines: Vec<String> = later.iter().map(|l| l.to_string()).collect();
+                anyhow::bail!(
+                    "{}: the comments on line(s) {} would not be kept (only those at the top of the file are); move them to the top, or pass --drop-comments",
+                    file.display(),
+                    lines.join(", ")
+                );
+            }
+            let out = io::rewrite_scene(&text, &file.display().to_string())?;
+            match output {
+                Some(path) => {
+                    io::write_atomic(&path, out.as_bytes()).with_context(|| format!("writing {}", path.display()))?;
+                    eprintln!("wrote {}", path.display());
+                }
+                None => print!("{out}"),
+            }
+            Ok(ExitCode::SUCCESS)
+        }
         Command::Demo { name } => {
             let demos = plateload::scene::demo::DEMO_SCENES;
             match name {
@@ -324,12 +380,12 @@ fn solve_text(a: &Analysis) -> String {
     }
     let _ = writeln!(s, " {:>7} {:>9} {:>12}  {:<11} method (for max)", "util %", "kPa", "governs", "status");
     for (i, p) in a.plates.iter().enumerate() {
-        let _ = write!(s, "{:<10} {:>8.3} {:>8.3} {:>9.3} {:>9.3} {:>9.3}", p.id, p.x, p.y, p.case_kn[0], p.case_kn[1], p.case_kn[2]);
+        let _ = write!(s, "{:<10} {:>8.3} {:>8.3} {:>9.3} {:>9.3} {:>9.3}", p.id, num(p.x), num(p.y), num(p.case_kn[0]), num(p.case_kn[1]), num(p.case_kn[2]));
         for c in &p.combinations {
-            let _ = write!(s, " {:>10.3}/{:<10.3}", c.max_kn, c.min_kn);
+            let _ = write!(s, " {:>10.3}/{:<10.3}", num(c.max_kn), num(c.min_kn));
         }
         let g = p.governing();
-        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<11} {}", 100.0 * g.utilisation, g.bearing_kpa, a.combinations[p.governing].name, p.status.label(), a.governing_method_label(i));
+        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<11} {}", num(100.0 * g.utilisation), num(g.bearing_kpa), a.combinations[p.governing].name, p.status.label(), a.governing_method_label(i));
     }
     let on_structures: Vec<String> = a.plates.iter().filter_map(|p| p.on_structure.as_ref().map(|e| format!("{} on {e}", p.id))).collect();
     if !on_structures.is_empty() {
@@ -343,9 +399,9 @@ fn solve_text(a: &Analysis) -> String {
         }
         let _ = writeln!(s, "  status");
         for l in &a.lifts {
-            let _ = write!(s, "{:<10} {:<28} {:>9.3} {:>9.3} {:>9.3}", l.id, l.stands_on, tidy(l.case_kn[0]), tidy(l.case_kn[1]), tidy(l.case_kn[2]));
+            let _ = write!(s, "{:<10} {:<28} {:>9.3} {:>9.3} {:>9.3}", l.id, l.stands_on, num(l.case_kn[0]), num(l.case_kn[1]), num(l.case_kn[2]));
             for c in &l.combinations {
-                let _ = write!(s, " {:>10.3}/{:<10.3}", tidy(c.max_kn), tidy(c.min_kn));
+                let _ = write!(s, " {:>10.3}/{:<10.3}", num(c.max_kn), num(c.min_kn));
             }
             let status = if l.status.uplift { "PULLS UP: tie it down or prop it" } else if l.status.over { "OVER its support's safe working load" } else { "OK" };
             let _ = writeln!(s, "  {status}");
@@ -355,7 +411,7 @@ fn solve_text(a: &Analysis) -> String {
         let p = &a.plates[w];
         let g = p.governing();
         let by = if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" };
-        let _ = writeln!(s, "\nworst base: {} at {:.1}% ({by}, {})", p.id, 100.0 * g.utilisation, a.combinations[p.governing].name);
+        let _ = writeln!(s, "\nworst base: {} at {:.1}% ({by}, {})", p.id, num(100.0 * g.utilisation), a.combinations[p.governing].name);
         for note in a.arrangements_at(w) {
             let _ = writeln!(s, "  arrangement at {}: {}", p.id, note.words());
         }
@@ -386,8 +442,8 @@ fn solve_text(a: &Analysis) -> String {
                 "  {}{tag}: support by support, each two-span model balances (relative {:.1e}); its reactions ({:.3} kN) exceed the applied {:.3} kN by design",
                 e.case,
                 e.relative,
-                tidy(e.reactions.force[2]),
-                tidy(e.applied.down())
+                num(e.reactions.force[2]),
+                num(e.applied.down())
             );
             continue;
         }
@@ -395,26 +451,26 @@ fn solve_text(a: &Analysis) -> String {
             s,
             "  {}{tag}: applied {:>10.3} kN down, reactions {:>10.3} kN up, |ΣF| {:.1e} kN, |ΣM| {:.1e} kN·m, relative {:.1e}",
             e.case,
-            tidy(e.applied.down()),
-            tidy(e.reactions.force[2]),
-            e.force_residual_kn,
-            e.moment_residual_knm,
-            e.relative
+            num(e.applied.down()),
+            num(e.reactions.force[2]),
+            num(e.force_residual_kn),
+            num(e.moment_residual_knm),
+            num(e.relative)
         );
     }
     let horizontal = a.horizontal_base_shear();
     if !horizontal.is_empty() {
         let _ = writeln!(s, "base shear under each horizontal load (plates on the structure, kN):");
         for (id, case, [x, y]) in horizontal {
-            let _ = writeln!(s, "  {id} ({case}): ({:.3}, {:.3}), {:.3} kN", tidy(x), tidy(y), x.hypot(y));
+            let _ = writeln!(s, "  {id} ({case}): ({:.3}, {:.3}), {:.3} kN", num(x), num(y), num(x.hypot(y)));
         }
     }
     let st = &a.stability;
-    let _ = write!(s, "\nstability: permanent load {:.3} kN", st.permanent_kn);
+    let _ = write!(s, "\nstability: permanent load {:.3} kN", num(st.permanent_kn));
     if let Some((x, y)) = st.centre_of_gravity {
-        let _ = write!(s, ", centre of gravity ({x:.3}, {y:.3})");
+        let _ = write!(s, ", centre of gravity ({:.3}, {:.3})", num(x), num(y));
     }
-    let _ = writeln!(s, ", target factor {:.2}", st.target_factor);
+    let _ = writeln!(s, ", target factor {:.2}", num(st.target_factor));
     for d in &st.directions {
         match d.factor {
             None => {
@@ -422,14 +478,18 @@ fn solve_text(a: &Analysis) -> String {
             }
             Some(f) => {
                 let k = match d.kentledge_kn {
-                    Some(k) if k > 0.0 => format!("needs {k:.2} kN kentledge over the opposite edge"),
+                    Some(k) if k > 0.0 => format!("needs {:.2} kN kentledge over the opposite edge", num(k)),
                     Some(_) => "meets the target".into(),
                     None => "no base width to add kentledge on".into(),
                 };
                 let _ = writeln!(
                     s,
                     "  tipping {} about edge {:.3} m: restoring {:.3} kN·m / overturning {:.3} kN·m = {:.2}; {k}",
-                    d.direction, d.edge_m, d.restoring_knm, d.overturning_knm, f
+                    d.direction,
+                    num(d.edge_m),
+                    num(d.restoring_knm),
+                    num(d.overturning_knm),
+                    num(f)
                 );
             }
         }
@@ -441,11 +501,6 @@ fn solve_text(a: &Analysis) -> String {
         }
     }
     s
-}
-
-/// A value for printing: rounding noise around zero shown as 0.
-fn tidy(v: f64) -> f64 {
-    if v.abs() < 5e-10 { 0.0 } else { v }
 }
 
 #[cfg(feature = "viewer")]

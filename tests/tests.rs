@@ -9,6 +9,8 @@ mod solve;
 mod check;
 // Scene files: syntax errors with positions, round trips, atomic saves.
 mod io;
+// The component catalogue: shipped values against their sources, user catalogues, loader errors.
+mod catalogue;
 // Loads through lifts: spliced standards, transfer members, existing structures.
 mod lifts;
 // Imposed loads in their worst arrangement.

@@ -309,7 +309,7 @@ mod tests {
     use crate::scene::model::{GranularLayer, LoadSpread, PlateSize};
 
     fn support(sole: Option<PlateSize>) -> SupportType {
-        SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: sole, head_moment_capacity_knm: None }
+        SupportType::new("S", PlateSize { width_m: 0.15, length_m: 0.15 }, 30.0, sole)
     }
 
     #[test]

@@ -106,9 +106,10 @@ pub fn oklab_to_srgb([l, a, b]: [f64; 3]) -> [u8; 3] {
 pub enum Cue {
     /// Nothing extra.
     None,
-    /// Over capacity: drawn with a bold contrasting outline / cross-hatch.
+    /// Over capacity: a bold square frame around the plate (in print also a cross-hatch).
     Over,
-    /// The plate lifts: drawn with an upward marker.
+    /// The plate lifts: a bold round ring around the plate, with an upward marker (a raised
+    /// cone in the 3D view).
     Uplift,
     /// Both.
     OverAndUplift,

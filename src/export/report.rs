@@ -175,8 +175,7 @@ fn base64(bytes: &[u8]) -> String {
 
 /// A number with `dp` decimals, never written as `-0.00`.
 fn num(v: f64, dp: usize) -> String {
-    let s = format!("{v:.dp$}");
-    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') { s[1..].to_owned() } else { s }
+    format!("{:.dp$}", crate::format::num(v))
 }
 
 /// kN to two decimals.
@@ -191,7 +190,7 @@ fn pct(v: f64) -> String {
 
 /// A relative residual in scientific notation.
 fn sci(v: f64) -> String {
-    format!("{v:.1e}")
+    format!("{:.1e}", crate::format::num(v))
 }
 
 fn hex([r, g, b]: [u8; 3]) -> String {
@@ -417,14 +416,21 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
 
     let _ = writeln!(
         h,
-        "<h3>Support types</h3><table><thead><tr><th>Id</th><th>Base plate (mm)</th><th>Sole plate (mm)</th><th class=\"n\">SWL (kN)</th><th class=\"n\">Bearing area at formation (m²)</th><th class=\"n\">Plates</th></tr></thead><tbody>"
+        "<h3>Support types</h3><table><thead><tr><th>Id</th><th>Base plate (mm)</th><th>Sole plate (mm)</th><th class=\"n\">SWL (kN)</th><th>Source of the SWL</th><th class=\"n\">Bearing area at formation (m²)</th><th class=\"n\">Plates</th></tr></thead><tbody>"
     );
     for s in &scene.support_types {
         let mm = |p: crate::scene::model::PlateSize| format!("{} × {}", num(p.width_m * 1000.0, 0), num(p.length_m * 1000.0, 0));
         let used = a.plates.iter().filter(|p| p.support == s.id).count();
+        let mut source = if s.source.trim().is_empty() { "not given".to_owned() } else { esc(&s.source) };
+        if let Some(e) = s.max_extension_m {
+            source = format!("up to {} m jack extension; {source}", num(e, 2));
+        }
+        if crate::scene::catalogue::uses_example_values(s) {
+            source = format!("<span class=\"bad\">EXAMPLE VALUE — replace with the manufacturer's</span>; {source}");
+        }
         let _ = writeln!(
             h,
-            "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{used}</td></tr>",
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"n\">{}</td><td>{source}</td><td class=\"n\">{}</td><td class=\"n\">{used}</td></tr>",
             esc(&s.id),
             mm(s.base_plate),
             s.sole_plate.map_or_else(|| "none".into(), mm),
@@ -564,13 +570,21 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
     let scale = ((WIDTH - 2.0 * MARGIN - label_room) / dx).min(900.0 / dy);
     let view = View { scale, x0, y1: y0 + dy, margin: MARGIN, top: TOP };
     let labels: Vec<Vec<String>> = a.plates.iter().map(plate_label).collect();
-    // Drawn plate rectangles (centre x, centre y, half width, half length), drawing units.
+    // Drawn plate footprints (centre x, centre y, half width, half length), drawing units: the
+    // plate rectangle, or the square round its uplift ring, so labels keep clear of both.
     let rects: Vec<[f64; 4]> = a
         .plates
         .iter()
         .map(|p| {
             let (w, l) = plate_size(p);
-            [view.x(p.x), view.y(p.y), (w * scale).max(MIN_PLATE) / 2.0, (l * scale).max(MIN_PLATE) / 2.0]
+            let (hw, hl) = ((w * scale).max(MIN_PLATE) / 2.0, (l * scale).max(MIN_PLATE) / 2.0);
+            let cue = Cue::of(p.status);
+            if matches!(cue, Cue::Uplift | Cue::OverAndUplift) {
+                let r = uplift_ring_radius(hw, hl, cue == Cue::OverAndUplift) + 1.5;
+                [view.x(p.x), view.y(p.y), r, r]
+            } else {
+                [view.x(p.x), view.y(p.y), hw, hl]
+            }
         })
         .collect();
     let font = label_font(&rects, &labels);
@@ -644,7 +658,7 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
     }
     // Plates at scale (never smaller than MIN_PLATE units), coloured by band, with cues.
     let mut enlarged = false;
-    for (p, label) in a.plates.iter().zip(&labels) {
+    for ((p, label), rect) in a.plates.iter().zip(&labels).zip(&rects) {
         let g = p.governing();
         let band = Band::of(g.utilisation);
         let cue = Cue::of(p.status);
@@ -670,7 +684,8 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
             hex(band.colour())
         );
         if over {
-            // Second cue for over capacity: white cross-hatch and a bold outline ring.
+            // Second cue for over capacity: white cross-hatch and a bold square frame (the
+            // editor's cue too; a round ring means uplift).
             let _ = write!(
                 s,
                 "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"url(#hatch)\"/><rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"none\" stroke=\"#000\" stroke-width=\"3.5\"/>",
@@ -685,8 +700,17 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
             );
         }
         if uplift {
-            // Second cue for uplift: an upward marker above the plate.
-            let (tx, ty) = (cx, ry - 8.0);
+            // Second cue for uplift: a bold round ring around the plate (as in the editor) and
+            // an upward marker above it.
+            let ring = uplift_ring_radius(pw / 2.0, pl / 2.0, over);
+            let _ = write!(
+                s,
+                "<circle cx=\"{}\" cy=\"{}\" r=\"{}\" fill=\"none\" stroke=\"#000\" stroke-width=\"3\"/>",
+                num(cx, 1),
+                num(cy, 1),
+                num(ring, 1)
+            );
+            let (tx, ty) = (cx, cy - ring - 2.0);
             let k = font * 0.8;
             let _ = write!(
                 s,
@@ -703,7 +727,7 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
                 num(ty, 1)
             );
         }
-        let lx = cx + pw / 2.0 + 4.0;
+        let lx = rect[0] + rect[2] + 4.0;
         let ly = cy - font * 0.55;
         let _ = write!(
             s,
@@ -776,6 +800,12 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
 
 /// Box of a plate's label at font size `f`: to the right of the plate, starting a little above
 /// its centre. Characters are taken as 0.62 em wide (a little over the average of sans faces).
+/// Radius of the ring drawn round a lifting plate of half sizes `hw` × `hl`: clear of its
+/// corners, and of the square frame when the plate is over capacity too.
+fn uplift_ring_radius(hw: f64, hl: f64, over: bool) -> f64 {
+    hw.hypot(hl) + if over { 9.0 } else { 4.5 }
+}
+
 fn label_box(r: &[f64; 4], label: &[String], f: f64) -> [f64; 4] {
     let chars = label.iter().map(|t| t.chars().count()).max().unwrap_or(1) as f64;
     let lines = label.len() as f64;
@@ -855,8 +885,8 @@ fn legend() -> String {
     let over = hex(Band::Over.colour());
     let _ = write!(
         l,
-        "<span><svg width=\"26\" height=\"18\" viewBox=\"0 0 26 18\"><defs><pattern id=\"lh\" width=\"5\" height=\"5\" patternUnits=\"userSpaceOnUse\"><path d=\"M0 0L5 5M5 0L0 5\" stroke=\"#fff\" stroke-width=\"1\"/></pattern></defs><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"{over}\"/><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"url(#lh)\"/><rect x=\"2\" y=\"1\" width=\"22\" height=\"16\" fill=\"none\" stroke=\"#000\" stroke-width=\"2.5\"/></svg>over capacity: hatched, bold ring</span>\
-<span><svg width=\"18\" height=\"18\" viewBox=\"0 0 18 18\"><path d=\"M9 1L3 9L15 9z\" fill=\"#fff\" stroke=\"#000\" stroke-width=\"1.6\"/><line x1=\"9\" y1=\"9\" x2=\"9\" y2=\"17\" stroke=\"#000\" stroke-width=\"1.6\"/></svg>uplift: upward marker</span></div>"
+        "<span><svg width=\"26\" height=\"18\" viewBox=\"0 0 26 18\"><defs><pattern id=\"lh\" width=\"5\" height=\"5\" patternUnits=\"userSpaceOnUse\"><path d=\"M0 0L5 5M5 0L0 5\" stroke=\"#fff\" stroke-width=\"1\"/></pattern></defs><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"{over}\"/><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"url(#lh)\"/><rect x=\"2\" y=\"1\" width=\"22\" height=\"16\" fill=\"none\" stroke=\"#000\" stroke-width=\"2.5\"/></svg>over capacity: hatched, square frame</span>\
+<span><svg width=\"30\" height=\"30\" viewBox=\"0 0 30 30\"><circle cx=\"15\" cy=\"18\" r=\"10\" fill=\"none\" stroke=\"#000\" stroke-width=\"2\"/><rect x=\"11\" y=\"15\" width=\"8\" height=\"6\" fill=\"#fff\" stroke=\"#222\" stroke-width=\"0.8\"/><path d=\"M15 0L11 5L19 5z\" fill=\"#fff\" stroke=\"#000\" stroke-width=\"1.4\"/><line x1=\"15\" y1=\"5\" x2=\"15\" y2=\"8\" stroke=\"#000\" stroke-width=\"1.4\"/></svg>lifts (uplift): round ring, upward marker</span></div>"
     );
     l
 }

@@ -3,6 +3,7 @@
 use std::fmt::Write;
 
 use crate::check::analysis::Analysis;
+use crate::format::num;
 use crate::solve::beam::Piece;
 use crate::scene::loads::Case;
 use crate::scene::model::Scene;
@@ -47,7 +48,7 @@ fn role(r: crate::scene::model::BeamRole) -> &'static str {
 pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
     let p = &analysis.plates[plate];
     let mut out = String::new();
-    let _ = writeln!(out, "Base {} at ({:.3}, {:.3}), base level {:.3} m, support {}", p.id, p.x, p.y, p.base_level, p.support);
+    let _ = writeln!(out, "Base {} at ({:.3}, {:.3}), base level {:.3} m, support {}", p.id, num(p.x), num(p.y), num(p.base_level), p.support);
     if let Some(e) = &p.on_structure {
         let _ = writeln!(out, "  on existing structure {e}: this plate's load is for the permanent-works designer");
     }
@@ -76,20 +77,20 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
     }
     let case_kn = p.case_kn_by_method.get(m).copied().unwrap_or(p.case_kn);
     for c in Case::ALL {
-        let _ = writeln!(out, "  total {}: {:.3} kN (plate load {:.3} kN)", c, totals[c.index()], case_kn[c.index()]);
+        let _ = writeln!(out, "  total {}: {:.3} kN (plate load {:.3} kN)", c, num(totals[c.index()]), num(case_kn[c.index()]));
     }
     for (k, cases) in p.case_kn_by_method.iter().enumerate().filter(|&(k, _)| k != m) {
-        let _ = writeln!(out, "  under {}: G {:.3} kN, Q {:.3} kN, W {:.3} kN", analysis.method_label(k), cases[0], cases[1], cases[2]);
+        let _ = writeln!(out, "  under {}: G {:.3} kN, Q {:.3} kN, W {:.3} kN", analysis.method_label(k), num(cases[0]), num(cases[1]), num(cases[2]));
     }
     for (comb, r) in analysis.combinations.iter().zip(&p.combinations) {
         let _ = write!(
             out,
             "  {:<12} max {:>9.3} kN  min {:>9.3} kN  utilisation {:>6.1}%  bearing {:>7.1} kPa  {}",
             comb.name,
-            r.max_kn,
-            r.min_kn,
-            100.0 * r.utilisation,
-            r.bearing_kpa,
+            num(r.max_kn),
+            num(r.min_kn),
+            num(100.0 * r.utilisation),
+            num(r.bearing_kpa),
             r.status
         );
         if methods > 1 && !p.methods_agree {
@@ -143,7 +144,7 @@ fn cell_words(scene: &Scene, place: &crate::solve::CellPlace) -> String {
 /// One share, and where a share from a post above came from in turn, indented by `depth`.
 fn write_share(out: &mut String, scene: &Scene, shares: &[&Contribution], c: &Contribution, depth: usize) {
     let pad = "  ".repeat(depth);
-    let _ = writeln!(out, "{pad}{:>10.3} kN  via {}", c.kn, route_words(scene, c.route));
+    let _ = writeln!(out, "{pad}{:>10.3} kN  via {}", num(c.kn), route_words(scene, c.route));
     let from = match c.route {
         Route::Lift { from } | Route::Transfer { from, .. } => from,
         _ => return,

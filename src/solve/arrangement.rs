@@ -256,7 +256,7 @@ impl Solver<'_, '_> {
         }
         if !many.is_empty() {
             // Cell by cell for the posts reached through more than one bearer of the load.
-            let index: crate::fxhash::FxMap<u32, usize> = many.iter().enumerate().map(|(i, &p)| (p, i)).collect();
+            let index: rustc_hash::FxHashMap<u32, usize> = many.iter().enumerate().map(|(i, &p)| (p, i)).collect();
             // t[m][k * nj + j]: effect at post many[m] of the unit flow (k, j).
             let mut t = vec![vec![0.0; nk * nj]; many.len()];
             for (f, flow) in flows.iter().enumerate() {
@@ -424,7 +424,7 @@ impl Solver<'_, '_> {
 
 /// Unit flows of bearers standing on base plates only, kept from pass to pass: keyed by bearer,
 /// its behaviour in the pass, and the stretch loaded.
-pub(super) type FlowCache = crate::fxhash::FxMap<(u32, crate::solve::passes::Behaviour, u64, u64), CachedFlow>;
+pub(super) type FlowCache = rustc_hash::FxHashMap<(u32, crate::solve::passes::Behaviour, u64, u64), CachedFlow>;
 
 /// One kept unit flow.
 pub(super) struct CachedFlow {
