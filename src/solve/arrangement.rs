@@ -53,9 +53,9 @@ pub(super) struct ArrangedTee {
 }
 
 /// What one unit flow put on the posts.
-struct Flow {
+pub(super) struct Flow {
     /// Range of its entries in the flat buffer.
-    entries: std::ops::Range<usize>,
+    pub(super) entries: std::ops::Range<usize>,
     /// Σ reaction, Σ x·reaction, Σ y·reaction over the base plates.
     sums: [f64; 3],
     /// Unbalanced moments of single-post bearers reached: (bearer, moment).
@@ -366,20 +366,34 @@ impl Solver<'_, '_> {
 
     /// A unit line load (1 kN/m) on bearer `b` from `from` to `to`, carried down: its effect on
     /// every post it reaches (plate reactions and loads passed on), appended to `buffer`.
-    fn unit_flow(&mut self, b: usize, from: f64, to: f64, buffer: &mut Vec<(u32, f64)>) -> Flow {
+    pub(super) fn unit_flow(&mut self, b: usize, from: f64, to: f64, buffer: &mut Vec<(u32, f64)>) -> Flow {
+        self.load_flow(b, BeamLoad::Uniform { from, to, w: 1.0 }, buffer)
+    }
+
+    /// `unit` (a point or line load) on bearer `b`, carried down: its effect on every post it
+    /// reaches, appended to `buffer`.
+    pub(super) fn load_flow(&mut self, b: usize, unit: BeamLoad, buffer: &mut Vec<(u32, f64)>) -> Flow {
         let start = buffer.len();
-        let unit = BeamLoad::Uniform { from, to, w: 1.0 };
+        // The flow is linear in the load: kept per unit of it, keyed by where it acts.
+        let (kind, a, z, size) = match unit {
+            BeamLoad::Point { at, p } => (0u8, at, at, p),
+            BeamLoad::Uniform { from, to, w } => (1u8, from, to, w),
+        };
+        let unit = match unit {
+            BeamLoad::Point { at, .. } => BeamLoad::Point { at, p: 1.0 },
+            BeamLoad::Uniform { from, to, .. } => BeamLoad::Uniform { from, to, w: 1.0 },
+        };
         let model = self.model;
         let line = &model.bearers[b];
         let mut tee = Vec::new();
         let direct = line.posts.iter().all(|&p| model.graph.is_plate(p));
         // A bearer on base plates only gives the same flow in every pass where it behaves the
         // same way: kept for the next pass.
-        let key = (b as u32, self.bearer_behaviour[b], from.to_bits(), to.to_bits());
+        let key = (b as u32, self.bearer_behaviour[b], kind, a.to_bits(), z.to_bits());
         if direct {
             if let Some(cached) = self.flow_cache.get(&key) {
-                buffer.extend_from_slice(&cached.entries);
-                return Flow { entries: start..buffer.len(), sums: cached.sums, tee: cached.tee.clone() };
+                buffer.extend(cached.entries.iter().map(|&(p, v)| (p, v * size)));
+                return Flow { entries: start..buffer.len(), sums: cached.sums.map(|v| v * size), tee: cached.tee.iter().map(|&(b, m)| (b, m * size)).collect() };
             }
         }
         if direct {
@@ -418,13 +432,18 @@ impl Solver<'_, '_> {
         if direct {
             self.flow_cache.insert(key, CachedFlow { entries: buffer[start..].to_vec(), sums, tee: tee.clone() });
         }
+        if size != 1.0 {
+            buffer[start..].iter_mut().for_each(|e| e.1 *= size);
+            sums = sums.map(|v| v * size);
+            tee.iter_mut().for_each(|t| t.1 *= size);
+        }
         Flow { entries: start..buffer.len(), sums, tee }
     }
 }
 
 /// Unit flows of bearers standing on base plates only, kept from pass to pass: keyed by bearer,
-/// its behaviour in the pass, and the stretch loaded.
-pub(super) type FlowCache = rustc_hash::FxHashMap<(u32, crate::solve::passes::Behaviour, u64, u64), CachedFlow>;
+/// its behaviour in the pass, and the point or stretch loaded.
+pub(super) type FlowCache = rustc_hash::FxHashMap<(u32, crate::solve::passes::Behaviour, u8, u64, u64), CachedFlow>;
 
 /// One kept unit flow.
 pub(super) struct CachedFlow {
