@@ -108,6 +108,7 @@ fn bad_settings_are_refused_with_a_clear_message() {
     refuse(SpareSettings { footprint: Footprint { x_m: 1.0, y_m: 0.0 }, ..Default::default() }, "footprint must be a point");
     refuse(SpareSettings { footprint: Footprint { x_m: 5.0, y_m: 5.0 }, decks: vec!["D".into()], ..Default::default() }, "does not fit on deck D");
     refuse(SpareSettings { decks: vec!["Nope".into()], ..Default::default() }, "deck \"Nope\" does not exist");
+    refuse(SpareSettings { footprint: Footprint { x_m: 5.0, y_m: 5.0 }, ..Default::default() }, "does not fit on any deck");
     refuse(SpareSettings { combinations: vec!["factored".into()], ..Default::default() }, "none of factored");
     refuse(SpareSettings { dynamic_factor: 0.5, ..Default::default() }, "dynamic factor");
     let mut t = s.clone();

@@ -187,6 +187,13 @@ pub fn spare_map(scene: &Scene, analysis: &Analysis, settings: &SpareSettings) -
             return Err(SpareError::Setting(format!("the footprint {} × {} m does not fit on deck {}", fp.x_m, fp.y_m, deck.id)));
         }
     }
+    if decks.is_empty() {
+        return Err(SpareError::Setting(if scene.decks.is_empty() {
+            "the scene has no deck to place a load on".to_owned()
+        } else {
+            format!("the footprint {} × {} m does not fit on any deck", fp.x_m, fp.y_m)
+        }));
+    }
     let mut not_checked: Vec<String> = scene.bearers.iter().map(|b| format!("{} {}", role_word(b.role), b.id)).collect();
     not_checked.extend(scene.decks.iter().filter(|d| deck_class(scene, d).is_none()).map(|d| format!("deck {}", d.id)));
     Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked })
