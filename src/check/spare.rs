@@ -14,8 +14,7 @@
 use crate::check::analysis::Analysis;
 use crate::scene::loads::{Intensity, LoadClass, LoadKind};
 use crate::scene::model::Scene;
-use crate::scene::validate::Model;
-use crate::solve::influence::{deck_influence, DeckInfluence, Footprint};
+use crate::solve::influence::{deck_influences, DeckInfluence, Footprint};
 
 /// Influence coefficients smaller than this (kN per kN) are rounding, not load: a plate far along
 /// a continuous member gets 1e-12 of a load, which must not let an over-capacity plate there
@@ -145,8 +144,31 @@ pub struct SpareMap {
     pub not_checked: Vec<String>,
 }
 
-/// Work out the spare-capacity map of an analysed scene.
-pub fn spare_map(scene: &Scene, analysis: &Analysis, settings: &SpareSettings) -> Result<SpareMap, SpareError> {
+/// The influence coefficients behind a map, per deck and method pass. They depend on the
+/// structure, the footprint and the grid only, not on the loads: after an edit of loads alone,
+/// the map can be worked out again from the same coefficients ([`spare_map_from`]).
+#[derive(Debug, Clone)]
+pub struct SpareInfluences {
+    footprint: Footprint,
+    spacing_m: f64,
+    /// The method passes they were worked out for, by label.
+    methods: Vec<String>,
+    /// Per deck in scene order: per method pass, or `None` where the footprint does not fit.
+    decks: Vec<Option<Vec<DeckInfluence>>>,
+}
+
+impl SpareInfluences {
+    /// Whether these coefficients are for the same footprint, grid and method passes.
+    pub fn fits(&self, analysis: &Analysis, settings: &SpareSettings) -> bool {
+        self.footprint == settings.footprint
+            && self.spacing_m == settings.spacing_m
+            && self.methods.len() == analysis.method_count()
+            && self.methods.iter().enumerate().all(|(m, l)| l == analysis.method_label(m))
+    }
+}
+
+/// Check the settings against the scene and its analysis: the combinations to check.
+fn checked(scene: &Scene, analysis: &Analysis, settings: &SpareSettings) -> Result<Vec<usize>, SpareError> {
     if !(settings.spacing_m.is_finite() && settings.spacing_m >= 0.01) {
         return Err(SpareError::Setting(format!("grid spacing must be at least 0.01 m (it is {} m)", settings.spacing_m)));
     }
@@ -175,16 +197,53 @@ pub fn spare_map(scene: &Scene, analysis: &Analysis, settings: &SpareSettings) -
             return Err(SpareError::Setting(format!("deck \"{name}\" does not exist")));
         }
     }
+    Ok(combos)
+}
+
+/// Work out the influence coefficients of the decks a map covers.
+pub fn spare_influences(scene: &Scene, analysis: &Analysis, settings: &SpareSettings) -> Result<SpareInfluences, SpareError> {
+    checked(scene, analysis, settings)?;
     let model = crate::validate(scene).map_err(|e| SpareError::Setting(e.to_string()))?;
+    let passes: Vec<crate::solve::MethodPass> = (0..analysis.method_count()).map(|m| analysis.method(m).clone()).collect();
+    let decks = (0..scene.decks.len())
+        .map(|d| {
+            let wanted = settings.decks.is_empty() || settings.decks.contains(&scene.decks[d].id);
+            wanted.then(|| deck_influences(&model, &passes, d, settings.footprint, settings.spacing_m).into_iter().collect::<Option<Vec<_>>>()).flatten()
+        })
+        .collect();
+    Ok(SpareInfluences {
+        footprint: settings.footprint,
+        spacing_m: settings.spacing_m,
+        methods: (0..analysis.method_count()).map(|m| analysis.method_label(m).to_owned()).collect(),
+        decks,
+    })
+}
+
+/// Work out the spare-capacity map of an analysed scene.
+pub fn spare_map(scene: &Scene, analysis: &Analysis, settings: &SpareSettings) -> Result<SpareMap, SpareError> {
+    let influences = spare_influences(scene, analysis, settings)?;
+    spare_map_from(scene, analysis, settings, &influences)
+}
+
+/// Work out the map from influence coefficients worked out before for the same structure,
+/// footprint and grid ([`spare_influences`]): what is left to do after an edit of loads alone.
+pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettings, influences: &SpareInfluences) -> Result<SpareMap, SpareError> {
+    let combos = checked(scene, analysis, settings)?;
+    let fp = settings.footprint;
+    if !influences.fits(analysis, settings) || influences.decks.len() != scene.decks.len() {
+        return Err(SpareError::Setting("the influence coefficients are for another structure, footprint or grid: work them out again".into()));
+    }
     let mut decks = Vec::new();
     for (d, deck) in scene.decks.iter().enumerate() {
         if !settings.decks.is_empty() && !settings.decks.contains(&deck.id) {
             continue;
         }
-        if let Some(map) = deck_map(scene, &model, analysis, d, settings, &combos) {
-            decks.push(map);
-        } else if !settings.decks.is_empty() {
-            return Err(SpareError::Setting(format!("the footprint {} × {} m does not fit on deck {}", fp.x_m, fp.y_m, deck.id)));
+        match &influences.decks[d] {
+            Some(per_pass) => decks.push(deck_map(scene, analysis, d, settings, &combos, per_pass)),
+            None if !settings.decks.is_empty() => {
+                return Err(SpareError::Setting(format!("the footprint {} × {} m does not fit on deck {}", fp.x_m, fp.y_m, deck.id)));
+            }
+            None => {}
         }
     }
     if decks.is_empty() {
@@ -250,14 +309,12 @@ struct Room {
     uplift: Vec<Option<f64>>,
 }
 
-fn deck_map(scene: &Scene, model: &Model, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize]) -> Option<DeckSpare> {
+fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], per_pass: &[DeckInfluence]) -> DeckSpare {
     let deck = &scene.decks[d];
     let n_posts = scene.posts.len();
     let mut grid: Option<Vec<Best>> = None;
     let mut shape = (0, 0);
-    let mut first: Option<DeckInfluence> = None;
-    for m in 0..analysis.method_count() {
-        let inf = deck_influence(model, analysis.method(m), d, settings.footprint, settings.spacing_m)?;
+    for (m, inf) in per_pass.iter().enumerate() {
         let (rows, cols) = (inf.across.len(), inf.along.len());
         shape = (rows, cols);
         let best = grid.get_or_insert_with(|| vec![Best::NONE; rows * cols]);
@@ -289,13 +346,20 @@ fn deck_map(scene: &Scene, model: &Model, analysis: &Analysis, d: usize, setting
                     }
                 }
             }
+            // The least ratio over the bearers of each column: no bearer can give less than that
+            // over its share, so bearers are taken largest share first and the rest skipped once
+            // their share cannot beat the value found.
+            let least: Vec<f64> = (0..cols).map(|j| (0..nk).flat_map(|k| by_sign[k * cols + j]).map(|b| b.kn).fold(f64::INFINITY, f64::min)).collect();
+            let mut shares: Vec<(usize, f64)> = Vec::with_capacity(nk);
             for i in 0..rows {
+                shares.clear();
+                shares.extend(inf.d[i].iter().copied().enumerate().filter(|(_, dk)| dk.abs() >= INFLUENCE_FLOOR));
+                shares.sort_unstable_by(|a, b| b.1.abs().total_cmp(&a.1.abs()));
                 for j in 0..cols {
                     let mut here = Best::NONE;
-                    for k in 0..nk {
-                        let dk = inf.d[i][k];
-                        if dk.abs() < INFLUENCE_FLOOR {
-                            continue;
+                    for &(k, dk) in &shares {
+                        if least[j] / dk.abs() >= here.kn {
+                            break;
                         }
                         let b = by_sign[k * cols + j][if dk > 0.0 { 0 } else { 1 }];
                         if b.kn.is_finite() {
@@ -315,16 +379,14 @@ fn deck_map(scene: &Scene, model: &Model, analysis: &Analysis, d: usize, setting
                 }
             }
         }
-        if first.is_none() {
-            first = Some(inf);
-        }
     }
-    let inf = first?;
-    let mut grid = grid?;
+    let inf = &per_pass[0];
+    let mut grid = grid.unwrap_or_default();
     let (rows, cols) = shape;
     // The deck's own capacity under the footprint: the most its load class allows there, less
     // the imposed load already on it.
     let class = deck_class(scene, deck).and_then(LoadClass::get);
+    let models = class.map(|c| class_models(c, settings.footprint)).unwrap_or_default();
     let mut points = Vec::with_capacity(rows * cols);
     for i in 0..rows {
         for j in 0..cols {
@@ -342,25 +404,25 @@ fn deck_map(scene: &Scene, model: &Model, analysis: &Analysis, d: usize, setting
                 Limit::None
             };
             let mut already = b.already;
-            if let Some(class) = class {
+            if !models.is_empty() {
                 // The class's load models are alternatives: the one that leaves the most room.
-                let (room, what) = class_models(class, settings.footprint)
-                    .into_iter()
-                    .map(|(allowed, over, what)| (allowed - existing_imposed(scene, d, x, y, over), what))
+                let (room, what) = models
+                    .iter()
+                    .map(|(allowed, over, what)| (allowed - existing_imposed(scene, d, x, y, *over), what))
                     .max_by(|a, b| a.0.total_cmp(&b.0))
                     .expect("q1 is always a model");
                 let deck_kn = room.max(0.0) / settings.dynamic_factor;
                 if deck_kn < kn {
                     kn = deck_kn;
                     already = room <= 0.0;
-                    limit = Limit::Deck { what };
+                    limit = Limit::Deck { what: what.clone() };
                 }
             }
             grid[i * cols + j].kn = kn;
             points.push(SparePoint { x, y, kn: kn.is_finite().then_some(kn.max(0.0)), already_at_limit: already, limit });
         }
     }
-    Some(DeckSpare { deck: deck.id.clone(), level: deck.level, load_class: class.map(|c| c.class), points, columns: cols })
+    DeckSpare { deck: deck.id.clone(), level: deck.level, load_class: class.map(|c| c.class), points, columns: cols }
 }
 
 /// The limit one plate puts on the placed load (before the factor γ·φ) for an `effect` of 1 kN

@@ -86,8 +86,23 @@ pub fn grid_positions(range: (f64, f64), size: f64, spacing: f64) -> Vec<f64> {
 /// The influence of a unit load with `footprint` over a grid of `spacing` on deck `deck`, in
 /// method pass `pass`; `None` if the footprint does not fit on the deck.
 pub fn deck_influence(model: &Model, pass: &MethodPass, deck: usize, footprint: Footprint, spacing: f64) -> Option<DeckInfluence> {
-    let mut s = Solver::new(model, pass);
-    s.deck_influence(deck, footprint, spacing)
+    deck_influences(model, &[pass.clone()], deck, footprint, spacing).pop().flatten()
+}
+
+/// [`deck_influence`] in each of several method passes, sharing the bearer flows of the passes
+/// where a bearer behaves alike.
+pub fn deck_influences(model: &Model, passes: &[MethodPass], deck: usize, footprint: Footprint, spacing: f64) -> Vec<Option<DeckInfluence>> {
+    let mut cache = crate::solve::arrangement::FlowCache::default();
+    passes
+        .iter()
+        .map(|pass| {
+            let mut s = Solver::new(model, pass);
+            s.flow_cache = std::mem::take(&mut cache);
+            let out = s.deck_influence(deck, footprint, spacing);
+            cache = std::mem::take(&mut s.flow_cache);
+            out
+        })
+        .collect()
 }
 
 impl Solver<'_, '_> {
