@@ -258,3 +258,29 @@ fn working_levels_one_in_full_with_an_adjacent_one_at_half() {
     let a = analyse(&s).unwrap();
     close("rule plus materials", service(&a, "A1").0, 3.0 + 1.0, 1e-9);
 }
+
+#[test]
+fn outputs_say_how_each_plate_is_worst_loaded_and_which_loads_act_whole() {
+    // common practice, no source: the two-span bearer above, arranged; and a second load set whole.
+    let mut s = line_on_posts(&[0.0, 2.5, 5.0], 3.2, 0.0, 5.0);
+    let mut pour = load("pour", Case::Q, LoadKind::BearerLine { bearer: "B".into(), from_m: 0.0, to_m: 5.0, kn_per_m: 1.0 });
+    pour.arrangement = Arrangement::Whole;
+    s.loads.push(pour);
+    let a = analyse(&s).unwrap();
+    let end = a.plate_index("P0").unwrap();
+    let notes = a.arrangements_at(end);
+    assert_eq!(notes.len(), 1, "only the arranged load is described: {notes:?}");
+    assert_eq!((notes[0].cells, notes[0].loaded_for_max, notes[0].loaded_for_min), (2, 1, 1));
+    assert!(notes[0].words().contains("worst with 1 of 2 cells loaded"), "{}", notes[0].words());
+    let trace = plateload::export::trace::trace_text(&s, &a, end);
+    assert!(trace.contains("loaded for the maximum: B 0.00–2.50 m from its first post"), "{trace}");
+    assert!(trace.contains("loaded for the minimum: B 2.50–5.00 m from its first post"), "{trace}");
+    let csv = plateload::export::schedule::schedule_csv(&a);
+    assert!(csv.contains("imposed load arrangement for max") && csv.contains("q 1/2 cells"), "{csv}");
+    assert!(csv.contains("applied whole as set: pour"), "{csv}");
+    let json: serde_json::Value = serde_json::from_str(&plateload::export::json::analysis_json(&a)).unwrap();
+    assert_eq!(json["imposed_loads"]["whole"], serde_json::json!(["pour"]));
+    assert_eq!(json["bases"][0]["arrangements"][0]["loaded_for_max"], 1);
+    let html = plateload::export::report::report_html(&s, &a, &Default::default());
+    assert!(html.contains("<strong>whole</strong> (as set)") && html.contains("q: worst with every cell loaded"), "the worst plate is the middle one");
+}

@@ -7,7 +7,7 @@ use plateload::scene::model::{BeamMethod, BeamRole, Bearer, Deck, Post, Rect, Sc
 use plateload::{analyse, Analysis};
 
 fn post(id: &str, x: f64, y: f64) -> Post {
-    Post { id: id.into(), x, y, base_level: 0.0, top_level: 2.0, support: Some("S".into()), self_weight_kn_per_m: 0.0 }
+    Post { id: id.into(), x, y, base_level: 0.0, top_level: 2.0, support: Some("S".into()), self_weight_kn_per_m: 0.0, section: None }
 }
 
 /// A bearer known to be continuous over all its posts (declared with no joints), so that the
@@ -23,12 +23,13 @@ fn bearer(id: &str, posts: &[&str]) -> Bearer {
         self_weight_kn_per_m: 0.0,
         method: None,
         joints: Some(Vec::new()),
+        section: None,
     }
 }
 
 fn scene() -> Scene {
     let mut s = Scene::empty("test site", 1.0e6);
-    s.support_types.push(SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 1.0e6, sole_plate: None, friction: Vec::new(), head_moment_capacity_knm: None });
+    s.support_types.push(SupportType::new("S", PlateSize { width_m: 0.15, length_m: 0.15 }, 1.0e6, None));
     s
 }
 
@@ -144,7 +145,7 @@ fn deck_on_three_bearers() -> Scene {
         s.bearers.push(bearer(&format!("B{j}"), &refs));
         names.push(format!("B{j}"));
     }
-    s.decks.push(Deck { id: "D".into(), level: 2.0, extent: Rect { x: (0.0, 3.0), y: (0.0, 2.0) }, bearers: names, self_weight_kpa: 0.0, method: None, joints: Some(Vec::new()) });
+    s.decks.push(Deck { id: "D".into(), level: 2.0, extent: Rect { x: (0.0, 3.0), y: (0.0, 2.0) }, bearers: names, self_weight_kpa: 0.0, method: None, joints: Some(Vec::new()), decking: None });
     let mut q = Load::new("q", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: Intensity::Kpa(2.0) });
     q.arrangement = plateload::scene::loads::Arrangement::Whole;
     s.loads.push(q);
@@ -273,15 +274,17 @@ fn two_post_bearers_give_the_same_loads_by_both_methods() {
 
 #[test]
 fn old_scene_files_load_and_new_fields_round_trip() {
-    // common practice, no source: files without the new fields still load; the defaults are not
-    // written back; unknown fields are still refused.
-    let text = plateload::scene::demo::DEMO_SCENES[0].1;
+    // common practice, no source: files without the new fields still load; the values they
+    // default to are written back, so a later change of a default cannot change the file's
+    // meaning; unknown fields are still refused.
+    let text = include_str!("old-format/larkfield-falsework.ron");
     assert!(!text.contains("analysis"));
-    let s = parse_scene(text, "demo").unwrap();
+    let s = parse_scene(text, "old").unwrap();
     assert_eq!(s.analysis.method, BeamMethod::Envelope);
     assert!(s.bearers.iter().all(|b| b.method.is_none()));
     let written = plateload::scene::io::scene_to_ron(&s);
-    assert!(!written.contains("analysis") && !written.contains("method"), "defaults are left out");
+    assert!(written.contains("analysis: (") && written.contains("method: Envelope,"), "the defaults are written: {written}");
+    assert!(written.contains("method: None"), "each member's own method is written, even when it has none");
 
     let mut t = three_span_bearer(BeamMethod::Continuous);
     t.bearers[0].method = Some(BeamMethod::SimpleSpans);

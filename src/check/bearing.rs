@@ -6,7 +6,7 @@
 //!
 //! Plate sizes are in plan with the width along x and the length along y.
 
-use crate::fxhash::FxMap as HashMap;
+use rustc_hash::FxHashMap as HashMap;
 use crate::scene::combination::Combination;
 use crate::scene::model::{AllowableBasis, GranularLayer, Scene, SupportType};
 use crate::scene::standing::StandsOn;
@@ -232,6 +232,46 @@ impl Ground {
             .collect()
     }
 
+    /// Extra downward load, kN, that post `post` can take before a bearing check it is subject
+    /// to reaches its allowable, with every post carrying `max_kn` (its own included); infinite
+    /// where no bearing is checked. Follows [`Ground::pressures`]: its own pressure and its
+    /// overlap group's, on the layer and at formation.
+    pub fn room_kn(&self, post: usize, max_kn: &[f64]) -> f64 {
+        let down = |p: usize| max_kn[p].max(0.0);
+        let own = down(post);
+        let group_sum = |groups: &[SpreadGroup], of: &[Option<u32>]| of[post].map(|g| (groups[g as usize].union_area_m2, groups[g as usize].plates.iter().map(|&q| down(q as usize)).sum::<f64>()));
+        // Room under an allowable `q` (kPa) over `area`, and over the group's union if any.
+        let room = |q: f64, area: f64, group: Option<(f64, f64)>| {
+            let mine = q * area - own;
+            group.map_or(mine, |(union, total)| mine.min(q * union - total))
+        };
+        match self.bears_on[post] {
+            BearsOn::Nothing => f64::INFINITY,
+            BearsOn::Structure { structure, .. } => self.structure_allowable_kpa[structure] * self.plate_area_m2[post] - own,
+            BearsOn::Ground { .. } => {
+                let surface = group_sum(&self.surface_groups, &self.surface_group_of);
+                let mut out = f64::INFINITY;
+                match self.layer {
+                    None => {
+                        if let Some(q) = self.allowable_kpa {
+                            out = out.min(room(q, self.plate_area_m2[post], surface));
+                        }
+                    }
+                    Some(layer) => {
+                        if let Some(q) = self.allowable_kpa {
+                            let formation = group_sum(&self.formation_groups, &self.formation_group_of);
+                            out = out.min(room(q - self.layer_weight_added_kpa(), self.formation_area_m2[post], formation));
+                        }
+                        if let Some(q) = layer.allowable_kpa {
+                            out = out.min(room(q, self.plate_area_m2[post], surface));
+                        }
+                    }
+                }
+                out
+            }
+        }
+    }
+
     /// Fill in the bearing of every plate under every combination: `combos[plate][combination]`,
     /// with `max_kn` and `load_utilisation` already set; utilisation and status are finished.
     pub fn fill(&self, combinations: &[Combination], combos: &mut [Vec<crate::check::plates::PlateCombination>]) {
@@ -395,7 +435,7 @@ mod tests {
     use crate::scene::model::{LoadSpread, PlateSize};
 
     fn support(sole: Option<PlateSize>) -> SupportType {
-        SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: sole, friction: Vec::new(), head_moment_capacity_knm: None }
+        SupportType::new("S", PlateSize { width_m: 0.15, length_m: 0.15 }, 30.0, sole)
     }
 
     #[test]
@@ -468,6 +508,33 @@ mod tests {
         let g = Ground::on(&scene, &plates, &[BearsOn::Ground { support: 0 }; 2]);
         assert!(g.formation_groups.is_empty());
         assert!((g.pressures(&[20.0, 20.0])[0].formation_kpa - 222.222_2).abs() < 1e-3);
+    }
+
+    #[test]
+    fn room_left_for_bearing_matches_the_pressures() {
+        // statics, by hand: adding the room found to one plate brings its worst bearing check to
+        // exactly its allowable. 45° layer 0.15 m, 19 kN/m³ gross, 150 kPa at formation and
+        // 900 kPa on the layer; plates 0.3 m apart with 20 and 5 kN.
+        let mut scene = Scene::empty("t", 150.0);
+        scene.support_types.push(support(None));
+        let mut layer = GranularLayer::new(0.15, LoadSpread::FortyFive);
+        layer.unit_weight_kn_m3 = 19.0;
+        layer.allowable_kpa = Some(900.0);
+        scene.site.granular_layer = Some(layer);
+        let g = Ground::on(&scene, &[[0.0, 0.0, 0.0], [0.3, 0.0, 0.0]], &[BearsOn::Ground { support: 0 }; 2]);
+        for p in 0..2 {
+            let mut max = [20.0, 5.0];
+            let room = g.room_kn(p, &max);
+            max[p] += room;
+            let pr = g.pressures(&max)[p];
+            let worst = pr.formation_utilisation.unwrap().max(pr.layer_utilisation.unwrap());
+            assert!((worst - 1.0).abs() < 1e-12, "plate {p}: room {room}, utilisation {worst}");
+        }
+        // Nothing checked: no limit.
+        scene.site.allowable_bearing_kpa = None;
+        layer.allowable_kpa = None;
+        scene.site.granular_layer = Some(layer);
+        assert_eq!(Ground::on(&scene, &[[0.0, 0.0, 0.0]], &[BearsOn::Ground { support: 0 }]).room_kn(0, &[20.0]), f64::INFINITY);
     }
 
     #[test]

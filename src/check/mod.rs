@@ -6,6 +6,7 @@
 //!   utilisation of the jack and the ground, status.
 //! - [`bearing`]: the area each plate's load spreads over in the ground.
 //! - [`permanent`]: the parts of the permanent load that press each plate down and that lift it.
+//! - [`spare`]: the spare-capacity map — the largest extra load at every point of every deck.
 //! - [`stability`]: overturning of each structure in both forms, the kentledge that reaches the
 //!   targets, and the hold-down each lifting plate needs.
 //! - [`sliding`]: base shear against friction, per plate and per structure.
@@ -18,9 +19,10 @@ pub mod equilibrium;
 pub mod permanent;
 pub mod plates;
 pub mod sliding;
+pub mod spare;
 pub mod stability;
 
-pub use analysis::{analyse, Analysis, AnalysisError, PlateResult, METHODS_AGREE};
+pub use analysis::{analyse, Analysis, AnalysisError, ArrangementAt, LiftResult, PlateResult, METHODS_AGREE};
 pub use equilibrium::{equilibrium, CaseEquilibrium};
 pub use bearing::{bearing_area, Bearing, BearsOn, Ground};
 pub use plates::{capacities, combine, combine_envelope, MethodEnvelope, PlateCombination, PostCapacity, Status, METHOD_TIE_RELATIVE, UPLIFT_TOLERANCE_KN};

@@ -6,10 +6,10 @@
 //! overhang that lifts it are separate shares; loads summed onto one member before it shares
 //! them (a deck's strips on one bearer, a continuous member) are one.
 
-use crate::fxhash::FxMap as HashMap;
+use rustc_hash::FxHashMap as HashMap;
 use crate::scene::loads::Case;
 use crate::scene::model::Scene;
-use crate::solve::Solution;
+use crate::solve::{Route, Solution};
 
 /// Permanent load at one plate, split by what it does there. Reactions upward positive, kN.
 #[derive(Debug, Clone, Copy, PartialEq, Default, serde::Serialize)]
@@ -47,13 +47,27 @@ pub fn favourable_items(scene: &Scene, solution: &Solution) -> Vec<Option<bool>>
     solution.items.iter().map(|i| (i.case == Case::G).then(|| kinds.get(i.id.as_str()).is_none_or(|k| k.may_be_favourable()))).collect()
 }
 
-/// The permanent parts at every plate of a solution, in plate order.
+/// The permanent parts at every post of a solution, in post order: for a post with a base plate
+/// its plate load, for any other the load it passes on.
+///
+/// A splice passes everything above it on unchanged, so the shares of a lift count at the post
+/// below as they are (not netted into one share per load): a standard drawn as two lifts gives
+/// the same parts as one drawn whole.
 pub fn permanent_parts(scene: &Scene, solution: &Solution) -> Vec<PermanentParts> {
     let favourable = favourable_items(scene, solution);
-    let mut out = vec![PermanentParts::default(); solution.plates.len()];
+    let n = solution.plates.len();
+    let mut own = vec![PermanentParts::default(); n];
+    // Posts spliced onto each post, from the trace.
+    let mut above: Vec<Vec<u32>> = vec![Vec::new(); n];
     for c in &solution.contributions {
         let Some(reliable) = favourable[c.item as usize] else { continue };
-        let p = &mut out[c.post as usize];
+        if let Route::Lift { from } = c.route {
+            if !above[c.post as usize].contains(&from) {
+                above[c.post as usize].push(from);
+            }
+            continue;
+        }
+        let p = &mut own[c.post as usize];
         if c.kn < 0.0 {
             p.up_kn += c.kn;
         } else if reliable {
@@ -62,5 +76,30 @@ pub fn permanent_parts(scene: &Scene, solution: &Solution) -> Vec<PermanentParts
             p.down_unreliable_kn += c.kn;
         }
     }
-    out
+    if above.iter().all(Vec::is_empty) {
+        return own;
+    }
+    // Each post's own parts plus those of every lift above it, worked out from the top down.
+    let mut out: Vec<Option<PermanentParts>> = vec![None; n];
+    for start in 0..n {
+        let mut stack = vec![start];
+        while let Some(&q) = stack.last() {
+            if out[q].is_some() {
+                stack.pop();
+                continue;
+            }
+            match above[q].iter().find(|&&p| out[p as usize].is_none()) {
+                Some(&p) => stack.push(p as usize),
+                None => {
+                    let total = above[q].iter().fold(own[q], |t, &p| {
+                        let u = out[p as usize].expect("done above");
+                        PermanentParts { down_kn: t.down_kn + u.down_kn, down_unreliable_kn: t.down_unreliable_kn + u.down_unreliable_kn, up_kn: t.up_kn + u.up_kn }
+                    });
+                    out[q] = Some(total);
+                    stack.pop();
+                }
+            }
+        }
+    }
+    out.into_iter().map(|p| p.expect("every post done")).collect()
 }

@@ -25,7 +25,7 @@
 //!   lever.
 
 use crate::check::actions::VariableActions;
-use crate::fxhash::FxMap as HashMap;
+use rustc_hash::FxHashMap as HashMap;
 use crate::scene::combination::Factors;
 use crate::scene::loads::{Case, KentledgePlace, LoadKind};
 use crate::scene::standing::StandsOn;

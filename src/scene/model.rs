@@ -54,9 +54,8 @@ pub struct Scene {
     /// Settings of the overturning check.
     #[serde(default)]
     pub stability: StabilitySettings,
-    /// How members share load among their supports. Omitted in older files (and not written
-    /// while it holds the defaults): the defaults.
-    #[serde(default, skip_serializing_if = "AnalysisSettings::is_default")]
+    /// How members share load among their supports. Omitted in older files: the defaults.
+    #[serde(default)]
     pub analysis: AnalysisSettings,
 }
 
@@ -76,7 +75,7 @@ pub struct Site {
     pub allowable_bearing_kpa: Option<f64>,
     /// Whether the allowable bearing pressure at formation is net or gross of the granular
     /// layer's own weight.
-    #[serde(default, skip_serializing_if = "AllowableBasis::is_default")]
+    #[serde(default)]
     pub allowable_basis: AllowableBasis,
     /// Optional granular layer between the sole plates and the ground.
     #[serde(default)]
@@ -97,10 +96,6 @@ pub enum AllowableBasis {
 }
 
 impl AllowableBasis {
-    /// Whether this is the default (gross); it is then left out of scene files.
-    pub fn is_default(&self) -> bool {
-        *self == AllowableBasis::default()
-    }
     /// Word for outputs: `gross` or `net`.
     pub fn label(self) -> &'static str {
         match self {
@@ -194,6 +189,9 @@ impl PlateSize {
 }
 
 /// A kind of base support: base plate (with jack) and optional sole plate or board.
+///
+/// Chosen from the component catalogue ([`crate::scene::catalogue`]), its values are copied in
+/// with the catalogue id and source, so the scene file stays complete on its own.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct SupportType {
@@ -203,19 +201,36 @@ pub struct SupportType {
     pub base_plate: PlateSize,
     /// Safe working load of the base jack / plate, kN.
     pub swl_kn: f64,
+    /// Largest jack extension the safe working load holds for, m, if known. Older files: not
+    /// given.
+    #[serde(default)]
+    pub max_extension_m: Option<f64>,
     /// Timber sole plate or board under the base plate, if any. Bearing is taken on it.
     #[serde(default)]
     pub sole_plate: Option<PlateSize>,
     /// The interfaces a horizontal force crosses on its way into the ground (base plate on sole
     /// board, sole board on the ground…); the lowest lower-bound friction coefficient governs.
     /// Empty: friction unknown, sliding is not checked for plates on this support.
-    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    #[serde(default)]
     pub friction: Vec<Interface>,
     /// Moment the head of a post of this type takes, kN·m, from the maker's data: a bearer on a
     /// single post (a T-head) may then be out of balance by up to this much. `None`: the head
     /// takes no moment and a T-head must balance.
     #[serde(default)]
     pub head_moment_capacity_knm: Option<f64>,
+    /// Catalogue id of the jack the base plate and safe working load were copied from, if any.
+    #[serde(default)]
+    pub catalogue_id: Option<String>,
+    /// Where the safe working load comes from (copied from the catalogue, or the planner's own).
+    #[serde(default)]
+    pub source: String,
+    /// The safe working load is an example value that must be replaced with the manufacturer's;
+    /// validation warns while it is set.
+    #[serde(default)]
+    pub example: bool,
+    /// Catalogue id of the sole plate, if it was chosen from the catalogue.
+    #[serde(default)]
+    pub sole_plate_id: Option<String>,
 }
 
 /// One sliding interface under a support, with its lower-bound friction coefficient.
@@ -266,6 +281,12 @@ impl Interface {
 }
 
 impl SupportType {
+    /// A support type with the given plates and safe working load, not taken from the
+    /// catalogue: no source, no extension limit.
+    pub fn new(id: &str, base_plate: PlateSize, swl_kn: f64, sole_plate: Option<PlateSize>) -> Self {
+        SupportType { id: id.to_owned(), base_plate, swl_kn, max_extension_m: None, sole_plate, friction: Vec::new(), head_moment_capacity_knm: None, catalogue_id: None, source: String::new(), example: false, sole_plate_id: None }
+    }
+
     /// The plate that bears on the ground (or on the granular layer): the sole plate if there
     /// is one, otherwise the base plate.
     pub fn bearing_plate(&self) -> PlateSize {
@@ -300,6 +321,9 @@ pub struct Post {
     /// Self-weight, kN/m. Default: 48.3 × 4.0 steel tube.
     #[serde(default = "steel_tube")]
     pub self_weight_kn_per_m: f64,
+    /// Catalogue id of the section the self-weight was copied from, if any (informative).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub section: Option<String>,
 }
 
 /// What a horizontal member does; it changes only how it is drawn and listed.
@@ -338,13 +362,16 @@ pub struct Bearer {
     pub self_weight_kn_per_m: f64,
     /// How this member shares load among its posts, if not as the scene's
     /// [`AnalysisSettings::method`].
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default)]
     pub method: Option<BeamMethod>,
     /// Posts (inner ones, by id) over which the member is jointed — not continuous — when known.
     /// `None`: not known, so the envelope also covers two-span continuity at every inner post
     /// ([`BeamMethod::Envelope`]). `Some(vec![])`: known to be continuous throughout.
     #[serde(default)]
     pub joints: Option<Vec<String>>,
+    /// Catalogue id of the section the self-weight was copied from, if any (informative).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub section: Option<String>,
 }
 
 /// A deck spanning across parallel bearers.
@@ -363,13 +390,16 @@ pub struct Deck {
     pub self_weight_kpa: f64,
     /// How this deck shares load among its bearers, if not as the scene's
     /// [`AnalysisSettings::method`].
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default)]
     pub method: Option<BeamMethod>,
     /// Bearers (inner ones, by id) over which the decking is jointed — not continuous — when
     /// known. `None`: not known, so the envelope also covers two-span continuity at every inner
     /// bearer. `Some(vec![])`: known to be continuous throughout.
     #[serde(default)]
     pub joints: Option<Vec<String>>,
+    /// Catalogue id of the deck type the self-weight was copied from, if any (informative).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub decking: Option<String>,
 }
 
 /// A structure of the permanent works that base plates stand on, such as an existing slab. Its
@@ -434,7 +464,7 @@ pub struct StabilitySettings {
     pub equilibrium: Factors,
     /// Base plates (post ids) over which kentledge would be placed, secured to their standards.
     /// Empty: over the plates farthest from each tipping edge.
-    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    #[serde(default)]
     pub kentledge_plates: Vec<String>,
 }
 
@@ -555,7 +585,7 @@ impl WorkingLevels {
 }
 
 impl AnalysisSettings {
-    /// Whether these are the default settings (they are then left out of scene files).
+    /// Whether these are the default settings.
     pub fn is_default(&self) -> bool {
         *self == AnalysisSettings::default()
     }

@@ -140,6 +140,8 @@ pub struct Arranged {
     /// the cells that lift it (≤ 0)), kN — reactions for a plate, load passed on for any other
     /// post.
     pub extremes: Vec<(u32, f64, f64)>,
+    /// For each entry of `extremes`: how many cells push that post down, and how many lift it.
+    pub counts: Vec<(u32, u32)>,
     /// Worst relative equilibrium residual of a single cell: largest of |ΣF| / F and
     /// |ΣM| / (F·L) over the cells (L the plan size of the structure, at least 1 m).
     pub worst_cell_residual: f64,

@@ -56,7 +56,7 @@ pub struct TeeHeadTips {
 /// Collects the moments of every T-head over the load items of one solution.
 #[derive(Debug, Default)]
 pub(super) struct TeeHeads {
-    heads: crate::fxhash::FxMap<usize, Head>,
+    heads: rustc_hash::FxHashMap<usize, Head>,
 }
 
 impl TeeHeads {
