@@ -77,6 +77,36 @@ enum Command {
         #[arg(long)]
         strict: bool,
     },
+    /// Map the spare capacity of every deck: at each point of a grid, the largest extra imposed
+    /// load that can be placed there before a base plate or the deck reaches a limit, and what
+    /// limits it.
+    Spare {
+        /// Scene file (RON).
+        file: PathBuf,
+        /// What is placed: `point` (default) or a rectangle WIDTHxDEPTH in metres along x and y,
+        /// e.g. 1.2x1.0 (turn it by giving 1.0x1.2).
+        #[arg(long, default_value = "point", value_parser = parse_footprint)]
+        footprint: plateload::solve::influence::Footprint,
+        /// Grid spacing, m.
+        #[arg(long, default_value_t = plateload::check::spare::DEFAULT_SPACING_M)]
+        grid: f64,
+        /// Only this deck (by id); may be given more than once.
+        #[arg(long)]
+        deck: Vec<String>,
+        /// Only this combination (by name); may be given more than once. Default: every one that
+        /// checks capacity or uplift.
+        #[arg(long)]
+        combination: Vec<String>,
+        /// Factor on the placed load for landing it, e.g. 1.2 for loads set down by crane.
+        #[arg(long, default_value_t = 1.0)]
+        dynamic: f64,
+        /// Write the map as CSV to this file (atomically) instead of printing the table.
+        #[arg(long)]
+        csv: Option<PathBuf>,
+        /// Print the map as JSON.
+        #[arg(long)]
+        json: bool,
+    },
     /// Show where one base plate's load comes from, share by share.
     Trace {
         /// Scene file (RON).
@@ -165,6 +195,16 @@ fn parse_size(s: &str) -> Result<(u32, u32), String> {
     Ok((n(w)?, n(h)?))
 }
 
+/// A footprint: `point`, or WIDTHxDEPTH in metres.
+fn parse_footprint(s: &str) -> Result<plateload::solve::influence::Footprint, String> {
+    if s.trim().eq_ignore_ascii_case("point") {
+        return Ok(plateload::solve::influence::Footprint::POINT);
+    }
+    let (w, d) = s.split_once(['x', 'X']).ok_or_else(|| format!("footprint \"{s}\" is not `point` or WIDTHxDEPTH in metres, e.g. 1.2x1.0"))?;
+    let n = |v: &str| v.trim().parse::<f64>().ok().filter(|v| v.is_finite() && *v > 0.0 && *v <= 100.0).ok_or_else(|| format!("footprint \"{s}\": each side must be a number of metres above 0 (up to 100)"));
+    Ok(plateload::solve::influence::Footprint { x_m: n(w)?, y_m: n(d)? })
+}
+
 /// Paper sizes for `report --paper`.
 #[derive(Clone, Copy, clap::ValueEnum)]
 enum PaperArg {
@@ -236,6 +276,27 @@ fn run() -> anyhow::Result<ExitCode> {
             eprintln!("wrote the report of {} base plates to {}", analysis.plates.len(), output.display());
             eprintln!("{CAUTION}");
             Ok(strict_code(strict, &analysis))
+        }
+        Command::Spare { file, footprint, grid, deck, combination, dynamic, csv, json } => {
+            let (scene, analysis) = load_and_analyse(&file)?;
+            let settings = plateload::check::spare::SpareSettings { spacing_m: grid, footprint, dynamic_factor: dynamic, combinations: combination, decks: deck };
+            let map = match plateload::check::spare::spare_map(&scene, &analysis, &settings) {
+                Ok(map) => map,
+                Err(e) => {
+                    eprintln!("{}: {e}", file.display());
+                    return Ok(ExitCode::from(EXIT_INVALID));
+                }
+            };
+            if let Some(out) = csv {
+                io::write_atomic(&out, plateload::export::spare::spare_csv(&map).as_bytes()).with_context(|| format!("writing {}", out.display()))?;
+                println!("{CAUTION}
+wrote the spare-capacity map of {} deck(s) to {}", map.decks.len(), out.display());
+            } else if json {
+                println!("{}", plateload::export::spare::spare_json(&map));
+            } else {
+                print!("{}", plateload::export::spare::spare_text(&map));
+            }
+            Ok(ExitCode::SUCCESS)
         }
         Command::Trace { file, base } => {
             let (scene, analysis) = load_and_analyse(&file)?;
@@ -412,10 +473,20 @@ fn solve_text(a: &Analysis) -> String {
         let g = p.governing();
         let by = if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" };
         let _ = writeln!(s, "\nworst base: {} at {:.1}% ({by}, {})", p.id, num(100.0 * g.utilisation), a.combinations[p.governing].name);
+        for note in a.arrangements_at(w) {
+            let _ = writeln!(s, "  arrangement at {}: {}", p.id, note.words());
+        }
     }
     let over = a.plates.iter().filter(|p| p.status.over).count();
     let uplift = a.plates.iter().filter(|p| p.status.uplift).count();
     let _ = writeln!(s, "over capacity: {over}   lifting: {uplift}   of {} base plates", a.plates.len());
+    let whole: Vec<&str> = a.whole_loads.iter().map(String::as_str).collect();
+    let _ = writeln!(
+        s,
+        "imposed loads: each in its worst arrangement at every plate{}; {}",
+        if whole.is_empty() { String::new() } else { format!(", except {} (applied whole, as set)", whole.join(", ")) },
+        a.working_levels.label()
+    );
     let methods: Vec<&str> = (0..a.method_count()).map(|m| a.method_label(m)).collect();
     if methods.len() > 1 {
         let _ = writeln!(s, "method: envelope of {} (each max and min is the worse; G/Q/W columns: {})", methods.join("; "), methods[0]);

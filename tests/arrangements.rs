@@ -228,3 +228,59 @@ fn a_tee_head_is_checked_with_one_arm_loaded_alone() {
     let err = analyse(&s).unwrap_err().to_string();
     assert!(err.contains("more than the head's capacity of 0.800 kN·m"), "{err}");
 }
+
+#[test]
+fn working_levels_one_in_full_with_an_adjacent_one_at_half() {
+    // source: EN 12811-1 in service, one working level at 100 % of its load class with one
+    // adjacent level at 50 % (REFERENCES §9, via a UK industry summary); load class 3, q1 = 2.0
+    // kPa (EN 12811-1 Table 3, REFERENCES §2). A one-bay tower 2 m × 2 m with a deck at 2, 4 and
+    // 6 m: each deck puts 2.0 × 4 / 4 = 2 kN on each post. All levels at once: 6 kN; the rule:
+    // 2 + 0.5 × 2 = 3 kN.
+    let mut s = bare_scene();
+    s.support_types[0].swl_kn = 1e6;
+    s.site.allowable_bearing_kpa = 1e6;
+    for (id, x, y) in [("A1", 0.0, 0.0), ("B1", 2.0, 0.0), ("A2", 0.0, 2.0), ("B2", 2.0, 2.0)] {
+        s.posts.push(post(id, x, y, 6.0));
+    }
+    for (k, z) in [2.0, 4.0, 6.0].iter().enumerate() {
+        s.bearers.push(bearer(&format!("S{k}"), *z, &["A1", "B1"]));
+        s.bearers.push(bearer(&format!("N{k}"), *z, &["A2", "B2"]));
+        s.decks.push(deck(&format!("D{k}"), *z, (0.0, 2.0), (0.0, 2.0), &[&format!("S{k}"), &format!("N{k}")]));
+        s.loads.push(load(&format!("q{k}"), Case::Q, LoadKind::DeckArea { deck: format!("D{k}"), intensity: plateload::Intensity::LoadClassUniform(3) }));
+    }
+    let a = analyse(&s).unwrap();
+    close("all levels at once", service(&a, "A1").0, 6.0, 1e-9);
+    s.analysis.working_levels = plateload::scene::model::WorkingLevels::OneFullAdjacentHalf;
+    let a = analyse(&s).unwrap();
+    close("one level in full, an adjacent one at half", service(&a, "A1").0, 3.0, 1e-9);
+    // Materials on a deck are not working-level loads: they count in full wherever they are.
+    s.loads.push(load("bricks", Case::Q, LoadKind::DeckArea { deck: "D0".into(), intensity: kpa(1.0) }));
+    let a = analyse(&s).unwrap();
+    close("rule plus materials", service(&a, "A1").0, 3.0 + 1.0, 1e-9);
+}
+
+#[test]
+fn outputs_say_how_each_plate_is_worst_loaded_and_which_loads_act_whole() {
+    // common practice, no source: the two-span bearer above, arranged; and a second load set whole.
+    let mut s = line_on_posts(&[0.0, 2.5, 5.0], 3.2, 0.0, 5.0);
+    let mut pour = load("pour", Case::Q, LoadKind::BearerLine { bearer: "B".into(), from_m: 0.0, to_m: 5.0, kn_per_m: 1.0 });
+    pour.arrangement = Arrangement::Whole;
+    s.loads.push(pour);
+    let a = analyse(&s).unwrap();
+    let end = a.plate_index("P0").unwrap();
+    let notes = a.arrangements_at(end);
+    assert_eq!(notes.len(), 1, "only the arranged load is described: {notes:?}");
+    assert_eq!((notes[0].cells, notes[0].loaded_for_max, notes[0].loaded_for_min), (2, 1, 1));
+    assert!(notes[0].words().contains("worst with 1 of 2 cells loaded"), "{}", notes[0].words());
+    let trace = plateload::export::trace::trace_text(&s, &a, end);
+    assert!(trace.contains("loaded for the maximum: B 0.00–2.50 m from its first post"), "{trace}");
+    assert!(trace.contains("loaded for the minimum: B 2.50–5.00 m from its first post"), "{trace}");
+    let csv = plateload::export::schedule::schedule_csv(&a);
+    assert!(csv.contains("imposed load arrangement for max") && csv.contains("q 1/2 cells"), "{csv}");
+    assert!(csv.contains("applied whole as set: pour"), "{csv}");
+    let json: serde_json::Value = serde_json::from_str(&plateload::export::json::analysis_json(&a)).unwrap();
+    assert_eq!(json["imposed_loads"]["whole"], serde_json::json!(["pour"]));
+    assert_eq!(json["bases"][0]["arrangements"][0]["loaded_for_max"], 1);
+    let html = plateload::export::report::report_html(&s, &a, &Default::default());
+    assert!(html.contains("<strong>whole</strong> (as set)") && html.contains("q: worst with every cell loaded"), "the worst plate is the middle one");
+}

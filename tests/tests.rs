@@ -15,6 +15,8 @@ mod catalogue;
 mod lifts;
 // Imposed loads in their worst arrangement.
 mod arrangements;
+// The spare-capacity map over the decks.
+mod spare;
 // Continuous members, the method envelope and its outputs.
 mod continuous;
 // Validation: every problem at once, with element ids.

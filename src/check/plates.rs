@@ -137,7 +137,7 @@ pub fn combine(scene: &Scene, solution: &Solution, caps: &[PostCapacity]) -> Vec
     let mut out = vec![Vec::with_capacity(scene.combinations.len()); n];
     let (mut hi, mut lo) = (vec![0.0; n], vec![0.0; n]);
     let (mut group_hi, mut group_lo) = (vec![0.0; n], vec![0.0; n]);
-    let actions = crate::check::actions::VariableActions::of(&solution.items);
+    let actions = crate::check::actions::VariableActions::of(&solution.items, scene.analysis.working_levels);
     for comb in &scene.combinations {
         let f = comb.factors;
         for p in 0..n {
@@ -147,28 +147,41 @@ pub fn combine(scene: &Scene, solution: &Solution, caps: &[PostCapacity]) -> Vec
             lo[p] = a.min(b);
         }
         for &i in &actions.independent {
-            let item = &solution.items[i];
-            let gamma = comb.variable_factor(item.case);
-            match &item.arranged {
-                // Arranged: at each post, the cells that push it down for the maximum and those
-                // that lift it for the minimum.
-                Some(arranged) => {
-                    for &(p, down, up) in &arranged.extremes {
-                        hi[p as usize] += gamma * down;
-                        lo[p as usize] += gamma * up;
+            add_vertical_variable(&solution.items[i], comb, &mut hi, &mut lo);
+        }
+        // Working levels: one level in full with the worse adjacent one at half, at each post.
+        if !actions.by_level.is_empty() {
+            let per_level: Vec<(Vec<f64>, Vec<f64>)> = actions
+                .by_level
+                .iter()
+                .map(|(_, group)| {
+                    let (mut h, mut l) = (vec![0.0; n], vec![0.0; n]);
+                    for &i in group {
+                        add_vertical_variable(&solution.items[i], comb, &mut h, &mut l);
                     }
-                }
-                // Whole: present everywhere or not at all, whichever is worse.
-                None => {
-                    for &(p, v) in item.vertical.iter().chain(&item.internal) {
-                        let v = gamma * v;
-                        if v > 0.0 {
-                            hi[p as usize] += v;
-                        } else {
-                            lo[p as usize] += v;
+                    (h, l)
+                })
+                .collect();
+            let share = crate::check::actions::ADJACENT_LEVEL_SHARE;
+            for p in 0..n {
+                let (mut best_hi, mut best_lo) = (0.0f64, 0.0f64);
+                for k in 0..per_level.len() {
+                    let adjacent = |f: &dyn Fn(&(Vec<f64>, Vec<f64>)) -> f64, pick: fn(f64, f64) -> f64| {
+                        let below = k.checked_sub(1).map(|j| f(&per_level[j]));
+                        let above = per_level.get(k + 1).map(f);
+                        match (below, above) {
+                            (Some(a), Some(b)) => pick(a, b),
+                            (Some(a), None) | (None, Some(a)) => a,
+                            (None, None) => 0.0,
                         }
-                    }
+                    };
+                    let h = per_level[k].0[p] + share * adjacent(&|x| x.0[p], f64::max);
+                    let l = per_level[k].1[p] + share * adjacent(&|x| x.1[p], f64::min);
+                    best_hi = best_hi.max(h);
+                    best_lo = best_lo.min(l);
                 }
+                hi[p] += best_hi;
+                lo[p] += best_lo;
             }
         }
         // Horizontal directions are alternatives: the worst single direction counts.
@@ -202,6 +215,32 @@ pub fn combine(scene: &Scene, solution: &Solution, caps: &[PostCapacity]) -> Vec
         }
     }
     out
+}
+
+/// Add one vertical variable item to the maximum and minimum at every post it reaches.
+fn add_vertical_variable(item: &crate::solve::Item, comb: &Combination, hi: &mut [f64], lo: &mut [f64]) {
+    let gamma = comb.variable_factor(item.case);
+    match &item.arranged {
+        // Arranged: at each post, the cells that push it down for the maximum and those that
+        // lift it for the minimum.
+        Some(arranged) => {
+            for &(p, down, up) in &arranged.extremes {
+                hi[p as usize] += gamma * down;
+                lo[p as usize] += gamma * up;
+            }
+        }
+        // Whole: present everywhere or not at all, whichever is worse.
+        None => {
+            for &(p, v) in item.vertical.iter().chain(&item.internal) {
+                let v = gamma * v;
+                if v > 0.0 {
+                    hi[p as usize] += v;
+                } else {
+                    lo[p as usize] += v;
+                }
+            }
+        }
+    }
 }
 
 fn plate_combination(comb: &Combination, max_kn: f64, min_kn: f64, cap: PostCapacity) -> PlateCombination {

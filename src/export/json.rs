@@ -40,6 +40,7 @@ struct Doc<'a> {
     units: Units,
     combinations: &'a [crate::Combination],
     methods: Vec<&'a str>,
+    imposed_loads: ImposedLoads<'a>,
     bases: Vec<Base<'a>>,
     lifts: Vec<Lift<'a>>,
     totals: Totals,
@@ -48,6 +49,15 @@ struct Doc<'a> {
     equilibrium_by_method: Vec<MethodEquilibrium<'a>>,
     stability: &'a Stability,
     warnings: Vec<String>,
+}
+
+/// How the imposed loads are placed.
+#[derive(Serialize)]
+struct ImposedLoads<'a> {
+    /// Every imposed load spread over a deck or bearer is split into cells and loaded where
+    /// unfavourable at each plate, except these (applied whole, as the planner set).
+    whole: &'a [String],
+    working_levels: &'static str,
 }
 
 #[derive(Serialize)]
@@ -85,6 +95,7 @@ struct Base<'a> {
     governing_method: &'a str,
     min_method: &'a str,
     cases_kn_by_method: Vec<MethodCases<'a>>,
+    arrangements: Vec<crate::check::ArrangementAt>,
     status: &'static str,
 }
 
@@ -197,6 +208,7 @@ pub fn analysis_json(a: &Analysis) -> String {
             governing_method: a.governing_method_label(i),
             min_method: a.min_method_label(i),
             cases_kn_by_method: p.case_kn_by_method.iter().enumerate().map(|(m, &c)| MethodCases { method: a.method_label(m), cases_kn: PerCase::of(c) }).collect(),
+            arrangements: a.arrangements_at(i),
             status: p.status.label(),
         })
         .collect();
@@ -207,6 +219,7 @@ pub fn analysis_json(a: &Analysis) -> String {
         units: Units { force: "kN", length: "m", pressure: "kPa", moment: "kN.m" },
         combinations: &a.combinations,
         methods: (0..a.method_count()).map(|m| a.method_label(m)).collect(),
+        imposed_loads: ImposedLoads { whole: &a.whole_loads, working_levels: a.working_levels.label() },
         bases,
         lifts: a
             .lifts

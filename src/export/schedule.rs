@@ -72,6 +72,8 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
             c.source.clone(),
         ]);
     }
+    let whole = if analysis.whole_loads.is_empty() { "none".to_owned() } else { analysis.whole_loads.join(" ") };
+    w.record(&["Imposed loads", "each split into cells and loaded where unfavourable at each plate", &format!("applied whole as set: {whole}"), analysis.working_levels.label()]);
     let methods = analysis.method_count();
     if methods == 1 {
         w.record(&["Method", analysis.method_label(0)]);
@@ -107,7 +109,7 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         head.push(format!("{} min (kN)", c.name));
     }
     head.extend(
-        ["SWL (kN)", "utilisation", "governing combination", "method for max", "method for min", "bearing area (m2)", "bearing pressure (kPa)", "allowable (kPa)", "bearing utilisation", "status"]
+        ["SWL (kN)", "utilisation", "governing combination", "method for max", "method for min", "imposed load arrangement for max", "bearing area (m2)", "bearing pressure (kPa)", "allowable (kPa)", "bearing utilisation", "status"]
             .map(String::from),
     );
     w.record(&head);
@@ -136,6 +138,8 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         w.field(&analysis.combinations[p.governing].name);
         w.field(analysis.governing_method_label(i));
         w.field(analysis.min_method_label(i));
+        let notes: Vec<String> = analysis.arrangements_at(i).iter().map(|n| format!("{} {}/{} cells", n.load, n.loaded_for_max, n.cells)).collect();
+        w.field(&notes.join("; "));
         w.fixed(p.bearing_area_m2, 4);
         w.fixed(g.bearing_kpa, 1);
         w.fixed(p.allowable_kpa, 1);

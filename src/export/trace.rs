@@ -98,7 +98,47 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
         }
         let _ = writeln!(out);
     }
+    arrangement_lines(&mut out, scene, analysis, plate);
     out
+}
+
+/// Where each arranged imposed load is placed for this plate's worst maximum and minimum: the
+/// cells to load, in plan coordinates, so the arrangement can be set out on site.
+fn arrangement_lines(out: &mut String, scene: &Scene, analysis: &Analysis, plate: usize) {
+    let notes = analysis.arrangements_at(plate);
+    if notes.is_empty() {
+        return;
+    }
+    let p = &analysis.plates[plate];
+    let Ok(model) = crate::validate(scene) else { return };
+    let pass = analysis.method(p.governing_method);
+    let _ = writeln!(out, "  imposed loads in their worst arrangement ({}):", pass.label);
+    for note in notes {
+        let _ = writeln!(out, "    {}", note.words());
+        let Some(load) = scene.loads.iter().position(|l| l.id == note.load) else { continue };
+        let item = analysis.solution_of(p.governing_method).items.iter().find(|i| i.id == note.load);
+        let (Some(effects), Some(cells)) = (crate::solve::arrangement::cell_effects(&model, pass, load, p.post), item.and_then(|i| i.arranged.as_ref())) else { continue };
+        for (what, down) in [("loaded for the maximum", true), ("loaded for the minimum", false)] {
+            let picked: Vec<(usize, f64)> = effects.iter().copied().enumerate().filter(|&(_, e)| if down { e > 0.0 } else { e < 0.0 }).collect();
+            if picked.is_empty() {
+                continue;
+            }
+            let shown: Vec<String> = picked.iter().take(MAX_CELLS_LISTED).map(|&(c, e)| format!("{} ({e:+.3} kN)", cell_words(scene, &cells.cells[c].place))).collect();
+            let more = if picked.len() > MAX_CELLS_LISTED { format!(", and {} more", picked.len() - MAX_CELLS_LISTED) } else { String::new() };
+            let _ = writeln!(out, "      {what}: {}{more}", shown.join(", "));
+        }
+    }
+}
+
+/// Cells listed one by one in a trace before the rest are counted.
+const MAX_CELLS_LISTED: usize = 12;
+
+/// Where a cell is, in words.
+fn cell_words(scene: &Scene, place: &crate::solve::CellPlace) -> String {
+    match *place {
+        crate::solve::CellPlace::Deck { rect, .. } => format!("x {:.2}–{:.2}, y {:.2}–{:.2} m", rect.x.0, rect.x.1, rect.y.0, rect.y.1),
+        crate::solve::CellPlace::Bearer { bearer, from_m, to_m } => format!("{} {:.2}–{:.2} m from its first post", scene.bearers[bearer as usize].id, from_m, to_m),
+    }
 }
 
 /// One share, and where a share from a post above came from in turn, indented by `depth`.

@@ -404,6 +404,34 @@ pub struct AnalysisSettings {
     /// Bending stiffness of each kind of member, for the continuous method.
     #[serde(default)]
     pub stiffness: MemberStiffness,
+    /// How the load-class imposed loads of decks at different levels act together.
+    #[serde(default)]
+    pub working_levels: WorkingLevels,
+}
+
+/// How the load-class imposed loads (q1, q2) of decks at different levels act together.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+pub enum WorkingLevels {
+    /// Every level may be loaded at once, each in its worst arrangement. The default: it never
+    /// gives less than the rule below.
+    #[default]
+    AllAtOnce,
+    /// The working-scaffold rule: one level at its full load-class load together with one
+    /// adjacent level (the next above or below) at half of it, whichever pair is worse at each
+    /// plate; other levels unloaded. Other imposed loads (materials, concrete) are not affected.
+    // source: EN 12811-1 in-service loading, one working level at 100 % plus an adjacent level at
+    // 50 % (via a UK industry summary, REFERENCES §9).
+    OneFullAdjacentHalf,
+}
+
+impl WorkingLevels {
+    /// Words for outputs.
+    pub fn label(self) -> &'static str {
+        match self {
+            WorkingLevels::AllAtOnce => "every working level loaded at once",
+            WorkingLevels::OneFullAdjacentHalf => "one working level at full load with an adjacent level at half (EN 12811-1)",
+        }
+    }
 }
 
 impl AnalysisSettings {

@@ -66,6 +66,15 @@ impl ContinuousBeam {
     /// Set up a member on supports at distances `supports` (strictly increasing) with flexural
     /// stiffness `ei`, kN·m².
     pub fn new(supports: &[f64], ei: f64) -> Result<Self, ContinuousError> {
+        let mut beam = ContinuousBeam { supports: Vec::new(), ei, k: Vec::new(), pivot: Vec::new(), mult: Vec::new(), fixed: Vec::new(), theta: Vec::new(), overhang: [(0.0, 0.0); 2] };
+        beam.set_supports(supports)?;
+        Ok(beam)
+    }
+
+    /// Move the member onto other supports (strictly increasing) and factorise again, reusing
+    /// its buffers: a member solved on many short stretches allocates once.
+    pub fn set_supports(&mut self, supports: &[f64]) -> Result<(), ContinuousError> {
+        let ei = self.ei;
         if !(ei.is_finite() && ei > 0.0) {
             return Err(ContinuousError::Stiffness(ei));
         }
@@ -76,19 +85,30 @@ impl ContinuousBeam {
         }
         let n = supports.len();
         let spans = n.saturating_sub(1);
-        let k: Vec<f64> = supports.windows(2).map(|w| ei / (w[1] - w[0])).collect();
-        let (mut pivot, mut mult) = (vec![0.0; n], vec![0.0; n]);
+        self.supports.clear();
+        self.supports.extend_from_slice(supports);
+        self.k.clear();
+        self.k.extend(supports.windows(2).map(|w| ei / (w[1] - w[0])));
+        let k = &self.k;
+        self.pivot.clear();
+        self.pivot.resize(n, 0.0);
+        self.mult.clear();
+        self.mult.resize(n, 0.0);
         if n >= 2 {
             // Tridiagonal LDLᵀ: diagonal 4(k_{i-1} + k_i), off-diagonal 2k_i between i and i+1.
-            pivot[0] = 4.0 * k[0];
+            self.pivot[0] = 4.0 * k[0];
             for i in 1..n {
                 let off = 2.0 * k[i - 1];
                 let diag = 4.0 * (k[i - 1] + if i < spans { k[i] } else { 0.0 });
-                mult[i] = off / pivot[i - 1];
-                pivot[i] = diag - mult[i] * off;
+                self.mult[i] = off / self.pivot[i - 1];
+                self.pivot[i] = diag - self.mult[i] * off;
             }
         }
-        Ok(ContinuousBeam { supports: supports.to_vec(), ei, k, pivot, mult, fixed: vec![[0.0; 4]; spans], theta: vec![0.0; n], overhang: [(0.0, 0.0); 2] })
+        self.fixed.clear();
+        self.fixed.resize(spans, [0.0; 4]);
+        self.theta.clear();
+        self.theta.resize(n, 0.0);
+        Ok(())
     }
 
     /// Support positions, m.
@@ -353,8 +373,10 @@ impl JointedBeam {
 #[derive(Debug, Clone)]
 pub struct TwoSpanLocal {
     supports: Vec<f64>,
-    /// The two-span beam about each inner support (index k − 1 for support k).
-    middles: Vec<ContinuousBeam>,
+    /// A two-span beam to copy from, and the two-span beams met so far by their spans (the
+    /// middle support at 0).
+    middle: ContinuousBeam,
+    shapes: Vec<((u64, u64), ContinuousBeam)>,
     piece_loads: Vec<BeamLoad>,
     piece_reactions: [f64; 3],
     /// Worst relative equilibrium residual of a two-span model so far.
@@ -364,11 +386,11 @@ pub struct TwoSpanLocal {
 impl TwoSpanLocal {
     /// Set up a member on `supports` (strictly increasing) with stiffness `ei`.
     pub fn new(supports: &[f64], ei: f64) -> Result<Self, ContinuousError> {
-        let middles = supports.windows(3).map(|w| ContinuousBeam::new(w, ei)).collect::<Result<_, _>>()?;
+        let middle = ContinuousBeam::new(&supports[..supports.len().min(3)], ei)?;
         if let Some(i) = (1..supports.len()).find(|&i| !(supports[i] > supports[i - 1])) {
             return Err(ContinuousError::SupportOrder { index: i, at: supports[i] });
         }
-        Ok(TwoSpanLocal { supports: supports.to_vec(), middles, piece_loads: Vec::new(), piece_reactions: [0.0; 3], worst_residual: 0.0 })
+        Ok(TwoSpanLocal { supports: supports.to_vec(), middle, shapes: Vec::new(), piece_loads: Vec::new(), piece_reactions: [0.0; 3], worst_residual: 0.0 })
     }
 
     /// Worst relative residual (|ΣF| / ΣF and |ΣM| / (ΣF · length)) of the two-span models
@@ -407,29 +429,66 @@ impl TwoSpanLocal {
                 });
             }
         }
-        // Inner supports: the two-span beam about each.
-        for k in 1..n - 1 {
+        // Inner supports: the two-span beam about each — only those whose window the loads reach.
+        let (mut first, mut last) = (n - 1, 0);
+        for load in loads {
+            let (a, z) = match *load {
+                BeamLoad::Point { at, .. } => (at, at),
+                BeamLoad::Uniform { from, to, .. } => (from, to),
+            };
+            // Support k's window is (s[k−1], s[k+1]] — open to the outside for the first and last
+            // inner supports, which carry the overhangs: reached when s[k−1] < z and a ≤ s[k+1].
+            first = first.min(s.partition_point(|&x| x < a).saturating_sub(1).clamp(1, n - 2));
+            last = last.max(s.partition_point(|&x| x < z).clamp(1, n - 2));
+        }
+        for k in first..=last {
             let lo = if k == 1 { f64::NEG_INFINITY } else { s[k - 1] };
             let hi = if k == n - 2 { f64::INFINITY } else { s[k + 1] };
             clip(loads, (lo, hi), k == 1, &mut self.piece_loads);
             if self.piece_loads.is_empty() {
                 continue;
             }
-            let beam = &mut self.middles[k - 1];
-            beam.share(&self.piece_loads, &mut self.piece_reactions);
+            // Solved about the middle support (at 0), so that a model of the same two spans is
+            // factorised once: on a regular grid every inner support has the same one.
+            let (l1, l2) = (s[k] - s[k - 1], s[k + 1] - s[k]);
+            let middle = s[k];
+            for l in &mut self.piece_loads {
+                *l = match *l {
+                    BeamLoad::Point { at, p } => BeamLoad::Point { at: at - middle, p },
+                    BeamLoad::Uniform { from, to, w } => BeamLoad::Uniform { from: from - middle, to: to - middle, w },
+                };
+            }
+            let key = (l1.to_bits(), l2.to_bits());
+            let slot = match self.shapes.iter().position(|e| e.0 == key) {
+                Some(i) => i,
+                None => {
+                    if self.shapes.len() >= MAX_TWO_SPAN_SHAPES {
+                        self.shapes.pop();
+                    }
+                    let mut beam = self.middle.clone();
+                    beam.set_supports(&[-l1, 0.0, l2]).expect("supports checked when set up");
+                    self.shapes.push((key, beam));
+                    self.shapes.len() - 1
+                }
+            };
+            self.shapes[slot].1.share(&self.piece_loads, &mut self.piece_reactions);
             reactions[k] = self.piece_reactions[1];
             // Its own equilibrium: ΣR = ΣW and ΣR·x = ΣW·c.
             let w: f64 = self.piece_loads.iter().map(BeamLoad::total).sum();
             let scale: f64 = self.piece_loads.iter().map(|l| l.total().abs()).sum::<f64>().max(1e-300);
-            let mw: f64 = self.piece_loads.iter().map(|l| l.moment_about(s[k])).sum();
+            let mw: f64 = self.piece_loads.iter().map(|l| l.moment_about(0.0)).sum();
             let fr: f64 = self.piece_reactions.iter().sum();
-            let mr: f64 = self.piece_reactions.iter().zip(&s[k - 1..=k + 1]).map(|(r, x)| r * (x - s[k])).sum();
+            let mr: f64 = self.piece_reactions[2] * l2 - self.piece_reactions[0] * l1;
             let length = (s[k + 1] - s[k - 1]).max(1.0);
             self.worst_residual = self.worst_residual.max((fr - w).abs() / scale).max((mr - mw).abs() / (scale * length));
         }
         0.0
     }
 }
+
+/// Two-span shapes a member keeps factorised; a member of more different span pairs than this
+/// factorises again as it goes.
+const MAX_TWO_SPAN_SHAPES: usize = 16;
 
 /// The parts of `loads` inside the window `(lo, hi]` (`[lo, hi]` when `closed_start`), into `out`.
 fn clip(loads: &[BeamLoad], (lo, hi): (f64, f64), closed_start: bool, out: &mut Vec<BeamLoad>) {

@@ -124,6 +124,8 @@ pub struct Item {
     /// For an arranged imposed load: its cells and, at every post, the worst arrangement. The
     /// whole-load reactions above are then the case with every cell loaded.
     pub arranged: Option<Arranged>,
+    /// For a load-class imposed load on a deck: the level of that deck, m (a working level).
+    pub working_level: Option<f64>,
 }
 
 /// An arranged imposed load: split into cells, each present or absent, so that at every post the
@@ -136,6 +138,8 @@ pub struct Arranged {
     /// the cells that lift it (≤ 0)), kN — reactions for a plate, load passed on for any other
     /// post.
     pub extremes: Vec<(u32, f64, f64)>,
+    /// For each entry of `extremes`: how many cells push that post down, and how many lift it.
+    pub counts: Vec<(u32, u32)>,
     /// Worst relative equilibrium residual of a single cell: largest of |ΣF| / F and
     /// |ΣM| / (F·L) over the cells (L the plan size of the structure, at least 1 m).
     pub worst_cell_residual: f64,
@@ -175,7 +179,7 @@ pub enum CellPlace {
 impl Item {
     /// An item of a load with nothing reaching the base yet.
     pub fn new(id: impl Into<String>, case: Case, applied: Resultant) -> Self {
-        Item { id: id.into(), case, applied, vertical: Vec::new(), internal: Vec::new(), shear: Vec::new(), direction: None, vertical_permanent_basis: None, arranged: None }
+        Item { id: id.into(), case, applied, vertical: Vec::new(), internal: Vec::new(), shear: Vec::new(), direction: None, vertical_permanent_basis: None, arranged: None, working_level: None }
     }
 
     /// Horizontal loads in the same plan direction act together; loads in different directions

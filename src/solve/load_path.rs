@@ -18,8 +18,9 @@ use std::collections::BinaryHeap;
 use crate::scene::standing::{Member, StandsOn};
 use crate::solve::beam::{share_simple, BeamLoad, Piece};
 use crate::solve::continuous::{JointedBeam, TwoSpanLocal};
+use crate::solve::arrangement::FlowCache;
 use crate::solve::passes::Behaviour;
-use crate::scene::loads::{Case, LoadKind};
+use crate::scene::loads::{Case, Intensity, LoadKind};
 use crate::solve::rigid_base::{RigidBase, RigidBaseError};
 use crate::scene::validate::{Model, Target};
 use crate::solve::items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
@@ -122,6 +123,12 @@ pub(super) struct Solver<'m, 's> {
     pub(super) reactions: Vec<f64>,
     /// Single-post bearers' unbalanced moments of the current flow: (bearer, moment, scale).
     pub(super) unbalanced: Vec<(usize, f64, f64)>,
+    /// Behaviour of each bearer in this pass.
+    pub(super) bearer_behaviour: Vec<Behaviour>,
+    /// Unit flows kept from earlier passes.
+    pub(super) flow_cache: FlowCache,
+    /// Entries of the unit flows of one arranged load, reused from load to load.
+    pub(super) flow_buffer: Vec<(u32, f64)>,
     /// Single-post bearers' moments under the last arranged load, each way.
     pub(super) arranged_tee: Vec<crate::solve::arrangement::ArrangedTee>,
 }
@@ -135,15 +142,29 @@ pub fn solve(model: &Model) -> Result<Solution, SolveError> {
 
 /// One solution per method pass of the scene ([`method_passes`]), primary first.
 pub fn solve_methods(model: &Model) -> Result<Vec<Solution>, SolveError> {
-    method_passes(model.scene).into_iter().map(|pass| solve_pass(model, pass)).collect()
+    // Unit flows of the arranged loads are shared by the passes where a bearer behaves alike.
+    let mut cache = FlowCache::default();
+    method_passes(model.scene).into_iter().map(|pass| solve_pass_with(model, pass, &mut cache)).collect()
 }
 
 /// Carry every load of a validated scene down to the base plates, members behaving as `pass` says.
 pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveError> {
+    solve_pass_with(model, pass, &mut FlowCache::default())
+}
+
+fn solve_pass_with(model: &Model, pass: MethodPass, cache: &mut FlowCache) -> Result<Solution, SolveError> {
     let scene = model.scene;
     let plates: Vec<[f64; 3]> = scene.posts.iter().map(|p| [p.x, p.y, p.base_level]).collect();
     let is_plate: Vec<bool> = (0..scene.posts.len()).map(|p| model.graph.is_plate(p)).collect();
     let mut s = Solver::new(model, &pass);
+    s.flow_cache = std::mem::take(cache);
+    let solved = solve_with(&mut s, model, pass, plates, is_plate);
+    *cache = std::mem::take(&mut s.flow_cache);
+    solved
+}
+
+fn solve_with(s: &mut Solver, model: &Model, pass: MethodPass, plates: Vec<[f64; 3]>, is_plate: Vec<bool>) -> Result<Solution, SolveError> {
+    let scene = model.scene;
     // Slot 0: self-weight; slot k + 1: the scene's load k.
     let mut heads = TeeHeads::default();
     let mut items: Vec<Option<Item>> = vec![None; scene.loads.len() + 1];
@@ -219,6 +240,11 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
         s.flow(item, load.case);
         let mut it = s.take_item(Item::new(load.id.clone(), load.case, applied));
         it.arranged = s.arrange(load, model.load_targets[k]);
+        if let (Case::Q, Target::Deck(d), LoadKind::DeckArea { intensity, .. } | LoadKind::DeckPatch { intensity, .. }) = (load.case, model.load_targets[k], &load.kind) {
+            if matches!(intensity, Intensity::LoadClassUniform(_) | Intensity::LoadClassPartial(_)) {
+                it.working_level = Some(scene.decks[d].level);
+            }
+        }
         if load.case == Case::G {
             heads.permanent(&s.unbalanced);
         } else if it.arranged.is_some() {
@@ -278,7 +304,7 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
     }
     let items = items.into_iter().map(|i| i.expect("every load is solved once")).collect();
     let local_residual = s.bearer_beams.iter().chain(&s.deck_beams).flatten().map(MemberBeam::worst_residual).fold(0.0, f64::max);
-    Ok(Solution { plates, is_plate, items, contributions: s.contributions, method: pass, head_moments, local_residual })
+    Ok(Solution { plates, is_plate, items, contributions: std::mem::take(&mut s.contributions), method: pass, head_moments, local_residual })
 }
 
 impl<'m, 's> Solver<'m, 's> {
@@ -317,6 +343,9 @@ impl<'m, 's> Solver<'m, 's> {
             reactions: Vec::new(),
             unbalanced: Vec::new(),
             arranged_tee: Vec::new(),
+            bearer_behaviour: (0..model.bearers.len()).map(|b| pass.bearer(scene, b)).collect(),
+            flow_cache: FlowCache::default(),
+            flow_buffer: Vec::new(),
         }
     }
 

@@ -8,6 +8,7 @@
 //! - [`rigid_base`]: horizontal loads shared among the plates of a rigid braced structure.
 //! - [`tee_heads`]: bearers on a single post must balance, or stay within a stated head moment
 //!   capacity, with either arm loaded alone.
+//! - [`influence`]: the reaction at every post for a unit load anywhere on a deck.
 //! - [`passes`]: the method passes (simple spans, continuous, mixtures) the envelope needs.
 //! - [`items`]: what the solver hands on — load items, their reactions and the trace.
 //!
@@ -16,6 +17,7 @@
 pub mod arrangement;
 pub mod beam;
 pub mod continuous;
+pub mod influence;
 pub mod items;
 pub mod load_path;
 pub mod passes;

@@ -444,7 +444,7 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
     // its corners' circle).
     let footprint = |i: usize, with_cue: bool| -> Option<Rect> {
         let p = &a.plates[i];
-        let post = doc.scene.posts.get(i)?;
+        let post = doc.scene.posts.get(p.post)?;
         let s = post.support.as_deref().and_then(|s| supports.get(s))?;
         let b = s.bearing_plate();
         let st = reading(p, comb).1;
