@@ -397,3 +397,44 @@ fn the_analysis_method_is_an_undoable_edit_and_the_results_name_it() {
     let changed = back.plates.iter().zip(&max_simple).filter(|(p, s)| p.governing().max_kn > **s + 1e-9).count();
     assert!(changed > 0, "continuity raises some plate's maximum");
 }
+
+#[test]
+fn the_catalogue_follows_the_open_file() {
+    // common practice, no source: a catalogue.ron beside the scene adds to the shipped one,
+    // and opening a file elsewhere reads that folder's instead
+    let site = temp_dir("catalogue-site");
+    let other = temp_dir("catalogue-other");
+    std::fs::write(site.join("catalogue.ron"), r#"(members: [(id: "site-beam", self_weight_kn_per_m: 0.2, confidence: Confirmed, source: "supplier's sheet")])"#).unwrap();
+    let first = site.join("a.ron");
+    let second = other.join("b.ron");
+    plateload::scene::io::save_scene(&first, &demo()).unwrap();
+    plateload::scene::io::save_scene(&second, &demo()).unwrap();
+    let mut app = App::new();
+    app.add_plugins(MinimalPlugins);
+    app.insert_resource(SceneDoc::new(demo(), Some(first.clone())));
+    app.add_plugins(super::catalogue::CataloguePlugin);
+    app.update();
+    let cat = |app: &App| app.world().resource::<super::catalogue::EditorCatalogue>().loaded.clone();
+    assert!(cat(&app).catalogue.member("site-beam").is_some(), "{:?}", cat(&app).files);
+    assert!(cat(&app).catalogue.jack(plateload::scene::catalogue::DEFAULT_JACK).is_some(), "shipped entries stay");
+    app.world_mut().resource_mut::<SceneDoc>().path = Some(second);
+    app.update();
+    assert!(cat(&app).catalogue.member("site-beam").is_none());
+}
+
+#[test]
+fn the_shipped_icon_and_fonts_load() {
+    // source: PNG specification (ISO/IEC 15948): the icon decodes to 8-bit RGBA; the font files
+    // start with the TrueType version tag 0x00010000 (OpenType specification, 'sfnt version')
+    let (rgba, w, h) = super::shipped::icon_rgba().unwrap();
+    assert_eq!((w, h, rgba.len()), (128, 128, 128 * 128 * 4));
+    assert!(rgba.chunks(4).any(|p| p[3] == 0) && rgba.chunks(4).any(|p| p[3] == 255), "rounded corners are transparent, the body opaque");
+    for font in [super::shipped::SANS, super::shipped::MONO] {
+        assert_eq!(&font[..4], &[0, 1, 0, 0]);
+    }
+    let defs = super::shipped::font_definitions();
+    use bevy_egui::egui::FontFamily;
+    assert_eq!(defs.families[&FontFamily::Proportional][0], "DejaVu Sans");
+    assert_eq!(defs.families[&FontFamily::Monospace][0], "DejaVu Sans Mono");
+    assert!(defs.families[&FontFamily::Proportional].len() > 1, "egui's own fonts stay as fallbacks");
+}

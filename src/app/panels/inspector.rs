@@ -4,6 +4,7 @@
 use bevy_egui::egui;
 use plateload::edit::{dependants, DeleteMode, Edit, Element};
 use plateload::scene::loads::{Case, Face, Intensity, KentledgeForm, KentledgePlace, LoadKind, PlanDirection};
+use plateload::scene::catalogue::{self, Catalogue};
 use plateload::scene::model::{BeamMethod, BeamRole, ElementKind, Interface, PlateSize, Rect};
 use plateload::export::palette::Band;
 use plateload::Scene;
@@ -193,7 +194,7 @@ fn intensity_ui(ui: &mut egui::Ui, f: &mut Fields, i: &mut Intensity) {
 
 impl InspectorPanel {
     /// Draw the selected element's fields and results.
-    pub fn ui(&mut self, ui: &mut egui::Ui, doc: &SceneDoc, selection: &Selection, actions: &mut Vec<Action>) {
+    pub fn ui(&mut self, ui: &mut egui::Ui, doc: &SceneDoc, cat: &Catalogue, selection: &Selection, actions: &mut Vec<Action>) {
         let scene = &doc.scene;
         let Some(r) = selection.single().cloned() else {
             if selection.items.is_empty() {
@@ -231,6 +232,7 @@ impl InspectorPanel {
                 pick_id(ui, "Support type", "post-support", &mut s, &support_ids);
                 p.support = (!s.is_empty()).then_some(s);
                 f.num(ui, "Self-weight", &mut p.self_weight_kn_per_m, 0.001, " kN/m");
+                section_ui(ui, "post-section", &mut p.section, &mut p.self_weight_kn_per_m, cat);
             }
             Element::Bearer(b) => {
                 committed |= f.text(ui, "Id", &mut b.id);
@@ -246,6 +248,7 @@ impl InspectorPanel {
                 f.num(ui, "Overhang at start", &mut b.overhang_start_m, 0.01, " m");
                 f.num(ui, "Overhang at end", &mut b.overhang_end_m, 0.01, " m");
                 f.num(ui, "Self-weight", &mut b.self_weight_kn_per_m, 0.001, " kN/m");
+                section_ui(ui, "bearer-section", &mut b.section, &mut b.self_weight_kn_per_m, cat);
                 method_choice(ui, "bearer-method", &mut b.method, scene.analysis.method);
             }
             Element::Deck(d) => {
@@ -257,6 +260,7 @@ impl InspectorPanel {
                 f.num(ui, "Extent y to", &mut d.extent.y.1, 0.01, " m");
                 committed |= f.ids(ui, "Bearers (across the span)", &mut d.bearers);
                 f.num(ui, "Self-weight", &mut d.self_weight_kpa, 0.01, " kPa");
+                decking_ui(ui, d, cat);
                 method_choice(ui, "deck-method", &mut d.method, scene.analysis.method);
             }
             Element::Brace(b) => {
@@ -278,19 +282,71 @@ impl InspectorPanel {
             }
             Element::SupportType(s) => {
                 committed |= f.text(ui, "Id", &mut s.id);
+                ui.label("Base jack");
+                let jack = s.catalogue_id.as_deref().and_then(|id| cat.jack(id));
+                let shown = match (&s.catalogue_id, jack) {
+                    (Some(id), Some(_)) => id.clone(),
+                    (Some(id), None) => format!("{id} (not in this catalogue)"),
+                    (None, _) => "own values".to_owned(),
+                };
+                egui::ComboBox::from_id_salt("support-jack").selected_text(shown).width(190.0).show_ui(ui, |ui| {
+                    for j in &cat.jacks {
+                        let tag = if j.example { " — EXAMPLE" } else { "" };
+                        let text = format!("{}: {} kN up to {} m extension{tag}", j.id, j.swl_kn, j.max_extension_m);
+                        if ui.selectable_label(s.catalogue_id.as_deref() == Some(&j.id), text).on_hover_text(j.source.as_str()).clicked() {
+                            catalogue::apply_jack(s, j);
+                        }
+                    }
+                });
+                ui.end_row();
                 f.num(ui, "Base plate width", &mut s.base_plate.width_m, 0.005, " m");
                 f.num(ui, "Base plate length", &mut s.base_plate.length_m, 0.005, " m");
                 f.num(ui, "Safe working load", &mut s.swl_kn, 0.5, " kN");
-                ui.label("Sole plate");
-                let mut has = s.sole_plate.is_some();
-                ui.checkbox(&mut has, "under the base plate");
+                ui.label("… up to extension");
+                let mut known = s.max_extension_m.is_some();
+                ui.horizontal(|ui| {
+                    ui.checkbox(&mut known, "");
+                    if let Some(e) = &mut s.max_extension_m {
+                        ui.add(egui::DragValue::new(e).speed(0.01).range(0.0..=5.0).suffix(" m"));
+                    }
+                });
                 ui.end_row();
-                if has != s.sole_plate.is_some() {
-                    s.sole_plate = has.then_some(PlateSize { width_m: 0.225, length_m: 0.45 });
+                if known != s.max_extension_m.is_some() {
+                    s.max_extension_m = known.then_some(0.0);
                 }
+                committed |= f.text(ui, "Source of the SWL", &mut s.source);
+                ui.label("Example values");
+                ui.checkbox(&mut s.example, "replace with the manufacturer's").on_hover_text("While this is ticked, validation warns that the safe working load is not a manufacturer's figure.");
+                ui.end_row();
+                ui.label("Sole plate");
+                let shown = match (&s.sole_plate, &s.sole_plate_id) {
+                    (None, _) => "none".to_owned(),
+                    (Some(_), Some(id)) => id.clone(),
+                    (Some(_), None) => "own size".to_owned(),
+                };
+                egui::ComboBox::from_id_salt("support-sole").selected_text(shown).width(190.0).show_ui(ui, |ui| {
+                    if ui.selectable_label(s.sole_plate.is_none(), "none").clicked() {
+                        catalogue::apply_sole_plate(s, None);
+                    }
+                    for e in &cat.sole_plates {
+                        if ui.selectable_label(s.sole_plate_id.as_deref() == Some(&e.id), format!("{}: {}", e.id, e.name)).on_hover_text(e.source.as_str()).clicked() {
+                            catalogue::apply_sole_plate(s, Some(e));
+                        }
+                    }
+                    if ui.selectable_label(s.sole_plate.is_some() && s.sole_plate_id.is_none(), "own size").clicked() && (s.sole_plate.is_none() || s.sole_plate_id.is_some()) {
+                        s.sole_plate = Some(s.sole_plate.unwrap_or(PlateSize { width_m: 0.225, length_m: 0.45 }));
+                        s.sole_plate_id = None;
+                    }
+                });
+                ui.end_row();
                 if let Some(sole) = &mut s.sole_plate {
+                    let before = *sole;
                     f.num(ui, "Sole plate width", &mut sole.width_m, 0.005, " m");
                     f.num(ui, "Sole plate length", &mut sole.length_m, 0.005, " m");
+                    if *sole != before {
+                        // Sized by hand: no longer the catalogue's entry.
+                        s.sole_plate_id = None;
+                    }
                 }
                 friction_ui(ui, &mut f, &mut s.friction);
             }
@@ -430,6 +486,45 @@ impl InspectorPanel {
         }
         refs_of(ui, scene, &original, actions);
     }
+}
+
+/// The catalogue section of a post or member: choosing one copies its self-weight; a self-weight
+/// typed by hand no longer names a section.
+fn section_ui(ui: &mut egui::Ui, salt: &str, section: &mut Option<String>, self_weight: &mut f64, cat: &Catalogue) {
+    let entry = section.as_deref().and_then(|id| cat.member(id));
+    if let Some(e) = entry
+        && e.self_weight_kn_per_m != *self_weight
+    {
+        *section = None;
+    }
+    ui.label("Section");
+    egui::ComboBox::from_id_salt(salt).selected_text(section.clone().unwrap_or_else(|| "own value".into())).width(190.0).show_ui(ui, |ui| {
+        for m in &cat.members {
+            if ui.selectable_label(section.as_deref() == Some(&m.id), format!("{}: {} kN/m", m.id, m.self_weight_kn_per_m)).on_hover_text(m.source.as_str()).clicked() {
+                *self_weight = m.self_weight_kn_per_m;
+                *section = Some(m.id.clone());
+            }
+        }
+    });
+    ui.end_row();
+}
+
+/// The catalogue decking of a deck, as [`section_ui`].
+fn decking_ui(ui: &mut egui::Ui, d: &mut plateload::Deck, cat: &Catalogue) {
+    if let Some(e) = d.decking.as_deref().and_then(|id| cat.deck(id))
+        && e.self_weight_kpa != d.self_weight_kpa
+    {
+        d.decking = None;
+    }
+    ui.label("Decking");
+    egui::ComboBox::from_id_salt("deck-decking").selected_text(d.decking.clone().unwrap_or_else(|| "own value".into())).width(190.0).show_ui(ui, |ui| {
+        for e in &cat.decks {
+            if ui.selectable_label(d.decking.as_deref() == Some(&e.id), format!("{}: {} kPa", e.id, e.self_weight_kpa)).on_hover_text(e.source.as_str()).clicked() {
+                catalogue::apply_deck(d, e);
+            }
+        }
+    });
+    ui.end_row();
 }
 
 fn selection_buttons(ui: &mut egui::Ui, actions: &mut Vec<Action>) {
