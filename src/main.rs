@@ -39,7 +39,7 @@ enum Command {
         /// Print the result as JSON (shape documented in the README).
         #[arg(long)]
         json: bool,
-        /// Exit with code 3 if any base plate is over capacity or lifts.
+        /// Exit with code 3 if any base plate is over capacity, lifts or slides, or overturning or sliding fails.
         #[arg(long)]
         strict: bool,
     },
@@ -50,7 +50,7 @@ enum Command {
         /// Output file; standard output if omitted. Written atomically.
         #[arg(short, long)]
         output: Option<PathBuf>,
-        /// Exit with code 3 if any base plate is over capacity or lifts.
+        /// Exit with code 3 if any base plate is over capacity, lifts or slides, or overturning or sliding fails.
         #[arg(long)]
         strict: bool,
     },
@@ -73,7 +73,7 @@ enum Command {
         /// Paper size the print rules are set for.
         #[arg(long, value_enum, default_value_t = PaperArg::A4)]
         paper: PaperArg,
-        /// Exit with code 3 if any base plate is over capacity or lifts.
+        /// Exit with code 3 if any base plate is over capacity, lifts or slides, or overturning or sliding fails.
         #[arg(long)]
         strict: bool,
     },
@@ -385,7 +385,9 @@ wrote the spare-capacity map of {} deck(s) to {}", map.decks.len(), out.display(
 fn strict_code(strict: bool, analysis: &Analysis) -> ExitCode {
     if strict && analysis.any_failure() {
         let bad = analysis.plates.iter().filter(|p| !p.status.is_ok()).count();
-        eprintln!("strict check failed: {bad} base plate(s) over capacity or lifting");
+        let whole = [(analysis.stability.fails(), "overturning"), (analysis.sliding.fails(), "sliding")].iter().filter(|w| w.0).map(|w| w.1).collect::<Vec<_>>().join(" and ");
+        let whole = if whole.is_empty() { String::new() } else { format!("; {whole} fails") };
+        eprintln!("strict check failed: {bad} base plate(s) over capacity, lifting or sliding{whole}");
         ExitCode::from(EXIT_STRICT_FAILED)
     } else {
         ExitCode::SUCCESS
@@ -435,6 +437,11 @@ fn validate(file: &Path) -> anyhow::Result<ExitCode> {
 fn solve_text(a: &Analysis) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "{}\n{CAUTION}\n", a.scene_name);
+    let _ = writeln!(s, "findings at a glance:");
+    for f in plateload::export::findings::findings(a) {
+        let _ = writeln!(s, "  {:<11} {}: {}", f.verdict.label(), f.check, f.text);
+    }
+    let _ = writeln!(s);
     let _ = write!(s, "{:<10} {:>8} {:>8} {:>9} {:>9} {:>9}", "base", "x m", "y m", "G kN", "Q kN", "W kN");
     for c in &a.combinations {
         let _ = write!(s, " {:>21}", format!("{} max/min kN", c.name));
@@ -471,15 +478,42 @@ fn solve_text(a: &Analysis) -> String {
     if let Some(w) = a.worst_plate() {
         let p = &a.plates[w];
         let g = p.governing();
-        let by = if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" };
-        let _ = writeln!(s, "\nworst base: {} at {:.1}% ({by}, {})", p.id, num(100.0 * g.utilisation), a.combinations[p.governing].name);
+        let _ = writeln!(s, "\nworst base: {} at {:.1}% ({}, {})", p.id, num(100.0 * g.utilisation), g.governed_by(), a.combinations[p.governing].name);
         for note in a.arrangements_at(w) {
             let _ = writeln!(s, "  arrangement at {}: {}", p.id, note.words());
         }
     }
     let over = a.plates.iter().filter(|p| p.status.over).count();
     let uplift = a.plates.iter().filter(|p| p.status.uplift).count();
-    let _ = writeln!(s, "over capacity: {over}   lifting: {uplift}   of {} base plates", a.plates.len());
+    let slides = a.plates.iter().filter(|p| p.status.slides).count();
+    let _ = writeln!(s, "over capacity: {over}   lifting: {uplift}   sliding: {slides}   of {} base plates", a.plates.len());
+    let g = &a.ground;
+    let _ = write!(s, "ground: ");
+    match g.allowable_kpa {
+        Some(q) => {
+            let _ = write!(s, "allowable at formation {:.1} kPa ({})", num(q), g.basis.label());
+        }
+        None => {
+            let _ = write!(s, "no allowable at formation entered: bearing NOT CHECKED (kPa column for information)");
+        }
+    }
+    if let Some(l) = g.layer {
+        let added = if g.layer_weight_added_kpa() > 0.0 { "added at formation" } else { "not added" };
+        let _ = write!(s, "; granular layer {:.3} m at {:.1} kN/m³ = {:.2} kPa {added}", num(l.thickness_m), num(l.unit_weight_kn_m3), num(l.self_weight_kpa()));
+        match l.allowable_kpa {
+            Some(q) => {
+                let _ = write!(s, "; allowable on the layer {:.1} kPa", num(q));
+            }
+            None => {
+                let _ = write!(s, "; no allowable on the layer entered: layer top NOT CHECKED");
+            }
+        }
+    }
+    let _ = writeln!(s);
+    let groups = g.formation_groups.iter().chain(&g.surface_groups).count();
+    if groups > 0 {
+        let _ = writeln!(s, "overlapping bearing areas: {groups} group(s), each plate checked on the larger of its own pressure and its group's total over the union");
+    }
     let whole: Vec<&str> = a.whole_loads.iter().map(String::as_str).collect();
     let _ = writeln!(
         s,
@@ -531,28 +565,105 @@ fn solve_text(a: &Analysis) -> String {
     if let Some((x, y)) = st.centre_of_gravity {
         let _ = write!(s, ", centre of gravity ({:.3}, {:.3})", num(x), num(y));
     }
-    let _ = writeln!(s, ", target factor {:.2}", num(st.target_factor));
-    for d in &st.directions {
-        match d.factor {
-            None => {
-                let _ = writeln!(s, "  tipping {}: nothing overturns", d.direction);
+    let e = st.equilibrium;
+    let _ = writeln!(s, ", target factor {:.2}; equilibrium γG {:.2}/{:.2}, γQ {:.2}, γW {:.2}", num(st.target_factor), num(e.g_unfavourable), num(e.g_favourable), num(e.q), num(e.w));
+    if let Some(why) = &st.refused {
+        let _ = writeln!(s, "  overturning NOT CHECKED: {why}");
+    }
+    let mut quiet = 0;
+    for structure in &st.structures {
+        if structure.axes.iter().all(|x| x.factor.is_none() && x.equ_utilisation.is_none()) {
+            quiet += 1;
+            continue;
+        }
+        let _ = writeln!(s, "  {} on plates {}:", structure.label, structure.hull.join(" – "));
+        for ax in &structure.axes {
+            let Some(f) = ax.factor else {
+                let _ = writeln!(s, "    tipping {} about {}: nothing overturns", ax.towards, ax.about);
+                continue;
+            };
+            let overturning = ax.permanent_destabilising_knm + ax.imposed_destabilising_knm + ax.horizontal_destabilising_knm;
+            let equ = ax.equ_utilisation.map_or_else(|| "-".to_owned(), |u| format!("{:.2}", num(u)));
+            let verdict = if ax.passes() {
+                "meets both".to_owned()
+            } else {
+                match &ax.kentledge {
+                    Some(k) => match (k.needed_kn, &k.cannot) {
+                        (Some(w), _) => format!("FAILS: needs {:.2} kN kentledge over {} (lever {:.3} m), secured", num(w), k.plates.iter().take(6).cloned().collect::<Vec<_>>().join(", "), num(k.lever_m)),
+                        (None, Some(c)) => format!("FAILS: {c}"),
+                        (None, None) => "FAILS".to_owned(),
+                    },
+                    None => "FAILS".to_owned(),
+                }
+            };
+            let _ = writeln!(
+                s,
+                "    tipping {} about {}: restoring {:.3} / overturning {:.3} kN·m (G {:.3}, Q {:.3}, W {:.3}) = {:.2}; E_dst/E_stb {:.3}/{:.3} = {equ}; {verdict}",
+                ax.towards,
+                ax.about,
+                num(ax.permanent_stabilising_knm),
+                num(overturning),
+                num(ax.permanent_destabilising_knm),
+                num(ax.imposed_destabilising_knm),
+                num(ax.horizontal_destabilising_knm),
+                num(f),
+                num(ax.equ_destabilising_knm),
+                num(ax.equ_stabilising_knm)
+            );
+        }
+    }
+    if quiet > 0 {
+        let _ = writeln!(s, "  {quiet} structure(s): nothing overturns");
+    }
+    let sl = &a.sliding;
+    if !sl.checks.is_empty() {
+        let _ = writeln!(s, "sliding (target factor {:.2}):", num(sl.target_factor));
+        for c in &sl.checks {
+            match &c.not_checked {
+                Some(why) => {
+                    let _ = writeln!(s, "  {} {}: NOT CHECKED: {why}", c.structure, c.towards);
+                }
+                None => {
+                    let _ = writeln!(
+                        s,
+                        "  {} {}: friction {:.3} / horizontal {:.3} kN = {:.2}; factored {:.3} against {:.3} kN; {}",
+                        c.structure,
+                        c.towards,
+                        num(c.friction_kn),
+                        num(c.horizontal_kn),
+                        num(c.factor.unwrap_or(0.0)),
+                        num(c.equ_horizontal_kn),
+                        num(c.equ_friction_kn),
+                        if c.meets_target && c.equ_ok { "meets both" } else { "FAILS" }
+                    );
+                }
             }
-            Some(f) => {
-                let k = match d.kentledge_kn {
-                    Some(k) if k > 0.0 => format!("needs {:.2} kN kentledge over the opposite edge", num(k)),
-                    Some(_) => "meets the target".into(),
-                    None => "no base width to add kentledge on".into(),
-                };
-                let _ = writeln!(
-                    s,
-                    "  tipping {} about edge {:.3} m: restoring {:.3} kN·m / overturning {:.3} kN·m = {:.2}; {k}",
-                    d.direction,
-                    num(d.edge_m),
-                    num(d.restoring_knm),
-                    num(d.overturning_knm),
-                    num(f)
-                );
-            }
+        }
+    }
+    let held: Vec<&plateload::PlateResult> = a.plates.iter().filter(|p| p.hold_down.is_some()).collect();
+    if !held.is_empty() {
+        let _ = writeln!(s, "hold-down of lifting plates:");
+        for p in held {
+            let h = p.hold_down.expect("filtered");
+            let k = h.kentledge_kn.map_or_else(String::new, |k| format!(" or {:.3} kN secured kentledge", num(k)));
+            let _ = writeln!(s, "  {}: anchor {:.3} kN{k} ({})", p.id, num(h.anchor_kn), a.combinations[h.combination].name);
+        }
+    }
+    let restrained: Vec<&plateload::PlateResult> = a.plates.iter().filter(|p| p.status.slides).collect();
+    if !restrained.is_empty() {
+        let _ = writeln!(s, "plates to restrain against sliding:");
+        for p in restrained {
+            let sl = p.sliding.as_ref().expect("a sliding plate has its check");
+            let _ = writeln!(
+                s,
+                "  {}: shear {:.3} kN, least vertical {:.3} kN, μ {:.2}: restraint {:.3} kN ({})",
+                p.id,
+                num(sl.shear_kn),
+                num(sl.normal_kn),
+                num(sl.mu.unwrap_or(0.0)),
+                num(sl.restraint_kn),
+                sl.towards
+            );
         }
     }
     if !a.warnings.is_empty() {

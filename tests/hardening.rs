@@ -61,7 +61,7 @@ fn assert_finite(a: &Analysis) {
         }
         bad(&format!("plate {} bearing area", p.id), p.bearing_area_m2);
         for c in &p.combinations {
-            for v in [c.max_kn, c.min_kn, c.load_utilisation, c.bearing_kpa, c.bearing_utilisation, c.utilisation] {
+            for v in [c.max_kn, c.min_kn, c.load_utilisation, c.bearing_kpa, c.bearing_utilisation.unwrap_or(0.0), c.layer_top_kpa.unwrap_or(0.0), c.layer_utilisation.unwrap_or(0.0), c.utilisation] {
                 bad(&format!("plate {} combination value", p.id), v);
             }
         }
@@ -78,15 +78,30 @@ fn assert_finite(a: &Analysis) {
         bad("centre of gravity", x);
         bad("centre of gravity", y);
     }
-    for d in &st.directions {
-        for v in [d.edge_m, d.restoring_knm, d.overturning_knm] {
+    for d in st.structures.iter().flat_map(|s| &s.axes) {
+        for v in [d.permanent_stabilising_knm, d.permanent_destabilising_knm, d.imposed_destabilising_knm, d.horizontal_destabilising_knm, d.equ_destabilising_knm, d.equ_stabilising_knm] {
             bad("overturning", v);
         }
         if let Some(f) = d.factor {
             bad("overturning factor", f);
         }
-        if let Some(k) = d.kentledge_kn {
+        if let Some(k) = d.kentledge.as_ref().and_then(|k| k.needed_kn) {
             bad("kentledge", k);
+        }
+    }
+    for c in &a.sliding.checks {
+        for v in [c.horizontal_kn, c.friction_kn, c.equ_horizontal_kn, c.equ_friction_kn, c.factor.unwrap_or(0.0)] {
+            bad("sliding", v);
+        }
+    }
+    for p in &a.plates {
+        if let Some(s) = &p.sliding {
+            for v in [s.shear_kn, s.normal_kn, s.restraint_kn, s.equ_shear_kn, s.equ_friction_kn] {
+                bad(&format!("plate {} sliding", p.id), v);
+            }
+        }
+        if let Some(h) = p.hold_down {
+            bad(&format!("plate {} hold-down", p.id), h.anchor_kn);
         }
     }
 }
@@ -315,9 +330,15 @@ fn fuzz_mutated_scene_texts_never_panic_or_hang() {
 /// Every number in a scene, mutably.
 fn numbers_mut(s: &mut Scene) -> Vec<&mut f64> {
     let mut v: Vec<&mut f64> = Vec::new();
-    v.push(&mut s.site.allowable_bearing_kpa);
+    if let Some(q) = &mut s.site.allowable_bearing_kpa {
+        v.push(q);
+    }
     if let Some(l) = &mut s.site.granular_layer {
         v.push(&mut l.thickness_m);
+        v.push(&mut l.unit_weight_kn_m3);
+        if let Some(q) = &mut l.allowable_kpa {
+            v.push(q);
+        }
         if let plateload::scene::model::LoadSpread::AngleDeg(a) = &mut l.spread {
             v.push(a);
         }
@@ -369,6 +390,12 @@ fn numbers_mut(s: &mut Scene) -> Vec<&mut f64> {
                     v.push(a);
                 }
             }
+            LoadKind::Kentledge { on, kn, .. } => {
+                v.push(kn);
+                if let plateload::scene::loads::KentledgePlace::Deck { x, y, .. } = on {
+                    v.extend([x, y]);
+                }
+            }
             LoadKind::Notional { percent, direction, .. } => {
                 v.push(percent);
                 if let PlanDirection::Degrees(a) = direction {
@@ -381,6 +408,9 @@ fn numbers_mut(s: &mut Scene) -> Vec<&mut f64> {
         v.extend([&mut c.factors.g_unfavourable, &mut c.factors.g_favourable, &mut c.factors.q, &mut c.factors.w]);
     }
     v.push(&mut s.stability.target_factor);
+    v.push(&mut s.stability.sliding_target_factor);
+    let e = &mut s.stability.equilibrium;
+    v.extend([&mut e.g_unfavourable, &mut e.g_favourable, &mut e.q, &mut e.w]);
     v
 }
 
@@ -413,6 +443,8 @@ fn strings_mut(s: &mut Scene) -> Vec<&mut String> {
             LoadKind::DeckArea { deck, .. } | LoadKind::DeckPatch { deck, .. } | LoadKind::DeckPoint { deck, .. } => v.push(deck),
             LoadKind::BearerPoint { bearer, .. } | LoadKind::BearerLine { bearer, .. } => v.push(bearer),
             LoadKind::PostTop { post, .. } => v.push(post),
+            LoadKind::Kentledge { on: plateload::scene::loads::KentledgePlace::Plates(ids), .. } => v.extend(ids.iter_mut()),
+            LoadKind::Kentledge { on: plateload::scene::loads::KentledgePlace::Deck { deck, .. }, .. } => v.push(deck),
             _ => {}
         }
     }
@@ -769,7 +801,7 @@ fn applied_force_from_scene(s: &Scene) -> [[f64; 3]; 3] {
         match &l.kind {
             LoadKind::DeckArea { deck: d, intensity } => f[c][2] -= intensity.kpa().unwrap() * deck(d).extent.area(),
             LoadKind::DeckPatch { area, intensity, .. } => f[c][2] -= intensity.kpa().unwrap() * area.area(),
-            LoadKind::DeckPoint { kn, .. } | LoadKind::BearerPoint { kn, .. } | LoadKind::PostTop { kn, .. } => f[c][2] -= kn,
+            LoadKind::DeckPoint { kn, .. } | LoadKind::BearerPoint { kn, .. } | LoadKind::PostTop { kn, .. } | LoadKind::Kentledge { kn, .. } => f[c][2] -= kn,
             LoadKind::BearerLine { from_m, to_m, kn_per_m, .. } => f[c][2] -= kn_per_m * (to_m - from_m),
             LoadKind::Horizontal { kn, direction, .. } => {
                 let (ux, uy) = direction.unit();
@@ -852,6 +884,13 @@ fn vertical_moment_from_scene(s: &Scene, case: Case) -> [f64; 3] {
                 let (x, y) = pos(post);
                 down(x, y, *kn);
             }
+            LoadKind::Kentledge { on: plateload::scene::loads::KentledgePlace::Plates(ids), kn, .. } => {
+                for id in ids {
+                    let (x, y) = pos(id);
+                    down(x, y, kn / ids.len() as f64);
+                }
+            }
+            LoadKind::Kentledge { on: plateload::scene::loads::KentledgePlace::Deck { x, y, .. }, kn, .. } => down(*x, *y, *kn),
             _ => {}
         }
     }
@@ -1087,14 +1126,20 @@ fn reactions_follow_a_mirrored_or_moved_scene() {
             let t = transform(&scene, sx, sy, if what == "moved" { d } else { [0.0; 3] });
             let b = analyse(&t).map_err(|e| TestCaseError::fail(format!("{what} scene refused: {e}")))?;
             same_results(&a, &b, what)?;
-            // Mirrored, the tipping factors swap sides.
-            let factor = |x: &Analysis, dir: &str| x.stability.directions.iter().find(|o| o.direction == dir).and_then(|o| o.factor);
-            let pairs: &[(&str, &str)] = if sx < 0.0 { &[("+x", "-x"), ("-x", "+x")] } else if sy < 0.0 { &[("+y", "-y"), ("-y", "+y")] } else { &[("+x", "+x"), ("+y", "+y")] };
-            for (p, q) in pairs {
-                match (factor(&a, p), factor(&b, q)) {
-                    (Some(u), Some(v)) => prop_assert!((u - v).abs() <= 1e-6 * u.abs().max(1.0), "{what}: factor {p} {u} vs {q} {v}"),
-                    (None, None) => {}
-                    (u, v) => prop_assert!(false, "{what}: factor {p} {u:?} vs {q} {v:?}"),
+            // Mirrored, each tipping axis is mirrored with the same factors.
+            for (sa, sb) in a.stability.structures.iter().zip(&b.stability.structures) {
+                for ax in &sa.axes {
+                    let n = [sx * ax.normal[0], sy * ax.normal[1]];
+                    let Some(bx) = sb.axes.iter().find(|o| (o.normal[0] - n[0]).abs() < 1e-7 && (o.normal[1] - n[1]).abs() < 1e-7) else {
+                        return Err(TestCaseError::fail(format!("{what}: no axis tipping towards {n:?}")));
+                    };
+                    for (u, v, which) in [(ax.factor, bx.factor, "factor"), (ax.equ_utilisation, bx.equ_utilisation, "EQU")] {
+                        match (u, v) {
+                            (Some(u), Some(v)) => prop_assert!((u - v).abs() <= 1e-6 * u.abs().max(1.0), "{what}: {which} about {} {u} vs {v}", ax.about),
+                            (None, None) => {}
+                            (u, v) => prop_assert!(false, "{what}: {which} about {} {u:?} vs {v:?}", ax.about),
+                        }
+                    }
                 }
             }
         }
@@ -1249,7 +1294,7 @@ fn extreme_values_are_refused() {
     s.posts[3].y = f64::NAN;
     refused(&s, &["post A2", "not a number"]);
     let mut s = small();
-    s.site.allowable_bearing_kpa = 1e-300;
+    s.site.allowable_bearing_kpa = Some(1e-300);
     refused(&s, &["allowable bearing", "smallest plausible"]);
 }
 
@@ -1279,8 +1324,13 @@ fn a_tee_head_that_tips_is_refused() {
 fn stability_settings_out_of_range_are_refused() {
     // common practice, no source
     let mut s = small();
-    s.stability = StabilitySettings { target_factor: 0.0 };
+    s.stability = StabilitySettings { target_factor: 0.0, ..StabilitySettings::default() };
     refused(&s, &["target overturning factor"]);
+    let mut s = small();
+    s.stability.sliding_target_factor = f64::NAN;
+    s.stability.equilibrium.g_favourable = -0.9;
+    s.stability.kentledge_plates = vec!["nowhere".into()];
+    refused(&s, &["target sliding factor", "equilibrium factor on stabilising permanent load", "kentledge plate \"nowhere\""]);
 }
 
 // ---------------------------------------------------------------------------------------------

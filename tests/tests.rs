@@ -7,6 +7,8 @@ mod util;
 mod solve;
 // Combinations, utilisation, bearing, schedule and JSON.
 mod check;
+// Overturning, kentledge, sliding, hold-down and ground bearing against hand calculations.
+mod stability;
 // Scene files: syntax errors with positions, round trips, atomic saves.
 mod io;
 // The component catalogue: shipped values against their sources, user catalogues, loader errors.

@@ -1,8 +1,11 @@
 //! One call from a scene to everything a site team needs: validate, solve, combine, check,
 //! prove equilibrium and summarise stability.
 
+use crate::check::bearing::Ground;
 use crate::check::equilibrium::{equilibrium, CaseEquilibrium};
 use crate::check::plates::{capacities, combine_envelope, PlateCombination, Status};
+use crate::check::sliding::{sliding, PlateSliding, Sliding};
+use crate::check::stability::{hold_down, HoldDown};
 use crate::scene::standing::StandsOn;
 use crate::scene::combination::Combination;
 use crate::scene::loads::Case;
@@ -45,8 +48,19 @@ pub struct PlateResult {
     pub swl_kn: f64,
     /// Bearing area at formation level (on an existing structure: the plate's own area), m².
     pub bearing_area_m2: f64,
-    /// Allowable bearing pressure on that area (the ground's, or the existing structure's), kPa.
-    pub allowable_kpa: f64,
+    /// Area under the plate or sole board (on the granular layer, or on the ground), m².
+    pub plate_area_m2: f64,
+    /// Allowable bearing pressure on that area (the ground's at formation, or the existing
+    /// structure's under the plate), kPa; `None`: not entered, bearing not checked.
+    pub allowable_kpa: Option<f64>,
+    /// Group of plates whose spread areas overlap at formation ([`crate::check::bearing::Ground::formation_groups`]).
+    pub formation_group: Option<u32>,
+    /// Group of plates whose bearing plates overlap on the layer or ground ([`crate::check::bearing::Ground::surface_groups`]).
+    pub surface_group: Option<u32>,
+    /// Hold-down the plate needs where it lifts.
+    pub hold_down: Option<HoldDown>,
+    /// Sliding of the plate under its base shear; `None` when it has none.
+    pub sliding: Option<PlateSliding>,
     /// Vertical reaction per case (G, Q, W), kN, upwards positive.
     pub case_kn: [f64; 3],
     /// Horizontal reaction per case (G, Q, W), [x, y] kN.
@@ -124,8 +138,12 @@ pub struct Analysis {
     pub equilibrium: [CaseEquilibrium; 3],
     /// Equilibrium proof per case for every method pass; `[0]` equals `equilibrium`.
     pub equilibrium_by_method: Vec<[CaseEquilibrium; 3]>,
-    /// Stability summary.
+    /// Overturning of each structure.
     pub stability: Stability,
+    /// Sliding of each structure and plate.
+    pub sliding: Sliding,
+    /// Ground data and the plates whose bearing areas overlap.
+    pub ground: Ground,
     /// Braced plan directions.
     pub braced: Braced,
     /// Non-fatal findings.
@@ -179,10 +197,14 @@ impl Analysis {
         let p = &self.plates[plate];
         if self.method_count() > 1 && p.methods_agree { METHODS_AGREE } else { self.method_label(p.min_method) }
     }
-    /// Whether any plate is over capacity or lifts, or any post standing on another member is
-    /// over its support's capacity or pulls up.
+    /// Whether any plate is over capacity, lifts or slides, any post standing on another member
+    /// is over its support's capacity or pulls up, or overturning or sliding fails.
     pub fn any_failure(&self) -> bool {
-        self.plates.iter().any(|p| !p.status.is_ok()) || self.lifts.iter().any(|l| !l.status.is_ok())
+        self.plates.iter().any(|p| !p.status.is_ok()) || self.lifts.iter().any(|l| !l.status.is_ok()) || self.stability.fails() || self.sliding.fails()
+    }
+    /// Whether the allowable bearing pressure at formation was entered (else bearing is not checked).
+    pub fn bearing_checked(&self) -> bool {
+        self.ground.allowable_kpa.is_some()
     }
     /// Base shear taken by the plates under each horizontal load on its own: (load id, case,
     /// [x, y] kN). Opposite loads of one case would cancel in the case totals.
@@ -266,7 +288,15 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
     let model = validate(scene).map_err(AnalysisError::Invalid)?;
     let mut solutions = solve_methods(&model).map_err(AnalysisError::Unsolvable)?;
     let caps = capacities(&model);
-    let envelope = combine_envelope(scene, &solutions, &caps);
+    let ground = Ground::new(&model, &solutions[0].plates);
+    let permanent: Vec<Vec<crate::check::permanent::PermanentParts>> = solutions.iter().map(|s| crate::check::permanent::permanent_parts(scene, s)).collect();
+    let envelope = combine_envelope(scene, &solutions, &permanent, &caps, &ground);
+    let structures = crate::check::stability::structures(&model);
+    // Overturning depends on the applied loads; horizontal loads are taken from every pass.
+    let stability = stability(&model, &solutions, &structures);
+    let labels: Vec<String> = stability.structures.iter().map(|s| s.label.clone()).collect();
+    let structure_plates: Vec<Vec<u32>> = stability.structures.iter().map(|s| s.plates.clone()).collect();
+    let mut sliding = sliding(scene, &solutions, &permanent, &model.post_support, &structure_plates, &labels);
     let case_by_method: Vec<Vec<[f64; 3]>> = solutions.iter().map(Solution::case_vertical).collect();
     let case_shear = solutions[0].case_shear();
     let capacity_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_capacity).collect();
@@ -299,7 +329,9 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
                 .filter(|&c| capacity_combos.is_empty() || capacity_combos.contains(&c))
                 .max_by(|&a, &b| combinations[a].utilisation.partial_cmp(&combinations[b].utilisation).unwrap_or(std::cmp::Ordering::Equal))
                 .unwrap_or(0);
-            let status = combinations.iter().fold(Status::default(), |s, c| s.or(c.status));
+            let plate_sliding = sliding.plates[i].take();
+            let mut status = combinations.iter().fold(Status::default(), |s, c| s.or(c.status));
+            status.slides = plate_sliding.as_ref().is_some_and(|s| s.slides);
             let lows: &[usize] = if uplift_combos.is_empty() { &all_combos } else { &uplift_combos };
             let lowest = lows
                 .iter()
@@ -323,8 +355,16 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
                 base_level: post.base_level,
                 support: support.id.clone(),
                 swl_kn: support.swl_kn,
-                bearing_area_m2: caps[i].bearing_area_m2,
-                allowable_kpa: caps[i].allowable_kpa,
+                bearing_area_m2: ground.formation_area_m2[i],
+                plate_area_m2: ground.plate_area_m2[i],
+                allowable_kpa: match ground.bears_on[i] {
+                    crate::check::bearing::BearsOn::Structure { structure, .. } => Some(ground.structure_allowable_kpa[structure]),
+                    _ => ground.allowable_kpa,
+                },
+                formation_group: ground.formation_group_of[i],
+                surface_group: ground.surface_group_of[i],
+                hold_down: hold_down(&scene.combinations, combinations.iter().map(|c| c.min_kn)),
+                sliding: plate_sliding,
                 case_kn: case_by_method[0][i],
                 case_shear_kn: case_shear[i],
                 governing_method: combinations.get(governing).map_or(0, |c| c.max_method),
@@ -339,17 +379,16 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
         })
         .collect();
     let equilibrium_by_method: Vec<[CaseEquilibrium; 3]> = solutions.iter().map(equilibrium).collect();
-    // Overturning depends on the applied loads only; a notional load's follows the vertical
-    // load into each post, which the method can shift between levels. The worst pass is kept.
-    let stability = solutions
-        .iter()
-        .map(|s| stability(s, scene.stability.target_factor))
-        .min_by(|a, b| {
-            let f = |s: &Stability| s.governing().and_then(|d| d.factor).unwrap_or(f64::INFINITY);
-            f(a).partial_cmp(&f(b)).unwrap_or(std::cmp::Ordering::Equal)
-        })
-        .expect("at least one method pass");
     let mut warnings = model.warnings;
+    for g in ground.mixed_level_groups() {
+        let ids: Vec<&str> = g.plates.iter().take(8).map(|&p| scene.posts[p as usize].id.as_str()).collect();
+        let more = if g.plates.len() > 8 { ", …" } else { "" };
+        warnings.push(Problem {
+            kind: crate::scene::model::ElementKind::Post,
+            id: ids[0].to_owned(),
+            message: format!("bearing areas of plates {}{more} overlap but stand at different levels: taken together as if at one level; check the ground under them by hand", ids.join(", ")),
+        });
+    }
     // T-heads that stand on their head's moment capacity: the worst moment over the passes.
     let mut heads: Vec<&crate::solve::tee_heads::HeadMoment> = solutions.iter().flat_map(|s| &s.head_moments).collect();
     heads.sort_by(|a, b| a.bearer.cmp(&b.bearer).then(b.moment_knm.total_cmp(&a.moment_knm)));
@@ -375,6 +414,8 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
         equilibrium: equilibrium_by_method[0],
         equilibrium_by_method,
         stability,
+        sliding,
+        ground,
         braced: model.braced,
         warnings,
         whole_loads: scene

@@ -442,10 +442,15 @@ fn plate_limit(room: &Room, p: u32, effect: f64, c: usize, m: usize) -> Option<B
 fn room_of(analysis: &Analysis, m: usize, c: usize, n_posts: usize) -> Room {
     let comb = &analysis.combinations[c];
     let mut room = Room { capacity: vec![None; n_posts], uplift: vec![None; n_posts] };
+    // Bearing room as the checks take it: on the layer and at formation, overlap groups included.
+    let mut max = vec![0.0; analysis.ground.plate_area_m2.len()];
+    for p in &analysis.plates {
+        max[p.post] = p.combinations_by_method[m][c].max_kn;
+    }
     for p in &analysis.plates {
         let r = &p.combinations_by_method[m][c];
         if comb.checks_capacity {
-            room.capacity[p.post] = Some((p.swl_kn - r.max_kn, p.allowable_kpa * p.bearing_area_m2 - r.max_kn));
+            room.capacity[p.post] = Some((p.swl_kn - r.max_kn, analysis.ground.room_kn(p.post, &max)));
         }
         if comb.checks_uplift {
             room.uplift[p.post] = Some(r.min_kn);

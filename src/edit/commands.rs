@@ -24,7 +24,7 @@ use std::fmt;
 
 use crate::scene::combination::Combination;
 use crate::scene::layout::{add_layout, LayoutSpec};
-use crate::scene::loads::{Load, LoadKind};
+use crate::scene::loads::{KentledgePlace, Load, LoadKind};
 use crate::scene::model::{AnalysisSettings, Bearer, Brace, Deck, ElementKind, ExistingStructure, Post, Scene, Site, StabilitySettings, SupportType};
 
 /// One element of a scene named by kind and id.
@@ -445,7 +445,7 @@ impl Tx<'_> {
                 Ok(())
             }
             Edit::SetStability(s) => {
-                self.make(Change::Stability(*s));
+                self.make(Change::Stability(s.clone()));
                 Ok(())
             }
             Edit::SetAnalysis(a) => {
@@ -711,6 +711,8 @@ fn rewrite_refs(e: &mut Element, f: &dyn Fn(ElementKind, &mut String)) {
             LoadKind::DeckArea { deck, .. } | LoadKind::DeckPatch { deck, .. } | LoadKind::DeckPoint { deck, .. } => f(ElementKind::Deck, deck),
             LoadKind::BearerPoint { bearer, .. } | LoadKind::BearerLine { bearer, .. } => f(ElementKind::Bearer, bearer),
             LoadKind::PostTop { post, .. } => f(ElementKind::Post, post),
+            LoadKind::Kentledge { on: KentledgePlace::Plates(posts), .. } => posts.iter_mut().for_each(|p| f(ElementKind::Post, p)),
+            LoadKind::Kentledge { on: KentledgePlace::Deck { deck, .. }, .. } => f(ElementKind::Deck, deck),
             LoadKind::Horizontal { .. } | LoadKind::Wind { .. } | LoadKind::Notional { .. } => {}
         },
     }
@@ -735,7 +737,17 @@ pub fn dependants(scene: &Scene, r: &ElementRef) -> Vec<ElementRef> {
         ElementKind::Post => {
             out.extend(scene.bearers.iter().filter(|b| b.posts.iter().any(|p| p == id)).map(|b| ElementRef::new(ElementKind::Bearer, &b.id)));
             out.extend(scene.braces.iter().filter(|b| b.from.post == id || b.to.post == id).map(|b| ElementRef::new(ElementKind::Brace, &b.id)));
-            out.extend(scene.loads.iter().filter(|l| matches!(&l.kind, LoadKind::PostTop { post, .. } if post == id)).map(|l| ElementRef::new(ElementKind::Load, &l.id)));
+            out.extend(
+                scene
+                    .loads
+                    .iter()
+                    .filter(|l| match &l.kind {
+                        LoadKind::PostTop { post, .. } => post == id,
+                        LoadKind::Kentledge { on: KentledgePlace::Plates(posts), .. } => posts.iter().any(|p| p == id),
+                        _ => false,
+                    })
+                    .map(|l| ElementRef::new(ElementKind::Load, &l.id)),
+            );
         }
         ElementKind::Bearer => {
             out.extend(scene.decks.iter().filter(|d| d.bearers.iter().any(|b| b == id)).map(|d| ElementRef::new(ElementKind::Deck, &d.id)));
@@ -752,7 +764,9 @@ pub fn dependants(scene: &Scene, r: &ElementRef) -> Vec<ElementRef> {
                 scene
                     .loads
                     .iter()
-                    .filter(|l| matches!(&l.kind, LoadKind::DeckArea { deck, .. } | LoadKind::DeckPatch { deck, .. } | LoadKind::DeckPoint { deck, .. } if deck == id))
+                    .filter(|l| {
+                        matches!(&l.kind, LoadKind::DeckArea { deck, .. } | LoadKind::DeckPatch { deck, .. } | LoadKind::DeckPoint { deck, .. } | LoadKind::Kentledge { on: KentledgePlace::Deck { deck, .. }, .. } if deck == id)
+                    })
                     .map(|l| ElementRef::new(ElementKind::Load, &l.id)),
             );
         }
@@ -806,7 +820,11 @@ fn shift(e: &mut Element, [dx, dy, dz]: [f64; 3]) {
                 face.bottom += dz;
                 face.top += dz;
             }
-            LoadKind::DeckArea { .. } | LoadKind::BearerPoint { .. } | LoadKind::BearerLine { .. } | LoadKind::PostTop { .. } | LoadKind::Notional { .. } => {}
+            LoadKind::Kentledge { on: KentledgePlace::Deck { x, y, .. }, .. } => {
+                *x += dx;
+                *y += dy;
+            }
+            LoadKind::DeckArea { .. } | LoadKind::BearerPoint { .. } | LoadKind::BearerLine { .. } | LoadKind::PostTop { .. } | LoadKind::Notional { .. } | LoadKind::Kentledge { .. } => {}
         },
     }
 }

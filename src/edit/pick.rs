@@ -185,7 +185,7 @@ impl ShapeOptions {
         for l in &scene.loads {
             match &l.kind {
                 LoadKind::DeckArea { intensity, .. } | LoadKind::DeckPatch { intensity, .. } => kpa = kpa.max(intensity.kpa().unwrap_or(0.0).abs()),
-                LoadKind::DeckPoint { kn: f, .. } | LoadKind::BearerPoint { kn: f, .. } | LoadKind::PostTop { kn: f, .. } | LoadKind::Horizontal { kn: f, .. } => kn = kn.max(f.abs()),
+                LoadKind::DeckPoint { kn: f, .. } | LoadKind::BearerPoint { kn: f, .. } | LoadKind::PostTop { kn: f, .. } | LoadKind::Horizontal { kn: f, .. } | LoadKind::Kentledge { kn: f, .. } => kn = kn.max(f.abs()),
                 LoadKind::BearerLine { kn_per_m, from_m, to_m, .. } => kn = kn.max((kn_per_m * (to_m - from_m)).abs()),
                 LoadKind::Wind { face, kpa: p, direction } => kn = kn.max(wind_force(face, *p, *direction).abs()),
                 LoadKind::Notional { .. } => kn = kn.max(notional.get(l.id.as_str()).copied().unwrap_or(0.0)),
@@ -466,6 +466,27 @@ fn load_arrows(
                 (c(face.from, face.top), c(face.from, face.bottom)),
             ] {
                 d.spread.push(Prim::Bar { a, b, radius: rad });
+            }
+        }
+        LoadKind::Kentledge { on, kn, .. } => {
+            // A block on each plate it sits on (or at its point on the deck), with its arrow.
+            let side = opts.arrow_radius_m * 6.0;
+            let mut block = |at: V3, share: f64| {
+                d.spread.push(Prim::Cuboid { min: [at[0] - side, at[1] - side, at[2]], max: [at[0] + side, at[1] + side, at[2] + side] });
+                d.arrows.push(down(add(at, [0.0, 0.0, side]), share * opts.arrow_m_per_kn));
+            };
+            match on {
+                crate::scene::loads::KentledgePlace::Plates(ids) => {
+                    let share = kn / ids.len().max(1) as f64;
+                    for p in ids.iter().filter_map(|id| posts.get(id.as_str())) {
+                        block([p.x, p.y, p.base_level], share);
+                    }
+                }
+                crate::scene::loads::KentledgePlace::Deck { deck, x, y } => {
+                    if let Some(dk) = decks.get(deck.as_str()) {
+                        block([*x, *y, dk.level], *kn);
+                    }
+                }
             }
         }
         LoadKind::Notional { direction, .. } => {

@@ -1,6 +1,11 @@
 //! The machine-readable result: one JSON document whose shape is documented in the README
 //! ("JSON output") and versioned by `plateload_json`.
 //!
+//! Version 2 (this one): `allowable_kpa` and `bearing_utilisation` are `null` where no allowable
+//! is entered; each combination adds `layer_top_kpa` and `layer_utilisation`; each base adds
+//! `plate_area_m2`, `hold_down`, `sliding`, `formation_group`, `surface_group`; the document adds
+//! `findings`, `ground` and `sliding`, and `stability` lists each structure's tipping axes.
+//!
 //! Method fields (added without a version change; old readers can ignore them): `methods` lists
 //! the method passes solved, primary first (its loads fill `cases_kn` and `equilibrium`); each
 //! base has `governing_method` and `min_method` (a pass name, or `any (methods agree)`) and
@@ -13,8 +18,10 @@ use crate::check::{Analysis, CaseEquilibrium};
 use crate::scene::loads::Case;
 use crate::check::stability::Stability;
 
-/// Version of the JSON shape.
-pub const JSON_VERSION: u32 = 1;
+/// Version of the JSON shape. 2: the allowable bearing pressure may be `null` (not entered, not
+/// checked); overturning per structure and axis in both forms; sliding, ground, hold-down and the
+/// findings at a glance.
+pub const JSON_VERSION: u32 = 2;
 
 #[derive(Serialize)]
 struct PerCase<T> {
@@ -47,7 +54,10 @@ struct Doc<'a> {
     equilibrium: Vec<Equilibrium>,
     horizontal_loads: Vec<HorizontalLoad<'a>>,
     equilibrium_by_method: Vec<MethodEquilibrium<'a>>,
+    findings: Vec<crate::export::findings::Finding>,
+    ground: GroundDoc<'a>,
     stability: &'a Stability,
+    sliding: &'a crate::check::sliding::Sliding,
     warnings: Vec<String>,
 }
 
@@ -58,6 +68,23 @@ struct ImposedLoads<'a> {
     /// unfavourable at each plate, except these (applied whole, as the planner set).
     whole: &'a [String],
     working_levels: &'static str,
+}
+
+#[derive(Serialize)]
+struct GroundDoc<'a> {
+    allowable_kpa: Option<f64>,
+    basis: &'static str,
+    layer: Option<crate::scene::model::GranularLayer>,
+    layer_weight_added_kpa: f64,
+    formation_groups: Vec<GroupDoc<'a>>,
+    surface_groups: Vec<GroupDoc<'a>>,
+}
+
+#[derive(Serialize)]
+struct GroupDoc<'a> {
+    plates: Vec<&'a str>,
+    union_area_m2: f64,
+    levels_differ: bool,
 }
 
 #[derive(Serialize)]
@@ -85,7 +112,8 @@ struct Base<'a> {
     on_structure: Option<&'a str>,
     swl_kn: f64,
     bearing_area_m2: f64,
-    allowable_kpa: f64,
+    plate_area_m2: f64,
+    allowable_kpa: Option<f64>,
     cases_kn: PerCase<f64>,
     shear_kn: PerCase<[f64; 2]>,
     combinations: Vec<BaseCombination<'a>>,
@@ -95,6 +123,10 @@ struct Base<'a> {
     governing_method: &'a str,
     min_method: &'a str,
     cases_kn_by_method: Vec<MethodCases<'a>>,
+    hold_down: Option<HoldDownDoc<'a>>,
+    sliding: Option<&'a crate::check::sliding::PlateSliding>,
+    formation_group: Option<u32>,
+    surface_group: Option<u32>,
     arrangements: Vec<crate::check::ArrangementAt>,
     status: &'static str,
 }
@@ -119,6 +151,13 @@ struct LiftCombination<'a> {
 }
 
 #[derive(Serialize)]
+struct HoldDownDoc<'a> {
+    combination: &'a str,
+    anchor_kn: f64,
+    kentledge_kn: Option<f64>,
+}
+
+#[derive(Serialize)]
 struct MethodCases<'a> {
     method: &'a str,
     #[serde(flatten)]
@@ -138,7 +177,9 @@ struct BaseCombination<'a> {
     min_kn: f64,
     load_utilisation: f64,
     bearing_kpa: f64,
-    bearing_utilisation: f64,
+    bearing_utilisation: Option<f64>,
+    layer_top_kpa: Option<f64>,
+    layer_utilisation: Option<f64>,
     utilisation: f64,
     status: &'static str,
     max_method: &'a str,
@@ -182,6 +223,7 @@ pub fn analysis_json(a: &Analysis) -> String {
             on_structure: p.on_structure.as_deref(),
             swl_kn: p.swl_kn,
             bearing_area_m2: p.bearing_area_m2,
+            plate_area_m2: p.plate_area_m2,
             allowable_kpa: p.allowable_kpa,
             cases_kn: PerCase::of(p.case_kn),
             shear_kn: PerCase::of(p.case_shear_kn),
@@ -196,6 +238,8 @@ pub fn analysis_json(a: &Analysis) -> String {
                     load_utilisation: c.load_utilisation,
                     bearing_kpa: c.bearing_kpa,
                     bearing_utilisation: c.bearing_utilisation,
+                    layer_top_kpa: c.layer_top_kpa,
+                    layer_utilisation: c.layer_utilisation,
                     utilisation: c.utilisation,
                     status: c.status.label(),
                     max_method: a.method_label(c.max_method),
@@ -208,6 +252,10 @@ pub fn analysis_json(a: &Analysis) -> String {
             governing_method: a.governing_method_label(i),
             min_method: a.min_method_label(i),
             cases_kn_by_method: p.case_kn_by_method.iter().enumerate().map(|(m, &c)| MethodCases { method: a.method_label(m), cases_kn: PerCase::of(c) }).collect(),
+            hold_down: p.hold_down.map(|h| HoldDownDoc { combination: &a.combinations[h.combination].name, anchor_kn: h.anchor_kn, kentledge_kn: h.kentledge_kn }),
+            sliding: p.sliding.as_ref(),
+            formation_group: p.formation_group,
+            surface_group: p.surface_group,
             arrangements: a.arrangements_at(i),
             status: p.status.label(),
         })
@@ -247,7 +295,17 @@ pub fn analysis_json(a: &Analysis) -> String {
             .enumerate()
             .map(|(m, eq)| MethodEquilibrium { method: a.method_label(m), cases: eq.iter().map(Equilibrium::from).collect() })
             .collect(),
+        findings: crate::export::findings::findings(a),
+        ground: GroundDoc {
+            allowable_kpa: a.ground.allowable_kpa,
+            basis: a.ground.basis.label(),
+            layer: a.ground.layer,
+            layer_weight_added_kpa: a.ground.layer_weight_added_kpa(),
+            formation_groups: groups(a, &a.ground.formation_groups),
+            surface_groups: groups(a, &a.ground.surface_groups),
+        },
         stability: &a.stability,
+        sliding: &a.sliding,
         warnings: a.warnings.iter().map(|w| w.to_string()).collect(),
     };
     // Non-finite numbers cannot occur in a valid analysis; serde_json writes them as null.
@@ -295,4 +353,13 @@ impl serde_json::ser::Formatter for Numbers {
     fn end_object_value<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
         self.0.end_object_value(w)
     }
+}
+
+/// Overlap groups with their plates' ids (the groups hold post indices).
+fn groups<'a>(a: &'a Analysis, list: &'a [crate::check::bearing::SpreadGroup]) -> Vec<GroupDoc<'a>> {
+    let mut id_of: Vec<&str> = vec![""; a.solution.plates.len()];
+    for p in &a.plates {
+        id_of[p.post] = &p.id;
+    }
+    list.iter().map(|g| GroupDoc { plates: g.plates.iter().map(|&p| id_of[p as usize]).collect(), union_area_m2: g.union_area_m2, levels_differ: g.levels_differ }).collect()
 }

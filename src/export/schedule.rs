@@ -65,12 +65,52 @@ impl Csv {
     }
 }
 
+/// Text as plain ASCII for spreadsheets: the few symbols the outputs use spelt out.
+fn ascii(s: &str) -> String {
+    let mut out = String::with_capacity(s.len());
+    for c in s.chars() {
+        match c {
+            c if c.is_ascii() => out.push(c),
+            '·' => out.push('.'),
+            '–' | '—' | '−' => out.push('-'),
+            '÷' => out.push('/'),
+            '×' => out.push('x'),
+            '²' => out.push('2'),
+            '³' => out.push('3'),
+            'μ' => out.push_str("mu"),
+            'γ' => out.push_str("gamma "),
+            '°' => out.push_str(" deg"),
+            '…' => out.push_str("..."),
+            '≤' => out.push_str("<="),
+            _ => out.push('?'),
+        }
+    }
+    out
+}
+
 /// Write the schedule as CSV text.
 pub fn schedule_csv(analysis: &Analysis) -> String {
     let mut w = Csv::new(256 * (analysis.plates.len() + 16));
     w.record(&["Support-load schedule", analysis.scene_name.as_str()]);
     w.record(&["Caution", crate::CAUTION]);
+    for f in crate::export::findings::findings(analysis) {
+        w.record(&["Finding", f.verdict.label(), f.check, ascii(&f.text).as_str()]);
+    }
     w.record(&["Units", "loads kN (upward reaction positive; negative = uplift); positions m; areas m2; pressures kPa; utilisation as a ratio (1.000 = capacity)"]);
+    let g = &analysis.ground;
+    let allowable = g.allowable_kpa.map_or_else(|| "allowable at formation not entered: not checked".to_owned(), |a| format!("allowable at formation {} kPa ({})", num(a), g.basis.label()));
+    let layer = match g.layer {
+        None => "no granular layer".to_owned(),
+        Some(l) => format!(
+            "granular layer {} m, {} kN/m3 ({} kPa, {}); allowable on its top {}",
+            num(l.thickness_m),
+            num(l.unit_weight_kn_m3),
+            num(l.self_weight_kpa()),
+            if g.layer_weight_added_kpa() > 0.0 { "added at formation" } else { "not added: net allowable" },
+            l.allowable_kpa.map_or_else(|| "not entered: not checked".to_owned(), |a| format!("{} kPa", num(a)))
+        ),
+    };
+    w.record(&["Ground".to_string(), ascii(&allowable), ascii(&layer)]);
     for c in &analysis.combinations {
         let f = c.factors;
         w.record(&[
@@ -122,8 +162,30 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         head.push(format!("{} min (kN)", c.name));
     }
     head.extend(
-        ["SWL (kN)", "utilisation", "governing combination", "method for max", "method for min", "imposed load arrangement for max", "bearing area (m2)", "bearing pressure (kPa)", "allowable (kPa)", "bearing utilisation", "status"]
-            .map(String::from),
+        [
+            "SWL (kN)",
+            "utilisation",
+            "governing combination",
+            "method for max",
+            "method for min",
+            "imposed load arrangement for max",
+            "bearing area (m2)",
+            "bearing pressure (kPa)",
+            "allowable (kPa)",
+            "bearing utilisation",
+            "plate area (m2)",
+            "layer top pressure (kPa)",
+            "layer utilisation",
+            "overlap group",
+            "hold-down anchor (kN)",
+            "hold-down kentledge (kN)",
+            "friction coefficient",
+            "base shear (kN)",
+            "sliding factor",
+            "restraint needed (kN)",
+            "status",
+        ]
+        .map(String::from),
     );
     w.record(&head);
     let mut totals = [0.0; 3];
@@ -155,8 +217,59 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         w.field(&notes.join("; "));
         w.fixed(p.bearing_area_m2, 4);
         w.fixed(g.bearing_kpa, 1);
-        w.fixed(p.allowable_kpa, 1);
-        w.fixed(g.bearing_utilisation, 3);
+        match (p.allowable_kpa, g.bearing_utilisation) {
+            (Some(a), Some(u)) => {
+                w.fixed(a, 1);
+                w.fixed(u, 3);
+            }
+            _ => {
+                w.field("not entered");
+                w.field("not checked");
+            }
+        }
+        w.fixed(p.plate_area_m2, 4);
+        match g.layer_top_kpa {
+            Some(q) => w.fixed(q, 1),
+            None => w.field(""),
+        }
+        match (g.layer_top_kpa, g.layer_utilisation) {
+            (_, Some(u)) => w.fixed(u, 3),
+            (Some(_), None) => w.field("not checked"),
+            (None, None) => w.field(""),
+        }
+        w.field(&crate::export::findings::group_label(p.formation_group, p.surface_group));
+        match p.hold_down {
+            Some(h) => {
+                w.fixed(h.anchor_kn, 3);
+                match h.kentledge_kn {
+                    Some(k) => w.fixed(k, 3),
+                    None => w.field(""),
+                }
+            }
+            None => {
+                w.field("");
+                w.field("");
+            }
+        }
+        match &p.sliding {
+            Some(sl) => {
+                match sl.mu {
+                    Some(m) => w.fixed(m, 2),
+                    None => w.field("not given"),
+                }
+                w.fixed(sl.shear_kn, 3);
+                match sl.factor {
+                    Some(f) => w.fixed(f, 2),
+                    None => w.field("not checked"),
+                }
+                w.fixed(sl.restraint_kn, 3);
+            }
+            None => {
+                for _ in 0..4 {
+                    w.field("");
+                }
+            }
+        }
         w.field(p.status.label());
         w.end();
     }

@@ -18,6 +18,7 @@ pub fn route_words(scene: &Scene, route: Route) -> String {
         Route::PostSelfWeight => "own weight of the post".into(),
         Route::PostTop => "load on the post top".into(),
         Route::Overturning => "overturning couple on the braced base".into(),
+        Route::Kentledge => "kentledge on the plate".into(),
     }
 }
 
@@ -97,6 +98,58 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
             let _ = write!(out, "  (max: {}; min: {})", analysis.method_label(r.max_method), analysis.method_label(r.min_method));
         }
         let _ = writeln!(out);
+    }
+    // Permanent load split as the minimum uses it.
+    let parts = crate::check::permanent::permanent_parts(scene, analysis.solution_of(p.min_method))[p.post];
+    let _ = write!(out, "  permanent load for the minimum: pushes down {:.3} kN, lifts {:.3} kN", num(parts.down_kn), num(parts.up_kn));
+    if parts.down_unreliable_kn != 0.0 {
+        let _ = write!(out, ", and {:.3} kN of kentledge that could be taken away (never counted as holding down)", num(parts.down_unreliable_kn));
+    }
+    let _ = writeln!(out);
+    // Ground.
+    let g = p.governing();
+    let ground = &analysis.ground;
+    match g.layer_top_kpa {
+        Some(q) => {
+            let verdict = g.layer_utilisation.map_or_else(|| "not checked: no allowable for the layer".to_owned(), |u| format!("{:.1} % of the allowable", num(100.0 * u)));
+            let _ = writeln!(out, "  on the granular layer under {:.4} m²: {:.1} kPa ({verdict})", num(p.plate_area_m2), num(q));
+        }
+        None => {}
+    }
+    let verdict = g.bearing_utilisation.map_or_else(|| "not checked: no allowable bearing pressure entered".to_owned(), |u| format!("{:.1} % of {:.1} kPa allowable, {}", num(100.0 * u), num(p.allowable_kpa.unwrap_or(0.0)), ground.basis.label()));
+    let _ = write!(out, "  at formation over {:.4} m²: {:.1} kPa ({verdict})", num(p.bearing_area_m2), num(g.bearing_kpa));
+    if ground.layer_weight_added_kpa() > 0.0 {
+        let _ = write!(out, ", layer weight {:.2} kPa included", num(ground.layer_weight_added_kpa()));
+    }
+    let group = crate::export::findings::group_label(p.formation_group, p.surface_group);
+    if !group.is_empty() {
+        let _ = write!(out, "; overlap group {group}, taken together over the union of the areas");
+    }
+    let _ = writeln!(out);
+    if let Some(h) = p.hold_down {
+        let k = h.kentledge_kn.map_or_else(String::new, |k| format!(" or {:.3} kN secured kentledge on the plate", num(k)));
+        let _ = writeln!(out, "  hold-down: an anchor for {:.3} kN{k} ({})", num(h.anchor_kn), analysis.combinations[h.combination].name);
+    }
+    if let Some(sl) = &p.sliding {
+        match (sl.mu, sl.factor) {
+            (Some(mu), Some(f)) => {
+                let _ = writeln!(
+                    out,
+                    "  sliding {}: shear {:.3} kN, least vertical load {:.3} kN, μ {:.2} → factor {:.2}; factored shear {:.3} kN against {:.3} kN friction{}",
+                    sl.towards,
+                    num(sl.shear_kn),
+                    num(sl.normal_kn),
+                    num(mu),
+                    num(f),
+                    num(sl.equ_shear_kn),
+                    num(sl.equ_friction_kn),
+                    if sl.slides { format!("; must be restrained for {:.3} kN", num(sl.restraint_kn)) } else { String::new() }
+                );
+            }
+            _ => {
+                let _ = writeln!(out, "  sliding {}: shear {:.3} kN, not checked: no friction coefficient given for support {}", sl.towards, num(sl.shear_kn), p.support);
+            }
+        }
     }
     arrangement_lines(&mut out, scene, analysis, plate);
     out

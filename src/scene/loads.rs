@@ -270,6 +270,61 @@ pub enum LoadKind {
         #[serde(default = "default_notional_basis")]
         basis: Vec<Case>,
     },
+    /// Kentledge: a weight placed to hold the structure down. It must be permanent (case G). It
+    /// counts as load everywhere it makes things worse (plate load, bearing), and where it helps
+    /// (restoring moment, less uplift, more friction) only if it cannot go away: fixed, or
+    /// secured against removal.
+    Kentledge {
+        /// Where it sits.
+        on: KentledgePlace,
+        /// Weight, kN.
+        kn: f64,
+        /// What it is. Default: removable.
+        #[serde(default)]
+        form: KentledgeForm,
+        /// Secured against removal: chained or clamped to the standards, valves locked.
+        #[serde(default)]
+        secured: bool,
+    },
+}
+
+/// Where a kentledge sits.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub enum KentledgePlace {
+    /// On these base plates (post ids), its weight shared equally, straight into the plates.
+    Plates(Vec<String>),
+    /// On a deck at a plan point, carried like a point load on the deck.
+    Deck {
+        /// Deck id.
+        deck: String,
+        /// Plan position, m.
+        x: f64,
+        /// Plan position, m.
+        y: f64,
+    },
+}
+
+/// What a kentledge is.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
+pub enum KentledgeForm {
+    /// Loose blocks or other weights that can be lifted off. The default.
+    #[default]
+    Removable,
+    /// Water-filled tanks or bags: they can be drained.
+    WaterFilled,
+    /// Fixed: cast in place or bolted down, so it cannot be taken away on site.
+    Fixed,
+}
+
+impl KentledgeForm {
+    /// Word for outputs.
+    pub fn label(self) -> &'static str {
+        match self {
+            KentledgeForm::Removable => "removable",
+            KentledgeForm::WaterFilled => "water-filled",
+            KentledgeForm::Fixed => "fixed",
+        }
+    }
 }
 
 impl LoadKind {
@@ -290,6 +345,16 @@ impl LoadKind {
             LoadKind::Horizontal { .. } => "horizontal force",
             LoadKind::Wind { .. } => "wind",
             LoadKind::Notional { .. } => "notional horizontal",
+            LoadKind::Kentledge { .. } => "kentledge",
+        }
+    }
+
+    /// Whether a permanent load of this kind may count where it is favourable: everything but a
+    /// kentledge that could be taken away (removable or water-filled, and not secured).
+    pub fn may_be_favourable(&self) -> bool {
+        match self {
+            LoadKind::Kentledge { form, secured, .. } => *secured || *form == KentledgeForm::Fixed,
+            _ => true,
         }
     }
 }

@@ -8,7 +8,7 @@ use serde::{Deserialize, Serialize};
 
 pub use crate::scene::geometry::Rect;
 use crate::scene::loads::Load;
-use crate::scene::combination::Combination;
+use crate::scene::combination::{Combination, Factors};
 
 /// Schema version written into every scene file.
 pub const FORMAT_VERSION: u32 = 1;
@@ -69,11 +69,40 @@ fn format_version() -> u32 {
 pub struct Site {
     /// Name shown in every output.
     pub name: String,
-    /// Allowable ground bearing pressure at formation level, kPa.
-    pub allowable_bearing_kpa: f64,
+    /// Allowable ground bearing pressure at formation level, kPa. `None`: not entered; ground
+    /// bearing at formation is then reported as not checked.
+    #[serde(default)]
+    pub allowable_bearing_kpa: Option<f64>,
+    /// Whether the allowable bearing pressure at formation is net or gross of the granular
+    /// layer's own weight.
+    #[serde(default)]
+    pub allowable_basis: AllowableBasis,
     /// Optional granular layer between the sole plates and the ground.
     #[serde(default)]
     pub granular_layer: Option<GranularLayer>,
+}
+
+/// What the allowable bearing pressure at formation is compared with.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
+pub enum AllowableBasis {
+    /// Gross: the pressure from the plates plus the granular layer's own weight (γ·z). The
+    /// default: a layer placed for the works is new load on the formation.
+    // common practice, no source: a layer placed for the works adds its weight to the formation.
+    #[default]
+    Gross,
+    /// Net: the pressure from the plates only; the layer's weight is overburden the allowable
+    /// already allows for (an existing hard standing, say).
+    Net,
+}
+
+impl AllowableBasis {
+    /// Word for outputs: `gross` or `net`.
+    pub fn label(self) -> &'static str {
+        match self {
+            AllowableBasis::Gross => "gross",
+            AllowableBasis::Net => "net",
+        }
+    }
 }
 
 /// A compacted granular layer that spreads each plate's load before it reaches the ground.
@@ -85,6 +114,34 @@ pub struct GranularLayer {
     /// How the load spreads through the layer.
     #[serde(default)]
     pub spread: LoadSpread,
+    /// Unit weight of the layer, kN/m³. Default [`DEFAULT_LAYER_UNIT_WEIGHT_KN_M3`].
+    #[serde(default = "default_layer_unit_weight")]
+    pub unit_weight_kn_m3: f64,
+    /// Allowable pressure on the top of the layer, under each plate or sole board, kPa.
+    /// `None`: not entered; the layer top is then reported as not checked.
+    #[serde(default)]
+    pub allowable_kpa: Option<f64>,
+}
+
+impl GranularLayer {
+    /// A layer of the given thickness and spread, of the default unit weight, with no allowable
+    /// pressure on its top entered.
+    pub fn new(thickness_m: f64, spread: LoadSpread) -> Self {
+        GranularLayer { thickness_m, spread, unit_weight_kn_m3: DEFAULT_LAYER_UNIT_WEIGHT_KN_M3, allowable_kpa: None }
+    }
+    /// Pressure of the layer's own weight at its base, kPa.
+    pub fn self_weight_kpa(&self) -> f64 {
+        self.unit_weight_kn_m3 * self.thickness_m
+    }
+}
+
+/// Default unit weight of a granular layer, kN/m³: the upper end of the range for hardcore, since
+/// it is added as load.
+// source: EN 1991-1-1 Table A.6, hardcore 18.5–19.5 kN/m³ (via a national reproduction)
+pub const DEFAULT_LAYER_UNIT_WEIGHT_KN_M3: f64 = 19.5;
+
+fn default_layer_unit_weight() -> f64 {
+    DEFAULT_LAYER_UNIT_WEIGHT_KN_M3
 }
 
 /// Load spread through a granular layer, as horizontal spread per unit depth on each side.
@@ -151,6 +208,11 @@ pub struct SupportType {
     /// Timber sole plate or board under the base plate, if any. Bearing is taken on it.
     #[serde(default)]
     pub sole_plate: Option<PlateSize>,
+    /// The interfaces a horizontal force crosses on its way into the ground (base plate on sole
+    /// board, sole board on the ground…); the lowest lower-bound friction coefficient governs.
+    /// Empty: friction unknown, sliding is not checked for plates on this support.
+    #[serde(default)]
+    pub friction: Vec<Interface>,
     /// Moment the head of a post of this type takes, kN·m, from the maker's data: a bearer on a
     /// single post (a T-head) may then be out of balance by up to this much. `None`: the head
     /// takes no moment and a T-head must balance.
@@ -171,17 +233,69 @@ pub struct SupportType {
     pub sole_plate_id: Option<String>,
 }
 
+/// One sliding interface under a support, with its lower-bound friction coefficient.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub enum Interface {
+    /// Plain steel on cast concrete: μ = 0.1.
+    SteelOnCastConcrete,
+    /// Plain steel on trowelled concrete: μ = 0.5.
+    SteelOnTrowelledConcrete,
+    /// Concrete on concrete: μ = 0.4, the lowest measured.
+    ConcreteOnConcrete,
+    /// Timber, across the grain, on concrete: μ = 0.7.
+    TimberOnConcrete,
+    /// A coefficient the planner gives (steel on timber, timber on hardcore… have no published
+    /// value), with where it comes from.
+    Given {
+        /// Lower-bound friction coefficient.
+        mu: f64,
+        /// Where the value comes from (a test, a manufacturer's sheet…).
+        source: String,
+    },
+}
+
+// source for the four named interfaces: Pallett et al., Concrete 36(6), 2002, the lowest values
+// measured (the basis of the BS 5975:2008 values), via a Concrete Society note; EN 12812 annex
+// ranges (concrete 0.5–1.0, timber 0.8–1.0) are higher.
+impl Interface {
+    /// Lower-bound friction coefficient.
+    pub fn mu(&self) -> f64 {
+        match self {
+            Interface::SteelOnCastConcrete => 0.1,
+            Interface::SteelOnTrowelledConcrete => 0.5,
+            Interface::ConcreteOnConcrete => 0.4,
+            Interface::TimberOnConcrete => 0.7,
+            Interface::Given { mu, .. } => *mu,
+        }
+    }
+    /// Words for outputs, with the source.
+    pub fn label(&self) -> String {
+        match self {
+            Interface::SteelOnCastConcrete => "steel on cast concrete (Pallett et al. 2002)".into(),
+            Interface::SteelOnTrowelledConcrete => "steel on trowelled concrete (Pallett et al. 2002)".into(),
+            Interface::ConcreteOnConcrete => "concrete on concrete (Pallett et al. 2002)".into(),
+            Interface::TimberOnConcrete => "timber across the grain on concrete (Pallett et al. 2002)".into(),
+            Interface::Given { source, .. } => format!("given ({source})"),
+        }
+    }
+}
+
 impl SupportType {
     /// A support type with the given plates and safe working load, not taken from the
     /// catalogue: no source, no extension limit.
     pub fn new(id: &str, base_plate: PlateSize, swl_kn: f64, sole_plate: Option<PlateSize>) -> Self {
-        SupportType { id: id.to_owned(), base_plate, swl_kn, max_extension_m: None, sole_plate, head_moment_capacity_knm: None, catalogue_id: None, source: String::new(), example: false, sole_plate_id: None }
+        SupportType { id: id.to_owned(), base_plate, swl_kn, max_extension_m: None, sole_plate, friction: Vec::new(), head_moment_capacity_knm: None, catalogue_id: None, source: String::new(), example: false, sole_plate_id: None }
     }
 
     /// The plate that bears on the ground (or on the granular layer): the sole plate if there
     /// is one, otherwise the base plate.
     pub fn bearing_plate(&self) -> PlateSize {
         self.sole_plate.unwrap_or(self.base_plate)
+    }
+    /// Lowest lower-bound friction coefficient of its interfaces, with the interface; `None`
+    /// when none is given.
+    pub fn friction(&self) -> Option<(f64, &Interface)> {
+        self.friction.iter().map(|i| (i.mu(), i)).min_by(|a, b| a.0.total_cmp(&b.0))
     }
 }
 
@@ -331,27 +445,63 @@ pub struct Brace {
     pub to: PostNode,
 }
 
-/// Settings of the overturning (stability) check.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+/// Settings of the overturning and sliding checks.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct StabilitySettings {
-    /// Target factor of safety against overturning (restoring ÷ overturning moment).
+    /// Target factor of safety against overturning: restoring moment of the stabilising
+    /// permanent load ÷ overturning moment of the destabilising permanent and variable loads,
+    /// unfactored.
     #[serde(default = "default_target_factor")]
     pub target_factor: f64,
+    /// Target factor of safety against sliding: friction ÷ horizontal load, unfactored.
+    #[serde(default = "default_sliding_target")]
+    pub sliding_target_factor: f64,
+    /// Partial factors of the equilibrium (EQU) checks of overturning and sliding: `g_unfavourable`
+    /// on destabilising permanent load, `g_favourable` on stabilising permanent load, `q` and `w`
+    /// on destabilising variable load (stabilising variable load counts 0).
+    #[serde(default = "default_equilibrium_factors")]
+    pub equilibrium: Factors,
+    /// Base plates (post ids) over which kentledge would be placed, secured to their standards.
+    /// Empty: over the plates farthest from each tipping edge.
+    #[serde(default)]
+    pub kentledge_plates: Vec<String>,
 }
 
-/// Default target overturning factor.
-// common practice, no source: 1.5 is the usual permissible-stress factor against overturning
-// (from memory of UK falsework practice); local codes govern.
+/// Default target overturning factor: the usual permissible-stress factor.
+// from memory: 1.5 against overturning is UK falsework practice (BS 5975, 1.2 with the maximum
+// wind is also quoted); unconfirmed. Local codes govern.
 pub const DEFAULT_TARGET_OVERTURNING_FACTOR: f64 = 1.5;
+
+/// Default target factor against sliding where friction alone transfers the horizontal load.
+// source: Concrete Society note on the friction tests of Pallett et al. (2002): factor of safety
+// at least 2.0 where friction transfers lateral load. NAVFAC DM 7.02 asks 1.5 for foundations.
+pub const DEFAULT_TARGET_SLIDING_FACTOR: f64 = 2.0;
+
+/// Default partial factors of the equilibrium checks.
+// source: EN 1990 Annex A1 Table A1.2(A) (EQU), recommended values; a National Annex may differ.
+pub const DEFAULT_EQUILIBRIUM_FACTORS: Factors = Factors { g_unfavourable: 1.10, g_favourable: 0.90, q: 1.5, w: 1.5 };
 
 fn default_target_factor() -> f64 {
     DEFAULT_TARGET_OVERTURNING_FACTOR
 }
 
+fn default_sliding_target() -> f64 {
+    DEFAULT_TARGET_SLIDING_FACTOR
+}
+
+fn default_equilibrium_factors() -> Factors {
+    DEFAULT_EQUILIBRIUM_FACTORS
+}
+
 impl Default for StabilitySettings {
     fn default() -> Self {
-        Self { target_factor: DEFAULT_TARGET_OVERTURNING_FACTOR }
+        Self {
+            target_factor: DEFAULT_TARGET_OVERTURNING_FACTOR,
+            sliding_target_factor: DEFAULT_TARGET_SLIDING_FACTOR,
+            equilibrium: DEFAULT_EQUILIBRIUM_FACTORS,
+            kentledge_plates: Vec::new(),
+        }
     }
 }
 
@@ -513,7 +663,7 @@ impl Scene {
     pub fn empty(name: &str, allowable_bearing_kpa: f64) -> Self {
         Scene {
             format: FORMAT_VERSION,
-            site: Site { name: name.to_owned(), allowable_bearing_kpa, granular_layer: None },
+            site: Site { name: name.to_owned(), allowable_bearing_kpa: Some(allowable_bearing_kpa), allowable_basis: AllowableBasis::default(), granular_layer: None },
             support_types: Vec::new(),
             posts: Vec::new(),
             bearers: Vec::new(),

@@ -4,7 +4,7 @@
 use rustc_hash::FxHashMap as HashMap;
 use std::fmt;
 
-use crate::scene::loads::{Intensity, LoadKind};
+use crate::scene::loads::{Intensity, KentledgePlace, LoadKind};
 use crate::scene::model::{ElementKind, Scene};
 use crate::scene::standing::{self, LoadPathGraph, StandsOn};
 
@@ -181,6 +181,8 @@ pub struct Model<'s> {
     pub decks: Vec<DeckLine>,
     /// Element each load acts on.
     pub load_targets: Vec<Target>,
+    /// Posts each load names (the plates a kentledge sits on), per load; empty for the others.
+    pub load_posts: Vec<Vec<usize>>,
     /// Braced plan directions.
     pub braced: Braced,
     /// Non-fatal findings worth a look.
@@ -279,7 +281,8 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
     check_existing_structures(&mut c);
     let graph = load_path_graph(&mut c, &bearers, &decks);
     let braced = check_braces(&mut c, &post_ix);
-    let load_targets = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers, braced);
+    let (load_targets, load_posts) = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers, braced);
+    check_kentledge_plates(&mut c, &post_ix, &load_posts, graph.as_ref());
     check_combinations(&mut c);
     check_one_braced_body(&mut c, &post_ix, &bearers, graph.as_ref());
 
@@ -291,6 +294,7 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
             bearers: bearers.into_iter().map(|b| b.expect("checked")).collect(),
             decks: decks.into_iter().map(|d| d.expect("checked")).collect(),
             load_targets,
+            load_posts,
             braced,
             warnings: c.warnings,
         }),
@@ -346,7 +350,12 @@ fn check_site(c: &mut Checker) {
     use ElementKind as K;
     let site = &c.scene.site;
     let name = site.name.clone();
-    c.at_least(K::Site, &name, "allowable bearing pressure (kPa)", site.allowable_bearing_kpa, MIN_CAPACITY, LIMIT_KN);
+    match site.allowable_bearing_kpa {
+        Some(q) => {
+            c.at_least(K::Site, &name, "allowable bearing pressure (kPa)", q, MIN_CAPACITY, LIMIT_KN);
+        }
+        None => c.warn(K::Site, &name, "no allowable bearing pressure entered: ground bearing at formation is not checked"),
+    }
     if let Some(layer) = site.granular_layer {
         c.positive(K::Site, &name, "granular layer thickness (m)", layer.thickness_m, LIMIT_M, true);
         if let crate::scene::model::LoadSpread::AngleDeg(a) = layer.spread {
@@ -354,9 +363,32 @@ fn check_site(c: &mut Checker) {
                 c.err(K::Site, &name, format!("spread angle {a}° must be from 0° up to 89°"));
             }
         }
+        // Water is 9.81 kN/m³ and dense rock fill under 25: outside this is an input mistake.
+        if c.positive(K::Site, &name, "granular layer unit weight (kN/m³)", layer.unit_weight_kn_m3, 1e3, true) && !(5.0..=30.0).contains(&layer.unit_weight_kn_m3) {
+            c.err(K::Site, &name, format!("granular layer unit weight {} kN/m³ is outside the plausible range 5 to 30 kN/m³", layer.unit_weight_kn_m3));
+        }
+        match layer.allowable_kpa {
+            Some(q) => {
+                c.at_least(K::Site, &name, "allowable pressure on the granular layer (kPa)", q, MIN_CAPACITY, LIMIT_KN);
+            }
+            None => c.warn(K::Site, &name, "no allowable pressure on the granular layer entered: pressure under the plates on top of the layer is not checked"),
+        }
     }
-    let target = c.scene.stability.target_factor;
+    let st = &c.scene.stability;
+    let (target, sliding, equ) = (st.target_factor, st.sliding_target_factor, st.equilibrium);
     c.positive(K::Site, &name, "target overturning factor", target, 1e3, false);
+    c.positive(K::Site, &name, "target sliding factor", sliding, 1e3, false);
+    for (what, v) in [
+        ("equilibrium factor on destabilising permanent load", equ.g_unfavourable),
+        ("equilibrium factor on stabilising permanent load", equ.g_favourable),
+        ("equilibrium factor on imposed load", equ.q),
+        ("equilibrium factor on horizontal load", equ.w),
+    ] {
+        c.positive(K::Site, &name, what, v, 100.0, true);
+    }
+    if equ.g_favourable > equ.g_unfavourable {
+        c.warn(K::Site, &name, "equilibrium factor on stabilising permanent load is above the one on destabilising permanent load");
+    }
     let ei = c.scene.analysis.stiffness;
     for (what, v) in [
         ("bearer stiffness EI (kN·m²)", ei.bearer_knm2),
@@ -380,6 +412,18 @@ fn check_support_types(c: &mut Checker) {
         if let Some(sole) = s.sole_plate {
             c.at_least(K::SupportType, &s.id, "sole plate width (m)", sole.width_m, MIN_SPAN_M, LIMIT_M);
             c.at_least(K::SupportType, &s.id, "sole plate length (m)", sole.length_m, MIN_SPAN_M, LIMIT_M);
+        }
+        for i in &s.friction {
+            if let crate::scene::model::Interface::Given { mu, source } = i {
+                // common practice, no source: measured coefficients of dry construction
+                // interfaces lie well below 1.5; anything above is an input mistake.
+                if c.positive(K::SupportType, &s.id, "friction coefficient", *mu, 1e3, false) && *mu > 1.5 {
+                    c.err(K::SupportType, &s.id, format!("friction coefficient {mu} is above the plausible 1.5"));
+                }
+                if source.trim().is_empty() {
+                    c.err(K::SupportType, &s.id, format!("friction coefficient {mu} has no source: say where it comes from (a test, a published table)"));
+                }
+            }
         }
         if let Some(e) = s.max_extension_m {
             c.positive(K::SupportType, &s.id, "maximum jack extension (m)", e, LIMIT_M, true);
@@ -709,12 +753,13 @@ fn check_loads(
     post_ix: &HashMap<&str, usize>,
     bearers: &[Option<BearerLine>],
     braced: Braced,
-) -> Vec<Target> {
+) -> (Vec<Target>, Vec<Vec<usize>>) {
     use ElementKind as K;
     let scene = c.scene;
     let tol = GEOMETRY_TOLERANCE_M;
     let mut out = Vec::with_capacity(scene.loads.len());
-    for load in &scene.loads {
+    let mut load_posts = vec![Vec::new(); scene.loads.len()];
+    for (k, load) in scene.loads.iter().enumerate() {
         let id = load.id.as_str();
         let deck = |c: &mut Checker, name: &str| -> Option<usize> {
             let found = deck_ix.get(name).copied();
@@ -837,6 +882,39 @@ fn check_loads(
                 }
                 Some(Target::None)
             }
+            LoadKind::Kentledge { on, kn, .. } => {
+                if load.case != crate::scene::loads::Case::G {
+                    c.err(K::Load, id, format!("is kentledge, a permanent weight: its case must be G, not {}", load.case));
+                }
+                c.positive(K::Load, id, "weight (kN)", *kn, LIMIT_KN, false);
+                match on {
+                    KentledgePlace::Plates(ids) => {
+                        if ids.is_empty() {
+                            c.err(K::Load, id, "is kentledge on no base plate: name the plates it sits on");
+                        }
+                        let mut found = Vec::with_capacity(ids.len());
+                        for pid in ids {
+                            match post_ix.get(pid.as_str()) {
+                                None => c.err(K::Load, id, format!("post \"{pid}\" does not exist")),
+                                Some(ix) if found.contains(ix) => c.err(K::Load, id, format!("sits on plate {pid} twice")),
+                                Some(&ix) => found.push(ix),
+                            }
+                        }
+                        load_posts[k] = found;
+                        Some(Target::None)
+                    }
+                    KentledgePlace::Deck { deck: d, x, y } => {
+                        let ix = deck(c, d);
+                        let ok = c.number(K::Load, id, "x (m)", *x, LIMIT_M) & c.number(K::Load, id, "y (m)", *y, LIMIT_M);
+                        if let (Some(ix), true) = (ix, ok) {
+                            if !scene.decks[ix].extent.contains(*x, *y, tol) {
+                                c.err(K::Load, id, format!("point ({x}, {y}) is not on deck {d}"));
+                            }
+                        }
+                        ix.map(Target::Deck)
+                    }
+                }
+            }
             LoadKind::Notional { percent, direction, basis } => {
                 c.positive(K::Load, id, "percentage", *percent, 100.0, true);
                 if basis.is_empty() {
@@ -851,7 +929,7 @@ fn check_loads(
         };
         out.push(target.unwrap_or(Target::None));
     }
-    out
+    (out, load_posts)
 }
 
 /// Horizontal loads are shared among all base plates as one rigid braced body. That holds only
@@ -927,6 +1005,28 @@ fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>, bearer
                     names.join(", ")
                 ),
             );
+        }
+    }
+}
+
+/// The plates named for kentledge (in the stability settings, and those a kentledge sits on) must
+/// exist, once each, and be base plates: a post standing on another member has none.
+fn check_kentledge_plates(c: &mut Checker, post_ix: &HashMap<&str, usize>, load_posts: &[Vec<usize>], graph: Option<&crate::scene::standing::LoadPathGraph>) {
+    let scene = c.scene;
+    let name = scene.site.name.clone();
+    let ids = &scene.stability.kentledge_plates;
+    let no_plate = |p: usize| graph.is_some_and(|g| !g.is_plate(p));
+    for (i, pid) in ids.iter().enumerate() {
+        match post_ix.get(pid.as_str()) {
+            None => c.err(ElementKind::Site, &name, format!("kentledge plate \"{pid}\" (stability settings) does not exist")),
+            Some(_) if ids[..i].contains(pid) => c.err(ElementKind::Site, &name, format!("kentledge plate {pid} (stability settings) is listed twice")),
+            Some(&p) if no_plate(p) => c.err(ElementKind::Site, &name, format!("kentledge plate {pid} (stability settings) is a post standing on another member: it has no base plate to put kentledge on")),
+            Some(_) => {}
+        }
+    }
+    for (load, posts) in scene.loads.iter().zip(load_posts) {
+        for &p in posts.iter().filter(|&&p| no_plate(p)) {
+            c.err(ElementKind::Load, &load.id, format!("is kentledge on post {}, which stands on another member: it has no base plate; put the kentledge on a base plate or on a deck", scene.posts[p].id));
         }
     }
 }

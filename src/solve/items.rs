@@ -81,6 +81,8 @@ pub enum Route {
     PostTop,
     /// The overturning couple of a horizontal load on the rigid braced base.
     Overturning,
+    /// Kentledge sitting on the plate.
+    Kentledge,
 }
 
 /// One share of the load entering one post: the trace behind every number. The shares of a post

@@ -20,7 +20,7 @@ use crate::solve::beam::{share_simple, BeamLoad, Piece};
 use crate::solve::continuous::{JointedBeam, TwoSpanLocal};
 use crate::solve::arrangement::FlowCache;
 use crate::solve::passes::Behaviour;
-use crate::scene::loads::{Case, Intensity, LoadKind};
+use crate::scene::loads::{Case, Intensity, KentledgePlace, LoadKind};
 use crate::solve::rigid_base::{RigidBase, RigidBaseError};
 use crate::scene::validate::{Model, Target};
 use crate::solve::items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
@@ -234,6 +234,21 @@ fn solve_with(s: &mut Solver, model: &Model, pass: MethodPass, plates: Vec<[f64;
                 let post = &scene.posts[p];
                 applied.add_down(post.x, post.y, *kn);
                 s.post_direct(item, p, *kn, Route::PostTop, load.case);
+            }
+            (LoadKind::Kentledge { on: KentledgePlace::Plates(_), kn, .. }, _) => {
+                // Straight onto the plates, at base level: no member carries it and it does not
+                // lean with the structure, so it adds nothing to a notional horizontal load.
+                let on = &model.load_posts[k];
+                for &p in on {
+                    let post = &scene.posts[p];
+                    let share = kn / on.len() as f64;
+                    applied.add_down(post.x, post.y, share);
+                    s.post_direct(item, p, share, Route::Kentledge, load.case);
+                }
+            }
+            (LoadKind::Kentledge { on: KentledgePlace::Deck { x, y, .. }, kn, .. }, Target::Deck(d)) => {
+                applied.add_down(*x, *y, *kn);
+                s.deck_point(d, *x, *y, *kn, None);
             }
             _ => unreachable!("validation resolves every vertical load to its element"),
         }

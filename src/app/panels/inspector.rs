@@ -3,9 +3,9 @@
 
 use bevy_egui::egui;
 use plateload::edit::{dependants, DeleteMode, Edit, Element};
-use plateload::scene::loads::{Case, Face, Intensity, LoadKind, PlanDirection};
+use plateload::scene::loads::{Case, Face, Intensity, KentledgeForm, KentledgePlace, LoadKind, PlanDirection};
 use plateload::scene::catalogue::{self, Catalogue};
-use plateload::scene::model::{BeamMethod, BeamRole, ElementKind, PlateSize, Rect};
+use plateload::scene::model::{BeamMethod, BeamRole, ElementKind, Interface, PlateSize, Rect};
 use plateload::export::palette::Band;
 use plateload::Scene;
 
@@ -69,6 +69,50 @@ impl Fields<'_> {
         }
         false
     }
+}
+
+/// The interfaces under a support and their friction coefficients.
+fn friction_ui(ui: &mut egui::Ui, f: &mut Fields, list: &mut Vec<Interface>) {
+    let named = [Interface::SteelOnCastConcrete, Interface::SteelOnTrowelledConcrete, Interface::ConcreteOnConcrete, Interface::TimberOnConcrete];
+    let mut remove = None;
+    for (k, i) in list.iter_mut().enumerate() {
+        ui.label(if k == 0 { "Friction interfaces" } else { "" });
+        ui.horizontal(|ui| {
+            match i {
+                Interface::Given { mu, source } => {
+                    if ui.add(egui::DragValue::new(mu).speed(0.01).range(0.0..=1.5).prefix("μ ")).changed() {
+                        f.merge = Some(format!("{}.mu{k}", f.key));
+                    }
+                    let r = ui.add(egui::TextEdit::singleline(source).hint_text("source of μ").desired_width(120.0));
+                    if r.changed() {
+                        f.merge = Some(format!("{}.source{k}", f.key));
+                    }
+                }
+                named => {
+                    ui.label(format!("μ {:.2}: {}", named.mu(), named.label()));
+                }
+            }
+            if ui.small_button("✕").clicked() {
+                remove = Some(k);
+            }
+        });
+        ui.end_row();
+    }
+    if let Some(k) = remove {
+        list.remove(k);
+    }
+    ui.label(if list.is_empty() { "Friction interfaces" } else { "" });
+    egui::ComboBox::from_id_salt(format!("{}-friction", f.key)).selected_text(if list.is_empty() { "none: sliding not checked" } else { "add an interface" }).show_ui(ui, |ui| {
+        for i in named {
+            if ui.selectable_label(false, format!("μ {:.2}: {}", i.mu(), i.label())).clicked() {
+                list.push(i.clone());
+            }
+        }
+        if ui.selectable_label(false, "a coefficient with its source").clicked() {
+            list.push(Interface::Given { mu: 0.3, source: String::new() });
+        }
+    });
+    ui.end_row();
 }
 
 /// A choice among ids.
@@ -304,6 +348,7 @@ impl InspectorPanel {
                         s.sole_plate_id = None;
                     }
                 }
+                friction_ui(ui, &mut f, &mut s.friction);
             }
             Element::Load(l) => {
                 committed |= f.text(ui, "Id", &mut l.id);
@@ -360,6 +405,34 @@ impl InspectorPanel {
                         face_ui(ui, &mut f, face);
                         f.num(ui, "Net pressure", kpa, 0.01, " kPa");
                         direction_ui(ui, &format!("{key}-dir"), direction);
+                    }
+                    LoadKind::Kentledge { on, kn, form, secured } => {
+                        match on {
+                            KentledgePlace::Plates(ids) => {
+                                committed |= f.ids(ui, "On plates", ids);
+                            }
+                            KentledgePlace::Deck { deck, x, y } => {
+                                pick_id(ui, "Deck", "load-deck", deck, &deck_ids);
+                                f.num(ui, "x", x, 0.01, " m");
+                                f.num(ui, "y", y, 0.01, " m");
+                            }
+                        }
+                        f.num(ui, "Weight", kn, 0.1, " kN");
+                        ui.label("Form");
+                        egui::ComboBox::from_id_salt(format!("{key}-form")).selected_text(form.label()).show_ui(ui, |ui| {
+                            for k in [KentledgeForm::Removable, KentledgeForm::WaterFilled, KentledgeForm::Fixed] {
+                                ui.selectable_value(form, k, k.label());
+                            }
+                        });
+                        ui.end_row();
+                        ui.label("Secured");
+                        ui.checkbox(secured, "against removal (chained or clamped to the standards)");
+                        ui.end_row();
+                        if !(*secured || *form == KentledgeForm::Fixed) {
+                            ui.label("");
+                            ui.colored_label(egui::Color32::from_rgb(0xb0, 0x20, 0x20), "not secured: it never counts as holding down");
+                            ui.end_row();
+                        }
                     }
                     LoadKind::Notional { percent, direction, basis } => {
                         f.num(ui, "Percent of vertical load", percent, 0.1, " %");
@@ -527,8 +600,7 @@ pub fn plate_results(ui: &mut egui::Ui, doc: &SceneDoc, id: &str) {
         ui.painter().rect_filled(rect, 2.0, rgb(band.colour()));
         ui.heading(format!("Base plate {}: {:.1} % — {}", p.id, 100.0 * g.utilisation, p.status));
     });
-    let by = if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" };
-    ui.label(format!("Governed by {by} in “{}”.", a.combinations[p.governing].name));
+    ui.label(format!("Governed by {} in “{}”.", g.governed_by(), a.combinations[p.governing].name));
     let i = a.plate_index(id).unwrap_or(0);
     if a.method_count() > 1 {
         ui.label(format!("Method: the maximum comes from {}, the minimum from {}.", a.governing_method_label(i), a.min_method_label(i)));
@@ -555,8 +627,8 @@ pub fn plate_results(ui: &mut egui::Ui, doc: &SceneDoc, id: &str) {
             ui.end_row();
         }
     });
-    egui::Grid::new("plate-combs").num_columns(6).striped(true).show(ui, |ui| {
-        for h in ["combination", "max kN", "min kN", "util %", "kPa", "status"] {
+    egui::Grid::new("plate-combs").num_columns(7).striped(true).show(ui, |ui| {
+        for h in ["combination", "max kN", "min kN", "util %", "on layer kPa", "formation kPa", "status"] {
             ui.strong(h);
         }
         ui.end_row();
@@ -565,13 +637,37 @@ pub fn plate_results(ui: &mut egui::Ui, doc: &SceneDoc, id: &str) {
             ui.label(format!("{:.3}", pc.max_kn));
             ui.label(format!("{:.3}", pc.min_kn));
             ui.label(format!("{:.1}", 100.0 * pc.utilisation));
+            ui.label(pc.layer_top_kpa.map_or_else(|| "—".to_owned(), |q| format!("{q:.1}")));
             ui.label(format!("{:.1}", pc.bearing_kpa));
             ui.label(pc.status.label());
             ui.end_row();
         }
     });
-    ui.label(format!(
-        "Support {}: SWL {:.1} kN; bearing area {:.4} m² on {:.0} kPa allowable.",
-        p.support, p.swl_kn, p.bearing_area_m2, p.allowable_kpa
-    ));
+    let allowable = match p.allowable_kpa {
+        Some(q) => format!("{q:.0} kPa allowable ({})", a.ground.basis.label()),
+        None => "no allowable entered: ground bearing not checked".to_owned(),
+    };
+    ui.label(format!("Support {}: SWL {:.1} kN; bearing area at formation {:.4} m², {allowable}.", p.support, p.swl_kn, p.bearing_area_m2));
+    if let Some(l) = a.ground.layer {
+        ui.label(match l.allowable_kpa {
+            Some(q) => format!("On the granular layer: {:.4} m² under the plate, {q:.0} kPa allowable.", p.plate_area_m2),
+            None => format!("On the granular layer: {:.4} m² under the plate; no allowable entered, not checked.", p.plate_area_m2),
+        });
+    }
+    if let Some(h) = p.hold_down {
+        let k = h.kentledge_kn.map_or_else(String::new, |k| format!(" or {k:.2} kN secured kentledge on it"));
+        ui.colored_label(egui::Color32::from_rgb(0xb0, 0x20, 0x20), format!("Lifts: needs an anchor for {:.2} kN{k} ({}).", h.anchor_kn, a.combinations[h.combination].name));
+    }
+    if let Some(s) = &p.sliding {
+        let text = match (s.mu, s.factor) {
+            (Some(mu), Some(f)) if s.slides => format!("Slides {}: shear {:.2} kN, μ {mu:.2}, factor {f:.2}: restrain it for {:.2} kN.", s.towards, s.shear_kn, s.restraint_kn),
+            (Some(mu), Some(f)) => format!("Sliding {}: shear {:.2} kN, μ {mu:.2}, factor {f:.2}.", s.towards, s.shear_kn),
+            _ => format!("Sliding {}: shear {:.2} kN, not checked (no friction given for its support type).", s.towards, s.shear_kn),
+        };
+        if s.slides {
+            ui.colored_label(egui::Color32::from_rgb(0xb0, 0x20, 0x20), text);
+        } else {
+            ui.label(text);
+        }
+    }
 }

@@ -93,8 +93,12 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
     let (u, st) = reading(p, comb);
     let c = comb.unwrap_or(p.governing).min(p.combinations.len().saturating_sub(1));
     let pc = &p.combinations[c];
-    let text = format!(
-        "base plate {} — {:.1} % {}\nG {:.2} kN · Q {:.2} kN · W {:.2} kN\n{}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\nbearing {:.1} kPa of {:.0} kPa allowed\nmax by {}",
+    let bearing = match p.allowable_kpa {
+        Some(q) => format!("bearing {:.1} kPa of {q:.0} kPa allowed ({})", pc.bearing_kpa, a.ground.basis.label()),
+        None => format!("bearing {:.1} kPa, not checked (no allowable)", pc.bearing_kpa),
+    };
+    let mut text = format!(
+        "base plate {} — {:.1} % {}\nG {:.2} kN · Q {:.2} kN · W {:.2} kN\n{}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\n{bearing}",
         p.id,
         100.0 * u,
         st.label(),
@@ -105,10 +109,20 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
         pc.max_kn,
         pc.min_kn,
         p.swl_kn,
-        pc.bearing_kpa,
-        p.allowable_kpa,
-        a.method_label(pc.max_method)
     );
+    if let Some(q) = pc.layer_top_kpa {
+        text += &match pc.layer_utilisation {
+            Some(l) => format!("\non the layer {q:.1} kPa ({:.0} %)", 100.0 * l),
+            None => format!("\non the layer {q:.1} kPa, not checked"),
+        };
+    }
+    if let Some(h) = p.hold_down {
+        text += &format!("\nlifts: anchor {:.2} kN{}", h.anchor_kn, h.kentledge_kn.map_or_else(String::new, |k| format!(" or {k:.2} kN kentledge")));
+    }
+    if let Some(s) = p.sliding.as_ref().filter(|s| s.slides) {
+        text += &format!("\nslides: restrain for {:.2} kN", s.restraint_kn);
+    }
+    text += &format!("\nmax by {}", a.method_label(pc.max_method));
     let g = painter.layout_no_wrap(text, FontId::proportional(13.0), Color32::BLACK);
     let size = g.size() + Vec2::new(20.0, 10.0);
     let mut at = pointer + Vec2::new(18.0, 18.0);
@@ -142,19 +156,31 @@ fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usi
     let (u, status) = reading(p, comb);
     let c = comb.unwrap_or(p.governing);
     let pc = &p.combinations[c.min(p.combinations.len().saturating_sub(1))];
-    let by = if pc.bearing_utilisation >= pc.load_utilisation {
-        format!("ground bearing {:.0} kPa of {:.0} kPa allowed", pc.bearing_kpa, p.allowable_kpa)
-    } else {
-        format!("{:.1} kN on a {:.1} kN jack", pc.max_kn, p.swl_kn)
+    let by = match pc.governed_by() {
+        "ground bearing" => format!("ground bearing {:.0} kPa of {:.0} kPa allowed", pc.bearing_kpa, p.allowable_kpa.unwrap_or(0.0)),
+        "granular layer" => format!("{:.0} kPa on the granular layer", pc.layer_top_kpa.unwrap_or(0.0)),
+        _ => format!("{:.1} kN on a {:.1} kN jack", pc.max_kn, p.swl_kn),
     };
     let over = a.plates.iter().filter(|p| reading(p, comb).1.over).count();
     let lift = a.plates.iter().filter(|p| reading(p, comb).1.uplift).count();
-    let lines = [
+    let mut lines = vec![
         (format!("Worst base plate: {} at {:.1} %", p.id, 100.0 * u), 20.0, true),
         (format!("{by} ({})", a.combinations[c].name), 14.0, false),
         (format!("{over} over capacity · {lift} lifting · {} base plates", a.plates.len()), 14.0, false),
-        (format!("colours: {comb_name}"), 12.0, false),
     ];
+    // Whole-structure checks that fail lead the rest (details in "Equilibrium & stability").
+    if let Some(why) = &a.stability.refused {
+        lines.push((format!("overturning NOT CHECKED: {why}"), 14.0, true));
+    } else if a.stability.fails() {
+        if let Some((_, ax)) = a.stability.governing() {
+            let need = ax.kentledge.as_ref().and_then(|k| k.needed_kn).map_or_else(String::new, |k| format!(", needs {k:.2} kN kentledge"));
+            lines.push((format!("overturning FAILS towards {} (factor {}){need}", ax.towards, ax.factor.map_or_else(|| "—".to_owned(), |f| format!("{f:.2}"))), 14.0, true));
+        }
+    }
+    if a.sliding.fails() {
+        lines.push((format!("sliding FAILS: {} plate(s) to restrain", a.sliding.plates_to_restrain), 14.0, true));
+    }
+    lines.push((format!("colours: {comb_name}"), 12.0, false));
     // Wrapped to the column beside a picture; one line each inside the editor's view.
     let wrap = if side { column.width() - 24.0 } else { f32::INFINITY };
     let galleys: Vec<_> = lines.iter().map(|(t, s, _)| painter.layout(t.clone(), FontId::proportional(*s), Color32::BLACK, wrap)).collect();
