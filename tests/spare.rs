@@ -206,3 +206,27 @@ mod properties {
         }
     }
 }
+
+#[test]
+fn a_point_beyond_the_tipping_edge_is_limited_by_overturning() {
+    // statics, by hand: the deck cantilevers 2 m past the north bearer (y = 3) of a one-bay tower
+    // (its two lines joined by transoms). Each plate carries
+    // 1 kN of permanent load. About the north edge the two south plates restore 2 × 1 × 3 = 6 kN·m.
+    // With a target factor of 2.0 the room is 6 / 2 = 3 kN·m: a load at the tip (lever 2 m) may
+    // add 1.5 kN. (EQU, EN 1990 Table A1.2(A): 0.9 × 6 = 5.4 ≥ 1.5 × 2 × P → 1.8 kN; the south
+    // plates lift at 0.9 / (1.5 × 1/3) = 1.8 kN too: both less strict here.)
+    let mut s = strip(5.0);
+    for id in ["A1", "B1", "A2", "B2"] {
+        s.loads.push(load(&format!("kit-{id}"), Case::G, LoadKind::PostTop { post: id.into(), kn: 1.0 }));
+    }
+    // Transoms join the two lines into one structure (weightless, carrying nothing).
+    s.bearers.push(bearer("West", 1.0, &["A1", "A2"]));
+    s.bearers.push(bearer("East", 1.0, &["B1", "B2"]));
+    s.stability.target_factor = 2.0;
+    let a = analyse(&s).unwrap();
+    let map = spare_map(&s, &a, &SpareSettings::default()).unwrap();
+    let tip = at(&map, 1.0, 5.0);
+    close("spare at the tip", tip.kn.unwrap(), 1.5, 1e-9);
+    assert!(matches!(&tip.limit, Limit::Overturning { form: "factor of safety", .. }), "{:?}", tip.limit);
+    assert!(tip.limit.words().starts_with("overturning about"), "{}", tip.limit.words());
+}

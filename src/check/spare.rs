@@ -77,6 +77,13 @@ pub enum Limit {
         /// Method pass.
         method: String,
     },
+    /// The structure reaches its overturning target about an axis.
+    Overturning {
+        /// The axis, e.g. `edge A1–G1`.
+        about: String,
+        /// Which form: `factor of safety` or `EQU`.
+        form: &'static str,
+    },
     /// The deck reaches its load class.
     Deck {
         /// What of the class limits it, in words (e.g. `load class 3, q1 2.0 kPa over the footprint`).
@@ -93,6 +100,7 @@ impl Limit {
         match self {
             Limit::Plate { plate, check, combination, .. } if *check == "uplift" => format!("plate {plate} would lift ({combination})"),
             Limit::Plate { plate, check, combination, .. } => format!("plate {plate}, {check} ({combination})"),
+            Limit::Overturning { about, form } => format!("overturning about {about} ({form})"),
             Limit::Deck { what } => format!("the deck, {what}"),
             Limit::None => "no limit found".into(),
         }
@@ -385,6 +393,7 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     let (rows, cols) = shape;
     // The deck's own capacity under the footprint: the most its load class allows there, less
     // the imposed load already on it.
+    let tipping = tipping_room(analysis, per_pass);
     let class = deck_class(scene, deck).and_then(LoadClass::get);
     let models = class.map(|c| class_models(c, settings.footprint)).unwrap_or_default();
     let mut points = Vec::with_capacity(rows * cols);
@@ -404,6 +413,22 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
                 Limit::None
             };
             let mut already = b.already;
+            // Overturning: a load beyond an axis of the structure under the deck adds its moment
+            // there (an imposed load never restores), in both forms.
+            for t in &tipping {
+                let lever = (x - t.point[0]) * t.normal[0] + (y - t.point[1]) * t.normal[1];
+                if lever <= 0.0 {
+                    continue;
+                }
+                for (room, gamma, form) in [(t.factor_room, 1.0, "factor of safety"), (t.equ_room, t.equ_gamma, "EQU")] {
+                    let kn_here = room.max(0.0) / (gamma * settings.dynamic_factor * lever);
+                    if kn_here < kn {
+                        kn = kn_here;
+                        already = room <= 0.0;
+                        limit = Limit::Overturning { about: t.about.clone(), form };
+                    }
+                }
+            }
             if !models.is_empty() {
                 // The class's load models are alternatives: the one that leaves the most room.
                 let (room, what) = models
@@ -423,6 +448,44 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
         }
     }
     DeckSpare { deck: deck.id.clone(), level: deck.level, load_class: class.map(|c| c.class), points, columns: cols }
+}
+
+/// Room an axis of overturning leaves for a load placed beyond it.
+struct TippingRoom {
+    about: String,
+    point: [f64; 3],
+    normal: [f64; 2],
+    /// Restoring ÷ target − overturning, kN·m (factor-of-safety form, unfactored).
+    factor_room: f64,
+    /// E_d,stb − E_d,dst, kN·m, and the imposed-load factor of the EQU form.
+    equ_room: f64,
+    equ_gamma: f64,
+}
+
+/// The overturning axes of the structure that carries the deck — every plate its loads reach —
+/// with the room each leaves. A load on the deck then turns that structure about an axis by its
+/// full lever. (A deck shared by structures that are not joined puts on each only reactions at its
+/// own posts, which turn it about its edges only by lifting its plates: the plate checks above
+/// cover that.)
+fn tipping_room(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<TippingRoom> {
+    let st = &analysis.stability;
+    let reached: std::collections::HashSet<u32> = per_pass.iter().flat_map(|inf| inf.flows.iter().flatten().flatten().filter(|e| e.1 != 0.0).map(|e| e.0)).collect();
+    st.structures
+        .iter()
+        .filter(|s| !reached.is_empty() && reached.iter().all(|p| s.plates.contains(p)))
+        .flat_map(|s| s.axes.iter())
+        .map(|t| {
+            let overturning = t.permanent_destabilising_knm + t.imposed_destabilising_knm + t.horizontal_destabilising_knm;
+            TippingRoom {
+                about: t.about.clone(),
+                point: t.point,
+                normal: t.normal,
+                factor_room: t.permanent_stabilising_knm / st.target_factor - overturning,
+                equ_room: t.equ_stabilising_knm - t.equ_destabilising_knm,
+                equ_gamma: st.equilibrium.q.max(f64::MIN_POSITIVE),
+            }
+        })
+        .collect()
 }
 
 /// The limit one plate puts on the placed load (before the factor γ·φ) for an `effect` of 1 kN
