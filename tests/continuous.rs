@@ -25,6 +25,8 @@ fn bearer(id: &str, posts: &[&str]) -> Bearer {
 
 fn scene() -> Scene {
     let mut s = Scene::empty("test site", 1.0e6);
+    // Vertical load paths on their own: no notional load generated.
+    s.horizontal.notional = plateload::scene::model::NotionalRule::Off;
     s.support_types.push(SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 1.0e6, sole_plate: None });
     s
 }
@@ -138,7 +140,7 @@ fn deck_on_three_bearers() -> Scene {
         s.bearers.push(bearer(&format!("B{j}"), &refs));
         names.push(format!("B{j}"));
     }
-    s.decks.push(Deck { id: "D".into(), level: 2.0, extent: Rect { x: (0.0, 3.0), y: (0.0, 2.0) }, bearers: names, self_weight_kpa: 0.0, method: None });
+    s.decks.push(Deck { id: "D".into(), level: 2.0, extent: Rect { x: (0.0, 3.0), y: (0.0, 2.0) }, bearers: names, self_weight_kpa: 0.0, method: None, diaphragm: false });
     s.loads.push(Load { id: "q".into(), case: Case::Q, kind: LoadKind::DeckArea { deck: "D".into(), intensity: Intensity::Kpa(2.0) } });
     s
 }

@@ -87,10 +87,12 @@ pub struct PlateCombination {
 /// Combine the case reactions of every plate under every combination.
 ///
 /// Permanent load takes, per plate, whichever of its two factors is worse for the value sought;
-/// each vertical variable item is added only where it makes that value worse, and of the
-/// horizontal loads the worst single plan direction is taken ([`crate::check::actions::VariableActions`]).
-/// For the minimum, a notional load counts only with the part due to permanent load: the
-/// variable load it would come from is then absent.
+/// each imposed load and each identified horizontal force is added only where it makes that value
+/// worse, and of wind with notional load the worst single plan direction is taken
+/// ([`crate::check::actions::VariableActions`]). For the minimum, a notional load counts only with
+/// the part due to permanent load: the variable load it would come from is then absent. With ψ0
+/// set, each variable case leads in turn; where diaphragms were solved both ways, each way in
+/// turn; the worse governs every plate.
 pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Vec<Vec<PlateCombination>> {
     let n = solution.plates.len();
     let case = solution.case_vertical();
@@ -98,57 +100,71 @@ pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Ve
     let allowable = scene.site.allowable_bearing_kpa;
     let mut out = vec![Vec::with_capacity(scene.combinations.len()); n];
     let (mut hi, mut lo) = (vec![0.0; n], vec![0.0; n]);
+    let (mut best_hi, mut best_lo) = (vec![0.0; n], vec![0.0; n]);
     let (mut group_hi, mut group_lo) = (vec![0.0; n], vec![0.0; n]);
     let actions = crate::check::actions::VariableActions::of(&solution.items);
     for comb in &scene.combinations {
         let f = comb.factors;
-        for p in 0..n {
-            let g = case[p][Case::G.index()];
-            let (a, b) = (f.g_unfavourable * g, f.g_favourable * g);
-            hi[p] = a.max(b);
-            lo[p] = a.min(b);
-        }
-        for &i in &actions.independent {
-            let item = &solution.items[i];
-            let gamma = comb.variable_factor(item.case);
-            for &(p, v) in &item.vertical {
-                let v = gamma * v;
-                if v > 0.0 {
-                    hi[p as usize] += v;
-                } else {
-                    lo[p as usize] += v;
+        best_hi.iter_mut().for_each(|v| *v = f64::NEG_INFINITY);
+        best_lo.iter_mut().for_each(|v| *v = f64::INFINITY);
+        // Each leading action (with ψ0) and each diaphragm assumption is a way the structure may
+        // be loaded; the worse governs each plate.
+        for &leading in crate::check::actions::leading_options(comb) {
+            for variant in 0..actions.variants {
+                for p in 0..n {
+                    let g = case[p][Case::G.index()];
+                    let (a, b) = (f.g_unfavourable * g, f.g_favourable * g);
+                    hi[p] = a.max(b);
+                    lo[p] = a.min(b);
                 }
-            }
-        }
-        // Horizontal directions are alternatives: the worst single direction counts.
-        if !actions.by_direction.is_empty() {
-            let (mut worst_hi, mut worst_lo) = (vec![0.0f64; n], vec![0.0f64; n]);
-            for group in &actions.by_direction {
-                group_hi.iter_mut().for_each(|v| *v = 0.0);
-                group_lo.iter_mut().for_each(|v| *v = 0.0);
-                for &i in group {
+                for &i in &actions.independent {
                     let item = &solution.items[i];
-                    let gamma = comb.variable_factor(item.case);
-                    for &(p, v) in &item.vertical {
-                        group_hi[p as usize] += gamma * v;
+                    let gamma = crate::check::actions::variable_factor(comb, item, leading);
+                    for &(p, v) in item.variant(variant).0 {
+                        let v = gamma * v;
+                        if v > 0.0 {
+                            hi[p as usize] += v;
+                        } else {
+                            lo[p as usize] += v;
+                        }
                     }
-                    for &(p, v) in item.vertical_permanent_basis.as_ref().unwrap_or(&item.vertical) {
-                        group_lo[p as usize] += gamma * v;
+                }
+                // Horizontal directions are alternatives: the worst single direction counts.
+                if !actions.by_direction.is_empty() {
+                    let (mut worst_hi, mut worst_lo) = (vec![0.0f64; n], vec![0.0f64; n]);
+                    for group in &actions.by_direction {
+                        group_hi.iter_mut().for_each(|v| *v = 0.0);
+                        group_lo.iter_mut().for_each(|v| *v = 0.0);
+                        for &i in group {
+                            let item = &solution.items[i];
+                            let gamma = crate::check::actions::variable_factor(comb, item, leading);
+                            let (vertical, _, permanent) = item.variant(variant);
+                            for &(p, v) in vertical {
+                                group_hi[p as usize] += gamma * v;
+                            }
+                            for &(p, v) in permanent.unwrap_or(vertical) {
+                                group_lo[p as usize] += gamma * v;
+                            }
+                        }
+                        for p in 0..n {
+                            worst_hi[p] = worst_hi[p].max(group_hi[p]);
+                            worst_lo[p] = worst_lo[p].min(group_lo[p]);
+                        }
+                    }
+                    for p in 0..n {
+                        hi[p] += worst_hi[p];
+                        lo[p] += worst_lo[p];
                     }
                 }
                 for p in 0..n {
-                    worst_hi[p] = worst_hi[p].max(group_hi[p]);
-                    worst_lo[p] = worst_lo[p].min(group_lo[p]);
+                    best_hi[p] = best_hi[p].max(hi[p]);
+                    best_lo[p] = best_lo[p].min(lo[p]);
                 }
-            }
-            for p in 0..n {
-                hi[p] += worst_hi[p];
-                lo[p] += worst_lo[p];
             }
         }
         for p in 0..n {
             let support = &scene.support_types[post_support[p]];
-            out[p].push(plate_combination(comb, hi[p], lo[p], support.swl_kn, bearing[post_support[p]], allowable));
+            out[p].push(plate_combination(comb, best_hi[p], best_lo[p], support.swl_kn, bearing[post_support[p]], allowable));
         }
     }
     out

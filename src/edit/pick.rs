@@ -822,8 +822,8 @@ mod tests {
         let down = Ray::new([3.0, 1.5, 50.0], [0.0, 0.0, -1.0]);
         let hit = pick(&shapes, &down, &PickTolerance::default()).unwrap();
         assert_eq!(hit.element, ElementRef::post("C2"));
-        // Off every post but over the deck: the deck (or a load sheet above it).
-        let hit = pick(&shapes, &Ray::new([0.75, 0.75, 50.0], [0.0, 0.0, -1.0]), &PickTolerance::default()).unwrap();
+        // Off every post and plan brace but over the deck: the deck (or a load sheet above it).
+        let hit = pick(&shapes, &Ray::new([1.1, 0.4, 50.0], [0.0, 0.0, -1.0]), &PickTolerance::default()).unwrap();
         assert!(matches!(hit.element.kind, ElementKind::Deck | ElementKind::Load), "{hit:?}");
         // A ray beside the structure hits nothing.
         assert!(pick(&shapes, &Ray::new([30.0, 30.0, 50.0], [0.0, 0.0, -1.0]), &PickTolerance::default()).is_none());

@@ -25,7 +25,20 @@ pub fn route_words(scene: &Scene, route: Route) -> String {
         Route::PostSelfWeight => "own weight of the post".into(),
         Route::PostTop => "load on the post top".into(),
         Route::Overturning => "overturning couple on the braced base".into(),
+        Route::Brace { brace } => brace_words(scene, brace as usize),
     }
+}
+
+/// Words for the vertical component of a brace's force: its braced bay and lever arm.
+pub fn brace_words(scene: &Scene, brace: usize) -> String {
+    let Some(b) = scene.braces.get(brace) else { return "a brace".into() };
+    let at = |id: &str| scene.posts.iter().find(|p| p.id == id).map(|p| (p.x, p.y));
+    let lever = match (at(&b.from.post), at(&b.to.post)) {
+        (Some(a), Some(z)) => format!(", lever {:.3} m", (z.0 - a.0).hypot(z.1 - a.1)),
+        _ => String::new(),
+    };
+    let (lo, hi) = (b.from.level.min(b.to.level), b.from.level.max(b.to.level));
+    format!("braced bay {}–{} (brace {}, {lo:.3}–{hi:.3} m){lever}", b.from.post, b.to.post, b.id)
 }
 
 fn role(r: crate::scene::model::BeamRole) -> &'static str {

@@ -7,9 +7,11 @@
 //! - [`io`]: scene files, with `file:line:col` errors and atomic saves.
 //! - [`validate`](mod@validate): every problem at once, with element ids; resolves ids to indices and
 //!   sets up the member lines the solver works on ([`Model`]).
+//! - [`bracing`]: what the braces make — braced planes, diaphragms, and where each post is held.
 //! - [`layout`]: the generator of regular scaffolds and birdcages.
 //! - [`demo`]: the built-in demo scenes.
 
+pub mod bracing;
 pub mod combination;
 pub mod demo;
 pub mod geometry;

@@ -4,6 +4,7 @@
 use crate::fxhash::FxMap as HashMap;
 use std::fmt;
 
+use crate::scene::bracing::{analyse_bracing, place_loads, Bracing};
 use crate::scene::loads::{Intensity, LoadKind};
 use crate::scene::model::{ElementKind, Scene};
 
@@ -152,12 +153,12 @@ pub enum Target {
     None,
 }
 
-/// Which plan directions the braces cover.
+/// Which plan directions have a braced plane.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, serde::Serialize)]
 pub struct Braced {
-    /// Some brace runs along x (within 75°).
+    /// Some plane along x is braced from the ground.
     pub x: bool,
-    /// Some brace runs along y (within 75°).
+    /// Some plane along y is braced from the ground.
     pub y: bool,
 }
 
@@ -176,12 +177,11 @@ pub struct Model<'s> {
     pub load_targets: Vec<Target>,
     /// Braced plan directions.
     pub braced: Braced,
+    /// Braced planes, diaphragms, and where each post is held horizontally.
+    pub bracing: Bracing,
     /// Non-fatal findings worth a look.
     pub warnings: Vec<Problem>,
 }
-
-/// A brace counts for an axis if its plan direction is within this many degrees of it.
-const BRACE_AXIS_LIMIT_DEG: f64 = 75.0;
 
 struct Checker<'s> {
     scene: &'s Scene,
@@ -268,10 +268,12 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
     let post_support = check_posts(&mut c, &support_ix);
     let bearers = check_bearers(&mut c, &post_ix);
     let decks = check_decks(&mut c, &bearer_ix, &bearers);
-    let braced = check_braces(&mut c, &post_ix);
-    let load_targets = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers, braced);
+    check_braces(&mut c, &post_ix);
+    let load_targets = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers);
     check_combinations(&mut c);
-    check_one_braced_body(&mut c, &post_ix, &bearers);
+    let mut bracing = analyse_bracing(scene, &post_ix, &bearers, &mut c.problems, &mut c.warnings);
+    place_loads(scene, &mut bracing, &mut c.problems);
+    let braced = Braced { x: bracing.braced_along(Axis::X), y: bracing.braced_along(Axis::Y) };
 
     if c.problems.is_empty() {
         Ok(Model {
@@ -281,6 +283,7 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
             decks: decks.into_iter().map(|d| d.expect("checked")).collect(),
             load_targets,
             braced,
+            bracing,
             warnings: c.warnings,
         })
     } else {
@@ -299,6 +302,15 @@ fn check_site(c: &mut Checker) {
             if !(a.is_finite() && (0.0..89.0).contains(&a)) {
                 c.err(K::Site, &name, format!("spread angle {a}° must be from 0° up to 89°"));
             }
+        }
+    }
+    let h = &c.scene.horizontal;
+    if let crate::scene::model::NotionalRule::Percent(p) = h.notional {
+        c.positive(K::Site, &name, "notional horizontal load (%)", p, 100.0, true);
+    }
+    for d in &h.directions {
+        if let crate::scene::loads::PlanDirection::Degrees(deg) = d {
+            c.number(K::Site, &name, "checked direction (degrees)", *deg, 1e4);
         }
     }
     let target = c.scene.stability.target_factor;
@@ -575,13 +587,12 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
     out
 }
 
-fn check_braces(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Braced {
+/// Brace ends on existing posts, within their height. What each brace is (and whether it is a
+/// brace at all) is worked out in [`crate::scene::bracing`].
+fn check_braces(c: &mut Checker, post_ix: &HashMap<&str, usize>) {
     use ElementKind as K;
     let scene = c.scene;
-    let mut braced = Braced::default();
-    let limit = BRACE_AXIS_LIMIT_DEG.to_radians().cos();
     for b in &scene.braces {
-        let mut ends = Vec::new();
         for node in [&b.from, &b.to] {
             match post_ix.get(node.post.as_str()) {
                 None => c.err(K::Brace, &b.id, format!("post \"{}\" does not exist", node.post)),
@@ -592,25 +603,10 @@ fn check_braces(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Braced {
                     {
                         c.err(K::Brace, &b.id, format!("level {} is not on post {}", node.level, post.id));
                     }
-                    ends.push(post);
                 }
             }
         }
-        if let [a, z] = ends[..] {
-            let (dx, dy) = (z.x - a.x, z.y - a.y);
-            let len = dx.hypot(dy);
-            if !len.is_finite() {
-                continue;
-            }
-            if len < GEOMETRY_TOLERANCE_M {
-                c.err(K::Brace, &b.id, "joins two points on the same post line: it braces no plan direction");
-                continue;
-            }
-            braced.x |= dx.abs() / len >= limit;
-            braced.y |= dy.abs() / len >= limit;
-        }
     }
-    braced
 }
 
 fn check_loads(
@@ -619,7 +615,6 @@ fn check_loads(
     bearer_ix: &HashMap<&str, usize>,
     post_ix: &HashMap<&str, usize>,
     bearers: &[Option<BearerLine>],
-    braced: Braced,
 ) -> Vec<Target> {
     use ElementKind as K;
     let scene = c.scene;
@@ -727,7 +722,7 @@ fn check_loads(
                 for (what, v, lim) in [("x (m)", *x, LIMIT_M), ("y (m)", *y, LIMIT_M), ("level (m)", *level, LIMIT_M), ("force (kN)", *kn, LIMIT_KN)] {
                     c.number(K::Load, id, what, v, lim);
                 }
-                check_direction(c, id, *direction, braced);
+                check_direction(c, id, *direction);
                 Some(Target::None)
             }
             LoadKind::Wind { face, kpa, direction } => {
@@ -739,7 +734,7 @@ fn check_loads(
                 if ok && face.top - face.bottom < MIN_SPAN_M {
                     c.err(K::Load, id, format!("face top {} must be above its bottom {}", face.top, face.bottom));
                 }
-                if check_direction(c, id, *direction, braced) && ok {
+                if check_direction(c, id, *direction) && ok {
                     let (ux, uy) = direction.unit();
                     let (dx, dy) = (face.to.0 - face.from.0, face.to.1 - face.from.1);
                     if (dx * uy - dy * ux).abs() < MIN_SPAN_M {
@@ -756,7 +751,7 @@ fn check_loads(
                 if let Some(twice) = basis.iter().enumerate().find(|(i, b)| basis[..*i].contains(b)) {
                     c.err(K::Load, id, format!("names case {} twice: its percentage would be counted twice", twice.1));
                 }
-                check_direction(c, id, *direction, braced);
+                check_direction(c, id, *direction);
                 Some(Target::None)
             }
         };
@@ -765,84 +760,13 @@ fn check_loads(
     out
 }
 
-/// Horizontal loads are shared among all base plates as one rigid braced body. That holds only
-/// if every post is joined to the others by bearers or braces: separate structures would lean
-/// on each other through nothing, so refuse rather than give a wrong share.
-fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>, bearers: &[Option<BearerLine>]) {
-    let scene = c.scene;
-    let n = scene.posts.len();
-    if n < 2 || !scene.loads.iter().any(|l| l.kind.is_horizontal()) {
-        return;
-    }
-    let mut parent: Vec<usize> = (0..n).collect();
-    fn root(parent: &mut [usize], mut i: usize) -> usize {
-        while parent[i] != i {
-            parent[i] = parent[parent[i]];
-            i = parent[i];
-        }
-        i
-    }
-    fn join(parent: &mut [usize], a: usize, b: usize) {
-        let (ra, rb) = (root(parent, a), root(parent, b));
-        parent[ra] = rb;
-    }
-    // Bearers by their resolved posts (ids already looked up once); braces by id.
-    for line in bearers.iter().flatten() {
-        for w in line.posts.windows(2) {
-            join(&mut parent, w[0], w[1]);
-        }
-    }
-    for b in &scene.braces {
-        if let (Some(&a), Some(&z)) = (post_ix.get(b.from.post.as_str()), post_ix.get(b.to.post.as_str())) {
-            join(&mut parent, a, z);
-        }
-    }
-    // First post of each separate group, in file order.
-    let mut firsts: Vec<(usize, usize)> = Vec::new();
-    let mut root_seen = vec![false; n];
-    for i in 0..n {
-        let r = root(&mut parent, i);
-        if !root_seen[r] {
-            root_seen[r] = true;
-            firsts.push((r, i));
-        }
-    }
-    if firsts.len() > 1 {
-        let names: Vec<&str> = firsts.iter().take(4).map(|&(_, i)| scene.posts[i].id.as_str()).collect();
-        let more = if firsts.len() > 4 { ", …" } else { "" };
-        for l in scene.loads.iter().filter(|l| l.kind.is_horizontal()) {
-            c.err(
-                ElementKind::Load,
-                &l.id,
-                format!(
-                    "acts horizontally, but the posts form {} separate structures not joined by any bearer or brace (the groups of {}{more}): horizontal load cannot be shared between them; join them or analyse each in its own scene",
-                    firsts.len(),
-                    names.join(", ")
-                ),
-            );
-        }
-    }
-}
-
-/// A horizontal load needs bracing in each plan direction it has a component in.
-fn check_direction(c: &mut Checker, id: &str, dir: crate::scene::loads::PlanDirection, braced: Braced) -> bool {
+/// A plan direction given in degrees must be a number. Whether the bracing can take the load is
+/// found when it is carried down ([`crate::solve::braced`]).
+fn check_direction(c: &mut Checker, id: &str, dir: crate::scene::loads::PlanDirection) -> bool {
     if let crate::scene::loads::PlanDirection::Degrees(d) = dir {
         if !c.number(ElementKind::Load, id, "direction (degrees)", d, 1e4) {
             return false;
         }
-    }
-    let (ux, uy) = dir.unit();
-    let tol = 1e-9;
-    let mut missing = Vec::new();
-    if ux.abs() > tol && !braced.x {
-        missing.push("x");
-    }
-    if uy.abs() > tol && !braced.y {
-        missing.push("y");
-    }
-    if !missing.is_empty() {
-        c.err(ElementKind::Load, id, format!("acts horizontally along {}, but no brace covers that direction: add a brace or remove the load", missing.join(" and ")));
-        return false;
     }
     true
 }
@@ -867,6 +791,13 @@ fn check_combinations(c: &mut Checker) {
         }
         if f.g_favourable > f.g_unfavourable {
             c.warn(K::Combination, n, "favourable permanent factor is above the unfavourable one");
+        }
+        if let Some(psi) = comb.psi0 {
+            for (what, v) in [("ψ0 of imposed loads", psi.imposed), ("ψ0 of horizontal loads", psi.horizontal)] {
+                if c.number(K::Combination, n, what, v, 1.0) && v < 0.0 {
+                    c.err(K::Combination, n, format!("{what} must be from 0 to 1 (it is {v})"));
+                }
+            }
         }
     }
 }

@@ -66,6 +66,42 @@ pub enum Route {
     PostTop,
     /// The overturning couple of a horizontal load on the rigid braced base.
     Overturning,
+    /// The vertical component of a brace force: brace index in the scene. It reaches the plate
+    /// down the post at the brace's end.
+    Brace {
+        /// Brace index.
+        brace: u32,
+    },
+}
+
+/// What kind of action a load item is, for combining it with the others.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
+pub enum Action {
+    /// A vertical load.
+    Vertical,
+    /// Wind: the plan directions are alternatives.
+    Wind,
+    /// An identified horizontal force: independent, present wherever it is unfavourable.
+    Identified,
+    /// A notional horizontal load: acts with the wind of its own direction.
+    Notional,
+}
+
+/// The reactions of a horizontal item under a second assumption about how its diaphragms share
+/// it (the primary is the lever rule between adjacent braced planes, this one a rigid diaphragm
+/// with equal-stiffness planes). Each balances the load on its own; the worse governs each plate.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct Alternative {
+    /// What the primary reactions assume.
+    pub primary: &'static str,
+    /// What these assume.
+    pub label: &'static str,
+    /// Upward vertical reaction at each plate it reaches: (plate, kN).
+    pub vertical: Vec<(u32, f64)>,
+    /// Horizontal reaction at each plate it reaches: (plate, [x, y] kN).
+    pub shear: Vec<(u32, [f64; 2])>,
+    /// As [`Item::vertical_permanent_basis`].
+    pub vertical_permanent_basis: Option<Vec<(u32, f64)>>,
 }
 
 /// One reaction share at one base plate: the trace behind every number.
@@ -100,6 +136,13 @@ pub struct Item {
     /// part due to permanent load alone. Where uplift is sought the variable load is absent, and
     /// so is the notional load it would cause.
     pub vertical_permanent_basis: Option<Vec<(u32, f64)>>,
+    /// How it combines with the others.
+    pub action: Action,
+    /// Its reactions under the other diaphragm assumption, where that differs.
+    pub alternative: Option<Box<Alternative>>,
+    /// How a generated item was made (e.g. the notional rule and the vertical load it is a share
+    /// of); empty for the scene's own loads.
+    pub note: String,
 }
 
 impl Item {
@@ -114,15 +157,40 @@ impl Item {
 
     /// Resultant of the item's plate reactions.
     pub fn reaction_resultant(&self, plates: &[[f64; 3]]) -> Resultant {
-        let mut r = Resultant::default();
-        for &(p, v) in &self.vertical {
-            r.add(plates[p as usize], [0.0, 0.0, v]);
-        }
-        for &(p, [sx, sy]) in &self.shear {
-            r.add(plates[p as usize], [sx, sy, 0.0]);
-        }
-        r
+        resultant_of(plates, &self.vertical, &self.shear)
     }
+
+    /// Number of reaction sets: 2 when an alternative diaphragm assumption differs, else 1.
+    pub fn variant_count(&self) -> usize {
+        1 + self.alternative.is_some() as usize
+    }
+
+    /// Vertical reactions, horizontal reactions and the permanent-basis part of reaction set
+    /// `v` (0 = primary, 1 = the alternative; the primary if there is none).
+    #[allow(clippy::type_complexity)]
+    pub fn variant(&self, v: usize) -> (&[(u32, f64)], &[(u32, [f64; 2])], Option<&[(u32, f64)]>) {
+        match (&self.alternative, v) {
+            (Some(a), 1) => (&a.vertical, &a.shear, a.vertical_permanent_basis.as_deref()),
+            _ => (&self.vertical, &self.shear, self.vertical_permanent_basis.as_deref()),
+        }
+    }
+
+    /// Resultant of the plate reactions of reaction set `v`.
+    pub fn variant_resultant(&self, plates: &[[f64; 3]], v: usize) -> Resultant {
+        let (vertical, shear, _) = self.variant(v);
+        resultant_of(plates, vertical, shear)
+    }
+}
+
+fn resultant_of(plates: &[[f64; 3]], vertical: &[(u32, f64)], shear: &[(u32, [f64; 2])]) -> Resultant {
+    let mut r = Resultant::default();
+    for &(p, v) in vertical {
+        r.add(plates[p as usize], [0.0, 0.0, v]);
+    }
+    for &(p, [sx, sy]) in shear {
+        r.add(plates[p as usize], [sx, sy, 0.0]);
+    }
+    r
 }
 
 /// Id of the item that holds the self-weight of every element.

@@ -3,8 +3,8 @@
 //! Each load of the scene (and the self-weight of everything, as one more permanent load) is an
 //! *item*. Vertical items go deck strip → bearer → post → base plate, each member sharing its
 //! load among its supports either by segment moment balance ([`crate::solve::beam`]) or as a continuous
-//! beam ([`crate::solve::continuous`]); horizontal items go to the plates through the rigid braced base
-//! ([`crate::solve::rigid_base`]). Each item's plate reactions are kept separately, so combinations can
+//! beam ([`crate::solve::continuous`]); horizontal items go down the braced planes to the plates
+//! ([`crate::solve::braced`]). Each item's plate reactions are kept separately, so combinations can
 //! take each variable load only where it is unfavourable, and every reaction can be traced back.
 //!
 //! A scene whose members follow the method envelope is solved once per [`MethodPass`]
@@ -15,9 +15,9 @@
 use crate::solve::beam::{share_simple, BeamLoad, Piece};
 use crate::solve::continuous::ContinuousBeam;
 use crate::scene::loads::{Case, LoadKind};
-use crate::solve::rigid_base::{RigidBase, RigidBaseError};
+use crate::solve::braced::{horizontal_items, NodeLoads};
 use crate::scene::validate::{Model, Target};
-use crate::solve::items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
+use crate::solve::items::{Action, Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
 use crate::solve::passes::{method_passes, Behaviour, MethodPass};
 
 /// Why a valid scene could not be solved.
@@ -34,14 +34,22 @@ pub enum SolveError {
         /// Unbalanced moment, kN·m.
         moment_knm: f64,
     },
-    /// The base cannot take a horizontal load.
-    #[error("horizontal load {load} cannot be taken to the ground: {reason}")]
-    Horizontal {
-        /// Load id.
-        load: String,
-        /// Why.
-        reason: RigidBaseError,
+    /// Horizontal loads that cannot reach the ground through the bracing, each with its reasons.
+    #[error("{}", describe_paths(problems))]
+    HorizontalPath {
+        /// (load id, reasons).
+        problems: Vec<crate::solve::braced::PathProblem>,
     },
+}
+
+fn describe_paths(problems: &[crate::solve::braced::PathProblem]) -> String {
+    let mut s = format!("{} horizontal load{} cannot reach the ground through the bracing:", problems.len(), if problems.len() == 1 { "" } else { "s" });
+    for (load, reasons) in problems {
+        for r in reasons {
+            s.push_str(&format!("\n  - load {load}: {r}"));
+        }
+    }
+    s
 }
 
 /// Dense per-plate accumulator that remembers which plates it touched.
@@ -206,7 +214,7 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
             applied.add_down(p.x, p.y, wt);
             s.post_direct(item, i, wt, Route::PostSelfWeight, Case::G);
         }
-        items[0] = Some(Item { id: SELF_WEIGHT_ID.into(), case: Case::G, applied, vertical: s.plates.take(), shear: Vec::new(), direction: None, vertical_permanent_basis: None });
+        items[0] = Some(Item { id: SELF_WEIGHT_ID.into(), case: Case::G, applied, vertical: s.plates.take(), shear: Vec::new(), direction: None, vertical_permanent_basis: None, action: Action::Vertical, alternative: None, note: String::new() });
     }
 
     // Vertical loads, one item each.
@@ -260,46 +268,17 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
         if let (LoadKind::PostTop { kn, .. }, Target::Post(p)) = (&load.kind, model.load_targets[k]) {
             s.post_direct(item, p, *kn, Route::PostTop, load.case);
         }
-        items[k + 1] = Some(Item { id: load.id.clone(), case: load.case, applied, vertical: s.plates.take(), shear: Vec::new(), direction: None, vertical_permanent_basis: None });
+        items[k + 1] = Some(Item { id: load.id.clone(), case: load.case, applied, vertical: s.plates.take(), shear: Vec::new(), direction: None, vertical_permanent_basis: None, action: Action::Vertical, alternative: None, note: String::new() });
     }
 
     // Permanent loads are always present together, so their moments on a T-head may cancel.
     tee_head_balances(model, &permanent_tee, "permanent load")?;
 
     // Horizontal loads, after the vertical ones: a notional load is a share of them.
-    let mut rigid: Option<RigidBase> = None;
     s.nodes.sum_moments(scene);
-    for (k, load) in scene.loads.iter().enumerate() {
-        if !load.kind.is_horizontal() {
-            continue;
-        }
-        let item = (k + 1) as u32;
-        let applied = s.horizontal_resultant(&load.kind, None);
-        let base = match &rigid {
-            Some(b) => b,
-            None => rigid.insert(RigidBase::new(&plates).map_err(|reason| SolveError::Horizontal { load: load.id.clone(), reason })?),
-        };
-        let share_of = |r: &Resultant| {
-            base.share_horizontal([r.force[0], r.force[1]], r.moment).map_err(|reason| SolveError::Horizontal { load: load.id.clone(), reason })
-        };
-        let share = share_of(&applied)?;
-        let vertical_permanent_basis = match &load.kind {
-            LoadKind::Notional { basis, .. } if basis.iter().any(|c| *c != Case::G) => {
-                let part = share_of(&s.horizontal_resultant(&load.kind, Some(&[Case::G])))?;
-                Some(part.vertical.iter().enumerate().map(|(p, &v)| (p as u32, v)).collect())
-            }
-            _ => None,
-        };
-        let mut vertical = Vec::with_capacity(plates.len());
-        for (p, &v) in share.vertical.iter().enumerate() {
-            vertical.push((p as u32, v));
-            s.contributions.push(Contribution { plate: p as u32, item, route: Route::Overturning, kn: v });
-        }
-        let shear = share.shear.iter().enumerate().map(|(p, &v)| (p as u32, v)).collect();
-        let direction = horizontal_direction(&load.kind);
-        items[k + 1] = Some(Item { id: load.id.clone(), case: load.case, applied, vertical, shear, direction, vertical_permanent_basis });
-    }
-    let items = items.into_iter().map(|i| i.expect("every load is solved once")).collect();
+    let nodes = NodeLoads { at: &s.nodes.at, load: &s.nodes.load, moments: s.nodes.moments };
+    let generated = horizontal_items(model, &nodes, &mut items, &mut s.contributions).map_err(|problems| SolveError::HorizontalPath { problems })?;
+    let items = items.into_iter().map(|i| i.expect("every load is solved once")).chain(generated).collect();
     Ok(Solution { plates, items, contributions: s.contributions, method: pass })
 }
 
@@ -425,45 +404,6 @@ impl Solver<'_, '_> {
         self.nodes.load[node][case.index()] += kn;
         self.contributions.push(Contribution { plate: post as u32, item, route, kn });
     }
-
-    /// Resultant of the forces a horizontal load applies. A notional load takes its percentage
-    /// of the vertical load of `basis` if given, else of its own basis cases, at every node
-    /// where that load enters a post.
-    fn horizontal_resultant(&self, kind: &LoadKind, basis: Option<&[Case]>) -> Resultant {
-        let mut r = Resultant::default();
-        match kind {
-            LoadKind::Horizontal { x, y, level, kn, direction } => {
-                let (ux, uy) = direction.unit();
-                r.add([*x, *y, *level], [kn * ux, kn * uy, 0.0]);
-            }
-            LoadKind::Wind { face, kpa, direction } => {
-                let (ux, uy) = direction.unit();
-                let (dx, dy) = (face.to.0 - face.from.0, face.to.1 - face.from.1);
-                let projected = (dx * uy - dy * ux).abs();
-                let f = kpa * projected * (face.top - face.bottom);
-                let at = [0.5 * (face.from.0 + face.to.0), 0.5 * (face.from.1 + face.to.1), 0.5 * (face.bottom + face.top)];
-                r.add(at, [f * ux, f * uy, 0.0]);
-            }
-            LoadKind::Notional { percent, direction, basis: own } => {
-                let basis = basis.unwrap_or(own);
-                let (ux, uy) = direction.unit();
-                let share = percent / 100.0;
-                // Forces share·V·u at every node: only the node sums ΣV, ΣVx, ΣVy, ΣVz matter.
-                let [v, vx, vy, vz] = basis.iter().fold([0.0; 4], |a, c| {
-                    let m = self.nodes.moments[c.index()];
-                    [a[0] + m[0], a[1] + m[1], a[2] + m[2], a[3] + m[3]]
-                });
-                let (fx, fy) = (share * v * ux, share * v * uy);
-                r.force[0] += fx;
-                r.force[1] += fy;
-                r.moment[0] += -share * vz * uy;
-                r.moment[1] += share * vz * ux;
-                r.moment[2] += share * (vx * uy - vy * ux);
-            }
-            _ => {}
-        }
-        r
-    }
 }
 
 /// A single-post bearer must balance about its post under each load that can act alone
@@ -479,16 +419,6 @@ fn tee_head_balances(model: &Model, moments: &[(usize, f64, f64)], load: &str) -
         }
     }
     Ok(())
-}
-
-fn horizontal_direction(kind: &LoadKind) -> Option<[f64; 2]> {
-    match kind {
-        LoadKind::Horizontal { direction, .. } | LoadKind::Wind { direction, .. } | LoadKind::Notional { direction, .. } => {
-            let (x, y) = direction.unit();
-            Some([x, y])
-        }
-        _ => None,
-    }
 }
 
 /// Where a reaction of `piece` at support `k` is summed: (slot, side).

@@ -4,19 +4,22 @@
 //!   horizontal items go to the plates through the braced base. Every share is kept.
 //! - [`beam`]: one member's load shared among its supports by segment moment balance.
 //! - [`continuous`]: the same member continuous over its supports (direct stiffness method).
-//! - [`rigid_base`]: horizontal loads shared among the plates of a rigid braced structure.
+//! - [`braced`]: horizontal loads down the braced planes, through the diaphragms, to the plates.
+//! - [`rigid_base`]: loads shared among the plates of a rigid base (the pile-group formula); not
+//!   used by the scene path.
 //! - [`passes`]: the method passes (simple spans, continuous, mixtures) the envelope needs.
 //! - [`items`]: what the solver hands on — load items, their reactions and the trace.
 //!
 //! Nothing here combines or checks; that is [`crate::check`].
 
 pub mod beam;
+pub mod braced;
 pub mod continuous;
 pub mod items;
 pub mod load_path;
 pub mod passes;
 pub mod rigid_base;
 
-pub use items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
+pub use items::{Action, Alternative, Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
 pub use load_path::{solve, solve_methods, solve_pass, SolveError};
 pub use passes::{method_passes, Behaviour, MethodPass};

@@ -1,0 +1,839 @@
+//! Horizontal loads carried down the braced planes to the base plates.
+//!
+//! A horizontal load reaches the posts where it is applied (a point force at a post, a wind face
+//! shared among the posts along it by moment balance, a notional load at every node where vertical
+//! load enters a post). Each post spans simply, in each plan axis, between the levels where it is
+//! held ([`crate::scene::bracing::Hold`]) and its pinned base: the part below the lowest hold goes
+//! straight into its plate as base shear, the rest to the holds either side by the lever rule. A
+//! load above a post's highest hold is refused — nothing above the bracing holds it.
+//!
+//! A hold by a braced plane puts the force into that plane at that level. A hold by a diaphragm
+//! shares it among the braced planes joined to the diaphragm, two ways:
+//! - **lever rule**: the diaphragm spans simply between adjacent parallel planes (beyond the
+//!   outermost it cantilevers, balanced about the outer plane); a force component with fewer than
+//!   two parallel planes to go to is shared as below;
+//! - **rigid**: the diaphragm is rigid, every plane equally stiff, and the twist about the centre
+//!   of stiffness is shared too (REFERENCES §8).
+//!
+//! With three or more planes on a diaphragm both are solved; each balances the load, and the worse
+//! governs every plate ([`crate::solve::Alternative`]). With two they are the same.
+//!
+//! Each braced plane is a pin-jointed truss solved lift by lift from the top: the shear of a lift
+//! is the sum of the forces put into the plane at and above its top; the diagonals of the lift
+//! share it by their lateral stiffness b²/d³ (equal tube sections, post shortening neglected —
+//! two crossed diagonals of one bay take half each). A diagonal with run b and rise h carrying
+//! shear V puts +V·h/b into the post at its upper end and −V·h/b into the post at its lower end
+//! (the vertical components of its force); the shear passes to its lower end, and from the ground
+//! lift into that post's plate. Every vertical component is a force at a post node, carried to
+//! the plates by [`carry_down`].
+
+use nalgebra::{Matrix3, Vector3};
+
+use crate::scene::bracing::{list_ids, Bracing, Holder, Plane};
+use crate::scene::validate::{Axis, Model, GEOMETRY_TOLERANCE_M};
+use crate::solve::beam::{share_simple, BeamLoad};
+
+const TOL: f64 = GEOMETRY_TOLERANCE_M;
+
+/// Carry a vertical force (kN, upward reaction positive) at a post node down to the base plates.
+/// Today every post stands on its own plate; this is the one place a force at a node is routed.
+pub fn carry_down(_model: &Model, post: u32, _level: f64, kn: f64, sink: &mut impl FnMut(u32, f64)) {
+    sink(post, kn);
+}
+
+/// Diaphragm sharing prepared once.
+#[derive(Debug, Clone)]
+struct Prepared {
+    /// Reference point of the moments, m.
+    origin: (f64, f64),
+    /// Generalised direction of each joined plane: (along x, along y, twist about the origin).
+    g: Vec<[f64; 3]>,
+    /// Pseudo-inverse of Σ g gᵀ, and its size for the consistency check.
+    k_inv: Matrix3<f64>,
+    k: Matrix3<f64>,
+    /// Per axis: coordinates across the axis of the joined planes along it, ascending, and the
+    /// index of each among the joined planes.
+    lever: [(Vec<f64>, Vec<usize>); 2],
+    /// Size of the diaphragm, m (scales moments for the checks).
+    size: f64,
+    /// First slot of its joined planes in [`Acc::lever`].
+    slot: usize,
+}
+
+/// Everything a horizontal load item puts into the bracing, before the diaphragms and planes are
+/// solved. Linear in the load: items add and scale.
+#[derive(Debug, Clone)]
+pub struct Acc {
+    /// Force into the ground at each post's base, along x and y, kN.
+    base: Vec<[f64; 2]>,
+    /// Force put straight into each plane level (flattened), along the plane's axis, kN.
+    plane: Vec<f64>,
+    /// Per diaphragm: resultant (Fx, Fy, twist about its origin) of all it takes.
+    rigid: Vec<[f64; 3]>,
+    /// Per diaphragm: resultant of what the lever rule cannot take.
+    fallback: Vec<[f64; 3]>,
+    /// Per diaphragm and joined plane: force by the lever rule, kN.
+    lever: Vec<f64>,
+    /// Work space: the supports of one post.
+    supports: Vec<f64>,
+}
+
+impl Acc {
+    /// Add `s` times another accumulation.
+    pub fn add_scaled(&mut self, s: f64, o: &Acc) {
+        if s == 0.0 {
+            return;
+        }
+        for (a, b) in self.base.iter_mut().zip(&o.base) {
+            a[0] += s * b[0];
+            a[1] += s * b[1];
+        }
+        for (a, b) in self.plane.iter_mut().zip(&o.plane) {
+            *a += s * b;
+        }
+        for (a, b) in self.rigid.iter_mut().zip(&o.rigid).chain(self.fallback.iter_mut().zip(&o.fallback)) {
+            for k in 0..3 {
+                a[k] += s * b[k];
+            }
+        }
+        for (a, b) in self.lever.iter_mut().zip(&o.lever) {
+            *a += s * b;
+        }
+    }
+}
+
+/// Why part of a load cannot reach the ground.
+#[derive(Debug, Clone, PartialEq)]
+pub enum PathFailure {
+    /// A post carries load along an axis but nothing holds it above its base.
+    NotHeld {
+        /// Post index.
+        post: u32,
+        /// 0 = x, 1 = y.
+        axis: usize,
+    },
+    /// Load on a post above the highest level at which it is held.
+    AboveTop {
+        /// Post index.
+        post: u32,
+        /// 0 = x, 1 = y.
+        axis: usize,
+        /// Highest load level, m.
+        level: f64,
+        /// Highest hold, m.
+        top: f64,
+    },
+    /// A diaphragm whose braced planes cannot take what it carries.
+    Diaphragm {
+        /// Diaphragm index.
+        diaphragm: u32,
+        /// Force and twist it carries: Fx, Fy kN, twist kN·m about its centre.
+        load: [f64; 3],
+    },
+}
+
+/// A vertical force at a post node from a brace: (post, level, kN upward reaction, brace).
+pub type BraceForce = (u32, f64, f64, u32);
+
+/// The reactions of one horizontal item under one diaphragm assumption.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Reactions {
+    /// Brace vertical components at post nodes.
+    pub brace: Vec<BraceForce>,
+    /// Horizontal reaction at each post's base, kN (x, y), for posts that take any.
+    pub shear: Vec<(u32, [f64; 2])>,
+}
+
+/// The bracing of a model, ready to carry loads.
+#[derive(Debug, Clone)]
+pub struct Network<'m, 's> {
+    model: &'m Model<'s>,
+    plane_first: Vec<usize>,
+    prepared: Vec<Prepared>,
+    n_lever: usize,
+}
+
+/// Labels of the two diaphragm assumptions.
+pub const LEVER_RULE: &str = "lever rule between adjacent braced planes";
+/// Rigid diaphragm label.
+pub const RIGID: &str = "rigid diaphragm, equally stiff planes, twist shared";
+
+impl<'m, 's> Network<'m, 's> {
+    /// Prepare the bracing of a validated model.
+    pub fn new(model: &'m Model<'s>) -> Self {
+        let bracing = &model.bracing;
+        let scene = model.scene;
+        let mut plane_first = Vec::with_capacity(bracing.planes.len() + 1);
+        let mut n = 0;
+        for p in &bracing.planes {
+            plane_first.push(n);
+            n += p.levels.len();
+        }
+        plane_first.push(n);
+        let mut slot = 0;
+        let prepared = bracing
+            .diaphragms
+            .iter()
+            .map(|d| {
+                let nf = d.posts.len().max(1) as f64;
+                let (sx, sy) = d.posts.iter().fold((0.0, 0.0), |a, &p| (a.0 + scene.posts[p as usize].x, a.1 + scene.posts[p as usize].y));
+                let origin = (sx / nf, sy / nf);
+                let size = ((d.bounds.0 .1 - d.bounds.0 .0).max(0.0) + (d.bounds.1 .1 - d.bounds.1 .0).max(0.0)).max(1.0);
+                let g: Vec<[f64; 3]> = d
+                    .planes
+                    .iter()
+                    .map(|&(p, _)| {
+                        let plane = &bracing.planes[p as usize];
+                        match plane.axis {
+                            Axis::X => [1.0, 0.0, -(plane.coord - origin.1)],
+                            Axis::Y => [0.0, 1.0, plane.coord - origin.0],
+                        }
+                    })
+                    .collect();
+                // Twist scaled by the size so the matrix is well balanced.
+                let mut k = Matrix3::zeros();
+                for v in &g {
+                    let v = Vector3::new(v[0], v[1], v[2] / size);
+                    k += v * v.transpose();
+                }
+                let eig = k.symmetric_eigen();
+                let largest = eig.eigenvalues.iter().fold(0.0f64, |a, &l| a.max(l));
+                let mut k_inv = Matrix3::zeros();
+                for i in 0..3 {
+                    let l = eig.eigenvalues[i];
+                    if l > 1e-10 * largest {
+                        let e = eig.eigenvectors.column(i);
+                        k_inv += e * e.transpose() / l;
+                    }
+                }
+                let lever = [Axis::X, Axis::Y].map(|axis| {
+                    let mut v: Vec<(f64, usize)> = d.planes.iter().enumerate().filter(|(_, pk)| bracing.planes[pk.0 as usize].axis == axis).map(|(j, pk)| (bracing.planes[pk.0 as usize].coord, j)).collect();
+                    v.sort_by(|a, b| a.0.total_cmp(&b.0));
+                    (v.iter().map(|e| e.0).collect(), v.iter().map(|e| e.1).collect())
+                });
+                let prep = Prepared { origin, g, k_inv, k, lever, size, slot };
+                slot += d.planes.len();
+                prep
+            })
+            .collect();
+        Network { model, plane_first, prepared, n_lever: slot }
+    }
+
+    /// An empty accumulation.
+    pub fn acc(&self) -> Acc {
+        let d = self.prepared.len();
+        Acc {
+            base: vec![[0.0; 2]; self.model.scene.posts.len()],
+            plane: vec![0.0; *self.plane_first.last().unwrap_or(&0)],
+            rigid: vec![[0.0; 3]; d],
+            fallback: vec![[0.0; 3]; d],
+            lever: vec![0.0; self.n_lever],
+            supports: Vec::new(),
+        }
+    }
+
+    /// A load on post `post` along its height — `load` gives positions as levels and its
+    /// magnitude along the plan direction `dir` (a unit vector or any multiple of one).
+    pub fn post_load(&self, acc: &mut Acc, fails: &mut Vec<PathFailure>, post: u32, load: BeamLoad, dir: [f64; 2]) {
+        let p = &self.model.scene.posts[post as usize];
+        let mut supports = std::mem::take(&mut acc.supports);
+        for axis in 0..2 {
+            let c = dir[axis];
+            if c == 0.0 || load.total() == 0.0 {
+                continue;
+            }
+            let holds = &self.model.bracing.holds[post as usize][axis];
+            let top_of_load = match load {
+                BeamLoad::Point { at, .. } => at,
+                BeamLoad::Uniform { to, .. } => to,
+            };
+            let Some(top) = holds.last().map(|h| h.level) else {
+                if top_of_load > p.base_level + TOL {
+                    fails.push(PathFailure::NotHeld { post, axis });
+                } else {
+                    acc.base[post as usize][axis] += c * load.total();
+                }
+                continue;
+            };
+            if top_of_load > top + TOL {
+                fails.push(PathFailure::AboveTop { post, axis, level: top_of_load, top });
+                continue;
+            }
+            // Supports: the base, then each hold (a handful per post).
+            supports.clear();
+            supports.push(p.base_level.min(holds[0].level - crate::scene::validate::MIN_SPAN_M));
+            supports.extend(holds.iter().map(|h| h.level));
+            let n = supports.len();
+            let scaled = match load {
+                BeamLoad::Point { at, p: f } => BeamLoad::Point { at: at.clamp(supports[0], top), p: c * f },
+                BeamLoad::Uniform { from, to, w } => BeamLoad::Uniform { from: from.max(supports[0]), to: to.min(top), w: c * w },
+            };
+            let (x, y) = (p.x, p.y);
+            share_simple(&supports[..n], &scaled, &mut |k, _, r| {
+                if k == 0 {
+                    acc.base[post as usize][axis] += r;
+                } else {
+                    match holds[k - 1].by {
+                        Holder::Plane { plane, level } => acc.plane[self.plane_first[plane as usize] + level as usize] += r,
+                        Holder::Diaphragm(d) => {
+                            let f = if axis == 0 { [r, 0.0] } else { [0.0, r] };
+                            self.to_diaphragm(acc, d as usize, x, y, f);
+                        }
+                    }
+                }
+            });
+        }
+        acc.supports = supports;
+    }
+
+    /// A point force `f` (x, y kN) on diaphragm `d` at plan point (x, y).
+    pub fn diaphragm_load(&self, acc: &mut Acc, d: u32, x: f64, y: f64, f: [f64; 2]) {
+        self.to_diaphragm(acc, d as usize, x, y, f);
+    }
+
+    fn to_diaphragm(&self, acc: &mut Acc, d: usize, x: f64, y: f64, f: [f64; 2]) {
+        let prep = &self.prepared[d];
+        let (dx, dy) = (x - prep.origin.0, y - prep.origin.1);
+        let twist = dx * f[1] - dy * f[0];
+        let r = &mut acc.rigid[d];
+        r[0] += f[0];
+        r[1] += f[1];
+        r[2] += twist;
+        for axis in 0..2 {
+            let fa = f[axis];
+            if fa == 0.0 {
+                continue;
+            }
+            let (coords, index) = &prep.lever[axis];
+            if coords.len() >= 2 {
+                let across = if axis == 0 { y } else { x };
+                share_simple(coords, &BeamLoad::Point { at: across, p: fa }, &mut |k, _, share| acc.lever[prep.slot + index[k]] += share);
+            } else {
+                let part = if axis == 0 { [fa, 0.0, -dy * fa] } else { [0.0, fa, dx * fa] };
+                for k in 0..3 {
+                    acc.fallback[d][k] += part[k];
+                }
+            }
+        }
+    }
+
+    /// Forces on the joined planes of diaphragm `d` for a resultant (Fx, Fy, twist), rigid and
+    /// equally stiff; `None` if the planes cannot resist it.
+    fn rigid_share(&self, d: usize, f: [f64; 3]) -> Option<Vec<f64>> {
+        let prep = &self.prepared[d];
+        let rhs = Vector3::new(f[0], f[1], f[2] / prep.size);
+        let scale = rhs.norm();
+        if scale == 0.0 {
+            return Some(vec![0.0; prep.g.len()]);
+        }
+        let u = prep.k_inv * rhs;
+        if (prep.k * u - rhs).norm() > 1e-9 * scale {
+            return None;
+        }
+        Some(prep.g.iter().map(|g| g[0] * u[0] + g[1] * u[1] + g[2] / prep.size * u[2]).collect())
+    }
+
+    /// Solve the diaphragms and planes for an accumulation: one set of reactions, or two when a
+    /// loaded diaphragm has three or more planes (lever rule first, rigid second).
+    pub fn finish(&self, acc: &Acc, fails: &mut Vec<PathFailure>) -> Vec<Reactions> {
+        let bracing = &self.model.bracing;
+        let loaded = |d: usize| acc.rigid[d].iter().any(|v| *v != 0.0) || acc.lever[self.prepared[d].slot..self.prepared[d].slot + bracing.diaphragms[d].planes.len()].iter().any(|v| *v != 0.0);
+        let two = (0..self.prepared.len()).any(|d| loaded(d) && bracing.diaphragms[d].planes.len() >= 3);
+        let mut totals = vec![acc.plane.clone(); 1 + two as usize];
+        for (d, dia) in bracing.diaphragms.iter().enumerate() {
+            if !loaded(d) {
+                continue;
+            }
+            let prep = &self.prepared[d];
+            let Some(rigid) = self.rigid_share(d, acc.rigid[d]) else {
+                fails.push(PathFailure::Diaphragm { diaphragm: d as u32, load: acc.rigid[d] });
+                continue;
+            };
+            let add = |total: &mut Vec<f64>, forces: &[f64]| {
+                for (&(p, k), &f) in dia.planes.iter().zip(forces) {
+                    total[self.plane_first[p as usize] + k as usize] += f;
+                }
+            };
+            if two {
+                let Some(mut lever) = self.rigid_share(d, acc.fallback[d]) else {
+                    fails.push(PathFailure::Diaphragm { diaphragm: d as u32, load: acc.fallback[d] });
+                    continue;
+                };
+                for (j, l) in lever.iter_mut().enumerate() {
+                    *l += acc.lever[prep.slot + j];
+                }
+                add(&mut totals[0], &lever);
+                add(&mut totals[1], &rigid);
+            } else {
+                add(&mut totals[0], &rigid);
+            }
+        }
+        totals
+            .iter()
+            .map(|forces| {
+                let mut out = Reactions::default();
+                let mut ground: Vec<(u32, [f64; 2])> = Vec::new();
+                for (pk, plane) in bracing.planes.iter().enumerate() {
+                    let f = &forces[self.plane_first[pk]..self.plane_first[pk + 1]];
+                    if f.iter().all(|v| *v == 0.0) {
+                        continue;
+                    }
+                    solve_plane(plane, f, &mut out.brace, &mut ground);
+                }
+                for (p, b) in acc.base.iter().enumerate() {
+                    if b[0] != 0.0 || b[1] != 0.0 {
+                        ground.push((p as u32, *b));
+                    }
+                }
+                ground.sort_by_key(|g| g.0);
+                for (p, f) in ground {
+                    match out.shear.last_mut() {
+                        Some(last) if last.0 == p => {
+                            last.1[0] -= f[0];
+                            last.1[1] -= f[1];
+                        }
+                        _ => out.shear.push((p, [-f[0], -f[1]])),
+                    }
+                }
+                out
+            })
+            .collect()
+    }
+
+    /// Words for the failures of one load, grouped, with the ids and what to do.
+    pub fn describe(&self, fails: &[PathFailure]) -> Vec<String> {
+        describe_failures(self.model, fails)
+    }
+}
+
+/// Solve one plane lift by lift for the forces put into it at its levels (along its axis).
+/// Brace vertical components go to `brace`; force into the ground at the foot of each ground-lift
+/// diagonal to `ground` (post, [x, y]).
+fn solve_plane(plane: &Plane, forces: &[f64], brace: &mut Vec<BraceForce>, ground: &mut Vec<(u32, [f64; 2])>) {
+    let mut shear = 0.0;
+    for k in (0..plane.levels.len()).rev() {
+        shear += forces[k];
+        if shear == 0.0 {
+            continue;
+        }
+        for d in &plane.lifts[k] {
+            let v = shear * d.share;
+            let vertical = v * d.rise() / d.run;
+            brace.push((d.lower, d.lower_level, -vertical, d.brace));
+            brace.push((d.upper, d.upper_level, vertical, d.brace));
+            if k == 0 {
+                let f = match plane.axis {
+                    Axis::X => [v, 0.0],
+                    Axis::Y => [0.0, v],
+                };
+                ground.push((d.lower, f));
+            }
+        }
+    }
+}
+
+fn axis_name(axis: usize) -> &'static str {
+    if axis == 0 { "x" } else { "y" }
+}
+
+/// Words for path failures: one line per kind and axis, naming posts, planes and diaphragms.
+pub fn describe_failures(model: &Model, fails: &[PathFailure]) -> Vec<String> {
+    let scene = model.scene;
+    let bracing: &Bracing = &model.bracing;
+    let id = |p: u32| scene.posts[p as usize].id.as_str();
+    let mut out = Vec::new();
+    for axis in 0..2 {
+        let mut posts: Vec<u32> = fails.iter().filter_map(|f| matches!(f, PathFailure::NotHeld { axis: a, .. } if *a == axis).then(|| if let PathFailure::NotHeld { post, .. } = f { *post } else { 0 })).collect();
+        posts.sort_unstable();
+        posts.dedup();
+        if !posts.is_empty() {
+            let a = axis_name(axis);
+            // Planes along this axis through these posts that lost their bracing.
+            let cuts: Vec<String> = bracing
+                .planes
+                .iter()
+                .filter(|pl| pl.axis as usize == axis && pl.braced_to == 0 && pl.posts.iter().any(|p| posts.binary_search(p).is_ok()))
+                .filter_map(|pl| pl.cut.as_ref().map(|c| format!("{} is not counted: {c}", pl.name(scene))))
+                .collect();
+            let extra = if cuts.is_empty() { String::new() } else { format!(" ({})", cuts.join("; ")) };
+            out.push(format!(
+                "post{} {} {} not held along {a} above the base: no braced plane along {a} runs through {} at any level and no diaphragm holds {}{extra}; brace a bay in the line of posts along {a}, plan-brace a level, or declare a fixed deck a diaphragm",
+                if posts.len() == 1 { "" } else { "s" },
+                list_ids(posts.iter().map(|&p| id(p)), 6),
+                if posts.len() == 1 { "is" } else { "are" },
+                if posts.len() == 1 { "it" } else { "them" },
+                if posts.len() == 1 { "it" } else { "them" },
+            ));
+        }
+        let mut above: Vec<(u32, f64, f64)> = fails.iter().filter_map(|f| if let PathFailure::AboveTop { post, axis: a, level, top } = f { (*a == axis).then_some((*post, *level, *top)) } else { None }).collect();
+        above.sort_by(|a, b| a.0.cmp(&b.0).then(b.1.total_cmp(&a.1)));
+        above.dedup_by_key(|a| a.0);
+        if !above.is_empty() {
+            let a = axis_name(axis);
+            let first = above[0];
+            out.push(format!(
+                "acts along {a} above the top of the bracing: on post{} {} up to {:.3} m, while the highest level at which {} held along {a} is {:.3} m{}; extend the bracing (or a diaphragm) up to the load",
+                if above.len() == 1 { "" } else { "s" },
+                list_ids(above.iter().map(|e| id(e.0)), 6),
+                first.1,
+                if above.len() == 1 { format!("{} is", id(first.0)) } else { format!("{} is", id(first.0)) },
+                first.2,
+                cut_note(model, first.0, axis),
+            ));
+        }
+    }
+    for f in fails {
+        if let PathFailure::Diaphragm { diaphragm, load } = f {
+            let d = &bracing.diaphragms[*diaphragm as usize];
+            let along = |a: Axis| d.planes.iter().filter(|&&(p, _)| bracing.planes[p as usize].axis == a).count();
+            let (nx, ny) = (along(Axis::X), along(Axis::Y));
+            let what = if d.planes.is_empty() {
+                "no braced plane is joined to it".to_owned()
+            } else if load[0].abs() > 1e-9 && nx == 0 {
+                "no braced plane along x is joined to it".to_owned()
+            } else if load[1].abs() > 1e-9 && ny == 0 {
+                "no braced plane along y is joined to it".to_owned()
+            } else {
+                let names: Vec<String> = d.planes.iter().map(|&(p, _)| bracing.planes[p as usize].name(scene)).collect();
+                format!("its braced planes ({}) all meet at one line or point and cannot resist the twist", names.join(", "))
+            };
+            out.push(format!(
+                "the {} takes {:.3} kN along x, {:.3} kN along y and {:.3} kN·m of twist, but {what}; join braced planes along x and y to it, not all through one point",
+                d.name(scene),
+                load[0],
+                load[1],
+                load[2]
+            ));
+        }
+    }
+    out
+}
+
+/// Why a post's bracing stops where it does, if a plane through it was cut.
+fn cut_note(model: &Model, post: u32, axis: usize) -> String {
+    let b = &model.bracing;
+    let cuts: Vec<String> = b
+        .planes
+        .iter()
+        .filter(|pl| pl.axis as usize == axis && pl.cut.is_some() && pl.posts.contains(&post))
+        .map(|pl| format!("{} stops there: {}", pl.name(model.scene), pl.cut.as_deref().unwrap_or("")))
+        .collect();
+    if cuts.is_empty() { String::new() } else { format!(" ({})", cuts.join("; ")) }
+}
+
+/// Vertical load entering the posts at their nodes: what the notional load is made of.
+#[derive(Debug, Clone, Copy)]
+pub struct NodeLoads<'a> {
+    /// (post, level) of each node.
+    pub at: &'a [(usize, f64)],
+    /// Vertical load per node per case (G, Q, W), kN downwards.
+    pub load: &'a [[f64; 3]],
+    /// Per case: ΣV, ΣV·x, ΣV·y, ΣV·z over the nodes.
+    pub moments: [[f64; 4]; 3],
+}
+
+/// The responses to notional load of each basis case (G, Q) along each axis, per unit share.
+struct Responses {
+    acc: [[Acc; 2]; 2],
+    fails: [[Vec<PathFailure>; 2]; 2],
+}
+
+fn responses(net: &Network, nodes: &NodeLoads) -> Responses {
+    let one = |c: usize, a: usize| {
+        let mut acc = net.acc();
+        let mut fails = Vec::new();
+        let dir = if a == 0 { [1.0, 0.0] } else { [0.0, 1.0] };
+        for (&(post, z), v) in nodes.at.iter().zip(nodes.load) {
+            if v[c] != 0.0 {
+                net.post_load(&mut acc, &mut fails, post as u32, BeamLoad::Point { at: z, p: v[c] }, dir);
+            }
+        }
+        (acc, fails)
+    };
+    let (g0, fg0) = one(0, 0);
+    let (g1, fg1) = one(0, 1);
+    let (q0, fq0) = one(1, 0);
+    let (q1, fq1) = one(1, 1);
+    Responses { acc: [[g0, g1], [q0, q1]], fails: [[fg0, fg1], [fq0, fq1]] }
+}
+
+use crate::scene::loads::{Case, LoadKind, PlanDirection};
+use crate::scene::model::NotionalRule;
+use crate::solve::items::{Action, Alternative, Contribution, Item, Resultant, Route};
+
+/// Resultant of the forces a horizontal load applies, from its own definition. A notional load
+/// takes `percent` of the vertical load of `basis` at every node where that load enters a post.
+pub fn applied_resultant(kind: &LoadKind, moments: &[[f64; 4]; 3], basis: Option<&[Case]>) -> Resultant {
+    let mut r = Resultant::default();
+    match kind {
+        LoadKind::Horizontal { x, y, level, kn, direction } => {
+            let (ux, uy) = direction.unit();
+            r.add([*x, *y, *level], [kn * ux, kn * uy, 0.0]);
+        }
+        LoadKind::Wind { face, kpa, direction } => {
+            let (ux, uy) = direction.unit();
+            let f = wind_force(face, *kpa, *direction);
+            let at = [0.5 * (face.from.0 + face.to.0), 0.5 * (face.from.1 + face.to.1), 0.5 * (face.bottom + face.top)];
+            r.add(at, [f * ux, f * uy, 0.0]);
+        }
+        LoadKind::Notional { percent, direction, basis: own } => {
+            let basis = basis.unwrap_or(own);
+            let (ux, uy) = direction.unit();
+            let share = percent / 100.0;
+            // Forces share·V·u at every node: only the node sums ΣV, ΣVx, ΣVy, ΣVz matter.
+            let [v, vx, vy, vz] = basis.iter().fold([0.0; 4], |a, c| {
+                let m = moments[c.index()];
+                [a[0] + m[0], a[1] + m[1], a[2] + m[2], a[3] + m[3]]
+            });
+            r.force[0] += share * v * ux;
+            r.force[1] += share * v * uy;
+            r.moment[0] += -share * vz * uy;
+            r.moment[1] += share * vz * ux;
+            r.moment[2] += share * (vx * uy - vy * ux);
+        }
+        _ => {}
+    }
+    r
+}
+
+/// Wind force on a face: pressure × area projected normal to the wind, kN.
+pub fn wind_force(face: &crate::scene::loads::Face, kpa: f64, direction: PlanDirection) -> f64 {
+    let (ux, uy) = direction.unit();
+    let (dx, dy) = (face.to.0 - face.from.0, face.to.1 - face.from.1);
+    kpa * (dx * uy - dy * ux).abs() * (face.top - face.bottom)
+}
+
+/// Direction key in hundredths of a degree, as [`Item::direction_key`].
+fn direction_key(d: PlanDirection) -> i64 {
+    let (x, y) = d.unit();
+    let deg = y.atan2(x).to_degrees().rem_euclid(360.0);
+    ((deg * 100.0).round() as i64) % 36_000
+}
+
+/// Short name of a plan direction: `+x`, `-y`, or `30°`.
+pub fn direction_name(d: PlanDirection) -> String {
+    match direction_key(d) {
+        0 => "+x".into(),
+        9_000 => "+y".into(),
+        18_000 => "-x".into(),
+        27_000 => "-y".into(),
+        k => format!("{}°", k as f64 / 100.0),
+    }
+}
+
+/// One horizontal load that cannot reach the ground: its id and the reasons.
+pub type PathProblem = (String, Vec<String>);
+
+/// Carry every horizontal load of the scene down the bracing, and generate the notional load of
+/// the scene's rule. Items of the scene's own horizontal loads fill their slots in `items`
+/// (self-weight first, then the scene's loads in order); generated items are returned. Brace
+/// vertical components are added to `contributions`, tagged with their item index.
+pub fn horizontal_items(model: &Model, nodes: &NodeLoads, items: &mut [Option<Item>], contributions: &mut Vec<Contribution>) -> Result<Vec<Item>, Vec<PathProblem>> {
+    let scene = model.scene;
+    let net = Network::new(model);
+    let mut problems: Vec<PathProblem> = Vec::new();
+    let mut resp: Option<Responses> = None;
+    let needs_notional = scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. })) || scene.horizontal.notional != NotionalRule::Off;
+    if needs_notional {
+        resp = Some(responses(&net, nodes));
+    }
+    let notional_acc = |resp: &Responses, percent: f64, direction: PlanDirection, basis: &[Case], fails: &mut Vec<PathFailure>| {
+        let (ux, uy) = direction.unit();
+        let u = [ux, uy];
+        let mut acc = net.acc();
+        for c in basis.iter().filter_map(|c| match c {
+            Case::G => Some(0),
+            Case::Q => Some(1),
+            Case::W => None,
+        }) {
+            for a in 0..2 {
+                if u[a].abs() > 1e-12 {
+                    acc.add_scaled(percent / 100.0 * u[a], &resp.acc[c][a]);
+                    fails.extend(resp.fails[c][a].iter().cloned());
+                }
+            }
+        }
+        acc
+    };
+    for (k, load) in scene.loads.iter().enumerate() {
+        if !load.kind.is_horizontal() {
+            continue;
+        }
+        let item_ix = (k + 1) as u32;
+        let mut fails = Vec::new();
+        let mut acc = net.acc();
+        let mut permanent = None;
+        let action = match &load.kind {
+            LoadKind::Horizontal { x, y, level, kn, direction } => {
+                let (ux, uy) = direction.unit();
+                match model.bracing.placements.get(k) {
+                    Some(crate::scene::bracing::Placement::Post(p)) => net.post_load(&mut acc, &mut fails, *p, BeamLoad::Point { at: *level, p: *kn }, [ux, uy]),
+                    Some(crate::scene::bracing::Placement::Diaphragm(d)) => net.diaphragm_load(&mut acc, *d, *x, *y, [kn * ux, kn * uy]),
+                    _ => unreachable!("validation places every horizontal force"),
+                }
+                Action::Identified
+            }
+            LoadKind::Wind { face, kpa, direction } => {
+                let (ux, uy) = direction.unit();
+                let f = wind_force(face, *kpa, *direction);
+                if let Some(crate::scene::bracing::Placement::Face { posts, length }) = model.bracing.placements.get(k) {
+                    let along: Vec<f64> = posts.iter().map(|p| p.1).collect();
+                    let height = face.top - face.bottom;
+                    share_simple(&along, &BeamLoad::Uniform { from: 0.0, to: *length, w: f / length }, &mut |j, _, r| {
+                        net.post_load(&mut acc, &mut fails, posts[j].0, BeamLoad::Uniform { from: face.bottom, to: face.top, w: r / height }, [ux, uy]);
+                    });
+                }
+                Action::Wind
+            }
+            LoadKind::Notional { percent, direction, basis } => {
+                let resp = resp.as_ref().expect("made when the scene has notional loads");
+                acc = notional_acc(resp, *percent, *direction, basis, &mut fails);
+                if basis.iter().any(|c| *c != Case::G) {
+                    permanent = Some(notional_acc(resp, *percent, *direction, &[Case::G], &mut Vec::new()));
+                }
+                Action::Notional
+            }
+            _ => unreachable!("only horizontal loads"),
+        };
+        let applied = applied_resultant(&load.kind, &nodes.moments, None);
+        match finish_item(model, &net, item_ix, &acc, permanent.as_ref(), &mut fails, contributions) {
+            Some((vertical, shear, permanent_basis, alternative)) => {
+                let direction = match &load.kind {
+                    LoadKind::Horizontal { direction, .. } | LoadKind::Wind { direction, .. } | LoadKind::Notional { direction, .. } => {
+                        let (x, y) = direction.unit();
+                        Some([x, y])
+                    }
+                    _ => None,
+                };
+                items[k + 1] = Some(Item {
+                    id: load.id.clone(),
+                    case: load.case,
+                    applied,
+                    vertical,
+                    shear,
+                    direction,
+                    vertical_permanent_basis: permanent_basis,
+                    action,
+                    alternative,
+                    note: String::new(),
+                });
+            }
+            None => problems.push((load.id.clone(), net.describe(&fails))),
+        }
+    }
+
+    // The notional load of the scene's rule, unless the scene gives its own.
+    let mut generated = Vec::new();
+    let own_notional = scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. }));
+    let rule = scene.horizontal.notional;
+    let v = nodes.moments[Case::G.index()][0] + nodes.moments[Case::Q.index()][0];
+    if let (false, Some(resp), true) = (own_notional, resp.as_ref(), v > 0.0) {
+        let mut directions: Vec<PlanDirection> = Vec::new();
+        for d in scene.horizontal.directions.iter().copied().chain(scene.loads.iter().filter_map(|l| match l.kind {
+            LoadKind::Wind { direction, .. } => Some(direction),
+            _ => None,
+        })) {
+            if !directions.iter().any(|e| direction_key(*e) == direction_key(d)) {
+                directions.push(d);
+            }
+        }
+        for d in directions {
+            let key = direction_key(d);
+            let wind: f64 = scene
+                .loads
+                .iter()
+                .filter_map(|l| match &l.kind {
+                    LoadKind::Wind { face, kpa, direction } if direction_key(*direction) == key => Some(wind_force(face, *kpa, *direction)),
+                    _ => None,
+                })
+                .sum();
+            let (percent, note) = match rule {
+                NotionalRule::Off => break,
+                NotionalRule::Percent(p) => (p, format!("{p} % of the vertical load {v:.3} kN (scene setting)")),
+                NotionalRule::Falsework => {
+                    let p = (FALSEWORK_PERCENT - 100.0 * wind / v).max(IDENTIFIED_PLUS_PERCENT);
+                    let why = if wind > 0.0 {
+                        format!("greater of 2.5 % of the vertical load {v:.3} kN ({:.3} kN) and wind {wind:.3} kN + 1 % ({:.3} kN); wind acts with it, so {p:.3} % is added", 0.025 * v, wind + 0.01 * v)
+                    } else {
+                        format!("2.5 % of the vertical load {v:.3} kN (falsework rule; no wind in this direction)")
+                    };
+                    (p, why)
+                }
+            };
+            let mut id = format!("notional {}", direction_name(d));
+            while scene.loads.iter().any(|l| l.id == id) {
+                id.push('\'');
+            }
+            let basis = [Case::G, Case::Q];
+            let mut fails = Vec::new();
+            let acc = notional_acc(resp, percent, d, &basis, &mut fails);
+            let permanent = notional_acc(resp, percent, d, &[Case::G], &mut Vec::new());
+            let kind = LoadKind::Notional { percent, direction: d, basis: basis.to_vec() };
+            let item_ix = (items.len() + generated.len()) as u32;
+            match finish_item(model, &net, item_ix, &acc, Some(&permanent), &mut fails, contributions) {
+                Some((vertical, shear, permanent_basis, alternative)) => {
+                    let (x, y) = d.unit();
+                    generated.push(Item {
+                        id,
+                        case: Case::W,
+                        applied: applied_resultant(&kind, &nodes.moments, None),
+                        vertical,
+                        shear,
+                        direction: Some([x, y]),
+                        vertical_permanent_basis: permanent_basis,
+                        action: Action::Notional,
+                        alternative,
+                        note,
+                    });
+                }
+                None => problems.push((format!("{id} (generated: {})", rule.describe()), net.describe(&fails))),
+            }
+        }
+    }
+    if problems.is_empty() { Ok(generated) } else { Err(problems) }
+}
+
+/// Percentage of the vertical load the falsework rule asks for at least.
+// source: BS 5975:2008+A1:2011 cl. 19, 2.5 % (via a secondary summary; REFERENCES §4)
+pub const FALSEWORK_PERCENT: f64 = 2.5;
+/// Percentage added to the identified horizontal forces by the falsework rule.
+// source: Advisory Committee on Falsework final report (Bragg), HMSO 1975: identifiable forces
+// + 1 % of the vertical load (REFERENCES §4); its place in BS 5975:2008 is from memory.
+pub const IDENTIFIED_PLUS_PERCENT: f64 = 1.0;
+
+type Finished = (Vec<(u32, f64)>, Vec<(u32, [f64; 2])>, Option<Vec<(u32, f64)>>, Option<Box<Alternative>>);
+
+/// Solve an item's accumulation; its primary reactions, the permanent-basis part, and the
+/// alternative diaphragm assumption if it differs. `None` (with `fails` filled) if any part of the
+/// load cannot reach the ground.
+fn finish_item(model: &Model, net: &Network, item: u32, acc: &Acc, permanent: Option<&Acc>, fails: &mut Vec<PathFailure>, contributions: &mut Vec<Contribution>) -> Option<Finished> {
+    let sets = net.finish(acc, fails);
+    let permanent_sets = permanent.map(|p| net.finish(p, &mut Vec::new()));
+    if !fails.is_empty() {
+        return None;
+    }
+    let vertical_of = |r: &Reactions| {
+        let mut v: Vec<(u32, f64)> = Vec::with_capacity(r.brace.len());
+        for &(post, level, kn, _) in &r.brace {
+            carry_down(model, post, level, kn, &mut |plate, kn| v.push((plate, kn)));
+        }
+        v.sort_by_key(|e| e.0);
+        let mut out: Vec<(u32, f64)> = Vec::with_capacity(v.len());
+        for (p, kn) in v {
+            match out.last_mut() {
+                Some(last) if last.0 == p => last.1 += kn,
+                _ => out.push((p, kn)),
+            }
+        }
+        out
+    };
+    for &(post, level, kn, brace) in &sets[0].brace {
+        carry_down(model, post, level, kn, &mut |plate, kn| contributions.push(Contribution { plate, item, route: Route::Brace { brace }, kn }));
+    }
+    let vertical = vertical_of(&sets[0]);
+    let perm = |k: usize| permanent_sets.as_ref().map(|p| vertical_of(&p[k.min(p.len() - 1)]));
+    let alternative = (sets.len() > 1).then(|| {
+        Box::new(Alternative { primary: LEVER_RULE, label: RIGID, vertical: vertical_of(&sets[1]), shear: sets[1].shear.clone(), vertical_permanent_basis: perm(1) })
+    });
+    Some((vertical, sets[0].shear.clone(), perm(0), alternative))
+}
