@@ -331,6 +331,26 @@ fn solve_text(a: &Analysis) -> String {
         let g = p.governing();
         let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<11} {}", 100.0 * g.utilisation, g.bearing_kpa, a.combinations[p.governing].name, p.status.label(), a.governing_method_label(i));
     }
+    let on_structures: Vec<String> = a.plates.iter().filter_map(|p| p.on_structure.as_ref().map(|e| format!("{} on {e}", p.id))).collect();
+    if !on_structures.is_empty() {
+        let _ = writeln!(s, "plates on existing structures (loads for the permanent-works designer): {}", on_structures.join(", "));
+    }
+    if !a.lifts.is_empty() {
+        let _ = writeln!(s, "\nposts standing on other members (load they pass on at their base; negative: pulls up):");
+        let _ = write!(s, "{:<10} {:<28} {:>9} {:>9} {:>9}", "post", "stands on", "G kN", "Q kN", "W kN");
+        for c in &a.combinations {
+            let _ = write!(s, " {:>21}", format!("{} max/min kN", c.name));
+        }
+        let _ = writeln!(s, "  status");
+        for l in &a.lifts {
+            let _ = write!(s, "{:<10} {:<28} {:>9.3} {:>9.3} {:>9.3}", l.id, l.stands_on, tidy(l.case_kn[0]), tidy(l.case_kn[1]), tidy(l.case_kn[2]));
+            for c in &l.combinations {
+                let _ = write!(s, " {:>10.3}/{:<10.3}", tidy(c.max_kn), tidy(c.min_kn));
+            }
+            let status = if l.status.uplift { "PULLS UP: tie it down or prop it" } else if l.status.over { "OVER its support's safe working load" } else { "OK" };
+            let _ = writeln!(s, "  {status}");
+        }
+    }
     if let Some(w) = a.worst_plate() {
         let p = &a.plates[w];
         let g = p.governing();

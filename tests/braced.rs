@@ -22,7 +22,7 @@ fn push(id: &str, x: f64, y: f64, z: f64, kn: f64, direction: PlanDirection) -> 
 fn item_vertical(a: &Analysis, item: &str, plate: &str, variant: usize) -> f64 {
     let i = a.solution.items.iter().find(|i| i.id == item).unwrap_or_else(|| panic!("no item {item}"));
     let p = a.plate_index(plate).unwrap() as u32;
-    i.variant(variant).0.iter().filter(|e| e.0 == p).map(|e| e.1).sum()
+    i.variant(variant).vertical.iter().filter(|e| e.0 == p).map(|e| e.1).sum()
 }
 
 /// Horizontal reaction of one item at a plate, primary reactions.

@@ -31,14 +31,17 @@ fn scene() -> Scene {
     s
 }
 
-/// One bearer on four posts 1.5 m apart, a uniform line load of 4 kN/m over its whole length.
+/// One bearer on four posts 1.5 m apart, a uniform line load of 4 kN/m over its whole length,
+/// applied whole (these tests are about the method envelope; arrangements have their own).
 fn three_span_bearer(method: BeamMethod) -> Scene {
     let mut s = scene();
     for (i, id) in ["P0", "P1", "P2", "P3"].iter().enumerate() {
         s.posts.push(post(id, 1.5 * i as f64, 0.0));
     }
     s.bearers.push(bearer("B", &["P0", "P1", "P2", "P3"]));
-    s.loads.push(Load { id: "q".into(), case: Case::Q, kind: LoadKind::BearerLine { bearer: "B".into(), from_m: 0.0, to_m: 4.5, kn_per_m: 4.0 } });
+    let mut q = Load::new("q", Case::Q, LoadKind::BearerLine { bearer: "B".into(), from_m: 0.0, to_m: 4.5, kn_per_m: 4.0 });
+    q.arrangement = plateload::scene::loads::Arrangement::Whole;
+    s.loads.push(q);
     s.analysis.method = method;
     s
 }
@@ -101,7 +104,7 @@ fn envelope_takes_the_smaller_minimum_for_uplift() {
         s.posts.push(post(id, i as f64, 0.0));
     }
     s.bearers.push(bearer("B", &["P0", "P1", "P2"]));
-    s.loads.push(Load { id: "q".into(), case: Case::Q, kind: LoadKind::BearerLine { bearer: "B".into(), from_m: 0.0, to_m: 1.0, kn_per_m: 16.0 } });
+    s.loads.push(Load::new("q", Case::Q, LoadKind::BearerLine { bearer: "B".into(), from_m: 0.0, to_m: 1.0, kn_per_m: 16.0 }));
     let a = analyse(&s).unwrap();
     let (max2, min2) = service(&a, 2);
     assert!(max2.abs() < 1e-9 && (min2 + 1.0).abs() < 1e-9, "{max2} {min2}");
@@ -141,7 +144,7 @@ fn deck_on_three_bearers() -> Scene {
         names.push(format!("B{j}"));
     }
     s.decks.push(Deck { id: "D".into(), level: 2.0, extent: Rect { x: (0.0, 3.0), y: (0.0, 2.0) }, bearers: names, self_weight_kpa: 0.0, method: None, diaphragm: false });
-    s.loads.push(Load { id: "q".into(), case: Case::Q, kind: LoadKind::DeckArea { deck: "D".into(), intensity: Intensity::Kpa(2.0) } });
+    s.loads.push(Load::new("q", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: Intensity::Kpa(2.0) }));
     s
 }
 
@@ -182,7 +185,7 @@ fn deck_point_load_reaches_every_bearer_of_a_continuous_deck() {
     s.loads.clear();
     s.decks[0].method = Some(BeamMethod::Continuous);
     s.bearers.iter_mut().for_each(|b| b.method = Some(BeamMethod::SimpleSpans));
-    s.loads.push(Load { id: "p".into(), case: Case::Q, kind: LoadKind::DeckPoint { deck: "D".into(), x: 1.5, y: 0.5, kn: 32.0 } });
+    s.loads.push(Load::new("p", Case::Q, LoadKind::DeckPoint { deck: "D".into(), x: 1.5, y: 0.5, kn: 32.0 }));
     let a = analyse(&s).unwrap();
     assert_eq!(a.method_count(), 1);
     let at = |id: &str| a.plates[plate(&a, id)].case_kn[1];
@@ -198,7 +201,7 @@ fn every_method_pass_is_in_equilibrium() {
     let mut with_overhang = three_span_bearer(BeamMethod::Envelope);
     with_overhang.bearers[0].overhang_end_m = 0.8;
     with_overhang.bearers[0].overhang_start_m = 0.3;
-    with_overhang.loads.push(Load { id: "tip".into(), case: Case::G, kind: LoadKind::BearerPoint { bearer: "B".into(), at_m: 5.2, kn: 3.0 } });
+    with_overhang.loads.push(Load::new("tip", Case::G, LoadKind::BearerPoint { bearer: "B".into(), at_m: 5.2, kn: 3.0 }));
     scenes.push(with_overhang);
     for s in &scenes {
         let a = analyse(s).unwrap();
@@ -254,7 +257,7 @@ fn two_post_bearers_give_the_same_loads_by_both_methods() {
     s.posts.push(post("A", 0.0, 0.0));
     s.posts.push(post("B", 2.0, 0.0));
     s.bearers.push(bearer("AB", &["A", "B"]));
-    s.loads.push(Load { id: "q".into(), case: Case::Q, kind: LoadKind::BearerLine { bearer: "AB".into(), from_m: 0.0, to_m: 2.0, kn_per_m: 3.0 } });
+    s.loads.push(Load::new("q", Case::Q, LoadKind::BearerLine { bearer: "AB".into(), from_m: 0.0, to_m: 2.0, kn_per_m: 3.0 }));
     let a = analyse(&s).unwrap();
     assert_eq!(a.method_count(), 2);
     assert!(a.plates.iter().all(|p| p.methods_agree));

@@ -742,7 +742,7 @@ fn build(g: &SceneGen) -> Scene {
             }
         };
         if let Some((case, kind)) = kind {
-            s.loads.push(Load { id, case, kind });
+            s.loads.push(Load::new(id, case, kind));
         }
     }
     s
@@ -1303,9 +1303,9 @@ fn post_without_a_base_is_refused() {
 fn loads_without_posts_are_refused() {
     // common practice, no source: load with nothing to carry it has no base reaction
     let mut s = Scene::empty("bare", 100.0);
-    s.loads.push(Load { id: "pallet".into(), case: Case::Q, kind: LoadKind::PostTop { post: "A1".into(), kn: 5.0 } });
-    s.loads.push(Load { id: "push".into(), case: Case::W, kind: LoadKind::Horizontal { x: 0.0, y: 0.0, level: 1.0, kn: 1.0, direction: PlanDirection::PlusX } });
-    s.loads.push(Load { id: "N".into(), case: Case::W, kind: LoadKind::Notional { percent: 2.5, direction: PlanDirection::PlusY, basis: vec![Case::G, Case::Q] } });
+    s.loads.push(Load::new("pallet", Case::Q, LoadKind::PostTop { post: "A1".into(), kn: 5.0 }));
+    s.loads.push(Load::new("push", Case::W, LoadKind::Horizontal { x: 0.0, y: 0.0, level: 1.0, kn: 1.0, direction: PlanDirection::PlusX }));
+    s.loads.push(Load::new("N", Case::W, LoadKind::Notional { percent: 2.5, direction: PlanDirection::PlusY, basis: vec![Case::G, Case::Q] }));
     // The notional load N is checked against the bracing only once the scene is valid.
     refused(&s, &["load pallet", "post \"A1\" does not exist", "load push", "neither on a post"]);
 }
@@ -1384,10 +1384,10 @@ fn coincident_posts_are_refused() {
 fn extreme_values_are_refused() {
     // common practice, no source: magnitudes far outside any scaffold are input mistakes
     let mut s = small();
-    s.loads.push(Load { id: "huge".into(), case: Case::Q, kind: LoadKind::PostTop { post: "A1".into(), kn: 1e12 } });
+    s.loads.push(Load::new("huge", Case::Q, LoadKind::PostTop { post: "A1".into(), kn: 1e12 }));
     refused(&s, &["load huge", "force (kN) = 1e12"]);
     let mut s = small();
-    s.loads.push(Load { id: "huge-area".into(), case: Case::Q, kind: LoadKind::DeckArea { deck: "Deck-1".into(), intensity: Intensity::Kpa(1e12) } });
+    s.loads.push(Load::new("huge-area", Case::Q, LoadKind::DeckArea { deck: "Deck-1".into(), intensity: Intensity::Kpa(1e12) }));
     refused(&s, &["load huge-area", "pressure"]);
     // A span of 1e-9 m between two posts.
     let mut s = small();
@@ -1423,7 +1423,7 @@ fn extreme_values_are_refused() {
 fn notional_basis_named_twice_is_refused() {
     // common practice, no source: a percentage of the same load counted twice is a wrong number
     let mut s = small();
-    s.loads.push(Load { id: "N-twice".into(), case: Case::W, kind: LoadKind::Notional { percent: 2.5, direction: PlanDirection::PlusX, basis: vec![Case::G, Case::G] } });
+    s.loads.push(Load::new("N-twice", Case::W, LoadKind::Notional { percent: 2.5, direction: PlanDirection::PlusX, basis: vec![Case::G, Case::G] }));
     refused(&s, &["load N-twice", "names case G twice"]);
 }
 
@@ -1437,7 +1437,7 @@ fn a_tee_head_that_tips_is_refused() {
     b.overhang_start_m = 0.5;
     b.overhang_end_m = 0.5;
     s.bearers.push(b);
-    s.loads.push(Load { id: "lopsided".into(), case: Case::Q, kind: LoadKind::BearerPoint { bearer: "tee".into(), at_m: 0.4, kn: 2.0 } });
+    s.loads.push(Load::new("lopsided", Case::Q, LoadKind::BearerPoint { bearer: "tee".into(), at_m: 0.4, kn: 2.0 }));
     refused(&s, &["bearer tee", "lopsided", "single post"]);
 }
 

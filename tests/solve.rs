@@ -256,11 +256,12 @@ fn trace_adds_up_to_the_plate_load() {
     // common practice, no source: the shares of a reaction sum to the reaction.
     for (name, scene) in demo_scenes() {
         let a = analyse(&scene).unwrap();
-        let mut sums = vec![[0.0; 3]; a.plates.len()];
+        let mut sums = vec![[0.0; 3]; scene.posts.len()];
         for c in &a.solution.contributions {
-            sums[c.plate as usize][a.solution.items[c.item as usize].case.index()] += c.kn;
+            sums[c.post as usize][a.solution.items[c.item as usize].case.index()] += c.kn;
         }
-        for (p, s) in a.plates.iter().zip(&sums) {
+        for p in &a.plates {
+            let s = sums[p.post];
             for k in 0..3 {
                 close(&format!("{name} {} case {k}", p.id), s[k], p.case_kn[k], 1e-9);
             }

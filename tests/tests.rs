@@ -11,6 +11,10 @@ mod braced;
 mod check;
 // Scene files: syntax errors with positions, round trips, atomic saves.
 mod io;
+// Loads through lifts: spliced standards, transfer members, existing structures.
+mod lifts;
+// Imposed loads in their worst arrangement.
+mod arrangements;
 // Continuous members, the method envelope and its outputs.
 mod continuous;
 // Validation: every problem at once, with element ids.

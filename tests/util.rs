@@ -58,7 +58,7 @@ pub fn deck(id: &str, level: f64, x: (f64, f64), y: (f64, f64), bearers: &[&str]
 
 /// A load.
 pub fn load(id: &str, case: Case, kind: LoadKind) -> Load {
-    Load { id: id.into(), case, kind }
+    Load::new(id, case, kind)
 }
 
 /// A brace between two posts from level 0 to `top`.

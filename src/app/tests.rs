@@ -313,7 +313,7 @@ fn the_view_follows_edits_in_place_and_recolours_plates() {
     // At least the 4 posts with their base and sole plates, the 8 ledgers and 2 transoms on them.
     assert!(updated >= 4 * 3 + 8 + 2, "{updated} entities updated");
     // Overload A4 with a 40 kN point load on its top: over its 30 kN jack.
-    let load = Load { id: "test-load".into(), case: Case::Q, kind: LoadKind::PostTop { post: "A4".into(), kn: 40.0 } };
+    let load = Load::new("test-load", Case::Q, LoadKind::PostTop { post: "A4".into(), kn: 40.0 });
     act(&mut app, Action::Edit { edit: Edit::Add(Element::Load(load)), merge: None, select: None });
     let d = doc(&app);
     let a = d.analysis().unwrap();

@@ -2,7 +2,8 @@
 //! prove equilibrium and summarise stability.
 
 use crate::check::equilibrium::{equilibrium, CaseEquilibrium};
-use crate::check::plates::{bearing_area, combine_envelope, PlateCombination, Status};
+use crate::check::plates::{capacities, combine_envelope, PlateCombination, Status};
+use crate::scene::standing::StandsOn;
 use crate::scene::combination::Combination;
 use crate::scene::loads::Case;
 use crate::scene::model::Scene;
@@ -27,6 +28,11 @@ pub enum AnalysisError {
 pub struct PlateResult {
     /// Post (and base plate) id.
     pub id: String,
+    /// Index of its post in the scene.
+    pub post: usize,
+    /// Existing structure it stands on (its id), if not the ground: its load is for the
+    /// permanent-works designer.
+    pub on_structure: Option<String>,
     /// Plan position, m.
     pub x: f64,
     /// Plan position, m.
@@ -37,9 +43,9 @@ pub struct PlateResult {
     pub support: String,
     /// Safe working load of the support, kN.
     pub swl_kn: f64,
-    /// Bearing area at formation level, m².
+    /// Bearing area at formation level (on an existing structure: the plate's own area), m².
     pub bearing_area_m2: f64,
-    /// Allowable ground bearing pressure, kPa.
+    /// Allowable bearing pressure on that area (the ground's, or the existing structure's), kPa.
     pub allowable_kpa: f64,
     /// Vertical reaction per case (G, Q, W), kN, upwards positive.
     pub case_kn: [f64; 3],
@@ -74,6 +80,29 @@ impl PlateResult {
     }
 }
 
+/// What a post that stands on another member passes on at its base: a splice of a standard, or a
+/// post on a transfer bearer or deck. A negative minimum is reported like uplift: tension through
+/// the splice, or the post lifting off what it stands on.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct LiftResult {
+    /// Post id.
+    pub id: String,
+    /// Index of its post in the scene.
+    pub post: usize,
+    /// What it stands on, in words (e.g. `post A1`, `bearer T2 at 1.200 m`, `deck D1`).
+    pub stands_on: String,
+    /// Base level, m.
+    pub base_level: f64,
+    /// Safe working load of its own support, kN, if it has one.
+    pub swl_kn: Option<f64>,
+    /// Load passed on per case (G, Q, W), kN downwards, primary method pass.
+    pub case_kn: [f64; 3],
+    /// Per combination: the largest and smallest load passed on over the method passes, kN.
+    pub combinations: Vec<PlateCombination>,
+    /// Findings: over the safe working load of its own support (if it has one), or pulling up.
+    pub status: Status,
+}
+
 /// Everything found for a scene.
 #[derive(Debug, Clone)]
 pub struct Analysis {
@@ -88,6 +117,9 @@ pub struct Analysis {
     pub other_solutions: Vec<Solution>,
     /// One result per base plate, in post order.
     pub plates: Vec<PlateResult>,
+    /// One result per post that stands on another member (lifts, posts on transfer members), in
+    /// post order.
+    pub lifts: Vec<LiftResult>,
     /// Equilibrium proof per case (G, Q, W), primary method pass.
     pub equilibrium: [CaseEquilibrium; 3],
     /// Equilibrium proof per case for every method pass; `[0]` equals `equilibrium`.
@@ -143,9 +175,10 @@ impl Analysis {
         let p = &self.plates[plate];
         if self.method_count() > 1 && p.methods_agree { METHODS_AGREE } else { self.method_label(p.min_method) }
     }
-    /// Whether any plate is over capacity or lifts.
+    /// Whether any plate is over capacity or lifts, or any post standing on another member is
+    /// over its support's capacity or pulls up.
     pub fn any_failure(&self) -> bool {
-        self.plates.iter().any(|p| !p.status.is_ok())
+        self.plates.iter().any(|p| !p.status.is_ok()) || self.lifts.iter().any(|l| !l.status.is_ok())
     }
     /// Base shear taken by the plates under each horizontal load on its own: (load id, case,
     /// [x, y] kN). Opposite loads of one case would cancel in the case totals.
@@ -183,19 +216,35 @@ const AGREE_RELATIVE: f64 = 1e-6;
 pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
     let model = validate(scene).map_err(AnalysisError::Invalid)?;
     let mut solutions = solve_methods(&model).map_err(AnalysisError::Unsolvable)?;
-    let envelope = combine_envelope(scene, &solutions, &model.post_support);
+    let caps = capacities(&model);
+    let envelope = combine_envelope(scene, &solutions, &caps);
     let case_by_method: Vec<Vec<[f64; 3]>> = solutions.iter().map(Solution::case_vertical).collect();
     let case_shear = solutions[0].case_shear();
     let capacity_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_capacity).collect();
     let uplift_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_uplift).collect();
     let all_combos: Vec<usize> = (0..scene.combinations.len()).collect();
+    let mut lifts = Vec::new();
     let plates = scene
         .posts
         .iter()
         .zip(envelope.envelope)
         .enumerate()
-        .map(|(i, (post, combinations))| {
-            let support = &scene.support_types[model.post_support[i]];
+        .filter_map(|(i, (post, combinations))| {
+            let stands_on = model.graph.stands_on[i];
+            if !stands_on.is_plate() {
+                lifts.push(LiftResult {
+                    id: post.id.clone(),
+                    post: i,
+                    stands_on: stands_on_words(scene, stands_on),
+                    base_level: post.base_level,
+                    swl_kn: caps[i].swl_kn.is_finite().then_some(caps[i].swl_kn),
+                    case_kn: case_by_method[0][i],
+                    status: combinations.iter().fold(Status::default(), |s, c| s.or(c.status)),
+                    combinations,
+                });
+                return None;
+            }
+            let support = &scene.support_types[model.post_support[i].expect("validation gives every base plate a support type")];
             let all = 0..combinations.len();
             let governing = all
                 .filter(|&c| capacity_combos.is_empty() || capacity_combos.contains(&c))
@@ -213,15 +262,20 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
             let methods_agree = combinations_by_method
                 .iter()
                 .all(|m| m.iter().zip(&combinations).all(|(c, e)| same(c.max_kn, e.max_kn) && same(c.min_kn, e.min_kn)));
-            PlateResult {
+            Some(PlateResult {
                 id: post.id.clone(),
+                post: i,
+                on_structure: match stands_on {
+                    StandsOn::Structure(e) => Some(scene.existing_structures[e].id.clone()),
+                    _ => None,
+                },
                 x: post.x,
                 y: post.y,
                 base_level: post.base_level,
                 support: support.id.clone(),
                 swl_kn: support.swl_kn,
-                bearing_area_m2: bearing_area(scene, support),
-                allowable_kpa: scene.site.allowable_bearing_kpa,
+                bearing_area_m2: caps[i].bearing_area_m2,
+                allowable_kpa: caps[i].allowable_kpa,
                 case_kn: case_by_method[0][i],
                 case_shear_kn: case_shear[i],
                 governing_method: combinations.get(governing).map_or(0, |c| c.max_method),
@@ -232,7 +286,7 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
                 combinations,
                 governing,
                 status,
-            }
+            })
         })
         .collect();
     let equilibrium_by_method: Vec<[CaseEquilibrium; 3]> = solutions.iter().map(equilibrium).collect();
@@ -253,10 +307,22 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
         solution,
         other_solutions: solutions,
         plates,
+        lifts,
         equilibrium: equilibrium_by_method[0],
         equilibrium_by_method,
         stability,
         braced: model.braced,
         warnings: model.warnings,
     })
+}
+
+/// What a post stands on, in words for outputs.
+pub fn stands_on_words(scene: &Scene, s: StandsOn) -> String {
+    match s {
+        StandsOn::Ground => "the ground".into(),
+        StandsOn::Structure(e) => format!("existing structure {}", scene.existing_structures[e].id),
+        StandsOn::Post(q) => format!("post {} (spliced)", scene.posts[q].id),
+        StandsOn::Bearer { bearer, at } => format!("bearer {} at {:.3} m", scene.bearers[bearer].id, at),
+        StandsOn::Deck(d) => format!("deck {}", scene.decks[d].id),
+    }
 }

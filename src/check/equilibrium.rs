@@ -19,7 +19,8 @@ pub struct CaseEquilibrium {
     /// |ΣM| about the origin of each load item, summed, kN·m.
     pub moment_residual_knm: f64,
     /// Worst item's largest of |ΣF| / F and |ΣM| / (F·L), with F the magnitude of the item's
-    /// applied force and L the size of the base; 0 when there is no load.
+    /// applied force and L the size of the base; 0 when there is no load. For an arranged load,
+    /// each of its cells is held to the same measure.
     pub relative: f64,
 }
 
@@ -60,6 +61,10 @@ pub fn equilibrium(solution: &Solution) -> [CaseEquilibrium; 3] {
                 if magnitude > 0.0 {
                     relative = relative.max(f / magnitude).max(m / (magnitude * size));
                 }
+            }
+            // An arranged load balances cell by cell too.
+            if let Some(arranged) = &item.arranged {
+                relative = relative.max(arranged.worst_cell_residual);
             }
         }
         CaseEquilibrium { case, applied, reactions, force_residual_kn: fr, moment_residual_knm: mr, relative }

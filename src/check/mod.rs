@@ -15,4 +15,4 @@ pub mod stability;
 
 pub use analysis::{analyse, Analysis, AnalysisError, PlateResult, METHODS_AGREE};
 pub use equilibrium::{equilibrium, CaseEquilibrium};
-pub use plates::{bearing_area, combine, combine_envelope, Bearing, MethodEnvelope, PlateCombination, Status, METHOD_TIE_RELATIVE, UPLIFT_TOLERANCE_KN};
+pub use plates::{bearing_area, capacities, combine, combine_envelope, Bearing, PostCapacity, MethodEnvelope, PlateCombination, Status, METHOD_TIE_RELATIVE, UPLIFT_TOLERANCE_KN};

@@ -3,6 +3,8 @@
 use crate::scene::combination::Combination;
 use crate::scene::loads::Case;
 use crate::scene::model::{Scene, SupportType};
+use crate::scene::standing::StandsOn;
+use crate::scene::validate::Model;
 use crate::solve::Solution;
 
 /// A reaction below this (kN) counts as uplift; above zero by this margin only to ignore
@@ -61,6 +63,40 @@ pub fn bearing_area(scene: &Scene, support: &SupportType) -> f64 {
     (plate.width_m + grow) * (plate.length_m + grow)
 }
 
+/// What one post's base is checked against.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct PostCapacity {
+    /// Safe working load of its base jack / plate, kN; infinite where it has no support type.
+    pub swl_kn: f64,
+    /// Area its load bears on (formation level for a plate on the ground, the plate itself on an
+    /// existing structure), m²; infinite for a post standing on another member.
+    pub bearing_area_m2: f64,
+    /// Allowable bearing pressure on that area, kPa; infinite where bearing is not checked (a
+    /// post standing on another member).
+    pub allowable_kpa: f64,
+}
+
+/// What each post's base is checked against, in post order: a plate on the ground against its
+/// support's safe working load and the ground; a plate on an existing structure against its
+/// support and the structure's allowable pressure under the plate; a post standing on another
+/// member against its support's safe working load, if it has one.
+pub fn capacities(model: &Model) -> Vec<PostCapacity> {
+    let scene = model.scene;
+    (0..scene.posts.len())
+        .map(|p| {
+            let support = model.post_support[p].map(|s| &scene.support_types[s]);
+            let swl_kn = support.map_or(f64::INFINITY, |s| s.swl_kn);
+            match (model.graph.stands_on[p], support) {
+                (StandsOn::Ground, Some(s)) => PostCapacity { swl_kn, bearing_area_m2: bearing_area(scene, s), allowable_kpa: scene.site.allowable_bearing_kpa },
+                (StandsOn::Structure(e), Some(s)) => {
+                    PostCapacity { swl_kn, bearing_area_m2: s.bearing_plate().area(), allowable_kpa: scene.existing_structures[e].allowable_kpa }
+                }
+                _ => PostCapacity { swl_kn, bearing_area_m2: f64::INFINITY, allowable_kpa: f64::INFINITY },
+            }
+        })
+        .collect()
+}
+
 /// One plate under one combination.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct PlateCombination {
@@ -93,11 +129,13 @@ pub struct PlateCombination {
 /// the part due to permanent load: the variable load it would come from is then absent. With ψ0
 /// set, each variable case leads in turn; where diaphragms were solved both ways, each way in
 /// turn; the worse governs every plate.
-pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Vec<Vec<PlateCombination>> {
+///
+/// Every post gets a result: the plate load of a post with a base plate, the load passed on at the
+/// base of any other (where a negative minimum is tension through a splice or a post lifting off
+/// what it stands on).
+pub fn combine(scene: &Scene, solution: &Solution, caps: &[PostCapacity]) -> Vec<Vec<PlateCombination>> {
     let n = solution.plates.len();
     let case = solution.case_vertical();
-    let bearing: Vec<f64> = scene.support_types.iter().map(|s| bearing_area(scene, s)).collect();
-    let allowable = scene.site.allowable_bearing_kpa;
     let mut out = vec![Vec::with_capacity(scene.combinations.len()); n];
     let (mut hi, mut lo) = (vec![0.0; n], vec![0.0; n]);
     let (mut best_hi, mut best_lo) = (vec![0.0; n], vec![0.0; n]);
@@ -120,16 +158,30 @@ pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Ve
                 for &i in &actions.independent {
                     let item = &solution.items[i];
                     let gamma = crate::check::actions::variable_factor(comb, item, leading);
-                    for &(p, v) in item.variant(variant).0 {
-                        let v = gamma * v;
-                        if v > 0.0 {
-                            hi[p as usize] += v;
-                        } else {
-                            lo[p as usize] += v;
+                    match &item.arranged {
+                        // Arranged: at each post, the cells that push it down for the maximum and
+                        // those that lift it for the minimum.
+                        Some(arranged) => {
+                            for &(p, down, up) in &arranged.extremes {
+                                hi[p as usize] += gamma * down;
+                                lo[p as usize] += gamma * up;
+                            }
+                        }
+                        // Whole: present everywhere or not at all, whichever is worse.
+                        None => {
+                            let r = item.variant(variant);
+                            for &(p, v) in r.vertical.iter().chain(r.internal) {
+                                let v = gamma * v;
+                                if v > 0.0 {
+                                    hi[p as usize] += v;
+                                } else {
+                                    lo[p as usize] += v;
+                                }
+                            }
                         }
                     }
                 }
-                // Horizontal directions are alternatives: the worst single direction counts.
+                // Wind and notional directions are alternatives: the worst single direction counts.
                 if !actions.by_direction.is_empty() {
                     let (mut worst_hi, mut worst_lo) = (vec![0.0f64; n], vec![0.0f64; n]);
                     for group in &actions.by_direction {
@@ -138,12 +190,13 @@ pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Ve
                         for &i in group {
                             let item = &solution.items[i];
                             let gamma = crate::check::actions::variable_factor(comb, item, leading);
-                            let (vertical, _, permanent) = item.variant(variant);
-                            for &(p, v) in vertical {
+                            let r = item.variant(variant);
+                            for &(p, v) in r.vertical.iter().chain(r.internal) {
                                 group_hi[p as usize] += gamma * v;
                             }
-                            for &(p, v) in permanent.unwrap_or(vertical) {
-                                group_lo[p as usize] += gamma * v;
+                            match r.permanent {
+                                Some(perm) => perm.iter().for_each(|&(p, v)| group_lo[p as usize] += gamma * v),
+                                None => r.vertical.iter().chain(r.internal).for_each(|&(p, v)| group_lo[p as usize] += gamma * v),
                             }
                         }
                         for p in 0..n {
@@ -163,17 +216,16 @@ pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Ve
             }
         }
         for p in 0..n {
-            let support = &scene.support_types[post_support[p]];
-            out[p].push(plate_combination(comb, best_hi[p], best_lo[p], support.swl_kn, bearing[post_support[p]], allowable));
+            out[p].push(plate_combination(comb, best_hi[p], best_lo[p], caps[p]));
         }
     }
     out
 }
 
-fn plate_combination(comb: &Combination, max_kn: f64, min_kn: f64, swl: f64, area: f64, allowable: f64) -> PlateCombination {
-    let load_utilisation = max_kn.max(0.0) / swl;
-    let bearing_kpa = max_kn.max(0.0) / area;
-    let bearing_utilisation = bearing_kpa / allowable;
+fn plate_combination(comb: &Combination, max_kn: f64, min_kn: f64, cap: PostCapacity) -> PlateCombination {
+    let load_utilisation = max_kn.max(0.0) / cap.swl_kn;
+    let bearing_kpa = if cap.bearing_area_m2.is_finite() { max_kn.max(0.0) / cap.bearing_area_m2 } else { 0.0 };
+    let bearing_utilisation = bearing_kpa / cap.allowable_kpa;
     let utilisation = load_utilisation.max(bearing_utilisation);
     let status = Status {
         over: comb.checks_capacity && utilisation > 1.0 + 1e-9,
@@ -199,10 +251,8 @@ pub struct MethodEnvelope {
 /// [`combine`] every solution (one per method pass, in pass order) and take, per plate and
 /// combination, the larger maximum and the smaller minimum. The structure's behaviour is one for
 /// all loads of a combination, so each pass is combined whole before the envelope is taken.
-pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[usize]) -> MethodEnvelope {
-    let by_method: Vec<_> = solutions.iter().map(|s| combine(scene, s, post_support)).collect();
-    let bearing: Vec<f64> = scene.support_types.iter().map(|s| bearing_area(scene, s)).collect();
-    let allowable = scene.site.allowable_bearing_kpa;
+pub fn combine_envelope(scene: &Scene, solutions: &[Solution], caps: &[PostCapacity]) -> MethodEnvelope {
+    let by_method: Vec<_> = solutions.iter().map(|s| combine(scene, s, caps)).collect();
     let n = solutions.first().map_or(0, |s| s.plates.len());
     let envelope = (0..n)
         .map(|p| {
@@ -221,8 +271,7 @@ pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[u
                             lo = (pc.min_kn, m);
                         }
                     }
-                    let support = &scene.support_types[post_support[p]];
-                    let mut out = plate_combination(comb, hi.0, lo.0, support.swl_kn, bearing[post_support[p]], allowable);
+                    let mut out = plate_combination(comb, hi.0, lo.0, caps[p]);
                     out.max_method = hi.1;
                     out.min_method = lo.1;
                     out

@@ -52,7 +52,7 @@ pub fn stability(solution: &Solution, target_factor: f64) -> Stability {
     let p = permanent.down();
     // Downward P at (x, y) has moment (−yP, xP, 0) about the origin.
     let cog = (p > 0.0).then(|| (permanent.moment[1] / p, -permanent.moment[0] / p));
-    let plates = &solution.plates;
+    let plates: Vec<[f64; 3]> = solution.plates.iter().zip(&solution.is_plate).filter(|(_, is)| **is).map(|(p, _)| *p).collect();
     if plates.is_empty() {
         return Stability { permanent_kn: p, centre_of_gravity: cog, target_factor, directions: Vec::new() };
     }

@@ -25,7 +25,7 @@ use std::fmt;
 use crate::scene::combination::Combination;
 use crate::scene::layout::{add_layout, LayoutSpec};
 use crate::scene::loads::{Load, LoadKind};
-use crate::scene::model::{AnalysisSettings, Bearer, Brace, Deck, ElementKind, Post, Scene, Site, StabilitySettings, SupportType};
+use crate::scene::model::{AnalysisSettings, Bearer, Brace, Deck, ElementKind, ExistingStructure, Post, Scene, Site, StabilitySettings, SupportType};
 
 /// One element of a scene named by kind and id.
 #[derive(Debug, Clone, PartialEq, Eq, Hash)]
@@ -66,6 +66,7 @@ pub enum Element {
     Bearer(Bearer),
     Deck(Deck),
     Brace(Brace),
+    ExistingStructure(ExistingStructure),
     Load(Load),
 }
 
@@ -78,6 +79,7 @@ impl Element {
             Element::Bearer(_) => ElementKind::Bearer,
             Element::Deck(_) => ElementKind::Deck,
             Element::Brace(_) => ElementKind::Brace,
+            Element::ExistingStructure(_) => ElementKind::ExistingStructure,
             Element::Load(_) => ElementKind::Load,
         }
     }
@@ -89,6 +91,7 @@ impl Element {
             Element::Bearer(e) => &e.id,
             Element::Deck(e) => &e.id,
             Element::Brace(e) => &e.id,
+            Element::ExistingStructure(e) => &e.id,
             Element::Load(e) => &e.id,
         }
     }
@@ -99,6 +102,7 @@ impl Element {
             Element::Bearer(e) => &mut e.id,
             Element::Deck(e) => &mut e.id,
             Element::Brace(e) => &mut e.id,
+            Element::ExistingStructure(e) => &mut e.id,
             Element::Load(e) => &mut e.id,
         }
     }
@@ -117,6 +121,7 @@ pub fn index_of(scene: &Scene, r: &ElementRef) -> Option<usize> {
         ElementKind::Bearer => scene.bearers.iter().position(|e| e.id == id),
         ElementKind::Deck => scene.decks.iter().position(|e| e.id == id),
         ElementKind::Brace => scene.braces.iter().position(|e| e.id == id),
+        ElementKind::ExistingStructure => scene.existing_structures.iter().position(|e| e.id == id),
         ElementKind::Load => scene.loads.iter().position(|e| e.id == id),
         ElementKind::Combination | ElementKind::Site => None,
     }
@@ -130,6 +135,7 @@ fn element_at(scene: &Scene, kind: ElementKind, index: usize) -> Option<Element>
         ElementKind::Bearer => Element::Bearer(scene.bearers.get(index)?.clone()),
         ElementKind::Deck => Element::Deck(scene.decks.get(index)?.clone()),
         ElementKind::Brace => Element::Brace(scene.braces.get(index)?.clone()),
+        ElementKind::ExistingStructure => Element::ExistingStructure(scene.existing_structures.get(index)?.clone()),
         ElementKind::Load => Element::Load(scene.loads.get(index)?.clone()),
         ElementKind::Combination | ElementKind::Site => return None,
     })
@@ -368,6 +374,7 @@ fn change(scene: &mut Scene, c: Change) -> Change {
                 Element::Bearer(e) => insert(&mut scene.bearers, index, e),
                 Element::Deck(e) => insert(&mut scene.decks, index, e),
                 Element::Brace(e) => insert(&mut scene.braces, index, e),
+                Element::ExistingStructure(e) => insert(&mut scene.existing_structures, index, e),
                 Element::Load(e) => insert(&mut scene.loads, index, e),
             }
             Change::Remove { kind, index }
@@ -379,6 +386,7 @@ fn change(scene: &mut Scene, c: Change) -> Change {
                 ElementKind::Bearer => Element::Bearer(scene.bearers.remove(index)),
                 ElementKind::Deck => Element::Deck(scene.decks.remove(index)),
                 ElementKind::Brace => Element::Brace(scene.braces.remove(index)),
+                ElementKind::ExistingStructure => Element::ExistingStructure(scene.existing_structures.remove(index)),
                 ElementKind::Load => Element::Load(scene.loads.remove(index)),
                 ElementKind::Combination | ElementKind::Site => unreachable!("not a list element"),
             };
@@ -391,6 +399,7 @@ fn change(scene: &mut Scene, c: Change) -> Change {
                 Element::Bearer(e) => Element::Bearer(swap(&mut scene.bearers, index, e)),
                 Element::Deck(e) => Element::Deck(swap(&mut scene.decks, index, e)),
                 Element::Brace(e) => Element::Brace(swap(&mut scene.braces, index, e)),
+                Element::ExistingStructure(e) => Element::ExistingStructure(swap(&mut scene.existing_structures, index, e)),
                 Element::Load(e) => Element::Load(swap(&mut scene.loads, index, e)),
             };
             Change::Replace { index, element: old }
@@ -592,6 +601,7 @@ impl Tx<'_> {
                 (ElementKind::Deck, self.scene.decks.len()),
                 (ElementKind::Bearer, self.scene.bearers.len()),
                 (ElementKind::Post, self.scene.posts.len()),
+                (ElementKind::ExistingStructure, self.scene.existing_structures.len()),
                 (ElementKind::SupportType, self.scene.support_types.len()),
             ]
             .into_iter()
@@ -647,8 +657,9 @@ fn kind_rank(k: ElementKind) -> u8 {
         ElementKind::Deck => 2,
         ElementKind::Bearer => 3,
         ElementKind::Post => 4,
-        ElementKind::SupportType => 5,
-        ElementKind::Combination | ElementKind::Site => 6,
+        ElementKind::ExistingStructure => 5,
+        ElementKind::SupportType => 6,
+        ElementKind::Combination | ElementKind::Site => 7,
     }
 }
 
@@ -659,6 +670,7 @@ fn list_len(scene: &Scene, kind: ElementKind) -> usize {
         ElementKind::Bearer => scene.bearers.len(),
         ElementKind::Deck => scene.decks.len(),
         ElementKind::Brace => scene.braces.len(),
+        ElementKind::ExistingStructure => scene.existing_structures.len(),
         ElementKind::Load => scene.loads.len(),
         ElementKind::Combination | ElementKind::Site => 0,
     }
@@ -683,7 +695,7 @@ fn without_support(e: Element, gone: &ElementRef) -> Option<Element> {
 /// Call `f` on every reference an element holds, with the kind it refers to.
 fn rewrite_refs(e: &mut Element, f: &dyn Fn(ElementKind, &mut String)) {
     match e {
-        Element::SupportType(_) => {}
+        Element::SupportType(_) | Element::ExistingStructure(_) => {}
         Element::Post(p) => {
             if let Some(s) = &mut p.support {
                 f(ElementKind::SupportType, s);
@@ -754,7 +766,7 @@ pub fn dependants(scene: &Scene, r: &ElementRef) -> Vec<ElementRef> {
                     .map(|l| ElementRef::new(ElementKind::Load, &l.id)),
             );
         }
-        ElementKind::Brace | ElementKind::Load | ElementKind::Combination | ElementKind::Site => {}
+        ElementKind::Brace | ElementKind::ExistingStructure | ElementKind::Load | ElementKind::Combination | ElementKind::Site => {}
     }
     out
 }
@@ -778,6 +790,11 @@ fn shift(e: &mut Element, [dx, dy, dz]: [f64; 3]) {
         Element::Brace(b) => {
             b.from.level += dz;
             b.to.level += dz;
+        }
+        Element::ExistingStructure(e) => {
+            e.extent.x = (e.extent.x.0 + dx, e.extent.x.1 + dx);
+            e.extent.y = (e.extent.y.0 + dy, e.extent.y.1 + dy);
+            e.level += dz;
         }
         Element::Load(l) => match &mut l.kind {
             LoadKind::DeckPoint { x, y, .. } => {
@@ -1316,7 +1333,7 @@ mod tests {
     fn load_on_deck_follows_a_renamed_deck() {
         // common practice, no source
         let mut s = demo();
-        Edit::Add(Element::Load(Load { id: "pallet".into(), case: Case::Q, kind: LoadKind::DeckPatch { deck: "Deck-2".into(), area: crate::scene::model::Rect { x: (1.0, 2.0), y: (1.0, 2.0) }, intensity: Intensity::Kpa(5.0) } }))
+        Edit::Add(Element::Load(Load::new("pallet", Case::Q, LoadKind::DeckPatch { deck: "Deck-2".into(), area: crate::scene::model::Rect { x: (1.0, 2.0), y: (1.0, 2.0) }, intensity: Intensity::Kpa(5.0) })))
             .apply(&mut s)
             .unwrap();
         let mut d = s.decks[0].clone();

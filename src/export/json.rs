@@ -41,6 +41,7 @@ struct Doc<'a> {
     combinations: &'a [crate::Combination],
     methods: Vec<&'a str>,
     bases: Vec<Base<'a>>,
+    lifts: Vec<Lift<'a>>,
     totals: Totals,
     equilibrium: Vec<Equilibrium>,
     horizontal_loads: Vec<HorizontalLoad<'a>>,
@@ -71,6 +72,7 @@ struct Base<'a> {
     y: f64,
     base_level: f64,
     support: &'a str,
+    on_structure: Option<&'a str>,
     swl_kn: f64,
     bearing_area_m2: f64,
     allowable_kpa: f64,
@@ -84,6 +86,25 @@ struct Base<'a> {
     min_method: &'a str,
     cases_kn_by_method: Vec<MethodCases<'a>>,
     status: &'static str,
+}
+
+/// A post standing on another member: the load it passes on at its base.
+#[derive(Serialize)]
+struct Lift<'a> {
+    id: &'a str,
+    stands_on: &'a str,
+    base_level: f64,
+    swl_kn: Option<f64>,
+    cases_kn: PerCase<f64>,
+    combinations: Vec<LiftCombination<'a>>,
+    status: &'static str,
+}
+
+#[derive(Serialize)]
+struct LiftCombination<'a> {
+    name: &'a str,
+    max_kn: f64,
+    min_kn: f64,
 }
 
 #[derive(Serialize)]
@@ -146,6 +167,7 @@ pub fn analysis_json(a: &Analysis) -> String {
             y: p.y,
             base_level: p.base_level,
             support: &p.support,
+            on_structure: p.on_structure.as_deref(),
             swl_kn: p.swl_kn,
             bearing_area_m2: p.bearing_area_m2,
             allowable_kpa: p.allowable_kpa,
@@ -185,6 +207,19 @@ pub fn analysis_json(a: &Analysis) -> String {
         combinations: &a.combinations,
         methods: (0..a.method_count()).map(|m| a.method_label(m)).collect(),
         bases,
+        lifts: a
+            .lifts
+            .iter()
+            .map(|l| Lift {
+                id: &l.id,
+                stands_on: &l.stands_on,
+                base_level: l.base_level,
+                swl_kn: l.swl_kn,
+                cases_kn: PerCase::of(l.case_kn),
+                combinations: a.combinations.iter().zip(&l.combinations).map(|(c, r)| LiftCombination { name: &c.name, max_kn: r.max_kn, min_kn: r.min_kn }).collect(),
+                status: l.status.label(),
+            })
+            .collect(),
         totals: Totals {
             applied_kn: PerCase::of(a.equilibrium.map(|e| e.applied.down())),
             reactions_kn: PerCase::of(a.equilibrium.map(|e| e.reactions.force[2])),

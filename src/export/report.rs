@@ -362,6 +362,10 @@ fn glance(h: &mut String, a: &Analysis) {
     };
     let _ = writeln!(h, "<tr><td class=\"k\">Over capacity</td><td>{}</td></tr>", list(&over));
     let _ = writeln!(h, "<tr><td class=\"k\">Lifting (uplift)</td><td>{}</td></tr>", list(&uplift));
+    if !a.lifts.is_empty() {
+        let pulling: Vec<&str> = a.lifts.iter().filter(|l| !l.status.is_ok()).map(|l| l.id.as_str()).collect();
+        let _ = writeln!(h, "<tr><td class=\"k\">Posts on other members pulling up or over</td><td>{} (section 4)</td></tr>", list(&pulling));
+    }
     let st = &a.stability;
     match st.governing() {
         Some(d) => {
@@ -925,8 +929,39 @@ fn schedule(h: &mut String, a: &Analysis) {
     );
     let _ = writeln!(
         h,
-        "<p class=\"note\">Reactions upward positive; a negative minimum is uplift. Utilisation is the larger of load ÷ SWL and bearing pressure ÷ allowable, under the combination that governs (capacity-checking combinations only). The per-case totals equal the applied load of each case (section 6). The W column adds every horizontal load item, including alternatives from opposite sides, so it is an equilibrium total, not a design value: the combination columns take the worst single direction.</p></section>"
+        "<p class=\"note\">Reactions upward positive; a negative minimum is uplift. Utilisation is the larger of load ÷ SWL and bearing pressure ÷ allowable, under the combination that governs (capacity-checking combinations only). The per-case totals equal the applied load of each case (section 6). The W column adds every horizontal load item, including alternatives from opposite sides, so it is an equilibrium total, not a design value: the combination columns take the worst single direction.</p>"
     );
+    let on_structures: Vec<String> = a.plates.iter().filter_map(|p| p.on_structure.as_ref().map(|e| format!("{} on {}", esc(&p.id), esc(e)))).collect();
+    if !on_structures.is_empty() {
+        let _ = writeln!(h, "<p class=\"note\"><b>Plates on existing structures</b> — their loads are for the permanent-works designer, and bear on the plate itself against the pressure given for the structure: {}.</p>", on_structures.join(", "));
+    }
+    if !a.lifts.is_empty() {
+        let _ = write!(h, "<h3>Posts standing on other members</h3><table><thead><tr><th>Post</th><th>Stands on</th><th class=\"n\">G</th><th class=\"n\">Q</th><th class=\"n\">W</th>");
+        for c in &a.combinations {
+            let _ = write!(h, "<th class=\"n\">{} max</th><th class=\"n\">{} min</th>", esc(&c.name), esc(&c.name));
+        }
+        h.push_str("<th>Status</th></tr></thead><tbody>\n");
+        for l in &a.lifts {
+            let _ = write!(h, "<tr><td>{}</td><td>{}</td>", esc(&l.id), esc(&l.stands_on));
+            for c in Case::ALL {
+                let _ = write!(h, "<td class=\"n\">{}</td>", kn(l.case_kn[c.index()]));
+            }
+            for pc in &l.combinations {
+                let min_cls = if pc.min_kn < -crate::check::UPLIFT_TOLERANCE_KN { " bad" } else { "" };
+                let _ = write!(h, "<td class=\"n\">{}</td><td class=\"n{min_cls}\">{}</td>", kn(pc.max_kn), kn(pc.min_kn));
+            }
+            let status = if l.status.uplift {
+                "<span class=\"bad\">PULLS UP — tie down or prop</span>".to_owned()
+            } else if l.status.over {
+                "<span class=\"bad\">OVER its support's SWL</span>".to_owned()
+            } else {
+                "OK".to_owned()
+            };
+            let _ = writeln!(h, "<td>{status}</td></tr>");
+        }
+        let _ = writeln!(h, "</tbody></table><p class=\"note\">Load each post passes on at its base, downward positive. A negative minimum is tension through a splice or a post lifting off the member it stands on: it must be tied down.</p>");
+    }
+    h.push_str("</section>\n");
 }
 
 fn stability(h: &mut String, a: &Analysis) {

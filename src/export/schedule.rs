@@ -133,7 +133,7 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         ]);
     }
     w.end();
-    let mut head: Vec<String> = ["id", "x (m)", "y (m)", "base level (m)", "support", "G (kN)", "Q (kN)", "W (kN)"].map(String::from).to_vec();
+    let mut head: Vec<String> = ["id", "x (m)", "y (m)", "base level (m)", "support", "bears on", "G (kN)", "Q (kN)", "W (kN)"].map(String::from).to_vec();
     for c in &analysis.combinations {
         head.push(format!("{} max (kN)", c.name));
         head.push(format!("{} min (kN)", c.name));
@@ -151,6 +151,10 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         w.fixed(p.y, 3);
         w.fixed(p.base_level, 3);
         w.field(&p.support);
+        match &p.on_structure {
+            Some(e) => w.field(&format!("existing structure {e} (for the permanent-works designer)")),
+            None => w.field("ground"),
+        }
         for c in Case::ALL {
             w.fixed(p.case_kn[c.index()], 3);
             totals[c.index()] += p.case_kn[c.index()];
@@ -171,13 +175,38 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         w.field(p.status.label());
         w.end();
     }
-    for f in ["TOTAL", "", "", "", ""] {
+    for f in ["TOTAL", "", "", "", "", ""] {
         w.field(f);
     }
     for t in totals {
         w.fixed(t, 3);
     }
     w.end();
+    if !analysis.lifts.is_empty() {
+        w.end();
+        w.record(&["Posts standing on other members", "load passed on at the base (kN, downward positive; negative = pulls up: tension in a splice or lifting off)"]);
+        let mut head: Vec<String> = ["id", "stands on", "base level (m)", "G (kN)", "Q (kN)", "W (kN)"].map(String::from).to_vec();
+        for c in &analysis.combinations {
+            head.push(format!("{} max (kN)", c.name));
+            head.push(format!("{} min (kN)", c.name));
+        }
+        head.push("status".into());
+        w.record(&head);
+        for l in &analysis.lifts {
+            w.field(&l.id);
+            w.field(&l.stands_on);
+            w.fixed(l.base_level, 3);
+            for c in Case::ALL {
+                w.fixed(l.case_kn[c.index()], 3);
+            }
+            for pc in &l.combinations {
+                w.fixed(pc.max_kn, 3);
+                w.fixed(pc.min_kn, 3);
+            }
+            w.field(l.status.label());
+            w.end();
+        }
+    }
     w.out
 }
 

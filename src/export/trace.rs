@@ -6,22 +6,14 @@ use crate::check::analysis::Analysis;
 use crate::solve::beam::Piece;
 use crate::scene::loads::Case;
 use crate::scene::model::Scene;
-use crate::solve::Route;
+use crate::solve::{Contribution, Route};
 
 /// Words for a route, using the scene's ids.
 pub fn route_words(scene: &Scene, route: Route) -> String {
     match route {
-        Route::Bearer { bearer, piece } => {
-            let b = &scene.bearers[bearer as usize];
-            let post = |k: usize| b.posts.get(k).map(String::as_str).unwrap_or("?");
-            match piece {
-                Piece::Span(j) => format!("{} {}, span {}-{}", role(b.role), b.id, post(j as usize), post(j as usize + 1)),
-                Piece::StartOverhang => format!("{} {}, overhang before {}", role(b.role), b.id, post(0)),
-                Piece::EndOverhang => format!("{} {}, overhang after {}", role(b.role), b.id, post(b.posts.len() - 1)),
-                Piece::Single => format!("{} {} on its single post", role(b.role), b.id),
-                Piece::Continuous => format!("{} {}, continuous over {} posts", role(b.role), b.id, b.posts.len()),
-            }
-        }
+        Route::Bearer { bearer, piece } => piece_words(scene, bearer, piece),
+        Route::Lift { from } => format!("post {} above, spliced onto this one", scene.posts[from as usize].id),
+        Route::Transfer { bearer, piece, from } => format!("{} (transfer), from post {} standing on it", piece_words(scene, bearer, piece), scene.posts[from as usize].id),
         Route::PostSelfWeight => "own weight of the post".into(),
         Route::PostTop => "load on the post top".into(),
         Route::Overturning => "overturning couple on the braced base".into(),
@@ -41,6 +33,18 @@ pub fn brace_words(scene: &Scene, brace: usize) -> String {
     format!("braced bay {}–{} (brace {}, {lo:.3}–{hi:.3} m){lever}", b.from.post, b.to.post, b.id)
 }
 
+fn piece_words(scene: &Scene, bearer: u32, piece: Piece) -> String {
+    let b = &scene.bearers[bearer as usize];
+    let post = |k: usize| b.posts.get(k).map(String::as_str).unwrap_or("?");
+    match piece {
+        Piece::Span(j) => format!("{} {}, span {}-{}", role(b.role), b.id, post(j as usize), post(j as usize + 1)),
+        Piece::StartOverhang => format!("{} {}, overhang before {}", role(b.role), b.id, post(0)),
+        Piece::EndOverhang => format!("{} {}, overhang after {}", role(b.role), b.id, post(b.posts.len() - 1)),
+        Piece::Single => format!("{} {} on its single post", role(b.role), b.id),
+        Piece::Continuous => format!("{} {}, continuous over {} posts", role(b.role), b.id, b.posts.len()),
+    }
+}
+
 fn role(r: crate::scene::model::BeamRole) -> &'static str {
     match r {
         crate::scene::model::BeamRole::Bearer => "bearer",
@@ -56,6 +60,9 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
     let p = &analysis.plates[plate];
     let mut out = String::new();
     let _ = writeln!(out, "Base {} at ({:.3}, {:.3}), base level {:.3} m, support {}", p.id, p.x, p.y, p.base_level, p.support);
+    if let Some(e) = &p.on_structure {
+        let _ = writeln!(out, "  on existing structure {e}: this plate's load is for the permanent-works designer");
+    }
     let m = p.governing_method;
     let methods = analysis.method_count();
     if methods == 1 {
@@ -66,17 +73,17 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
         let _ = writeln!(out, "  method: {} ({why}; envelope of: {})", analysis.method_label(m), all.join("; "));
     }
     let solution = analysis.solution_of(m);
-    let mut shares: Vec<_> = solution.contributions.iter().filter(|c| c.plate as usize == plate).collect();
-    shares.sort_by_key(|c| (c.item, c.route));
+    let mut shares: Vec<&Contribution> = solution.contributions.iter().collect();
+    shares.sort_by_key(|c| (c.post, c.item, c.route));
     let mut totals = [0.0; 3];
     let mut last_item = u32::MAX;
-    for c in shares {
+    for c in shares.iter().filter(|c| c.post as usize == p.post) {
         let item = &solution.items[c.item as usize];
         if c.item != last_item {
             let _ = writeln!(out, "  {} ({})", item.id, item.case);
             last_item = c.item;
         }
-        let _ = writeln!(out, "    {:>10.3} kN  via {}", c.kn, route_words(scene, c.route));
+        write_share(&mut out, scene, &shares, c, 2);
         totals[item.case.index()] += c.kn;
     }
     let case_kn = p.case_kn_by_method.get(m).copied().unwrap_or(p.case_kn);
@@ -103,4 +110,24 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
         let _ = writeln!(out);
     }
     out
+}
+
+/// One share, and where a share from a post above came from in turn, indented by `depth`.
+fn write_share(out: &mut String, scene: &Scene, shares: &[&Contribution], c: &Contribution, depth: usize) {
+    let pad = "  ".repeat(depth);
+    let _ = writeln!(out, "{pad}{:>10.3} kN  via {}", c.kn, route_words(scene, c.route));
+    let from = match c.route {
+        Route::Lift { from } | Route::Transfer { from, .. } => from,
+        _ => return,
+    };
+    // The post above carries this item's load by its own shares (a transfer passes on part of it).
+    let lo = shares.partition_point(|s| (s.post, s.item) < (from, c.item));
+    let hi = shares.partition_point(|s| (s.post, s.item) <= (from, c.item));
+    if matches!(c.route, Route::Transfer { .. }) {
+        let total: f64 = shares[lo..hi].iter().map(|s| s.kn).sum();
+        let _ = writeln!(out, "{pad}    (part of the {total:.3} kN post {} passes on, which it takes:)", scene.posts[from as usize].id);
+    }
+    for s in &shares[lo..hi] {
+        write_share(out, scene, shares, s, depth + 2);
+    }
 }

@@ -24,6 +24,7 @@
 
 use crate::fxhash::FxMap as HashMap;
 use crate::scene::model::{ElementKind, Scene};
+use crate::scene::standing::StandsOn;
 use crate::scene::validate::{Axis, BearerLine, Problem, GEOMETRY_TOLERANCE_M, MIN_SPAN_M};
 
 const TOL: f64 = GEOMETRY_TOLERANCE_M;
@@ -202,8 +203,15 @@ pub struct Bracing {
     pub planes: Vec<Plane>,
     /// Diaphragms.
     pub diaphragms: Vec<Diaphragm>,
-    /// Per post, per axis (x, y): levels at which it is held, ascending.
+    /// Per post, per axis (x, y): levels at which its standard is held, ascending. A standard is
+    /// a post with the posts spliced onto it and under it; all its posts share one list.
     pub holds: Vec<[Vec<Hold>; 2]>,
+    /// Per post: the lowest post of its standard, and whether that one stands on a base plate
+    /// (its base is then the ground: pinned, it takes base shear).
+    pub standard: Vec<(u32, bool)>,
+    /// Per post: the levels its standard spans, from the base of its lowest post to the top of
+    /// its highest, m.
+    pub standard_span: Vec<(f64, f64)>,
     /// Per load: where a horizontal load is applied.
     pub placements: Vec<Placement>,
 }
@@ -344,10 +352,30 @@ pub fn analyse_bracing(
     scene: &Scene,
     post_ix: &HashMap<&str, usize>,
     bearers: &[Option<BearerLine>],
+    stands_on: Option<&[StandsOn]>,
     problems: &mut Vec<Problem>,
     warnings: &mut Vec<Problem>,
 ) -> Bracing {
     let n_posts = scene.posts.len();
+    // Standards: posts spliced onto each other, down to the lowest one.
+    let standard: Vec<(u32, bool)> = (0..n_posts)
+        .map(|p| {
+            let Some(on) = stands_on else { return (p as u32, true) };
+            let mut q = p;
+            for _ in 0..n_posts {
+                match on[q] {
+                    StandsOn::Post(r) => q = r,
+                    s => return (q as u32, s.is_plate()),
+                }
+            }
+            (q as u32, false)
+        })
+        .collect();
+    let mut top_of: Vec<f64> = scene.posts.iter().map(|p| p.top_level).collect();
+    for (p, &(low, _)) in standard.iter().enumerate() {
+        top_of[low as usize] = top_of[low as usize].max(scene.posts[p].top_level);
+    }
+    let standard_span: Vec<(f64, f64)> = standard.iter().map(|&(low, _)| (scene.posts[low as usize].base_level, top_of[low as usize])).collect();
     let err = |problems: &mut Vec<Problem>, id: &str, message: String| problems.push(Problem { kind: ElementKind::Brace, id: id.to_owned(), message });
     let pos = |p: usize| (scene.posts[p].x, scene.posts[p].y);
     let post_ok = |p: usize| {
@@ -540,7 +568,11 @@ pub fn analyse_bracing(
     // Plane of each post on each axis, and its index in the plane.
     let mut plane_of: [Vec<(u32, u32)>; 2] = [vec![(u32::MAX, 0); n_posts], vec![(u32::MAX, 0); n_posts]];
     let mut planes: Vec<Plane> = Vec::new();
-    let ground = |p: u32, z: f64| (z - scene.posts[p as usize].base_level).abs() <= TOL;
+    // The ground: the base of a standard's lowest post, on a base plate.
+    let ground = |p: u32, z: f64| {
+        let (low, plate) = standard[p as usize];
+        plate && (z - scene.posts[low as usize].base_level).abs() <= TOL
+    };
     for (li, line) in lines.iter().enumerate() {
         let axis = line.axis;
         let group = &verticals[line.braces.clone()];
@@ -728,14 +760,35 @@ pub fn analyse_bracing(
             }
         }
     }
+    // All the posts of a standard share its holds.
+    if standard.iter().enumerate().any(|(p, s)| s.0 as usize != p) {
+        let mut merged: Vec<[Vec<Hold>; 2]> = vec![[Vec::new(), Vec::new()]; n_posts];
+        for (p, &(low, _)) in standard.iter().enumerate() {
+            for axis in 0..2 {
+                let list = std::mem::take(&mut holds[p][axis]);
+                merged[low as usize][axis].extend(list);
+            }
+        }
+        for (p, &(low, _)) in standard.iter().enumerate() {
+            if low as usize != p {
+                holds[p] = merged[low as usize].clone();
+            }
+        }
+        for (p, &(low, _)) in standard.iter().enumerate() {
+            if low as usize == p {
+                holds[p] = std::mem::take(&mut merged[p]);
+            }
+        }
+    }
     for list in holds.iter_mut().flatten() {
         list.sort_by(|a, b| a.level.total_cmp(&b.level));
+        list.dedup_by(|a, b| (a.level - b.level).abs() <= TOL);
     }
     for d in &mut diaphragms {
         d.planes.sort_unstable();
         d.planes.dedup();
     }
-    Bracing { roles, planes, diaphragms, holds, placements: Vec::new() }
+    Bracing { roles, planes, diaphragms, holds, standard, standard_span, placements: Vec::new() }
 }
 
 /// Merge the rigid parts of each level into diaphragms: parts that share two or more posts are
@@ -856,7 +909,8 @@ pub fn place_loads(scene: &Scene, bracing: &mut Bracing, problems: &mut Vec<Prob
                             let (rx, ry) = (p.x - face.from.0, p.y - face.from.1);
                             let s = rx * ux + ry * uy;
                             let off = (rx * uy - ry * ux).abs();
-                            (off <= TOL && s >= -TOL && s <= length + TOL && p.base_level < face.top - TOL && p.top_level > face.bottom + TOL).then_some((i as u32, s))
+                            let (base, top) = bracing.standard_span[i];
+                            (off <= TOL && s >= -TOL && s <= length + TOL && base < face.top - TOL && top > face.bottom + TOL).then_some((i as u32, s))
                         })
                         .collect();
                     posts.sort_by(|a, b| a.1.total_cmp(&b.1));
@@ -866,8 +920,8 @@ pub fn place_loads(scene: &Scene, bracing: &mut Bracing, problems: &mut Vec<Prob
                     let short: Vec<&str> = posts
                         .iter()
                         .filter(|&&(p, _)| {
-                            let q = &scene.posts[p as usize];
-                            q.base_level > face.bottom + TOL || q.top_level < face.top - TOL
+                            let (base, top) = bracing.standard_span[p as usize];
+                            base > face.bottom + TOL || top < face.top - TOL
                         })
                         .map(|&(p, _)| scene.posts[p as usize].id.as_str())
                         .collect();

@@ -165,7 +165,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 diaphragm: false,
             });
             if let Some(class) = spec.load_class {
-                scene.loads.push(Load { id: format!("{p}Q-{id}"), case: Case::Q, kind: LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) } });
+                scene.loads.push(Load::new(format!("{p}Q-{id}"), Case::Q, LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) }));
             }
         }
     }

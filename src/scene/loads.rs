@@ -48,6 +48,52 @@ pub struct Load {
     pub case: Case,
     /// What and where.
     pub kind: LoadKind,
+    /// For an imposed (Q) load spread over a deck or along a bearer: whether it is placed in its
+    /// worst arrangement at every plate (the default) or always acts whole. Permanent and
+    /// horizontal loads always act whole.
+    #[serde(default)]
+    pub arrangement: Arrangement,
+}
+
+impl Load {
+    /// A load, arranged if it is an imposed load that can be.
+    pub fn new(id: impl Into<String>, case: Case, kind: LoadKind) -> Self {
+        Load { id: id.into(), case, kind, arrangement: Arrangement::default() }
+    }
+
+    /// Whether the load is placed in its worst arrangement: an imposed load spread over a deck
+    /// (area, patch) or along a bearer (line), not marked whole.
+    pub fn is_arranged(&self) -> bool {
+        self.case == Case::Q
+            && self.arrangement == Arrangement::Arranged
+            && matches!(self.kind, LoadKind::DeckArea { .. } | LoadKind::DeckPatch { .. } | LoadKind::BearerLine { .. })
+    }
+}
+
+/// How a variable load spread over an area or a length is placed.
+///
+/// An imposed load need not be present everywhere at once: each part of it may be there or not.
+/// Arranged, it is split into cells — each deck strip between two bearers × each bearer span, each
+/// cantilever or overhang part separately — and at every plate each cell counts for the maximum
+/// only where it pushes that plate down and for the minimum only where it lifts it (a free
+/// variable action, EN 1991-1-1 6.2.1, from memory).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+pub enum Arrangement {
+    /// Placed in its worst arrangement at every plate.
+    #[default]
+    Arranged,
+    /// Always present over its whole area or length at once (e.g. a pour taken as one block).
+    Whole,
+}
+
+impl Arrangement {
+    /// Words for outputs.
+    pub fn label(self) -> &'static str {
+        match self {
+            Arrangement::Arranged => "arranged (worst cells at each plate)",
+            Arrangement::Whole => "whole (always everywhere at once)",
+        }
+    }
 }
 
 /// Intensity of an area load.

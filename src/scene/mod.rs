@@ -8,6 +8,8 @@
 //! - [`validate`](mod@validate): every problem at once, with element ids; resolves ids to indices and
 //!   sets up the member lines the solver works on ([`Model`]).
 //! - [`bracing`]: what the braces make — braced planes, diaphragms, and where each post is held.
+//! - [`standing`]: what each post stands on (ground, existing structure, a post below, a bearer,
+//!   a deck) and the top-down order loads flow in.
 //! - [`layout`]: the generator of regular scaffolds and birdcages.
 //! - [`demo`]: the built-in demo scenes.
 
@@ -19,6 +21,7 @@ pub mod io;
 pub mod layout;
 pub mod loads;
 pub mod model;
+pub mod standing;
 pub mod validate;
 
 pub use combination::{Combination, Factors};

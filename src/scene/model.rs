@@ -29,7 +29,8 @@ pub struct Scene {
     /// Kinds of base support (base plate + jack, optional sole plate).
     #[serde(default)]
     pub support_types: Vec<SupportType>,
-    /// Standards (posts), each on one base plate.
+    /// Standards (posts). Each stands on a base plate on the ground or an existing structure, or
+    /// on another post (a lift), a bearer or a deck; see [`crate::scene::standing`].
     #[serde(default)]
     pub posts: Vec<Post>,
     /// Horizontal members resting on posts: bearers, ledgers, transoms.
@@ -41,6 +42,9 @@ pub struct Scene {
     /// Braces between post nodes; they declare which plan directions are braced.
     #[serde(default)]
     pub braces: Vec<Brace>,
+    /// Existing structures of the permanent works (slabs, podium decks) that posts may stand on.
+    #[serde(default)]
+    pub existing_structures: Vec<ExistingStructure>,
     /// Applied loads, each tagged with a load case.
     #[serde(default)]
     pub loads: Vec<Load>,
@@ -155,7 +159,8 @@ impl SupportType {
     }
 }
 
-/// A standard (post) standing on one base plate.
+/// A standard (post), or one lift of a standard: it stands on a base plate, another post, a bearer
+/// or a deck (see [`crate::scene::standing`]).
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Post {
@@ -165,11 +170,12 @@ pub struct Post {
     pub x: f64,
     /// Plan position, m.
     pub y: f64,
-    /// Level of the base plate, m.
+    /// Level of its base (the base plate, or the top of what it stands on), m.
     pub base_level: f64,
     /// Level of the top of the post, m.
     pub top_level: f64,
-    /// Id of its support type.
+    /// Id of its support type: needed where the post has a base plate; optional on a post that
+    /// stands on another member (then its safe working load is still checked).
     #[serde(default)]
     pub support: Option<String>,
     /// Self-weight, kN/m. Default: 48.3 × 4.0 steel tube.
@@ -244,6 +250,25 @@ pub struct Deck {
 
 fn is_false(b: &bool) -> bool {
     !*b
+}
+
+/// A structure of the permanent works that base plates stand on, such as an existing slab. Its
+/// plate loads are scheduled for the permanent-works designer; the ground check does not apply.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ExistingStructure {
+    /// Id.
+    pub id: String,
+    /// What it is, in words (e.g. "ground-floor slab, 250 mm").
+    #[serde(default)]
+    pub description: String,
+    /// Level of its top surface, m. Posts whose base is at this level within its extent stand on it.
+    pub level: f64,
+    /// Plan extent, m.
+    pub extent: Rect,
+    /// Allowable bearing pressure under a base plate (or sole plate) on it, kPa, as given by the
+    /// permanent-works designer.
+    pub allowable_kpa: f64,
 }
 
 /// A point on a post at a level: one end of a brace.
@@ -486,6 +511,7 @@ impl Scene {
             bearers: Vec::new(),
             decks: Vec::new(),
             braces: Vec::new(),
+            existing_structures: Vec::new(),
             loads: Vec::new(),
             combinations: Combination::defaults(),
             stability: StabilitySettings::default(),
@@ -504,6 +530,7 @@ impl Scene {
             .chain(tag(ElementKind::Bearer, self.bearers.iter().map(|e| &e.id)))
             .chain(tag(ElementKind::Deck, self.decks.iter().map(|e| &e.id)))
             .chain(tag(ElementKind::Brace, self.braces.iter().map(|e| &e.id)))
+            .chain(tag(ElementKind::ExistingStructure, self.existing_structures.iter().map(|e| &e.id)))
             .chain(tag(ElementKind::Load, self.loads.iter().map(|e| &e.id)))
     }
 }
@@ -521,6 +548,8 @@ pub enum ElementKind {
     Deck,
     /// A [`Brace`].
     Brace,
+    /// An [`ExistingStructure`].
+    ExistingStructure,
     /// A [`Load`].
     Load,
     /// A [`Combination`].
@@ -537,6 +566,7 @@ impl std::fmt::Display for ElementKind {
             ElementKind::Bearer => "bearer",
             ElementKind::Deck => "deck",
             ElementKind::Brace => "brace",
+            ElementKind::ExistingStructure => "existing structure",
             ElementKind::Load => "load",
             ElementKind::Combination => "combination",
             ElementKind::Site => "site",

@@ -7,6 +7,7 @@ use std::fmt;
 use crate::scene::bracing::{analyse_bracing, place_loads, Bracing};
 use crate::scene::loads::{Intensity, LoadKind};
 use crate::scene::model::{ElementKind, Scene};
+use crate::scene::standing::{self, LoadPathGraph};
 
 /// Plan and level tolerance for "the same place", m.
 pub const GEOMETRY_TOLERANCE_M: f64 = 1e-3;
@@ -167,8 +168,10 @@ pub struct Braced {
 pub struct Model<'s> {
     /// The scene this was made from.
     pub scene: &'s Scene,
-    /// Support type index of each post.
-    pub post_support: Vec<usize>,
+    /// Support type index of each post (`None` for a post standing on another member without one).
+    pub post_support: Vec<Option<usize>>,
+    /// What each post stands on, and the top-down order of the members.
+    pub graph: LoadPathGraph,
     /// Line of each bearer.
     pub bearers: Vec<BearerLine>,
     /// Span line of each deck.
@@ -268,28 +271,74 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
     let post_support = check_posts(&mut c, &support_ix);
     let bearers = check_bearers(&mut c, &post_ix);
     let decks = check_decks(&mut c, &bearer_ix, &bearers);
+    check_existing_structures(&mut c);
+    let graph = load_path_graph(&mut c, &bearers, &decks);
     check_braces(&mut c, &post_ix);
     let load_targets = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers);
     check_combinations(&mut c);
-    let mut bracing = analyse_bracing(scene, &post_ix, &bearers, &mut c.problems, &mut c.warnings);
+    let mut bracing = analyse_bracing(scene, &post_ix, &bearers, graph.as_ref().map(|g| g.stands_on.as_slice()), &mut c.problems, &mut c.warnings);
     place_loads(scene, &mut bracing, &mut c.problems);
     let braced = Braced { x: bracing.braced_along(Axis::X), y: bracing.braced_along(Axis::Y) };
 
-    if c.problems.is_empty() {
-        Ok(Model {
+    match graph {
+        Some(graph) if c.problems.is_empty() => Ok(Model {
             scene,
-            post_support: post_support.into_iter().map(|s| s.unwrap_or(0)).collect(),
+            post_support,
+            graph,
             bearers: bearers.into_iter().map(|b| b.expect("checked")).collect(),
             decks: decks.into_iter().map(|d| d.expect("checked")).collect(),
             load_targets,
             braced,
             bracing,
             warnings: c.warnings,
-        })
-    } else {
-        Err(ValidationError { problems: c.problems })
+        }),
+        _ => Err(ValidationError { problems: c.problems }),
     }
 }
+
+/// Check the declared existing structures of the permanent works.
+fn check_existing_structures(c: &mut Checker) {
+    use ElementKind as K;
+    for e in &c.scene.existing_structures {
+        let id = e.id.as_str();
+        c.number(K::ExistingStructure, id, "level (m)", e.level, LIMIT_M);
+        let r = e.extent;
+        let mut ok = true;
+        for (what, v) in [("extent x min", r.x.0), ("extent x max", r.x.1), ("extent y min", r.y.0), ("extent y max", r.y.1)] {
+            ok &= c.number(K::ExistingStructure, id, what, v, LIMIT_M);
+        }
+        if ok && (r.x.1 - r.x.0 < MIN_SPAN_M || r.y.1 - r.y.0 < MIN_SPAN_M) {
+            c.err(K::ExistingStructure, id, format!("extent x {:?}, y {:?} must have max above min in both directions", r.x, r.y));
+        }
+        c.at_least(K::ExistingStructure, id, "allowable bearing pressure (kPa)", e.allowable_kpa, MIN_CAPACITY, LIMIT_KN);
+    }
+}
+
+/// Work out what every post stands on; a post with a base plate needs a support type.
+fn load_path_graph(c: &mut Checker, bearers: &[Option<BearerLine>], decks: &[Option<DeckLine>]) -> Option<LoadPathGraph> {
+    let scene = c.scene;
+    let usable = |v: f64| v.is_finite() && v.abs() <= LIMIT_M;
+    if scene.posts.iter().any(|p| !(usable(p.x) && usable(p.y) && usable(p.base_level) && usable(p.top_level))) {
+        // Reported by the post checks; without numbers there is nothing to stand on. Every post
+        // without a support type is then taken to need one.
+        for p in scene.posts.iter().filter(|p| p.support.is_none()) {
+            c.err(ElementKind::Post, &p.id, NO_SUPPORT_TYPE);
+        }
+        return None;
+    }
+    let (graph, problems, warnings, stands_on) = standing::resolve(scene, bearers, decks);
+    c.problems.extend(problems);
+    c.warnings.extend(warnings);
+    for (p, s) in scene.posts.iter().zip(&stands_on) {
+        if s.is_plate() && p.support.is_none() {
+            c.err(ElementKind::Post, &p.id, NO_SUPPORT_TYPE);
+        }
+    }
+    graph
+}
+
+/// A post with a base plate and no support type.
+const NO_SUPPORT_TYPE: &str = "has no support type: its base plate needs one (jack, plate and safe working load)";
 
 fn check_site(c: &mut Checker) {
     use ElementKind as K;
@@ -358,10 +407,7 @@ fn check_posts(c: &mut Checker, support_ix: &HashMap<&str, usize>) -> Vec<Option
             c.err(K::Post, &p.id, format!("top level {} must be above base level {}", p.top_level, p.base_level));
         }
         let support = match &p.support {
-            None => {
-                c.err(K::Post, &p.id, "has no support type");
-                None
-            }
+            None => None,
             Some(s) => match support_ix.get(s.as_str()) {
                 Some(&ix) => Some(ix),
                 None => {

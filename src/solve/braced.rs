@@ -24,8 +24,9 @@
 //! two crossed diagonals of one bay take half each). A diagonal with run b and rise h carrying
 //! shear V puts +V·h/b into the post at its upper end and −V·h/b into the post at its lower end
 //! (the vertical components of its force); the shear passes to its lower end, and from the ground
-//! lift into that post's plate. Every vertical component is a force at a post node, carried to
-//! the plates by [`carry_down`].
+//! lift into that post's plate. Every vertical component is a force at a post node; it enters
+//! the post there and flows down to the plates through splices and transfer members like any
+//! other load ([`route_item`]).
 
 use nalgebra::{Matrix3, Vector3};
 
@@ -34,12 +35,6 @@ use crate::scene::validate::{Axis, Model, GEOMETRY_TOLERANCE_M};
 use crate::solve::beam::{share_simple, BeamLoad};
 
 const TOL: f64 = GEOMETRY_TOLERANCE_M;
-
-/// Carry a vertical force (kN, upward reaction positive) at a post node down to the base plates.
-/// Today every post stands on its own plate; this is the one place a force at a node is routed.
-pub fn carry_down(_model: &Model, post: u32, _level: f64, kn: f64, sink: &mut impl FnMut(u32, f64)) {
-    sink(post, kn);
-}
 
 /// Diaphragm sharing prepared once.
 #[derive(Debug, Clone)]
@@ -122,6 +117,18 @@ pub enum PathFailure {
         level: f64,
         /// Highest hold, m.
         top: f64,
+    },
+    /// Load on a post below the lowest level at which it is held, where it does not stand on the
+    /// ground (it stands on a transfer bearer or deck, which holds nothing horizontally).
+    BelowBottom {
+        /// Post index.
+        post: u32,
+        /// 0 = x, 1 = y.
+        axis: usize,
+        /// Lowest load level, m.
+        level: f64,
+        /// Lowest hold, m.
+        bottom: f64,
     },
     /// A diaphragm whose braced planes cannot take what it carries.
     Diaphragm {
@@ -233,25 +240,29 @@ impl<'m, 's> Network<'m, 's> {
     }
 
     /// A load on post `post` along its height — `load` gives positions as levels and its
-    /// magnitude along the plan direction `dir` (a unit vector or any multiple of one).
+    /// magnitude along the plan direction `dir` (a unit vector or any multiple of one). The post's
+    /// standard spans between the levels where it is held, and from its base if that is the ground.
     pub fn post_load(&self, acc: &mut Acc, fails: &mut Vec<PathFailure>, post: u32, load: BeamLoad, dir: [f64; 2]) {
+        let bracing = &self.model.bracing;
         let p = &self.model.scene.posts[post as usize];
+        let (low, grounded) = bracing.standard[post as usize];
+        let base = self.model.scene.posts[low as usize].base_level;
         let mut supports = std::mem::take(&mut acc.supports);
         for axis in 0..2 {
             let c = dir[axis];
             if c == 0.0 || load.total() == 0.0 {
                 continue;
             }
-            let holds = &self.model.bracing.holds[post as usize][axis];
-            let top_of_load = match load {
-                BeamLoad::Point { at, .. } => at,
-                BeamLoad::Uniform { to, .. } => to,
+            let holds = &bracing.holds[post as usize][axis];
+            let (bottom_of_load, top_of_load) = match load {
+                BeamLoad::Point { at, .. } => (at, at),
+                BeamLoad::Uniform { from, to, .. } => (from, to),
             };
             let Some(top) = holds.last().map(|h| h.level) else {
-                if top_of_load > p.base_level + TOL {
-                    fails.push(PathFailure::NotHeld { post, axis });
+                if grounded && top_of_load <= base + TOL {
+                    acc.base[low as usize][axis] += c * load.total();
                 } else {
-                    acc.base[post as usize][axis] += c * load.total();
+                    fails.push(PathFailure::NotHeld { post, axis });
                 }
                 continue;
             };
@@ -259,21 +270,28 @@ impl<'m, 's> Network<'m, 's> {
                 fails.push(PathFailure::AboveTop { post, axis, level: top_of_load, top });
                 continue;
             }
-            // Supports: the base, then each hold (a handful per post).
+            if !grounded && bottom_of_load < holds[0].level - TOL {
+                fails.push(PathFailure::BelowBottom { post, axis, level: bottom_of_load, bottom: holds[0].level });
+                continue;
+            }
+            // Supports: the base (when it is the ground), then each hold (a handful per post).
             supports.clear();
-            supports.push(p.base_level.min(holds[0].level - crate::scene::validate::MIN_SPAN_M));
+            if grounded {
+                supports.push(base.min(holds[0].level - crate::scene::validate::MIN_SPAN_M));
+            }
             supports.extend(holds.iter().map(|h| h.level));
-            let n = supports.len();
+            let first = if grounded { 1 } else { 0 };
+            let lowest = supports[0];
             let scaled = match load {
-                BeamLoad::Point { at, p: f } => BeamLoad::Point { at: at.clamp(supports[0], top), p: c * f },
-                BeamLoad::Uniform { from, to, w } => BeamLoad::Uniform { from: from.max(supports[0]), to: to.min(top), w: c * w },
+                BeamLoad::Point { at, p: f } => BeamLoad::Point { at: at.clamp(lowest, top), p: c * f },
+                BeamLoad::Uniform { from, to, w } => BeamLoad::Uniform { from: from.max(lowest), to: to.min(top), w: c * w },
             };
             let (x, y) = (p.x, p.y);
-            share_simple(&supports[..n], &scaled, &mut |k, _, r| {
-                if k == 0 {
-                    acc.base[post as usize][axis] += r;
+            share_simple(&supports, &scaled, &mut |k, _, r| {
+                if k < first {
+                    acc.base[low as usize][axis] += r;
                 } else {
-                    match holds[k - 1].by {
+                    match holds[k - first].by {
                         Holder::Plane { plane, level } => acc.plane[self.plane_first[plane as usize] + level as usize] += r,
                         Holder::Diaphragm(d) => {
                             let f = if axis == 0 { [r, 0.0] } else { [0.0, r] };
@@ -482,6 +500,20 @@ pub fn describe_failures(model: &Model, fails: &[PathFailure]) -> Vec<String> {
             ));
         }
     }
+    let mut below: Vec<(u32, usize, f64, f64)> = fails.iter().filter_map(|f| if let PathFailure::BelowBottom { post, axis, level, bottom } = f { Some((*post, *axis, *level, *bottom)) } else { None }).collect();
+    below.sort_by(|a, b| a.0.cmp(&b.0).then(a.1.cmp(&b.1)));
+    below.dedup_by_key(|e| (e.0, e.1));
+    if let Some(&(p, axis, level, bottom)) = below.first() {
+        let (low, _) = bracing.standard[p as usize];
+        out.push(format!(
+            "acts along {} on post{} {} down to {level:.3} m, below the lowest level at which {} is held ({bottom:.3} m): post {} does not stand on the ground but on another member, which holds nothing horizontally here; brace it down to the ground or hold its base",
+            axis_name(axis),
+            if below.len() == 1 { "" } else { "s" },
+            list_ids(below.iter().map(|e| id(e.0)), 6),
+            id(p),
+            id(low)
+        ));
+    }
     for f in fails {
         if let PathFailure::Diaphragm { diaphragm, load } = f {
             let d = &bracing.diaphragms[*diaphragm as usize];
@@ -559,7 +591,9 @@ fn responses(net: &Network, nodes: &NodeLoads) -> Responses {
 
 use crate::scene::loads::{Case, LoadKind, PlanDirection};
 use crate::scene::model::NotionalRule;
-use crate::solve::items::{Action, Alternative, Contribution, Item, Resultant, Route};
+use crate::scene::bracing::Placement;
+use crate::solve::items::{Action, Alternative, Item, Resultant, Route};
+use crate::solve::load_path::Solver;
 
 /// Resultant of the forces a horizontal load applies, from its own definition. A notional load
 /// takes `percent` of the vertical load of `basis` at every node where that load enters a post.
@@ -624,19 +658,40 @@ pub fn direction_name(d: PlanDirection) -> String {
 /// One horizontal load that cannot reach the ground: its id and the reasons.
 pub type PathProblem = (String, Vec<String>);
 
+/// A horizontal load item carried down the bracing, before its brace forces are routed to the
+/// plates ([`route_item`]).
+#[derive(Debug, Clone)]
+pub struct HorizontalItem {
+    /// Index of the scene's load, or `None` for a generated notional load.
+    pub slot: Option<usize>,
+    /// Load id.
+    pub id: String,
+    /// Load case.
+    pub case: Case,
+    /// Resultant of the applied load.
+    pub applied: Resultant,
+    /// Plan direction (unit x, y).
+    pub direction: [f64; 2],
+    /// How it combines with the others.
+    pub action: Action,
+    /// How a generated item was made.
+    pub note: String,
+    /// Its reactions: one set, or two (lever rule, rigid diaphragm).
+    pub sets: Vec<Reactions>,
+    /// For a notional load on permanent and variable load: the same for the permanent part.
+    pub permanent: Option<Vec<Reactions>>,
+}
+
 /// Carry every horizontal load of the scene down the bracing, and generate the notional load of
-/// the scene's rule. Items of the scene's own horizontal loads fill their slots in `items`
-/// (self-weight first, then the scene's loads in order); generated items are returned. Brace
-/// vertical components are added to `contributions`, tagged with their item index.
-pub fn horizontal_items(model: &Model, nodes: &NodeLoads, items: &mut [Option<Item>], contributions: &mut Vec<Contribution>) -> Result<Vec<Item>, Vec<PathProblem>> {
+/// the scene's rule (after the scene's own loads, in checked-direction order).
+pub fn horizontal_items(model: &Model, nodes: &NodeLoads) -> Result<Vec<HorizontalItem>, Vec<PathProblem>> {
     let scene = model.scene;
     let net = Network::new(model);
     let mut problems: Vec<PathProblem> = Vec::new();
-    let mut resp: Option<Responses> = None;
-    let needs_notional = scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. })) || scene.horizontal.notional != NotionalRule::Off;
-    if needs_notional {
-        resp = Some(responses(&net, nodes));
-    }
+    let mut out: Vec<HorizontalItem> = Vec::new();
+    let own_notional = scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. }));
+    let rule = scene.horizontal.notional;
+    let resp = (own_notional || rule != NotionalRule::Off).then(|| responses(&net, nodes));
     let notional_acc = |resp: &Responses, percent: f64, direction: PlanDirection, basis: &[Case], fails: &mut Vec<PathFailure>| {
         let (ux, uy) = direction.unit();
         let u = [ux, uy];
@@ -655,11 +710,25 @@ pub fn horizontal_items(model: &Model, nodes: &NodeLoads, items: &mut [Option<It
         }
         acc
     };
+    #[allow(clippy::too_many_arguments)]
+    let mut finish = |slot: Option<usize>, id: String, label: String, case: Case, kind: &LoadKind, action: Action, note: String, acc: &Acc, permanent: Option<&Acc>, mut fails: Vec<PathFailure>| {
+        let sets = net.finish(acc, &mut fails);
+        let permanent = permanent.map(|p| net.finish(p, &mut Vec::new()));
+        if !fails.is_empty() {
+            problems.push((label, net.describe(&fails)));
+            return;
+        }
+        let direction = match kind {
+            LoadKind::Horizontal { direction, .. } | LoadKind::Wind { direction, .. } | LoadKind::Notional { direction, .. } => direction.unit(),
+            _ => unreachable!("only horizontal loads"),
+        };
+        let applied = applied_resultant(kind, &nodes.moments, None);
+        out.push(HorizontalItem { slot, id, case, applied, direction: [direction.0, direction.1], action, note, sets, permanent });
+    };
     for (k, load) in scene.loads.iter().enumerate() {
         if !load.kind.is_horizontal() {
             continue;
         }
-        let item_ix = (k + 1) as u32;
         let mut fails = Vec::new();
         let mut acc = net.acc();
         let mut permanent = None;
@@ -667,8 +736,8 @@ pub fn horizontal_items(model: &Model, nodes: &NodeLoads, items: &mut [Option<It
             LoadKind::Horizontal { x, y, level, kn, direction } => {
                 let (ux, uy) = direction.unit();
                 match model.bracing.placements.get(k) {
-                    Some(crate::scene::bracing::Placement::Post(p)) => net.post_load(&mut acc, &mut fails, *p, BeamLoad::Point { at: *level, p: *kn }, [ux, uy]),
-                    Some(crate::scene::bracing::Placement::Diaphragm(d)) => net.diaphragm_load(&mut acc, *d, *x, *y, [kn * ux, kn * uy]),
+                    Some(Placement::Post(p)) => net.post_load(&mut acc, &mut fails, *p, BeamLoad::Point { at: *level, p: *kn }, [ux, uy]),
+                    Some(Placement::Diaphragm(d)) => net.diaphragm_load(&mut acc, *d, *x, *y, [kn * ux, kn * uy]),
                     _ => unreachable!("validation places every horizontal force"),
                 }
                 Action::Identified
@@ -676,7 +745,7 @@ pub fn horizontal_items(model: &Model, nodes: &NodeLoads, items: &mut [Option<It
             LoadKind::Wind { face, kpa, direction } => {
                 let (ux, uy) = direction.unit();
                 let f = wind_force(face, *kpa, *direction);
-                if let Some(crate::scene::bracing::Placement::Face { posts, length }) = model.bracing.placements.get(k) {
+                if let Some(Placement::Face { posts, length }) = model.bracing.placements.get(k) {
                     let along: Vec<f64> = posts.iter().map(|p| p.1).collect();
                     let height = face.top - face.bottom;
                     share_simple(&along, &BeamLoad::Uniform { from: 0.0, to: *length, w: f / length }, &mut |j, _, r| {
@@ -695,37 +764,10 @@ pub fn horizontal_items(model: &Model, nodes: &NodeLoads, items: &mut [Option<It
             }
             _ => unreachable!("only horizontal loads"),
         };
-        let applied = applied_resultant(&load.kind, &nodes.moments, None);
-        match finish_item(model, &net, item_ix, &acc, permanent.as_ref(), &mut fails, contributions) {
-            Some((vertical, shear, permanent_basis, alternative)) => {
-                let direction = match &load.kind {
-                    LoadKind::Horizontal { direction, .. } | LoadKind::Wind { direction, .. } | LoadKind::Notional { direction, .. } => {
-                        let (x, y) = direction.unit();
-                        Some([x, y])
-                    }
-                    _ => None,
-                };
-                items[k + 1] = Some(Item {
-                    id: load.id.clone(),
-                    case: load.case,
-                    applied,
-                    vertical,
-                    shear,
-                    direction,
-                    vertical_permanent_basis: permanent_basis,
-                    action,
-                    alternative,
-                    note: String::new(),
-                });
-            }
-            None => problems.push((load.id.clone(), net.describe(&fails))),
-        }
+        finish(Some(k), load.id.clone(), load.id.clone(), load.case, &load.kind, action, String::new(), &acc, permanent.as_ref(), fails);
     }
 
     // The notional load of the scene's rule, unless the scene gives its own.
-    let mut generated = Vec::new();
-    let own_notional = scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. }));
-    let rule = scene.horizontal.notional;
     let v = nodes.moments[Case::G.index()][0] + nodes.moments[Case::Q.index()][0];
     if let (false, Some(resp), true) = (own_notional, resp.as_ref(), v > 0.0) {
         let mut directions: Vec<PlanDirection> = Vec::new();
@@ -769,28 +811,11 @@ pub fn horizontal_items(model: &Model, nodes: &NodeLoads, items: &mut [Option<It
             let acc = notional_acc(resp, percent, d, &basis, &mut fails);
             let permanent = notional_acc(resp, percent, d, &[Case::G], &mut Vec::new());
             let kind = LoadKind::Notional { percent, direction: d, basis: basis.to_vec() };
-            let item_ix = (items.len() + generated.len()) as u32;
-            match finish_item(model, &net, item_ix, &acc, Some(&permanent), &mut fails, contributions) {
-                Some((vertical, shear, permanent_basis, alternative)) => {
-                    let (x, y) = d.unit();
-                    generated.push(Item {
-                        id,
-                        case: Case::W,
-                        applied: applied_resultant(&kind, &nodes.moments, None),
-                        vertical,
-                        shear,
-                        direction: Some([x, y]),
-                        vertical_permanent_basis: permanent_basis,
-                        action: Action::Notional,
-                        alternative,
-                        note,
-                    });
-                }
-                None => problems.push((format!("{id} (generated: {})", rule.describe()), net.describe(&fails))),
-            }
+            let label = format!("{id} (generated: {})", rule.describe());
+            finish(None, id, label, Case::W, &kind, Action::Notional, note, &acc, Some(&permanent), fails);
         }
     }
-    if problems.is_empty() { Ok(generated) } else { Err(problems) }
+    if problems.is_empty() { Ok(out) } else { Err(problems) }
 }
 
 /// Percentage of the vertical load the falsework rule asks for at least.
@@ -801,39 +826,44 @@ pub const FALSEWORK_PERCENT: f64 = 2.5;
 // + 1 % of the vertical load (REFERENCES §4); its place in BS 5975:2008 is from memory.
 pub const IDENTIFIED_PLUS_PERCENT: f64 = 1.0;
 
-type Finished = (Vec<(u32, f64)>, Vec<(u32, [f64; 2])>, Option<Vec<(u32, f64)>>, Option<Box<Alternative>>);
-
-/// Solve an item's accumulation; its primary reactions, the permanent-basis part, and the
-/// alternative diaphragm assumption if it differs. `None` (with `fails` filled) if any part of the
-/// load cannot reach the ground.
-fn finish_item(model: &Model, net: &Network, item: u32, acc: &Acc, permanent: Option<&Acc>, fails: &mut Vec<PathFailure>, contributions: &mut Vec<Contribution>) -> Option<Finished> {
-    let sets = net.finish(acc, fails);
-    let permanent_sets = permanent.map(|p| net.finish(p, &mut Vec::new()));
-    if !fails.is_empty() {
-        return None;
-    }
-    let vertical_of = |r: &Reactions| {
-        let mut v: Vec<(u32, f64)> = Vec::with_capacity(r.brace.len());
-        for &(post, level, kn, _) in &r.brace {
-            carry_down(model, post, level, kn, &mut |plate, kn| v.push((plate, kn)));
+/// Route the brace forces of a horizontal item to the plates: each vertical component enters its
+/// post at its node and flows down through splices and transfer members like any other load. The
+/// primary reactions are traced; the alternative and the permanent part are not.
+pub(super) fn route_item(s: &mut Solver, item: u32, h: HorizontalItem) -> Item {
+    let flow = |s: &mut Solver, r: &Reactions, record: bool| {
+        let was = s.record;
+        s.record = record;
+        for &(post, _level, kn, brace) in &r.brace {
+            s.post_direct(item, post as usize, kn, Route::Brace { brace }, Case::W);
         }
-        v.sort_by_key(|e| e.0);
-        let mut out: Vec<(u32, f64)> = Vec::with_capacity(v.len());
-        for (p, kn) in v {
-            match out.last_mut() {
-                Some(last) if last.0 == p => last.1 += kn,
-                _ => out.push((p, kn)),
-            }
-        }
-        out
+        s.flow(item, Case::W);
+        let t = s.take_item(Item::new(String::new(), Case::W, Resultant::default()));
+        s.record = was;
+        (t.vertical, t.internal)
     };
-    for &(post, level, kn, brace) in &sets[0].brace {
-        carry_down(model, post, level, kn, &mut |plate, kn| contributions.push(Contribution { plate, item, route: Route::Brace { brace }, kn }));
-    }
-    let vertical = vertical_of(&sets[0]);
-    let perm = |k: usize| permanent_sets.as_ref().map(|p| vertical_of(&p[k.min(p.len() - 1)]));
-    let alternative = (sets.len() > 1).then(|| {
-        Box::new(Alternative { primary: LEVER_RULE, label: RIGID, vertical: vertical_of(&sets[1]), shear: sets[1].shear.clone(), vertical_permanent_basis: perm(1) })
-    });
-    Some((vertical, sets[0].shear.clone(), perm(0), alternative))
+    let (vertical, internal) = flow(s, &h.sets[0], true);
+    let permanent_of = |s: &mut Solver, k: usize| -> Option<Vec<(u32, f64)>> {
+        let p = h.permanent.as_ref()?;
+        let (mut v, i) = flow(s, &p[k.min(p.len() - 1)], false);
+        v.extend(i);
+        Some(v)
+    };
+    let vertical_permanent_basis = permanent_of(s, 0);
+    let alternative = if h.sets.len() > 1 {
+        let (v, i) = flow(s, &h.sets[1], false);
+        let perm = permanent_of(s, 1);
+        Some(Box::new(Alternative { primary: LEVER_RULE, label: RIGID, vertical: v, internal: i, shear: h.sets[1].shear.clone(), vertical_permanent_basis: perm }))
+    } else {
+        None
+    };
+    let mut it = Item::new(h.id, h.case, h.applied);
+    it.vertical = vertical;
+    it.internal = internal;
+    it.shear = h.sets[0].shear.clone();
+    it.direction = Some(h.direction);
+    it.vertical_permanent_basis = vertical_permanent_basis;
+    it.action = h.action;
+    it.alternative = alternative;
+    it.note = h.note;
+    it
 }

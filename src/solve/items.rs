@@ -50,7 +50,7 @@ impl Resultant {
     }
 }
 
-/// Which route a reaction came by.
+/// Which route a share of load came by into a post.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
 pub enum Route {
     /// Through a piece of a bearer onto the post.
@@ -59,6 +59,21 @@ pub enum Route {
         bearer: u32,
         /// Which piece of it.
         piece: Piece,
+    },
+    /// From the post standing on this one: an upper lift of the same standard.
+    Lift {
+        /// The upper post (index).
+        from: u32,
+    },
+    /// Through a piece of a transfer bearer, from a post standing on that bearer (or on a deck
+    /// over it).
+    Transfer {
+        /// Bearer index.
+        bearer: u32,
+        /// Which piece of it.
+        piece: Piece,
+        /// The post standing on it (index).
+        from: u32,
     },
     /// The post's own weight.
     PostSelfWeight,
@@ -96,19 +111,36 @@ pub struct Alternative {
     pub primary: &'static str,
     /// What these assume.
     pub label: &'static str,
-    /// Upward vertical reaction at each plate it reaches: (plate, kN).
+    /// Upward vertical reaction at each plate it reaches: (post, kN).
     pub vertical: Vec<(u32, f64)>,
+    /// Load passed on at the base of posts standing on other members: (post, kN).
+    pub internal: Vec<(u32, f64)>,
     /// Horizontal reaction at each plate it reaches: (plate, [x, y] kN).
     pub shear: Vec<(u32, [f64; 2])>,
     /// As [`Item::vertical_permanent_basis`].
     pub vertical_permanent_basis: Option<Vec<(u32, f64)>>,
 }
 
-/// One reaction share at one base plate: the trace behind every number.
+/// One set of reactions of an item (see [`Item::variant`]).
+#[derive(Debug, Clone, Copy)]
+pub struct Variant<'a> {
+    /// Upward vertical reaction at each plate: (post, kN).
+    pub vertical: &'a [(u32, f64)],
+    /// Load passed on at the base of posts standing on other members: (post, kN).
+    pub internal: &'a [(u32, f64)],
+    /// Horizontal reaction at each plate: (post, [x, y] kN).
+    pub shear: &'a [(u32, [f64; 2])],
+    /// For a notional load: the part due to permanent load, at plates and other posts alike.
+    pub permanent: Option<&'a [(u32, f64)]>,
+}
+
+/// One share of the load entering one post: the trace behind every number. The shares of a post
+/// with a base plate add up to its plate load; those of a post standing on another member add up
+/// to the load it passes on.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct Contribution {
-    /// Base plate (post) index.
-    pub plate: u32,
+    /// Post index.
+    pub post: u32,
     /// Item index.
     pub item: u32,
     /// Route it came by.
@@ -126,8 +158,12 @@ pub struct Item {
     pub case: Case,
     /// Resultant of the applied load, from its own definition.
     pub applied: Resultant,
-    /// Upward vertical reaction at each plate it reaches: (plate, kN), one entry per plate.
+    /// Upward vertical reaction at each base plate it reaches: (post, kN), one entry per plate.
     pub vertical: Vec<(u32, f64)>,
+    /// Load passed on at the base of each post it reaches that stands on another member (a post,
+    /// a bearer, a deck): (post, kN downwards). Negative: the post pulls on what it stands on —
+    /// tension through a splice, or a post lifting off a transfer bearer.
+    pub internal: Vec<(u32, f64)>,
     /// Horizontal reaction at each plate it reaches: (plate, [x, y] kN).
     pub shear: Vec<(u32, [f64; 2])>,
     /// Plan direction (unit x, y) of a horizontal load; `None` for vertical loads.
@@ -143,9 +179,76 @@ pub struct Item {
     /// How a generated item was made (e.g. the notional rule and the vertical load it is a share
     /// of); empty for the scene's own loads.
     pub note: String,
+    /// For an arranged imposed load: its cells and, at every post, the worst arrangement. The
+    /// whole-load reactions above are then the case with every cell loaded.
+    pub arranged: Option<Arranged>,
+}
+
+/// An arranged imposed load: split into cells, each present or absent, so that at every post the
+/// maximum takes only the cells that push it down and the minimum only those that lift it.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct Arranged {
+    /// The cells, with their applied load.
+    pub cells: Vec<Cell>,
+    /// At every post the load reaches: (post, sum of the cells that push it down (≥ 0), sum of
+    /// the cells that lift it (≤ 0)), kN — reactions for a plate, load passed on for any other
+    /// post.
+    pub extremes: Vec<(u32, f64, f64)>,
+    /// Worst relative equilibrium residual of a single cell: largest of |ΣF| / F and
+    /// |ΣM| / (F·L) over the cells (L the plan size of the structure, at least 1 m).
+    pub worst_cell_residual: f64,
+}
+
+/// One cell of an arranged load.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct Cell {
+    /// Where it is.
+    pub place: CellPlace,
+    /// Its applied load.
+    pub applied: Resultant,
+}
+
+/// Where a cell of an arranged load lies.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub enum CellPlace {
+    /// A plan rectangle of a deck: one strip between bearers (or a cantilever) over one span
+    /// between posts (or an overhang).
+    Deck {
+        /// Deck index.
+        deck: u32,
+        /// Plan rectangle, m.
+        rect: crate::scene::geometry::Rect,
+    },
+    /// A stretch of a bearer between posts (or an overhang), distances from its first post.
+    Bearer {
+        /// Bearer index.
+        bearer: u32,
+        /// Start, m.
+        from_m: f64,
+        /// End, m.
+        to_m: f64,
+    },
 }
 
 impl Item {
+    /// An item of a load with nothing reaching the base yet.
+    pub fn new(id: impl Into<String>, case: Case, applied: Resultant) -> Self {
+        Item {
+            id: id.into(),
+            case,
+            applied,
+            vertical: Vec::new(),
+            internal: Vec::new(),
+            shear: Vec::new(),
+            direction: None,
+            vertical_permanent_basis: None,
+            action: Action::Vertical,
+            alternative: None,
+            note: String::new(),
+            arranged: None,
+        }
+    }
+
     /// Horizontal loads in the same plan direction act together; loads in different directions
     /// are alternatives. This key (direction in hundredths of a degree) tells them apart.
     pub fn direction_key(&self) -> Option<i64> {
@@ -165,20 +268,18 @@ impl Item {
         1 + self.alternative.is_some() as usize
     }
 
-    /// Vertical reactions, horizontal reactions and the permanent-basis part of reaction set
-    /// `v` (0 = primary, 1 = the alternative; the primary if there is none).
-    #[allow(clippy::type_complexity)]
-    pub fn variant(&self, v: usize) -> (&[(u32, f64)], &[(u32, [f64; 2])], Option<&[(u32, f64)]>) {
+    /// Reaction set `v` (0 = primary, 1 = the alternative; the primary if there is none).
+    pub fn variant(&self, v: usize) -> Variant<'_> {
         match (&self.alternative, v) {
-            (Some(a), 1) => (&a.vertical, &a.shear, a.vertical_permanent_basis.as_deref()),
-            _ => (&self.vertical, &self.shear, self.vertical_permanent_basis.as_deref()),
+            (Some(a), 1) => Variant { vertical: &a.vertical, internal: &a.internal, shear: &a.shear, permanent: a.vertical_permanent_basis.as_deref() },
+            _ => Variant { vertical: &self.vertical, internal: &self.internal, shear: &self.shear, permanent: self.vertical_permanent_basis.as_deref() },
         }
     }
 
     /// Resultant of the plate reactions of reaction set `v`.
     pub fn variant_resultant(&self, plates: &[[f64; 3]], v: usize) -> Resultant {
-        let (vertical, shear, _) = self.variant(v);
-        resultant_of(plates, vertical, shear)
+        let r = self.variant(v);
+        resultant_of(plates, r.vertical, r.shear)
     }
 }
 
@@ -199,8 +300,11 @@ pub const SELF_WEIGHT_ID: &str = "self-weight";
 /// Everything the solver found, before any combination is applied.
 #[derive(Debug, Clone)]
 pub struct Solution {
-    /// Base plate positions (x, y, base level), in post order.
+    /// Base positions (x, y, base level) of every post, in post order; only those with
+    /// [`is_plate`](Self::is_plate) are base plates.
     pub plates: Vec<[f64; 3]>,
+    /// Whether each post has a base plate (on the ground or an existing structure).
+    pub is_plate: Vec<bool>,
     /// Every load item: self-weight first, then the scene's loads in order.
     pub items: Vec<Item>,
     /// Every reaction share, for tracing.
@@ -210,11 +314,12 @@ pub struct Solution {
 }
 
 impl Solution {
-    /// Vertical reaction of each plate in each case, kN: `[plate][case]`.
+    /// Vertical load at the base of each post in each case, kN: `[post][case]` — the plate load
+    /// (upwards positive) for a post with a base plate, the load it passes on for any other.
     pub fn case_vertical(&self) -> Vec<[f64; 3]> {
         let mut out = vec![[0.0; 3]; self.plates.len()];
         for item in &self.items {
-            for &(p, v) in &item.vertical {
+            for &(p, v) in item.vertical.iter().chain(&item.internal) {
                 out[p as usize][item.case.index()] += v;
             }
         }

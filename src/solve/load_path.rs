@@ -12,12 +12,16 @@
 //! jointed at every bearer over continuous bearers is covered as well as all-simple and
 //! all-continuous. [`crate::check`] then takes the worst pass at every plate.
 
+use std::cmp::Reverse;
+use std::collections::BinaryHeap;
+
+use crate::scene::standing::{Member, StandsOn};
 use crate::solve::beam::{share_simple, BeamLoad, Piece};
 use crate::solve::continuous::ContinuousBeam;
 use crate::scene::loads::{Case, LoadKind};
-use crate::solve::braced::{horizontal_items, NodeLoads};
+use crate::solve::braced::{horizontal_items, route_item, NodeLoads};
 use crate::scene::validate::{Model, Target};
-use crate::solve::items::{Action, Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
+use crate::solve::items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
 use crate::solve::passes::{method_passes, Behaviour, MethodPass};
 
 /// Why a valid scene could not be solved.
@@ -50,36 +54,6 @@ fn describe_paths(problems: &[crate::solve::braced::PathProblem]) -> String {
         }
     }
     s
-}
-
-/// Dense per-plate accumulator that remembers which plates it touched.
-struct Sparse {
-    values: Vec<f64>,
-    touched: Vec<u32>,
-    seen: Vec<bool>,
-}
-
-impl Sparse {
-    fn new(n: usize) -> Self {
-        Sparse { values: vec![0.0; n], touched: Vec::new(), seen: vec![false; n] }
-    }
-    fn add(&mut self, i: usize, v: f64) {
-        if !self.seen[i] {
-            self.seen[i] = true;
-            self.touched.push(i as u32);
-        }
-        self.values[i] += v;
-    }
-    fn take(&mut self) -> Vec<(u32, f64)> {
-        self.touched.sort_unstable();
-        let out = self.touched.iter().map(|&i| (i, self.values[i as usize])).collect();
-        for &i in &self.touched {
-            self.values[i as usize] = 0.0;
-            self.seen[i as usize] = false;
-        }
-        self.touched.clear();
-        out
-    }
 }
 
 /// Vertical load entering each post at a level: what the notional horizontal load is made of.
@@ -128,23 +102,41 @@ impl Nodes {
     }
 }
 
-/// Work buffers reused from item to item.
-struct Solver<'m, 's> {
-    model: &'m Model<'s>,
-    plates: Sparse,
-    /// Loads gathered on each bearer for the current item.
-    bearer_loads: Vec<Vec<BeamLoad>>,
-    bearers_touched: Vec<usize>,
+/// Where a load on a member came from: applied to it directly, or passed on by a post standing on
+/// it (or on a deck over it).
+pub(super) type Source = Option<u32>;
+
+/// Work buffers reused from item to item: the loads gathered on each member for the current flow
+/// and the members waiting to pass them on, in top-down order.
+pub(super) struct Solver<'m, 's> {
+    pub(super) model: &'m Model<'s>,
+    /// Loads gathered on each bearer for the current flow, with where each came from.
+    bearer_loads: Vec<Vec<(BeamLoad, Source)>>,
+    /// Load entering each post for the current flow, kN downwards.
+    post_load: Vec<f64>,
+    /// Members waiting to pass their loads on, by rank in the top-down order.
+    queue: BinaryHeap<Reverse<u32>>,
+    queued: Vec<bool>,
+    /// Plate reactions and loads passed on at post bases of the current flow: (post, kN).
+    pub(super) bases: Vec<(u32, f64)>,
+    pub(super) internal: Vec<(u32, f64)>,
+    /// Whether the current flow records its trace and the notional-load nodes (real load items
+    /// do; the unit flows of the arrangement analysis do not).
+    pub(super) record: bool,
     /// Reaction per (piece, support side) of the bearer being shared.
     piece_sums: Vec<[f64; 2]>,
     nodes: Nodes,
     contributions: Vec<Contribution>,
     /// Each bearer that is continuous in this pass (and has two or more posts), factorised once.
-    bearer_beams: Vec<Option<ContinuousBeam>>,
+    pub(super) bearer_beams: Vec<Option<ContinuousBeam>>,
     /// Each deck that is continuous in this pass, per metre of width.
-    deck_beams: Vec<Option<ContinuousBeam>>,
+    pub(super) deck_beams: Vec<Option<ContinuousBeam>>,
     /// Reactions of one continuous member.
-    reactions: Vec<f64>,
+    pub(super) reactions: Vec<f64>,
+    /// Single-post bearers' unbalanced moments of the current flow: (bearer, moment, scale).
+    pub(super) unbalanced: Vec<(usize, f64, f64)>,
+    /// Single-post bearers' moments under the last arranged load, each way.
+    pub(super) arranged_tee: Vec<crate::solve::arrangement::ArrangedTee>,
 }
 
 /// Carry every load of a validated scene down to the base plates, the way the scene's primary
@@ -163,32 +155,8 @@ pub fn solve_methods(model: &Model) -> Result<Vec<Solution>, SolveError> {
 pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveError> {
     let scene = model.scene;
     let plates: Vec<[f64; 3]> = scene.posts.iter().map(|p| [p.x, p.y, p.base_level]).collect();
-    let stiffness = scene.analysis.stiffness;
-    // Validation guarantees increasing supports and a positive EI; a member that still fails to
-    // set up (it cannot) would fall back to simple spans rather than stop the analysis.
-    let bearer_beams = (0..model.bearers.len())
-        .map(|b| {
-            let line = &model.bearers[b];
-            (pass.bearer(scene, b) == Behaviour::Continuous && line.supports.len() >= 2)
-                .then(|| ContinuousBeam::new(&line.supports, stiffness.of(scene.bearers[b].role)).ok())
-                .flatten()
-        })
-        .collect();
-    let deck_beams = (0..model.decks.len())
-        .map(|d| (pass.deck(scene, d) == Behaviour::Continuous).then(|| ContinuousBeam::new(&model.decks[d].supports, stiffness.deck_knm2_per_m).ok()).flatten())
-        .collect();
-    let mut s = Solver {
-        model,
-        plates: Sparse::new(plates.len()),
-        bearer_loads: vec![Vec::new(); model.bearers.len()],
-        bearers_touched: Vec::new(),
-        piece_sums: Vec::new(),
-        nodes: Nodes::new(model),
-        contributions: Vec::new(),
-        bearer_beams,
-        deck_beams,
-        reactions: Vec::new(),
-    };
+    let is_plate: Vec<bool> = (0..scene.posts.len()).map(|p| model.graph.is_plate(p)).collect();
+    let mut s = Solver::new(model, &pass);
     // Slot 0: self-weight; slot k + 1: the scene's load k.
     let mut permanent_tee: Vec<(usize, f64, f64)> = Vec::new();
     let mut items: Vec<Option<Item>> = vec![None; scene.loads.len() + 1];
@@ -205,16 +173,17 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
             let w = scene.bearers[b].self_weight_kn_per_m;
             let (x, y) = line.point_at(0.5 * (line.start + line.end));
             applied.add_down(x, y, w * (line.end - line.start));
-            s.push_bearer(b, BeamLoad::Uniform { from: line.start, to: line.end, w });
+            s.push_bearer(b, BeamLoad::Uniform { from: line.start, to: line.end, w }, None);
         }
         let item = 0;
-        s.share_bearers(item, Case::G, &mut permanent_tee);
         for (i, p) in scene.posts.iter().enumerate() {
             let wt = p.self_weight_kn_per_m * (p.top_level - p.base_level);
             applied.add_down(p.x, p.y, wt);
             s.post_direct(item, i, wt, Route::PostSelfWeight, Case::G);
         }
-        items[0] = Some(Item { id: SELF_WEIGHT_ID.into(), case: Case::G, applied, vertical: s.plates.take(), shear: Vec::new(), direction: None, vertical_permanent_basis: None, action: Action::Vertical, alternative: None, note: String::new() });
+        s.flow(item, Case::G);
+        permanent_tee.append(&mut s.unbalanced);
+        items[0] = Some(s.take_item(Item::new(SELF_WEIGHT_ID, Case::G, applied)));
     }
 
     // Vertical loads, one item each.
@@ -240,59 +209,194 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
             }
             (LoadKind::DeckPoint { x, y, kn, .. }, Target::Deck(d)) => {
                 applied.add_down(*x, *y, *kn);
-                s.deck_point(d, *x, *y, *kn);
+                s.deck_point(d, *x, *y, *kn, None);
             }
             (LoadKind::BearerPoint { at_m, kn, .. }, Target::Bearer(b)) => {
                 let (x, y) = model.bearers[b].point_at(*at_m);
                 applied.add_down(x, y, *kn);
-                s.push_bearer(b, BeamLoad::Point { at: *at_m, p: *kn });
+                s.push_bearer(b, BeamLoad::Point { at: *at_m, p: *kn }, None);
             }
             (LoadKind::BearerLine { from_m, to_m, kn_per_m, .. }, Target::Bearer(b)) => {
                 let (x, y) = model.bearers[b].point_at(0.5 * (from_m + to_m));
                 applied.add_down(x, y, kn_per_m * (to_m - from_m));
-                s.push_bearer(b, BeamLoad::Uniform { from: *from_m, to: *to_m, w: *kn_per_m });
+                s.push_bearer(b, BeamLoad::Uniform { from: *from_m, to: *to_m, w: *kn_per_m }, None);
             }
             (LoadKind::PostTop { kn, .. }, Target::Post(p)) => {
                 let post = &scene.posts[p];
                 applied.add_down(post.x, post.y, *kn);
+                s.post_direct(item, p, *kn, Route::PostTop, load.case);
             }
             _ => unreachable!("validation resolves every vertical load to its element"),
         }
+        s.flow(item, load.case);
+        let mut it = s.take_item(Item::new(load.id.clone(), load.case, applied));
         if load.case == Case::G {
-            s.share_bearers(item, load.case, &mut permanent_tee);
+            permanent_tee.append(&mut s.unbalanced);
         } else {
-            let mut own = Vec::new();
-            s.share_bearers(item, load.case, &mut own);
+            let own = std::mem::take(&mut s.unbalanced);
             tee_head_balances(model, &own, &load.id)?;
         }
-        if let (LoadKind::PostTop { kn, .. }, Target::Post(p)) = (&load.kind, model.load_targets[k]) {
-            s.post_direct(item, p, *kn, Route::PostTop, load.case);
+        it.arranged = s.arrange(load, model.load_targets[k]);
+        for t in std::mem::take(&mut s.arranged_tee) {
+            // One arm loaded alone: each way must balance on its own.
+            for m in [t.one_way_knm, t.other_way_knm] {
+                tee_head_balances(model, &[(t.bearer, m, t.scale)], &load.id)?;
+            }
         }
-        items[k + 1] = Some(Item { id: load.id.clone(), case: load.case, applied, vertical: s.plates.take(), shear: Vec::new(), direction: None, vertical_permanent_basis: None, action: Action::Vertical, alternative: None, note: String::new() });
+        items[k + 1] = Some(it);
     }
 
     // Permanent loads are always present together, so their moments on a T-head may cancel.
     tee_head_balances(model, &permanent_tee, "permanent load")?;
 
-    // Horizontal loads, after the vertical ones: a notional load is a share of them.
+    // Horizontal loads, after the vertical ones: a notional load is a share of them. They go down
+    // the braced planes; the vertical components of the brace forces enter the posts at their
+    // nodes and flow down to the plates like any other load.
     s.nodes.sum_moments(scene);
     let nodes = NodeLoads { at: &s.nodes.at, load: &s.nodes.load, moments: s.nodes.moments };
-    let generated = horizontal_items(model, &nodes, &mut items, &mut s.contributions).map_err(|problems| SolveError::HorizontalPath { problems })?;
-    let items = items.into_iter().map(|i| i.expect("every load is solved once")).chain(generated).collect();
-    Ok(Solution { plates, items, contributions: s.contributions, method: pass })
+    let horizontal = horizontal_items(model, &nodes).map_err(|problems| SolveError::HorizontalPath { problems })?;
+    // Horizontal loads fill their slots below.
+    let mut items: Vec<Item> = items.into_iter().map(|i| i.unwrap_or_else(|| Item::new(String::new(), Case::W, Resultant::default()))).collect();
+    for h in horizontal {
+        match h.slot {
+            Some(k) => {
+                let it = route_item(&mut s, (k + 1) as u32, h);
+                items[k + 1] = it;
+            }
+            None => {
+                let it = route_item(&mut s, items.len() as u32, h);
+                items.push(it);
+            }
+        }
+    }
+    Ok(Solution { plates, is_plate, items, contributions: s.contributions, method: pass })
 }
 
-impl Solver<'_, '_> {
-    fn push_bearer(&mut self, b: usize, load: BeamLoad) {
-        if self.bearer_loads[b].is_empty() {
-            self.bearers_touched.push(b);
+impl<'m, 's> Solver<'m, 's> {
+    pub(super) fn new(model: &'m Model<'s>, pass: &MethodPass) -> Self {
+        let scene = model.scene;
+        let stiffness = scene.analysis.stiffness;
+        // Validation guarantees increasing supports and a positive EI; a member that still fails
+        // to set up (it cannot) would fall back to simple spans rather than stop the analysis.
+        let bearer_beams = (0..model.bearers.len())
+            .map(|b| {
+                let line = &model.bearers[b];
+                (pass.bearer(scene, b) == Behaviour::Continuous && line.supports.len() >= 2)
+                    .then(|| ContinuousBeam::new(&line.supports, stiffness.of(scene.bearers[b].role)).ok())
+                    .flatten()
+            })
+            .collect();
+        let deck_beams = (0..model.decks.len())
+            .map(|d| (pass.deck(scene, d) == Behaviour::Continuous).then(|| ContinuousBeam::new(&model.decks[d].supports, stiffness.deck_knm2_per_m).ok()).flatten())
+            .collect();
+        let members = model.graph.order.len();
+        Solver {
+            model,
+            bearer_loads: vec![Vec::new(); model.bearers.len()],
+            post_load: vec![0.0; scene.posts.len()],
+            queue: BinaryHeap::new(),
+            queued: vec![false; members],
+            bases: Vec::new(),
+            internal: Vec::new(),
+            record: true,
+            piece_sums: Vec::new(),
+            nodes: Nodes::new(model),
+            contributions: Vec::new(),
+            bearer_beams,
+            deck_beams,
+            reactions: Vec::new(),
+            unbalanced: Vec::new(),
+            arranged_tee: Vec::new(),
         }
-        self.bearer_loads[b].push(load);
+    }
+
+    /// Put a member in line to pass its loads on.
+    pub(super) fn enqueue(&mut self, m: Member) {
+        let rank = self.model.graph.rank(m);
+        if !self.queued[rank as usize] {
+            self.queued[rank as usize] = true;
+            self.queue.push(Reverse(rank));
+        }
+    }
+
+    pub(super) fn push_bearer(&mut self, b: usize, load: BeamLoad, from: Source) {
+        self.bearer_loads[b].push((load, from));
+        self.enqueue(Member::Bearer(b));
+    }
+
+    /// Load `kn` entering post `post` by `route`.
+    pub(super) fn post_direct(&mut self, item: u32, post: usize, kn: f64, route: Route, case: Case) {
+        self.post_load[post] += kn;
+        self.enqueue(Member::Post(post));
+        if self.record {
+            let node = match route {
+                Route::PostTop => Some(self.nodes.post_top_first + post),
+                Route::PostSelfWeight => Some(self.nodes.post_top_first + self.model.scene.posts.len() + post),
+                _ => None,
+            };
+            if let Some(node) = node {
+                self.nodes.load[node][case.index()] += kn;
+            }
+            self.contributions.push(Contribution { post: post as u32, item, route, kn });
+        }
+    }
+
+    /// Pass every gathered load down, member by member in the top-down order, until it reaches
+    /// the base plates.
+    pub(super) fn flow(&mut self, item: u32, case: Case) {
+        while let Some(Reverse(rank)) = self.queue.pop() {
+            self.queued[rank as usize] = false;
+            match self.model.graph.order[rank as usize] {
+                Member::Bearer(b) => self.share_bearer(b, item, case),
+                Member::Post(p) => self.pass_post(p, item),
+                // Decks pass their loads to their bearers as the loads arrive.
+                Member::Deck(_) => {}
+            }
+        }
+    }
+
+    /// The item with what the last flow put on the plates and passed on at post bases.
+    pub(super) fn take_item(&mut self, mut item: Item) -> Item {
+        self.bases.sort_unstable_by_key(|e| e.0);
+        self.internal.sort_unstable_by_key(|e| e.0);
+        item.vertical = std::mem::take(&mut self.bases);
+        item.internal = std::mem::take(&mut self.internal);
+        item
+    }
+
+    /// A post passes everything that entered it to what it stands on.
+    pub(super) fn pass_post(&mut self, p: usize, item: u32) {
+        let f = std::mem::take(&mut self.post_load[p]);
+        let stands_on = self.model.graph.stands_on[p];
+        if stands_on.is_plate() {
+            self.bases.push((p as u32, f));
+            return;
+        }
+        self.internal.push((p as u32, f));
+        if f == 0.0 {
+            return;
+        }
+        match stands_on {
+            StandsOn::Post(q) => {
+                self.post_load[q] += f;
+                self.enqueue(Member::Post(q));
+                if self.record {
+                    self.contributions.push(Contribution { post: q as u32, item, route: Route::Lift { from: p as u32 }, kn: f });
+                }
+            }
+            StandsOn::Bearer { bearer, at } => self.push_bearer(bearer, BeamLoad::Point { at, p: f }, Some(p as u32)),
+            StandsOn::Deck(d) => {
+                let post = &self.model.scene.posts[p];
+                self.deck_point(d, post.x, post.y, f, Some(p as u32));
+            }
+            StandsOn::Ground | StandsOn::Structure(_) => unreachable!("plates keep their load"),
+        }
     }
 
     /// A uniform pressure `q` on a plan rectangle of deck `d`: each strip between bearers is a
-    /// simply supported span across them; the per-metre reactions become line loads on the bearers.
-    fn deck_area(&mut self, d: usize, rect: &crate::scene::model::Rect, q: f64) {
+    /// span across them (simple or continuous); the per-metre reactions become line loads on the
+    /// bearers.
+    pub(super) fn deck_area(&mut self, d: usize, rect: &crate::scene::model::Rect, q: f64) {
         let deck = &self.model.decks[d];
         let (along, span) = deck.split_rect(rect);
         let load = BeamLoad::Uniform { from: span.0, to: span.1, w: q };
@@ -311,13 +415,14 @@ impl Solver<'_, '_> {
             let line = &self.model.bearers[b];
             let (p0, p1) = (along_point(deck.bearer_axis, along.0, line), along_point(deck.bearer_axis, along.1, line));
             let (a, z) = (line.distance_of(p0.0, p0.1), line.distance_of(p1.0, p1.1));
-            self.push_bearer(b, BeamLoad::Uniform { from: a.min(z), to: a.max(z), w });
+            self.push_bearer(b, BeamLoad::Uniform { from: a.min(z), to: a.max(z), w }, None);
         }
         self.piece_sums = per_metre;
     }
 
-    /// A point load on deck `d`, shared between the bearers either side by moment balance.
-    fn deck_point(&mut self, d: usize, x: f64, y: f64, p: f64) {
+    /// A point load on deck `d`, shared between the bearers either side by moment balance (or
+    /// over all of them, continuous).
+    pub(super) fn deck_point(&mut self, d: usize, x: f64, y: f64, p: f64, from: Source) {
         let deck = &self.model.decks[d];
         let (_, s) = deck.split(x, y);
         let load = BeamLoad::Point { at: s, p };
@@ -330,79 +435,83 @@ impl Solver<'_, '_> {
             share_simple(&deck.supports, &load, &mut |k, _, r| shares.push((k, r)));
         }
         for (k, r) in shares {
-            let b = deck.bearers[k];
+            let b = self.model.decks[d].bearers[k];
             let at = self.model.bearers[b].distance_of(x, y);
-            self.push_bearer(b, BeamLoad::Point { at, p: r });
+            self.push_bearer(b, BeamLoad::Point { at, p: r }, from);
         }
     }
 
-    /// Share the gathered loads of every touched bearer among its posts. Single-post bearers add
-    /// the moment they cannot balance to `unbalanced` as (bearer, moment, scale).
-    fn share_bearers(&mut self, item: u32, case: Case, unbalanced: &mut Vec<(usize, f64, f64)>) {
-        let mut touched = std::mem::take(&mut self.bearers_touched);
-        touched.sort_unstable();
-        for &b in &touched {
-            let line = &self.model.bearers[b];
-            let n = line.supports.len();
+    /// Share the gathered loads of bearer `b` among its posts. Loads passed on by posts standing
+    /// on it are shared separately, so the trace can say whose load each share is; they are not
+    /// new load entering the structure, so they add nothing to the notional-load nodes. A
+    /// single-post bearer adds the moment it cannot balance to [`Solver::unbalanced`].
+    pub(super) fn share_bearer(&mut self, b: usize, item: u32, case: Case) {
+        let mut loads = std::mem::take(&mut self.bearer_loads[b]);
+        // Group by source: direct loads first, then each post's, in a stable order.
+        loads.sort_by_key(|l| l.1.map_or(0, |p| p as u64 + 1));
+        let line = &self.model.bearers[b];
+        let n = line.supports.len();
+        let mut moment = 0.0;
+        let mut scale = 0.0;
+        for group in loads.chunk_by(|a, b| a.1 == b.1) {
+            let from = group[0].1;
+            let route = |piece: Piece| match from {
+                None => Route::Bearer { bearer: b as u32, piece },
+                Some(p) => Route::Transfer { bearer: b as u32, piece, from: p },
+            };
             if let Some(beam) = &mut self.bearer_beams[b] {
-                // Continuous: one solve for all of this item's loads on the member.
+                // Continuous: one solve for all of this group's loads on the member.
                 self.reactions.resize(n, 0.0);
-                beam.share(&self.bearer_loads[b], &mut self.reactions);
-                for (k, &r) in self.reactions.iter().enumerate() {
-                    if r == 0.0 {
-                        continue;
+                let group_loads: Vec<BeamLoad> = group.iter().map(|l| l.0).collect();
+                beam.share(&group_loads, &mut self.reactions);
+                for k in 0..n {
+                    let r = self.reactions[k];
+                    if r != 0.0 {
+                        self.bearer_reaction(b, k, r, route(Piece::Continuous), from.is_none(), item, case);
                     }
-                    let post = line.posts[k];
-                    self.plates.add(post, r);
-                    self.nodes.load[self.nodes.bearer_first[b] + k][case.index()] += r;
-                    self.contributions.push(Contribution { plate: post as u32, item, route: Route::Bearer { bearer: b as u32, piece: Piece::Continuous }, kn: r });
                 }
-                self.bearer_loads[b].clear();
                 continue;
             }
             // Pieces: spans 0..n-1, then start and end overhang (or the single support).
             let mut sums = std::mem::take(&mut self.piece_sums);
             sums.clear();
             sums.resize(n + 1, [0.0; 2]);
-            let mut moment = 0.0;
-            let mut scale = 0.0;
-            for load in &self.bearer_loads[b] {
+            for (load, _) in group {
                 scale += load.total().abs() * (line.end - line.start).max(1.0);
                 moment += share_simple(&line.supports, load, &mut |k, piece, r| {
                     let (slot, side) = piece_slot(piece, k, n);
                     sums[slot][side] += r;
                 });
             }
-            if n == 1 {
-                unbalanced.push((b, moment, scale));
-            }
             for (slot, pair) in sums.iter().enumerate() {
                 for (side, &r) in pair.iter().enumerate() {
-                    if r == 0.0 {
-                        continue;
+                    if r != 0.0 {
+                        let (k, piece) = slot_piece(slot, side, n);
+                        self.bearer_reaction(b, k, r, route(piece), from.is_none(), item, case);
                     }
-                    let (k, piece) = slot_piece(slot, side, n);
-                    let post = line.posts[k];
-                    self.plates.add(post, r);
-                    self.nodes.load[self.nodes.bearer_first[b] + k][case.index()] += r;
-                    self.contributions.push(Contribution { plate: post as u32, item, route: Route::Bearer { bearer: b as u32, piece }, kn: r });
                 }
             }
             self.piece_sums = sums;
-            self.bearer_loads[b].clear();
         }
-        touched.clear();
-        self.bearers_touched = touched;
+        if n == 1 {
+            self.unbalanced.push((b, moment, scale));
+        }
+        loads.clear();
+        self.bearer_loads[b] = loads;
     }
 
-    fn post_direct(&mut self, item: u32, post: usize, kn: f64, route: Route, case: Case) {
-        self.plates.add(post, kn);
-        let node = match route {
-            Route::PostTop => self.nodes.post_top_first + post,
-            _ => self.nodes.post_top_first + self.model.scene.posts.len() + post,
-        };
-        self.nodes.load[node][case.index()] += kn;
-        self.contributions.push(Contribution { plate: post as u32, item, route, kn });
+    /// Reaction `r` of bearer `b` at its `k`-th post: load entering that post.
+    #[allow(clippy::too_many_arguments)]
+    pub(super) fn bearer_reaction(&mut self, b: usize, k: usize, r: f64, route: Route, new_load: bool, item: u32, case: Case) {
+        let post = self.model.bearers[b].posts[k];
+        self.post_load[post] += r;
+        self.enqueue(Member::Post(post));
+        if self.record {
+            if new_load {
+                self.nodes.load[self.nodes.bearer_first[b] + k][case.index()] += r;
+            }
+            self.contributions.push(Contribution { post: post as u32, item, route, kn: r });
+        }
     }
 }
 

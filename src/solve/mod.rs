@@ -2,6 +2,7 @@
 //!
 //! - [`load_path`]: the driver. Vertical items go deck strip → bearer → post → base plate;
 //!   horizontal items go to the plates through the braced base. Every share is kept.
+//! - [`arrangement`]: imposed loads split into cells, each placed only where it is unfavourable.
 //! - [`beam`]: one member's load shared among its supports by segment moment balance.
 //! - [`continuous`]: the same member continuous over its supports (direct stiffness method).
 //! - [`braced`]: horizontal loads down the braced planes, through the diaphragms, to the plates.
@@ -12,6 +13,7 @@
 //!
 //! Nothing here combines or checks; that is [`crate::check`].
 
+pub mod arrangement;
 pub mod beam;
 pub mod braced;
 pub mod continuous;
@@ -20,6 +22,6 @@ pub mod load_path;
 pub mod passes;
 pub mod rigid_base;
 
-pub use items::{Action, Alternative, Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
+pub use items::{Action, Alternative, Arranged, Cell, CellPlace, Contribution, Item, Resultant, Route, Solution, Variant, SELF_WEIGHT_ID};
 pub use load_path::{solve, solve_methods, solve_pass, SolveError};
 pub use passes::{method_passes, Behaviour, MethodPass};

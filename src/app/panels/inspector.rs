@@ -222,6 +222,16 @@ impl InspectorPanel {
                 pick_id(ui, "To post", "brace-to", &mut b.to.post, &post_ids);
                 f.num(ui, "at level", &mut b.to.level, 0.01, " m");
             }
+            Element::ExistingStructure(x) => {
+                committed |= f.text(ui, "Id", &mut x.id);
+                committed |= f.text(ui, "Description", &mut x.description);
+                f.num(ui, "Top level", &mut x.level, 0.01, " m");
+                f.num(ui, "Extent x from", &mut x.extent.x.0, 0.01, " m");
+                f.num(ui, "Extent x to", &mut x.extent.x.1, 0.01, " m");
+                f.num(ui, "Extent y from", &mut x.extent.y.0, 0.01, " m");
+                f.num(ui, "Extent y to", &mut x.extent.y.1, 0.01, " m");
+                f.num(ui, "Allowable pressure", &mut x.allowable_kpa, 5.0, " kPa");
+            }
             Element::SupportType(s) => {
                 committed |= f.text(ui, "Id", &mut s.id);
                 f.num(ui, "Base plate width", &mut s.base_plate.width_m, 0.005, " m");
