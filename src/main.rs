@@ -388,6 +388,33 @@ fn solve_text(a: &Analysis) -> String {
             let _ = writeln!(s, "  {id} ({case}): ({:.3}, {:.3}), {:.3} kN", tidy(x), tidy(y), x.hypot(y));
         }
     }
+    let h = &a.horizontal;
+    let _ = writeln!(s, "\nhorizontal loads go down the braced bays:");
+    if h.planes.is_empty() {
+        let _ = writeln!(s, "  no braced plane");
+    }
+    for p in &h.planes {
+        let to = p.braced_to_m.map_or("not counted".to_owned(), |z| format!("braced up to {z:.3} m"));
+        let cut = p.cut.as_ref().map_or(String::new(), |c| format!(" (bracing above not counted: {c})"));
+        let _ = writeln!(s, "  {}: {to}, {} braced bay(s){cut}", p.name, p.bays.len());
+    }
+    for d in &h.diaphragms {
+        let _ = writeln!(s, "  {d}");
+    }
+    if let Some(sharing) = h.sharing {
+        let _ = writeln!(s, "  {sharing}");
+    }
+    let _ = writeln!(s, "  notional load: {}", h.notional);
+    for c in &h.combinations {
+        let _ = writeln!(s, "  combination {c}");
+    }
+    let braced: Vec<&plateload::PlateResult> = a.plates.iter().filter(|p| p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10 || !p.brace.bays.is_empty()).collect();
+    if !braced.is_empty() {
+        let _ = writeln!(s, "brace forces at the plates (vertical components, unfactored, worst direction; + down, − up):");
+        for p in braced {
+            let _ = writeln!(s, "  {:<10} {:>+9.3} / {:>+9.3} kN   bays {}", p.id, tidy(p.brace.max_kn), tidy(p.brace.min_kn), if p.brace.bays.is_empty() { "-".to_owned() } else { p.brace.bays.join(", ") });
+        }
+    }
     let st = &a.stability;
     let _ = write!(s, "\nstability: permanent load {:.3} kN", st.permanent_kn);
     if let Some((x, y)) = st.centre_of_gravity {

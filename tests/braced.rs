@@ -502,3 +502,69 @@ fn two_towers_in_line_are_two_braced_planes() {
     let m = plateload::validate(&s).unwrap();
     assert_eq!(m.bracing.planes.len(), 2);
 }
+
+#[test]
+fn brace_forces_go_down_a_spliced_standard_and_a_transfer_post_is_refused() {
+    // source: REFERENCES §8 (±F·z/b) and statics, by hand: one bay 2.5 m wide, each standard two
+    // posts spliced at 2 m (W, W-2 and E, E-2), braced in both lifts; 1 kN at 4 m → ±1.6 at the
+    // lower plates, passed through the splices.
+    let lift = |id: &str, x: f64, base: f64, top: f64| {
+        let mut p = post(id, x, 0.0, top);
+        p.base_level = base;
+        if base > 0.0 {
+            p.support = None;
+        }
+        p
+    };
+    let mut s = bare_scene();
+    s.posts = vec![lift("W", 0.0, 0.0, 2.0), lift("E", 2.5, 0.0, 2.0), lift("W-2", 0.0, 2.0, 4.0), lift("E-2", 2.5, 2.0, 4.0)];
+    s.bearers = vec![bearer("L1", 2.0, &["W", "E"]), bearer("L2", 4.0, &["W-2", "E-2"])];
+    s.braces = vec![brace_at("X1", "W", 0.0, "E", 2.0), brace_at("X2", "W-2", 2.0, "E-2", 4.0)];
+    s.loads.push(push("F", 2.5, 0.0, 4.0, 1.0, PlanDirection::PlusX));
+    let a = analyse(&s).unwrap();
+    close("W", case_load(&a, "W", Case::W), -1.6, 1e-12);
+    close("E", case_load(&a, "E", Case::W), 1.6, 1e-12);
+    let up = a.lifts.iter().find(|l| l.id == "E-2").unwrap();
+    close("E-2 passes on", up.case_kn[Case::W.index()], 0.8, 1e-12);
+    // A load at 3 m on the upper post spans between the 2 m and 4 m levels: half each (statics).
+    s.loads[0] = push("F", 2.5, 0.0, 3.0, 1.0, PlanDirection::PlusX);
+    let a = analyse(&s).unwrap();
+    close("E at 3 m", case_load(&a, "E", Case::W), 0.5 * 4.0 / 2.5 + 0.5 * 2.0 / 2.5, 1e-12);
+
+    // A post standing on a transfer bearer with nothing holding its base: a load below its lowest
+    // hold cannot be carried down (refused, naming the post and what it stands on).
+    let mut s = bare_scene();
+    s.posts = vec![post("L", 0.0, 0.0, 2.0), post("R", 4.0, 0.0, 2.0), lift("U", 2.0, 2.0, 4.0), lift("V", 4.0, 2.0, 4.0)];
+    s.posts[3].support = None;
+    s.bearers = vec![bearer("T", 2.0, &["L", "R"]), bearer("top", 4.0, &["U", "V"])];
+    s.braces = vec![brace_at("X", "U", 2.0, "V", 4.0)];
+    s.loads.push(push("F", 4.0, 0.0, 3.0, 1.0, PlanDirection::PlusX));
+    let err = analyse(&s).unwrap_err().to_string();
+    assert!(err.contains("load F") && err.contains("not held along x"), "{err}");
+}
+
+#[test]
+fn every_output_says_where_horizontal_load_goes() {
+    // common practice, no source: the diaphragms (and that there are none elsewhere), the braced
+    // bays and the brace forces per plate are in the JSON, the schedule, the report, the trace and
+    // the command line alike, with the same numbers.
+    let scene = plateload::scene::io::read_scene(&scene_path("harbour-sheeted-face.ron")).unwrap();
+    let a = analyse(&scene).unwrap();
+    let a1 = &a.plates[a.plate_index("A1").unwrap()];
+    assert!(a1.brace.bays.iter().any(|b| b == "A1–A2"), "{:?}", a1.brace);
+    assert!(a1.brace.min_kn < -1.0);
+    let v: serde_json::Value = serde_json::from_str(&plateload::export::json::analysis_json(&a)).unwrap();
+    let diaphragms = v["horizontal_path"]["diaphragms"].as_array().unwrap();
+    assert!(diaphragms.iter().any(|d| d.as_str().unwrap().starts_with("diaphragm at 2.000 m")));
+    assert!(diaphragms.last().unwrap().as_str().unwrap().contains("no other level is a diaphragm"));
+    let b = v["bases"].as_array().unwrap().iter().find(|b| b["id"] == "A1").unwrap();
+    close("JSON brace min", b["brace"]["min_kn"].as_f64().unwrap(), a1.brace.min_kn, 1e-12);
+    let csv = plateload::export::schedule::schedule_csv(&a);
+    assert!(csv.contains("Horizontal path,\"diaphragm at 2.000 m") && csv.contains("brace up (kN)"), "{csv}");
+    let row = csv.lines().find(|l| l.starts_with("A1,")).unwrap();
+    assert!(row.contains(&format!("{:.3}", a1.brace.min_kn)) && row.contains("A1-A2"), "{row}");
+    let html = plateload::export::report::report_html(&scene, &a, &plateload::export::report::ReportOptions::default());
+    assert!(html.contains("Horizontal loads down the braced bays") && html.contains("diaphragm at 6.000 m") && html.contains("What each combination does"));
+    let trace = plateload::export::trace::trace_text(&scene, &a, a.plate_index("A1").unwrap());
+    assert!(trace.contains("via braced bay A1–A2") && trace.contains("lever 1.300 m") && trace.contains("no other level is a diaphragm"), "{trace}");
+}

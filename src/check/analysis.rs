@@ -2,6 +2,7 @@
 //! prove equilibrium and summarise stability.
 
 use crate::check::equilibrium::{equilibrium, CaseEquilibrium};
+use crate::check::horizontal::{brace_at_posts, summary, BraceAtPlate, HorizontalSummary};
 use crate::check::plates::{capacities, combine_envelope, PlateCombination, Status};
 use crate::scene::standing::StandsOn;
 use crate::scene::combination::Combination;
@@ -71,6 +72,8 @@ pub struct PlateResult {
     pub case_kn_by_method: Vec<[f64; 3]>,
     /// Results under each combination for each method pass alone: `[pass][combination]`.
     pub combinations_by_method: Vec<Vec<PlateCombination>>,
+    /// Vertical components of the brace forces it carries, and the braced bays they come from.
+    pub brace: BraceAtPlate,
 }
 
 impl PlateResult {
@@ -128,6 +131,8 @@ pub struct Analysis {
     pub stability: Stability,
     /// Braced plan directions.
     pub braced: Braced,
+    /// The horizontal load path in words: braced planes, diaphragms, notional load, combinations.
+    pub horizontal: HorizontalSummary,
     /// Non-fatal findings.
     pub warnings: Vec<Problem>,
 }
@@ -223,6 +228,7 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
     let capacity_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_capacity).collect();
     let uplift_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_uplift).collect();
     let all_combos: Vec<usize> = (0..scene.combinations.len()).collect();
+    let mut brace = brace_at_posts(&model, &solutions);
     let mut lifts = Vec::new();
     let plates = scene
         .posts
@@ -286,6 +292,7 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
                 combinations,
                 governing,
                 status,
+                brace: std::mem::take(&mut brace[i]),
             })
         })
         .collect();
@@ -300,6 +307,7 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
             f(a).partial_cmp(&f(b)).unwrap_or(std::cmp::Ordering::Equal)
         })
         .expect("at least one method pass");
+    let horizontal = summary(&model, &solutions[0]);
     let solution = solutions.remove(0);
     Ok(Analysis {
         scene_name: scene.site.name.clone(),
@@ -312,6 +320,7 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
         equilibrium_by_method,
         stability,
         braced: model.braced,
+        horizontal,
         warnings: model.warnings,
     })
 }

@@ -4,12 +4,14 @@
 //! - [`actions`]: which variable load items are independent and which are alternatives.
 //! - [`plates`]: each plate under each combination and method pass — maximum, minimum,
 //!   utilisation of the jack and the ground, status.
+//! - [`horizontal`]: the horizontal load path in words, and the brace forces at each plate.
 //! - [`stability`]: overturning and the kentledge that would reach the target.
 //! - [`equilibrium`](mod@equilibrium): ΣF and ΣM of every load item against its reactions.
 
 pub mod actions;
 pub mod analysis;
 pub mod equilibrium;
+pub mod horizontal;
 pub mod plates;
 pub mod stability;
 

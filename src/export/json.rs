@@ -6,6 +6,12 @@
 //! base has `governing_method` and `min_method` (a pass name, or `any (methods agree)`) and
 //! `cases_kn_by_method`; each base combination has `max_method` and `min_method`;
 //! `equilibrium_by_method` proves every pass.
+//!
+//! Horizontal fields (also added without a version change): each base has `brace` — the largest
+//! downward (`max_kn`) and upward (`min_kn`) vertical components of the brace forces it carries,
+//! unfactored, and the braced `bays` they come from; `horizontal_path` lists the braced `planes`,
+//! the `diaphragms` (and that load is shared nowhere else), how the `notional` load was made, what
+//! each of the `combinations` does, and the diaphragm `sharing` when two ways were solved.
 
 use serde::Serialize;
 
@@ -45,6 +51,7 @@ struct Doc<'a> {
     totals: Totals,
     equilibrium: Vec<Equilibrium>,
     horizontal_loads: Vec<HorizontalLoad<'a>>,
+    horizontal_path: &'a crate::check::horizontal::HorizontalSummary,
     equilibrium_by_method: Vec<MethodEquilibrium<'a>>,
     stability: &'a Stability,
     warnings: Vec<String>,
@@ -86,6 +93,7 @@ struct Base<'a> {
     min_method: &'a str,
     cases_kn_by_method: Vec<MethodCases<'a>>,
     status: &'static str,
+    brace: &'a crate::check::horizontal::BraceAtPlate,
 }
 
 /// A post standing on another member: the load it passes on at its base.
@@ -197,6 +205,7 @@ pub fn analysis_json(a: &Analysis) -> String {
             min_method: a.min_method_label(i),
             cases_kn_by_method: p.case_kn_by_method.iter().enumerate().map(|(m, &c)| MethodCases { method: a.method_label(m), cases_kn: PerCase::of(c) }).collect(),
             status: p.status.label(),
+            brace: &p.brace,
         })
         .collect();
     let doc = Doc {
@@ -226,6 +235,7 @@ pub fn analysis_json(a: &Analysis) -> String {
             base_shear_kn: PerCase::of(a.base_shear()),
         },
         equilibrium: a.equilibrium.iter().map(Equilibrium::from).collect(),
+        horizontal_path: &a.horizontal,
         horizontal_loads: a.horizontal_base_shear().into_iter().map(|(id, case, base_shear_kn)| HorizontalLoad { id, case, base_shear_kn }).collect(),
         equilibrium_by_method: a
             .equilibrium_by_method

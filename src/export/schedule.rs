@@ -1,8 +1,10 @@
 //! The support-load schedule: one CSV row per base plate, for the ground-bearing check.
 //!
-//! Plain ASCII so it opens cleanly in any spreadsheet; header lines first (scene, caution,
-//! units, combinations and their factors, equilibrium), a blank line, then the table and a
-//! totals row whose case columns equal the applied load of each case.
+//! Plain ASCII so it opens cleanly in any spreadsheet, apart from the words of the horizontal
+//! path; header lines first (scene, caution, units, combinations with their factors and what each
+//! does, where horizontal load is shared, the notional load, equilibrium), a blank line, then the
+//! table (ending with the vertical components of the brace forces at each plate and their bays)
+//! and a totals row whose case columns equal the applied load of each case.
 
 use crate::check::analysis::Analysis;
 use crate::scene::loads::Case;
@@ -88,6 +90,27 @@ pub fn push_fixed(out: &mut String, v: f64, decimals: u32) {
     out.push_str(std::str::from_utf8(&buf[i..]).expect("ASCII digits"));
 }
 
+/// Engine words in plain ASCII: the few typographic signs they use spelt out.
+fn ascii(s: &str) -> String {
+    let mut out = String::with_capacity(s.len());
+    for c in s.chars() {
+        match c {
+            '–' | '—' | '−' => out.push('-'),
+            '·' => out.push('*'),
+            'ψ' => out.push_str("psi"),
+            '°' => out.push_str(" deg"),
+            '≥' => out.push_str(">="),
+            '≤' => out.push_str("<="),
+            '×' => out.push('x'),
+            '÷' => out.push('/'),
+            '…' => out.push_str("..."),
+            c if c.is_ascii() => out.push(c),
+            _ => out.push('?'),
+        }
+    }
+    out
+}
+
 /// Write the schedule as CSV text.
 pub fn schedule_csv(analysis: &Analysis) -> String {
     let mut w = Csv { out: String::with_capacity(256 * (analysis.plates.len() + 16)), first: true };
@@ -106,8 +129,18 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
             format!("checks capacity: {}", if c.checks_capacity { "yes" } else { "no" }),
             format!("checks uplift: {}", if c.checks_uplift { "yes" } else { "no" }),
             c.source.clone(),
+            ascii(&crate::check::actions::describe(c)),
         ]);
     }
+    // Where horizontal load goes: the diaphragms (and that it is shared nowhere else), the
+    // notional load.
+    for d in &analysis.horizontal.diaphragms {
+        w.record(&["Horizontal path".to_string(), ascii(d)]);
+    }
+    if let Some(sharing) = analysis.horizontal.sharing {
+        w.record(&["Horizontal path".to_string(), ascii(sharing)]);
+    }
+    w.record(&["Notional load".to_string(), ascii(&analysis.horizontal.notional)]);
     let methods = analysis.method_count();
     if methods == 1 {
         w.record(&["Method", analysis.method_label(0)]);
@@ -139,8 +172,22 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         head.push(format!("{} min (kN)", c.name));
     }
     head.extend(
-        ["SWL (kN)", "utilisation", "governing combination", "method for max", "method for min", "bearing area (m2)", "bearing pressure (kPa)", "allowable (kPa)", "bearing utilisation", "status"]
-            .map(String::from),
+        [
+            "SWL (kN)",
+            "utilisation",
+            "governing combination",
+            "method for max",
+            "method for min",
+            "bearing area (m2)",
+            "bearing pressure (kPa)",
+            "allowable (kPa)",
+            "bearing utilisation",
+            "status",
+            "brace down (kN)",
+            "brace up (kN)",
+            "braced bays",
+        ]
+        .map(String::from),
     );
     w.record(&head);
     let mut totals = [0.0; 3];
@@ -173,6 +220,9 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         w.fixed(p.allowable_kpa, 1);
         w.fixed(g.bearing_utilisation, 3);
         w.field(p.status.label());
+        w.fixed(p.brace.max_kn, 3);
+        w.fixed(p.brace.min_kn, 3);
+        w.field(&ascii(&p.brace.bays.join(" ")));
         w.end();
     }
     for f in ["TOTAL", "", "", "", "", ""] {

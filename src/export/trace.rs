@@ -109,6 +109,24 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
         }
         let _ = writeln!(out);
     }
+    // Horizontal loads: the brace forces this plate carries, and the other way the diaphragms may
+    // share them.
+    if p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10 || !p.brace.bays.is_empty() {
+        let bays = if p.brace.bays.is_empty() { "through posts above".to_owned() } else { format!("from braced bays {}", p.brace.bays.join(", ")) };
+        let _ = writeln!(out, "  brace forces (vertical components, unfactored, worst direction): {:+.3} kN down, {:+.3} kN up, {bays}", p.brace.max_kn, p.brace.min_kn);
+    }
+    for item in solution.items.iter().filter(|i| i.direction.is_some()) {
+        if let Some(alt) = &item.alternative {
+            let at = |v: &[(u32, f64)]| v.iter().filter(|e| e.0 as usize == p.post).map(|e| e.1).sum::<f64>();
+            let (a, b) = (at(&item.vertical), at(&alt.vertical));
+            if (a - b).abs() > 5e-10 {
+                let _ = writeln!(out, "  {}: {a:.3} kN by the {}, {b:.3} kN as a {}; the worse counts", item.id, alt.primary, alt.label);
+            }
+        }
+    }
+    for d in &analysis.horizontal.diaphragms {
+        let _ = writeln!(out, "  {d}");
+    }
     out
 }
 

@@ -564,6 +564,14 @@ pub fn analyse_bracing(
             let (a, b) = (on_line[line.axis as usize][v.lower.0 as usize], on_line[line.axis as usize][v.upper.0 as usize]);
             joined[li].join(a, b);
         }
+        // Posts spliced onto each other are one standard.
+        for (k, &(_, p)) in line.posts.iter().enumerate() {
+            let low = standard[p as usize].0;
+            let l = on_line[line.axis as usize][low as usize];
+            if low != p && l != u32::MAX {
+                joined[li].join(k as u32, l);
+            }
+        }
     }
     // Plane of each post on each axis, and its index in the plane.
     let mut plane_of: [Vec<(u32, u32)>; 2] = [vec![(u32::MAX, 0); n_posts], vec![(u32::MAX, 0); n_posts]];
@@ -638,6 +646,28 @@ pub fn analyse_bracing(
             }
             if let Some(k) = find_level(&planes[pa as usize].levels, scene.bearers[bi].level) {
                 chords[pa as usize][k].join(ka, kb);
+            }
+        }
+    }
+    // Posts of one standard meet at its splices: one node at every level they both reach.
+    for (pk, plane) in planes.iter().enumerate() {
+        for (k, &z) in plane.levels.iter().enumerate() {
+            let at: Vec<(u32, u32)> = plane
+                .posts
+                .iter()
+                .enumerate()
+                .filter(|&(_, &p)| {
+                    let q = &scene.posts[p as usize];
+                    q.base_level <= z + TOL && q.top_level >= z - TOL
+                })
+                .map(|(l, &p)| (standard[p as usize].0, l as u32))
+                .collect();
+            for (i, a) in at.iter().enumerate() {
+                for b in &at[i + 1..] {
+                    if a.0 == b.0 {
+                        chords[pk][k].join(a.1, b.1);
+                    }
+                }
             }
         }
     }
