@@ -65,7 +65,7 @@ fn braced_falsework(side: usize) -> plateload::Scene {
     }
     s.loads.retain(|l| !matches!(l.kind, LoadKind::Notional { .. }));
     for (k, direction) in [PlanDirection::PlusX, PlanDirection::MinusX, PlanDirection::PlusY, PlanDirection::MinusY].into_iter().enumerate() {
-        s.loads.push(Load::new(format!("N{k}"), Case::W, LoadKind::Notional { percent: 2.5, direction, basis: vec![Case::G, Case::Q] }));
+        s.loads.push(Load::new(format!("notional-{k}"), Case::W, LoadKind::Notional { percent: 2.5, direction, basis: vec![Case::G, Case::Q] }));
     }
     s
 }

@@ -396,7 +396,7 @@ fn solve_text(a: &Analysis) -> String {
     for p in &h.planes {
         let to = p.braced_to_m.map_or("not counted".to_owned(), |z| format!("braced up to {z:.3} m"));
         let cut = p.cut.as_ref().map_or(String::new(), |c| format!(" (bracing above not counted: {c})"));
-        let _ = writeln!(s, "  {}: {to}, {} braced bay(s){cut}", p.name, p.bays.len());
+        let _ = writeln!(s, "  {}: {to}, {} brace(s) in bays {}{cut}", p.name, p.diagonals, p.bays.join(", "));
     }
     for d in &h.diaphragms {
         let _ = writeln!(s, "  {d}");
@@ -410,9 +410,10 @@ fn solve_text(a: &Analysis) -> String {
     }
     let braced: Vec<&plateload::PlateResult> = a.plates.iter().filter(|p| p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10 || !p.brace.bays.is_empty()).collect();
     if !braced.is_empty() {
+        let bay_names = a.bay_names();
         let _ = writeln!(s, "brace forces at the plates (vertical components, unfactored, worst direction; + down, − up):");
         for p in braced {
-            let _ = writeln!(s, "  {:<10} {:>+9.3} / {:>+9.3} kN   bays {}", p.id, tidy(p.brace.max_kn), tidy(p.brace.min_kn), if p.brace.bays.is_empty() { "-".to_owned() } else { p.brace.bays.join(", ") });
+            let _ = writeln!(s, "  {:<10} {:>+9.3} / {:>+9.3} kN   bays {}", p.id, tidy(p.brace.max_kn), tidy(p.brace.min_kn), if p.brace.bays.is_empty() { "-".to_owned() } else { bay_names_of(&bay_names, &p.brace.bays) });
         }
     }
     let st = &a.stability;
@@ -447,6 +448,11 @@ fn solve_text(a: &Analysis) -> String {
         }
     }
     s
+}
+
+/// The named bays of a plate, joined.
+fn bay_names_of(names: &[String], bays: &[u32]) -> String {
+    bays.iter().map(|&b| names.get(b as usize).map_or("?", String::as_str)).collect::<Vec<_>>().join(", ")
 }
 
 /// A value for printing: rounding noise around zero shown as 0.

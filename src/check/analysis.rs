@@ -133,6 +133,8 @@ pub struct Analysis {
     pub braced: Braced,
     /// The horizontal load path in words: braced planes, diaphragms, notional load, combinations.
     pub horizontal: HorizontalSummary,
+    /// The braced planes and diaphragms themselves (for the trace of brace forces and drawing).
+    pub bracing: crate::scene::bracing::Bracing,
     /// Non-fatal findings.
     pub warnings: Vec<Problem>,
 }
@@ -198,6 +200,29 @@ impl Analysis {
             })
             .collect()
     }
+    /// Id of every post, by index (base plates and posts on other members alike).
+    pub fn post_ids(&self) -> Vec<&str> {
+        let n = self.plates.iter().map(|p| p.post + 1).chain(self.lifts.iter().map(|l| l.post + 1)).max().unwrap_or(0);
+        let mut ids = vec!["?"; n];
+        for p in &self.plates {
+            ids[p.post] = &p.id;
+        }
+        for l in &self.lifts {
+            ids[l.post] = &l.id;
+        }
+        ids
+    }
+    /// Names of the braced bays, e.g. `A1–B1`, in the order of
+    /// [`HorizontalSummary::bays`](crate::check::horizontal::HorizontalSummary::bays).
+    pub fn bay_names(&self) -> Vec<String> {
+        let ids = self.post_ids();
+        self.horizontal.bays.iter().map(|&(a, z)| format!("{}–{}", ids[a as usize], ids[z as usize])).collect()
+    }
+    /// Names of the braced bays whose brace forces a plate carries.
+    pub fn bays_of(&self, brace: &crate::check::horizontal::BraceAtPlate) -> Vec<String> {
+        let ids = self.post_ids();
+        brace.bays.iter().filter_map(|&b| self.horizontal.bays.get(b as usize)).map(|&(a, z)| format!("{}–{}", ids[a as usize], ids[z as usize])).collect()
+    }
     /// Total base shear per case, [x, y] kN.
     pub fn base_shear(&self) -> [[f64; 2]; 3] {
         let mut s = [[0.0; 2]; 3];
@@ -228,7 +253,7 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
     let capacity_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_capacity).collect();
     let uplift_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_uplift).collect();
     let all_combos: Vec<usize> = (0..scene.combinations.len()).collect();
-    let mut brace = brace_at_posts(&model, &solutions);
+    let (mut brace, bays) = brace_at_posts(&model, &solutions);
     let mut lifts = Vec::new();
     let plates = scene
         .posts
@@ -307,7 +332,7 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
             f(a).partial_cmp(&f(b)).unwrap_or(std::cmp::Ordering::Equal)
         })
         .expect("at least one method pass");
-    let horizontal = summary(&model, &solutions[0]);
+    let horizontal = summary(&model, &solutions[0], bays);
     let solution = solutions.remove(0);
     Ok(Analysis {
         scene_name: scene.site.name.clone(),
@@ -321,6 +346,7 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
         stability,
         braced: model.braced,
         horizontal,
+        bracing: model.bracing,
         warnings: model.warnings,
     })
 }

@@ -19,9 +19,14 @@ pub struct PlaneSummary {
     pub braced_to_m: Option<f64>,
     /// Why bracing above that is not counted.
     pub cut: Option<String>,
-    /// Its braced bays, e.g. `A1–B1 (0.000–2.000 m)`.
+    /// Number of its diagonals (braces), over all lifts.
+    pub diagonals: usize,
+    /// Its braced bays in plan, e.g. `A1–B1`: the first few, then how many more.
     pub bays: Vec<String>,
 }
+
+/// How many braced bays of a plane are named in outputs.
+pub const BAYS_NAMED: usize = 8;
 
 /// The horizontal load path of a scene in words.
 #[derive(Debug, Clone, PartialEq, Default, serde::Serialize)]
@@ -36,6 +41,9 @@ pub struct HorizontalSummary {
     pub combinations: Vec<String>,
     /// How diaphragms shared load, when two ways were solved.
     pub sharing: Option<&'static str>,
+    /// The braced bays in plan, as the posts at their two ends, in order along their plane
+    /// ([`BraceAtPlate::bays`] indexes them; [`crate::Analysis::bay_names`] names them).
+    pub bays: Vec<(u32, u32)>,
 }
 
 /// At one plate: the vertical components of the brace forces it carries (unfactored, kN) — the
@@ -47,29 +55,28 @@ pub struct BraceAtPlate {
     pub max_kn: f64,
     /// Largest upward brace component, kN (≤ 0).
     pub min_kn: f64,
-    /// Braced bays whose braces end on this plate's standard, e.g. `A1–B1`.
-    pub bays: Vec<String>,
+    /// Braced bays whose braces end on this plate's standard: indices into
+    /// [`HorizontalSummary::bays`].
+    pub bays: Vec<u32>,
 }
 
 /// The horizontal load path of a validated model, in words.
-pub fn summary(model: &Model, solution: &Solution) -> HorizontalSummary {
+pub fn summary(model: &Model, solution: &Solution, bays: Vec<(u32, u32)>) -> HorizontalSummary {
     let scene = model.scene;
     let b = &model.bracing;
     let planes = b
         .planes
         .iter()
         .map(|p| {
-            let bays = p
-                .lifts
-                .iter()
-                .flatten()
-                .map(|d| {
-                    let (lo, hi) = (&scene.posts[d.lower as usize].id, &scene.posts[d.upper as usize].id);
-                    let (first, second) = if d.run >= 0.0 { (lo, hi) } else { (hi, lo) };
-                    format!("{first}–{second} ({:.3}–{:.3} m, brace {})", d.lower_level, d.upper_level, scene.braces[d.brace as usize].id)
-                })
-                .collect();
-            PlaneSummary { name: p.name(scene), braced_to_m: p.braced_to.checked_sub(1).map(|k| p.levels[k]), cut: p.cut.clone(), bays }
+            // The bays in plan (each may be braced in several lifts), the first few by name.
+            let mut pairs: Vec<(u32, u32, u32)> = p.lifts.iter().flatten().map(|d| if d.run >= 0.0 { (d.lower, d.upper, d.brace) } else { (d.upper, d.lower, d.brace) }).collect();
+            pairs.sort_unstable_by_key(|e| (e.0, e.1));
+            pairs.dedup_by_key(|e| (e.0, e.1));
+            let mut bays: Vec<String> = pairs.iter().take(BAYS_NAMED).map(|&(a, z, _)| format!("{}–{}", scene.posts[a as usize].id, scene.posts[z as usize].id)).collect();
+            if pairs.len() > BAYS_NAMED {
+                bays.push(format!("and {} more", pairs.len() - BAYS_NAMED));
+            }
+            PlaneSummary { name: p.name(scene), braced_to_m: p.braced_to.checked_sub(1).map(|k| p.levels[k]), cut: p.cut.clone(), diagonals: p.lifts.iter().map(Vec::len).sum(), bays }
         })
         .collect();
     let own: Vec<&str> = scene.loads.iter().filter(|l| matches!(l.kind, LoadKind::Notional { .. })).map(|l| l.id.as_str()).collect();
@@ -89,11 +96,13 @@ pub fn summary(model: &Model, solution: &Solution) -> HorizontalSummary {
         notional,
         combinations: scene.combinations.iter().map(|c| format!("{}: {}", c.name, describe(c))).collect(),
         sharing: (actions.variants > 1).then_some(DIAPHRAGM_ENVELOPE),
+        bays,
     }
 }
 
-/// Brace components at every post (index by post), over all method passes.
-pub fn brace_at_posts(model: &Model, solutions: &[Solution]) -> Vec<BraceAtPlate> {
+/// Brace components at every post (index by post), over all method passes, and the braced bays
+/// they index.
+pub fn brace_at_posts(model: &Model, solutions: &[Solution]) -> (Vec<BraceAtPlate>, Vec<(u32, u32)>) {
     let scene = model.scene;
     let n = scene.posts.len();
     let mut out = vec![BraceAtPlate::default(); n];
@@ -136,18 +145,23 @@ pub fn brace_at_posts(model: &Model, solutions: &[Solution]) -> Vec<BraceAtPlate
             }
         }
     }
-    // The bays whose braces end on each standard, named at its lowest post.
+    // The bays whose braces end on each standard, at its lowest post.
+    let mut index: crate::fxhash::FxMap<(u32, u32), u32> = Default::default();
+    let mut bays: Vec<(u32, u32)> = Vec::new();
     for plane in &model.bracing.planes {
         for d in plane.lifts.iter().flatten() {
-            let (lo, hi) = (&scene.posts[d.lower as usize].id, &scene.posts[d.upper as usize].id);
-            let bay = if d.run >= 0.0 { format!("{lo}–{hi}") } else { format!("{hi}–{lo}") };
+            let key = if d.run >= 0.0 { (d.lower, d.upper) } else { (d.upper, d.lower) };
+            let bay = *index.entry(key).or_insert_with(|| {
+                bays.push(key);
+                (bays.len() - 1) as u32
+            });
             for end in [d.lower, d.upper] {
                 let low = model.bracing.standard[end as usize].0 as usize;
                 if !out[low].bays.contains(&bay) {
-                    out[low].bays.push(bay.clone());
+                    out[low].bays.push(bay);
                 }
             }
         }
     }
-    out
+    (out, bays)
 }

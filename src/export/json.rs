@@ -51,7 +51,7 @@ struct Doc<'a> {
     totals: Totals,
     equilibrium: Vec<Equilibrium>,
     horizontal_loads: Vec<HorizontalLoad<'a>>,
-    horizontal_path: &'a crate::check::horizontal::HorizontalSummary,
+    horizontal_path: Path<'a>,
     equilibrium_by_method: Vec<MethodEquilibrium<'a>>,
     stability: &'a Stability,
     warnings: Vec<String>,
@@ -93,7 +93,23 @@ struct Base<'a> {
     min_method: &'a str,
     cases_kn_by_method: Vec<MethodCases<'a>>,
     status: &'static str,
-    brace: &'a crate::check::horizontal::BraceAtPlate,
+    brace: Brace<'a>,
+}
+
+/// Brace forces at a base: largest push down and pull up, kN, and the braced bays.
+#[derive(Serialize)]
+struct Brace<'a> {
+    max_kn: f64,
+    min_kn: f64,
+    bays: Vec<&'a str>,
+}
+
+/// The horizontal load path with the braced bays named.
+#[derive(Serialize)]
+struct Path<'a> {
+    #[serde(flatten)]
+    summary: &'a crate::check::horizontal::HorizontalSummary,
+    bay_names: &'a [String],
 }
 
 /// A post standing on another member: the load it passes on at its base.
@@ -165,6 +181,7 @@ impl From<&CaseEquilibrium> for Equilibrium {
 
 /// The analysis as a pretty-printed JSON document.
 pub fn analysis_json(a: &Analysis) -> String {
+    let bay_names = a.bay_names();
     let bases = a
         .plates
         .iter()
@@ -205,7 +222,7 @@ pub fn analysis_json(a: &Analysis) -> String {
             min_method: a.min_method_label(i),
             cases_kn_by_method: p.case_kn_by_method.iter().enumerate().map(|(m, &c)| MethodCases { method: a.method_label(m), cases_kn: PerCase::of(c) }).collect(),
             status: p.status.label(),
-            brace: &p.brace,
+            brace: Brace { max_kn: p.brace.max_kn, min_kn: p.brace.min_kn, bays: p.brace.bays.iter().map(|&b| bay_names.get(b as usize).map_or("?", String::as_str)).collect() },
         })
         .collect();
     let doc = Doc {
@@ -235,7 +252,7 @@ pub fn analysis_json(a: &Analysis) -> String {
             base_shear_kn: PerCase::of(a.base_shear()),
         },
         equilibrium: a.equilibrium.iter().map(Equilibrium::from).collect(),
-        horizontal_path: &a.horizontal,
+        horizontal_path: Path { summary: &a.horizontal, bay_names: &bay_names },
         horizontal_loads: a.horizontal_base_shear().into_iter().map(|(id, case, base_shear_kn)| HorizontalLoad { id, case, base_shear_kn }).collect(),
         equilibrium_by_method: a
             .equilibrium_by_method

@@ -969,9 +969,9 @@ fn schedule(h: &mut String, a: &Analysis) {
 /// The braced planes, the diaphragms and the brace forces at each plate.
 fn horizontal_path(h: &mut String, a: &Analysis) {
     let hz = &a.horizontal;
-    let _ = writeln!(h, "<h3>Horizontal loads down the braced bays</h3><table><thead><tr><th>Braced plane</th><th>Braced from the ground up to</th><th>Braced bays (lift, brace)</th></tr></thead><tbody>");
+    let _ = writeln!(h, "<h3>Horizontal loads down the braced bays</h3><table><thead><tr><th>Braced plane</th><th>Braced from the ground up to</th><th>Braces</th><th>Braced bays</th></tr></thead><tbody>");
     if hz.planes.is_empty() {
-        let _ = writeln!(h, "<tr><td colspan=\"3\">none</td></tr>");
+        let _ = writeln!(h, "<tr><td colspan=\"4\">none</td></tr>");
     }
     for p in &hz.planes {
         let to = match (p.braced_to_m, &p.cut) {
@@ -979,7 +979,7 @@ fn horizontal_path(h: &mut String, a: &Analysis) {
             (Some(z), Some(c)) => format!("{} m; <span class=\"bad\">above not counted: {}</span>", num(z, 3), esc(c)),
             (None, c) => format!("<span class=\"bad\">not counted: {}</span>", esc(c.as_deref().unwrap_or(""))),
         };
-        let _ = writeln!(h, "<tr><td>{}</td><td>{to}</td><td>{}</td></tr>", esc(&p.name), esc(&p.bays.join("; ")));
+        let _ = writeln!(h, "<tr><td>{}</td><td>{to}</td><td class=\"n\">{}</td><td>{}</td></tr>", esc(&p.name), p.diagonals, esc(&p.bays.join(", ")));
     }
     let _ = writeln!(h, "</tbody></table><ul class=\"note\">");
     for d in &hz.diaphragms {
@@ -991,9 +991,10 @@ fn horizontal_path(h: &mut String, a: &Analysis) {
     let _ = writeln!(h, "</ul>");
     let braced: Vec<&PlateResult> = a.plates.iter().filter(|p| p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10).collect();
     if !braced.is_empty() {
+        let bay_names = a.bay_names();
         let _ = writeln!(h, "<table><thead><tr><th>Plate</th><th class=\"n\">Brace push down (kN)</th><th class=\"n\">Brace pull up (kN)</th><th>From braced bays</th></tr></thead><tbody>");
         for p in braced {
-            let _ = writeln!(h, "<tr><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td>{}</td></tr>", esc(&p.id), kn(p.brace.max_kn), kn(p.brace.min_kn), esc(&p.brace.bays.join(", ")));
+            let _ = writeln!(h, "<tr><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td>{}</td></tr>", esc(&p.id), kn(p.brace.max_kn), kn(p.brace.min_kn), esc(&p.brace.bays.iter().map(|&b| bay_names.get(b as usize).map_or("?", String::as_str)).collect::<Vec<_>>().join(", ")));
         }
         let _ = writeln!(h, "</tbody></table><p class=\"note\">Vertical components of the brace forces (±V·h/b for shear V in a bay of width b and lift h), unfactored, worst plan direction and diaphragm assumption; they are part of the W column and the combinations above.</p>");
     }

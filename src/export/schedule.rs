@@ -3,7 +3,7 @@
 //! Plain ASCII so it opens cleanly in any spreadsheet, apart from the words of the horizontal
 //! path; header lines first (scene, caution, units, combinations with their factors and what each
 //! does, where horizontal load is shared, the notional load, equilibrium), a blank line, then the
-//! table (ending with the vertical components of the brace forces at each plate and their bays)
+//! table (ending with the vertical components of the brace forces at each plate)
 //! and a totals row whose case columns equal the applied load of each case.
 
 use crate::check::analysis::Analysis;
@@ -185,7 +185,6 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
             "status",
             "brace down (kN)",
             "brace up (kN)",
-            "braced bays",
         ]
         .map(String::from),
     );
@@ -222,7 +221,6 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         w.field(p.status.label());
         w.fixed(p.brace.max_kn, 3);
         w.fixed(p.brace.min_kn, 3);
-        w.field(&ascii(&p.brace.bays.join(" ")));
         w.end();
     }
     for f in ["TOTAL", "", "", "", "", ""] {

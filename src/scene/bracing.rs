@@ -203,9 +203,13 @@ pub struct Bracing {
     pub planes: Vec<Plane>,
     /// Diaphragms.
     pub diaphragms: Vec<Diaphragm>,
-    /// Per post, per axis (x, y): levels at which its standard is held, ascending. A standard is
-    /// a post with the posts spliced onto it and under it; all its posts share one list.
-    pub holds: Vec<[Vec<Hold>; 2]>,
+    /// Levels at which each standard is held along each axis, ascending: the holds of the
+    /// standard whose lowest post is `p`, along axis `a` (0 = x), are
+    /// `hold_list[hold_first[2p + a]..hold_first[2p + a + 1]]` (see [`Bracing::holds`]). A
+    /// standard is a post with the posts spliced onto it.
+    pub hold_first: Vec<u32>,
+    /// See [`Bracing::hold_first`].
+    pub hold_list: Vec<Hold>,
     /// Per post: the lowest post of its standard, and whether that one stands on a base plate
     /// (its base is then the ground: pinned, it takes base shear).
     pub standard: Vec<(u32, bool)>,
@@ -217,6 +221,12 @@ pub struct Bracing {
 }
 
 impl Bracing {
+    /// Levels at which post `post` (its standard) is held along `axis` (0 = x, 1 = y), ascending.
+    pub fn holds(&self, post: usize, axis: usize) -> &[Hold] {
+        let k = 2 * self.standard[post].0 as usize + axis;
+        &self.hold_list[self.hold_first[k] as usize..self.hold_first[k + 1] as usize]
+    }
+
     /// Whether any braced plane runs along the axis.
     pub fn braced_along(&self, axis: Axis) -> bool {
         self.planes.iter().any(|p| p.axis == axis && p.braced_to > 0)
@@ -278,6 +288,11 @@ fn axis_between(a: (f64, f64), b: (f64, f64)) -> Option<Axis> {
     }
 }
 
+/// Whether all posts of a line are in one component.
+fn roots_len_one(comp: &[u32]) -> bool {
+    comp.windows(2).all(|w| w[0] == w[1])
+}
+
 /// Values clustered within the tolerance: sorted representatives.
 #[derive(Debug, Default)]
 struct Levels {
@@ -287,7 +302,7 @@ struct Levels {
 impl Levels {
     fn of(mut v: Vec<f64>) -> Self {
         v.retain(|z| z.is_finite());
-        v.sort_by(f64::total_cmp);
+        v.sort_unstable_by(f64::total_cmp);
         let mut values: Vec<f64> = Vec::new();
         for z in v {
             match values.last() {
@@ -345,12 +360,13 @@ struct Body {
 
 /// Classify the braces of a scene and work out its braced planes, diaphragms and holds.
 ///
-/// `post_ix` resolves post ids; `bearers` are the resolved bearer lines (`None` for invalid
-/// ones, already reported). Problems that make the scene invalid go to `problems`, findings worth
-/// a look to `warnings`.
+/// `ends` are the posts at the two ends of each brace (`None` where an id did not resolve,
+/// already reported); `bearers` are the resolved bearer lines (`None` for invalid ones, already
+/// reported); `stands_on` what each post stands on, if that could be worked out. Problems that
+/// make the scene invalid go to `problems`, findings worth a look to `warnings`.
 pub fn analyse_bracing(
     scene: &Scene,
-    post_ix: &HashMap<&str, usize>,
+    ends: &[Option<(usize, usize)>],
     bearers: &[Option<BearerLine>],
     stands_on: Option<&[StandsOn]>,
     problems: &mut Vec<Problem>,
@@ -371,6 +387,7 @@ pub fn analyse_bracing(
             (q as u32, false)
         })
         .collect();
+    let any_splice = standard.iter().enumerate().any(|(p, s)| s.0 as usize != p);
     let mut top_of: Vec<f64> = scene.posts.iter().map(|p| p.top_level).collect();
     for (p, &(low, _)) in standard.iter().enumerate() {
         top_of[low as usize] = top_of[low as usize].max(scene.posts[p].top_level);
@@ -383,19 +400,36 @@ pub fn analyse_bracing(
         q.x.is_finite() && q.y.is_finite() && q.base_level.is_finite() && q.top_level.is_finite()
     };
 
-    // Bearers by level and their neighbours at each post: (level, other post, bearer).
-    let mut level_list: Vec<f64> = scene.bearers.iter().map(|b| b.level).collect();
-    level_list.extend(scene.braces.iter().flat_map(|b| [b.from.level, b.to.level]));
-    let levels = Levels::of(level_list);
-    let mut adjacent: Vec<Vec<(u32, u32, u32)>> = vec![Vec::new(); n_posts];
+    // Bearer levels, and each post's neighbours along bearers: (level, other post, bearer), as
+    // one list sliced per post.
+    let levels = Levels::of(scene.bearers.iter().map(|b| b.level).collect());
+    let bearer_level: Vec<Option<u32>> = scene.bearers.iter().map(|b| levels.find(b.level).map(|l| l as u32)).collect();
+    let mut adj_first = vec![0u32; n_posts + 1];
     for (bi, line) in bearers.iter().enumerate() {
-        let (Some(line), Some(lv)) = (line, levels.find(scene.bearers[bi].level)) else { continue };
-        for w in line.posts.windows(2) {
-            adjacent[w[0]].push((lv as u32, w[1] as u32, bi as u32));
-            adjacent[w[1]].push((lv as u32, w[0] as u32, bi as u32));
+        if let (Some(line), Some(_)) = (line, bearer_level[bi]) {
+            for w in line.posts.windows(2) {
+                adj_first[w[0] + 1] += 1;
+                adj_first[w[1] + 1] += 1;
+            }
         }
     }
-    let neighbours = |p: usize, lv: usize| adjacent[p].iter().filter(move |e| e.0 as usize == lv).map(|e| e.1);
+    for p in 0..n_posts {
+        adj_first[p + 1] += adj_first[p];
+    }
+    let mut adjacent = vec![(0u32, 0u32, 0u32); adj_first[n_posts] as usize];
+    let mut fill = adj_first.clone();
+    for (bi, line) in bearers.iter().enumerate() {
+        if let (Some(line), Some(lv)) = (line, bearer_level[bi]) {
+            for w in line.posts.windows(2) {
+                for (a, z) in [(w[0], w[1]), (w[1], w[0])] {
+                    adjacent[fill[a] as usize] = (lv, z as u32, bi as u32);
+                    fill[a] += 1;
+                }
+            }
+        }
+    }
+    let adjacent_of = |p: usize| &adjacent[adj_first[p] as usize..adj_first[p + 1] as usize];
+    let neighbours = |p: usize, lv: u32| adjacent_of(p).iter().filter(move |e| e.0 == lv).map(|e| e.1);
 
     // Classify every brace.
     let mut roles = vec![BraceRole::Refused; scene.braces.len()];
@@ -406,10 +440,10 @@ pub fn analyse_bracing(
         lower: (u32, f64),
         upper: (u32, f64),
     }
-    let mut verticals: Vec<Vert> = Vec::new();
+    let mut verticals: Vec<Vert> = Vec::with_capacity(scene.braces.len());
     let mut bodies: Vec<Body> = Vec::new();
     for (bi, b) in scene.braces.iter().enumerate() {
-        let (Some(&pa), Some(&pb)) = (post_ix.get(b.from.post.as_str()), post_ix.get(b.to.post.as_str())) else { continue };
+        let Some(Some((pa, pb))) = ends.get(bi).copied() else { continue };
         if !post_ok(pa) || !post_ok(pb) || !b.from.level.is_finite() || !b.to.level.is_finite() {
             continue;
         }
@@ -422,8 +456,8 @@ pub fn analyse_bracing(
         let rise = (b.to.level - b.from.level).abs();
         if rise <= TOL {
             // A level tube: a ledger if it lies along one, a plan brace if it crosses one bay.
-            let Some(lv) = levels.find(b.from.level) else { continue };
-            if let Some(&(_, _, bearer)) = adjacent[pa].iter().find(|e| e.0 as usize == lv && bearers[e.2 as usize].as_ref().is_some_and(|l| l.posts.contains(&pb))) {
+            let lv = levels.find(b.from.level).map(|l| l as u32);
+            if let Some(&(_, _, bearer)) = lv.and_then(|lv| adjacent_of(pa).iter().find(|e| e.0 == lv && bearers[e.2 as usize].as_ref().is_some_and(|l| l.posts.contains(&pb)))) {
                 roles[bi] = BraceRole::Ledger { bearer };
                 warnings.push(Problem {
                     kind: ElementKind::Brace,
@@ -433,21 +467,19 @@ pub fn analyse_bracing(
                 continue;
             }
             // Opposite corners of a bay: two posts joined to both ends by members at this level.
-            let corners: Vec<u32> = neighbours(pa, lv).filter(|&c| neighbours(pb as usize, lv).any(|d| d == c)).collect();
-            let mut corners = corners;
+            let mut corners: Vec<u32> = lv.map_or(Vec::new(), |lv| neighbours(pa, lv).filter(|&c| neighbours(pb, lv).any(|d| d == c)).collect());
             corners.sort_unstable();
             corners.dedup();
-            if corners.len() == 2 {
-                bodies.push(Body { level: lv, posts: vec![pa as u32, pb as u32, corners[0], corners[1]], brace: Some(bi as u32), deck: None });
-            } else {
-                err(
+            match (lv, corners.as_slice()) {
+                (Some(lv), &[c, d]) => bodies.push(Body { level: lv as usize, posts: vec![pa as u32, pb as u32, c, d], brace: Some(bi as u32), deck: None }),
+                _ => err(
                     problems,
                     &b.id,
                     format!(
                         "lies level at {:.3} m from {} to {}, but neither along a ledger nor across one bay framed by bearers, ledgers or transoms at that level: a plan brace must join opposite corners of such a bay",
                         b.from.level, scene.posts[pa].id, scene.posts[pb].id
                     ),
-                );
+                ),
             }
             continue;
         }
@@ -471,35 +503,47 @@ pub fn analyse_bracing(
     }
 
     // Diaphragm decks.
-    for (di, d) in scene.decks.iter().enumerate().filter(|(_, d)| d.diaphragm) {
-        let ids: Vec<usize> = d.bearers.iter().filter_map(|id| scene.bearers.iter().position(|b| &b.id == id)).collect();
-        if ids.len() != d.bearers.len() || ids.iter().any(|&b| bearers[b].is_none()) {
-            continue;
+    if scene.decks.iter().any(|d| d.diaphragm) {
+        let bearer_ix: HashMap<&str, usize> = scene.bearers.iter().enumerate().map(|(i, b)| (b.id.as_str(), i)).collect();
+        for (di, d) in scene.decks.iter().enumerate().filter(|(_, d)| d.diaphragm) {
+            let ids: Vec<usize> = d.bearers.iter().filter_map(|id| bearer_ix.get(id.as_str()).copied()).collect();
+            if ids.len() != d.bearers.len() || ids.iter().any(|&b| bearers[b].is_none()) {
+                continue;
+            }
+            let lv: Vec<Option<u32>> = ids.iter().map(|&b| bearer_level[b]).collect();
+            if lv.iter().any(|l| l.is_none() || *l != lv[0]) {
+                problems.push(Problem { kind: ElementKind::Deck, id: d.id.clone(), message: "is declared a diaphragm, but its bearers are not all at one level".into() });
+                continue;
+            }
+            let mut posts: Vec<u32> = ids.iter().flat_map(|&b| bearers[b].as_ref().expect("checked").posts.iter().map(|&p| p as u32)).collect();
+            posts.sort_unstable();
+            posts.dedup();
+            bodies.push(Body { level: lv[0].expect("checked") as usize, posts, brace: None, deck: Some(di as u32) });
         }
-        let lv: Vec<Option<usize>> = ids.iter().map(|&b| levels.find(scene.bearers[b].level)).collect();
-        if lv.iter().any(|l| l.is_none() || *l != lv[0]) {
-            problems.push(Problem { kind: ElementKind::Deck, id: d.id.clone(), message: "is declared a diaphragm, but its bearers are not all at one level".into() });
-            continue;
-        }
-        let mut posts: Vec<u32> = ids.iter().flat_map(|&b| bearers[b].as_ref().expect("checked").posts.iter().map(|&p| p as u32)).collect();
-        posts.sort_unstable();
-        posts.dedup();
-        bodies.push(Body { level: lv[0].expect("checked"), posts, brace: None, deck: Some(di as u32) });
     }
     let mut diaphragms = merge_bodies(scene, &levels, bodies, &mut roles);
 
     // Braced planes: vertical braces grouped by their line, then split into the parts of the
     // line that bearers or braces join (two towers in line are two planes).
-    verticals.sort_by(|a, b| (a.axis as u8).cmp(&(b.axis as u8)).then(a.coord.total_cmp(&b.coord)));
-    let mut by_x: Vec<u32> = (0..n_posts as u32).filter(|&p| post_ok(p as usize)).collect();
-    let mut by_y = by_x.clone();
-    by_x.sort_by(|&a, &b| scene.posts[a as usize].x.total_cmp(&scene.posts[b as usize].x));
-    by_y.sort_by(|&a, &b| scene.posts[a as usize].y.total_cmp(&scene.posts[b as usize].y));
+    // By axis and line coordinate: keys of 64 bits (axis, coordinate in tolerance steps, index)
+    // sort fast; coordinates are within ±1e4 m, so 1e7 steps each way.
+    let mut keys: Vec<u64> = verticals
+        .iter()
+        .enumerate()
+        .map(|(k, v)| ((v.axis as u64) << 63) | ((((v.coord / TOL).round() as i64 + (1 << 30)) as u64 & 0xFFFF_FFFF) << 25) | k as u64)
+        .collect();
+    if verticals.len() < 1 << 25 {
+        keys.sort_unstable();
+        let mut taken: Vec<Option<Vert>> = std::mem::take(&mut verticals).into_iter().map(Some).collect();
+        verticals = keys.iter().map(|&k| taken[(k & 0x1FF_FFFF) as usize].take().expect("each once")).collect();
+    } else {
+        verticals.sort_unstable_by(|a, b| (a.axis as u8).cmp(&(b.axis as u8)).then(a.coord.total_cmp(&b.coord)));
+    }
     struct Line {
         axis: Axis,
         coord: f64,
         braces: std::ops::Range<usize>,
-        /// Posts on the line, by position along it.
+        /// Posts on the line joined to it (brace ends, posts of its bearers), by position along it.
         posts: Vec<(f64, u32)>,
     }
     let mut lines: Vec<Line> = Vec::new();
@@ -509,32 +553,16 @@ pub fn analyse_bracing(
         while j < verticals.len() && verticals[j].axis == verticals[i].axis && verticals[j].coord - verticals[j - 1].coord <= TOL {
             j += 1;
         }
-        let axis = verticals[i].axis;
         let coord = verticals[i..j].iter().map(|v| v.coord).sum::<f64>() / (j - i) as f64;
-        let (sorted, key): (&[u32], fn(&crate::scene::model::Post) -> f64) = match axis {
-            Axis::X => (&by_y, |p| p.y),
-            Axis::Y => (&by_x, |p| p.x),
-        };
-        let lo = sorted.partition_point(|&p| key(&scene.posts[p as usize]) < coord - TOL);
-        let hi = sorted.partition_point(|&p| key(&scene.posts[p as usize]) <= coord + TOL);
-        let mut posts: Vec<(f64, u32)> = sorted[lo..hi].iter().map(|&p| (split(axis, scene.posts[p as usize].x, scene.posts[p as usize].y).0, p)).collect();
-        posts.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
-        lines.push(Line { axis, coord, braces: i..j, posts });
+        lines.push(Line { axis: verticals[i].axis, coord, braces: i..j, posts: Vec::new() });
         i = j;
     }
     let mut line_keys: Vec<(u8, f64, u32)> = lines.iter().enumerate().map(|(k, l)| (l.axis as u8, l.coord, k as u32)).collect();
-    line_keys.sort_by(|a, b| a.0.cmp(&b.0).then(a.1.total_cmp(&b.1)));
+    line_keys.sort_unstable_by(|a, b| a.0.cmp(&b.0).then(a.1.total_cmp(&b.1)));
     let find_line = |axis: Axis, coord: f64| -> Option<u32> {
         let start = line_keys.partition_point(|k| (k.0, k.1) < (axis as u8, coord - TOL));
         line_keys.get(start).filter(|k| k.0 == axis as u8 && (k.1 - coord).abs() <= TOL).map(|k| k.2)
     };
-    // Position of each post on the line of each axis it stands on.
-    let mut on_line: [Vec<u32>; 2] = [vec![u32::MAX; n_posts], vec![u32::MAX; n_posts]];
-    for line in &lines {
-        for (k, &(_, p)) in line.posts.iter().enumerate() {
-            on_line[line.axis as usize][p as usize] = k as u32;
-        }
-    }
     // Bearers along each line, with the line they lie on.
     let line_bearers: Vec<(usize, u32)> = bearers
         .iter()
@@ -549,14 +577,63 @@ pub fn analyse_bracing(
             Some((bi, find_line(axis, 0.5 * (split(axis, a.0, a.1).1 + split(axis, z.0, z.1).1))?))
         })
         .collect();
+    let along_of = |axis: Axis, p: u32| split(axis, scene.posts[p as usize].x, scene.posts[p as usize].y).0;
+    // Each post once per line: the last line that listed it, per axis.
+    let mut listed: [Vec<u32>; 2] = [vec![u32::MAX; n_posts], vec![u32::MAX; n_posts]];
+    let mut add = |lines: &mut Vec<Line>, li: usize, p: u32| {
+        let axis = lines[li].axis;
+        if listed[axis as usize][p as usize] != li as u32 {
+            listed[axis as usize][p as usize] = li as u32;
+            lines[li].posts.push((along_of(axis, p), p));
+        }
+    };
+    for li in 0..lines.len() {
+        for k in lines[li].braces.clone() {
+            let (a, b) = (verticals[k].lower.0, verticals[k].upper.0);
+            add(&mut lines, li, a);
+            add(&mut lines, li, b);
+        }
+    }
+    for &(bi, li) in &line_bearers {
+        for &p in &bearers[bi].as_ref().expect("listed").posts {
+            add(&mut lines, li as usize, p as u32);
+        }
+    }
+    if any_splice {
+        // The posts spliced onto (or under) a post on the line are on it too.
+        let mut above: Vec<Vec<u32>> = vec![Vec::new(); n_posts];
+        for (p, &(low, _)) in standard.iter().enumerate() {
+            if low as usize != p {
+                above[low as usize].push(p as u32);
+            }
+        }
+        for line in &mut lines {
+            let axis = line.axis;
+            let extra: Vec<(f64, u32)> = line.posts.iter().flat_map(|&(_, p)| {
+                let low = standard[p as usize].0;
+                std::iter::once(low).chain(above[low as usize].iter().copied())
+            }).map(|p| (along_of(axis, p), p)).collect();
+            line.posts.extend(extra);
+        }
+    }
+    // Position of each post on the line of each axis it stands on.
+    let mut on_line: [Vec<u32>; 2] = [vec![u32::MAX; n_posts], vec![u32::MAX; n_posts]];
+    for line in &mut lines {
+        if any_splice {
+            line.posts.sort_unstable_by_key(|e| e.1);
+            line.posts.dedup_by_key(|e| e.1);
+        }
+        line.posts.sort_unstable_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+        for (k, &(_, p)) in line.posts.iter().enumerate() {
+            on_line[line.axis as usize][p as usize] = k as u32;
+        }
+    }
     let mut joined: Vec<Sets> = lines.iter().map(|l| Sets::new(l.posts.len())).collect();
     for &(bi, li) in &line_bearers {
         let axis = lines[li as usize].axis as usize;
-        let ids: Vec<u32> = bearers[bi].as_ref().expect("listed").posts.iter().map(|&p| on_line[axis][p]).collect();
-        for w in ids.windows(2) {
-            if w[0] != u32::MAX && w[1] != u32::MAX {
-                joined[li as usize].join(w[0], w[1]);
-            }
+        let posts = &bearers[bi].as_ref().expect("listed").posts;
+        for w in posts.windows(2) {
+            joined[li as usize].join(on_line[axis][w[0]], on_line[axis][w[1]]);
         }
     }
     for (li, line) in lines.iter().enumerate() {
@@ -564,12 +641,13 @@ pub fn analyse_bracing(
             let (a, b) = (on_line[line.axis as usize][v.lower.0 as usize], on_line[line.axis as usize][v.upper.0 as usize]);
             joined[li].join(a, b);
         }
-        // Posts spliced onto each other are one standard.
-        for (k, &(_, p)) in line.posts.iter().enumerate() {
-            let low = standard[p as usize].0;
-            let l = on_line[line.axis as usize][low as usize];
-            if low != p && l != u32::MAX {
-                joined[li].join(k as u32, l);
+        if any_splice {
+            // Posts spliced onto each other are one standard.
+            for (k, &(_, p)) in line.posts.iter().enumerate() {
+                let l = on_line[line.axis as usize][standard[p as usize].0 as usize];
+                if l != u32::MAX {
+                    joined[li].join(k as u32, l);
+                }
             }
         }
     }
@@ -584,19 +662,19 @@ pub fn analyse_bracing(
     for (li, line) in lines.iter().enumerate() {
         let axis = line.axis;
         let group = &verticals[line.braces.clone()];
-        let mut roots: Vec<u32> = group.iter().map(|v| joined[li].root(on_line[axis as usize][v.lower.0 as usize])).collect();
+        let comp: Vec<u32> = (0..line.posts.len() as u32).map(|k| joined[li].root(k)).collect();
+        let mut roots: Vec<u32> = group.iter().map(|v| comp[on_line[axis as usize][v.lower.0 as usize] as usize]).collect();
         roots.sort_unstable();
         roots.dedup();
         for root in roots {
-            let members: Vec<&Vert> = group.iter().filter(|v| joined[li].root(on_line[axis as usize][v.lower.0 as usize]) == root).collect();
-            let posts: Vec<(f64, u32)> = line.posts.iter().enumerate().filter(|(k, _)| joined[li].root(*k as u32) == root).map(|(_, p)| *p).collect();
+            let members: Vec<&Vert> = if roots_len_one(&comp) { group.iter().collect() } else { group.iter().filter(|v| comp[on_line[axis as usize][v.lower.0 as usize] as usize] == root).collect() };
+            let posts: Vec<(f64, u32)> = line.posts.iter().zip(&comp).filter(|e| *e.1 == root).map(|e| *e.0).collect();
             let plane_index = planes.len() as u32;
             for (k, &(_, p)) in posts.iter().enumerate() {
                 plane_of[axis as usize][p as usize] = (plane_index, k as u32);
             }
             let plane_levels = Levels::of(members.iter().flat_map(|v| [Some(v.upper.1), (!ground(v.lower.0, v.lower.1)).then_some(v.lower.1)]).flatten().collect());
             let mut lifts: Vec<Vec<Diagonal>> = vec![Vec::new(); plane_levels.values.len()];
-            let along_of = |p: u32| split(axis, scene.posts[p as usize].x, scene.posts[p as usize].y).0;
             for v in members {
                 let top = plane_levels.find(v.upper.1).expect("listed");
                 let bottom = if ground(v.lower.0, v.lower.1) { None } else { plane_levels.find(v.lower.1) };
@@ -610,7 +688,7 @@ pub fn analyse_bracing(
                     err(problems, &scene.braces[v.brace as usize].id, format!("cannot be a diagonal of its braced plane: {why}"));
                     continue;
                 }
-                let run = along_of(v.upper.0) - along_of(v.lower.0);
+                let run = along_of(axis, v.upper.0) - along_of(axis, v.lower.0);
                 let rise = v.upper.1 - v.lower.1;
                 let d = run.hypot(rise);
                 lifts[top].push(Diagonal { brace: v.brace, lower: v.lower.0, upper: v.upper.0, lower_level: v.lower.1, upper_level: v.upper.1, run, share: run * run / (d * d * d) });
@@ -650,22 +728,23 @@ pub fn analyse_bracing(
         }
     }
     // Posts of one standard meet at its splices: one node at every level they both reach.
-    for (pk, plane) in planes.iter().enumerate() {
-        for (k, &z) in plane.levels.iter().enumerate() {
-            let at: Vec<(u32, u32)> = plane
-                .posts
-                .iter()
-                .enumerate()
-                .filter(|&(_, &p)| {
-                    let q = &scene.posts[p as usize];
-                    q.base_level <= z + TOL && q.top_level >= z - TOL
-                })
-                .map(|(l, &p)| (standard[p as usize].0, l as u32))
-                .collect();
-            for (i, a) in at.iter().enumerate() {
-                for b in &at[i + 1..] {
-                    if a.0 == b.0 {
-                        chords[pk][k].join(a.1, b.1);
+    if any_splice {
+        for (pk, plane) in planes.iter().enumerate() {
+            for (k, &z) in plane.levels.iter().enumerate() {
+                let mut at: Vec<(u32, u32)> = plane
+                    .posts
+                    .iter()
+                    .enumerate()
+                    .filter(|&(_, &p)| {
+                        let q = &scene.posts[p as usize];
+                        q.base_level <= z + TOL && q.top_level >= z - TOL
+                    })
+                    .map(|(l, &p)| (standard[p as usize].0, l as u32))
+                    .collect();
+                at.sort_unstable();
+                for w in at.windows(2) {
+                    if w[0].0 == w[1].0 {
+                        chords[pk][k].join(w[0].1, w[1].1);
                     }
                 }
             }
@@ -698,7 +777,13 @@ pub fn analyse_bracing(
                     cut = Some(format!("at {z:.3} m its braces meet posts {a} and {b}, which no bearer or ledger along the plane joins at that level"));
                     break;
                 }
-                holding.push((0..plane.posts.len() as u32).filter(|&l| sets.root(l) == r0).map(|l| plane.posts[l as usize]).collect());
+                let mut held = Vec::with_capacity(plane.posts.len());
+                for l in 0..plane.posts.len() as u32 {
+                    if sets.root(l) == r0 {
+                        held.push(plane.posts[l as usize]);
+                    }
+                }
+                holding.push(held);
             }
         }
         plane.braced_to = holding.len();
@@ -715,32 +800,38 @@ pub fn analyse_bracing(
         }
     }
 
-    // Holds: diaphragms first (directly, then through ledgers and transoms along their lines),
-    // then braced planes where no diaphragm holds the post.
-    let mut holds: Vec<[Vec<Hold>; 2]> = vec![[Vec::new(), Vec::new()]; n_posts];
-    let mut in_diaphragm: Vec<Vec<(usize, u32)>> = vec![Vec::new(); n_posts];
-    for (d, dia) in diaphragms.iter().enumerate() {
-        let lv = levels.find(dia.level).expect("a diaphragm level is a bearer level");
-        for &p in &dia.posts {
-            in_diaphragm[p as usize].push((lv, d as u32));
-            for axis in &mut holds[p as usize] {
-                axis.push(Hold { level: dia.level, by: Holder::Diaphragm(d as u32) });
+    // Holds, keyed by standard and axis: diaphragms first (directly, then through ledgers and
+    // transoms along their lines), then braced planes where no diaphragm holds the post.
+    let key = |p: usize, axis: usize| 2 * standard[p].0 as usize + axis;
+    let mut candidates: Vec<(u32, Hold)> = Vec::new();
+    // (post, axis, level index) held by a diaphragm.
+    let mut dia_at: HashMap<(u32, u8, u32), u32> = HashMap::default();
+    if !diaphragms.is_empty() {
+        let mut in_diaphragm: HashMap<(u32, u32), u32> = HashMap::default();
+        for (d, dia) in diaphragms.iter().enumerate() {
+            let lv = levels.find(dia.level).expect("a diaphragm level is a bearer level") as u32;
+            for &p in &dia.posts {
+                in_diaphragm.entry((p, lv)).or_insert(d as u32);
+                for axis in 0..2u8 {
+                    if dia_at.insert((p, axis, lv), d as u32).is_none() {
+                        candidates.push((key(p as usize, axis as usize) as u32, Hold { level: dia.level, by: Holder::Diaphragm(d as u32) }));
+                    }
+                }
             }
         }
-    }
-    if !diaphragms.is_empty() {
         // Runs: bearers along one axis at one level sharing a post act as one line.
         let mut runs = Sets::new(scene.bearers.len());
-        let axis_of: Vec<Option<(Axis, usize)>> = bearers
+        let axis_of: Vec<Option<(Axis, u32)>> = bearers
             .iter()
             .enumerate()
             .map(|(bi, l)| {
                 let l = l.as_ref()?;
                 let axis = if l.posts.len() >= 2 { axis_between(pos(l.posts[0]), pos(*l.posts.last().expect("two")))? } else { return None };
-                Some((axis, levels.find(scene.bearers[bi].level)?))
+                Some((axis, bearer_level[bi]?))
             })
             .collect();
-        for list in &adjacent {
+        for p in 0..n_posts {
+            let list = adjacent_of(p);
             for (i, a) in list.iter().enumerate() {
                 for b in &list[i + 1..] {
                     if a.2 != b.2 && axis_of[a.2 as usize].is_some() && axis_of[a.2 as usize] == axis_of[b.2 as usize] {
@@ -753,20 +844,19 @@ pub fn analyse_bracing(
         for (bi, l) in bearers.iter().enumerate() {
             let (Some(l), Some((_, lv))) = (l, axis_of[bi]) else { continue };
             for &p in &l.posts {
-                if let Some(&(_, d)) = in_diaphragm[p].iter().find(|e| e.0 == lv) {
+                if let Some(&d) = in_diaphragm.get(&(p as u32, lv)) {
                     let r = runs.root(bi as u32);
                     taken.entry(r).or_insert(d);
                 }
             }
         }
         for (bi, l) in bearers.iter().enumerate() {
-            let (Some(l), Some((axis, _))) = (l, axis_of[bi]) else { continue };
+            let (Some(l), Some((axis, lv))) = (l, axis_of[bi]) else { continue };
             let Some(&d) = taken.get(&runs.root(bi as u32)) else { continue };
             let z = diaphragms[d as usize].level;
             for &p in &l.posts {
-                let list = &mut holds[p][axis as usize];
-                if !list.iter().any(|h| (h.level - z).abs() <= TOL) {
-                    list.push(Hold { level: z, by: Holder::Diaphragm(d) });
+                if dia_at.insert((p as u32, axis as u8, lv), d).is_none() {
+                    candidates.push((key(p, axis as usize) as u32, Hold { level: z, by: Holder::Diaphragm(d) }));
                 }
             }
         }
@@ -774,13 +864,12 @@ pub fn analyse_bracing(
     for (pk, plane) in planes.iter().enumerate() {
         for (k, posts) in plane.holding.iter().enumerate() {
             let z = plane.levels[k];
+            let lv = if dia_at.is_empty() { None } else { levels.find(z).map(|l| l as u32) };
             let mut joined: Vec<u32> = Vec::new();
             for &p in posts {
-                let list = &mut holds[p as usize][plane.axis as usize];
-                match list.iter().find(|h| (h.level - z).abs() <= TOL) {
-                    Some(Hold { by: Holder::Diaphragm(d), .. }) => joined.push(*d),
-                    Some(_) => {}
-                    None => list.push(Hold { level: z, by: Holder::Plane { plane: pk as u32, level: k as u32 } }),
+                match lv.and_then(|lv| dia_at.get(&(p, plane.axis as u8, lv))) {
+                    Some(&d) => joined.push(d),
+                    None => candidates.push((key(p as usize, plane.axis as usize) as u32, Hold { level: z, by: Holder::Plane { plane: pk as u32, level: k as u32 } })),
                 }
             }
             joined.sort_unstable();
@@ -790,35 +879,41 @@ pub fn analyse_bracing(
             }
         }
     }
-    // All the posts of a standard share its holds.
-    if standard.iter().enumerate().any(|(p, s)| s.0 as usize != p) {
-        let mut merged: Vec<[Vec<Hold>; 2]> = vec![[Vec::new(), Vec::new()]; n_posts];
-        for (p, &(low, _)) in standard.iter().enumerate() {
-            for axis in 0..2 {
-                let list = std::mem::take(&mut holds[p][axis]);
-                merged[low as usize][axis].extend(list);
-            }
+    // By key (counting sort, stable: a diaphragm before a plane at one level), then by level.
+    let mut hold_first = vec![0u32; 2 * n_posts + 1];
+    for &(k, _) in &candidates {
+        hold_first[k as usize + 1] += 1;
+    }
+    for i in 0..2 * n_posts {
+        hold_first[i + 1] += hold_first[i];
+    }
+    let mut hold_list = vec![Hold { level: 0.0, by: Holder::Diaphragm(0) }; candidates.len()];
+    let mut fill = hold_first.clone();
+    for (k, h) in candidates {
+        hold_list[fill[k as usize] as usize] = h;
+        fill[k as usize] += 1;
+    }
+    let mut kept: Vec<Hold> = Vec::with_capacity(hold_list.len());
+    let mut first = vec![0u32; 2 * n_posts + 1];
+    for k in 0..2 * n_posts {
+        first[k] = kept.len() as u32;
+        let seg = &mut hold_list[hold_first[k] as usize..hold_first[k + 1] as usize];
+        if !seg.is_sorted_by(|a, b| a.level <= b.level) {
+            seg.sort_by(|a, b| a.level.total_cmp(&b.level));
         }
-        for (p, &(low, _)) in standard.iter().enumerate() {
-            if low as usize != p {
-                holds[p] = merged[low as usize].clone();
-            }
-        }
-        for (p, &(low, _)) in standard.iter().enumerate() {
-            if low as usize == p {
-                holds[p] = std::mem::take(&mut merged[p]);
+        for h in seg.iter() {
+            match kept[first[k] as usize..].last() {
+                Some(last) if (h.level - last.level).abs() <= TOL => {}
+                _ => kept.push(*h),
             }
         }
     }
-    for list in holds.iter_mut().flatten() {
-        list.sort_by(|a, b| a.level.total_cmp(&b.level));
-        list.dedup_by(|a, b| (a.level - b.level).abs() <= TOL);
-    }
+    first[2 * n_posts] = kept.len() as u32;
     for d in &mut diaphragms {
         d.planes.sort_unstable();
         d.planes.dedup();
     }
-    Bracing { roles, planes, diaphragms, holds, standard, standard_span, placements: Vec::new() }
+    Bracing { roles, planes, diaphragms, hold_first: first, hold_list: kept, standard, standard_span, placements: Vec::new() }
 }
 
 /// Merge the rigid parts of each level into diaphragms: parts that share two or more posts are

@@ -273,11 +273,13 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
     let decks = check_decks(&mut c, &bearer_ix, &bearers);
     check_existing_structures(&mut c);
     let graph = load_path_graph(&mut c, &bearers, &decks);
-    check_braces(&mut c, &post_ix);
+    let brace_ends = check_braces(&mut c, &post_ix);
     let load_targets = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers);
     check_combinations(&mut c);
-    let mut bracing = analyse_bracing(scene, &post_ix, &bearers, graph.as_ref().map(|g| g.stands_on.as_slice()), &mut c.problems, &mut c.warnings);
+    let _t = std::time::Instant::now();
+    let mut bracing = analyse_bracing(scene, &brace_ends, &bearers, graph.as_ref().map(|g| g.stands_on.as_slice()), &mut c.problems, &mut c.warnings);
     place_loads(scene, &mut bracing, &mut c.problems);
+    if std::env::var("ZZ_TIME").is_ok() { eprintln!("bracing {:?}", _t.elapsed()); }
     let braced = Braced { x: bracing.braced_along(Axis::X), y: bracing.braced_along(Axis::Y) };
 
     match graph {
@@ -633,13 +635,16 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
     out
 }
 
-/// Brace ends on existing posts, within their height. What each brace is (and whether it is a
-/// brace at all) is worked out in [`crate::scene::bracing`].
-fn check_braces(c: &mut Checker, post_ix: &HashMap<&str, usize>) {
+/// Brace ends on existing posts, within their height; the posts at the two ends of each brace.
+/// What each brace is (and whether it is a brace at all) is worked out in
+/// [`crate::scene::bracing`].
+fn check_braces(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Vec<Option<(usize, usize)>> {
     use ElementKind as K;
     let scene = c.scene;
+    let mut out = Vec::with_capacity(scene.braces.len());
     for b in &scene.braces {
-        for node in [&b.from, &b.to] {
+        let mut ends = [None, None];
+        for (k, node) in [&b.from, &b.to].into_iter().enumerate() {
             match post_ix.get(node.post.as_str()) {
                 None => c.err(K::Brace, &b.id, format!("post \"{}\" does not exist", node.post)),
                 Some(&p) => {
@@ -649,10 +654,13 @@ fn check_braces(c: &mut Checker, post_ix: &HashMap<&str, usize>) {
                     {
                         c.err(K::Brace, &b.id, format!("level {} is not on post {}", node.level, post.id));
                     }
+                    ends[k] = Some(p);
                 }
             }
         }
+        out.push(ends[0].zip(ends[1]));
     }
+    out
 }
 
 fn check_loads(

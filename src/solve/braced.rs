@@ -27,12 +27,21 @@
 //! lift into that post's plate. Every vertical component is a force at a post node; it enters
 //! the post there and flows down to the plates through splices and transfer members like any
 //! other load ([`route_item`]).
+//!
+//! Everything is linear in the load. The notional load is solved once per basis case and plan
+//! axis (a unit response) and each notional item is a sum of those; where a unit force at each
+//! node goes is worked out once per analysis ([`Network`]).
+
 
 use nalgebra::{Matrix3, Vector3};
 
-use crate::scene::bracing::{list_ids, Bracing, Holder, Plane};
+use crate::scene::bracing::{list_ids, Bracing, Holder, Placement, Plane};
+use crate::scene::loads::{Case, LoadKind, PlanDirection};
+use crate::scene::model::NotionalRule;
 use crate::scene::validate::{Axis, Model, GEOMETRY_TOLERANCE_M};
 use crate::solve::beam::{share_simple, BeamLoad};
+use crate::solve::items::{Action, Alternative, Contribution, Item, Resultant, Route};
+use crate::solve::load_path::Solver;
 
 const TOL: f64 = GEOMETRY_TOLERANCE_M;
 
@@ -41,18 +50,31 @@ const TOL: f64 = GEOMETRY_TOLERANCE_M;
 struct Prepared {
     /// Reference point of the moments, m.
     origin: (f64, f64),
-    /// Generalised direction of each joined plane: (along x, along y, twist about the origin).
+    /// Generalised direction of each joined plane: (along x, along y, twist about the origin / size).
     g: Vec<[f64; 3]>,
-    /// Pseudo-inverse of Σ g gᵀ, and its size for the consistency check.
-    k_inv: Matrix3<f64>,
+    /// Σ g gᵀ and its pseudo-inverse.
     k: Matrix3<f64>,
+    k_inv: Matrix3<f64>,
     /// Per axis: coordinates across the axis of the joined planes along it, ascending, and the
     /// index of each among the joined planes.
     lever: [(Vec<f64>, Vec<usize>); 2],
-    /// Size of the diaphragm, m (scales moments for the checks).
+    /// Size of the diaphragm, m (scales moments).
     size: f64,
     /// First slot of its joined planes in [`Acc::lever`].
     slot: usize,
+    /// Whether two ways of sharing are solved (three or more planes).
+    two_ways: bool,
+}
+
+/// Where part of a horizontal force at a post goes.
+#[derive(Debug, Clone, Copy, PartialEq)]
+enum Target {
+    /// Into the ground at the base of this post (its standard's lowest post).
+    Base(u32),
+    /// Into a braced plane at one of its levels (flat index).
+    Plane(u32),
+    /// Into a diaphragm, at the plan point of this post.
+    Diaphragm(u32, u32),
 }
 
 /// Everything a horizontal load item puts into the bracing, before the diaphragms and planes are
@@ -69,8 +91,6 @@ pub struct Acc {
     fallback: Vec<[f64; 3]>,
     /// Per diaphragm and joined plane: force by the lever rule, kN.
     lever: Vec<f64>,
-    /// Work space: the supports of one post.
-    supports: Vec<f64>,
 }
 
 impl Acc {
@@ -139,25 +159,104 @@ pub enum PathFailure {
     },
 }
 
-/// A vertical force at a post node from a brace: (post, level, kN upward reaction, brace).
-pub type BraceForce = (u32, f64, f64, u32);
-
 /// The reactions of one horizontal item under one diaphragm assumption.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct Reactions {
-    /// Brace vertical components at post nodes.
-    pub brace: Vec<BraceForce>,
-    /// Horizontal reaction at each post's base, kN (x, y), for posts that take any.
+    /// Vertical components of the brace forces entering each post at its nodes, kN (as upward
+    /// reactions at a plate under it): (post, kN), by post.
+    pub vertical: Vec<(u32, f64)>,
+    /// Horizontal reaction at the base of each post that takes any: (post, [x, y] kN), by post.
     pub shear: Vec<(u32, [f64; 2])>,
+    /// Shear of each lift of each braced plane (flat over the planes' levels, lift `k` below
+    /// level `k`), along the plane's axis, kN.
+    pub lift_shear: Vec<f64>,
 }
 
-/// The bracing of a model, ready to carry loads.
+/// Values that add and scale.
+trait Linear: Copy {
+    fn zero() -> Self;
+    fn axpy(self, s: f64, o: Self) -> Self;
+}
+
+impl Linear for f64 {
+    fn zero() -> Self {
+        0.0
+    }
+    fn axpy(self, s: f64, o: Self) -> Self {
+        self + s * o
+    }
+}
+
+impl Linear for [f64; 2] {
+    fn zero() -> Self {
+        [0.0; 2]
+    }
+    fn axpy(self, s: f64, o: Self) -> Self {
+        [self[0] + s * o[0], self[1] + s * o[1]]
+    }
+}
+
+/// Σ sᵢ·listᵢ of lists sorted by post, merged in one pass each.
+fn combine_sorted<T: Linear>(parts: &[(f64, &[(u32, T)])]) -> Vec<(u32, T)> {
+    let mut out: Vec<(u32, T)> = Vec::with_capacity(parts.iter().map(|p| p.1.len()).max().unwrap_or(0));
+    for &(s, list) in parts {
+        if out.is_empty() {
+            out.extend(list.iter().map(|&(p, v)| (p, T::zero().axpy(s, v))));
+            continue;
+        }
+        let mut merged = Vec::with_capacity(out.len() + list.len());
+        let (mut i, mut j) = (0, 0);
+        while i < out.len() || j < list.len() {
+            let take_a = j >= list.len() || (i < out.len() && out[i].0 < list[j].0);
+            let take_b = i >= out.len() || (j < list.len() && list[j].0 < out[i].0);
+            if take_a {
+                merged.push(out[i]);
+                i += 1;
+            } else if take_b {
+                merged.push((list[j].0, T::zero().axpy(s, list[j].1)));
+                j += 1;
+            } else {
+                merged.push((out[i].0, out[i].1.axpy(s, list[j].1)));
+                i += 1;
+                j += 1;
+            }
+        }
+        out = merged;
+    }
+    out
+}
+
+impl Reactions {
+    /// Σ sᵢ·Rᵢ.
+    fn combine(parts: &[(f64, &Reactions)]) -> Reactions {
+        let vertical = combine_sorted(&parts.iter().map(|&(s, r)| (s, r.vertical.as_slice())).collect::<Vec<_>>());
+        let shear = combine_sorted(&parts.iter().map(|&(s, r)| (s, r.shear.as_slice())).collect::<Vec<_>>());
+        let n = parts.iter().map(|p| p.1.lift_shear.len()).max().unwrap_or(0);
+        let mut lift_shear = vec![0.0; n];
+        for &(s, r) in parts {
+            for (a, b) in lift_shear.iter_mut().zip(&r.lift_shear) {
+                *a += s * b;
+            }
+        }
+        Reactions { vertical, shear, lift_shear }
+    }
+}
+
+/// The bracing of a model, ready to carry loads: diaphragm sharing prepared, and where a unit
+/// force at each notional-load node goes, along each axis.
 #[derive(Debug, Clone)]
 pub struct Network<'m, 's> {
     model: &'m Model<'s>,
     plane_first: Vec<usize>,
     prepared: Vec<Prepared>,
     n_lever: usize,
+    /// Slot of each notional-load node: nodes at one post and level share one.
+    node_slot: Vec<u32>,
+    /// Per slot and axis (`2 · slot + axis`): first entry in `slot_targets`.
+    slot_first: Vec<u32>,
+    slot_targets: Vec<(Target, f64)>,
+    /// Per slot and axis that cannot take a force: (`2 · slot + axis`, why), ascending.
+    slot_fail: Vec<(u32, PathFailure)>,
 }
 
 /// Labels of the two diaphragm assumptions.
@@ -166,8 +265,9 @@ pub const LEVER_RULE: &str = "lever rule between adjacent braced planes";
 pub const RIGID: &str = "rigid diaphragm, equally stiff planes, twist shared";
 
 impl<'m, 's> Network<'m, 's> {
-    /// Prepare the bracing of a validated model.
-    pub fn new(model: &'m Model<'s>) -> Self {
+    /// Prepare the bracing of a validated model, for notional load at the nodes `node_at`
+    /// ((post, level) where vertical load enters a post).
+    pub fn new(model: &'m Model<'s>, node_at: &[(usize, f64)]) -> Self {
         let bracing = &model.bracing;
         let scene = model.scene;
         let mut plane_first = Vec::with_capacity(bracing.planes.len() + 1);
@@ -192,15 +292,14 @@ impl<'m, 's> Network<'m, 's> {
                     .map(|&(p, _)| {
                         let plane = &bracing.planes[p as usize];
                         match plane.axis {
-                            Axis::X => [1.0, 0.0, -(plane.coord - origin.1)],
-                            Axis::Y => [0.0, 1.0, plane.coord - origin.0],
+                            Axis::X => [1.0, 0.0, -(plane.coord - origin.1) / size],
+                            Axis::Y => [0.0, 1.0, (plane.coord - origin.0) / size],
                         }
                     })
                     .collect();
-                // Twist scaled by the size so the matrix is well balanced.
                 let mut k = Matrix3::zeros();
                 for v in &g {
-                    let v = Vector3::new(v[0], v[1], v[2] / size);
+                    let v = Vector3::new(v[0], v[1], v[2]);
                     k += v * v.transpose();
                 }
                 let eig = k.symmetric_eigen();
@@ -218,12 +317,61 @@ impl<'m, 's> Network<'m, 's> {
                     v.sort_by(|a, b| a.0.total_cmp(&b.0));
                     (v.iter().map(|e| e.0).collect(), v.iter().map(|e| e.1).collect())
                 });
-                let prep = Prepared { origin, g, k_inv, k, lever, size, slot };
+                let prep = Prepared { origin, g, k, k_inv, lever, size, slot, two_ways: d.planes.len() >= 3 };
                 slot += d.planes.len();
                 prep
             })
             .collect();
-        Network { model, plane_first, prepared, n_lever: slot }
+        // Slots: the distinct (post, level) of the nodes, found per post.
+        let n_posts = scene.posts.len();
+        let mut by_post = vec![0u32; n_posts + 1];
+        for &(p, _) in node_at {
+            by_post[p + 1] += 1;
+        }
+        for p in 0..n_posts {
+            by_post[p + 1] += by_post[p];
+        }
+        let mut order = vec![0u32; node_at.len()];
+        let mut fill = by_post.clone();
+        for (n, &(p, _)) in node_at.iter().enumerate() {
+            order[fill[p] as usize] = n as u32;
+            fill[p] += 1;
+        }
+        let mut node_slot = vec![0u32; node_at.len()];
+        let mut slots: Vec<(u32, f64)> = Vec::with_capacity(node_at.len() / 2);
+        for p in 0..n_posts {
+            let first_slot = slots.len();
+            for &n in &order[by_post[p] as usize..by_post[p + 1] as usize] {
+                let z = node_at[n as usize].1;
+                let s = match slots[first_slot..].iter().position(|e| e.1 == z) {
+                    Some(k) => first_slot + k,
+                    None => {
+                        slots.push((p as u32, z));
+                        slots.len() - 1
+                    }
+                };
+                node_slot[n as usize] = s as u32;
+            }
+        }
+        let mut net = Network { model, plane_first, prepared, n_lever: slot, node_slot, slot_first: Vec::with_capacity(2 * slots.len() + 1), slot_targets: Vec::new(), slot_fail: Vec::new() };
+        let mut targets = Vec::with_capacity(2 * slots.len());
+        for &(post, z) in &slots {
+            for axis in 0..2 {
+                net.slot_first.push(targets.len() as u32);
+                // Most nodes are at a level where the post is held: all of it goes there.
+                let holds = bracing.holds(post as usize, axis);
+                if let Some(h) = holds.iter().find(|h| h.level == z) {
+                    targets.push((net.target_of(h, post), 1.0));
+                    continue;
+                }
+                if let Err(fail) = net.distribute(post, BeamLoad::Point { at: z, p: 1.0 }, axis, &mut |t, w| targets.push((t, w))) {
+                    net.slot_fail.push(((net.slot_first.len() - 1) as u32, fail));
+                }
+            }
+        }
+        net.slot_first.push(targets.len() as u32);
+        net.slot_targets = targets;
+        net
     }
 
     /// An empty accumulation.
@@ -235,73 +383,100 @@ impl<'m, 's> Network<'m, 's> {
             rigid: vec![[0.0; 3]; d],
             fallback: vec![[0.0; 3]; d],
             lever: vec![0.0; self.n_lever],
-            supports: Vec::new(),
         }
     }
 
-    /// A load on post `post` along its height — `load` gives positions as levels and its
-    /// magnitude along the plan direction `dir` (a unit vector or any multiple of one). The post's
-    /// standard spans between the levels where it is held, and from its base if that is the ground.
-    pub fn post_load(&self, acc: &mut Acc, fails: &mut Vec<PathFailure>, post: u32, load: BeamLoad, dir: [f64; 2]) {
+    /// Where a load on post `post` along one axis goes: `load` gives positions as levels and its
+    /// magnitude along the axis. The post's standard spans between the levels where it is held,
+    /// and from its base if that is the ground.
+    fn distribute(&self, post: u32, load: BeamLoad, axis: usize, sink: &mut impl FnMut(Target, f64)) -> Result<(), PathFailure> {
         let bracing = &self.model.bracing;
-        let p = &self.model.scene.posts[post as usize];
         let (low, grounded) = bracing.standard[post as usize];
         let base = self.model.scene.posts[low as usize].base_level;
-        let mut supports = std::mem::take(&mut acc.supports);
+        let holds = bracing.holds(post as usize, axis);
+        let (bottom_of_load, top_of_load) = match load {
+            BeamLoad::Point { at, .. } => (at, at),
+            BeamLoad::Uniform { from, to, .. } => (from, to),
+        };
+        let Some(top) = holds.last().map(|h| h.level) else {
+            if grounded && top_of_load <= base + TOL {
+                sink(Target::Base(low), load.total());
+                return Ok(());
+            }
+            return Err(PathFailure::NotHeld { post, axis });
+        };
+        if top_of_load > top + TOL {
+            return Err(PathFailure::AboveTop { post, axis, level: top_of_load, top });
+        }
+        if !grounded && bottom_of_load < holds[0].level - TOL {
+            return Err(PathFailure::BelowBottom { post, axis, level: bottom_of_load, bottom: holds[0].level });
+        }
+        let target = |k: usize| self.target_of(&holds[k], post);
+        // A point exactly at a hold (the usual node) goes there whole.
+        if let BeamLoad::Point { at, p } = load {
+            if let Some(k) = holds.iter().position(|h| h.level == at) {
+                sink(target(k), p);
+                return Ok(());
+            }
+        }
+        // Supports: the base (when it is the ground), then each hold (a handful per post: on the
+        // stack unless there are many).
+        let mut stack = [0.0f64; 8];
+        let mut heap = Vec::new();
+        let n = holds.len() + usize::from(grounded);
+        let supports: &mut [f64] = if n <= stack.len() {
+            &mut stack[..n]
+        } else {
+            heap.resize(n, 0.0);
+            &mut heap
+        };
+        if grounded {
+            supports[0] = base.min(holds[0].level - crate::scene::validate::MIN_SPAN_M);
+        }
+        for (s, h) in supports[usize::from(grounded)..].iter_mut().zip(holds) {
+            *s = h.level;
+        }
+        // Within the tolerance beyond the end supports, a load overhangs them, balanced about the
+        // end support (exact statics, no shift of the load).
+        let first = usize::from(grounded);
+        share_simple(supports, &load, &mut |k, _, r| sink(if k < first { Target::Base(low) } else { target(k - first) }, r));
+        Ok(())
+    }
+
+    /// Where a force held by `h` at post `post` goes.
+    fn target_of(&self, h: &crate::scene::bracing::Hold, post: u32) -> Target {
+        match h.by {
+            Holder::Plane { plane, level } => Target::Plane((self.plane_first[plane as usize] + level as usize) as u32),
+            Holder::Diaphragm(d) => Target::Diaphragm(d, post),
+        }
+    }
+
+    fn apply(&self, acc: &mut Acc, target: Target, axis: usize, f: f64) {
+        match target {
+            Target::Base(p) => acc.base[p as usize][axis] += f,
+            Target::Plane(i) => acc.plane[i as usize] += f,
+            Target::Diaphragm(d, post) => {
+                let p = &self.model.scene.posts[post as usize];
+                let force = if axis == 0 { [f, 0.0] } else { [0.0, f] };
+                self.to_diaphragm(acc, d as usize, p.x, p.y, force);
+            }
+        }
+    }
+
+    /// A load on post `post` along its height, in plan direction `dir` (a unit vector or any
+    /// multiple of one): `load` gives positions as levels.
+    pub fn post_load(&self, acc: &mut Acc, fails: &mut Vec<PathFailure>, post: u32, load: BeamLoad, dir: [f64; 2]) {
         for axis in 0..2 {
             let c = dir[axis];
             if c == 0.0 || load.total() == 0.0 {
                 continue;
             }
-            let holds = &bracing.holds[post as usize][axis];
-            let (bottom_of_load, top_of_load) = match load {
-                BeamLoad::Point { at, .. } => (at, at),
-                BeamLoad::Uniform { from, to, .. } => (from, to),
-            };
-            let Some(top) = holds.last().map(|h| h.level) else {
-                if grounded && top_of_load <= base + TOL {
-                    acc.base[low as usize][axis] += c * load.total();
-                } else {
-                    fails.push(PathFailure::NotHeld { post, axis });
-                }
-                continue;
-            };
-            if top_of_load > top + TOL {
-                fails.push(PathFailure::AboveTop { post, axis, level: top_of_load, top });
-                continue;
+            let mut parts: Vec<(Target, f64)> = Vec::new();
+            match self.distribute(post, load, axis, &mut |t, r| parts.push((t, r))) {
+                Ok(()) => parts.into_iter().for_each(|(t, r)| self.apply(acc, t, axis, c * r)),
+                Err(f) => fails.push(f),
             }
-            if !grounded && bottom_of_load < holds[0].level - TOL {
-                fails.push(PathFailure::BelowBottom { post, axis, level: bottom_of_load, bottom: holds[0].level });
-                continue;
-            }
-            // Supports: the base (when it is the ground), then each hold (a handful per post).
-            supports.clear();
-            if grounded {
-                supports.push(base.min(holds[0].level - crate::scene::validate::MIN_SPAN_M));
-            }
-            supports.extend(holds.iter().map(|h| h.level));
-            let first = if grounded { 1 } else { 0 };
-            let lowest = supports[0];
-            let scaled = match load {
-                BeamLoad::Point { at, p: f } => BeamLoad::Point { at: at.clamp(lowest, top), p: c * f },
-                BeamLoad::Uniform { from, to, w } => BeamLoad::Uniform { from: from.max(lowest), to: to.min(top), w: c * w },
-            };
-            let (x, y) = (p.x, p.y);
-            share_simple(&supports, &scaled, &mut |k, _, r| {
-                if k < first {
-                    acc.base[low as usize][axis] += r;
-                } else {
-                    match holds[k - first].by {
-                        Holder::Plane { plane, level } => acc.plane[self.plane_first[plane as usize] + level as usize] += r,
-                        Holder::Diaphragm(d) => {
-                            let f = if axis == 0 { [r, 0.0] } else { [0.0, r] };
-                            self.to_diaphragm(acc, d as usize, x, y, f);
-                        }
-                    }
-                }
-            });
         }
-        acc.supports = supports;
     }
 
     /// A point force `f` (x, y kN) on diaphragm `d` at plan point (x, y).
@@ -335,6 +510,53 @@ impl<'m, 's> Network<'m, 's> {
         }
     }
 
+    /// The notional-load nodes' loads along each axis, into `acc[0][axis]` for the permanent
+    /// load (G) and `acc[1][axis]` for permanent and imposed together (G + Q); the failures of
+    /// the slots that carry load, likewise.
+    fn nodes_load(&self, acc: &mut [[Acc; 2]; 2], fails: &mut [[Vec<PathFailure>; 2]; 2], load: &[[f64; 3]]) {
+        let mut v = vec![[0.0f64; 2]; self.slot_first.len() / 2];
+        for (&s, l) in self.node_slot.iter().zip(load) {
+            let e = &mut v[s as usize];
+            e[0] += l[0];
+            e[1] += l[0] + l[1];
+        }
+        for &(i, ref fail) in &self.slot_fail {
+            let (s, axis) = (i as usize / 2, i as usize % 2);
+            for c in 0..2 {
+                if v[s][c] != 0.0 {
+                    fails[c][axis].push(fail.clone());
+                }
+            }
+        }
+        let [g, q] = acc;
+        let ([gx, gy], [qx, qy]) = (g, q);
+        for (s, &[fg, fq]) in v.iter().enumerate() {
+            if fg == 0.0 && fq == 0.0 {
+                continue;
+            }
+            for axis in 0..2 {
+                let i = 2 * s + axis;
+                let (ag, aq) = if axis == 0 { (&mut *gx, &mut *qx) } else { (&mut *gy, &mut *qy) };
+                for &(t, w) in &self.slot_targets[self.slot_first[i] as usize..self.slot_first[i + 1] as usize] {
+                    match t {
+                        Target::Base(p) => {
+                            ag.base[p as usize][axis] += fg * w;
+                            aq.base[p as usize][axis] += fq * w;
+                        }
+                        Target::Plane(k) => {
+                            ag.plane[k as usize] += fg * w;
+                            aq.plane[k as usize] += fq * w;
+                        }
+                        t => {
+                            self.apply(ag, t, axis, fg * w);
+                            self.apply(aq, t, axis, fq * w);
+                        }
+                    }
+                }
+            }
+        }
+    }
+
     /// Forces on the joined planes of diaphragm `d` for a resultant (Fx, Fy, twist), rigid and
     /// equally stiff; `None` if the planes cannot resist it.
     fn rigid_share(&self, d: usize, f: [f64; 3]) -> Option<Vec<f64>> {
@@ -348,18 +570,27 @@ impl<'m, 's> Network<'m, 's> {
         if (prep.k * u - rhs).norm() > 1e-9 * scale {
             return None;
         }
-        Some(prep.g.iter().map(|g| g[0] * u[0] + g[1] * u[1] + g[2] / prep.size * u[2]).collect())
+        Some(prep.g.iter().map(|g| g[0] * u[0] + g[1] * u[1] + g[2] * u[2]).collect())
     }
 
-    /// Solve the diaphragms and planes for an accumulation: one set of reactions, or two when a
-    /// loaded diaphragm has three or more planes (lever rule first, rigid second).
-    pub fn finish(&self, acc: &Acc, fails: &mut Vec<PathFailure>) -> Vec<Reactions> {
+    /// Whether an accumulation loads a diaphragm that is shared two ways.
+    fn two_ways(&self, acc: &Acc) -> bool {
+        self.prepared.iter().enumerate().any(|(d, p)| p.two_ways && self.loads(acc, d))
+    }
+
+    fn loads(&self, acc: &Acc, d: usize) -> bool {
+        let prep = &self.prepared[d];
+        acc.rigid[d].iter().any(|v| *v != 0.0) || acc.lever[prep.slot..prep.slot + prep.g.len()].iter().any(|v| *v != 0.0)
+    }
+
+    /// Solve the diaphragms and planes for an accumulation: one set of reactions, or `ways` (2:
+    /// lever rule first, rigid second). Base shear only when `shear` is asked for.
+    pub fn finish(&self, acc: &Acc, fails: &mut Vec<PathFailure>, ways: usize, shear: bool) -> Vec<Reactions> {
         let bracing = &self.model.bracing;
-        let loaded = |d: usize| acc.rigid[d].iter().any(|v| *v != 0.0) || acc.lever[self.prepared[d].slot..self.prepared[d].slot + bracing.diaphragms[d].planes.len()].iter().any(|v| *v != 0.0);
-        let two = (0..self.prepared.len()).any(|d| loaded(d) && bracing.diaphragms[d].planes.len() >= 3);
-        let mut totals = vec![acc.plane.clone(); 1 + two as usize];
+        let n = self.model.scene.posts.len();
+        let mut totals = vec![acc.plane.clone(); ways];
         for (d, dia) in bracing.diaphragms.iter().enumerate() {
-            if !loaded(d) {
+            if !self.loads(acc, d) {
                 continue;
             }
             let prep = &self.prepared[d];
@@ -372,7 +603,7 @@ impl<'m, 's> Network<'m, 's> {
                     total[self.plane_first[p as usize] + k as usize] += f;
                 }
             };
-            if two {
+            if ways == 2 && prep.two_ways {
                 let Some(mut lever) = self.rigid_share(d, acc.fallback[d]) else {
                     fails.push(PathFailure::Diaphragm { diaphragm: d as u32, load: acc.fallback[d] });
                     continue;
@@ -383,37 +614,42 @@ impl<'m, 's> Network<'m, 's> {
                 add(&mut totals[0], &lever);
                 add(&mut totals[1], &rigid);
             } else {
-                add(&mut totals[0], &rigid);
+                for t in &mut totals {
+                    add(t, &rigid);
+                }
             }
         }
+        let mut vertical = vec![0.0; n];
+        let mut base: Vec<[f64; 2]> = if shear { vec![[0.0; 2]; n] } else { Vec::new() };
         totals
             .iter()
             .map(|forces| {
-                let mut out = Reactions::default();
-                let mut ground: Vec<(u32, [f64; 2])> = Vec::new();
+                let mut lift_shear = vec![0.0; forces.len()];
+                if shear {
+                    for (b, a) in base.iter_mut().zip(&acc.base) {
+                        *b = [-a[0], -a[1]];
+                    }
+                }
                 for (pk, plane) in bracing.planes.iter().enumerate() {
-                    let f = &forces[self.plane_first[pk]..self.plane_first[pk + 1]];
-                    if f.iter().all(|v| *v == 0.0) {
+                    let range = self.plane_first[pk]..self.plane_first[pk + 1];
+                    if forces[range.clone()].iter().all(|v| *v == 0.0) {
                         continue;
                     }
-                    solve_plane(plane, f, &mut out.brace, &mut ground);
+                    solve_plane(plane, &forces[range.clone()], &mut vertical, &mut base, &mut lift_shear[range]);
                 }
-                for (p, b) in acc.base.iter().enumerate() {
-                    if b[0] != 0.0 || b[1] != 0.0 {
-                        ground.push((p as u32, *b));
+                let mut out_vertical: Vec<(u32, f64)> = Vec::with_capacity(n);
+                for (p, v) in vertical.iter_mut().enumerate() {
+                    if *v != 0.0 {
+                        out_vertical.push((p as u32, std::mem::take(v)));
                     }
                 }
-                ground.sort_by_key(|g| g.0);
-                for (p, f) in ground {
-                    match out.shear.last_mut() {
-                        Some(last) if last.0 == p => {
-                            last.1[0] -= f[0];
-                            last.1[1] -= f[1];
-                        }
-                        _ => out.shear.push((p, [-f[0], -f[1]])),
+                let mut out_shear: Vec<(u32, [f64; 2])> = Vec::with_capacity(if shear { n } else { 0 });
+                for (p, &s) in base.iter().enumerate() {
+                    if s != [0.0; 2] {
+                        out_shear.push((p as u32, s));
                     }
                 }
-                out
+                Reactions { vertical: out_vertical, shear: out_shear, lift_shear }
             })
             .collect()
     }
@@ -424,30 +660,47 @@ impl<'m, 's> Network<'m, 's> {
     }
 }
 
-/// Solve one plane lift by lift for the forces put into it at its levels (along its axis).
-/// Brace vertical components go to `brace`; force into the ground at the foot of each ground-lift
-/// diagonal to `ground` (post, [x, y]).
-fn solve_plane(plane: &Plane, forces: &[f64], brace: &mut Vec<BraceForce>, ground: &mut Vec<(u32, [f64; 2])>) {
-    let mut shear = 0.0;
+/// Solve one plane lift by lift for the forces put into it at its levels (along its axis):
+/// brace vertical components into `vertical` (per post), base shear reactions at the feet of the
+/// ground-lift diagonals into `base` (per post, if not empty), the shear of each lift into
+/// `lift_shear`.
+fn solve_plane(plane: &Plane, forces: &[f64], vertical: &mut [f64], base: &mut [[f64; 2]], lift_shear: &mut [f64]) {
+    let mut v = 0.0;
     for k in (0..plane.levels.len()).rev() {
-        shear += forces[k];
-        if shear == 0.0 {
+        v += forces[k];
+        lift_shear[k] = v;
+        if v == 0.0 {
             continue;
         }
         for d in &plane.lifts[k] {
-            let v = shear * d.share;
-            let vertical = v * d.rise() / d.run;
-            brace.push((d.lower, d.lower_level, -vertical, d.brace));
-            brace.push((d.upper, d.upper_level, vertical, d.brace));
-            if k == 0 {
-                let f = match plane.axis {
-                    Axis::X => [v, 0.0],
-                    Axis::Y => [0.0, v],
-                };
-                ground.push((d.lower, f));
+            let vj = v * d.share;
+            let component = vj * d.rise() / d.run;
+            vertical[d.lower as usize] -= component;
+            vertical[d.upper as usize] += component;
+            if k == 0 && !base.is_empty() {
+                base[d.lower as usize][plane.axis as usize] -= vj;
             }
         }
     }
+}
+
+/// The vertical component a diagonal puts into the post at its `end` (lower or upper) for the
+/// shear `v` of its lift, kN (as an upward reaction under the post).
+pub fn diagonal_component(d: &crate::scene::bracing::Diagonal, lift_shear: f64, upper: bool) -> f64 {
+    let c = lift_shear * d.share * d.rise() / d.run;
+    if upper { c } else { -c }
+}
+
+/// First index of each plane's levels in the flat per-plane-level lists ([`Reactions::lift_shear`]).
+pub fn plane_offsets(bracing: &Bracing) -> Vec<usize> {
+    let mut out = Vec::with_capacity(bracing.planes.len() + 1);
+    let mut n = 0;
+    for p in &bracing.planes {
+        out.push(n);
+        n += p.levels.len();
+    }
+    out.push(n);
+    out
 }
 
 fn axis_name(axis: usize) -> &'static str {
@@ -564,36 +817,26 @@ pub struct NodeLoads<'a> {
     pub moments: [[f64; 4]; 3],
 }
 
-/// The responses to notional load of each basis case (G, Q) along each axis, per unit share.
+/// The reactions to notional load of each basis case (G, Q) along each axis, per unit share.
+/// `sets[0][axis]`: permanent load (G) alone; `sets[1][axis]`: permanent and imposed together.
 struct Responses {
-    acc: [[Acc; 2]; 2],
+    sets: [[Vec<Reactions>; 2]; 2],
     fails: [[Vec<PathFailure>; 2]; 2],
 }
 
 fn responses(net: &Network, nodes: &NodeLoads) -> Responses {
-    let one = |c: usize, a: usize| {
-        let mut acc = net.acc();
-        let mut fails = Vec::new();
-        let dir = if a == 0 { [1.0, 0.0] } else { [0.0, 1.0] };
-        for (&(post, z), v) in nodes.at.iter().zip(nodes.load) {
-            if v[c] != 0.0 {
-                net.post_load(&mut acc, &mut fails, post as u32, BeamLoad::Point { at: z, p: v[c] }, dir);
-            }
+    let mut accs = [[net.acc(), net.acc()], [net.acc(), net.acc()]];
+    let mut fails: [[Vec<PathFailure>; 2]; 2] = Default::default();
+    net.nodes_load(&mut accs, &mut fails, nodes.load);
+    let ways = if accs.iter().flatten().any(|a| net.two_ways(a)) { 2 } else { 1 };
+    let mut sets: [[Vec<Reactions>; 2]; 2] = Default::default();
+    for c in 0..2 {
+        for a in 0..2 {
+            sets[c][a] = net.finish(&accs[c][a], &mut fails[c][a], ways, true);
         }
-        (acc, fails)
-    };
-    let (g0, fg0) = one(0, 0);
-    let (g1, fg1) = one(0, 1);
-    let (q0, fq0) = one(1, 0);
-    let (q1, fq1) = one(1, 1);
-    Responses { acc: [[g0, g1], [q0, q1]], fails: [[fg0, fg1], [fq0, fq1]] }
+    }
+    Responses { sets, fails }
 }
-
-use crate::scene::loads::{Case, LoadKind, PlanDirection};
-use crate::scene::model::NotionalRule;
-use crate::scene::bracing::Placement;
-use crate::solve::items::{Action, Alternative, Item, Resultant, Route};
-use crate::solve::load_path::Solver;
 
 /// Resultant of the forces a horizontal load applies, from its own definition. A notional load
 /// takes `percent` of the vertical load of `basis` at every node where that load enters a post.
@@ -658,6 +901,7 @@ pub fn direction_name(d: PlanDirection) -> String {
 /// One horizontal load that cannot reach the ground: its id and the reasons.
 pub type PathProblem = (String, Vec<String>);
 
+
 /// A horizontal load item carried down the bracing, before its brace forces are routed to the
 /// plates ([`route_item`]).
 #[derive(Debug, Clone)]
@@ -684,36 +928,38 @@ pub struct HorizontalItem {
 
 /// Carry every horizontal load of the scene down the bracing, and generate the notional load of
 /// the scene's rule (after the scene's own loads, in checked-direction order).
-pub fn horizontal_items(model: &Model, nodes: &NodeLoads) -> Result<Vec<HorizontalItem>, Vec<PathProblem>> {
+pub fn horizontal_items(model: &Model, net: &Network, nodes: &NodeLoads) -> Result<Vec<HorizontalItem>, Vec<PathProblem>> {
     let scene = model.scene;
-    let net = Network::new(model);
     let mut problems: Vec<PathProblem> = Vec::new();
     let mut out: Vec<HorizontalItem> = Vec::new();
     let own_notional = scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. }));
     let rule = scene.horizontal.notional;
-    let resp = (own_notional || rule != NotionalRule::Off).then(|| responses(&net, nodes));
-    let notional_acc = |resp: &Responses, percent: f64, direction: PlanDirection, basis: &[Case], fails: &mut Vec<PathFailure>| {
+    let resp = (own_notional || rule != NotionalRule::Off).then(|| responses(net, nodes));
+    // A notional item: the unit responses of its basis cases and axes, scaled and added.
+    let notional = |resp: &Responses, percent: f64, direction: PlanDirection, basis: &[Case], fails: &mut Vec<PathFailure>| -> Vec<Reactions> {
         let (ux, uy) = direction.unit();
         let u = [ux, uy];
-        let mut acc = net.acc();
-        for c in basis.iter().filter_map(|c| match c {
-            Case::G => Some(0),
-            Case::Q => Some(1),
-            Case::W => None,
-        }) {
+        // G + Q, G alone, or Q alone as (G + Q) − G.
+        let (g, q) = (basis.contains(&Case::G), basis.contains(&Case::Q));
+        let terms: &[(usize, f64)] = match (g, q) {
+            (true, true) => &[(1, 1.0)],
+            (true, false) => &[(0, 1.0)],
+            (false, true) => &[(1, 1.0), (0, -1.0)],
+            (false, false) => &[],
+        };
+        let mut parts: Vec<(f64, &Vec<Reactions>)> = Vec::new();
+        for &(c, sign) in terms {
             for a in 0..2 {
                 if u[a].abs() > 1e-12 {
-                    acc.add_scaled(percent / 100.0 * u[a], &resp.acc[c][a]);
                     fails.extend(resp.fails[c][a].iter().cloned());
+                    parts.push((sign * percent / 100.0 * u[a], &resp.sets[c][a]));
                 }
             }
         }
-        acc
+        let ways = parts.iter().map(|p| p.1.len()).max().unwrap_or(1);
+        (0..ways).map(|v| Reactions::combine(&parts.iter().map(|&(s, sets)| (s, &sets[v.min(sets.len() - 1)])).collect::<Vec<_>>())).collect()
     };
-    #[allow(clippy::too_many_arguments)]
-    let mut finish = |slot: Option<usize>, id: String, label: String, case: Case, kind: &LoadKind, action: Action, note: String, acc: &Acc, permanent: Option<&Acc>, mut fails: Vec<PathFailure>| {
-        let sets = net.finish(acc, &mut fails);
-        let permanent = permanent.map(|p| net.finish(p, &mut Vec::new()));
+    let mut finish = |slot: Option<usize>, id: String, label: String, case: Case, kind: &LoadKind, action: Action, note: String, sets: Vec<Reactions>, permanent: Option<Vec<Reactions>>, fails: Vec<PathFailure>| {
         if !fails.is_empty() {
             problems.push((label, net.describe(&fails)));
             return;
@@ -730,41 +976,44 @@ pub fn horizontal_items(model: &Model, nodes: &NodeLoads) -> Result<Vec<Horizont
             continue;
         }
         let mut fails = Vec::new();
-        let mut acc = net.acc();
-        let mut permanent = None;
-        let action = match &load.kind {
-            LoadKind::Horizontal { x, y, level, kn, direction } => {
-                let (ux, uy) = direction.unit();
-                match model.bracing.placements.get(k) {
-                    Some(Placement::Post(p)) => net.post_load(&mut acc, &mut fails, *p, BeamLoad::Point { at: *level, p: *kn }, [ux, uy]),
-                    Some(Placement::Diaphragm(d)) => net.diaphragm_load(&mut acc, *d, *x, *y, [kn * ux, kn * uy]),
-                    _ => unreachable!("validation places every horizontal force"),
-                }
-                Action::Identified
-            }
-            LoadKind::Wind { face, kpa, direction } => {
-                let (ux, uy) = direction.unit();
-                let f = wind_force(face, *kpa, *direction);
-                if let Some(Placement::Face { posts, length }) = model.bracing.placements.get(k) {
-                    let along: Vec<f64> = posts.iter().map(|p| p.1).collect();
-                    let height = face.top - face.bottom;
-                    share_simple(&along, &BeamLoad::Uniform { from: 0.0, to: *length, w: f / length }, &mut |j, _, r| {
-                        net.post_load(&mut acc, &mut fails, posts[j].0, BeamLoad::Uniform { from: face.bottom, to: face.top, w: r / height }, [ux, uy]);
-                    });
-                }
-                Action::Wind
-            }
+        let (action, sets, permanent) = match &load.kind {
             LoadKind::Notional { percent, direction, basis } => {
                 let resp = resp.as_ref().expect("made when the scene has notional loads");
-                acc = notional_acc(resp, *percent, *direction, basis, &mut fails);
-                if basis.iter().any(|c| *c != Case::G) {
-                    permanent = Some(notional_acc(resp, *percent, *direction, &[Case::G], &mut Vec::new()));
-                }
-                Action::Notional
+                let sets = notional(resp, *percent, *direction, basis, &mut fails);
+                let permanent = basis.iter().any(|c| *c != Case::G).then(|| notional(resp, *percent, *direction, &[Case::G], &mut Vec::new()));
+                (Action::Notional, sets, permanent)
             }
-            _ => unreachable!("only horizontal loads"),
+            kind => {
+                let mut acc = net.acc();
+                let action = match kind {
+                    LoadKind::Horizontal { x, y, level, kn, direction } => {
+                        let (ux, uy) = direction.unit();
+                        match model.bracing.placements.get(k) {
+                            Some(Placement::Post(p)) => net.post_load(&mut acc, &mut fails, *p, BeamLoad::Point { at: *level, p: *kn }, [ux, uy]),
+                            Some(Placement::Diaphragm(d)) => net.diaphragm_load(&mut acc, *d, *x, *y, [kn * ux, kn * uy]),
+                            _ => unreachable!("validation places every horizontal force"),
+                        }
+                        Action::Identified
+                    }
+                    LoadKind::Wind { face, kpa, direction } => {
+                        let (ux, uy) = direction.unit();
+                        let f = wind_force(face, *kpa, *direction);
+                        if let Some(Placement::Face { posts, length }) = model.bracing.placements.get(k) {
+                            let along: Vec<f64> = posts.iter().map(|p| p.1).collect();
+                            let height = face.top - face.bottom;
+                            share_simple(&along, &BeamLoad::Uniform { from: 0.0, to: *length, w: f / length }, &mut |j, _, r| {
+                                net.post_load(&mut acc, &mut fails, posts[j].0, BeamLoad::Uniform { from: face.bottom, to: face.top, w: r / height }, [ux, uy]);
+                            });
+                        }
+                        Action::Wind
+                    }
+                    _ => unreachable!("only horizontal loads"),
+                };
+                let ways = if net.two_ways(&acc) { 2 } else { 1 };
+                (action, net.finish(&acc, &mut fails, ways, true), None)
+            }
         };
-        finish(Some(k), load.id.clone(), load.id.clone(), load.case, &load.kind, action, String::new(), &acc, permanent.as_ref(), fails);
+        finish(Some(k), load.id.clone(), load.id.clone(), load.case, &load.kind, action, String::new(), sets, permanent, fails);
     }
 
     // The notional load of the scene's rule, unless the scene gives its own.
@@ -808,11 +1057,11 @@ pub fn horizontal_items(model: &Model, nodes: &NodeLoads) -> Result<Vec<Horizont
             }
             let basis = [Case::G, Case::Q];
             let mut fails = Vec::new();
-            let acc = notional_acc(resp, percent, d, &basis, &mut fails);
-            let permanent = notional_acc(resp, percent, d, &[Case::G], &mut Vec::new());
+            let sets = notional(resp, percent, d, &basis, &mut fails);
+            let permanent = notional(resp, percent, d, &[Case::G], &mut Vec::new());
             let kind = LoadKind::Notional { percent, direction: d, basis: basis.to_vec() };
             let label = format!("{id} (generated: {})", rule.describe());
-            finish(None, id, label, Case::W, &kind, Action::Notional, note, &acc, Some(&permanent), fails);
+            finish(None, id, label, Case::W, &kind, Action::Notional, note, sets, Some(permanent), fails);
         }
     }
     if problems.is_empty() { Ok(out) } else { Err(problems) }
@@ -826,15 +1075,24 @@ pub const FALSEWORK_PERCENT: f64 = 2.5;
 // + 1 % of the vertical load (REFERENCES §4); its place in BS 5975:2008 is from memory.
 pub const IDENTIFIED_PLUS_PERCENT: f64 = 1.0;
 
-/// Route the brace forces of a horizontal item to the plates: each vertical component enters its
-/// post at its node and flows down through splices and transfer members like any other load. The
-/// primary reactions are traced; the alternative and the permanent part are not.
+/// Route the brace forces of a horizontal item to the plates: each post's vertical components
+/// enter it at its nodes and flow down through splices and transfer members like any other load
+/// (without such members, a post's own plate takes them). The primary reactions are traced, as
+/// one share per post ([`Route::Bracing`]); the alternative and the permanent part are not.
 pub(super) fn route_item(s: &mut Solver, item: u32, h: HorizontalItem) -> Item {
-    let flow = |s: &mut Solver, r: &Reactions, record: bool| {
+    let lifts = s.model.graph.has_lifts();
+    let flow = |s: &mut Solver, r: &Reactions, record: bool| -> (Vec<(u32, f64)>, Vec<(u32, f64)>) {
+        if !lifts {
+            let v = r.vertical.clone();
+            if record {
+                s.contributions_mut().extend(v.iter().map(|&(post, kn)| Contribution { post, item, route: Route::Bracing, kn }));
+            }
+            return (v, Vec::new());
+        }
         let was = s.record;
         s.record = record;
-        for &(post, _level, kn, brace) in &r.brace {
-            s.post_direct(item, post as usize, kn, Route::Brace { brace }, Case::W);
+        for &(post, kn) in &r.vertical {
+            s.post_direct(item, post as usize, kn, Route::Bracing, Case::W);
         }
         s.flow(item, Case::W);
         let t = s.take_item(Item::new(String::new(), Case::W, Resultant::default()));
@@ -865,5 +1123,6 @@ pub(super) fn route_item(s: &mut Solver, item: u32, h: HorizontalItem) -> Item {
     it.action = h.action;
     it.alternative = alternative;
     it.note = h.note;
+    it.lift_shear = h.sets.into_iter().next().map(|r| r.lift_shear).unwrap_or_default();
     it
 }

@@ -81,12 +81,9 @@ pub enum Route {
     PostTop,
     /// The overturning couple of a horizontal load on the rigid braced base.
     Overturning,
-    /// The vertical component of a brace force: brace index in the scene. It reaches the plate
-    /// down the post at the brace's end.
-    Brace {
-        /// Brace index.
-        brace: u32,
-    },
+    /// The vertical components of the brace forces at this post's nodes, from the braced bays
+    /// its post is part of (the item's [`Item::lift_shear`] gives each brace's share).
+    Bracing,
 }
 
 /// What kind of action a load item is, for combining it with the others.
@@ -179,6 +176,9 @@ pub struct Item {
     /// How a generated item was made (e.g. the notional rule and the vertical load it is a share
     /// of); empty for the scene's own loads.
     pub note: String,
+    /// For a horizontal item: the shear of each lift of each braced plane, flat over the planes'
+    /// levels (primary reactions), kN; empty otherwise.
+    pub lift_shear: Vec<f64>,
     /// For an arranged imposed load: its cells and, at every post, the worst arrangement. The
     /// whole-load reactions above are then the case with every cell loaded.
     pub arranged: Option<Arranged>,
@@ -245,6 +245,7 @@ impl Item {
             action: Action::Vertical,
             alternative: None,
             note: String::new(),
+            lift_shear: Vec::new(),
             arranged: None,
         }
     }

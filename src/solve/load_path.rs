@@ -19,7 +19,7 @@ use crate::scene::standing::{Member, StandsOn};
 use crate::solve::beam::{share_simple, BeamLoad, Piece};
 use crate::solve::continuous::ContinuousBeam;
 use crate::scene::loads::{Case, LoadKind};
-use crate::solve::braced::{horizontal_items, route_item, NodeLoads};
+use crate::solve::braced::{horizontal_items, route_item, Network, NodeLoads};
 use crate::scene::validate::{Model, Target};
 use crate::solve::items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
 use crate::solve::passes::{method_passes, Behaviour, MethodPass};
@@ -146,13 +146,19 @@ pub fn solve(model: &Model) -> Result<Solution, SolveError> {
     solve_pass(model, pass)
 }
 
-/// One solution per method pass of the scene ([`method_passes`]), primary first.
+/// One solution per method pass of the scene ([`method_passes`]), primary first. The bracing is
+/// prepared once for them all.
 pub fn solve_methods(model: &Model) -> Result<Vec<Solution>, SolveError> {
-    method_passes(model.scene).into_iter().map(|pass| solve_pass(model, pass)).collect()
+    let net = Network::new(model, &Nodes::new(model).at);
+    method_passes(model.scene).into_iter().map(|pass| solve_with(model, pass, &net)).collect()
 }
 
 /// Carry every load of a validated scene down to the base plates, members behaving as `pass` says.
 pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveError> {
+    solve_with(model, pass, &Network::new(model, &Nodes::new(model).at))
+}
+
+fn solve_with(model: &Model, pass: MethodPass, net: &Network) -> Result<Solution, SolveError> {
     let scene = model.scene;
     let plates: Vec<[f64; 3]> = scene.posts.iter().map(|p| [p.x, p.y, p.base_level]).collect();
     let is_plate: Vec<bool> = (0..scene.posts.len()).map(|p| model.graph.is_plate(p)).collect();
@@ -254,7 +260,7 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
     // nodes and flow down to the plates like any other load.
     s.nodes.sum_moments(scene);
     let nodes = NodeLoads { at: &s.nodes.at, load: &s.nodes.load, moments: s.nodes.moments };
-    let horizontal = horizontal_items(model, &nodes).map_err(|problems| SolveError::HorizontalPath { problems })?;
+    let horizontal = horizontal_items(model, net, &nodes).map_err(|problems| SolveError::HorizontalPath { problems })?;
     // Horizontal loads fill their slots below.
     let mut items: Vec<Item> = items.into_iter().map(|i| i.unwrap_or_else(|| Item::new(String::new(), Case::W, Resultant::default()))).collect();
     for h in horizontal {
@@ -308,6 +314,11 @@ impl<'m, 's> Solver<'m, 's> {
             unbalanced: Vec::new(),
             arranged_tee: Vec::new(),
         }
+    }
+
+    /// The trace of the current solution, to add shares to.
+    pub(super) fn contributions_mut(&mut self) -> &mut Vec<Contribution> {
+        &mut self.contributions
     }
 
     /// Put a member in line to pass its loads on.
