@@ -481,6 +481,57 @@ fn load_arrows(
     d
 }
 
+/// What a line of [`bracing_lines`] shows.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum BracingLine {
+    /// The outline of a braced plane, from the ground to the top of its bracing, and its braced
+    /// levels.
+    Plane,
+    /// Bracing of a plane above a lift with no brace: not counted.
+    NotCounted,
+    /// The outline of a diaphragm at its level, and its diagonals.
+    Diaphragm,
+}
+
+/// Lines that show the braced planes and the diaphragms of an analysis: (from, to, what).
+pub fn bracing_lines(scene: &Scene, bracing: &crate::scene::bracing::Bracing) -> Vec<(V3, V3, BracingLine)> {
+    let mut out = Vec::new();
+    for plane in &bracing.planes {
+        let (Some(&first), Some(&last)) = (plane.posts.first(), plane.posts.last()) else { continue };
+        let (a, z) = (&scene.posts[first as usize], &scene.posts[last as usize]);
+        let base = plane.posts.iter().map(|&p| scene.posts[p as usize].base_level).fold(f64::INFINITY, f64::min);
+        let counted_top = plane.braced_to.checked_sub(1).map(|k| plane.levels[k]);
+        let rect = |lo: f64, hi: f64, kind: BracingLine, out: &mut Vec<(V3, V3, BracingLine)>| {
+            let corners = [[a.x, a.y, lo], [z.x, z.y, lo], [z.x, z.y, hi], [a.x, a.y, hi]];
+            for k in 0..4 {
+                out.push((corners[k], corners[(k + 1) % 4], kind));
+            }
+        };
+        if let Some(top) = counted_top {
+            rect(base, top, BracingLine::Plane, &mut out);
+            for &zl in &plane.levels[..plane.braced_to - 1] {
+                out.push(([a.x, a.y, zl], [z.x, z.y, zl], BracingLine::Plane));
+            }
+        }
+        if let Some(&top) = plane.levels.last() {
+            if plane.braced_to < plane.levels.len() {
+                rect(counted_top.unwrap_or(base), top, BracingLine::NotCounted, &mut out);
+            }
+        }
+    }
+    for d in &bracing.diaphragms {
+        let ((x0, x1), (y0, y1)) = d.bounds;
+        let z = d.level;
+        let corners = [[x0, y0, z], [x1, y0, z], [x1, y1, z], [x0, y1, z]];
+        for k in 0..4 {
+            out.push((corners[k], corners[(k + 1) % 4], BracingLine::Diaphragm));
+        }
+        out.push((corners[0], corners[2], BracingLine::Diaphragm));
+        out.push((corners[1], corners[3], BracingLine::Diaphragm));
+    }
+    out
+}
+
 /// A half-line from `origin` along the unit vector `dir`.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Ray {

@@ -93,7 +93,7 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
     let (u, st) = reading(p, comb);
     let c = comb.unwrap_or(p.governing).min(p.combinations.len().saturating_sub(1));
     let pc = &p.combinations[c];
-    let text = format!(
+    let mut text = format!(
         "base plate {} — {:.1} % {}\nG {:.2} kN · Q {:.2} kN · W {:.2} kN\n{}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\nbearing {:.1} kPa of {:.0} kPa allowed\nmax by {}",
         p.id,
         100.0 * u,
@@ -109,6 +109,12 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
         p.allowable_kpa,
         a.method_label(pc.max_method)
     );
+    // Which braced bays' brace forces it carries.
+    if !p.brace.bays.is_empty() || p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10 {
+        let bays = a.bays_of(&p.brace);
+        let from = if bays.is_empty() { "posts above".to_owned() } else { format!("braced bay{} {}", if bays.len() == 1 { "" } else { "s" }, bays.join(", ")) };
+        text.push_str(&format!("\nbrace forces {:+.2} / {:+.2} kN from {from}", p.brace.max_kn, p.brace.min_kn));
+    }
     let g = painter.layout_no_wrap(text, FontId::proportional(13.0), Color32::BLACK);
     let size = g.size() + Vec2::new(20.0, 10.0);
     let mut at = pointer + Vec2::new(18.0, 18.0);
