@@ -122,9 +122,9 @@ fn arranged(supports: &[f64], ei: f64, loads: &[BeamLoad]) -> anyhow::Result<(Ve
     use plateload::scene::loads::{Case, Load, LoadKind};
     use plateload::scene::model::{BeamMethod, BeamRole, Bearer, PlateSize, Post, SupportType};
     let mut scene = plateload::Scene::empty("beam", 1.0e6);
-    scene.support_types.push(SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 1.0e6, sole_plate: None });
+    scene.support_types.push(SupportType::new("S", PlateSize { width_m: 0.15, length_m: 0.15 }, 1.0e6, None));
     for (k, &x) in supports.iter().enumerate() {
-        scene.posts.push(Post { id: format!("P{k}"), x, y: 0.0, base_level: 0.0, top_level: 2.0, support: Some("S".into()), self_weight_kn_per_m: 0.0 });
+        scene.posts.push(Post { id: format!("P{k}"), x, y: 0.0, base_level: 0.0, top_level: 2.0, support: Some("S".into()), self_weight_kn_per_m: 0.0, section: None });
     }
     let (mut start, mut end) = (supports[0], supports[supports.len() - 1]);
     for l in loads {
@@ -144,8 +144,13 @@ fn arranged(supports: &[f64], ei: f64, loads: &[BeamLoad]) -> anyhow::Result<(Ve
         overhang_end_m: end - supports[supports.len() - 1],
         self_weight_kn_per_m: 0.0,
         method: Some(BeamMethod::Continuous),
+        joints: None,
+        section: None,
     });
     scene.analysis.stiffness.bearer_knm2 = ei;
+    // Vertical load only: an unbraced single line of posts has no horizontal load path, so no
+    // notional load is generated.
+    scene.horizontal.notional = plateload::scene::model::NotionalRule::Off;
     for (i, l) in loads.iter().enumerate() {
         if let BeamLoad::Uniform { from, to, w } = *l {
             let kind = LoadKind::BearerLine { bearer: "B".into(), from_m: from - supports[0], to_m: to - supports[0], kn_per_m: w };

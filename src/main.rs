@@ -7,6 +7,7 @@ use std::process::ExitCode;
 
 use anyhow::Context;
 use clap::{Parser, Subcommand};
+use plateload::format::num;
 use plateload::{analyse, scene::io, Analysis, AnalysisError, Scene, CAUTION};
 
 #[cfg(feature = "viewer")]
@@ -76,12 +77,60 @@ enum Command {
         #[arg(long)]
         strict: bool,
     },
+    /// Map the spare capacity of every deck: at each point of a grid, the largest extra imposed
+    /// load that can be placed there before a base plate or the deck reaches a limit, and what
+    /// limits it.
+    Spare {
+        /// Scene file (RON).
+        file: PathBuf,
+        /// What is placed: `point` (default) or a rectangle WIDTHxDEPTH in metres along x and y,
+        /// e.g. 1.2x1.0 (turn it by giving 1.0x1.2).
+        #[arg(long, default_value = "point", value_parser = parse_footprint)]
+        footprint: plateload::solve::influence::Footprint,
+        /// Grid spacing, m.
+        #[arg(long, default_value_t = plateload::check::spare::DEFAULT_SPACING_M)]
+        grid: f64,
+        /// Only this deck (by id); may be given more than once.
+        #[arg(long)]
+        deck: Vec<String>,
+        /// Only this combination (by name); may be given more than once. Default: every one that
+        /// checks capacity or uplift.
+        #[arg(long)]
+        combination: Vec<String>,
+        /// Factor on the placed load for landing it, e.g. 1.2 for loads set down by crane.
+        #[arg(long, default_value_t = 1.0)]
+        dynamic: f64,
+        /// Write the map as CSV to this file (atomically) instead of printing the table.
+        #[arg(long)]
+        csv: Option<PathBuf>,
+        /// Print the map as JSON.
+        #[arg(long)]
+        json: bool,
+    },
     /// Show where one base plate's load comes from, share by share.
     Trace {
         /// Scene file (RON).
         file: PathBuf,
         /// Id of the base plate (its post's id).
         base: String,
+    },
+    /// List the component catalogue: the shipped entries and the user's (from the config
+    /// directory and from beside the scene, if one is given), each value with its source.
+    Catalogue {
+        /// A scene file: its folder's catalogue.ron is read too.
+        scene: Option<PathBuf>,
+    },
+    /// Write a scene file again in the current form: one element per line, every value
+    /// written, the comment lines at its top kept. Prints it, or writes it with --output.
+    Rewrite {
+        /// Scene file (RON).
+        file: PathBuf,
+        /// Output file (may be the same file). Written atomically.
+        #[arg(short, long)]
+        output: Option<PathBuf>,
+        /// Go ahead although comments below the top of the file will not be kept.
+        #[arg(long)]
+        drop_comments: bool,
     },
     /// Print a built-in demo scene as RON, or list them.
     Demo {
@@ -144,6 +193,16 @@ fn parse_size(s: &str) -> Result<(u32, u32), String> {
     let (w, h) = s.split_once(['x', 'X']).ok_or_else(|| format!("size \"{s}\" is not WIDTHxHEIGHT, e.g. 1600x1000"))?;
     let n = |v: &str| v.trim().parse::<u32>().ok().filter(|&v| (64..=8192).contains(&v)).ok_or_else(|| format!("size \"{s}\": each side must be a whole number from 64 to 8192"));
     Ok((n(w)?, n(h)?))
+}
+
+/// A footprint: `point`, or WIDTHxDEPTH in metres.
+fn parse_footprint(s: &str) -> Result<plateload::solve::influence::Footprint, String> {
+    if s.trim().eq_ignore_ascii_case("point") {
+        return Ok(plateload::solve::influence::Footprint::POINT);
+    }
+    let (w, d) = s.split_once(['x', 'X']).ok_or_else(|| format!("footprint \"{s}\" is not `point` or WIDTHxDEPTH in metres, e.g. 1.2x1.0"))?;
+    let n = |v: &str| v.trim().parse::<f64>().ok().filter(|v| v.is_finite() && *v > 0.0 && *v <= 100.0).ok_or_else(|| format!("footprint \"{s}\": each side must be a number of metres above 0 (up to 100)"));
+    Ok(plateload::solve::influence::Footprint { x_m: n(w)?, y_m: n(d)? })
 }
 
 /// Paper sizes for `report --paper`.
@@ -218,6 +277,27 @@ fn run() -> anyhow::Result<ExitCode> {
             eprintln!("{CAUTION}");
             Ok(strict_code(strict, &analysis))
         }
+        Command::Spare { file, footprint, grid, deck, combination, dynamic, csv, json } => {
+            let (scene, analysis) = load_and_analyse(&file)?;
+            let settings = plateload::check::spare::SpareSettings { spacing_m: grid, footprint, dynamic_factor: dynamic, combinations: combination, decks: deck };
+            let map = match plateload::check::spare::spare_map(&scene, &analysis, &settings) {
+                Ok(map) => map,
+                Err(e) => {
+                    eprintln!("{}: {e}", file.display());
+                    return Ok(ExitCode::from(EXIT_INVALID));
+                }
+            };
+            if let Some(out) = csv {
+                io::write_atomic(&out, plateload::export::spare::spare_csv(&map).as_bytes()).with_context(|| format!("writing {}", out.display()))?;
+                println!("{CAUTION}
+wrote the spare-capacity map of {} deck(s) to {}", map.decks.len(), out.display());
+            } else if json {
+                println!("{}", plateload::export::spare::spare_json(&map));
+            } else {
+                print!("{}", plateload::export::spare::spare_text(&map));
+            }
+            Ok(ExitCode::SUCCESS)
+        }
         Command::Trace { file, base } => {
             let (scene, analysis) = load_and_analyse(&file)?;
             let Some(plate) = analysis.plate_index(&base) else {
@@ -226,6 +306,43 @@ fn run() -> anyhow::Result<ExitCode> {
             };
             println!("{CAUTION}\n");
             print!("{}", plateload::export::trace::trace_text(&scene, &analysis, plate));
+            Ok(ExitCode::SUCCESS)
+        }
+        Command::Catalogue { scene } => {
+            let loaded = plateload::scene::catalogue::load_for(scene.as_deref());
+            println!("component catalogue: shipped with plateload{}", loaded.files.iter().map(|f| format!(" + {}", f.display())).collect::<String>());
+            if let Some(config) = plateload::scene::catalogue::config_path().filter(|p| !p.exists()) {
+                println!("(your own entries go in {}, or in catalogue.ron beside a scene)", config.display());
+            }
+            println!();
+            print!("{}", plateload::scene::catalogue::list_text(&loaded.catalogue));
+            for n in &loaded.notes {
+                println!("note: {n}");
+            }
+            for p in &loaded.problems {
+                eprintln!("problem: {p}");
+            }
+            Ok(if loaded.problems.is_empty() { ExitCode::SUCCESS } else { ExitCode::from(EXIT_INVALID) })
+        }
+        Command::Rewrite { file, output, drop_comments } => {
+            let text = std::fs::read_to_string(&file).with_context(|| format!("reading {}", file.display()))?;
+            let later = io::comments_after_header(&text);
+            if !later.is_empty() && !drop_comments {
+                let lines: Vec<String> = later.iter().map(|l| l.to_string()).collect();
+                anyhow::bail!(
+                    "{}: the comments on line(s) {} would not be kept (only those at the top of the file are); move them to the top, or pass --drop-comments",
+                    file.display(),
+                    lines.join(", ")
+                );
+            }
+            let out = io::rewrite_scene(&text, &file.display().to_string())?;
+            match output {
+                Some(path) => {
+                    io::write_atomic(&path, out.as_bytes()).with_context(|| format!("writing {}", path.display()))?;
+                    eprintln!("wrote {}", path.display());
+                }
+                None => print!("{out}"),
+            }
             Ok(ExitCode::SUCCESS)
         }
         Command::Demo { name } => {
@@ -324,12 +441,12 @@ fn solve_text(a: &Analysis) -> String {
     }
     let _ = writeln!(s, " {:>7} {:>9} {:>12}  {:<11} method (for max)", "util %", "kPa", "governs", "status");
     for (i, p) in a.plates.iter().enumerate() {
-        let _ = write!(s, "{:<10} {:>8.3} {:>8.3} {:>9.3} {:>9.3} {:>9.3}", p.id, p.x, p.y, p.case_kn[0], p.case_kn[1], p.case_kn[2]);
+        let _ = write!(s, "{:<10} {:>8.3} {:>8.3} {:>9.3} {:>9.3} {:>9.3}", p.id, num(p.x), num(p.y), num(p.case_kn[0]), num(p.case_kn[1]), num(p.case_kn[2]));
         for c in &p.combinations {
-            let _ = write!(s, " {:>10.3}/{:<10.3}", c.max_kn, c.min_kn);
+            let _ = write!(s, " {:>10.3}/{:<10.3}", num(c.max_kn), num(c.min_kn));
         }
         let g = p.governing();
-        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<11} {}", 100.0 * g.utilisation, g.bearing_kpa, a.combinations[p.governing].name, p.status.label(), a.governing_method_label(i));
+        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<11} {}", num(100.0 * g.utilisation), num(g.bearing_kpa), a.combinations[p.governing].name, p.status.label(), a.governing_method_label(i));
     }
     let on_structures: Vec<String> = a.plates.iter().filter_map(|p| p.on_structure.as_ref().map(|e| format!("{} on {e}", p.id))).collect();
     if !on_structures.is_empty() {
@@ -343,9 +460,9 @@ fn solve_text(a: &Analysis) -> String {
         }
         let _ = writeln!(s, "  status");
         for l in &a.lifts {
-            let _ = write!(s, "{:<10} {:<28} {:>9.3} {:>9.3} {:>9.3}", l.id, l.stands_on, tidy(l.case_kn[0]), tidy(l.case_kn[1]), tidy(l.case_kn[2]));
+            let _ = write!(s, "{:<10} {:<28} {:>9.3} {:>9.3} {:>9.3}", l.id, l.stands_on, num(l.case_kn[0]), num(l.case_kn[1]), num(l.case_kn[2]));
             for c in &l.combinations {
-                let _ = write!(s, " {:>10.3}/{:<10.3}", tidy(c.max_kn), tidy(c.min_kn));
+                let _ = write!(s, " {:>10.3}/{:<10.3}", num(c.max_kn), num(c.min_kn));
             }
             let status = if l.status.uplift { "PULLS UP: tie it down or prop it" } else if l.status.over { "OVER its support's safe working load" } else { "OK" };
             let _ = writeln!(s, "  {status}");
@@ -355,11 +472,21 @@ fn solve_text(a: &Analysis) -> String {
         let p = &a.plates[w];
         let g = p.governing();
         let by = if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" };
-        let _ = writeln!(s, "\nworst base: {} at {:.1}% ({by}, {})", p.id, 100.0 * g.utilisation, a.combinations[p.governing].name);
+        let _ = writeln!(s, "\nworst base: {} at {:.1}% ({by}, {})", p.id, num(100.0 * g.utilisation), a.combinations[p.governing].name);
+        for note in a.arrangements_at(w) {
+            let _ = writeln!(s, "  arrangement at {}: {}", p.id, note.words());
+        }
     }
     let over = a.plates.iter().filter(|p| p.status.over).count();
     let uplift = a.plates.iter().filter(|p| p.status.uplift).count();
     let _ = writeln!(s, "over capacity: {over}   lifting: {uplift}   of {} base plates", a.plates.len());
+    let whole: Vec<&str> = a.whole_loads.iter().map(String::as_str).collect();
+    let _ = writeln!(
+        s,
+        "imposed loads: each in its worst arrangement at every plate{}; {}",
+        if whole.is_empty() { String::new() } else { format!(", except {} (applied whole, as set)", whole.join(", ")) },
+        a.working_levels.label()
+    );
     let methods: Vec<&str> = (0..a.method_count()).map(|m| a.method_label(m)).collect();
     if methods.len() > 1 {
         let _ = writeln!(s, "method: envelope of {} (each max and min is the worse; G/Q/W columns: {})", methods.join("; "), methods[0]);
@@ -370,22 +497,33 @@ fn solve_text(a: &Analysis) -> String {
     let tagged = a.equilibrium_by_method.iter().enumerate().flat_map(|(m, eq)| eq.iter().map(move |e| (m, e)));
     for (m, e) in tagged {
         let tag = if methods.len() > 1 { format!(" [{}]", methods[m]) } else { String::new() };
+        if !e.one_state {
+            let _ = writeln!(
+                s,
+                "  {}{tag}: support by support, each two-span model balances (relative {:.1e}); its reactions ({:.3} kN) exceed the applied {:.3} kN by design",
+                e.case,
+                e.relative,
+                num(e.reactions.force[2]),
+                num(e.applied.down())
+            );
+            continue;
+        }
         let _ = writeln!(
             s,
             "  {}{tag}: applied {:>10.3} kN down, reactions {:>10.3} kN up, |ΣF| {:.1e} kN, |ΣM| {:.1e} kN·m, relative {:.1e}",
             e.case,
-            tidy(e.applied.down()),
-            tidy(e.reactions.force[2]),
-            e.force_residual_kn,
-            e.moment_residual_knm,
-            e.relative
+            num(e.applied.down()),
+            num(e.reactions.force[2]),
+            num(e.force_residual_kn),
+            num(e.moment_residual_knm),
+            num(e.relative)
         );
     }
     let horizontal = a.horizontal_base_shear();
     if !horizontal.is_empty() {
         let _ = writeln!(s, "base shear under each horizontal load (plates on the structure, kN):");
         for (id, case, [x, y]) in horizontal {
-            let _ = writeln!(s, "  {id} ({case}): ({:.3}, {:.3}), {:.3} kN", tidy(x), tidy(y), x.hypot(y));
+            let _ = writeln!(s, "  {id} ({case}): ({:.3}, {:.3}), {:.3} kN", num(x), num(y), num(x.hypot(y)));
         }
     }
     let h = &a.horizontal;
@@ -394,7 +532,7 @@ fn solve_text(a: &Analysis) -> String {
         let _ = writeln!(s, "  no braced plane");
     }
     for p in &h.planes {
-        let to = p.braced_to_m.map_or("not counted".to_owned(), |z| format!("braced up to {z:.3} m"));
+        let to = p.braced_to_m.map_or("not counted".to_owned(), |z| format!("braced up to {:.3} m", num(z)));
         let cut = p.cut.as_ref().map_or(String::new(), |c| format!(" (bracing above not counted: {c})"));
         let _ = writeln!(s, "  {}: {to}, {} brace(s) in bays {}{cut}", p.name, p.diagonals, p.bays.join(", "));
     }
@@ -413,15 +551,15 @@ fn solve_text(a: &Analysis) -> String {
         let bay_names = a.bay_names();
         let _ = writeln!(s, "brace forces at the plates (vertical components, unfactored, worst direction; + down, − up):");
         for p in braced {
-            let _ = writeln!(s, "  {:<10} {:>+9.3} / {:>+9.3} kN   bays {}", p.id, tidy(p.brace.max_kn), tidy(p.brace.min_kn), if p.brace.bays.is_empty() { "-".to_owned() } else { bay_names_of(&bay_names, &p.brace.bays) });
+            let _ = writeln!(s, "  {:<10} {:>+9.3} / {:>+9.3} kN   bays {}", p.id, num(p.brace.max_kn), num(p.brace.min_kn), if p.brace.bays.is_empty() { "-".to_owned() } else { bay_names_of(&bay_names, &p.brace.bays) });
         }
     }
     let st = &a.stability;
-    let _ = write!(s, "\nstability: permanent load {:.3} kN", st.permanent_kn);
+    let _ = write!(s, "\nstability: permanent load {:.3} kN", num(st.permanent_kn));
     if let Some((x, y)) = st.centre_of_gravity {
-        let _ = write!(s, ", centre of gravity ({x:.3}, {y:.3})");
+        let _ = write!(s, ", centre of gravity ({:.3}, {:.3})", num(x), num(y));
     }
-    let _ = writeln!(s, ", target factor {:.2}", st.target_factor);
+    let _ = writeln!(s, ", target factor {:.2}", num(st.target_factor));
     for d in &st.directions {
         match d.factor {
             None => {
@@ -429,14 +567,18 @@ fn solve_text(a: &Analysis) -> String {
             }
             Some(f) => {
                 let k = match d.kentledge_kn {
-                    Some(k) if k > 0.0 => format!("needs {k:.2} kN kentledge over the opposite edge"),
+                    Some(k) if k > 0.0 => format!("needs {:.2} kN kentledge over the opposite edge", num(k)),
                     Some(_) => "meets the target".into(),
                     None => "no base width to add kentledge on".into(),
                 };
                 let _ = writeln!(
                     s,
                     "  tipping {} about edge {:.3} m: restoring {:.3} kN·m / overturning {:.3} kN·m = {:.2}; {k}",
-                    d.direction, d.edge_m, d.restoring_knm, d.overturning_knm, f
+                    d.direction,
+                    num(d.edge_m),
+                    num(d.restoring_knm),
+                    num(d.overturning_knm),
+                    num(f)
                 );
             }
         }
@@ -453,11 +595,6 @@ fn solve_text(a: &Analysis) -> String {
 /// The named bays of a plate, joined.
 fn bay_names_of(names: &[String], bays: &[u32]) -> String {
     bays.iter().map(|&b| names.get(b as usize).map_or("?", String::as_str)).collect::<Vec<_>>().join(", ")
-}
-
-/// A value for printing: rounding noise around zero shown as 0.
-fn tidy(v: f64) -> f64 {
-    if v.abs() < 5e-10 { 0.0 } else { v }
 }
 
 #[cfg(feature = "viewer")]

@@ -136,6 +136,10 @@ fn brute_force(s: &Scene, deck: &str, q: f64, rects: &[Rect]) -> Vec<(String, f6
 
 mod properties {
     use super::*;
+
+    /// Simple spans, continuous, or the scene's envelope (with joints not known: two-span
+    /// continuity at each support too).
+    const METHODS: [Option<BeamMethod>; 3] = [Some(BeamMethod::SimpleSpans), Some(BeamMethod::Continuous), None];
     use plateload::solve::CellPlace;
     use proptest::prelude::*;
 
@@ -145,11 +149,12 @@ mod properties {
         #[test]
         fn arranged_extremes_equal_the_cell_by_cell_sums(
             nx in 2usize..5, ny in 2usize..5, bay_x in 0.8f64..2.5, bay_y in 0.8f64..2.5,
-            cant in prop_oneof![Just(0.0), 0.05f64..0.8], deck_continuous in any::<bool>(), bearer_continuous in any::<bool>(),
+            cant in prop_oneof![Just(0.0), 0.05f64..0.8], deck_method in 0usize..3, bearer_method in 0usize..3,
             q in 0.5f64..8.0, lift_at in 0usize..20,
         ) {
             // common practice, no source: linearity — the arranged extremes must equal the sums of
-            // the positive and of the negative effects of every cell solved on its own.
+            // the positive and of the negative effects of every cell solved on its own, in every
+            // method pass (the envelope is then taken over the passes either way).
             let mut s = bare_scene();
             s.support_types[0].swl_kn = 1e6;
             s.site.allowable_bearing_kpa = 1e6;
@@ -172,13 +177,13 @@ mod properties {
                 let ids: Vec<String> = (0..nx).map(|i| format!("P{i}-{j}")).map(|id| if id == spliced { format!("{id}-up") } else { id }).collect();
                 let refs: Vec<&str> = ids.iter().map(String::as_str).collect();
                 let mut b = bearer(&format!("L{j}"), 2.0, &refs);
-                b.method = Some(if bearer_continuous { BeamMethod::Continuous } else { BeamMethod::SimpleSpans });
+                b.method = METHODS[bearer_method];
                 s.bearers.push(b);
             }
             let names: Vec<String> = (0..ny).map(|j| format!("L{j}")).collect();
             let refs: Vec<&str> = names.iter().map(String::as_str).collect();
             let mut d = deck("D", 2.0, (0.0, (nx - 1) as f64 * bay_x), (-cant, (ny - 1) as f64 * bay_y + cant), &refs);
-            d.method = Some(if deck_continuous { BeamMethod::Continuous } else { BeamMethod::SimpleSpans });
+            d.method = METHODS[deck_method];
             s.decks.push(d);
             s.loads.push(load("q", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(q) }));
             let a = analyse(&s).unwrap();
@@ -193,4 +198,89 @@ mod properties {
             }
         }
     }
+}
+
+#[test]
+fn a_tee_head_is_checked_with_one_arm_loaded_alone() {
+    // statics, by hand: a bearer on one post with arms a = 0.6 m each side under w = 5 kN/m
+    // balances when both arms are loaded, but one arm alone turns it by w·a²/2 = 0.9 kN·m.
+    let mut s = bare_scene();
+    s.posts = vec![post("P", 0.0, 0.0, 2.0)];
+    let mut t = bearer("T", 2.0, &["P"]);
+    t.overhang_start_m = 0.6;
+    t.overhang_end_m = 0.6;
+    s.bearers = vec![t];
+    s.loads.push(load("q", Case::Q, LoadKind::BearerLine { bearer: "T".into(), from_m: -0.6, to_m: 0.6, kn_per_m: 5.0 }));
+    let err = analyse(&s).unwrap_err().to_string();
+    assert!(err.contains("bearer T rests on a single post, P") && err.contains("0.900 kN·m") && err.contains("load q on one arm"), "{err}");
+    assert!(err.contains("moment capacity") && err.contains("ledger"), "the message says what would fix it: {err}");
+    // Applied whole, the same load balances.
+    s.loads[0].arrangement = Arrangement::Whole;
+    assert!(analyse(&s).is_ok());
+    // Arranged again, with a head that takes 1.0 kN·m (a stated capacity): it stands, and says so.
+    s.loads[0].arrangement = Arrangement::Arranged;
+    s.support_types[0].head_moment_capacity_knm = Some(1.0);
+    let a = analyse(&s).unwrap();
+    let h = &a.solution.head_moments[0];
+    close("head moment", h.moment_knm, 0.9, 1e-12);
+    // A smaller capacity does not do.
+    s.support_types[0].head_moment_capacity_knm = Some(0.8);
+    let err = analyse(&s).unwrap_err().to_string();
+    assert!(err.contains("more than the head's capacity of 0.800 kN·m"), "{err}");
+}
+
+#[test]
+fn working_levels_one_in_full_with_an_adjacent_one_at_half() {
+    // source: EN 12811-1 in service, one working level at 100 % of its load class with one
+    // adjacent level at 50 % (REFERENCES §9, via a UK industry summary); load class 3, q1 = 2.0
+    // kPa (EN 12811-1 Table 3, REFERENCES §2). A one-bay tower 2 m × 2 m with a deck at 2, 4 and
+    // 6 m: each deck puts 2.0 × 4 / 4 = 2 kN on each post. All levels at once: 6 kN; the rule:
+    // 2 + 0.5 × 2 = 3 kN.
+    let mut s = bare_scene();
+    s.support_types[0].swl_kn = 1e6;
+    s.site.allowable_bearing_kpa = 1e6;
+    for (id, x, y) in [("A1", 0.0, 0.0), ("B1", 2.0, 0.0), ("A2", 0.0, 2.0), ("B2", 2.0, 2.0)] {
+        s.posts.push(post(id, x, y, 6.0));
+    }
+    for (k, z) in [2.0, 4.0, 6.0].iter().enumerate() {
+        s.bearers.push(bearer(&format!("S{k}"), *z, &["A1", "B1"]));
+        s.bearers.push(bearer(&format!("N{k}"), *z, &["A2", "B2"]));
+        s.decks.push(deck(&format!("D{k}"), *z, (0.0, 2.0), (0.0, 2.0), &[&format!("S{k}"), &format!("N{k}")]));
+        s.loads.push(load(&format!("q{k}"), Case::Q, LoadKind::DeckArea { deck: format!("D{k}"), intensity: plateload::Intensity::LoadClassUniform(3) }));
+    }
+    let a = analyse(&s).unwrap();
+    close("all levels at once", service(&a, "A1").0, 6.0, 1e-9);
+    s.analysis.working_levels = plateload::scene::model::WorkingLevels::OneFullAdjacentHalf;
+    let a = analyse(&s).unwrap();
+    close("one level in full, an adjacent one at half", service(&a, "A1").0, 3.0, 1e-9);
+    // Materials on a deck are not working-level loads: they count in full wherever they are.
+    s.loads.push(load("bricks", Case::Q, LoadKind::DeckArea { deck: "D0".into(), intensity: kpa(1.0) }));
+    let a = analyse(&s).unwrap();
+    close("rule plus materials", service(&a, "A1").0, 3.0 + 1.0, 1e-9);
+}
+
+#[test]
+fn outputs_say_how_each_plate_is_worst_loaded_and_which_loads_act_whole() {
+    // common practice, no source: the two-span bearer above, arranged; and a second load set whole.
+    let mut s = line_on_posts(&[0.0, 2.5, 5.0], 3.2, 0.0, 5.0);
+    let mut pour = load("pour", Case::Q, LoadKind::BearerLine { bearer: "B".into(), from_m: 0.0, to_m: 5.0, kn_per_m: 1.0 });
+    pour.arrangement = Arrangement::Whole;
+    s.loads.push(pour);
+    let a = analyse(&s).unwrap();
+    let end = a.plate_index("P0").unwrap();
+    let notes = a.arrangements_at(end);
+    assert_eq!(notes.len(), 1, "only the arranged load is described: {notes:?}");
+    assert_eq!((notes[0].cells, notes[0].loaded_for_max, notes[0].loaded_for_min), (2, 1, 1));
+    assert!(notes[0].words().contains("worst with 1 of 2 cells loaded"), "{}", notes[0].words());
+    let trace = plateload::export::trace::trace_text(&s, &a, end);
+    assert!(trace.contains("loaded for the maximum: B 0.00–2.50 m from its first post"), "{trace}");
+    assert!(trace.contains("loaded for the minimum: B 2.50–5.00 m from its first post"), "{trace}");
+    let csv = plateload::export::schedule::schedule_csv(&a);
+    assert!(csv.contains("imposed load arrangement for max") && csv.contains("q 1/2 cells"), "{csv}");
+    assert!(csv.contains("applied whole as set: pour"), "{csv}");
+    let json: serde_json::Value = serde_json::from_str(&plateload::export::json::analysis_json(&a)).unwrap();
+    assert_eq!(json["imposed_loads"]["whole"], serde_json::json!(["pour"]));
+    assert_eq!(json["bases"][0]["arrangements"][0]["loaded_for_max"], 1);
+    let html = plateload::export::report::report_html(&s, &a, &Default::default());
+    assert!(html.contains("<strong>whole</strong> (as set)") && html.contains("q: worst with every cell loaded"), "the worst plate is the middle one");
 }

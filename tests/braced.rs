@@ -469,7 +469,7 @@ fn combination_factors_with_a_leading_action() {
         c.psi0 = Some(plateload::scene::combination::Psi0 { imposed: 0.7, horizontal: 0.6 });
     }
     close("ψ0", factored(&s), 24.75, 1e-12);
-    let words = plateload::check::actions::describe(s.combinations.iter().find(|c| c.name == "factored").unwrap());
+    let words = plateload::check::actions::describe(s.combinations.iter().find(|c| c.name == "factored").unwrap(), s.analysis.working_levels);
     assert!(words.contains("imposed leading") && words.contains("horizontal leading") && words.contains("ψ0 = 0.7 imposed, 0.6 horizontal"), "{words}");
 }
 
@@ -567,4 +567,21 @@ fn every_output_says_where_horizontal_load_goes() {
     assert!(html.contains("Horizontal loads down the braced bays") && html.contains("diaphragm at 6.000 m") && html.contains("What each combination does"));
     let trace = plateload::export::trace::trace_text(&scene, &a, a.plate_index("A1").unwrap());
     assert!(trace.contains("via braced bay A1–A2") && trace.contains("lever 1.300 m") && trace.contains("no other level is a diaphragm"), "{trace}");
+}
+
+#[test]
+fn the_spare_map_says_it_leaves_out_the_notional_load_of_the_extra_load() {
+    // The influence coefficients carry vertical load only; the notional load an extra load brings
+    // (2.5 % of it by the falsework rule, BS 5975 cl. 19) would put brace forces into the plates
+    // of braced bays. The map must say so rather than look complete.
+    let (_, scene) = crate::util::demo_scenes().into_iter().find(|(n, _)| n.starts_with("larkfield")).unwrap();
+    let a = plateload::analyse(&scene).unwrap();
+    let map = plateload::check::spare::spare_map(&scene, &a, &Default::default()).unwrap();
+    let words = map.not_included.as_deref().expect("larkfield has notional load and braced bays");
+    assert!(words.contains("2.5 %") && words.contains("A1"), "{words}");
+    assert!(plateload::export::spare::spare_text(&map).contains("Not included: the notional horizontal load"));
+    let mut off = scene.clone();
+    off.horizontal.notional = plateload::scene::model::NotionalRule::Off;
+    let a = plateload::analyse(&off).unwrap();
+    assert_eq!(plateload::check::spare::spare_map(&off, &a, &Default::default()).unwrap().not_included, None);
 }

@@ -107,3 +107,24 @@ fn json_has_the_documented_shape() {
     assert!(v["equilibrium"][0]["relative"].as_f64().unwrap() <= 1e-9);
     assert!(v["stability"]["centre_of_gravity"].is_array());
 }
+
+#[test]
+fn schedule_fields_with_commas_quotes_and_line_breaks_read_back_whole() {
+    // source: RFC 4180 (fields with commas, quotes or line breaks are quoted, quotes doubled,
+    // records end in CRLF); read back with the csv crate's reader
+    let mut scene = plateload::scene::io::read_scene(&scene_path("tannery-loading-bay.ron")).unwrap();
+    scene.site.name = "Pier 4, \"north\" side\nphase 2".into();
+    let odd = "jack, 40 \"kN\"";
+    scene.posts.iter_mut().for_each(|p| p.support = Some(odd.into()));
+    scene.support_types[0].id = odd.into();
+    let a = analyse(&scene).unwrap();
+    let text = plateload::export::schedule::schedule_csv(&a);
+    assert!(text.contains("\"Pier 4, \"\"north\"\" side\nphase 2\""), "{text}");
+    let bare_lf = text.match_indices('\n').filter(|(i, _)| *i == 0 || text.as_bytes()[i - 1] != b'\r').count();
+    assert_eq!(bare_lf, 1, "only the line break inside the quoted name is a bare LF");
+    let mut rdr = csv::ReaderBuilder::new().has_headers(false).flexible(true).from_reader(text.as_bytes());
+    let rows: Vec<csv::StringRecord> = rdr.records().map(|r| r.unwrap()).collect();
+    assert_eq!(&rows[0][1], scene.site.name);
+    let head = rows.iter().position(|r| r.get(0) == Some("id")).unwrap();
+    assert!(rows[head + 1..].iter().filter(|r| r.get(0) != Some("TOTAL")).all(|r| &r[4] == odd));
+}

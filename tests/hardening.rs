@@ -1565,3 +1565,60 @@ fn child_saver() {
         }
     });
 }
+
+/// Split every post at `fraction` of its height into a lower lift and an upper one standing on
+/// it (a spliced standard): members, braces and post-top loads above the splice move to the
+/// upper lift. The structure is the same.
+fn split_standards(s: &Scene, fraction: f64) -> Scene {
+    let mut t = s.clone();
+    let mut uppers = Vec::new();
+    for p in &mut t.posts {
+        let at = p.base_level + fraction * (p.top_level - p.base_level);
+        let mut up = p.clone();
+        up.id = format!("{}-up", p.id);
+        up.base_level = at;
+        up.support = None;
+        p.top_level = at;
+        uppers.push((p.id.clone(), up));
+    }
+    let upper_of = |id: &str, level: f64, posts: &[(String, plateload::Post)]| -> String {
+        match posts.iter().find(|(lower, _)| lower == id) {
+            Some((_, up)) if level > up.base_level + 1e-9 => up.id.clone(),
+            _ => id.to_owned(),
+        }
+    };
+    for b in &mut t.bearers {
+        let level = b.level;
+        b.posts = b.posts.iter().map(|id| upper_of(id, level, &uppers)).collect();
+    }
+    for b in &mut t.braces {
+        b.from.post = upper_of(&b.from.post, b.from.level, &uppers);
+        b.to.post = upper_of(&b.to.post, b.to.level, &uppers);
+    }
+    for l in &mut t.loads {
+        if let LoadKind::PostTop { post, .. } = &mut l.kind {
+            *post = upper_of(post, f64::INFINITY, &uppers);
+        }
+    }
+    t.posts.extend(uppers.into_iter().map(|(_, up)| up));
+    t
+}
+
+#[test]
+fn splitting_standards_into_lifts_changes_no_plate_load() {
+    // statics, by hand: a splice passes on everything above it, so a standard drawn as two lifts
+    // carries the same loads to its base plate as one drawn whole; every item still balances.
+    let mut r = runner(150);
+    let result = r.run(&(valid_scene(), 0.05f64..0.95), |(scene, fraction)| {
+        let a = analyse(&scene).map_err(|e| TestCaseError::fail(e.to_string()))?;
+        let split = split_standards(&scene, fraction);
+        let b = analyse(&split).map_err(|e| TestCaseError::fail(format!("split scene refused: {e}")))?;
+        prop_assert_eq!(b.lifts.len(), scene.posts.len());
+        same_results(&a, &b, "split into lifts")?;
+        prop_assert!(b.worst_residual() <= 1e-9, "{}", b.worst_residual());
+        Ok(())
+    });
+    if let Err(e) = result {
+        panic!("{e}");
+    }
+}

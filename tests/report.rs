@@ -57,7 +57,14 @@ fn report_of_each_demo_holds_the_key_figures() {
             assert_eq!(g.contains("url(#hatch)"), matches!(cue, Cue::Over | Cue::OverAndUplift), "{name}: plate {} over cue", p.id);
             assert_eq!(g.contains("UPLIFT"), matches!(cue, Cue::Uplift | Cue::OverAndUplift), "{name}: plate {} uplift cue", p.id);
             assert_eq!(g.contains("<path"), matches!(cue, Cue::Uplift | Cue::OverAndUplift), "{name}: plate {} uplift marker", p.id);
+            // One meaning everywhere, as in the editor: a round ring is uplift, a square frame
+            // over capacity.
+            assert_eq!(g.contains("<circle"), matches!(cue, Cue::Uplift | Cue::OverAndUplift), "{name}: plate {} uplift ring", p.id);
         }
+        assert!(html.contains("over capacity: hatched, square frame") && html.contains("lifts (uplift): round ring, upward marker"), "{name}: legend words");
+        assert!(!html.contains("bold ring"), "{name}: a ring means uplift only");
+        // The demos' safe working loads are examples: the inputs say so beside the value.
+        assert!(html.contains("EXAMPLE VALUE — replace with the manufacturer's"), "{name}: example SWL not marked");
         for b in Band::ALL {
             assert!(html.contains(&b.label()), "{name}: legend lacks {}", b.label());
         }

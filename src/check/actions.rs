@@ -1,8 +1,10 @@
 //! How the variable load items of a solution act together: which are independent and which are
 //! alternatives, and the words that say so in every output.
 
+use crate::format::num;
 use crate::scene::combination::Combination;
 use crate::scene::loads::Case;
+use crate::scene::model::WorkingLevels;
 use crate::solve::{Action, Item};
 
 /// How the variable load items of a solution combine.
@@ -18,16 +20,34 @@ pub struct VariableActions {
     pub by_direction: Vec<Vec<usize>>,
     /// Number of diaphragm assumptions some item has reactions for (1 or 2).
     pub variants: usize,
+    /// Under the working-scaffold rule: the load-class imposed loads of each working level,
+    /// levels in increasing order; one level acts at full load with an adjacent one at half.
+    pub by_level: Vec<(f64, Vec<usize>)>,
 }
 
+/// Two deck levels closer than this are one working level, m.
+const SAME_LEVEL_M: f64 = 1e-3;
+
+/// Share of the full load class on the level adjacent to the fully loaded one.
+// source: EN 12811-1, one adjacent working level at 50 % (via a UK industry summary, REFERENCES §9)
+pub const ADJACENT_LEVEL_SHARE: f64 = 0.5;
+
 impl VariableActions {
-    /// Sort the variable (Q and W) items of a solution into independent ones and direction groups.
-    pub fn of(items: &[Item]) -> Self {
+    /// Sort the variable (Q and W) items of a solution into independent ones and direction groups
+    /// (and, under the working-scaffold rule, working levels).
+    pub fn of(items: &[Item], levels: WorkingLevels) -> Self {
         let mut out = VariableActions { variants: 1, ..Default::default() };
         let mut keys: Vec<i64> = Vec::new();
         for (i, item) in items.iter().enumerate() {
             out.variants = out.variants.max(item.variant_count());
             if item.case == Case::G {
+                continue;
+            }
+            if let (WorkingLevels::OneFullAdjacentHalf, Some(z)) = (levels, item.working_level) {
+                match out.by_level.iter_mut().find(|(l, _)| (l - z).abs() <= SAME_LEVEL_M) {
+                    Some((_, group)) => group.push(i),
+                    None => out.by_level.push((z, vec![i])),
+                }
                 continue;
             }
             match (item.action, item.direction_key()) {
@@ -41,7 +61,13 @@ impl VariableActions {
                 },
             }
         }
+        out.by_level.sort_by(|a, b| a.0.total_cmp(&b.0));
         out
+    }
+
+    /// Every vertical variable item, wherever it is sorted.
+    pub fn vertical(&self) -> impl Iterator<Item = usize> + '_ {
+        self.independent.iter().copied().chain(self.by_level.iter().flat_map(|(_, g)| g.iter().copied()))
     }
 }
 
@@ -70,13 +96,20 @@ pub fn leading_options(comb: &Combination) -> &'static [Option<Case>] {
 }
 
 /// Exactly what a combination does, in words, for every output.
-pub fn describe(comb: &Combination) -> String {
+pub fn describe(comb: &Combination, levels: WorkingLevels) -> String {
     let f = comb.factors;
-    let g = if f.g_unfavourable == f.g_favourable { format!("{:.2}·G", f.g_unfavourable) } else { format!("{:.2}·G ({:.2} where it helps)", f.g_unfavourable, f.g_favourable) };
+    let g = if f.g_unfavourable == f.g_favourable { format!("{:.2}·G", num(f.g_unfavourable)) } else { format!("{:.2}·G ({:.2} where it helps)", num(f.g_unfavourable), num(f.g_favourable)) };
+    let imposed = match levels {
+        WorkingLevels::AllAtOnce => "each imposed load where unfavourable",
+        WorkingLevels::OneFullAdjacentHalf => "each imposed load where unfavourable (load-class loads: one working level in full with the worse adjacent level at half)",
+    };
     let part = |q: f64, w: f64| {
         format!(
-            "{g} + {q:.2}·each imposed load where unfavourable + {w:.2}·each identified horizontal force where unfavourable + the worst single direction of {w:.2}·wind with {:.2}·notional load in that direction",
-            comb.factors.w
+            "{g} + {:.2}·{imposed} + {:.2}·each identified horizontal force where unfavourable + the worst single direction of {:.2}·wind with {:.2}·notional load in that direction",
+            num(q),
+            num(w),
+            num(w),
+            num(comb.factors.w)
         )
     };
     match comb.psi0 {
@@ -85,8 +118,8 @@ pub fn describe(comb: &Combination) -> String {
             "worse of (imposed leading: {}) and (horizontal leading: {}); ψ0 = {} imposed, {} horizontal (EN 1990 6.10), notional load never reduced",
             part(f.q, f.w * psi.horizontal),
             part(f.q * psi.imposed, f.w),
-            psi.imposed,
-            psi.horizontal
+            num(psi.imposed),
+            num(psi.horizontal)
         ),
     }
 }

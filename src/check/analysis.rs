@@ -137,6 +137,10 @@ pub struct Analysis {
     pub bracing: crate::scene::bracing::Bracing,
     /// Non-fatal findings.
     pub warnings: Vec<Problem>,
+    /// Imposed loads that the planner set to act whole (not arranged), by id.
+    pub whole_loads: Vec<String>,
+    /// How working levels act together.
+    pub working_levels: crate::scene::model::WorkingLevels,
 }
 
 impl Analysis {
@@ -233,6 +237,51 @@ impl Analysis {
             }
         }
         s
+    }
+}
+
+/// How an arranged imposed load is placed for one plate's worst maximum and minimum.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct ArrangementAt {
+    /// Load id.
+    pub load: String,
+    /// Number of cells it is split into.
+    pub cells: usize,
+    /// Cells loaded for the plate's maximum (those that push it down); the rest empty.
+    pub loaded_for_max: u32,
+    /// Cells loaded for the plate's minimum (those that lift it); the rest empty.
+    pub loaded_for_min: u32,
+}
+
+impl ArrangementAt {
+    /// In words for a site manager.
+    pub fn words(&self) -> String {
+        let lift = if self.loaded_for_min > 0 { format!("; it lifts with {} cell(s) loaded alone", self.loaded_for_min) } else { String::new() };
+        if self.loaded_for_max as usize == self.cells {
+            format!("{}: worst with every cell loaded{lift}", self.load)
+        } else {
+            format!("{}: worst with {} of {} cells loaded, the rest empty{lift}", self.load, self.loaded_for_max, self.cells)
+        }
+    }
+}
+
+impl Analysis {
+    /// The arranged loads reaching plate `plate` (index into [`Analysis::plates`]) and how each
+    /// is placed for its worst maximum, in the method pass that governs that maximum.
+    pub fn arrangements_at(&self, plate: usize) -> Vec<ArrangementAt> {
+        let p = &self.plates[plate];
+        let post = p.post as u32;
+        let solution = self.solution_of(p.governing_method);
+        solution
+            .items
+            .iter()
+            .filter_map(|item| {
+                let a = item.arranged.as_ref()?;
+                let at = a.extremes.binary_search_by_key(&post, |e| e.0).ok()?;
+                let (down, up) = a.counts[at];
+                Some(ArrangementAt { load: item.id.clone(), cells: a.cells.len(), loaded_for_max: down, loaded_for_min: up })
+            })
+            .collect()
     }
 }
 
@@ -333,6 +382,21 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
         })
         .expect("at least one method pass");
     let horizontal = summary(&model, &solutions[0], bays);
+    let mut warnings = model.warnings;
+    // T-heads that stand on their head's moment capacity: the worst moment over the passes.
+    let mut heads: Vec<&crate::solve::tee_heads::HeadMoment> = solutions.iter().flat_map(|s| &s.head_moments).collect();
+    heads.sort_by(|a, b| a.bearer.cmp(&b.bearer).then(b.moment_knm.total_cmp(&a.moment_knm)));
+    heads.dedup_by_key(|h| h.bearer);
+    for h in heads {
+        warnings.push(Problem {
+            kind: crate::scene::model::ElementKind::Bearer,
+            id: scene.bearers[h.bearer].id.clone(),
+            message: format!(
+                "rests on post {} alone and is out of balance by up to {:.3} kN·m with one arm loaded: it stands on the head's moment capacity of {:.3} kN·m given on the post's support type — check that value against the maker's data",
+                scene.posts[h.post].id, h.moment_knm, h.capacity_knm
+            ),
+        });
+    }
     let solution = solutions.remove(0);
     Ok(Analysis {
         scene_name: scene.site.name.clone(),
@@ -347,7 +411,14 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
         braced: model.braced,
         horizontal,
         bracing: model.bracing,
-        warnings: model.warnings,
+        warnings,
+        whole_loads: scene
+            .loads
+            .iter()
+            .filter(|l| l.case == Case::Q && l.arrangement == crate::scene::loads::Arrangement::Whole)
+            .map(|l| l.id.clone())
+            .collect(),
+        working_levels: scene.analysis.working_levels,
     })
 }
 

@@ -89,12 +89,12 @@ pub fn summary(model: &Model, solution: &Solution, bays: Vec<(u32, u32)>) -> Hor
         let list = if generated.is_empty() { "none generated (no vertical load)".to_owned() } else { generated.join("; ") };
         format!("{} in each checked direction — {list}", scene.horizontal.notional.describe())
     };
-    let actions = VariableActions::of(&solution.items);
+    let actions = VariableActions::of(&solution.items, scene.analysis.working_levels);
     HorizontalSummary {
         planes,
         diaphragms: b.diaphragm_lines(scene),
         notional,
-        combinations: scene.combinations.iter().map(|c| format!("{}: {}", c.name, describe(c))).collect(),
+        combinations: scene.combinations.iter().map(|c| format!("{}: {}", c.name, describe(c, scene.analysis.working_levels))).collect(),
         sharing: (actions.variants > 1).then_some(DIAPHRAGM_ENVELOPE),
         bays,
     }
@@ -107,7 +107,7 @@ pub fn brace_at_posts(model: &Model, solutions: &[Solution]) -> (Vec<BraceAtPlat
     let n = scene.posts.len();
     let mut out = vec![BraceAtPlate::default(); n];
     for solution in solutions {
-        let actions = VariableActions::of(&solution.items);
+        let actions = VariableActions::of(&solution.items, scene.analysis.working_levels);
         for variant in 0..actions.variants {
             let (mut hi, mut lo) = (vec![0.0f64; n], vec![0.0f64; n]);
             for &i in &actions.independent {
@@ -146,7 +146,7 @@ pub fn brace_at_posts(model: &Model, solutions: &[Solution]) -> (Vec<BraceAtPlat
         }
     }
     // The bays whose braces end on each standard, at its lowest post.
-    let mut index: crate::fxhash::FxMap<(u32, u32), u32> = Default::default();
+    let mut index: rustc_hash::FxHashMap<(u32, u32), u32> = Default::default();
     let mut bays: Vec<(u32, u32)> = Vec::new();
     for plane in &model.bracing.planes {
         for d in plane.lifts.iter().flatten() {

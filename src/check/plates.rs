@@ -124,8 +124,9 @@ pub struct PlateCombination {
 ///
 /// Permanent load takes, per plate, whichever of its two factors is worse for the value sought;
 /// each imposed load and each identified horizontal force is added only where it makes that value
-/// worse, and of wind with notional load the worst single plan direction is taken
-/// ([`crate::check::actions::VariableActions`]). For the minimum, a notional load counts only with
+/// worse (under the working-scaffold rule, the load-class loads of one working level in full with
+/// the worse adjacent level at half), and of wind with notional load the worst single plan
+/// direction is taken ([`crate::check::actions::VariableActions`]). For the minimum, a notional load counts only with
 /// the part due to permanent load: the variable load it would come from is then absent. With ψ0
 /// set, each variable case leads in turn; where diaphragms were solved both ways, each way in
 /// turn; the worse governs every plate.
@@ -140,7 +141,7 @@ pub fn combine(scene: &Scene, solution: &Solution, caps: &[PostCapacity]) -> Vec
     let (mut hi, mut lo) = (vec![0.0; n], vec![0.0; n]);
     let (mut best_hi, mut best_lo) = (vec![0.0; n], vec![0.0; n]);
     let (mut group_hi, mut group_lo) = (vec![0.0; n], vec![0.0; n]);
-    let actions = crate::check::actions::VariableActions::of(&solution.items);
+    let actions = crate::check::actions::VariableActions::of(&solution.items, scene.analysis.working_levels);
     for comb in &scene.combinations {
         let f = comb.factors;
         best_hi.iter_mut().for_each(|v| *v = f64::NEG_INFINITY);
@@ -158,27 +159,43 @@ pub fn combine(scene: &Scene, solution: &Solution, caps: &[PostCapacity]) -> Vec
                 for &i in &actions.independent {
                     let item = &solution.items[i];
                     let gamma = crate::check::actions::variable_factor(comb, item, leading);
-                    match &item.arranged {
-                        // Arranged: at each post, the cells that push it down for the maximum and
-                        // those that lift it for the minimum.
-                        Some(arranged) => {
-                            for &(p, down, up) in &arranged.extremes {
-                                hi[p as usize] += gamma * down;
-                                lo[p as usize] += gamma * up;
+                    add_variable(item, gamma, variant, &mut hi, &mut lo);
+                }
+                // Working levels: one level in full with the worse adjacent one at half, at each post.
+                if !actions.by_level.is_empty() {
+                    let per_level: Vec<(Vec<f64>, Vec<f64>)> = actions
+                        .by_level
+                        .iter()
+                        .map(|(_, group)| {
+                            let (mut h, mut l) = (vec![0.0; n], vec![0.0; n]);
+                            for &i in group {
+                                let item = &solution.items[i];
+                                let gamma = crate::check::actions::variable_factor(comb, item, leading);
+                                add_variable(item, gamma, variant, &mut h, &mut l);
                             }
-                        }
-                        // Whole: present everywhere or not at all, whichever is worse.
-                        None => {
-                            let r = item.variant(variant);
-                            for &(p, v) in r.vertical.iter().chain(r.internal) {
-                                let v = gamma * v;
-                                if v > 0.0 {
-                                    hi[p as usize] += v;
-                                } else {
-                                    lo[p as usize] += v;
+                            (h, l)
+                        })
+                        .collect();
+                    let share = crate::check::actions::ADJACENT_LEVEL_SHARE;
+                    for p in 0..n {
+                        let (mut level_hi, mut level_lo) = (0.0f64, 0.0f64);
+                        for k in 0..per_level.len() {
+                            let adjacent = |f: &dyn Fn(&(Vec<f64>, Vec<f64>)) -> f64, pick: fn(f64, f64) -> f64| {
+                                let below = k.checked_sub(1).map(|j| f(&per_level[j]));
+                                let above = per_level.get(k + 1).map(f);
+                                match (below, above) {
+                                    (Some(a), Some(b)) => pick(a, b),
+                                    (Some(a), None) | (None, Some(a)) => a,
+                                    (None, None) => 0.0,
                                 }
-                            }
+                            };
+                            let h = per_level[k].0[p] + share * adjacent(&|x| x.0[p], f64::max);
+                            let l = per_level[k].1[p] + share * adjacent(&|x| x.1[p], f64::min);
+                            level_hi = level_hi.max(h);
+                            level_lo = level_lo.min(l);
                         }
+                        hi[p] += level_hi;
+                        lo[p] += level_lo;
                     }
                 }
                 // Wind and notional directions are alternatives: the worst single direction counts.
@@ -220,6 +237,33 @@ pub fn combine(scene: &Scene, solution: &Solution, caps: &[PostCapacity]) -> Vec
         }
     }
     out
+}
+
+/// Add one independent variable item (factor `gamma` already chosen) to the maximum and minimum
+/// at every post it reaches, under diaphragm assumption `variant`.
+fn add_variable(item: &crate::solve::Item, gamma: f64, variant: usize, hi: &mut [f64], lo: &mut [f64]) {
+    match &item.arranged {
+        // Arranged: at each post, the cells that push it down for the maximum and those that
+        // lift it for the minimum.
+        Some(arranged) => {
+            for &(p, down, up) in &arranged.extremes {
+                hi[p as usize] += gamma * down;
+                lo[p as usize] += gamma * up;
+            }
+        }
+        // Whole: present everywhere or not at all, whichever is worse.
+        None => {
+            let r = item.variant(variant);
+            for &(p, v) in r.vertical.iter().chain(r.internal) {
+                let v = gamma * v;
+                if v > 0.0 {
+                    hi[p as usize] += v;
+                } else {
+                    lo[p as usize] += v;
+                }
+            }
+        }
+    }
 }
 
 fn plate_combination(comb: &Combination, max_kn: f64, min_kn: f64, cap: PostCapacity) -> PlateCombination {
@@ -288,7 +332,7 @@ mod tests {
     use crate::scene::model::{GranularLayer, LoadSpread, PlateSize};
 
     fn support(sole: Option<PlateSize>) -> SupportType {
-        SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: sole }
+        SupportType::new("S", PlateSize { width_m: 0.15, length_m: 0.15 }, 30.0, sole)
     }
 
     #[test]

@@ -67,7 +67,9 @@ pub fn stability(solution: &Solution, target_factor: f64) -> Stability {
         ("+y", [0.0, ymax, zbase], [-1.0, 0.0, 0.0], ymax - ymin, ymax),
         ("-y", [0.0, ymin, zbase], [1.0, 0.0, 0.0], ymax - ymin, ymin),
     ];
-    let actions = crate::check::actions::VariableActions::of(&solution.items);
+    // Every working level counts in full here (the working-scaffold rule is not used for
+    // overturning, which is the more cautious).
+    let actions = crate::check::actions::VariableActions::of(&solution.items, crate::scene::model::WorkingLevels::AllAtOnce);
     let tip = |r: &Resultant, edge: [f64; 3], axis: [f64; 3]| {
         let m = r.moment_about(edge);
         m[0] * axis[0] + m[1] * axis[1] + m[2] * axis[2]
@@ -78,7 +80,15 @@ pub fn stability(solution: &Solution, target_factor: f64) -> Stability {
             let g = tip(&permanent, edge, axis);
             let restoring = (-g).max(0.0);
             let items = &solution.items;
-            let independent: f64 = actions.independent.iter().map(|&i| tip(&items[i].applied, edge, axis).max(0.0)).sum();
+            // An arranged load overturns with the cells that turn the structure that way only.
+            let independent: f64 = actions
+                .independent
+                .iter()
+                .map(|&i| match &items[i].arranged {
+                    Some(a) => a.cells.iter().map(|c| tip(&c.applied, edge, axis).max(0.0)).sum(),
+                    None => tip(&items[i].applied, edge, axis).max(0.0),
+                })
+                .sum();
             let horizontal = actions
                 .by_direction
                 .iter()

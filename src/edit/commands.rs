@@ -945,7 +945,7 @@ pub mod place {
     use std::collections::HashSet;
 
     use super::EditError;
-    use crate::scene::model::{BeamRole, Bearer, Brace, Deck, PlateSize, Post, PostNode, Rect, Scene, SupportType, STEEL_TUBE_KN_PER_M};
+    use crate::scene::model::{BeamRole, Bearer, Brace, Deck, Post, PostNode, Rect, Scene, SupportType, STEEL_TUBE_KN_PER_M};
     use crate::scene::validate::GEOMETRY_TOLERANCE_M;
 
     /// Round a coordinate to the nearest multiple of `step` (no snap when `step` ≤ 0).
@@ -971,12 +971,13 @@ pub mod place {
             .expect("an unused id exists")
     }
 
-    /// A support type for scenes that have none yet: 150 × 150 mm base plate with a 30 kN
-    /// jack, no sole plate. The user sets the real values in the inspector.
+    /// A support type for scenes that have none yet: the shipped catalogue's example base jack,
+    /// no sole plate. Its safe working load is marked as an example (validation says so) until
+    /// the planner picks or enters the manufacturer's in the inspector.
     pub fn starter_support(id: &str) -> SupportType {
-        // common practice, no source: the usual scaffold base plate size and a typical
-        // adjustable base jack working load; placeholders until the planner enters the product's.
-        SupportType { id: id.to_owned(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: None }
+        use crate::scene::catalogue;
+        let jack = catalogue::shipped().jack(catalogue::DEFAULT_JACK).expect("the shipped catalogue has its default jack (tested)");
+        catalogue::support_type(id, jack, None)
     }
 
     /// A new post at (x, y). It takes its levels and support type from the nearest post, or
@@ -991,7 +992,7 @@ pub mod place {
             Some(p) => (p.base_level, p.top_level, p.support.clone()),
             None => (base_level, base_level + height_m, scene.support_types.first().map(|s| s.id.clone())),
         };
-        Post { id: fresh_id(scene, "P"), x, y, base_level: base, top_level: top, support, self_weight_kn_per_m: STEEL_TUBE_KN_PER_M }
+        Post { id: fresh_id(scene, "P"), x, y, base_level: base, top_level: top, support, self_weight_kn_per_m: STEEL_TUBE_KN_PER_M, section: None }
     }
 
     /// Whether a post stands at (x, y) already (within the geometry tolerance) at that level.
@@ -1044,6 +1045,8 @@ pub mod place {
             overhang_end_m: 0.0,
             self_weight_kn_per_m: STEEL_TUBE_KN_PER_M,
             method: None,
+            joints: None,
+            section: None,
         })
     }
 
@@ -1086,7 +1089,7 @@ pub mod place {
         let span = (spans[0].0, spans[spans.len() - 1].0);
         let extent = if along_x { Rect { x: along, y: span } } else { Rect { x: span, y: along } };
         let level = spans.iter().map(|s| s.2.level).fold(f64::NEG_INFINITY, f64::max);
-        Ok(Deck { id: fresh_id(scene, "D"), level, extent, bearers: spans.iter().map(|s| s.2.id.clone()).collect(), self_weight_kpa, method: None, diaphragm: false })
+        Ok(Deck { id: fresh_id(scene, "D"), level, extent, bearers: spans.iter().map(|s| s.2.id.clone()).collect(), self_weight_kpa, method: None, joints: None, decking: None, diaphragm: false })
     }
 
     /// A brace from post `from` at `from_level` to post `to` at `to_level` (defaults: the lower

@@ -46,6 +46,7 @@ struct Doc<'a> {
     units: Units,
     combinations: &'a [crate::Combination],
     methods: Vec<&'a str>,
+    imposed_loads: ImposedLoads<'a>,
     bases: Vec<Base<'a>>,
     lifts: Vec<Lift<'a>>,
     totals: Totals,
@@ -55,6 +56,15 @@ struct Doc<'a> {
     equilibrium_by_method: Vec<MethodEquilibrium<'a>>,
     stability: &'a Stability,
     warnings: Vec<String>,
+}
+
+/// How the imposed loads are placed.
+#[derive(Serialize)]
+struct ImposedLoads<'a> {
+    /// Every imposed load spread over a deck or bearer is split into cells and loaded where
+    /// unfavourable at each plate, except these (applied whole, as the planner set).
+    whole: &'a [String],
+    working_levels: &'static str,
 }
 
 #[derive(Serialize)]
@@ -92,6 +102,7 @@ struct Base<'a> {
     governing_method: &'a str,
     min_method: &'a str,
     cases_kn_by_method: Vec<MethodCases<'a>>,
+    arrangements: Vec<crate::check::ArrangementAt>,
     status: &'static str,
     brace: Brace<'a>,
 }
@@ -171,11 +182,12 @@ struct Equilibrium {
     force_residual_kn: f64,
     moment_residual_knm: f64,
     relative: f64,
+    one_state: bool,
 }
 
 impl From<&CaseEquilibrium> for Equilibrium {
     fn from(e: &CaseEquilibrium) -> Self {
-        Equilibrium { case: e.case, force_residual_kn: e.force_residual_kn, moment_residual_knm: e.moment_residual_knm, relative: e.relative }
+        Equilibrium { case: e.case, force_residual_kn: e.force_residual_kn, moment_residual_knm: e.moment_residual_knm, relative: e.relative, one_state: e.one_state }
     }
 }
 
@@ -221,6 +233,7 @@ pub fn analysis_json(a: &Analysis) -> String {
             governing_method: a.governing_method_label(i),
             min_method: a.min_method_label(i),
             cases_kn_by_method: p.case_kn_by_method.iter().enumerate().map(|(m, &c)| MethodCases { method: a.method_label(m), cases_kn: PerCase::of(c) }).collect(),
+            arrangements: a.arrangements_at(i),
             status: p.status.label(),
             brace: Brace { max_kn: p.brace.max_kn, min_kn: p.brace.min_kn, bays: p.brace.bays.iter().map(|&b| bay_names.get(b as usize).map_or("?", String::as_str)).collect() },
         })
@@ -232,6 +245,7 @@ pub fn analysis_json(a: &Analysis) -> String {
         units: Units { force: "kN", length: "m", pressure: "kPa", moment: "kN.m" },
         combinations: &a.combinations,
         methods: (0..a.method_count()).map(|m| a.method_label(m)).collect(),
+        imposed_loads: ImposedLoads { whole: &a.whole_loads, working_levels: a.working_levels.label() },
         bases,
         lifts: a
             .lifts
@@ -264,5 +278,48 @@ pub fn analysis_json(a: &Analysis) -> String {
         warnings: a.warnings.iter().map(|w| w.to_string()).collect(),
     };
     // Non-finite numbers cannot occur in a valid analysis; serde_json writes them as null.
-    serde_json::to_string_pretty(&doc).expect("the document is plain data")
+    let mut out = Vec::with_capacity(1024 + 2048 * a.plates.len());
+    let mut ser = serde_json::Serializer::with_formatter(&mut out, Numbers(serde_json::ser::PrettyFormatter::new()));
+    doc.serialize(&mut ser).expect("the document is plain data");
+    String::from_utf8(out).expect("serde_json writes UTF-8")
+}
+
+/// serde_json's pretty layout, with every number written through [`crate::format`]: no
+/// negative zero.
+struct Numbers(serde_json::ser::PrettyFormatter<'static>);
+
+impl serde_json::ser::Formatter for Numbers {
+    fn write_f64<W: ?Sized + std::io::Write>(&mut self, w: &mut W, v: f64) -> std::io::Result<()> {
+        self.0.write_f64(w, crate::format::no_negative_zero(v))
+    }
+    fn write_f32<W: ?Sized + std::io::Write>(&mut self, w: &mut W, v: f32) -> std::io::Result<()> {
+        self.0.write_f32(w, if v == 0.0 { 0.0 } else { v })
+    }
+    fn begin_array<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.begin_array(w)
+    }
+    fn end_array<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.end_array(w)
+    }
+    fn begin_array_value<W: ?Sized + std::io::Write>(&mut self, w: &mut W, first: bool) -> std::io::Result<()> {
+        self.0.begin_array_value(w, first)
+    }
+    fn end_array_value<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.end_array_value(w)
+    }
+    fn begin_object<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.begin_object(w)
+    }
+    fn end_object<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.end_object(w)
+    }
+    fn begin_object_key<W: ?Sized + std::io::Write>(&mut self, w: &mut W, first: bool) -> std::io::Result<()> {
+        self.0.begin_object_key(w, first)
+    }
+    fn begin_object_value<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.begin_object_value(w)
+    }
+    fn end_object_value<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.end_object_value(w)
+    }
 }

@@ -5,4 +5,5 @@ pub mod json;
 pub mod palette;
 pub mod report;
 pub mod schedule;
+pub mod spare;
 pub mod trace;

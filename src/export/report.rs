@@ -99,11 +99,12 @@ pub fn report_html(scene: &Scene, analysis: &Analysis, opts: &ReportOptions) -> 
     schedule(&mut h, analysis);
     stability(&mut h, analysis);
     equilibrium(&mut h, analysis);
+    spare(&mut h, scene, analysis);
     warnings(&mut h, analysis);
     if let Some(png) = &opts.picture_png {
         let _ = writeln!(
             h,
-            "<section class=\"picture\"><h2>8. 3D view</h2><figure><img alt=\"3D view of the scene\" src=\"data:image/png;base64,{}\"><figcaption>Rendered view of the scene, for orientation only; the numbers above govern.</figcaption></figure></section>",
+            "<section class=\"picture\"><h2>9. 3D view</h2><figure><img alt=\"3D view of the scene\" src=\"data:image/png;base64,{}\"><figcaption>Rendered view of the scene, for orientation only; the numbers above govern.</figcaption></figure></section>",
             base64(png)
         );
     }
@@ -175,8 +176,7 @@ fn base64(bytes: &[u8]) -> String {
 
 /// A number with `dp` decimals, never written as `-0.00`.
 fn num(v: f64, dp: usize) -> String {
-    let s = format!("{v:.dp$}");
-    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') { s[1..].to_owned() } else { s }
+    format!("{:.dp$}", crate::format::num(v))
 }
 
 /// kN to two decimals.
@@ -191,7 +191,7 @@ fn pct(v: f64) -> String {
 
 /// A relative residual in scientific notation.
 fn sci(v: f64) -> String {
-    format!("{v:.1e}")
+    format!("{:.1e}", crate::format::num(v))
 }
 
 fn hex([r, g, b]: [u8; 3]) -> String {
@@ -339,9 +339,11 @@ fn glance(h: &mut String, a: &Analysis) {
     if let Some(w) = a.worst_plate() {
         let p = &a.plates[w];
         let g = p.governing();
+        let arrangement: Vec<String> = a.arrangements_at(w).iter().map(|n| esc(&n.words())).collect();
+        let arrangement = if arrangement.is_empty() { String::new() } else { format!("<br>{}", arrangement.join("<br>")) };
         let _ = writeln!(
             h,
-            "<tr><td class=\"k\">Most utilised base plate</td><td><strong>{}</strong>: {} kN, {} ({}, combination {})</td></tr>",
+            "<tr><td class=\"k\">Most utilised base plate</td><td><strong>{}</strong>: {} kN, {} ({}, combination {}){arrangement}</td></tr>",
             esc(&p.id),
             kn(g.max_kn),
             pct(g.utilisation),
@@ -415,14 +417,21 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
 
     let _ = writeln!(
         h,
-        "<h3>Support types</h3><table><thead><tr><th>Id</th><th>Base plate (mm)</th><th>Sole plate (mm)</th><th class=\"n\">SWL (kN)</th><th class=\"n\">Bearing area at formation (m²)</th><th class=\"n\">Plates</th></tr></thead><tbody>"
+        "<h3>Support types</h3><table><thead><tr><th>Id</th><th>Base plate (mm)</th><th>Sole plate (mm)</th><th class=\"n\">SWL (kN)</th><th>Source of the SWL</th><th class=\"n\">Bearing area at formation (m²)</th><th class=\"n\">Plates</th></tr></thead><tbody>"
     );
     for s in &scene.support_types {
         let mm = |p: crate::scene::model::PlateSize| format!("{} × {}", num(p.width_m * 1000.0, 0), num(p.length_m * 1000.0, 0));
         let used = a.plates.iter().filter(|p| p.support == s.id).count();
+        let mut source = if s.source.trim().is_empty() { "not given".to_owned() } else { esc(&s.source) };
+        if let Some(e) = s.max_extension_m {
+            source = format!("up to {} m jack extension; {source}", num(e, 2));
+        }
+        if crate::scene::catalogue::uses_example_values(s) {
+            source = format!("<span class=\"bad\">EXAMPLE VALUE — replace with the manufacturer's</span>; {source}");
+        }
         let _ = writeln!(
             h,
-            "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{used}</td></tr>",
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"n\">{}</td><td>{source}</td><td class=\"n\">{}</td><td class=\"n\">{used}</td></tr>",
             esc(&s.id),
             mm(s.base_plate),
             s.sole_plate.map_or_else(|| "none".into(), mm),
@@ -463,11 +472,18 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
     }
     let _ = writeln!(h, "</ul><p class=\"note\">Notional horizontal load: {}.</p>", esc(&a.horizontal.notional));
 
-    let _ = writeln!(h, "<h3>Loads</h3><table><thead><tr><th>Id</th><th>Case</th><th>Kind</th><th>Where</th><th>Value</th></tr></thead><tbody>");
-    let _ = writeln!(h, "<tr><td>self-weight</td><td>G</td><td>self-weight</td><td>every post, bearer and deck</td><td>from the members' kN/m and the decks' kPa</td></tr>");
+    let _ = writeln!(h, "<h3>Loads</h3><table><thead><tr><th>Id</th><th>Case</th><th>Kind</th><th>Where</th><th>Value</th><th>Placed</th></tr></thead><tbody>");
+    let _ = writeln!(h, "<tr><td>self-weight</td><td>G</td><td>self-weight</td><td>every post, bearer and deck</td><td>from the members' kN/m and the decks' kPa</td><td>everywhere</td></tr>");
     for l in &scene.loads {
         let (place, value) = load_words(&l.kind);
-        let _ = writeln!(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>", esc(&l.id), l.case, l.kind.label(), esc(&place), esc(&value));
+        let placed = if l.is_arranged() {
+            "in its worst arrangement at each plate"
+        } else if l.case == crate::scene::loads::Case::Q && l.arrangement == crate::scene::loads::Arrangement::Whole {
+            "<strong>whole</strong> (as set)"
+        } else {
+            "whole"
+        };
+        let _ = writeln!(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{placed}</td></tr>", esc(&l.id), l.case, l.kind.label(), esc(&place), esc(&value));
     }
     let braced = match (a.braced.x, a.braced.y) {
         (true, true) => "x and y",
@@ -475,7 +491,11 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
         (false, true) => "y only",
         (false, false) => "neither direction",
     };
-    let _ = writeln!(h, "</tbody></table><p class=\"note\">Braced planes along: {braced} (section 4 lists them with the diaphragms). Cases: G permanent, Q imposed, W horizontal.</p></section>");
+    let _ = writeln!(
+        h,
+        "</tbody></table><p class=\"note\">Braced planes along: {braced} (section 4 lists them with the diaphragms). Cases: G permanent, Q imposed, W horizontal. An imposed load placed in its worst arrangement is split into cells (each deck strip between bearers × each stretch between posts, each cantilever or overhang part on its own); at each plate only the cells that push it down count for its maximum, and only those that lift it for its minimum. Working levels: {}.</p></section>",
+        a.working_levels.label()
+    );
 }
 
 /// Plan geometry in drawing units (1 unit ≈ 0.19 mm when printed across A4).
@@ -552,13 +572,21 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
     let scale = ((WIDTH - 2.0 * MARGIN - label_room) / dx).min(900.0 / dy);
     let view = View { scale, x0, y1: y0 + dy, margin: MARGIN, top: TOP };
     let labels: Vec<Vec<String>> = a.plates.iter().map(plate_label).collect();
-    // Drawn plate rectangles (centre x, centre y, half width, half length), drawing units.
+    // Drawn plate footprints (centre x, centre y, half width, half length), drawing units: the
+    // plate rectangle, or the square round its uplift ring, so labels keep clear of both.
     let rects: Vec<[f64; 4]> = a
         .plates
         .iter()
         .map(|p| {
             let (w, l) = plate_size(p);
-            [view.x(p.x), view.y(p.y), (w * scale).max(MIN_PLATE) / 2.0, (l * scale).max(MIN_PLATE) / 2.0]
+            let (hw, hl) = ((w * scale).max(MIN_PLATE) / 2.0, (l * scale).max(MIN_PLATE) / 2.0);
+            let cue = Cue::of(p.status);
+            if matches!(cue, Cue::Uplift | Cue::OverAndUplift) {
+                let r = uplift_ring_radius(hw, hl, cue == Cue::OverAndUplift) + 1.5;
+                [view.x(p.x), view.y(p.y), r, r]
+            } else {
+                [view.x(p.x), view.y(p.y), hw, hl]
+            }
         })
         .collect();
     let font = label_font(&rects, &labels);
@@ -632,7 +660,7 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
     }
     // Plates at scale (never smaller than MIN_PLATE units), coloured by band, with cues.
     let mut enlarged = false;
-    for (p, label) in a.plates.iter().zip(&labels) {
+    for ((p, label), rect) in a.plates.iter().zip(&labels).zip(&rects) {
         let g = p.governing();
         let band = Band::of(g.utilisation);
         let cue = Cue::of(p.status);
@@ -658,7 +686,8 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
             hex(band.colour())
         );
         if over {
-            // Second cue for over capacity: white cross-hatch and a bold outline ring.
+            // Second cue for over capacity: white cross-hatch and a bold square frame (the
+            // editor's cue too; a round ring means uplift).
             let _ = write!(
                 s,
                 "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"url(#hatch)\"/><rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"none\" stroke=\"#000\" stroke-width=\"3.5\"/>",
@@ -673,8 +702,17 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
             );
         }
         if uplift {
-            // Second cue for uplift: an upward marker above the plate.
-            let (tx, ty) = (cx, ry - 8.0);
+            // Second cue for uplift: a bold round ring around the plate (as in the editor) and
+            // an upward marker above it.
+            let ring = uplift_ring_radius(pw / 2.0, pl / 2.0, over);
+            let _ = write!(
+                s,
+                "<circle cx=\"{}\" cy=\"{}\" r=\"{}\" fill=\"none\" stroke=\"#000\" stroke-width=\"3\"/>",
+                num(cx, 1),
+                num(cy, 1),
+                num(ring, 1)
+            );
+            let (tx, ty) = (cx, cy - ring - 2.0);
             let k = font * 0.8;
             let _ = write!(
                 s,
@@ -691,7 +729,7 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
                 num(ty, 1)
             );
         }
-        let lx = cx + pw / 2.0 + 4.0;
+        let lx = rect[0] + rect[2] + 4.0;
         let ly = cy - font * 0.55;
         let _ = write!(
             s,
@@ -764,6 +802,12 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
 
 /// Box of a plate's label at font size `f`: to the right of the plate, starting a little above
 /// its centre. Characters are taken as 0.62 em wide (a little over the average of sans faces).
+/// Radius of the ring drawn round a lifting plate of half sizes `hw` × `hl`: clear of its
+/// corners, and of the square frame when the plate is over capacity too.
+fn uplift_ring_radius(hw: f64, hl: f64, over: bool) -> f64 {
+    hw.hypot(hl) + if over { 9.0 } else { 4.5 }
+}
+
 fn label_box(r: &[f64; 4], label: &[String], f: f64) -> [f64; 4] {
     let chars = label.iter().map(|t| t.chars().count()).max().unwrap_or(1) as f64;
     let lines = label.len() as f64;
@@ -843,8 +887,8 @@ fn legend() -> String {
     let over = hex(Band::Over.colour());
     let _ = write!(
         l,
-        "<span><svg width=\"26\" height=\"18\" viewBox=\"0 0 26 18\"><defs><pattern id=\"lh\" width=\"5\" height=\"5\" patternUnits=\"userSpaceOnUse\"><path d=\"M0 0L5 5M5 0L0 5\" stroke=\"#fff\" stroke-width=\"1\"/></pattern></defs><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"{over}\"/><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"url(#lh)\"/><rect x=\"2\" y=\"1\" width=\"22\" height=\"16\" fill=\"none\" stroke=\"#000\" stroke-width=\"2.5\"/></svg>over capacity: hatched, bold ring</span>\
-<span><svg width=\"18\" height=\"18\" viewBox=\"0 0 18 18\"><path d=\"M9 1L3 9L15 9z\" fill=\"#fff\" stroke=\"#000\" stroke-width=\"1.6\"/><line x1=\"9\" y1=\"9\" x2=\"9\" y2=\"17\" stroke=\"#000\" stroke-width=\"1.6\"/></svg>uplift: upward marker</span></div>"
+        "<span><svg width=\"26\" height=\"18\" viewBox=\"0 0 26 18\"><defs><pattern id=\"lh\" width=\"5\" height=\"5\" patternUnits=\"userSpaceOnUse\"><path d=\"M0 0L5 5M5 0L0 5\" stroke=\"#fff\" stroke-width=\"1\"/></pattern></defs><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"{over}\"/><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"url(#lh)\"/><rect x=\"2\" y=\"1\" width=\"22\" height=\"16\" fill=\"none\" stroke=\"#000\" stroke-width=\"2.5\"/></svg>over capacity: hatched, square frame</span>\
+<span><svg width=\"30\" height=\"30\" viewBox=\"0 0 30 30\"><circle cx=\"15\" cy=\"18\" r=\"10\" fill=\"none\" stroke=\"#000\" stroke-width=\"2\"/><rect x=\"11\" y=\"15\" width=\"8\" height=\"6\" fill=\"#fff\" stroke=\"#222\" stroke-width=\"0.8\"/><path d=\"M15 0L11 5L19 5z\" fill=\"#fff\" stroke=\"#000\" stroke-width=\"1.4\"/><line x1=\"15\" y1=\"5\" x2=\"15\" y2=\"8\" stroke=\"#000\" stroke-width=\"1.4\"/></svg>lifts (uplift): round ring, upward marker</span></div>"
     );
     l
 }
@@ -1125,8 +1169,98 @@ fn plan_size(plates: &[[f64; 3]]) -> f64 {
         .fold(1.0, f64::max)
 }
 
+/// Grid of the report's spare-capacity plans, m: coarse enough to print a number in each cell.
+// common practice, no source
+const REPORT_SPARE_GRID_M: f64 = 0.5;
+
+/// A plan of each deck's spare capacity for a point load, in the spare ramp, with numbers.
+fn spare(h: &mut String, scene: &Scene, a: &Analysis) {
+    use crate::check::spare::{spare_map, SpareSettings};
+    use crate::export::palette::SpareBand;
+    let _ = writeln!(h, "<section><h2>7. Spare capacity on the decks</h2>");
+    let settings = SpareSettings { spacing_m: REPORT_SPARE_GRID_M, ..SpareSettings::default() };
+    let map = match spare_map(scene, a, &settings) {
+        Ok(map) => map,
+        Err(e) => {
+            let _ = writeln!(h, "<p>Not worked out: {}.</p></section>", esc(&e.to_string()));
+            return;
+        }
+    };
+    let _ = writeln!(
+        h,
+        "<p class=\"note\">The largest extra imposed load (characteristic, kN) one point load may add at each point, on top of the existing loads in their worst arrangement, before a base plate reaches its safe working load or allowable bearing, a plate lifts, or the deck its load class (combinations: {}). Values do not add: after placing one load, work the map out again (<code>plateload spare</code>, which also takes a footprint such as a pallet and a dynamic factor for crane landing). Not checked here, as no capacity is known for them: {}.</p>",
+        esc(&map.combinations.join(", ")),
+        esc(&if map.not_checked.is_empty() { "none".to_owned() } else if map.not_checked.len() > 12 { format!("{} and {} more members", map.not_checked[..12].join(", "), map.not_checked.len() - 12) } else { map.not_checked.join(", ") })
+    );
+    if let Some(w) = &map.not_included {
+        let _ = writeln!(h, "<p class=\"note\"><strong>Not included:</strong> {}.</p>", esc(w));
+    }
+    for d in &map.decks {
+        let (x0, x1) = d.points.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p.x), hi.max(p.x)));
+        let (y0, y1) = d.points.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p.y), hi.max(p.y)));
+        let cell = REPORT_SPARE_GRID_M;
+        // Drawing units per metre: the plan fits the printed width.
+        let width = 640.0;
+        let scale = (width / (x1 - x0 + cell).max(cell)).min(120.0);
+        let (w, hgt) = ((x1 - x0 + cell) * scale, (y1 - y0 + cell) * scale);
+        let _ = writeln!(
+            h,
+            "<h3>Deck {} at {} m{}</h3><svg class=\"plan-drawing\" xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 {} {}\" font-family=\"DejaVu Sans, Liberation Sans, Arial, sans-serif\" role=\"img\" aria-label=\"Spare capacity of deck {}\"><defs><pattern id=\"limit-hatch\" width=\"6\" height=\"6\" patternUnits=\"userSpaceOnUse\" patternTransform=\"rotate(45)\"><rect width=\"6\" height=\"6\" fill=\"{}\"/><line x1=\"0\" y1=\"0\" x2=\"0\" y2=\"6\" stroke=\"#fff\" stroke-width=\"1.5\"/></pattern></defs>",
+            esc(&d.deck),
+            num(d.level, 2),
+            d.load_class.map_or(" (no load class known: the deck itself is not checked)".to_owned(), |c| format!(" (load class {c})")),
+            num(w, 1),
+            num(hgt, 1),
+            esc(&d.deck),
+            hex(SpareBand::AtLimit.colour())
+        );
+        let font = (cell * scale * 0.3).clamp(6.0, 12.0);
+        for p in &d.points {
+            let band = SpareBand::of(p.kn, p.already_at_limit);
+            let (cx, cy) = ((p.x - x0 + 0.5 * cell) * scale, (y1 - p.y + 0.5 * cell) * scale);
+            let fill = if band == SpareBand::AtLimit { "url(#limit-hatch)".to_owned() } else { hex(band.colour()) };
+            let _ = write!(
+                h,
+                "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"{fill}\" stroke=\"#fff\" stroke-width=\"0.5\"><title>({}, {}): {}</title></rect>",
+                num(cx - 0.5 * cell * scale, 1),
+                num(cy - 0.5 * cell * scale, 1),
+                num(cell * scale, 1),
+                num(cell * scale, 1),
+                num(p.x, 2),
+                num(p.y, 2),
+                esc(&match p.kn {
+                    Some(k) if !p.already_at_limit => format!("up to {} kN — limited by {}", num(k, 1), p.limit.words()),
+                    Some(_) => format!("no extra load — {}", p.limit.words()),
+                    None => "no limit found".to_owned(),
+                })
+            );
+            if cell * scale >= 18.0 && band != SpareBand::AtLimit {
+                let text = p.kn.map_or("–".to_owned(), |k| num(k, if k < 10.0 { 1 } else { 0 }));
+                let _ = write!(h, "<text x=\"{}\" y=\"{}\" font-size=\"{}\" text-anchor=\"middle\" fill=\"{}\">{}</text>", num(cx, 1), num(cy + font * 0.35, 1), num(font, 1), ink_on(band.colour()), esc(&text));
+            }
+        }
+        h.push_str("</svg>\n");
+        let least = d.points.iter().filter(|p| p.kn.is_some()).min_by(|a, b| a.kn.unwrap_or(0.0).total_cmp(&b.kn.unwrap_or(0.0)));
+        let full = d.points.iter().filter(|p| p.already_at_limit).count();
+        let _ = write!(h, "<p class=\"note\">");
+        if let Some(p) = least {
+            let _ = write!(h, "Least: {} kN at ({}, {}), limited by {}. ", num(p.kn.unwrap_or(0.0), 1), num(p.x, 2), num(p.y, 2), esc(&p.limit.words()));
+        }
+        if full > 0 {
+            let _ = write!(h, "{full} of {} points (hatched) can take no extra load: a limit is already reached there. ", d.points.len());
+        }
+        h.push_str("x to the right, y up, as the plan in section 3.</p>\n");
+    }
+    h.push_str("<p class=\"note\">");
+    for band in SpareBand::ALL {
+        let swatch = if band == SpareBand::AtLimit { "background:repeating-linear-gradient(45deg,#241f2b 0 3px,#fff 3px 4px)".to_owned() } else { format!("background:{}", hex(band.colour())) };
+        let _ = write!(h, "<span style=\"display:inline-block;width:1.2em;height:0.9em;border:1px solid #888;vertical-align:middle;{swatch}\"></span> {} &nbsp; ", esc(band.label()));
+    }
+    h.push_str("</p></section>\n");
+}
+
 fn warnings(h: &mut String, a: &Analysis) {
-    let _ = writeln!(h, "<section><h2>7. Warnings</h2>");
+    let _ = writeln!(h, "<section><h2>8. Warnings</h2>");
     if a.warnings.is_empty() {
         h.push_str("<p>None.</p>");
     } else {

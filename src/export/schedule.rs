@@ -7,87 +7,51 @@
 //! and a totals row whose case columns equal the applied load of each case.
 
 use crate::check::analysis::Analysis;
+use crate::format::{num, push_fixed};
 use crate::scene::loads::Case;
 
-/// A CSV text being built: fields are quoted only when they need it.
+/// A CSV text being built by the `csv` crate (quoting, RFC 4180 line ends), with a reused
+/// buffer for numbers.
 struct Csv {
-    out: String,
-    first: bool,
+    w: csv::Writer<Vec<u8>>,
+    number: String,
 }
 
 impl Csv {
-    fn field(&mut self, v: &str) {
-        if !self.first {
-            self.out.push(',');
-        }
-        self.first = false;
-        if v.contains([',', '"', '\n', '\r']) {
-            self.out.push('"');
-            self.out.push_str(&v.replace('"', "\"\""));
-            self.out.push('"');
-        } else {
-            self.out.push_str(v);
-        }
+    fn new(capacity: usize) -> Self {
+        Csv { w: Self::writer(Vec::with_capacity(capacity)), number: String::with_capacity(32) }
     }
-    /// A number with a fixed count of decimals, without going through `format!` (the schedule
-    /// of a large scene has hundreds of thousands of them).
+    fn writer(into: Vec<u8>) -> csv::Writer<Vec<u8>> {
+        // Records have different lengths (header lines, then the table), hence `flexible`.
+        csv::WriterBuilder::new().flexible(true).terminator(csv::Terminator::CRLF).from_writer(into)
+    }
+    fn field(&mut self, v: &str) {
+        self.w.write_field(v).expect("writing to memory cannot fail");
+    }
+    /// A number with a fixed count of decimals, never a negative zero.
     fn fixed(&mut self, v: f64, decimals: u32) {
-        if !self.first {
-            self.out.push(',');
-        }
-        self.first = false;
-        push_fixed(&mut self.out, v, decimals);
+        self.number.clear();
+        push_fixed(&mut self.number, v, decimals);
+        self.w.write_field(&self.number).expect("writing to memory cannot fail");
     }
     fn end(&mut self) {
-        self.out.push_str("\r\n");
-        self.first = true;
+        self.w.write_record(None::<&[u8]>).expect("writing to memory cannot fail");
     }
     fn record<S: AsRef<str>>(&mut self, fields: &[S]) {
-        for f in fields {
-            self.field(f.as_ref());
-        }
-        self.end();
+        self.w.write_record(fields.iter().map(|f| f.as_ref())).expect("writing to memory cannot fail");
     }
-}
-
-/// Append `v` rounded to `decimals` places (at most 6), like `format!("{v:.3}")` but without the
-/// negative zero.
-pub fn push_fixed(out: &mut String, v: f64, decimals: u32) {
-    use std::fmt::Write;
-    let decimals = decimals.min(6);
-    let scale = 10u64.pow(decimals);
-    let scaled = (v * scale as f64).round();
-    if !scaled.is_finite() || scaled.abs() >= 9.0e15 {
-        let _ = write!(out, "{v:.*}", decimals as usize);
-        return;
+    /// An empty line (the `csv` crate writes an empty record as `""`).
+    fn blank_line(&mut self) {
+        let w = std::mem::replace(&mut self.w, Self::writer(Vec::new()));
+        let mut bytes = w.into_inner().expect("writing to memory cannot fail");
+        bytes.extend_from_slice(b"\r\n");
+        self.w = Self::writer(bytes);
     }
-    // Digits right to left into a stack buffer: sign, integer part, point, `decimals` digits.
-    let negative = scaled < 0.0;
-    let mut n = scaled.abs() as u64;
-    let mut buf = [0u8; 32];
-    let mut i = buf.len();
-    let mut put = |b: u8| {
-        i -= 1;
-        buf[i] = b;
-    };
-    for _ in 0..decimals {
-        put(b'0' + (n % 10) as u8);
-        n /= 10;
+    fn finish(self) -> String {
+        let bytes = self.w.into_inner().expect("writing to memory cannot fail");
+        // Every field came from a `&str`, so the bytes are UTF-8.
+        String::from_utf8(bytes).expect("UTF-8 in, UTF-8 out")
     }
-    if decimals > 0 {
-        put(b'.');
-    }
-    loop {
-        put(b'0' + (n % 10) as u8);
-        n /= 10;
-        if n == 0 {
-            break;
-        }
-    }
-    if negative && scaled != 0.0 {
-        put(b'-');
-    }
-    out.push_str(std::str::from_utf8(&buf[i..]).expect("ASCII digits"));
 }
 
 /// Engine words in plain ASCII: the few typographic signs they use spelt out.
@@ -113,7 +77,7 @@ fn ascii(s: &str) -> String {
 
 /// Write the schedule as CSV text.
 pub fn schedule_csv(analysis: &Analysis) -> String {
-    let mut w = Csv { out: String::with_capacity(256 * (analysis.plates.len() + 16)), first: true };
+    let mut w = Csv::new(256 * (analysis.plates.len() + 16));
     w.record(&["Support-load schedule", analysis.scene_name.as_str()]);
     w.record(&["Caution", crate::CAUTION]);
     w.record(&["Units", "loads kN (upward reaction positive; negative = uplift); positions m; areas m2; pressures kPa; utilisation as a ratio (1.000 = capacity)"]);
@@ -122,16 +86,18 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         w.record(&[
             "Combination".to_string(),
             c.name.clone(),
-            format!("G unfavourable {}", f.g_unfavourable),
-            format!("G favourable {}", f.g_favourable),
-            format!("Q {}", f.q),
-            format!("W {}", f.w),
+            format!("G unfavourable {}", num(f.g_unfavourable)),
+            format!("G favourable {}", num(f.g_favourable)),
+            format!("Q {}", num(f.q)),
+            format!("W {}", num(f.w)),
             format!("checks capacity: {}", if c.checks_capacity { "yes" } else { "no" }),
             format!("checks uplift: {}", if c.checks_uplift { "yes" } else { "no" }),
             c.source.clone(),
-            ascii(&crate::check::actions::describe(c)),
+            ascii(&crate::check::actions::describe(c, analysis.working_levels)),
         ]);
     }
+    let whole = if analysis.whole_loads.is_empty() { "none".to_owned() } else { analysis.whole_loads.join(" ") };
+    w.record(&["Imposed loads", "each split into cells and loaded where unfavourable at each plate", &format!("applied whole as set: {whole}"), analysis.working_levels.label()]);
     // Where horizontal load goes: the diaphragms (and that it is shared nowhere else), the
     // notional load.
     for d in &analysis.horizontal.diaphragms {
@@ -156,16 +122,20 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
     let tagged = analysis.equilibrium_by_method.iter().enumerate().flat_map(|(m, eq)| eq.iter().map(move |e| (m, e)));
     for (m, e) in tagged {
         let name = if m == 0 { format!("Equilibrium {}", e.case) } else { format!("Equilibrium {} [{}]", e.case, analysis.method_label(m)) };
+        if !e.one_state {
+            w.record(&[name, "support by support: each two-span model balances".into(), format!("relative {:.1e}", num(e.relative)), "reactions exceed the applied load by design".into()]);
+            continue;
+        }
         w.record(&[
             name,
-            format!("applied {:.3} kN", e.applied.down()),
-            format!("reactions {:.3} kN", e.reactions.force[2]),
-            format!("|sum F| {:.3e} kN", e.force_residual_kn),
-            format!("|sum M| {:.3e} kN.m", e.moment_residual_knm),
-            format!("relative {:.1e}", e.relative),
+            format!("applied {:.3} kN", num(e.applied.down())),
+            format!("reactions {:.3} kN", num(e.reactions.force[2])),
+            format!("|sum F| {:.3e} kN", num(e.force_residual_kn)),
+            format!("|sum M| {:.3e} kN.m", num(e.moment_residual_knm)),
+            format!("relative {:.1e}", num(e.relative)),
         ]);
     }
-    w.end();
+    w.blank_line();
     let mut head: Vec<String> = ["id", "x (m)", "y (m)", "base level (m)", "support", "bears on", "G (kN)", "Q (kN)", "W (kN)"].map(String::from).to_vec();
     for c in &analysis.combinations {
         head.push(format!("{} max (kN)", c.name));
@@ -178,6 +148,7 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
             "governing combination",
             "method for max",
             "method for min",
+            "imposed load arrangement for max",
             "bearing area (m2)",
             "bearing pressure (kPa)",
             "allowable (kPa)",
@@ -214,6 +185,8 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
         w.field(&analysis.combinations[p.governing].name);
         w.field(analysis.governing_method_label(i));
         w.field(analysis.min_method_label(i));
+        let notes: Vec<String> = analysis.arrangements_at(i).iter().map(|n| format!("{} {}/{} cells", n.load, n.loaded_for_max, n.cells)).collect();
+        w.field(&notes.join("; "));
         w.fixed(p.bearing_area_m2, 4);
         w.fixed(g.bearing_kpa, 1);
         w.fixed(p.allowable_kpa, 1);
@@ -231,7 +204,7 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
     }
     w.end();
     if !analysis.lifts.is_empty() {
-        w.end();
+        w.blank_line();
         w.record(&["Posts standing on other members", "load passed on at the base (kN, downward positive; negative = pulls up: tension in a splice or lifting off)"]);
         let mut head: Vec<String> = ["id", "stands on", "base level (m)", "G (kN)", "Q (kN)", "W (kN)"].map(String::from).to_vec();
         for c in &analysis.combinations {
@@ -255,33 +228,5 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
             w.end();
         }
     }
-    w.out
-}
-
-#[cfg(test)]
-mod tests {
-    use super::push_fixed;
-
-    #[test]
-    fn fixed_matches_standard_formatting() {
-        // source: Rust std `{:.N}` formatting as the reference; ties may round either way, so
-        // the check is that both lie within half a unit in the last place of the true value.
-        for v in [0.0, 1.0, -1.0, 0.5, 2.675, -12.3456, 1234567.891, 0.0004, 99.9995, 1e-9, 42.0, -7.25] {
-            for d in [0, 1, 3, 4] {
-                let mut s = String::new();
-                push_fixed(&mut s, v, d);
-                let expect = format!("{v:.*}", d as usize);
-                let half = 0.5 * 10f64.powi(-(d as i32)) * (1.0 + 1e-9);
-                let got: f64 = s.parse().unwrap();
-                assert!((got - v).abs() <= half, "{v} {d}: {s} vs {expect}");
-                assert_eq!(s.split('.').nth(1).map_or(0, str::len), d as usize, "{s}");
-                if (v * 10f64.powi(d as i32)).fract().abs() != 0.5 {
-                    assert_eq!(s.trim_start_matches('-'), expect.trim_start_matches('-'), "{v} {d}");
-                }
-            }
-        }
-        let mut s = String::new();
-        push_fixed(&mut s, -0.0001, 3);
-        assert_eq!(s, "0.000", "no negative zero");
-    }
+    w.finish()
 }

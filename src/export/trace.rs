@@ -3,6 +3,7 @@
 use std::fmt::Write;
 
 use crate::check::analysis::Analysis;
+use crate::format::num;
 use crate::solve::beam::Piece;
 use crate::scene::loads::Case;
 use crate::scene::model::Scene;
@@ -54,7 +55,7 @@ pub fn brace_words(scene: &Scene, brace: usize) -> String {
         _ => String::new(),
     };
     let (lo, hi) = (b.from.level.min(b.to.level), b.from.level.max(b.to.level));
-    format!("braced bay {}–{} (brace {}, {lo:.3}–{hi:.3} m){lever}", b.from.post, b.to.post, b.id)
+    format!("braced bay {}–{} (brace {}, {:.3}–{:.3} m){lever}", b.from.post, b.to.post, b.id, num(lo), num(hi))
 }
 
 fn piece_words(scene: &Scene, bearer: u32, piece: Piece) -> String {
@@ -66,6 +67,7 @@ fn piece_words(scene: &Scene, bearer: u32, piece: Piece) -> String {
         Piece::EndOverhang => format!("{} {}, overhang after {}", role(b.role), b.id, post(b.posts.len() - 1)),
         Piece::Single => format!("{} {} on its single post", role(b.role), b.id),
         Piece::Continuous => format!("{} {}, continuous over {} posts", role(b.role), b.id, b.posts.len()),
+        Piece::TwoSpanModel => format!("{} {}, two-span model about this post (joints not known)", role(b.role), b.id),
     }
 }
 
@@ -83,7 +85,7 @@ fn role(r: crate::scene::model::BeamRole) -> &'static str {
 pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
     let p = &analysis.plates[plate];
     let mut out = String::new();
-    let _ = writeln!(out, "Base {} at ({:.3}, {:.3}), base level {:.3} m, support {}", p.id, p.x, p.y, p.base_level, p.support);
+    let _ = writeln!(out, "Base {} at ({:.3}, {:.3}), base level {:.3} m, support {}", p.id, num(p.x), num(p.y), num(p.base_level), p.support);
     if let Some(e) = &p.on_structure {
         let _ = writeln!(out, "  on existing structure {e}: this plate's load is for the permanent-works designer");
     }
@@ -112,20 +114,20 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
     }
     let case_kn = p.case_kn_by_method.get(m).copied().unwrap_or(p.case_kn);
     for c in Case::ALL {
-        let _ = writeln!(out, "  total {}: {:.3} kN (plate load {:.3} kN)", c, totals[c.index()], case_kn[c.index()]);
+        let _ = writeln!(out, "  total {}: {:.3} kN (plate load {:.3} kN)", c, num(totals[c.index()]), num(case_kn[c.index()]));
     }
     for (k, cases) in p.case_kn_by_method.iter().enumerate().filter(|&(k, _)| k != m) {
-        let _ = writeln!(out, "  under {}: G {:.3} kN, Q {:.3} kN, W {:.3} kN", analysis.method_label(k), cases[0], cases[1], cases[2]);
+        let _ = writeln!(out, "  under {}: G {:.3} kN, Q {:.3} kN, W {:.3} kN", analysis.method_label(k), num(cases[0]), num(cases[1]), num(cases[2]));
     }
     for (comb, r) in analysis.combinations.iter().zip(&p.combinations) {
         let _ = write!(
             out,
             "  {:<12} max {:>9.3} kN  min {:>9.3} kN  utilisation {:>6.1}%  bearing {:>7.1} kPa  {}",
             comb.name,
-            r.max_kn,
-            r.min_kn,
-            100.0 * r.utilisation,
-            r.bearing_kpa,
+            num(r.max_kn),
+            num(r.min_kn),
+            num(100.0 * r.utilisation),
+            num(r.bearing_kpa),
             r.status
         );
         if methods > 1 && !p.methods_agree {
@@ -137,30 +139,70 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
     // share them.
     if p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10 || !p.brace.bays.is_empty() {
         let bays = if p.brace.bays.is_empty() { "through posts above".to_owned() } else { format!("from braced bays {}", analysis.bays_of(&p.brace).join(", ")) };
-        let _ = writeln!(out, "  brace forces (vertical components, unfactored, worst direction): {:+.3} kN down, {:+.3} kN up, {bays}", p.brace.max_kn, p.brace.min_kn);
+        let _ = writeln!(out, "  brace forces (vertical components, unfactored, worst direction): {:+.3} kN down, {:+.3} kN up, {bays}", num(p.brace.max_kn), num(p.brace.min_kn));
     }
     for item in solution.items.iter().filter(|i| i.direction.is_some()) {
         if let Some(alt) = &item.alternative {
             let at = |v: &[(u32, f64)]| v.iter().filter(|e| e.0 as usize == p.post).map(|e| e.1).sum::<f64>();
             let (a, b) = (at(&item.vertical), at(&alt.vertical));
             if (a - b).abs() > 5e-10 {
-                let _ = writeln!(out, "  {}: {a:.3} kN by the {}, {b:.3} kN as a {}; the worse counts", item.id, alt.primary, alt.label);
+                let _ = writeln!(out, "  {}: {:.3} kN by the {}, {:.3} kN as a {}; the worse counts", item.id, num(a), alt.primary, num(b), alt.label);
             }
         }
     }
     for d in &analysis.horizontal.diaphragms {
         let _ = writeln!(out, "  {d}");
     }
+    arrangement_lines(&mut out, scene, analysis, plate);
     out
+}
+
+/// Where each arranged imposed load is placed for this plate's worst maximum and minimum: the
+/// cells to load, in plan coordinates, so the arrangement can be set out on site.
+fn arrangement_lines(out: &mut String, scene: &Scene, analysis: &Analysis, plate: usize) {
+    let notes = analysis.arrangements_at(plate);
+    if notes.is_empty() {
+        return;
+    }
+    let p = &analysis.plates[plate];
+    let Ok(model) = crate::validate(scene) else { return };
+    let pass = analysis.method(p.governing_method);
+    let _ = writeln!(out, "  imposed loads in their worst arrangement ({}):", pass.label);
+    for note in notes {
+        let _ = writeln!(out, "    {}", note.words());
+        let Some(load) = scene.loads.iter().position(|l| l.id == note.load) else { continue };
+        let item = analysis.solution_of(p.governing_method).items.iter().find(|i| i.id == note.load);
+        let (Some(effects), Some(cells)) = (crate::solve::arrangement::cell_effects(&model, pass, load, p.post), item.and_then(|i| i.arranged.as_ref())) else { continue };
+        for (what, down) in [("loaded for the maximum", true), ("loaded for the minimum", false)] {
+            let picked: Vec<(usize, f64)> = effects.iter().copied().enumerate().filter(|&(_, e)| if down { e > 0.0 } else { e < 0.0 }).collect();
+            if picked.is_empty() {
+                continue;
+            }
+            let shown: Vec<String> = picked.iter().take(MAX_CELLS_LISTED).map(|&(c, e)| format!("{} ({e:+.3} kN)", cell_words(scene, &cells.cells[c].place))).collect();
+            let more = if picked.len() > MAX_CELLS_LISTED { format!(", and {} more", picked.len() - MAX_CELLS_LISTED) } else { String::new() };
+            let _ = writeln!(out, "      {what}: {}{more}", shown.join(", "));
+        }
+    }
+}
+
+/// Cells listed one by one in a trace before the rest are counted.
+const MAX_CELLS_LISTED: usize = 12;
+
+/// Where a cell is, in words.
+fn cell_words(scene: &Scene, place: &crate::solve::CellPlace) -> String {
+    match *place {
+        crate::solve::CellPlace::Deck { rect, .. } => format!("x {:.2}–{:.2}, y {:.2}–{:.2} m", rect.x.0, rect.x.1, rect.y.0, rect.y.1),
+        crate::solve::CellPlace::Bearer { bearer, from_m, to_m } => format!("{} {:.2}–{:.2} m from its first post", scene.bearers[bearer as usize].id, from_m, to_m),
+    }
 }
 
 /// One share, and where a share from a post above came from in turn, indented by `depth`.
 fn write_share(out: &mut String, scene: &Scene, (bracing, items): (&Bracing, &[Item]), shares: &[&Contribution], c: &Contribution, depth: usize) {
     let pad = "  ".repeat(depth);
-    let _ = writeln!(out, "{pad}{:>10.3} kN  via {}", c.kn, route_words(scene, c.route));
+    let _ = writeln!(out, "{pad}{:>10.3} kN  via {}", num(c.kn), route_words(scene, c.route));
     if c.route == Route::Bracing {
         for (kn, words) in brace_shares(scene, bracing, &items[c.item as usize], c.post) {
-            let _ = writeln!(out, "{pad}    {kn:>10.3} kN  via {words}");
+            let _ = writeln!(out, "{pad}    {:>10.3} kN  via {words}", num(kn));
         }
         return;
     }

@@ -22,7 +22,8 @@
 //! what ([`Hold`]); the solver ([`crate::solve::braced`]) carries horizontal loads along these.
 //! Plans are assumed laid out along x and y: braced planes run along one of the two axes.
 
-use crate::fxhash::FxMap as HashMap;
+use crate::format::num;
+use rustc_hash::FxHashMap as HashMap;
 use crate::scene::model::{ElementKind, Scene};
 use crate::scene::standing::StandsOn;
 use crate::scene::validate::{Axis, BearerLine, Problem, GEOMETRY_TOLERANCE_M, MIN_SPAN_M};
@@ -113,7 +114,7 @@ impl Plane {
         };
         let first = self.posts.first().map_or("?", |&p| scene.posts[p as usize].id.as_str());
         let last = self.posts.last().map_or("?", |&p| scene.posts[p as usize].id.as_str());
-        format!("plane along {a} at {c} = {:.3} m ({first}–{last})", self.coord)
+        format!("plane along {a} at {c} = {:.3} m ({first}–{last})", num(self.coord))
     }
     /// Level below lift `k` (the ground: `None`).
     pub fn lift_bottom(&self, k: usize) -> Option<f64> {
@@ -148,7 +149,7 @@ impl Diaphragm {
         if !self.decks.is_empty() {
             parts.push(format!("deck {}", list_ids(self.decks.iter().map(|&d| scene.decks[d as usize].id.as_str()), 4)));
         }
-        format!("diaphragm at {:.3} m ({})", self.level, parts.join("; "))
+        format!("diaphragm at {:.3} m ({})", num(self.level), parts.join("; "))
     }
 }
 
@@ -462,7 +463,7 @@ pub fn analyse_bracing(
                 warnings.push(Problem {
                     kind: ElementKind::Brace,
                     id: b.id.clone(),
-                    message: format!("lies level along {} at {:.3} m: it is a ledger, not a brace, and braces nothing", scene.bearers[bearer as usize].id, b.from.level),
+                    message: format!("lies level along {} at {:.3} m: it is a ledger, not a brace, and braces nothing", scene.bearers[bearer as usize].id, num(b.from.level)),
                 });
                 continue;
             }
@@ -477,7 +478,7 @@ pub fn analyse_bracing(
                     &b.id,
                     format!(
                         "lies level at {:.3} m from {} to {}, but neither along a ledger nor across one bay framed by bearers, ledgers or transoms at that level: a plan brace must join opposite corners of such a bay",
-                        b.from.level, scene.posts[pa].id, scene.posts[pb].id
+                        num(b.from.level), scene.posts[pa].id, scene.posts[pb].id
                     ),
                 ),
             }
@@ -491,8 +492,8 @@ pub fn analyse_bracing(
                     "rises from {} to {}, which are not on one line of posts along x or y (Δx {:.3} m, Δy {:.3} m): a brace must rise in the plane of a line of posts along x or y, or lie level across one bay",
                     scene.posts[pa].id,
                     scene.posts[pb].id,
-                    z.0 - a.0,
-                    z.1 - a.1
+                    num(z.0 - a.0),
+                    num(z.1 - a.1)
                 ),
             );
             continue;
@@ -679,11 +680,11 @@ pub fn analyse_bracing(
                 let top = plane_levels.find(v.upper.1).expect("listed");
                 let bottom = if ground(v.lower.0, v.lower.1) { None } else { plane_levels.find(v.lower.1) };
                 if bottom != top.checked_sub(1) {
-                    let inside: Vec<String> = plane_levels.values.iter().filter(|&&z| z > v.lower.1 + TOL && z < v.upper.1 - TOL).map(|z| format!("{z:.3} m")).collect();
+                    let inside: Vec<String> = plane_levels.values.iter().filter(|&&z| z > v.lower.1 + TOL && z < v.upper.1 - TOL).map(|&z| format!("{:.3} m", num(z))).collect();
                     let why = if inside.is_empty() {
-                        format!("its lower end at {:.3} m on post {} is neither the ground nor a level where other braces of the plane end", v.lower.1, scene.posts[v.lower.0 as usize].id)
+                        format!("its lower end at {:.3} m on post {} is neither the ground nor a level where other braces of the plane end", num(v.lower.1), scene.posts[v.lower.0 as usize].id)
                     } else {
-                        format!("it spans {:.3}–{:.3} m across {}, where other braces of its plane end: split it there", v.lower.1, v.upper.1, inside.join(", "))
+                        format!("it spans {:.3}–{:.3} m across {}, where other braces of its plane end: split it there", num(v.lower.1), num(v.upper.1), inside.join(", "))
                     };
                     err(problems, &scene.braces[v.brace as usize].id, format!("cannot be a diagonal of its braced plane: {why}"));
                     continue;
@@ -760,8 +761,8 @@ pub fn analyse_bracing(
         for k in 0..plane.levels.len() {
             let z = plane.levels[k];
             if plane.lifts[k].is_empty() {
-                let below = plane.lift_bottom(k).map_or("the ground".to_owned(), |b| format!("{b:.3} m"));
-                cut = Some(format!("it has no brace in the lift from {below} to {z:.3} m"));
+                let below = plane.lift_bottom(k).map_or("the ground".to_owned(), |b| format!("{:.3} m", num(b)));
+                cut = Some(format!("it has no brace in the lift from {below} to {:.3} m", num(z)));
                 break;
             }
             // Posts where braces meet this level: they must be joined by the chord.
@@ -774,7 +775,7 @@ pub fn analyse_bracing(
             if let Some(&(r0, l0)) = roots.first() {
                 if let Some(&(_, l1)) = roots.iter().find(|r| r.0 != r0) {
                     let (a, b) = (&scene.posts[plane.posts[l0 as usize] as usize].id, &scene.posts[plane.posts[l1 as usize] as usize].id);
-                    cut = Some(format!("at {z:.3} m its braces meet posts {a} and {b}, which no bearer or ledger along the plane joins at that level"));
+                    cut = Some(format!("at {:.3} m its braces meet posts {a} and {b}, which no bearer or ledger along the plane joins at that level", num(z)));
                     break;
                 }
                 let mut held = Vec::with_capacity(plane.posts.len());

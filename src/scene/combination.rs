@@ -44,7 +44,7 @@ pub struct Combination {
     /// other accompanying at factor × ψ0, and the worse governs at every plate. The notional
     /// load follows the vertical load it comes from and is never reduced. Default: none (every
     /// variable action at its full factor).
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default)]
     pub psi0: Option<Psi0>,
 }
 

@@ -54,13 +54,12 @@ pub struct Scene {
     /// Settings of the overturning check.
     #[serde(default)]
     pub stability: StabilitySettings,
-    /// How members share load among their supports. Omitted in older files (and not written
-    /// while it holds the defaults): the defaults.
-    #[serde(default, skip_serializing_if = "AnalysisSettings::is_default")]
+    /// How members share load among their supports. Omitted in older files: the defaults.
+    #[serde(default)]
     pub analysis: AnalysisSettings,
     /// The notional horizontal load and the plan directions the structure is checked in. Omitted
-    /// in older files (and not written while it holds the defaults): the defaults.
-    #[serde(default, skip_serializing_if = "HorizontalSettings::is_default")]
+    /// in older files: the defaults.
+    #[serde(default)]
     pub horizontal: HorizontalSettings,
 }
 
@@ -137,6 +136,9 @@ impl PlateSize {
 }
 
 /// A kind of base support: base plate (with jack) and optional sole plate or board.
+///
+/// Chosen from the component catalogue ([`crate::scene::catalogue`]), its values are copied in
+/// with the catalogue id and source, so the scene file stays complete on its own.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct SupportType {
@@ -146,12 +148,40 @@ pub struct SupportType {
     pub base_plate: PlateSize,
     /// Safe working load of the base jack / plate, kN.
     pub swl_kn: f64,
+    /// Largest jack extension the safe working load holds for, m, if known. Older files: not
+    /// given.
+    #[serde(default)]
+    pub max_extension_m: Option<f64>,
     /// Timber sole plate or board under the base plate, if any. Bearing is taken on it.
     #[serde(default)]
     pub sole_plate: Option<PlateSize>,
+    /// Moment the head of a post of this type takes, kN·m, from the maker's data: a bearer on a
+    /// single post (a T-head) may then be out of balance by up to this much. `None`: the head
+    /// takes no moment and a T-head must balance.
+    #[serde(default)]
+    pub head_moment_capacity_knm: Option<f64>,
+    /// Catalogue id of the jack the base plate and safe working load were copied from, if any.
+    #[serde(default)]
+    pub catalogue_id: Option<String>,
+    /// Where the safe working load comes from (copied from the catalogue, or the planner's own).
+    #[serde(default)]
+    pub source: String,
+    /// The safe working load is an example value that must be replaced with the manufacturer's;
+    /// validation warns while it is set.
+    #[serde(default)]
+    pub example: bool,
+    /// Catalogue id of the sole plate, if it was chosen from the catalogue.
+    #[serde(default)]
+    pub sole_plate_id: Option<String>,
 }
 
 impl SupportType {
+    /// A support type with the given plates and safe working load, not taken from the
+    /// catalogue: no source, no extension limit.
+    pub fn new(id: &str, base_plate: PlateSize, swl_kn: f64, sole_plate: Option<PlateSize>) -> Self {
+        SupportType { id: id.to_owned(), base_plate, swl_kn, max_extension_m: None, sole_plate, head_moment_capacity_knm: None, catalogue_id: None, source: String::new(), example: false, sole_plate_id: None }
+    }
+
     /// The plate that bears on the ground (or on the granular layer): the sole plate if there
     /// is one, otherwise the base plate.
     pub fn bearing_plate(&self) -> PlateSize {
@@ -181,6 +211,9 @@ pub struct Post {
     /// Self-weight, kN/m. Default: 48.3 × 4.0 steel tube.
     #[serde(default = "steel_tube")]
     pub self_weight_kn_per_m: f64,
+    /// Catalogue id of the section the self-weight was copied from, if any (informative).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub section: Option<String>,
 }
 
 /// What a horizontal member does; it changes only how it is drawn and listed.
@@ -219,8 +252,16 @@ pub struct Bearer {
     pub self_weight_kn_per_m: f64,
     /// How this member shares load among its posts, if not as the scene's
     /// [`AnalysisSettings::method`].
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default)]
     pub method: Option<BeamMethod>,
+    /// Posts (inner ones, by id) over which the member is jointed — not continuous — when known.
+    /// `None`: not known, so the envelope also covers two-span continuity at every inner post
+    /// ([`BeamMethod::Envelope`]). `Some(vec![])`: known to be continuous throughout.
+    #[serde(default)]
+    pub joints: Option<Vec<String>>,
+    /// Catalogue id of the section the self-weight was copied from, if any (informative).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub section: Option<String>,
 }
 
 /// A deck spanning across parallel bearers.
@@ -239,17 +280,21 @@ pub struct Deck {
     pub self_weight_kpa: f64,
     /// How this deck shares load among its bearers, if not as the scene's
     /// [`AnalysisSettings::method`].
-    #[serde(default, skip_serializing_if = "Option::is_none")]
+    #[serde(default)]
     pub method: Option<BeamMethod>,
+    /// Bearers (inner ones, by id) over which the decking is jointed — not continuous — when
+    /// known. `None`: not known, so the envelope also covers two-span continuity at every inner
+    /// bearer. `Some(vec![])`: known to be continuous throughout.
+    #[serde(default)]
+    pub joints: Option<Vec<String>>,
+    /// Catalogue id of the deck type the self-weight was copied from, if any (informative).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub decking: Option<String>,
     /// Whether the deck is fixed so that it acts as a diaphragm: stiff in its own plane, sharing
     /// horizontal load among the braced planes it is joined to (nailed plywood, bolted steel
     /// units). Loose boards are not one. Default: false.
-    #[serde(default, skip_serializing_if = "is_false")]
+    #[serde(default)]
     pub diaphragm: bool,
-}
-
-fn is_false(b: &bool) -> bool {
-    !*b
 }
 
 /// A structure of the permanent works that base plates stand on, such as an existing slab. Its
@@ -322,7 +367,7 @@ impl Default for HorizontalSettings {
 }
 
 impl HorizontalSettings {
-    /// Whether these are the default settings (they are then left out of scene files).
+    /// Whether these are the default settings.
     pub fn is_default(&self) -> bool {
         *self == HorizontalSettings::default()
     }
@@ -398,7 +443,14 @@ pub enum BeamMethod {
     /// supports take more: 1.25 wL at the middle of two equal spans instead of 1.0 wL.
     Continuous,
     /// Both, and each base plate takes whichever is worse: the larger maximum and the smaller
-    /// minimum. The default, since a member's continuity is rarely certain on site.
+    /// minimum. The default, since a member's continuity is rarely certain on site. Where a
+    /// member's joints are not known, the envelope also takes it as jointed at every other
+    /// support, both ways round, so that every inner support is the middle of a two-span piece:
+    /// two-span continuity puts 1.25 wL on the middle support, more than a long continuous member
+    /// (about 1.1 wL) or simple spans (1.0 wL).
+    // source: 5/8 of the load of a stiff beam on three rigid supports goes to the middle one,
+    // where 1/2 is assumed in simple-span design (Advisory Committee on Falsework, final report,
+    // HMSO 1975, via REFERENCES §9); the two-span coefficients are Hicks Table 2.1.
     #[default]
     Envelope,
 }
@@ -424,10 +476,38 @@ pub struct AnalysisSettings {
     /// Bending stiffness of each kind of member, for the continuous method.
     #[serde(default)]
     pub stiffness: MemberStiffness,
+    /// How the load-class imposed loads of decks at different levels act together.
+    #[serde(default)]
+    pub working_levels: WorkingLevels,
+}
+
+/// How the load-class imposed loads (q1, q2) of decks at different levels act together.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+pub enum WorkingLevels {
+    /// Every level may be loaded at once, each in its worst arrangement. The default: it never
+    /// gives less than the rule below.
+    #[default]
+    AllAtOnce,
+    /// The working-scaffold rule: one level at its full load-class load together with one
+    /// adjacent level (the next above or below) at half of it, whichever pair is worse at each
+    /// plate; other levels unloaded. Other imposed loads (materials, concrete) are not affected.
+    // source: EN 12811-1 in-service loading, one working level at 100 % plus an adjacent level at
+    // 50 % (via a UK industry summary, REFERENCES §9).
+    OneFullAdjacentHalf,
+}
+
+impl WorkingLevels {
+    /// Words for outputs.
+    pub fn label(self) -> &'static str {
+        match self {
+            WorkingLevels::AllAtOnce => "every working level loaded at once",
+            WorkingLevels::OneFullAdjacentHalf => "one working level at full load with an adjacent level at half (EN 12811-1)",
+        }
+    }
 }
 
 impl AnalysisSettings {
-    /// Whether these are the default settings (they are then left out of scene files).
+    /// Whether these are the default settings.
     pub fn is_default(&self) -> bool {
         *self == AnalysisSettings::default()
     }

@@ -360,7 +360,7 @@ fn order_top_down(bearers: &[BearerLine], decks: &[DeckLine], stands_on: &[Stand
 
 /// Posts bucketed by plan position into cells of the eccentric limit, for neighbour queries.
 struct PostIndex {
-    cells: crate::fxhash::FxMap<(i64, i64), Vec<usize>>,
+    cells: rustc_hash::FxHashMap<(i64, i64), Vec<usize>>,
 }
 
 impl PostIndex {
@@ -370,7 +370,7 @@ impl PostIndex {
         ((v / ECCENTRIC_LIMIT_M).floor() as i64).clamp(i64::MIN / 2, i64::MAX / 2)
     }
     fn new(scene: &Scene) -> Self {
-        let mut cells: crate::fxhash::FxMap<(i64, i64), Vec<usize>> = Default::default();
+        let mut cells: rustc_hash::FxHashMap<(i64, i64), Vec<usize>> = Default::default();
         for (i, p) in scene.posts.iter().enumerate() {
             cells.entry((Self::cell(p.x), Self::cell(p.y))).or_default().push(i);
         }
@@ -386,8 +386,8 @@ impl PostIndex {
 /// Bearer lines bucketed by their offset (lines along x by y, lines along y by x), for the query
 /// "which lines pass near this plan point"; skew lines are checked one by one.
 struct LineIndex {
-    along_x: crate::fxhash::FxMap<i64, Vec<usize>>,
-    along_y: crate::fxhash::FxMap<i64, Vec<usize>>,
+    along_x: rustc_hash::FxHashMap<i64, Vec<usize>>,
+    along_y: rustc_hash::FxHashMap<i64, Vec<usize>>,
     skew: Vec<usize>,
 }
 
@@ -413,6 +413,6 @@ impl LineIndex {
 }
 
 /// Entries of the cells `c - 1 ..= c + 1` of a one-dimensional bucket map.
-fn near_cells(map: &crate::fxhash::FxMap<i64, Vec<usize>>, c: i64) -> impl Iterator<Item = usize> + '_ {
+fn near_cells(map: &rustc_hash::FxHashMap<i64, Vec<usize>>, c: i64) -> impl Iterator<Item = usize> + '_ {
     (-1..=1).flat_map(move |d| map.get(&(c + d)).into_iter().flatten().copied())
 }

@@ -1,7 +1,7 @@
 //! Validation: every problem of a scene at once, with element ids, and the resolved geometry the
 //! solver works on (ids turned into indices, bearer and deck lines set up).
 
-use crate::fxhash::FxMap as HashMap;
+use rustc_hash::FxHashMap as HashMap;
 use std::fmt;
 
 use crate::scene::bracing::{analyse_bracing, place_loads, Bracing};
@@ -87,6 +87,8 @@ pub struct BearerLine {
     pub start: f64,
     /// End of the member (last support + end overhang), m.
     pub end: f64,
+    /// Inner supports (indices into `posts`) declared as joints; `None` when not known.
+    pub joints: Option<Vec<usize>>,
 }
 
 impl BearerLine {
@@ -122,6 +124,8 @@ pub struct DeckLine {
     pub supports: Vec<f64>,
     /// Span coordinate range of the deck extent.
     pub span_range: (f64, f64),
+    /// Inner supports (indices into `bearers`) declared as joints; `None` when not known.
+    pub joints: Option<Vec<usize>>,
 }
 
 impl DeckLine {
@@ -201,7 +205,8 @@ impl<'s> Checker<'s> {
     }
     /// A number as written in messages: plain, or in exponent form when very large or small.
     fn show(v: f64) -> String {
-        if v != 0.0 && v.is_finite() && !(1e-4..1e9).contains(&v.abs()) { format!("{v:e}") } else { format!("{v}") }
+        let v = crate::format::num(v);
+        if v.0 != 0.0 && v.0.is_finite() && !(1e-4..1e9).contains(&v.0.abs()) { format!("{v:e}") } else { format!("{v}") }
     }
     /// A finite number within ±limit; reports and returns false otherwise.
     fn number(&mut self, kind: ElementKind, id: &str, what: &str, v: f64, limit: f64) -> bool {
@@ -222,7 +227,7 @@ impl<'s> Checker<'s> {
         }
         if v < 0.0 || (!allow_zero && v == 0.0) {
             let need = if allow_zero { "zero or more" } else { "more than zero" };
-            self.err(kind, id, format!("{what} must be {need} (it is {v})"));
+            self.err(kind, id, format!("{what} must be {need} (it is {})", Self::show(v)));
             return false;
         }
         true
@@ -383,9 +388,24 @@ fn check_support_types(c: &mut Checker) {
         c.at_least(K::SupportType, &s.id, "base plate width (m)", s.base_plate.width_m, MIN_SPAN_M, LIMIT_M);
         c.at_least(K::SupportType, &s.id, "base plate length (m)", s.base_plate.length_m, MIN_SPAN_M, LIMIT_M);
         c.at_least(K::SupportType, &s.id, "safe working load (kN)", s.swl_kn, MIN_CAPACITY, LIMIT_KN);
+        if let Some(m) = s.head_moment_capacity_knm {
+            c.positive(K::SupportType, &s.id, "head moment capacity (kN·m)", m, LIMIT_KN, true);
+        }
         if let Some(sole) = s.sole_plate {
             c.at_least(K::SupportType, &s.id, "sole plate width (m)", sole.width_m, MIN_SPAN_M, LIMIT_M);
             c.at_least(K::SupportType, &s.id, "sole plate length (m)", sole.length_m, MIN_SPAN_M, LIMIT_M);
+        }
+        if let Some(e) = s.max_extension_m {
+            c.positive(K::SupportType, &s.id, "maximum jack extension (m)", e, LIMIT_M, true);
+        }
+        if crate::scene::catalogue::uses_example_values(s) {
+            let from = s.catalogue_id.as_deref().map_or(String::new(), |id| format!(" from catalogue entry {id}"));
+            let ext = s.max_extension_m.map_or(String::new(), |e| format!(" (the example holds for up to {e} m)"));
+            c.warn(
+                K::SupportType,
+                &s.id,
+                format!("uses example values{from}: safe working load {} kN is not a manufacturer's figure; replace it with the manufacturer's safe working load for the jack extension used{ext}", s.swl_kn),
+            );
         }
     }
 }
@@ -512,14 +532,14 @@ fn check_bearers(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Vec<Option<
             let along = rx * dir.0 + ry * dir.1;
             let off = (rx * dir.1 - ry * dir.0).abs();
             if off > GEOMETRY_TOLERANCE_M {
-                c.err(K::Bearer, id, format!("post {} is {:.3} m off the straight line of the bearer", post.id, off));
+                c.err(K::Bearer, id, format!("post {} is {:.3} m off the straight line of the bearer", post.id, crate::format::num(off)));
                 line_ok = false;
             }
             if let Some(&prev) = supports.last() {
                 let span: f64 = along - prev;
                 if span < MIN_SPAN_M {
                     let prev_id = &scene.posts[posts[k - 1]].id;
-                    c.err(K::Bearer, id, format!("span from post {prev_id} to post {} is {span:.4} m: posts must be in order along the bearer, at least {MIN_SPAN_M} m apart", post.id));
+                    c.err(K::Bearer, id, format!("span from post {prev_id} to post {} is {:.4} m: posts must be in order along the bearer, at least {MIN_SPAN_M} m apart", post.id, crate::format::num(span)));
                     line_ok = false;
                 }
             }
@@ -530,9 +550,26 @@ fn check_bearers(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Vec<Option<
             continue;
         }
         let end = supports.last().copied().unwrap_or(0.0) + b.overhang_end_m;
-        out.push(Some(BearerLine { posts, origin, dir, supports, start: -b.overhang_start_m, end }));
+        let names: Vec<&str> = b.posts.iter().map(String::as_str).collect();
+        let joints = inner_joints(c, K::Bearer, id, b.joints.as_deref(), &names, "post");
+        out.push(Some(BearerLine { posts, origin, dir, supports, start: -b.overhang_start_m, end, joints }));
     }
     out
+}
+
+/// Declared joints of a member as support indices: each must name one of its inner supports
+/// (`supports`, in order along it).
+fn inner_joints(c: &mut Checker, kind: ElementKind, id: &str, declared: Option<&[String]>, supports: &[&str], what: &str) -> Option<Vec<usize>> {
+    let declared = declared?;
+    let mut out = Vec::with_capacity(declared.len());
+    for j in declared {
+        match supports.iter().position(|s| s == j) {
+            Some(k) if k > 0 && k + 1 < supports.len() => out.push(k),
+            Some(_) => c.err(kind, id, format!("joint at {what} {j}: a joint must be at an inner {what}, not at an end")),
+            None => c.err(kind, id, format!("joint at {what} {j}: it does not rest on that {what}")),
+        }
+    }
+    Some(out)
 }
 
 fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Option<BearerLine>]) -> Vec<Option<DeckLine>> {
@@ -584,7 +621,7 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
             out.push(None);
             continue;
         };
-        let line = DeckLine { bearers: Vec::new(), bearer_axis: axis, supports: Vec::new(), span_range: (0.0, 0.0) };
+        let line = DeckLine { bearers: Vec::new(), bearer_axis: axis, supports: Vec::new(), span_range: (0.0, 0.0), joints: None };
         let (along_range, span_range) = line.split_rect(&e);
         let mut positions: Vec<(f64, usize)> = Vec::new();
         let mut covered = true;
@@ -600,7 +637,10 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
             let b = line.split(l.point_at(l.end).0, l.point_at(l.end).1).0;
             let (lo, hi) = (a.min(b), a.max(b));
             if along_range.0 < lo - GEOMETRY_TOLERANCE_M || along_range.1 > hi + GEOMETRY_TOLERANCE_M {
-                c.err(K::Deck, id, format!("extends from {:.3} to {:.3} m along bearer {b_id}, which only runs from {lo:.3} to {hi:.3} m", along_range.0, along_range.1));
+                c.err(K::Deck, id, {
+                    let n = crate::format::num;
+                    format!("extends from {:.3} to {:.3} m along bearer {b_id}, which only runs from {:.3} to {:.3} m", n(along_range.0), n(along_range.1), n(lo), n(hi))
+                });
                 covered = false;
             }
             positions.push((s, list[k]));
@@ -625,11 +665,14 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
                 c.warn(K::Deck, id, format!("level {} is below bearer {} at {}", d.level, bl.id, bl.level));
             }
         }
+        let ordered: Vec<&str> = positions.iter().map(|p| scene.bearers[p.1].id.as_str()).collect();
+        let joints = inner_joints(c, K::Deck, id, d.joints.as_deref(), &ordered, "bearer");
         out.push(Some(DeckLine {
             bearers: positions.iter().map(|p| p.1).collect(),
             bearer_axis: axis,
             supports: positions.iter().map(|p| p.0).collect(),
             span_range,
+            joints,
         }));
     }
     out
@@ -738,7 +781,7 @@ fn check_loads(
                         if c.number(K::Load, id, "position (m)", *at_m, LIMIT_M) {
                             if let Some(line) = &bearers[b] {
                                 if *at_m < line.start - tol || *at_m > line.end + tol {
-                                    c.err(K::Load, id, format!("position {at_m} m is off bearer {bearer} ({} to {} m)", line.start, line.end));
+                                    c.err(K::Load, id, format!("position {at_m} m is off bearer {bearer} ({} to {} m)", crate::format::num(line.start), crate::format::num(line.end)));
                                 }
                             }
                         }
@@ -757,7 +800,7 @@ fn check_loads(
                             c.err(K::Load, id, format!("line load from {from_m} to {to_m} m must have its end after its start"));
                         } else if let (true, Some(line)) = (ok, &bearers[b]) {
                             if *from_m < line.start - tol || *to_m > line.end + tol {
-                                c.err(K::Load, id, format!("line load from {from_m} to {to_m} m runs off bearer {bearer} ({} to {} m)", line.start, line.end));
+                                c.err(K::Load, id, format!("line load from {from_m} to {to_m} m runs off bearer {bearer} ({} to {} m)", crate::format::num(line.start), crate::format::num(line.end)));
                             }
                         }
                     }

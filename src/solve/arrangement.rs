@@ -53,13 +53,39 @@ pub(super) struct ArrangedTee {
 }
 
 /// What one unit flow put on the posts.
-struct Flow {
+pub(super) struct Flow {
     /// Range of its entries in the flat buffer.
-    entries: std::ops::Range<usize>,
+    pub(super) entries: std::ops::Range<usize>,
     /// Σ reaction, Σ x·reaction, Σ y·reaction over the base plates.
     sums: [f64; 3],
     /// Unbalanced moments of single-post bearers reached: (bearer, moment).
     tee: Vec<(usize, f64)>,
+}
+
+/// The effect of each cell of arranged load `load` (index into the scene's loads) at post `post`
+/// in method pass `pass`, kN (upward reaction at a plate, load passed on at any other post), in
+/// the order of [`Arranged::cells`]; `None` if the load is not arranged. For explaining one
+/// post's worst arrangement (the extremes themselves are found without it).
+pub fn cell_effects(model: &crate::scene::validate::Model, pass: &crate::solve::passes::MethodPass, load: usize, post: usize) -> Option<Vec<f64>> {
+    let mut s = Solver::new(model, pass);
+    let l = &model.scene.loads[load];
+    if !l.is_arranged() {
+        return None;
+    }
+    let layout = s.layout(l, model.load_targets[load])?;
+    let nj = layout.stretches.first().map_or(0, Vec::len);
+    let nk = layout.bearers.len();
+    let mut buffer = Vec::new();
+    let mut t = vec![0.0; nk * nj];
+    for k in 0..nk {
+        for j in 0..nj {
+            let (from, to) = layout.stretches[k][j];
+            let flow = s.unit_flow(layout.bearers[k], from, to, &mut buffer);
+            t[k * nj + j] = buffer[flow.entries.clone()].iter().filter(|e| e.0 as usize == post).map(|e| e.1).sum();
+            buffer.clear();
+        }
+    }
+    Some(layout.d.iter().flat_map(|row| (0..nj).map(|j| (0..nk).map(|k| row[k] * t[k * nj + j]).sum()).collect::<Vec<f64>>()).collect())
 }
 
 impl Solver<'_, '_> {
@@ -167,7 +193,8 @@ impl Solver<'_, '_> {
             }
         }
         // One unit flow per (bearer, stretch); bearers no strip loads are skipped.
-        let mut buffer: Vec<(u32, f64)> = Vec::new();
+        let mut buffer: Vec<(u32, f64)> = std::mem::take(&mut self.flow_buffer);
+        buffer.clear();
         let mut flows: Vec<Option<Flow>> = Vec::with_capacity(nk * nj);
         // Per post: the one bearer it is reached through (or MANY), and Σⱼ T⁺, Σⱼ T⁻ through it.
         const NONE: u32 = u32::MAX;
@@ -175,6 +202,9 @@ impl Solver<'_, '_> {
         let mut via = vec![NONE; n_posts];
         let mut t_pos = vec![0.0; n_posts];
         let mut t_neg = vec![0.0; n_posts];
+        // Stretches pushing each post down and lifting it (through its one bearer).
+        let mut n_pos = vec![0u32; n_posts];
+        let mut n_neg = vec![0u32; n_posts];
         let mut touched: Vec<u32> = Vec::new();
         for k in 0..nk {
             let loaded = d_pos[k] != 0.0 || d_neg[k] != 0.0;
@@ -194,8 +224,10 @@ impl Solver<'_, '_> {
                     if *slot == k as u32 {
                         if f > 0.0 {
                             t_pos[p as usize] += f;
-                        } else {
+                            n_pos[p as usize] += 1;
+                        } else if f < 0.0 {
                             t_neg[p as usize] += f;
+                            n_neg[p as usize] += 1;
                         }
                     } else {
                         *slot = MANY;
@@ -206,6 +238,9 @@ impl Solver<'_, '_> {
         }
         touched.sort_unstable();
         let mut extremes = Vec::with_capacity(touched.len());
+        let mut counts = Vec::with_capacity(touched.len());
+        // Strips loading each bearer down (D > 0) and up (D < 0).
+        let d_count: Vec<(u32, u32)> = (0..nk).map(|k| layout.d.iter().fold((0, 0), |(a, b), row| (a + (row[k] > 0.0) as u32, b + (row[k] < 0.0) as u32))).collect();
         let many: Vec<u32> = touched.iter().copied().filter(|&p| via[p as usize] == MANY).collect();
         for &p in &touched {
             let k = via[p as usize];
@@ -215,10 +250,13 @@ impl Solver<'_, '_> {
             let (tp, tn) = (t_pos[p as usize], t_neg[p as usize]);
             let (dp, dn) = (d_pos[k as usize], d_neg[k as usize]);
             extremes.push((p, dp * tp + dn * tn, dp * tn + dn * tp));
+            let (sp, sn) = d_count[k as usize];
+            let (tp_n, tn_n) = (n_pos[p as usize], n_neg[p as usize]);
+            counts.push((sp * tp_n + sn * tn_n, sp * tn_n + sn * tp_n));
         }
         if !many.is_empty() {
             // Cell by cell for the posts reached through more than one bearer of the load.
-            let index: crate::fxhash::FxMap<u32, usize> = many.iter().enumerate().map(|(i, &p)| (p, i)).collect();
+            let index: rustc_hash::FxHashMap<u32, usize> = many.iter().enumerate().map(|(i, &p)| (p, i)).collect();
             // t[m][k * nj + j]: effect at post many[m] of the unit flow (k, j).
             let mut t = vec![vec![0.0; nk * nj]; many.len()];
             for (f, flow) in flows.iter().enumerate() {
@@ -230,24 +268,30 @@ impl Solver<'_, '_> {
                 }
             }
             for (m, &p) in many.iter().enumerate() {
-                let (mut hi, mut lo) = (0.0, 0.0);
+                let (mut hi, mut lo, mut up, mut down) = (0.0, 0.0, 0u32, 0u32);
                 for row in &layout.d {
                     for j in 0..nj {
                         let r: f64 = (0..nk).map(|k| row[k] * t[m][k * nj + j]).sum();
                         if r > 0.0 {
                             hi += r;
-                        } else {
+                            down += 1;
+                        } else if r < 0.0 {
                             lo += r;
+                            up += 1;
                         }
                     }
                 }
                 extremes.push((p, hi, lo));
+                counts.push((down, up));
             }
-            extremes.sort_unstable_by_key(|e| e.0);
+            let mut both: Vec<((u32, f64, f64), (u32, u32))> = extremes.into_iter().zip(counts).collect();
+            both.sort_unstable_by_key(|e| e.0 .0);
+            (extremes, counts) = both.into_iter().unzip();
         }
         let worst_cell_residual = self.cell_residuals(layout, &flows);
         self.tee_heads_arranged(layout, &flows);
-        Arranged { cells: layout.cells.clone(), extremes, worst_cell_residual }
+        self.flow_buffer = buffer;
+        Arranged { cells: layout.cells.clone(), extremes, counts, worst_cell_residual }
     }
 
     /// Every cell's reactions against its applied load: the largest relative residual.
@@ -322,13 +366,37 @@ impl Solver<'_, '_> {
 
     /// A unit line load (1 kN/m) on bearer `b` from `from` to `to`, carried down: its effect on
     /// every post it reaches (plate reactions and loads passed on), appended to `buffer`.
-    fn unit_flow(&mut self, b: usize, from: f64, to: f64, buffer: &mut Vec<(u32, f64)>) -> Flow {
+    pub(super) fn unit_flow(&mut self, b: usize, from: f64, to: f64, buffer: &mut Vec<(u32, f64)>) -> Flow {
+        self.load_flow(b, BeamLoad::Uniform { from, to, w: 1.0 }, buffer)
+    }
+
+    /// `unit` (a point or line load) on bearer `b`, carried down: its effect on every post it
+    /// reaches, appended to `buffer`.
+    pub(super) fn load_flow(&mut self, b: usize, unit: BeamLoad, buffer: &mut Vec<(u32, f64)>) -> Flow {
         let start = buffer.len();
-        let unit = BeamLoad::Uniform { from, to, w: 1.0 };
+        // The flow is linear in the load: kept per unit of it, keyed by where it acts.
+        let (kind, a, z, size) = match unit {
+            BeamLoad::Point { at, p } => (0u8, at, at, p),
+            BeamLoad::Uniform { from, to, w } => (1u8, from, to, w),
+        };
+        let unit = match unit {
+            BeamLoad::Point { at, .. } => BeamLoad::Point { at, p: 1.0 },
+            BeamLoad::Uniform { from, to, .. } => BeamLoad::Uniform { from, to, w: 1.0 },
+        };
         let model = self.model;
         let line = &model.bearers[b];
         let mut tee = Vec::new();
-        if line.posts.iter().all(|&p| model.graph.is_plate(p)) {
+        let direct = line.posts.iter().all(|&p| model.graph.is_plate(p));
+        // A bearer on base plates only gives the same flow in every pass where it behaves the
+        // same way: kept for the next pass.
+        let key = (b as u32, self.bearer_behaviour[b], kind, a.to_bits(), z.to_bits());
+        if direct {
+            if let Some(cached) = self.flow_cache.get(&key) {
+                buffer.extend(cached.entries.iter().map(|&(p, v)| (p, v * size)));
+                return Flow { entries: start..buffer.len(), sums: cached.sums.map(|v| v * size), tee: cached.tee.iter().map(|&(b, m)| (b, m * size)).collect() };
+            }
+        }
+        if direct {
             // The bearer stands on base plates only: its reactions are the plate loads.
             if let Some(beam) = &mut self.bearer_beams[b] {
                 self.reactions.resize(line.posts.len(), 0.0);
@@ -361,8 +429,27 @@ impl Solver<'_, '_> {
                 sums[2] += post.y * v;
             }
         }
+        if direct {
+            self.flow_cache.insert(key, CachedFlow { entries: buffer[start..].to_vec(), sums, tee: tee.clone() });
+        }
+        if size != 1.0 {
+            buffer[start..].iter_mut().for_each(|e| e.1 *= size);
+            sums = sums.map(|v| v * size);
+            tee.iter_mut().for_each(|t| t.1 *= size);
+        }
         Flow { entries: start..buffer.len(), sums, tee }
     }
+}
+
+/// Unit flows of bearers standing on base plates only, kept from pass to pass: keyed by bearer,
+/// its behaviour in the pass, and the point or stretch loaded.
+pub(super) type FlowCache = rustc_hash::FxHashMap<(u32, crate::solve::passes::Behaviour, u8, u64, u64), CachedFlow>;
+
+/// One kept unit flow.
+pub(super) struct CachedFlow {
+    entries: Vec<(u32, f64)>,
+    sums: [f64; 3],
+    tee: Vec<(usize, f64)>,
 }
 
 /// Add up entries for the same post appended since `from` (a support reached through two pieces).

@@ -33,6 +33,7 @@
 //! node goes is worked out once per analysis ([`Network`]).
 
 
+use crate::format::num;
 use nalgebra::{Matrix3, Vector3};
 
 use crate::scene::bracing::{list_ids, Bracing, Holder, Placement, Plane};
@@ -746,9 +747,9 @@ pub fn describe_failures(model: &Model, fails: &[PathFailure]) -> Vec<String> {
                 "acts along {a} above the top of the bracing: on post{} {} up to {:.3} m, while the highest level at which {} held along {a} is {:.3} m{}; extend the bracing (or a diaphragm) up to the load",
                 if above.len() == 1 { "" } else { "s" },
                 list_ids(above.iter().map(|e| id(e.0)), 6),
-                first.1,
+                num(first.1),
                 if above.len() == 1 { format!("{} is", id(first.0)) } else { format!("{} is", id(first.0)) },
-                first.2,
+                num(first.2),
                 cut_note(model, first.0, axis),
             ));
         }
@@ -759,11 +760,13 @@ pub fn describe_failures(model: &Model, fails: &[PathFailure]) -> Vec<String> {
     if let Some(&(p, axis, level, bottom)) = below.first() {
         let (low, _) = bracing.standard[p as usize];
         out.push(format!(
-            "acts along {} on post{} {} down to {level:.3} m, below the lowest level at which {} is held ({bottom:.3} m): post {} does not stand on the ground but on another member, which holds nothing horizontally here; brace it down to the ground or hold its base",
+            "acts along {} on post{} {} down to {:.3} m, below the lowest level at which {} is held ({:.3} m): post {} does not stand on the ground but on another member, which holds nothing horizontally here; brace it down to the ground or hold its base",
             axis_name(axis),
             if below.len() == 1 { "" } else { "s" },
             list_ids(below.iter().map(|e| id(e.0)), 6),
+            num(level),
             id(p),
+            num(bottom),
             id(low)
         ));
     }
@@ -785,9 +788,9 @@ pub fn describe_failures(model: &Model, fails: &[PathFailure]) -> Vec<String> {
             out.push(format!(
                 "the {} takes {:.3} kN along x, {:.3} kN along y and {:.3} kN·m of twist, but {what}; join braced planes along x and y to it, not all through one point",
                 d.name(scene),
-                load[0],
-                load[1],
-                load[2]
+                num(load[0]),
+                num(load[1]),
+                num(load[2])
             ));
         }
     }
@@ -1040,13 +1043,13 @@ pub fn horizontal_items(model: &Model, net: &Network, nodes: &NodeLoads) -> Resu
                 .sum();
             let (percent, note) = match rule {
                 NotionalRule::Off => break,
-                NotionalRule::Percent(p) => (p, format!("{p} % of the vertical load {v:.3} kN (scene setting)")),
+                NotionalRule::Percent(p) => (p, format!("{} % of the vertical load {:.3} kN (scene setting)", num(p), num(v))),
                 NotionalRule::Falsework => {
                     let p = (FALSEWORK_PERCENT - 100.0 * wind / v).max(IDENTIFIED_PLUS_PERCENT);
                     let why = if wind > 0.0 {
-                        format!("greater of 2.5 % of the vertical load {v:.3} kN ({:.3} kN) and wind {wind:.3} kN + 1 % ({:.3} kN); wind acts with it, so {p:.3} % is added", 0.025 * v, wind + 0.01 * v)
+                        format!("greater of 2.5 % of the vertical load {:.3} kN ({:.3} kN) and wind {:.3} kN + 1 % ({:.3} kN); wind acts with it, so {:.3} % is added", num(v), num(0.025 * v), num(wind), num(wind + 0.01 * v), num(p))
                     } else {
-                        format!("2.5 % of the vertical load {v:.3} kN (falsework rule; no wind in this direction)")
+                        format!("2.5 % of the vertical load {:.3} kN (falsework rule; no wind in this direction)", num(v))
                     };
                     (p, why)
                 }

@@ -182,6 +182,8 @@ pub struct Item {
     /// For an arranged imposed load: its cells and, at every post, the worst arrangement. The
     /// whole-load reactions above are then the case with every cell loaded.
     pub arranged: Option<Arranged>,
+    /// For a load-class imposed load on a deck: the level of that deck, m (a working level).
+    pub working_level: Option<f64>,
 }
 
 /// An arranged imposed load: split into cells, each present or absent, so that at every post the
@@ -194,6 +196,8 @@ pub struct Arranged {
     /// the cells that lift it (≤ 0)), kN — reactions for a plate, load passed on for any other
     /// post.
     pub extremes: Vec<(u32, f64, f64)>,
+    /// For each entry of `extremes`: how many cells push that post down, and how many lift it.
+    pub counts: Vec<(u32, u32)>,
     /// Worst relative equilibrium residual of a single cell: largest of |ΣF| / F and
     /// |ΣM| / (F·L) over the cells (L the plan size of the structure, at least 1 m).
     pub worst_cell_residual: f64,
@@ -247,6 +251,7 @@ impl Item {
             note: String::new(),
             lift_shear: Vec::new(),
             arranged: None,
+            working_level: None,
         }
     }
 
@@ -310,6 +315,11 @@ pub struct Solution {
     pub items: Vec<Item>,
     /// Every reaction share, for tracing.
     pub contributions: Vec<Contribution>,
+    /// Single-post bearers that stand only because their post's head takes a moment.
+    pub head_moments: Vec<crate::solve::tee_heads::HeadMoment>,
+    /// Where members are taken support by support ([`MethodPass::is_one_state`] false): the
+    /// worst relative equilibrium residual of their two-span models; 0 otherwise.
+    pub local_residual: f64,
     /// How the members shared their loads in this solution.
     pub method: MethodPass,
 }

@@ -17,27 +17,23 @@ use std::collections::BinaryHeap;
 
 use crate::scene::standing::{Member, StandsOn};
 use crate::solve::beam::{share_simple, BeamLoad, Piece};
-use crate::solve::continuous::ContinuousBeam;
-use crate::scene::loads::{Case, LoadKind};
+use crate::solve::continuous::{JointedBeam, TwoSpanLocal};
+use crate::solve::arrangement::FlowCache;
+use crate::solve::passes::Behaviour;
+use crate::scene::loads::{Case, Intensity, LoadKind};
 use crate::solve::braced::{horizontal_items, route_item, Network, NodeLoads};
 use crate::scene::validate::{Model, Target};
 use crate::solve::items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
-use crate::solve::passes::{method_passes, Behaviour, MethodPass};
+use crate::solve::passes::{method_passes, MethodPass};
+use crate::solve::tee_heads::{TeeHeadTips, TeeHeads};
 
 /// Why a valid scene could not be solved.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 #[non_exhaustive]
 pub enum SolveError {
     /// A single-post bearer whose loads do not balance about the post.
-    #[error("bearer {bearer} rests on a single post and tips under load {load}: {moment_knm:.3} kN·m about the post is not balanced; give it a second post or balance it")]
-    TeeHeadTips {
-        /// Bearer id.
-        bearer: String,
-        /// Load id.
-        load: String,
-        /// Unbalanced moment, kN·m.
-        moment_knm: f64,
-    },
+    #[error("{0}")]
+    TeeHeadTips(#[from] TeeHeadTips),
     /// Horizontal loads that cannot reach the ground through the bracing, each with its reasons.
     #[error("{}", describe_paths(problems))]
     HorizontalPath {
@@ -128,13 +124,19 @@ pub(super) struct Solver<'m, 's> {
     nodes: Nodes,
     contributions: Vec<Contribution>,
     /// Each bearer that is continuous in this pass (and has two or more posts), factorised once.
-    pub(super) bearer_beams: Vec<Option<ContinuousBeam>>,
+    pub(super) bearer_beams: Vec<Option<MemberBeam>>,
     /// Each deck that is continuous in this pass, per metre of width.
-    pub(super) deck_beams: Vec<Option<ContinuousBeam>>,
+    pub(super) deck_beams: Vec<Option<MemberBeam>>,
     /// Reactions of one continuous member.
     pub(super) reactions: Vec<f64>,
     /// Single-post bearers' unbalanced moments of the current flow: (bearer, moment, scale).
     pub(super) unbalanced: Vec<(usize, f64, f64)>,
+    /// Behaviour of each bearer in this pass.
+    pub(super) bearer_behaviour: Vec<Behaviour>,
+    /// Unit flows kept from earlier passes.
+    pub(super) flow_cache: FlowCache,
+    /// Entries of the unit flows of one arranged load, reused from load to load.
+    pub(super) flow_buffer: Vec<(u32, f64)>,
     /// Single-post bearers' moments under the last arranged load, each way.
     pub(super) arranged_tee: Vec<crate::solve::arrangement::ArrangedTee>,
 }
@@ -150,21 +152,31 @@ pub fn solve(model: &Model) -> Result<Solution, SolveError> {
 /// prepared once for them all.
 pub fn solve_methods(model: &Model) -> Result<Vec<Solution>, SolveError> {
     let net = Network::new(model, &Nodes::new(model).at);
-    method_passes(model.scene).into_iter().map(|pass| solve_with(model, pass, &net)).collect()
+    // Unit flows of the arranged loads are shared by the passes where a bearer behaves alike.
+    let mut cache = FlowCache::default();
+    method_passes(model.scene).into_iter().map(|pass| solve_pass_with(model, pass, &net, &mut cache)).collect()
 }
 
 /// Carry every load of a validated scene down to the base plates, members behaving as `pass` says.
 pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveError> {
-    solve_with(model, pass, &Network::new(model, &Nodes::new(model).at))
+    solve_pass_with(model, pass, &Network::new(model, &Nodes::new(model).at), &mut FlowCache::default())
 }
 
-fn solve_with(model: &Model, pass: MethodPass, net: &Network) -> Result<Solution, SolveError> {
+fn solve_pass_with(model: &Model, pass: MethodPass, net: &Network, cache: &mut FlowCache) -> Result<Solution, SolveError> {
     let scene = model.scene;
     let plates: Vec<[f64; 3]> = scene.posts.iter().map(|p| [p.x, p.y, p.base_level]).collect();
     let is_plate: Vec<bool> = (0..scene.posts.len()).map(|p| model.graph.is_plate(p)).collect();
     let mut s = Solver::new(model, &pass);
+    s.flow_cache = std::mem::take(cache);
+    let solved = solve_with(&mut s, model, pass, net, plates, is_plate);
+    *cache = std::mem::take(&mut s.flow_cache);
+    solved
+}
+
+fn solve_with(s: &mut Solver, model: &Model, pass: MethodPass, net: &Network, plates: Vec<[f64; 3]>, is_plate: Vec<bool>) -> Result<Solution, SolveError> {
+    let scene = model.scene;
     // Slot 0: self-weight; slot k + 1: the scene's load k.
-    let mut permanent_tee: Vec<(usize, f64, f64)> = Vec::new();
+    let mut heads = TeeHeads::default();
     let mut items: Vec<Option<Item>> = vec![None; scene.loads.len() + 1];
 
     // Self-weight of every element: one permanent item.
@@ -188,7 +200,8 @@ fn solve_with(model: &Model, pass: MethodPass, net: &Network) -> Result<Solution
             s.post_direct(item, i, wt, Route::PostSelfWeight, Case::G);
         }
         s.flow(item, Case::G);
-        permanent_tee.append(&mut s.unbalanced);
+        heads.permanent(&s.unbalanced);
+        s.unbalanced.clear();
         items[0] = Some(s.take_item(Item::new(SELF_WEIGHT_ID, Case::G, applied)));
     }
 
@@ -236,24 +249,31 @@ fn solve_with(model: &Model, pass: MethodPass, net: &Network) -> Result<Solution
         }
         s.flow(item, load.case);
         let mut it = s.take_item(Item::new(load.id.clone(), load.case, applied));
-        if load.case == Case::G {
-            permanent_tee.append(&mut s.unbalanced);
-        } else {
-            let own = std::mem::take(&mut s.unbalanced);
-            tee_head_balances(model, &own, &load.id)?;
-        }
         it.arranged = s.arrange(load, model.load_targets[k]);
-        for t in std::mem::take(&mut s.arranged_tee) {
-            // One arm loaded alone: each way must balance on its own.
-            for m in [t.one_way_knm, t.other_way_knm] {
-                tee_head_balances(model, &[(t.bearer, m, t.scale)], &load.id)?;
+        if let (Case::Q, Target::Deck(d), LoadKind::DeckArea { intensity, .. } | LoadKind::DeckPatch { intensity, .. }) = (load.case, model.load_targets[k], &load.kind) {
+            if matches!(intensity, Intensity::LoadClassUniform(_) | Intensity::LoadClassPartial(_)) {
+                it.working_level = Some(scene.decks[d].level);
             }
         }
+        if load.case == Case::G {
+            heads.permanent(&s.unbalanced);
+        } else if it.arranged.is_some() {
+            // Arranged: one arm may be loaded alone, each way counts on its own.
+            for t in std::mem::take(&mut s.arranged_tee) {
+                heads.variable(t.bearer, t.one_way_knm, t.other_way_knm, t.scale, &load.id);
+            }
+        } else {
+            for (b, m, scale) in sum_per_bearer(&s.unbalanced) {
+                heads.variable(b, m, 0.0, scale, &load.id);
+            }
+        }
+        s.unbalanced.clear();
+        s.arranged_tee.clear();
         items[k + 1] = Some(it);
     }
 
-    // Permanent loads are always present together, so their moments on a T-head may cancel.
-    tee_head_balances(model, &permanent_tee, "permanent load")?;
+    // Permanent loads act together; each variable load may act alone, on either arm.
+    let head_moments = heads.check(model)?;
 
     // Horizontal loads, after the vertical ones: a notional load is a share of them. They go down
     // the braced planes; the vertical components of the brace forces enter the posts at their
@@ -266,16 +286,17 @@ fn solve_with(model: &Model, pass: MethodPass, net: &Network) -> Result<Solution
     for h in horizontal {
         match h.slot {
             Some(k) => {
-                let it = route_item(&mut s, (k + 1) as u32, h);
+                let it = route_item(s, (k + 1) as u32, h);
                 items[k + 1] = it;
             }
             None => {
-                let it = route_item(&mut s, items.len() as u32, h);
+                let it = route_item(s, items.len() as u32, h);
                 items.push(it);
             }
         }
     }
-    Ok(Solution { plates, is_plate, items, contributions: s.contributions, method: pass })
+    let local_residual = s.bearer_beams.iter().chain(&s.deck_beams).flatten().map(MemberBeam::worst_residual).fold(0.0, f64::max);
+    Ok(Solution { plates, is_plate, items, contributions: std::mem::take(&mut s.contributions), method: pass, head_moments, local_residual })
 }
 
 impl<'m, 's> Solver<'m, 's> {
@@ -287,13 +308,14 @@ impl<'m, 's> Solver<'m, 's> {
         let bearer_beams = (0..model.bearers.len())
             .map(|b| {
                 let line = &model.bearers[b];
-                (pass.bearer(scene, b) == Behaviour::Continuous && line.supports.len() >= 2)
-                    .then(|| ContinuousBeam::new(&line.supports, stiffness.of(scene.bearers[b].role)).ok())
-                    .flatten()
+                (line.supports.len() >= 2).then(|| MemberBeam::new(pass.bearer(scene, b), &line.supports, stiffness.of(scene.bearers[b].role), line.joints.as_deref())).flatten()
             })
             .collect();
         let deck_beams = (0..model.decks.len())
-            .map(|d| (pass.deck(scene, d) == Behaviour::Continuous).then(|| ContinuousBeam::new(&model.decks[d].supports, stiffness.deck_knm2_per_m).ok()).flatten())
+            .map(|d| {
+                let line = &model.decks[d];
+                MemberBeam::new(pass.deck(scene, d), &line.supports, stiffness.deck_knm2_per_m, line.joints.as_deref())
+            })
             .collect();
         let members = model.graph.order.len();
         Solver {
@@ -313,6 +335,9 @@ impl<'m, 's> Solver<'m, 's> {
             reactions: Vec::new(),
             unbalanced: Vec::new(),
             arranged_tee: Vec::new(),
+            bearer_behaviour: (0..model.bearers.len()).map(|b| pass.bearer(scene, b)).collect(),
+            flow_cache: FlowCache::default(),
+            flow_buffer: Vec::new(),
         }
     }
 
@@ -475,10 +500,11 @@ impl<'m, 's> Solver<'m, 's> {
                 self.reactions.resize(n, 0.0);
                 let group_loads: Vec<BeamLoad> = group.iter().map(|l| l.0).collect();
                 beam.share(&group_loads, &mut self.reactions);
+                let piece = beam.piece();
                 for k in 0..n {
                     let r = self.reactions[k];
                     if r != 0.0 {
-                        self.bearer_reaction(b, k, r, route(Piece::Continuous), from.is_none(), item, case);
+                        self.bearer_reaction(b, k, r, route(piece), from.is_none(), item, case);
                     }
                 }
                 continue;
@@ -526,19 +552,12 @@ impl<'m, 's> Solver<'m, 's> {
     }
 }
 
-/// A single-post bearer must balance about its post under each load that can act alone
-/// (each variable load) and under all permanent load together.
-fn tee_head_balances(model: &Model, moments: &[(usize, f64, f64)], load: &str) -> Result<(), SolveError> {
-    // Sum per bearer: sorted, so a scene of many T-heads costs n log n, not n².
+/// One moment per single-post bearer: (bearer, Σ moment, Σ scale) of a flow's entries.
+fn sum_per_bearer(moments: &[(usize, f64, f64)]) -> Vec<(usize, f64, f64)> {
+    // Sorted, so a scene of many T-heads costs n log n, not n².
     let mut sorted = moments.to_vec();
     sorted.sort_unstable_by_key(|e| e.0);
-    for group in sorted.chunk_by(|a, b| a.0 == b.0) {
-        let (m, scale) = group.iter().fold((0.0, 0.0), |(m, s), e| (m + e.1, s + e.2));
-        if m.abs() > 1e-9 * f64::max(scale, 1e-9) {
-            return Err(SolveError::TeeHeadTips { bearer: model.scene.bearers[group[0].0].id.clone(), load: load.to_owned(), moment_knm: m.abs() });
-        }
-    }
-    Ok(())
+    sorted.chunk_by(|a, b| a.0 == b.0).map(|g| (g[0].0, g.iter().map(|e| e.1).sum(), g.iter().map(|e| e.2).sum())).collect()
 }
 
 /// Where a reaction of `piece` at support `k` is summed: (slot, side).
@@ -548,7 +567,7 @@ fn piece_slot(piece: Piece, k: usize, n: usize) -> (usize, usize) {
         Piece::StartOverhang => (n - 1, k),
         Piece::EndOverhang => (n, k + 2 - n),
         Piece::Single => (0, 0),
-        Piece::Continuous => unreachable!("segment moment balance reports no continuous piece"),
+        Piece::Continuous | Piece::TwoSpanModel => unreachable!("segment moment balance reports no continuous piece"),
     }
 }
 
@@ -594,6 +613,51 @@ mod tests {
                 let (slot, side) = piece_slot(Piece::EndOverhang, k, n);
                 assert_eq!(slot_piece(slot, side, n), (k, Piece::EndOverhang));
             }
+        }
+    }
+}
+
+/// How one member shares its loads in a pass, where it is not simple spans.
+pub(super) enum MemberBeam {
+    /// Continuous between its joints (declared ones, or none).
+    Jointed(JointedBeam),
+    /// Joints not known: each support from its own two-span model.
+    Local(TwoSpanLocal),
+}
+
+impl MemberBeam {
+    /// The member as `behaviour` says, on `supports` with stiffness `ei` and declared joints
+    /// (support indices) if known; `None` for simple spans (or a member that cannot be set up,
+    /// which validation rules out).
+    fn new(behaviour: Behaviour, supports: &[f64], ei: f64, declared: Option<&[usize]>) -> Option<MemberBeam> {
+        match (behaviour, declared) {
+            (Behaviour::SimpleSpans, _) => None,
+            (Behaviour::TwoSpanEach, None) => TwoSpanLocal::new(supports, ei).ok().map(MemberBeam::Local),
+            (_, joints) => JointedBeam::new(supports, ei, joints.unwrap_or_default()).ok().map(MemberBeam::Jointed),
+        }
+    }
+
+    /// Reactions of `loads` at every support, overwriting `reactions`.
+    pub(super) fn share(&mut self, loads: &[BeamLoad], reactions: &mut [f64]) -> f64 {
+        match self {
+            MemberBeam::Jointed(b) => b.share(loads, reactions),
+            MemberBeam::Local(b) => b.share(loads, reactions),
+        }
+    }
+
+    /// The piece its reactions are traced as.
+    fn piece(&self) -> Piece {
+        match self {
+            MemberBeam::Jointed(_) => Piece::Continuous,
+            MemberBeam::Local(_) => Piece::TwoSpanModel,
+        }
+    }
+
+    /// Worst relative equilibrium residual of its own models (0 where it is one state).
+    fn worst_residual(&self) -> f64 {
+        match self {
+            MemberBeam::Jointed(_) => 0.0,
+            MemberBeam::Local(b) => b.worst_residual(),
         }
     }
 }

@@ -8,6 +8,9 @@
 //! - [`braced`]: horizontal loads down the braced planes, through the diaphragms, to the plates.
 //! - [`rigid_base`]: loads shared among the plates of a rigid base (the pile-group formula); not
 //!   used by the scene path.
+//! - [`tee_heads`]: bearers on a single post must balance, or stay within a stated head moment
+//!   capacity, with either arm loaded alone.
+//! - [`influence`]: the reaction at every post for a unit load anywhere on a deck.
 //! - [`passes`]: the method passes (simple spans, continuous, mixtures) the envelope needs.
 //! - [`items`]: what the solver hands on — load items, their reactions and the trace.
 //!
@@ -17,10 +20,12 @@ pub mod arrangement;
 pub mod beam;
 pub mod braced;
 pub mod continuous;
+pub mod influence;
 pub mod items;
 pub mod load_path;
 pub mod passes;
 pub mod rigid_base;
+pub mod tee_heads;
 
 pub use items::{Action, Alternative, Arranged, Cell, CellPlace, Contribution, Item, Resultant, Route, Solution, Variant, SELF_WEIGHT_ID};
 pub use load_path::{solve, solve_methods, solve_pass, SolveError};

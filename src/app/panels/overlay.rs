@@ -113,7 +113,7 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
     if !p.brace.bays.is_empty() || p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10 {
         let bays = a.bays_of(&p.brace);
         let from = if bays.is_empty() { "posts above".to_owned() } else { format!("braced bay{} {}", if bays.len() == 1 { "" } else { "s" }, bays.join(", ")) };
-        text.push_str(&format!("\nbrace forces {:+.2} / {:+.2} kN from {from}", p.brace.max_kn, p.brace.min_kn));
+        text.push_str(&format!("\nbrace forces {:+.2} / {:+.2} kN from {from}", plateload::format::num(p.brace.max_kn), plateload::format::num(p.brace.min_kn)));
     }
     let g = painter.layout_no_wrap(text, FontId::proportional(13.0), Color32::BLACK);
     let size = g.size() + Vec2::new(20.0, 10.0);
@@ -450,7 +450,7 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
     // its corners' circle).
     let footprint = |i: usize, with_cue: bool| -> Option<Rect> {
         let p = &a.plates[i];
-        let post = doc.scene.posts.get(i)?;
+        let post = doc.scene.posts.get(p.post)?;
         let s = post.support.as_deref().and_then(|s| supports.get(s))?;
         let b = s.bearing_plate();
         let st = reading(p, comb).1;

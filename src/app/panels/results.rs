@@ -131,7 +131,7 @@ impl ResultsPanel {
                         ui.label("No braced plane.");
                     }
                     for p in &h.planes {
-                        let to = p.braced_to_m.map_or("not counted".to_owned(), |z| format!("braced up to {z:.3} m"));
+                        let to = p.braced_to_m.map_or("not counted".to_owned(), |z| format!("braced up to {:.3} m", plateload::format::num(z)));
                         let cut = p.cut.as_ref().map_or(String::new(), |c| format!(" — above not counted: {c}"));
                         ui.label(format!("{}: {to}, {} brace(s){cut}", p.name, p.diagonals));
                     }
