@@ -585,3 +585,21 @@ fn the_spare_map_says_it_leaves_out_the_notional_load_of_the_extra_load() {
     let a = plateload::analyse(&off).unwrap();
     assert_eq!(plateload::check::spare::spare_map(&off, &a, &Default::default()).unwrap().not_included, None);
 }
+
+#[test]
+fn the_notional_load_is_a_share_of_the_load_applied_in_every_method_pass() {
+    // BS 5975:2008+A1:2011 cl. 19: 2.5 % of the vertical load. The two-span pass takes each
+    // support from its own two-span model, so its reactions add up to more than the load applied
+    // (by design); the notional load must still be 2.5 % of the load applied, not of those.
+    let (_, scene) = crate::util::demo_scenes().into_iter().find(|(n, _)| n.starts_with("larkfield")).unwrap();
+    let a = plateload::analyse(&scene).unwrap();
+    let primary = a.solution_of(0);
+    let v: f64 = primary.items.iter().filter(|i| i.direction.is_none()).map(|i| i.applied.down()).sum();
+    assert!(a.method_count() >= 5, "the envelope has the two-span pass");
+    for m in 0..a.method_count() {
+        for item in a.solution_of(m).items.iter().filter(|i| i.action == plateload::solve::Action::Notional) {
+            let f = item.applied.force[0].hypot(item.applied.force[1]);
+            assert!((f - 0.025 * v).abs() < 1e-9 * v, "{} in {}: {f} kN vs 2.5 % of {v} kN", item.id, a.method_label(m));
+        }
+    }
+}

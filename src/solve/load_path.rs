@@ -154,26 +154,40 @@ pub fn solve_methods(model: &Model) -> Result<Vec<Solution>, SolveError> {
     let net = Network::new(model, &Nodes::new(model).at);
     // Unit flows of the arranged loads are shared by the passes where a bearer behaves alike.
     let mut cache = FlowCache::default();
-    method_passes(model.scene).into_iter().map(|pass| solve_pass_with(model, pass, &net, &mut cache)).collect()
+    let mut primary_nodes: Option<NodeSnapshot> = None;
+    let mut out = Vec::new();
+    for pass in method_passes(model.scene) {
+        let (solution, nodes) = solve_pass_with(model, pass, &net, &mut cache, primary_nodes.as_ref())?;
+        primary_nodes.get_or_insert(nodes);
+        out.push(solution);
+    }
+    Ok(out)
 }
 
 /// Carry every load of a validated scene down to the base plates, members behaving as `pass` says.
 pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveError> {
-    solve_pass_with(model, pass, &Network::new(model, &Nodes::new(model).at), &mut FlowCache::default())
+    let net = Network::new(model, &Nodes::new(model).at);
+    let mut cache = FlowCache::default();
+    // A pass of local models takes its notional load from the primary pass (see below).
+    let primary = if pass.is_one_state() { None } else { Some(solve_pass_with(model, method_passes(model.scene).swap_remove(0), &net, &mut cache, None)?.1) };
+    Ok(solve_pass_with(model, pass, &net, &mut cache, primary.as_ref())?.0)
 }
 
-fn solve_pass_with(model: &Model, pass: MethodPass, net: &Network, cache: &mut FlowCache) -> Result<Solution, SolveError> {
+/// The vertical load entering each notional-load node per case, and its first moments.
+type NodeSnapshot = (Vec<[f64; 3]>, [[f64; 4]; 3]);
+
+fn solve_pass_with(model: &Model, pass: MethodPass, net: &Network, cache: &mut FlowCache, primary_nodes: Option<&NodeSnapshot>) -> Result<(Solution, NodeSnapshot), SolveError> {
     let scene = model.scene;
     let plates: Vec<[f64; 3]> = scene.posts.iter().map(|p| [p.x, p.y, p.base_level]).collect();
     let is_plate: Vec<bool> = (0..scene.posts.len()).map(|p| model.graph.is_plate(p)).collect();
     let mut s = Solver::new(model, &pass);
     s.flow_cache = std::mem::take(cache);
-    let solved = solve_with(&mut s, model, pass, net, plates, is_plate);
+    let solved = solve_with(&mut s, model, pass, net, plates, is_plate, primary_nodes);
     *cache = std::mem::take(&mut s.flow_cache);
-    solved
+    Ok((solved?, (std::mem::take(&mut s.nodes.load), s.nodes.moments)))
 }
 
-fn solve_with(s: &mut Solver, model: &Model, pass: MethodPass, net: &Network, plates: Vec<[f64; 3]>, is_plate: Vec<bool>) -> Result<Solution, SolveError> {
+fn solve_with(s: &mut Solver, model: &Model, pass: MethodPass, net: &Network, plates: Vec<[f64; 3]>, is_plate: Vec<bool>, primary_nodes: Option<&NodeSnapshot>) -> Result<Solution, SolveError> {
     let scene = model.scene;
     // Slot 0: self-weight; slot k + 1: the scene's load k.
     let mut heads = TeeHeads::default();
@@ -279,7 +293,15 @@ fn solve_with(s: &mut Solver, model: &Model, pass: MethodPass, net: &Network, pl
     // the braced planes; the vertical components of the brace forces enter the posts at their
     // nodes and flow down to the plates like any other load.
     s.nodes.sum_moments(scene);
-    let nodes = NodeLoads { at: &s.nodes.at, load: &s.nodes.load, moments: s.nodes.moments };
+    // A pass that takes each support's reaction from its own local model (two-span continuity
+    // support by support) puts more load into the posts than is applied, by design. The notional
+    // load is a share of the load applied, so such a pass takes its node loads from the primary
+    // pass (simple spans, which balances exactly); each pass routes them down its own way.
+    let (node_load, node_moments) = match primary_nodes {
+        Some((load, moments)) if !pass.is_one_state() => (load.as_slice(), *moments),
+        _ => (s.nodes.load.as_slice(), s.nodes.moments),
+    };
+    let nodes = NodeLoads { at: &s.nodes.at, load: node_load, moments: node_moments };
     let horizontal = horizontal_items(model, net, &nodes).map_err(|problems| SolveError::HorizontalPath { problems })?;
     // Horizontal loads fill their slots below.
     let mut items: Vec<Item> = items.into_iter().map(|i| i.unwrap_or_else(|| Item::new(String::new(), Case::W, Resultant::default()))).collect();
