@@ -493,6 +493,9 @@ pub enum BracingLine {
     Diaphragm,
 }
 
+/// Height above the base at which a plane's outline starts, m: clear of the plate and its cues.
+const PLATE_CLEARANCE_M: f64 = 0.4;
+
 /// Lines that show the braced planes and the diaphragms of an analysis: (from, to, what).
 pub fn bracing_lines(scene: &Scene, bracing: &crate::scene::bracing::Bracing) -> Vec<(V3, V3, BracingLine)> {
     let mut out = Vec::new();
@@ -501,10 +504,15 @@ pub fn bracing_lines(scene: &Scene, bracing: &crate::scene::bracing::Bracing) ->
         let (a, z) = (&scene.posts[first as usize], &scene.posts[last as usize]);
         let base = plane.posts.iter().map(|&p| scene.posts[p as usize].base_level).fold(f64::INFINITY, f64::min);
         let counted_top = plane.braced_to.checked_sub(1).map(|k| plane.levels[k]);
+        // An outline without its bottom edge on the ground, its sides starting clear of the
+        // plates, so that it never covers a plate's colour or its failure cue.
         let rect = |lo: f64, hi: f64, kind: BracingLine, out: &mut Vec<(V3, V3, BracingLine)>| {
-            let corners = [[a.x, a.y, lo], [z.x, z.y, lo], [z.x, z.y, hi], [a.x, a.y, hi]];
-            for k in 0..4 {
-                out.push((corners[k], corners[(k + 1) % 4], kind));
+            let from = if lo <= base { base + PLATE_CLEARANCE_M } else { lo };
+            out.push(([a.x, a.y, from], [a.x, a.y, hi], kind));
+            out.push(([z.x, z.y, from], [z.x, z.y, hi], kind));
+            out.push(([a.x, a.y, hi], [z.x, z.y, hi], kind));
+            if lo > base {
+                out.push(([a.x, a.y, lo], [z.x, z.y, lo], kind));
             }
         };
         if let Some(top) = counted_top {
