@@ -26,7 +26,7 @@
 //! (the vertical components of its force); the shear passes to its lower end, and from the ground
 //! lift into that post's plate. Every vertical component is a force at a post node; it enters
 //! the post there and flows down to the plates through splices and transfer members like any
-//! other load ([`route_item`]).
+//! other load (`route_item`).
 //!
 //! Everything is linear in the load. The notional load is solved once per basis case and plan
 //! axis (a unit response) and each notional item is a sum of those; where a unit force at each
@@ -906,7 +906,7 @@ pub type PathProblem = (String, Vec<String>);
 
 
 /// A horizontal load item carried down the bracing, before its brace forces are routed to the
-/// plates ([`route_item`]).
+/// plates (`route_item`).
 #[derive(Debug, Clone)]
 pub struct HorizontalItem {
     /// Index of the scene's load, or `None` for a generated notional load.
