@@ -84,6 +84,102 @@ fn a_slanted_hull_edge_tips_before_the_outermost_plate() {
     close("utilisation with kentledge", axis_towards(&analyse(&placed).unwrap(), 45.0).utilisation(1.5), 1.0, 1e-12);
 }
 
+/// Four weightless posts 6 m high on a 2 m square, A (0, 0), B (2, 0), C (2, 2), D (0, 2),
+/// bearers at 6 m along its four sides, the one along A–B running on 1 m past B with `tip` kN
+/// permanent at its end (3, 0); 10 kN permanent on each post top. No braces and no horizontal
+/// load: nothing ties it to the x and y axes, so it can be turned by any angle.
+fn cantilever_square(tip: f64) -> Scene {
+    let mut s = bare_scene();
+    for (id, x, y) in [("A", 0.0, 0.0), ("B", 2.0, 0.0), ("C", 2.0, 2.0), ("D", 0.0, 2.0)] {
+        s.posts.push(post(id, x, y, 6.0));
+        s.loads.push(load(&format!("G-{id}"), Case::G, LoadKind::PostTop { post: id.into(), kn: 10.0 }));
+    }
+    let mut south = bearer("south", 6.0, &["A", "B"]);
+    south.overhang_end_m = 1.0;
+    s.bearers = vec![south, bearer("east", 6.0, &["B", "C"]), bearer("north", 6.0, &["D", "C"]), bearer("west", 6.0, &["A", "D"])];
+    s.loads.push(load("tip", Case::G, LoadKind::BearerPoint { bearer: "south".into(), at_m: 3.0, kn: tip }));
+    s
+}
+
+#[test]
+fn a_tower_turned_at_any_angle_tips_about_its_hull_edge() {
+    // statics, by hand, in the square's own axes (x' along A→B, y' along A→D): the tip (3, 0)
+    // lies 1 m beyond the edge B–C (x' = 2) and on the line of A–B, so only B–C overturns.
+    // About B–C: restoring 10 × 2 (A) + 10 × 2 (D) = 40 kN·m (B and C lie on it), overturning
+    // 35 × 1 = 35 kN·m → factor 40/35 = 1.143 < 1.5. None of this depends on where the square
+    // stands or which way it faces: turned 30° about (5, −3), B–C's outward normal points at
+    // 30° and every number stays.
+    let mut s = turned_by(&cantilever_square(35.0), 30.0, (5.0, -3.0));
+    s.stability.target_factor = 1.5;
+    assert!(s.horizontal.notional == plateload::scene::model::NotionalRule::Off && s.braces.is_empty());
+    let a = analyse(&s).unwrap();
+    assert!(a.stability.refused.is_none(), "{:?}", a.stability.refused);
+    assert_eq!(a.stability.structures.len(), 1, "the bearers join the four posts");
+    let st = &a.stability.structures[0];
+    assert_eq!(st.plate_count, 4);
+    assert_eq!(st.hull.len(), 4, "{:?}", st.hull);
+    let edge = axis_towards(&a, 30.0);
+    assert_eq!(edge.about, "edge B–C");
+    close("restoring", edge.permanent_stabilising_knm, 40.0, 1e-9);
+    close("overturning", edge.permanent_destabilising_knm, 35.0, 1e-9);
+    close("imposed", edge.imposed_destabilising_knm, 0.0, 1e-12);
+    close("horizontal", edge.horizontal_destabilising_knm, 0.0, 1e-12);
+    close("factor", edge.factor.unwrap(), 40.0 / 35.0, 1e-9);
+    assert!(!edge.meets_target);
+    // source: EN 1990 Table A1.2(A) (γG,sup 1.1, γG,inf 0.9): E_dst = 1.1 × 35 = 38.5 >
+    // E_stb = 0.9 × 40 = 36 → fails (106.9 %).
+    assert_eq!(s.stability.equilibrium, plateload::Factors { g_unfavourable: 1.1, g_favourable: 0.9, q: 1.5, w: 1.5 });
+    close("E_dst", edge.equ_destabilising_knm, 38.5, 1e-9);
+    close("E_stb", edge.equ_stabilising_knm, 36.0, 1e-9);
+    close("EQU", edge.equ_utilisation.unwrap(), 38.5 / 36.0, 1e-9);
+    assert!(!edge.equ_ok);
+    // Kentledge over the plates farthest inside B–C, A and D (lever 2 m each): for the factor
+    // (1.5 × 35 − 40) / 2 = 6.25 kN; for equilibrium (38.5 / 0.9 − 40) / 2 = 25/18 = 1.389 kN;
+    // the larger, 6.25 kN, is needed.
+    let k = edge.kentledge.as_ref().expect("the edge falls short");
+    assert_eq!(k.plates, ["A", "D"]);
+    close("lever", k.lever_m, 2.0, 1e-9);
+    close("for the factor", k.for_factor_kn.unwrap(), 6.25, 1e-9);
+    close("for equilibrium", k.for_equ_kn.unwrap(), 25.0 / 18.0, 1e-9);
+    close("needed", k.needed_kn.unwrap(), 6.25, 1e-9);
+    // The other three edges: the tip lies on A–B's line and inside C–D and D–A, every post top
+    // on or inside them: nothing overturns.
+    for deg in [-60.0, 120.0, 210.0] {
+        let other = axis_towards(&a, deg);
+        assert_eq!(other.factor, None, "{}", other.about);
+        assert_eq!(other.equ_utilisation, None, "{}", other.about);
+    }
+    assert_eq!(st.axes.len(), 4, "{:?}", st.axes.iter().map(|x| &x.about).collect::<Vec<_>>());
+    let (_, g) = a.stability.governing().unwrap();
+    assert_eq!(g.about, "edge B–C");
+    close("governing utilisation", g.utilisation(1.5), 1.5 / (40.0 / 35.0), 1e-9);
+    assert!(a.stability.fails());
+    // A bounding box would have tipped about its side x = √3 (through B at (√3, 1) from A,
+    // before the shift to (5, −3)): the tip at (3√3/2, 3/2) is only √3/2 beyond it, and the
+    // other plates lie farther inside (A √3, C 1, D √3 + 1): restoring 10 × (2√3 + 2) =
+    // 54.64, overturning 35 × √3/2 = 30.31 → 1.803, passing the target the real edge fails.
+    let r3 = 3f64.sqrt();
+    let boxed = 10.0 * (2.0 * r3 + 2.0) / (35.0 * r3 / 2.0);
+    assert!(boxed >= 1.5);
+    let (_, lowest, f) = a.stability.lowest_factor().unwrap();
+    assert_eq!(lowest.about, "edge B–C");
+    assert!(f < 1.5 && f < boxed, "{f} against the box's {boxed}");
+    // The kentledge, placed there (fixed): the edge reaches its target exactly.
+    let mut placed = s.clone();
+    placed.loads.push(load("K", Case::G, LoadKind::Kentledge { on: KentledgePlace::Plates(vec!["A".into(), "D".into()]), kn: 6.25, form: KentledgeForm::Fixed, secured: false }));
+    let after = analyse(&placed).unwrap();
+    let edge = axis_towards(&after, 30.0);
+    close("restoring with kentledge", edge.permanent_stabilising_knm, 52.5, 1e-9);
+    close("factor with kentledge", edge.factor.unwrap(), 1.5, 1e-9);
+    close("utilisation with kentledge", edge.utilisation(1.5), 1.0, 1e-9);
+    assert!(edge.passes());
+    // Unturned, the same edge faces +x with the same numbers.
+    let plain = analyse(&cantilever_square(35.0)).unwrap();
+    let e0 = axis_towards(&plain, 0.0);
+    assert_eq!(e0.about, "edge B–C");
+    close("unturned factor", e0.factor.unwrap(), 40.0 / 35.0, 1e-9);
+}
+
 /// Plates at (0|2, 0|1), braced; 25 kN on each post at x = 0 (restoring 100 kN·m about x = 2);
 /// bearers along x with a 1 m overhang past x = 2 carrying 35 kN each at the tip (70 kN·m
 /// beyond the edge); 2.5 kN of wind at 6 m towards +x (15 kN·m), applied at the top of B1, where
@@ -734,11 +830,25 @@ fn quarter(k: u8) -> (f64, f64) {
     [(1.0, 0.0), (0.0, 1.0), (-1.0, 0.0), (0.0, -1.0)][k as usize % 4]
 }
 
-/// The scene turned by `k` quarter turns in plan about `(cx, cy)`.
-fn turned(s: &Scene, k: u8, (cx, cy): (f64, f64)) -> Scene {
+/// The scene turned by `k` quarter turns in plan about `(cx, cy)` (exact cosines and sines).
+fn turned(s: &Scene, k: u8, centre: (f64, f64)) -> Scene {
+    turn(s, 90.0 * (k % 4) as f64, quarter(k), centre)
+}
+
+/// The scene turned in plan by `deg` degrees anticlockwise about `(cx, cy)`. Decks are
+/// rectangles along x and y and cannot be turned by any angle: scenes with decks are not
+/// accepted here.
+fn turned_by(s: &Scene, deg: f64, centre: (f64, f64)) -> Scene {
+    assert!(s.decks.is_empty(), "a deck cannot be turned by {deg}°");
+    let r = deg.to_radians();
+    turn(s, deg, (r.cos(), r.sin()), centre)
+}
+
+/// The scene turned by `deg` degrees, whose cosine and sine are `(c, sn)`, about `(cx, cy)`:
+/// post positions and the positions and directions of horizontal loads (everything else is
+/// placed on the posts or along the members).
+fn turn(s: &Scene, deg: f64, (c, sn): (f64, f64), (cx, cy): (f64, f64)) -> Scene {
     let mut s = s.clone();
-    let deg = 90.0 * (k % 4) as f64;
-    let (c, sn) = quarter(k);
     let rot = |x: f64, y: f64| (cx + (x - cx) * c - (y - cy) * sn, cy + (x - cx) * sn + (y - cy) * c);
     for p in &mut s.posts {
         (p.x, p.y) = rot(p.x, p.y);
@@ -870,4 +980,206 @@ fn the_reported_kentledge_brings_the_governing_axis_to_its_target() {
     }
     let placed = placed.get();
     assert!(placed >= 30, "only {placed} generated towers needed kentledge: the property was hardly exercised");
+}
+
+/// A generated frame with nothing that ties it to the x and y axes: a grid of posts along its
+/// own axes (any plan angle), bearers along its rows and columns with overhangs at both ends,
+/// optionally a bearer along the diagonal from the first post with overhangs past the corner
+/// plates, no braces and no horizontal load (the notional load is off). Permanent and imposed
+/// point loads on the post tops and at the overhang ends, and line loads that reach onto the
+/// overhangs.
+#[derive(Debug, Clone)]
+struct Frame {
+    cols: usize,
+    rows: usize,
+    bay: (f64, f64),
+    /// Plan angle of the rows, degrees from +x.
+    angle: f64,
+    origin: (f64, f64),
+    height: f64,
+    /// Overhangs of the rows and of the columns, (start, end), m.
+    overhang: ((f64, f64), (f64, f64)),
+    post_weight: f64,
+    bearer_weight: f64,
+    /// (post, kN, permanent).
+    tops: Vec<(usize, f64, bool)>,
+    /// (line, along a row, at its end, kN, permanent): at the tip of an overhang.
+    tips: Vec<(usize, bool, bool, f64, bool)>,
+    /// (line, along a row, at its end, share of the span it reaches back in, kN/m, permanent).
+    lines: Vec<(usize, bool, bool, f64, f64, bool)>,
+    /// (start overhang, end overhang, kN at the start tip, kN at the end tip, permanent).
+    diagonal: Option<(f64, f64, f64, Option<f64>, bool)>,
+}
+
+fn frame_gen() -> impl Strategy<Value = Frame> {
+    (
+        (2usize..5, 2usize..4),
+        (0.8..3.0f64, 0.8..3.0f64),
+        (0.0..360.0f64, (-20.0..20.0f64, -20.0..20.0f64)),
+        2.0..12.0f64,
+        ((0.1..1.5f64, 0.1..1.5f64), (0.1..1.5f64, 0.1..1.5f64)),
+        (0.0..0.1f64, 0.0..0.1f64),
+        prop::collection::vec((0usize..16, 0.5..20.0f64, any::<bool>()), 0..5),
+        prop::collection::vec((0usize..4, any::<bool>(), any::<bool>(), 0.5..10.0f64, any::<bool>()), 1..4),
+        prop::collection::vec((0usize..4, any::<bool>(), any::<bool>(), 0.0..0.6f64, 0.2..5.0f64, any::<bool>()), 0..3),
+        prop::option::of((0.1..1.0f64, 0.0..1.0f64, 0.5..10.0f64, prop::option::of(0.5..10.0f64), any::<bool>())),
+    )
+        .prop_map(|(grid, bay, (angle, origin), height, overhang, (post_weight, bearer_weight), tops, tips, lines, diagonal)| Frame {
+            cols: grid.0,
+            rows: grid.1,
+            bay,
+            angle,
+            origin,
+            height,
+            overhang,
+            post_weight,
+            bearer_weight,
+            tops,
+            tips,
+            lines,
+            diagonal,
+        })
+}
+
+/// The scene of a generated frame.
+fn frame(f: &Frame) -> Scene {
+    let mut s = bare_scene();
+    let (sn, c) = f.angle.to_radians().sin_cos();
+    let at = |i: usize, j: usize| {
+        let (dx, dy) = (i as f64 * f.bay.0, j as f64 * f.bay.1);
+        (f.origin.0 + dx * c - dy * sn, f.origin.1 + dx * sn + dy * c)
+    };
+    let id = |i: usize, j: usize| format!("P{i}-{j}");
+    let line_of = |ids: Vec<String>, name: String, (start, end): (f64, f64)| {
+        let refs: Vec<&str> = ids.iter().map(String::as_str).collect();
+        let mut b = bearer(&name, f.height, &refs);
+        b.overhang_start_m = start;
+        b.overhang_end_m = end;
+        b.self_weight_kn_per_m = f.bearer_weight;
+        b
+    };
+    for j in 0..f.rows {
+        for i in 0..f.cols {
+            let (x, y) = at(i, j);
+            let mut p = post(&id(i, j), x, y, f.height);
+            p.self_weight_kn_per_m = f.post_weight;
+            s.posts.push(p);
+        }
+        s.bearers.push(line_of((0..f.cols).map(|i| id(i, j)).collect(), format!("R{j}"), f.overhang.0));
+    }
+    for i in 0..f.cols {
+        s.bearers.push(line_of((0..f.rows).map(|j| id(i, j)).collect(), format!("T{i}"), f.overhang.1));
+    }
+    for (k, &(p, kn, permanent)) in f.tops.iter().enumerate() {
+        let (i, j) = (p % f.cols, (p / f.cols) % f.rows);
+        s.loads.push(load(&format!("top{k}"), if permanent { Case::G } else { Case::Q }, LoadKind::PostTop { post: id(i, j), kn }));
+    }
+    // A row or column line: its bearer, its span and its overhangs.
+    let member = |line: usize, row: bool| {
+        if row {
+            (format!("R{}", line % f.rows), (f.cols - 1) as f64 * f.bay.0, f.overhang.0)
+        } else {
+            (format!("T{}", line % f.cols), (f.rows - 1) as f64 * f.bay.1, f.overhang.1)
+        }
+    };
+    for (k, &(line, row, end, kn, permanent)) in f.tips.iter().enumerate() {
+        let (bearer, span, (start, over)) = member(line, row);
+        let at_m = if end { span + over } else { -start };
+        s.loads.push(load(&format!("tip{k}"), if permanent { Case::G } else { Case::Q }, LoadKind::BearerPoint { bearer, at_m, kn }));
+    }
+    for (k, &(line, row, end, back, kn_per_m, permanent)) in f.lines.iter().enumerate() {
+        let (bearer, span, (start, over)) = member(line, row);
+        let (from_m, to_m) = if end { (span * (1.0 - back), span + over) } else { (-start, span * back) };
+        s.loads.push(load(&format!("line{k}"), if permanent { Case::G } else { Case::Q }, LoadKind::BearerLine { bearer, from_m, to_m, kn_per_m }));
+    }
+    if let Some((start, end, kn, end_kn, permanent)) = f.diagonal {
+        let n = f.cols.min(f.rows);
+        s.bearers.push(line_of((0..n).map(|k| id(k, k)).collect(), "diag".into(), (start, end)));
+        let case = if permanent { Case::G } else { Case::Q };
+        s.loads.push(load("diag-start", case, LoadKind::BearerPoint { bearer: "diag".into(), at_m: -start, kn }));
+        if let Some(kn) = end_kn.filter(|_| end > 0.0) {
+            let length = (n - 1) as f64 * f.bay.0.hypot(f.bay.1);
+            s.loads.push(load("diag-end", case, LoadKind::BearerPoint { bearer: "diag".into(), at_m: length + end, kn }));
+        }
+    }
+    s
+}
+
+#[test]
+fn turning_a_scene_by_any_angle_leaves_every_factor_unchanged() {
+    // source: statics — moments about an edge do not depend on the direction the structure
+    // faces or where it stands; every tipping axis (hull edges, and corners past which a
+    // cantilever reaches) turns with it and keeps its moments, its factor, its equilibrium
+    // ratio and its kentledge. Scenes without braces or horizontal load may face any way, so
+    // here the angle is any angle, not only quarter turns.
+    let mut r = runner(300);
+    let (cases, with_factor, corners) = (std::cell::Cell::new(0), std::cell::Cell::new(0), std::cell::Cell::new(0));
+    let result = r.run(&(frame_gen(), 0.0..360.0f64, (-50.0..50.0f64, -50.0..50.0f64)), |(f, deg, c)| {
+        let s = frame(&f);
+        let a = analyse(&s).map_err(|e| TestCaseError::fail(e.to_string()))?;
+        let b = analyse(&turned_by(&s, deg, c)).map_err(|e| TestCaseError::fail(format!("turned scene refused: {e}")))?;
+        prop_assert!(a.stability.refused.is_none() && b.stability.refused.is_none(), "{:?} / {:?}", a.stability.refused, b.stability.refused);
+        prop_assert_eq!(a.stability.structures.len(), 1, "rows and columns join every post");
+        prop_assert_eq!(b.stability.structures.len(), 1);
+        let (sa, sb) = (&a.stability.structures[0], &b.stability.structures[0]);
+        let names = |s: &plateload::check::stability::Structure| s.axes.iter().map(|x| x.about.clone()).collect::<Vec<_>>();
+        prop_assert_eq!(sa.axes.len(), sb.axes.len(), "axes {:?} vs {:?}", names(sa), names(sb));
+        prop_assert!(sa.axes.len() >= 4, "a grid of at least 2 × 2 posts has four edges: {:?}", names(sa));
+        let (cos, sin) = (deg.to_radians().cos(), deg.to_radians().sin());
+        let rot = |x: f64, y: f64, about: (f64, f64)| (about.0 + (x - about.0) * cos - (y - about.1) * sin, about.1 + (x - about.0) * sin + (y - about.1) * cos);
+        let same = |u: f64, v: f64| if u.is_finite() { (u - v).abs() <= 1e-6 * u.abs().max(1.0) } else { u == v };
+        let scale = sa.axes.iter().map(|x| x.permanent_stabilising_knm + x.permanent_destabilising_knm + x.imposed_destabilising_knm).fold(1.0f64, f64::max);
+        for ax in &sa.axes {
+            let n = rot(ax.normal[0], ax.normal[1], (0.0, 0.0));
+            let Some(bx) = sb.axes.iter().find(|o| (o.normal[0] - n.0).abs() < 1e-7 && (o.normal[1] - n.1).abs() < 1e-7) else {
+                return Err(TestCaseError::fail(format!("no axis turned from {} (normal {:?}) among {:?}", ax.about, ax.normal, sb.axes.iter().map(|x| (&x.about, x.normal)).collect::<Vec<_>>())));
+            };
+            prop_assert_eq!(&ax.about, &bx.about);
+            let p = rot(ax.point[0], ax.point[1], c);
+            prop_assert!((p.0 - bx.point[0]).abs() <= 1e-9 * (1.0 + p.0.abs()) && (p.1 - bx.point[1]).abs() <= 1e-9 * (1.0 + p.1.abs()), "point of {}: {:?} turned to {:?}", ax.about, bx.point, p);
+            for (u, v, which) in [
+                (ax.permanent_stabilising_knm, bx.permanent_stabilising_knm, "restoring"),
+                (ax.permanent_destabilising_knm, bx.permanent_destabilising_knm, "permanent overturning"),
+                (ax.imposed_destabilising_knm, bx.imposed_destabilising_knm, "imposed overturning"),
+                (ax.horizontal_destabilising_knm, bx.horizontal_destabilising_knm, "horizontal"),
+            ] {
+                prop_assert!((u - v).abs() <= 1e-9 * scale, "{which} about {}: {u} vs {v}", ax.about);
+            }
+            for (u, v, which) in [(ax.factor, bx.factor, "factor"), (ax.equ_utilisation, bx.equ_utilisation, "equilibrium")] {
+                match (u, v) {
+                    (Some(u), Some(v)) => prop_assert!(same(u, v), "{which} about {}: {u} vs {v}", ax.about),
+                    (None, None) => {}
+                    (u, v) => prop_assert!(false, "{which} about {}: {u:?} vs {v:?}", ax.about),
+                }
+            }
+            prop_assert_eq!(ax.meets_target, bx.meets_target, "about {}", ax.about);
+            prop_assert_eq!(ax.equ_ok, bx.equ_ok, "about {}", ax.about);
+            match (&ax.kentledge, &bx.kentledge) {
+                (Some(ka), Some(kb)) => {
+                    prop_assert_eq!(&ka.plates, &kb.plates, "about {}", ax.about);
+                    prop_assert!(same(ka.lever_m, kb.lever_m), "lever about {}", ax.about);
+                    match (ka.needed_kn, kb.needed_kn) {
+                        (Some(u), Some(v)) => prop_assert!((u - v).abs() <= 1e-6 * u.abs().max(1.0), "kentledge about {}: {u} vs {v}", ax.about),
+                        (None, None) => {}
+                        (u, v) => prop_assert!(false, "kentledge about {}: {u:?} vs {v:?}", ax.about),
+                    }
+                }
+                (None, None) => {}
+                (ka, kb) => prop_assert!(false, "kentledge about {}: {ka:?} vs {kb:?}", ax.about),
+            }
+        }
+        prop_assert_eq!(sa.governing.map(|g| &sa.axes[g].about), sb.governing.map(|g| &sb.axes[g].about));
+        cases.set(cases.get() + 1);
+        if sa.axes.iter().any(|x| x.factor.is_some()) {
+            with_factor.set(with_factor.get() + 1);
+        }
+        corners.set(corners.get() + sa.axes.iter().filter(|x| x.about.starts_with("corner") && x.factor.is_some()).count());
+        Ok(())
+    });
+    if let Err(e) = result {
+        panic!("{e}");
+    }
+    let (cases, with_factor, corners) = (cases.get(), with_factor.get(), corners.get());
+    assert!(with_factor * 10 >= cases * 9, "only {with_factor} of {cases} generated frames had an axis that overturns: the property was hardly exercised");
+    assert!(corners * 4 >= cases, "only {corners} corner axes with a factor in {cases} frames: cantilevers past a corner were hardly exercised");
 }
