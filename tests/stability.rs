@@ -1183,3 +1183,29 @@ fn turning_a_scene_by_any_angle_leaves_every_factor_unchanged() {
     assert!(with_factor * 10 >= cases * 9, "only {with_factor} of {cases} generated frames had an axis that overturns: the property was hardly exercised");
     assert!(corners * 4 >= cases, "only {corners} corner axes with a factor in {cases} frames: cantilevers past a corner were hardly exercised");
 }
+
+#[test]
+fn opposing_identified_forces_never_cancel_in_the_sliding_check() {
+    // statics, by hand: one bay W (0, 0) – E (2, 0), 2 m high, one diagonal from the foot of W
+    // to the top of E; 10 kN permanent on each post. Two identified forces of 1 kN at the top,
+    // +x at W and −x at E: each acts wherever it is unfavourable, so each leads in turn rather
+    // than both cancelling. Either way the whole shear, 1 kN, leaves by the foot of the diagonal
+    // (W), and the brace puts ±1 × 2 / 2 = ±1 kN into the standards: +x lifts W by 1 kN (normal
+    // 9 kN), −x presses it (11 kN). Timber on concrete, μ 0.7 (REFERENCES §11): worst factor at W
+    // 0.7 × 9 / 1 = 6.3.
+    let mut s = bare_scene();
+    s.support_types[0].friction = vec![Interface::TimberOnConcrete];
+    s.posts = vec![post("W", 0.0, 0.0, 2.0), post("E", 2.0, 0.0, 2.0)];
+    s.bearers = vec![bearer("L", 2.0, &["W", "E"])];
+    s.braces = vec![brace("X", "W", "E", 2.0)];
+    for p in ["W", "E"] {
+        s.loads.push(load(&format!("G-{p}"), Case::G, LoadKind::PostTop { post: p.into(), kn: 10.0 }));
+    }
+    s.loads.push(load("pull+x", Case::Q, LoadKind::Horizontal { x: 0.0, y: 0.0, level: 2.0, kn: 1.0, direction: PlanDirection::PlusX }));
+    s.loads.push(load("pull-x", Case::Q, LoadKind::Horizontal { x: 2.0, y: 0.0, level: 2.0, kn: 1.0, direction: PlanDirection::MinusX }));
+    let a = analyse(&s).unwrap();
+    let w = a.plates[a.plate_index("W").unwrap()].sliding.clone().expect("W takes the shear");
+    close("shear at W", w.shear_kn, 1.0, 1e-9);
+    close("least vertical load at W", w.normal_kn, 9.0, 1e-9);
+    close("factor at W", w.factor.unwrap(), 6.3, 1e-9);
+}

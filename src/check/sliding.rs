@@ -144,17 +144,24 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
     // unfavourable: each joins every group it does not oppose (or forms the only group).
     let identified: Vec<usize> = actions.independent.iter().copied().filter(|&i| items0[i].direction.is_some()).collect();
     let mut groups: Vec<Vec<usize>> = actions.by_direction.clone();
+    // Without wind or notional load, each direction of the identified forces leads in turn
+    // (forces that oppose each other never act together to cancel).
+    if groups.is_empty() {
+        for &i in &identified {
+            let k = items0[i].direction_key();
+            if !groups.iter().any(|g| items0[g[0]].direction_key() == k) {
+                groups.push(vec![i]);
+            }
+        }
+    }
     for group in &mut groups {
         let Some(d) = group.first().and_then(|&i| items0[i].direction) else { continue };
         for &i in &identified {
             let e = items0[i].direction.unwrap_or([0.0; 2]);
-            if d[0] * e[0] + d[1] * e[1] > -1e-9 {
+            if d[0] * e[0] + d[1] * e[1] > -1e-9 && !group.contains(&i) {
                 group.push(i);
             }
         }
-    }
-    if groups.is_empty() && !identified.is_empty() {
-        groups.push(identified.clone());
     }
     if groups.is_empty() && has_permanent_horizontal {
         groups.push(Vec::new());
