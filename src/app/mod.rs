@@ -184,9 +184,10 @@ fn window_plugin(title: String, size: Option<[u32; 2]>) -> WindowPlugin {
     }
 }
 
-fn base_app(doc: SceneDoc, mode: Mode, title: String, size: Option<[u32; 2]>) -> App {
+fn base_app(doc: SceneDoc, mode: Mode, title: String, size: Option<[u32; 2]>, gpu_preprocessing: bool) -> App {
     let mut app = App::new();
-    app.add_plugins(DefaultPlugins.set(window_plugin(title, size)))
+    let pbr = bevy::pbr::PbrPlugin { use_gpu_instance_buffer_builder: gpu_preprocessing, ..default() };
+    app.add_plugins(DefaultPlugins.set(window_plugin(title, size)).set(pbr))
         .add_plugins(bevy_egui::EguiPlugin::default())
         .insert_resource(mode)
         .insert_resource(doc)
@@ -198,7 +199,7 @@ fn base_app(doc: SceneDoc, mode: Mode, title: String, size: Option<[u32; 2]>) ->
 pub fn run(scene: Scene, path: Option<PathBuf>) -> anyhow::Result<()> {
     let doc = SceneDoc::new(scene, path);
     let title = doc.title();
-    let mut app = base_app(doc, Mode::Editor, title, None);
+    let mut app = base_app(doc, Mode::Editor, title, None, true);
     app.insert_resource(editor::RecoveryState::in_user_cache());
     match app.run() {
         AppExit::Success => Ok(()),
@@ -211,7 +212,9 @@ pub fn snapshot(scene: Scene, spec: snapshot::PictureSpec) -> anyhow::Result<()>
     let out = spec.out.clone();
     let size = spec.size;
     let doc = SceneDoc::new(scene, None);
-    let mut app = base_app(doc, Mode::Picture(spec), "plateload picture".into(), Some(size));
+    let without = view::Without(spec.without.clone());
+    let mut app = base_app(doc, Mode::Picture(spec), "plateload picture".into(), Some(size), !without.has(view::ViewPart::GpuPreprocessing));
+    app.insert_resource(without);
     app.add_plugins(snapshot::SnapshotPlugin);
     match app.run() {
         AppExit::Success => Ok(()),

@@ -3,7 +3,8 @@
 //!
 //! With `timing_edits`, the picture run first makes that many edits (a load put on and off),
 //! one per frame, and logs how long each took from the edit to its recoloured frame, and the
-//! frame times, so the figures come from the real renderer.
+//! frame times, so the figures come from the real renderer; with `timing_orbit` it then turns
+//! the camera a little every frame and logs those frame times.
 
 use std::path::PathBuf;
 use std::time::{Duration, Instant};
@@ -34,12 +35,16 @@ pub struct PictureSpec {
     pub settle_frames: u32,
     /// Edits to time before the picture (0: none).
     pub timing_edits: u32,
+    /// Frames to time turning the camera, after the edits (0: none).
+    pub timing_orbit: u32,
     /// Also write the camera and the viewport used, as JSON (for tests that look at pixels).
     pub camera_out: Option<PathBuf>,
     /// Show the editor's panels instead of the picture layout (to look at the editor).
     pub editor_ui: bool,
     /// Select this element first (its plate is labelled and outlined).
     pub select: Option<plateload::edit::ElementRef>,
+    /// Parts of the view left out (to time what each costs).
+    pub without: Vec<super::view::ViewPart>,
 }
 
 /// Takes the picture in picture mode.
@@ -55,17 +60,20 @@ impl Plugin for SnapshotPlugin {
 #[derive(Resource, Default, Debug)]
 pub struct PictureState {
     frames_ready: u32,
-    frames_total: u32,
+    started: Option<Instant>,
     edits_done: u32,
+    orbit_done: u32,
     frame_times: Vec<Duration>,
+    orbit_times: Vec<Duration>,
     last_frame: Option<Instant>,
     requested: bool,
     /// Outcome of writing the file, once known.
     pub saved: Option<Result<PathBuf, String>>,
 }
 
-/// Longest a picture may take, in frames, before giving up.
-const MAX_FRAMES: u32 = 3_000;
+/// Longest a picture may take before giving up (a software renderer on a busy machine can
+/// take minutes over its first shaders).
+const MAX_TIME: Duration = Duration::from_secs(600);
 
 fn preselect(mode: Res<Mode>, mut selection: ResMut<super::doc::Selection>) {
     if let Mode::Picture(PictureSpec { select: Some(r), .. }) = &*mode {
@@ -79,14 +87,14 @@ fn run_picture(
     mode: Res<Mode>,
     doc: Res<SceneDoc>,
     drawn: Res<Drawn>,
-    view: Res<ViewState>,
+    mut view: ResMut<ViewState>,
     mut timings: ResMut<EditTimings>,
     mut state: ResMut<PictureState>,
     mut actions: MessageWriter<Action>,
     mut exit: MessageWriter<AppExit>,
 ) {
     let Mode::Picture(spec) = &*mode else { return };
-    state.frames_total += 1;
+    let started = *state.started.get_or_insert_with(Instant::now);
     if let Some(result) = state.saved.take() {
         match result {
             Ok(p) => {
@@ -100,8 +108,8 @@ fn run_picture(
         }
         return;
     }
-    if state.frames_total > MAX_FRAMES {
-        error!("the picture was not ready after {MAX_FRAMES} frames");
+    if started.elapsed() > MAX_TIME {
+        error!("the picture was not ready after {} s", MAX_TIME.as_secs());
         exit.write(AppExit::error());
         return;
     }
@@ -130,7 +138,24 @@ fn run_picture(
         actions.write(Action::Edit { edit, merge: None, select: None });
         state.edits_done += 1;
         if state.edits_done == spec.timing_edits {
-            report_timings(&timings, &state.frame_times, doc.scene.posts.len());
+            report_timings(&timings, &state.frame_times, doc.scene.posts.len(), view.viewport);
+            state.last_frame = None;
+        }
+        return;
+    }
+    // Timed orbit: the camera turns 2° a frame, as under a dragging mouse; the whole frame
+    // (view, labels, panels, GPU) is measured from one frame's end to the next.
+    if state.orbit_done < spec.timing_orbit {
+        let now = Instant::now();
+        if let Some(t) = state.last_frame.replace(now) {
+            state.orbit_times.push(now - t);
+        }
+        view.camera.yaw_deg += 2.0;
+        state.orbit_done += 1;
+        if state.orbit_done == spec.timing_orbit {
+            // Back to where it started, so the picture is the one asked for.
+            view.camera.yaw_deg -= 2.0 * spec.timing_orbit as f64;
+            info!("timing on {} posts, view {:.0} × {:.0} px: whole frames while orbiting (GPU included): {}", doc.scene.posts.len(), view.viewport[2], view.viewport[3], stats(&state.orbit_times));
         }
         return;
     }
@@ -162,19 +187,21 @@ fn run_picture(
     });
 }
 
-fn report_timings(timings: &EditTimings, frames: &[Duration], posts: usize) {
-    let stats = |v: &[Duration]| -> String {
-        if v.is_empty() {
-            return "no samples".into();
-        }
-        let mut ms: Vec<f64> = v.iter().map(|d| d.as_secs_f64() * 1e3).collect();
-        ms.sort_by(|a, b| a.partial_cmp(b).unwrap_or(std::cmp::Ordering::Equal));
-        let q = |f: f64| ms[((ms.len() - 1) as f64 * f).round() as usize];
-        format!("n {}, median {:.2} ms, p95 {:.2} ms, max {:.2} ms", ms.len(), q(0.5), q(0.95), ms[ms.len() - 1])
-    };
+/// Count, median, 95th percentile and maximum of some durations, in ms.
+fn stats(v: &[Duration]) -> String {
+    if v.is_empty() {
+        return "no samples".into();
+    }
+    let mut ms: Vec<f64> = v.iter().map(|d| d.as_secs_f64() * 1e3).collect();
+    ms.sort_by(|a, b| a.partial_cmp(b).unwrap_or(std::cmp::Ordering::Equal));
+    let q = |f: f64| ms[((ms.len() - 1) as f64 * f).round() as usize];
+    format!("n {}, median {:.2} ms, p95 {:.2} ms, max {:.2} ms", ms.len(), q(0.5), q(0.95), ms[ms.len() - 1])
+}
+
+fn report_timings(timings: &EditTimings, frames: &[Duration], posts: usize, viewport: [f32; 4]) {
     info!("timing on {posts} posts: edit → recoloured, editor systems (edit, solve, redraw, recolour): {}", stats(&timings.own));
     info!("timing on {posts} posts: edit → recoloured, whole ECS update of the frame (no GPU): {}", stats(&timings.recent));
-    info!("timing on {posts} posts: whole frames while editing (GPU included): {}", stats(frames));
+    info!("timing on {posts} posts, view {:.0} × {:.0} px: whole frames while editing (GPU included): {}", viewport[2], viewport[3], stats(frames));
 }
 
 /// Encode a screenshot as PNG and write it atomically.

@@ -24,7 +24,7 @@ use super::{Action, Mode, Then};
 fn app_with(scene: Scene, recovery: Option<RecoveryStore>) -> App {
     let mut app = App::new();
     app.add_plugins((MinimalPlugins, bevy::asset::AssetPlugin::default(), bevy::transform::TransformPlugin));
-    app.init_asset::<Mesh>().init_asset::<StandardMaterial>();
+    app.init_asset::<Mesh>().init_asset::<super::view::flat::FlatMaterial>();
     app.init_resource::<ButtonInput<KeyCode>>();
     app.insert_resource(Mode::Editor).insert_resource(SceneDoc::new(scene, None)).init_resource::<ViewState>();
     app.insert_resource(RecoveryState { store: recovery, interval: std::time::Duration::ZERO, ..default() });
@@ -323,14 +323,14 @@ fn the_view_follows_edits_in_place_and_recolours_plates() {
     let assets = app.world().resource::<ViewAssets>();
     let pe = &drawn.plates["A4"];
     for e in &pe.plates {
-        let m = app.world().get::<MeshMaterial3d<StandardMaterial>>(*e).unwrap();
+        let m = app.world().get::<MeshMaterial3d<super::view::flat::FlatMaterial>>(*e).unwrap();
         assert_eq!(m.0, assets.bands[Band::Over as usize]);
     }
     assert_eq!(*app.world().get::<Visibility>(pe.over.unwrap()).unwrap(), Visibility::Inherited, "the over-capacity frame shows");
     // A plate that is fine keeps its band and no frame.
     let ok = &drawn.plates["A1"];
     let u = a.plates.iter().find(|p| p.id == "A1").unwrap().governing().utilisation;
-    let m = app.world().get::<MeshMaterial3d<StandardMaterial>>(ok.plates[0]).unwrap();
+    let m = app.world().get::<MeshMaterial3d<super::view::flat::FlatMaterial>>(ok.plates[0]).unwrap();
     assert_eq!(m.0, assets.bands[Band::of(u) as usize]);
     assert_eq!(*app.world().get::<Visibility>(ok.over.unwrap()).unwrap(), Visibility::Hidden);
     // Deleting the load takes its arrow entities away and leaves the rest.

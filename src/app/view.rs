@@ -7,13 +7,13 @@
 //! everything else, so a deck or a post in front never hides the colour of a plate.
 
 pub mod draw;
+pub mod flat;
 
 use bevy::camera::visibility::RenderLayers;
 use bevy::camera::{CameraOutputMode, ScalingMode, Viewport};
 use bevy::core_pipeline::tonemapping::{DebandDither, Tonemapping};
 use bevy::input::mouse::{AccumulatedMouseMotion, AccumulatedMouseScroll, MouseScrollUnit};
 use bevy::prelude::*;
-use bevy::render::render_resource::BlendState;
 use bevy::window::PrimaryWindow;
 use bevy_egui::PrimaryEguiContext;
 use plateload::edit::pick::{self, ViewCamera, ViewPreset, V3};
@@ -38,10 +38,11 @@ pub struct ViewPlugin;
 impl Plugin for ViewPlugin {
     fn build(&self, app: &mut App) {
         app.init_resource::<ViewState>()
-            .add_plugins((draw::DrawPlugin, draw::GizmoDrawPlugin))
+            .add_plugins((flat::FlatMaterialPlugin, draw::DrawPlugin, draw::GizmoDrawPlugin))
             .add_systems(Startup, spawn_cameras)
             .add_systems(Update, (camera_controls, pointer).chain().in_set(EditorSystems::Input))
             .add_systems(Update, view_requests.after(EditorSystems::Sync).before(EditorSystems::Recolour))
+            .add_systems(Update, leave_out.run_if(resource_exists::<Without>))
             .add_systems(PostUpdate, apply_camera.before(bevy::camera::CameraUpdateSystems).before(bevy::transform::TransformSystems::Propagate));
     }
 }
@@ -136,35 +137,105 @@ pub struct SceneCamera;
 #[derive(Component)]
 pub struct OnTopCamera;
 
-fn spawn_cameras(mut commands: Commands, mut egui_settings: ResMut<bevy_egui::EguiGlobalSettings>, mode: Res<Mode>, mut view: ResMut<ViewState>) {
+/// Parts of the view that a timing run can leave out, to measure what each one costs
+/// (`snapshot --timing-without`). The editor always draws them all.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum ViewPart {
+    /// The second 3D camera that draws plates and cues on top (they go in the first instead).
+    OnTopCamera,
+    /// The decks.
+    Decks,
+    /// The ground plane.
+    Ground,
+    /// The metric grid and the highlights (gizmo lines).
+    Gizmos,
+    /// Everything egui draws over the view (legend, labels, summary, title, caution).
+    Overlay,
+    /// Mesh data built by compute shaders and indirect draws (bevy's GPU preprocessing).
+    GpuPreprocessing,
+}
+
+impl ViewPart {
+    /// Every part, with its command-line name.
+    pub const ALL: [(&'static str, ViewPart); 6] = [
+        ("on-top-camera", ViewPart::OnTopCamera),
+        ("decks", ViewPart::Decks),
+        ("ground", ViewPart::Ground),
+        ("gizmos", ViewPart::Gizmos),
+        ("overlay", ViewPart::Overlay),
+        ("gpu-preprocessing", ViewPart::GpuPreprocessing),
+    ];
+}
+
+/// The parts left out of the view (empty in the editor).
+#[derive(Resource, Debug, Clone, Default, PartialEq)]
+pub struct Without(pub Vec<ViewPart>);
+
+impl Without {
+    /// Whether a part is left out.
+    pub fn has(&self, p: ViewPart) -> bool {
+        self.0.contains(&p)
+    }
+}
+
+fn spawn_cameras(mut commands: Commands, mut egui_settings: ResMut<bevy_egui::EguiGlobalSettings>, mode: Res<Mode>, mut view: ResMut<ViewState>, without: Option<Res<Without>>) {
     // The egui context goes on its own full-window camera, so the 3D cameras can draw in the
     // part of the window the panels leave free.
     egui_settings.auto_create_primary_context = false;
+    let without = without.map(|w| w.clone()).unwrap_or_default();
     if let Mode::Picture(spec) = &*mode {
         view.settings.combination = spec.combination;
         view.camera.orthographic = true;
         view.pending_fit = Some(spec.view);
     }
+    if without.has(ViewPart::Decks) {
+        view.settings.show_decks = false;
+    }
     // Exact colours: the legend's swatches and the plates must match, so no tonemapping or
-    // dithering changes them (the plates are unlit).
+    // dithering changes them (the plates are drawn in their flat colour).
     let exact = (Tonemapping::None, DebandDither::Disabled, msaa());
-    commands.spawn((SceneCamera, Camera3d::default(), Camera { order: 0, clear_color: ClearColorConfig::Custom(Color::srgb_u8(0xe9, 0xec, 0xef)), ..default() }, exact, RenderLayers::layer(SCENE_LAYER)));
-    commands.spawn((OnTopCamera, Camera3d::default(), Camera { order: 1, clear_color: ClearColorConfig::None, ..default() }, exact, RenderLayers::layer(ON_TOP_LAYER)));
+    // All three cameras draw into the same main texture, in order; only the last copies it to
+    // the window. (On a software renderer each copy of the window costs a few milliseconds.)
+    let keep = CameraOutputMode::Skip;
+    let on_top = !without.has(ViewPart::OnTopCamera);
+    let scene_layers = if on_top { RenderLayers::layer(SCENE_LAYER) } else { RenderLayers::from_layers(&[SCENE_LAYER, ON_TOP_LAYER]) };
+    let mut scene = commands.spawn((SceneCamera, Camera3d::default(), Camera { order: 0, clear_color: ClearColorConfig::Custom(BACKGROUND), output_mode: keep, ..default() }, exact, scene_layers));
+    if without.has(ViewPart::GpuPreprocessing) {
+        scene.insert(bevy::render::view::NoIndirectDrawing);
+    }
+    if on_top {
+        let mut top = commands.spawn((OnTopCamera, Camera3d::default(), Camera { order: 1, clear_color: ClearColorConfig::None, output_mode: keep, ..default() }, exact, RenderLayers::layer(ON_TOP_LAYER)));
+        if without.has(ViewPart::GpuPreprocessing) {
+            top.insert(bevy::render::view::NoIndirectDrawing);
+        }
+    }
+    // egui draws its panels over the 3D picture in the same texture and writes the result.
     commands.spawn((
         PrimaryEguiContext,
         Camera2d,
         RenderLayers::none(),
         exact,
-        Camera {
-            order: 2,
-            output_mode: CameraOutputMode::Write { blend_state: Some(BlendState::ALPHA_BLENDING), clear_color: ClearColorConfig::None },
-            clear_color: ClearColorConfig::Custom(Color::NONE),
-            ..default()
-        },
+        Camera { order: 2, output_mode: CameraOutputMode::Write { blend_state: None, clear_color: ClearColorConfig::None }, clear_color: ClearColorConfig::None, ..default() },
     ));
-    commands.spawn((DirectionalLight { illuminance: 6_000.0, shadow_maps_enabled: false, ..default() }, Transform::from_xyz(-4.0, 10.0, 6.0).looking_at(Vec3::ZERO, Vec3::Y)));
-    commands.insert_resource(GlobalAmbientLight { brightness: 900.0, ..default() });
 }
+
+/// Hide the ground and turn the gizmos off where a timing run leaves them out.
+fn leave_out(without: Res<Without>, mut ground: Query<&mut Visibility, With<draw::GroundPlane>>, mut store: ResMut<GizmoConfigStore>) {
+    if without.has(ViewPart::Ground) {
+        for mut v in &mut ground {
+            if *v != Visibility::Hidden {
+                *v = Visibility::Hidden;
+            }
+        }
+    }
+    if without.has(ViewPart::Gizmos) && store.config::<DefaultGizmoConfigGroup>().0.enabled {
+        store.config_mut::<DefaultGizmoConfigGroup>().0.enabled = false;
+        store.config_mut::<draw::OnTopGizmos>().0.enabled = false;
+    }
+}
+
+/// Colour behind the scene.
+pub const BACKGROUND: Color = Color::srgb_u8(0xe9, 0xec, 0xef);
 
 /// Multisampling of the cameras: off by default, since a software renderer spends most of a
 /// frame on it; `PLATELOAD_MSAA=4` (or 2, 8) turns it on.

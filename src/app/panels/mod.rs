@@ -118,6 +118,7 @@ fn draw_ui(
     mut focus: ResMut<UiFocus>,
     timings: Res<EditTimings>,
     drawn: Res<Drawn>,
+    without: Option<Res<super::view::Without>>,
     mut out: MessageWriter<Action>,
 ) -> Result {
     let ctx = contexts.ctx_mut()?.clone();
@@ -167,7 +168,9 @@ fn draw_ui(
     if view.viewport != vp {
         view.viewport = vp;
     }
-    overlay::draw(&ctx, full, rect, &doc, &view, &selection, picture, &mut panels.labels);
+    if !without.is_some_and(|w| w.has(super::view::ViewPart::Overlay)) {
+        overlay::draw(&ctx, full, rect, &doc, &view, &selection, picture, &mut panels.labels);
+    }
     let pointer_in_view = !picture && ctx.pointer_latest_pos().is_some_and(|p| rect.contains(p)) && !ctx.is_pointer_over_egui() && !ctx.egui_is_using_pointer();
     let keyboard = ctx.egui_wants_keyboard_input();
     if focus.pointer_in_view != pointer_in_view || focus.keyboard != keyboard {

@@ -17,6 +17,7 @@ use plateload::export::palette::{Band, Cue};
 use plateload::edit::pick::{self, Part, Prim, Shape, ShapeOptions, CUE_BAND_M, CUE_EDGE_M, CUE_GAP_M, V3};
 use plateload::{Case, PlateResult, Status as PlateStatus};
 
+use super::flat::FlatMaterial;
 use super::{to_bevy, ViewState, ON_TOP_LAYER, SCENE_LAYER};
 use crate::app::doc::{SceneDoc, Selection};
 use crate::app::editor::ToolState;
@@ -132,21 +133,21 @@ pub struct ViewAssets {
     ground: Handle<Mesh>,
     /// Cue meshes per plate footprint (mm × mm): over frame, uplift ring.
     cues: HashMap<(i64, i64), (Handle<Mesh>, Handle<Mesh>)>,
-    /// Unlit band colours for plates.
-    pub bands: [Handle<StandardMaterial>; 5],
-    /// Lit band colours for posts.
-    bands_lit: [Handle<StandardMaterial>; 5],
-    no_result: Handle<StandardMaterial>,
-    steel: Handle<StandardMaterial>,
-    ledger: Handle<StandardMaterial>,
-    transom: Handle<StandardMaterial>,
-    brace: Handle<StandardMaterial>,
-    deck: Handle<StandardMaterial>,
-    loads: [Handle<StandardMaterial>; 3],
-    sheets: [Handle<StandardMaterial>; 3],
-    selected: Handle<StandardMaterial>,
-    cue: Handle<StandardMaterial>,
-    ground_mat: Handle<StandardMaterial>,
+    /// Exact band colours for plates.
+    pub bands: [Handle<FlatMaterial>; 5],
+    /// Shaded band colours for posts.
+    bands_lit: [Handle<FlatMaterial>; 5],
+    no_result: Handle<FlatMaterial>,
+    steel: Handle<FlatMaterial>,
+    ledger: Handle<FlatMaterial>,
+    transom: Handle<FlatMaterial>,
+    brace: Handle<FlatMaterial>,
+    deck: Handle<FlatMaterial>,
+    loads: [Handle<FlatMaterial>; 3],
+    sheets: [Handle<FlatMaterial>; 3],
+    selected: Handle<FlatMaterial>,
+    cue: Handle<FlatMaterial>,
+    ground_mat: Handle<FlatMaterial>,
 }
 
 /// Colour of highlights (selection, picked elements): a saturated blue, apart from every
@@ -160,17 +161,17 @@ fn srgb([r, g, b]: [u8; 3]) -> Color {
     Color::srgb_u8(r, g, b)
 }
 
-fn unlit(materials: &mut Assets<StandardMaterial>, c: Color) -> Handle<StandardMaterial> {
-    materials.add(StandardMaterial { base_color: c, unlit: true, ..default() })
+fn unlit(materials: &mut Assets<FlatMaterial>, c: Color) -> Handle<FlatMaterial> {
+    materials.add(FlatMaterial::flat(c))
 }
 
-fn lit(materials: &mut Assets<StandardMaterial>, c: Color, roughness: f32) -> Handle<StandardMaterial> {
-    materials.add(StandardMaterial { base_color: c, perceptual_roughness: roughness, metallic: 0.0, ..default() })
+fn lit(materials: &mut Assets<FlatMaterial>, c: Color) -> Handle<FlatMaterial> {
+    materials.add(FlatMaterial::shaded(c))
 }
 
-fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut materials: ResMut<Assets<StandardMaterial>>) {
+fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut materials: ResMut<Assets<FlatMaterial>>) {
     let m = &mut *materials;
-    let translucent = |m: &mut Assets<StandardMaterial>, c: Color| m.add(StandardMaterial { base_color: c, alpha_mode: AlphaMode::Blend, double_sided: true, cull_mode: None, unlit: true, ..default() });
+    let translucent = |m: &mut Assets<FlatMaterial>, c: Color| m.add(FlatMaterial::translucent(c));
     let assets = ViewAssets {
         bar: meshes.add(Cylinder::new(1.0, 1.0)),
         cone: meshes.add(Cone { radius: 1.0, height: 1.0 }),
@@ -179,19 +180,19 @@ fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut mat
         ground: meshes.add(Plane3d::default().mesh().size(1.0, 1.0)),
         cues: HashMap::new(),
         bands: Band::ALL.map(|b| unlit(m, srgb(b.colour()))),
-        bands_lit: Band::ALL.map(|b| lit(m, srgb(b.colour()), 0.7)),
+        bands_lit: Band::ALL.map(|b| lit(m, srgb(b.colour()))),
         no_result: unlit(m, Color::srgb_u8(0x9a, 0x9a, 0x9a)),
-        steel: lit(m, Color::srgb_u8(0x8c, 0x93, 0x9b), 0.45),
-        ledger: lit(m, Color::srgb_u8(0x74, 0x7c, 0x86), 0.5),
-        transom: lit(m, Color::srgb_u8(0x9e, 0x8f, 0x7a), 0.5),
-        brace: lit(m, Color::srgb_u8(0x6f, 0x8a, 0x6f), 0.5),
+        steel: lit(m, Color::srgb_u8(0x8c, 0x93, 0x9b)),
+        ledger: lit(m, Color::srgb_u8(0x74, 0x7c, 0x86)),
+        transom: lit(m, Color::srgb_u8(0x9e, 0x8f, 0x7a)),
+        brace: lit(m, Color::srgb_u8(0x6f, 0x8a, 0x6f)),
         deck: translucent(m, Color::srgba_u8(0xb8, 0x9a, 0x6a, 0x30)),
-        loads: CASE_COLOURS.map(|c| lit(m, srgb(c), 0.6)),
+        loads: CASE_COLOURS.map(|c| lit(m, srgb(c))),
         sheets: CASE_COLOURS.map(|[r, g, b]| translucent(m, Color::srgba_u8(r, g, b, 0x14))),
         selected: unlit(m, HIGHLIGHT),
         // The cue meshes carry their own black and white vertex colours.
         cue: unlit(m, Color::WHITE),
-        // Unlit, so the ground keeps one known colour under any light: never white, which is
+        // Flat, so the ground keeps one known colour under any light: never white, which is
         // the colour of the cues.
         ground_mat: unlit(m, Color::srgb_u8(0xbf, 0xbc, 0xb4)),
     };
@@ -387,7 +388,7 @@ impl Reconcile {
         map: &mut HashMap<DrawKey, Entity>,
         commands: &mut Commands,
         transforms: &mut Query<(&mut Transform, &mut Mesh3d), (With<DrawnPart>, Without<GroundPlane>)>,
-        material: &Handle<StandardMaterial>,
+        material: &Handle<FlatMaterial>,
     ) -> Entity {
         let hit = (0..=LOOKAHEAD).map(|d| self.cursor + d).find(|&i| matches!(self.old.get(i), Some(Some((k, _))) if want.matches(k)));
         let found = match hit {
@@ -565,7 +566,7 @@ fn recolour(
     tools: Res<ToolState>,
     mut drawn: ResMut<Drawn>,
     assets: Res<ViewAssets>,
-    mut parts: Query<(&DrawnPart, &mut MeshMaterial3d<StandardMaterial>, &mut Visibility)>,
+    mut parts: Query<(&DrawnPart, &mut MeshMaterial3d<FlatMaterial>, &mut Visibility)>,
 ) {
     let key = ColourKey {
         sync_revision: drawn.revision,
@@ -696,3 +697,4 @@ fn draw_highlights(mut gizmos: Gizmos<OnTopGizmos>, shapes: Res<SceneShapes>, se
         }
     }
 }
+
