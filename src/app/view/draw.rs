@@ -154,6 +154,12 @@ pub struct ViewAssets {
 /// band of the utilisation ramp.
 pub const HIGHLIGHT: Color = Color::srgb(0.0, 0.45, 1.0);
 
+/// Colour of the ground: a dark slate. The bands run from nearly white to nearly black, so no
+/// colour stands clear of all of them by lightness alone; a dark ground sets the light bands
+/// (most plates, and the ones that vanished on a pale ground) off best, and differs from the
+/// dark ones in hue. Over-capacity plates also carry their black and white frame.
+pub const GROUND: [u8; 3] = [0x3d, 0x4a, 0x55];
+
 /// Load case colours of arrows: grey, indigo, green (none of them on the utilisation ramp).
 pub const CASE_COLOURS: [[u8; 3]; 3] = [[0x5a, 0x5a, 0x5a], [0x33, 0x4a, 0xa8], [0x1f, 0x7a, 0x4a]];
 
@@ -192,9 +198,9 @@ fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut mat
         selected: unlit(m, HIGHLIGHT),
         // The cue meshes carry their own black and white vertex colours.
         cue: unlit(m, Color::WHITE),
-        // Flat, so the ground keeps one known colour under any light: never white, which is
-        // the colour of the cues.
-        ground_mat: unlit(m, Color::srgb_u8(0xbf, 0xbc, 0xb4)),
+        // Flat, so the ground keeps one known colour: never white, which is the colour of the
+        // cues, and apart from every band (see the tests below).
+        ground_mat: unlit(m, srgb(GROUND)),
     };
     // The ground: a large plane under everything, scaled to the scene when it is drawn.
     commands.spawn((Mesh3d(assets.ground.clone()), MeshMaterial3d(assets.ground_mat.clone()), Transform::from_scale(Vec3::ZERO), GroundPlane, RenderLayers::layer(SCENE_LAYER)));
@@ -644,8 +650,9 @@ fn draw_grid(mut gizmos: Gizmos, shapes: Res<SceneShapes>) {
     // At most a few hundred lines: coarser steps on large sites.
     let span = (x1 - x0).max(y1 - y0);
     let step = if span > 400.0 { 10.0 } else if span > 120.0 { 5.0 } else { 1.0 };
-    let minor = Color::srgba(0.25, 0.25, 0.25, 0.35);
-    let major = Color::srgba(0.15, 0.15, 0.15, 0.75);
+    // Light lines on the dark ground.
+    let minor = Color::srgba(1.0, 1.0, 1.0, 0.16);
+    let major = Color::srgba(1.0, 1.0, 1.0, 0.4);
     let mut x = (x0 / step).floor() * step;
     while x <= x1 {
         let c = if (x / (5.0 * step)).round() * 5.0 * step == x { major } else { minor };
@@ -698,3 +705,69 @@ fn draw_highlights(mut gizmos: Gizmos<OnTopGizmos>, shapes: Res<SceneShapes>, se
     }
 }
 
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Relative luminance of an sRGB colour.
+    fn luminance(c: [u8; 3]) -> f64 {
+        // source: WCAG 2.1, definition of relative luminance (sRGB linearisation, Rec. 709 weights)
+        let lin = c.map(|v| {
+            let s = v as f64 / 255.0;
+            if s <= 0.04045 { s / 12.92 } else { ((s + 0.055) / 1.055).powf(2.4) }
+        });
+        0.2126 * lin[0] + 0.7152 * lin[1] + 0.0722 * lin[2]
+    }
+
+    /// Contrast ratio of two colours, 1 to 21.
+    fn contrast(a: [u8; 3], b: [u8; 3]) -> f64 {
+        // source: WCAG 2.1, definition of contrast ratio (L1 + 0.05) / (L2 + 0.05)
+        let (la, lb) = (luminance(a), luminance(b));
+        (la.max(lb) + 0.05) / (la.min(lb) + 0.05)
+    }
+
+    /// OKLab of an sRGB colour.
+    fn oklab(c: [u8; 3]) -> [f64; 3] {
+        // source: B. Ottosson, "A perceptual color space for image processing" (2020), sRGB → OKLab matrices
+        let [r, g, b] = c.map(|v| {
+            let s = v as f64 / 255.0;
+            if s <= 0.04045 { s / 12.92 } else { ((s + 0.055) / 1.055).powf(2.4) }
+        });
+        let l = (0.412_221_470_8 * r + 0.536_332_536_3 * g + 0.051_445_992_9 * b).cbrt();
+        let m = (0.211_903_498_2 * r + 0.680_699_545_1 * g + 0.107_396_956_6 * b).cbrt();
+        let s = (0.088_302_461_9 * r + 0.281_718_837_6 * g + 0.629_978_700_5 * b).cbrt();
+        [0.210_454_255_3 * l + 0.793_617_785 * m - 0.004_072_046_8 * s, 1.977_998_495_1 * l - 2.428_592_205 * m + 0.450_593_709_9 * s, 0.025_904_037_1 * l + 0.782_771_766_2 * m - 0.808_675_766 * s]
+    }
+
+    #[test]
+    fn the_ground_stands_apart_from_every_band() {
+        // This converter is the inverse of the palette's: white is L = 1, and every band
+        // comes back to itself through the palette's OKLab → sRGB.
+        assert!(oklab([255, 255, 255]).iter().zip([1.0, 0.0, 0.0]).all(|(a, b)| (a - b).abs() < 1e-3));
+        let bands = Band::ALL.map(|b| (b, b.colour()));
+        for (b, c) in bands {
+            let back = plateload::export::palette::oklab_to_srgb(oklab(c));
+            assert!((0..3).all(|k| back[k].abs_diff(c[k]) <= 1), "{b:?}: {c:?} → {back:?}");
+        }
+        // The bands span nearly the whole range of lightness, so no single colour reaches the
+        // 3 : 1 of WCAG 2.1 SC 1.4.11 (non-text contrast) against all of them: the best is
+        // about 1.7 : 1, between the two darkest bands. The ground takes that, gives the light
+        // bands (which vanished on the old pale ground, 1.3 : 1) the full 3 : 1, and differs
+        // from every band in colour as well.
+        for (b, c) in bands {
+            let k = contrast(GROUND, c);
+            let d = oklab(GROUND).iter().zip(oklab(c)).map(|(x, y)| (x - y).powi(2)).sum::<f64>().sqrt();
+            assert!(k >= 1.7, "{b:?}: contrast {k:.2} : 1 with the ground");
+            // common practice, no source: a difference of about 0.02 in OKLab is just noticeable
+            assert!(d >= 0.14, "{b:?}: OKLab difference {d:.3} from the ground");
+            if matches!(b, Band::Light | Band::Moderate) {
+                // source: WCAG 2.1 SC 1.4.11, 3 : 1 for graphical objects
+                assert!(k >= 3.0, "{b:?}: contrast {k:.2} : 1 with the ground");
+            }
+        }
+        // The old ground failed this: the check can fail.
+        assert!(contrast([0xbf, 0xbc, 0xb4], Band::Light.colour()) < 1.7);
+        // Nor is the ground the colour of the cues (white) or of a plate without a result.
+        assert!(contrast(GROUND, [255, 255, 255]) >= 4.5 && contrast(GROUND, [0x9a, 0x9a, 0x9a]) >= 1.7);
+    }
+}
