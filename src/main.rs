@@ -92,6 +92,9 @@ enum Command {
     Edit {
         /// Scene file (RON). Created on first save if it does not exist.
         file: Option<PathBuf>,
+        /// Write the number of frames drawn so far to this file after each one.
+        #[arg(long, hide = true)]
+        count_updates: Option<PathBuf>,
     },
     /// Render a picture of a scene to PNG (needs a display; a virtual one such as Xvfb will do).
     Snapshot {
@@ -191,7 +194,7 @@ fn main() -> ExitCode {
 fn run() -> anyhow::Result<ExitCode> {
     let cli = Cli::parse();
     let Some(command) = cli.command else {
-        return edit(None);
+        return edit(None, None);
     };
     match command {
         Command::Validate { file } => validate(&file),
@@ -270,7 +273,7 @@ fn run() -> anyhow::Result<ExitCode> {
             }
             Ok(ExitCode::SUCCESS)
         }
-        Command::Edit { file } => edit(file),
+        Command::Edit { file, count_updates } => edit(file, count_updates),
         Command::Snapshot { file, output, size, view, combination, settle_frames, timing_edits, timing_orbit, generated, timing_without, camera_json, with_panels, select } => {
             let (scene, file) = match (file, generated) {
                 (_, Some((cols, rows))) => (generated_birdcage(cols, rows), PathBuf::from(format!("generated {cols}x{rows}"))),
@@ -437,13 +440,13 @@ fn tidy(v: f64) -> f64 {
 }
 
 #[cfg(feature = "viewer")]
-fn edit(file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
+fn edit(file: Option<PathBuf>, count_updates: Option<PathBuf>) -> anyhow::Result<ExitCode> {
     let scene = match &file {
         Some(path) if path.exists() => read(path)?,
         Some(_) => plateload::scene::demo::default_scene(),
         None => plateload::scene::demo::default_scene(),
     };
-    app::run(scene, file)?;
+    app::run(app::SceneDoc::new(scene, file), count_updates)?;
     Ok(ExitCode::SUCCESS)
 }
 
@@ -473,7 +476,7 @@ fn snapshot(_: Scene, _: PathBuf, _: (u32, u32), _: PictureView, _: Option<usize
 }
 
 #[cfg(not(feature = "viewer"))]
-fn edit(_file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
+fn edit(_file: Option<PathBuf>, _count_updates: Option<PathBuf>) -> anyhow::Result<ExitCode> {
     use clap::CommandFactory;
     Cli::command().print_help()?;
     anyhow::bail!("this build has no editor (it was built without the `viewer` feature); the other commands all work")

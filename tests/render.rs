@@ -203,3 +203,90 @@ fn plates_show_their_band_colour_and_failures_their_cue() {
     }
     assert!(seen.0 >= 3 && seen.1 >= 4, "too few failing plates to check the cues on: {seen:?}");
 }
+
+/// Frames drawn so far by an editor started with `--count-updates`.
+fn frames(file: &Path) -> Option<u64> {
+    std::fs::read_to_string(file).ok()?.trim().parse().ok()
+}
+
+/// CPU time a process has used (user + system), from /proc.
+fn cpu_time(pid: u32) -> Option<std::time::Duration> {
+    let stat = std::fs::read_to_string(format!("/proc/{pid}/stat")).ok()?;
+    // Fields after the command name, which is in parentheses and may hold spaces.
+    let rest = stat.rsplit_once(')')?.1;
+    let f: Vec<&str> = rest.split_whitespace().collect();
+    // source: proc(5), fields 14 and 15 (utime, stime) in clock ticks; 100 ticks per second on Linux
+    let ticks: u64 = f.get(11)?.parse::<u64>().ok()? + f.get(12)?.parse::<u64>().ok()?;
+    Some(std::time::Duration::from_millis(ticks * 10))
+}
+
+#[test]
+#[ignore = "needs display: run under Xvfb with Mesa llvmpipe (.ci/run does)"]
+fn the_open_editor_draws_nothing_while_nothing_happens() {
+    // common practice, no source: a desktop editor draws on demand. The editor opens a new
+    // file (so a recovery copy is pending and its timer runs), settles, and is then left alone.
+    let dir = out_dir().join("idle");
+    let _ = std::fs::remove_dir_all(&dir);
+    std::fs::create_dir_all(&dir).expect("temp dir");
+    let counter = dir.join("frames.txt");
+    let mut child = Command::new(env!("CARGO_BIN_EXE_plateload"))
+        .args(["edit", &dir.join("idle-site.ron").display().to_string(), "--count-updates", &counter.display().to_string()])
+        // Its settings and recovery copies go to the test's directory, not the user's.
+        .env("XDG_CONFIG_HOME", dir.join("config"))
+        .env("XDG_CACHE_HOME", dir.join("cache"))
+        .stdout(std::process::Stdio::null())
+        .stderr(std::process::Stdio::null())
+        .spawn()
+        .expect("the plateload binary runs");
+    let pid = child.id();
+    let started_at = std::time::Instant::now();
+    let wait = |secs: f64| std::thread::sleep(std::time::Duration::from_secs_f64(secs));
+    // Up and drawing (a software renderer takes a while over the first frames).
+    let mut started = false;
+    for _ in 0..600 {
+        if frames(&counter).is_some_and(|n| n >= 3) {
+            started = true;
+            break;
+        }
+        wait(0.1);
+    }
+    let result = (|| {
+        if !started {
+            return Err(format!("the editor did not start drawing (frames: {:?})", frames(&counter)));
+        }
+        // Settled: no new frame for 2 s (the first frames, and shaders compiling in the
+        // background, take a while on a busy machine); then left alone for 5 s.
+        let mut last = (frames(&counter), std::time::Instant::now());
+        loop {
+            wait(0.25);
+            let n = frames(&counter);
+            if n != last.0 {
+                last = (n, std::time::Instant::now());
+            } else if last.1.elapsed().as_secs_f64() >= 2.0 {
+                break;
+            }
+            if started_at.elapsed().as_secs() > 120 {
+                return Err(format!("the editor kept drawing for 2 minutes after it started ({n:?} frames)"));
+            }
+        }
+        let (n0, c0) = (frames(&counter), cpu_time(pid));
+        wait(5.0);
+        let (n1, c1) = (frames(&counter), cpu_time(pid));
+        let (Some(n0), Some(n1)) = (n0, n1) else { return Err("the frame count could not be read".into()) };
+        let cpu = match (c0, c1) {
+            (Some(a), Some(b)) => format!("{:.1} % of one core", 100.0 * (b - a).as_secs_f64() / 5.0),
+            _ => "unknown".into(),
+        };
+        eprintln!("idle editor: {} frames in 5 s, CPU {cpu}", n1 - n0);
+        if n1 > n0 + 1 {
+            return Err(format!("the editor drew {} frames in 5 s with nothing happening (CPU {cpu})", n1 - n0));
+        }
+        Ok(())
+    })();
+    let _ = child.kill();
+    let _ = child.wait();
+    let _ = std::fs::remove_dir_all(&dir);
+    if let Err(e) = result {
+        panic!("{e}");
+    }
+}

@@ -196,11 +196,20 @@ fn base_app(doc: SceneDoc, mode: Mode, title: String, size: Option<[u32; 2]>, gp
 }
 
 /// Open the editor on a scene (read from `path`, if given) and run until it is closed.
-pub fn run(scene: Scene, path: Option<PathBuf>) -> anyhow::Result<()> {
-    let doc = SceneDoc::new(scene, path);
+/// `count_updates`: write the number of frames so far to this file after each one (to check
+/// that the editor sleeps when nothing happens).
+pub fn run(doc: SceneDoc, count_updates: Option<PathBuf>) -> anyhow::Result<()> {
     let title = doc.title();
     let mut app = base_app(doc, Mode::Editor, title, None, true);
     app.insert_resource(editor::RecoveryState::in_user_cache());
+    // Draw on demand; `editor::pace_updates` keeps the wake-up timer of the recovery copy.
+    app.insert_resource(bevy::winit::WinitSettings::desktop_app());
+    if let Some(file) = count_updates {
+        app.add_systems(Last, move |mut n: Local<u64>| {
+            *n += 1;
+            let _ = plateload::scene::io::write_atomic(&file, n.to_string().as_bytes());
+        });
+    }
     match app.run() {
         AppExit::Success => Ok(()),
         AppExit::Error(code) => anyhow::bail!("the editor stopped with code {code}"),

@@ -89,6 +89,7 @@ fn run_picture(
     drawn: Res<Drawn>,
     mut view: ResMut<ViewState>,
     mut timings: ResMut<EditTimings>,
+    busy: Res<super::view::RendererBusy>,
     mut state: ResMut<PictureState>,
     mut actions: MessageWriter<Action>,
     mut exit: MessageWriter<AppExit>,
@@ -113,7 +114,8 @@ fn run_picture(
         exit.write(AppExit::error());
         return;
     }
-    let ready = doc.solved_revision == doc.revision && drawn.revision == doc.revision && view.ready() && view.pending_fit.is_none();
+    // Pipelines still being built would leave things out of the picture.
+    let ready = doc.solved_revision == doc.revision && drawn.revision == doc.revision && view.ready() && view.pending_fit.is_none() && !busy.get();
     if !ready || state.requested {
         return;
     }

@@ -397,3 +397,68 @@ fn the_analysis_method_is_an_undoable_edit_and_the_results_name_it() {
     let changed = back.plates.iter().zip(&max_simple).filter(|(p, s)| p.governing().max_kn > **s + 1e-9).count();
     assert!(changed > 0, "continuity raises some plate's maximum");
 }
+
+/// Counts the RequestRedraw messages written since it last looked.
+struct RedrawCounter(bevy::ecs::message::MessageCursor<bevy::window::RequestRedraw>);
+
+impl RedrawCounter {
+    fn new(app: &App) -> Self {
+        RedrawCounter(app.world().resource::<Messages<bevy::window::RequestRedraw>>().get_cursor_current())
+    }
+    /// Run one update; how many redraws it asked for.
+    fn next(&mut self, app: &mut App) -> usize {
+        app.update();
+        self.0.read(app.world().resource::<Messages<bevy::window::RequestRedraw>>()).count()
+    }
+}
+
+#[test]
+fn the_editor_asks_for_no_frames_when_nothing_happens() {
+    // common practice, no source: a desktop editor draws on demand; here nothing but the
+    // editor's own systems could ask for a frame, so none may be asked for while idle
+    let mut app = app_with(demo(), None);
+    for _ in 0..3 {
+        app.update();
+    }
+    let mut redraws = RedrawCounter::new(&app);
+    let idle: usize = (0..30).map(|_| redraws.next(&mut app)).sum();
+    assert_eq!(idle, 0, "frames asked for with no input");
+    // An action asks for the frame that finishes its work, and the asking stops after it.
+    app.world_mut().write_message(Action::Edit { edit: Edit::Move { targets: vec![ElementRef::post("A1")], by: [0.25, 0.0, 0.0] }, merge: None, select: None });
+    let busy = redraws.next(&mut app);
+    assert!(busy > 0, "an edit asks for a frame");
+    let after: Vec<usize> = (0..5).map(|_| redraws.next(&mut app)).collect();
+    assert!(after.iter().skip(1).all(|&n| n == 0), "still asking after the edit: {after:?}");
+}
+
+#[test]
+fn the_editor_sleeps_until_the_recovery_copy_is_due() {
+    // common practice, no source: reactive updates, woken by the recovery timer only while a
+    // copy is pending
+    use bevy::winit::{UpdateMode, WinitSettings};
+    let dir = temp_dir("pacing");
+    let store = RecoveryStore::at(dir.join("store"));
+    let mut app = app_with(demo(), Some(store.clone()));
+    let interval = std::time::Duration::from_secs(3600);
+    app.world_mut().resource_mut::<RecoveryState>().interval = interval;
+    app.insert_resource(WinitSettings::game());
+    app.update();
+    let wait = |app: &App| match app.world().resource::<WinitSettings>().focused_mode {
+        UpdateMode::Reactive { wait, .. } => wait,
+        UpdateMode::Continuous => panic!("draws continuously"),
+    };
+    assert_eq!(wait(&app), std::time::Duration::MAX, "nothing to do: sleeps until input");
+    // A first edit is copied at once (no copy written yet); a second one waits for the interval.
+    act(&mut app, Action::Edit { edit: Edit::Move { targets: vec![ElementRef::post("A1")], by: [0.25, 0.0, 0.0] }, merge: None, select: None });
+    assert!(store.find(None).unwrap().is_some());
+    assert_eq!(wait(&app), std::time::Duration::MAX, "copy written: nothing pending");
+    act(&mut app, Action::Edit { edit: Edit::Move { targets: vec![ElementRef::post("A1")], by: [0.25, 0.0, 0.0] }, merge: None, select: None });
+    assert_eq!(wait(&app), interval, "a copy is pending: woken when it is due");
+    assert!(matches!(app.world().resource::<WinitSettings>().unfocused_mode, UpdateMode::Reactive { react_to_device_events: false, .. }));
+    // Once due, it is written and the timer stops.
+    app.world_mut().resource_mut::<RecoveryState>().interval = std::time::Duration::ZERO;
+    app.update();
+    assert_eq!(store.find(None).unwrap().unwrap().scene, doc(&app).scene);
+    assert_eq!(wait(&app), std::time::Duration::MAX);
+    let _ = std::fs::remove_dir_all(dir);
+}

@@ -38,12 +38,58 @@ pub struct ViewPlugin;
 impl Plugin for ViewPlugin {
     fn build(&self, app: &mut App) {
         app.init_resource::<ViewState>()
-            .add_plugins((flat::FlatMaterialPlugin, draw::DrawPlugin, draw::GizmoDrawPlugin))
+            .add_plugins((flat::FlatMaterialPlugin, draw::DrawPlugin, draw::GizmoDrawPlugin, RendererBusyPlugin))
             .add_systems(Startup, spawn_cameras)
             .add_systems(Update, (camera_controls, pointer).chain().in_set(EditorSystems::Input))
             .add_systems(Update, view_requests.after(EditorSystems::Sync).before(EditorSystems::Recolour))
             .add_systems(Update, leave_out.run_if(resource_exists::<Without>))
-            .add_systems(PostUpdate, apply_camera.before(bevy::camera::CameraUpdateSystems).before(bevy::transform::TransformSystems::Propagate));
+            // After the panels, which size the view: a new size shows in the same frame.
+            .add_systems(PostUpdate, apply_camera.after(bevy_egui::EguiPostUpdateSet::EndPass).before(bevy::camera::CameraUpdateSystems).before(bevy::transform::TransformSystems::Propagate));
+    }
+}
+
+impl Plugin for RendererBusyPlugin {
+    fn build(&self, app: &mut App) {
+        app.init_resource::<RendererBusy>();
+    }
+    fn finish(&self, app: &mut App) {
+        let busy = app.world().resource::<RendererBusy>().clone();
+        let waker = app.world().get_resource::<bevy::winit::EventLoopProxyWrapper>().map(|p| PipelineWaker((**p).clone()));
+        if let Some(render) = app.get_sub_app_mut(bevy::render::RenderApp) {
+            render.insert_resource(busy).add_systems(bevy::render::Render, note_pipelines_building.in_set(bevy::render::RenderSystems::Cleanup));
+            if let Some(w) = waker {
+                render.insert_resource(w);
+            }
+        }
+    }
+}
+
+/// Watches the renderer build its pipelines. Shaders compile in the background on first use
+/// (seconds, on a software renderer), and a frame drawn before they are ready leaves those
+/// things out: so the editor keeps drawing until they are (else it would sleep on that frame),
+/// and a picture is not taken before.
+struct RendererBusyPlugin;
+
+/// Whether the renderer is still building pipelines, as last seen from the render world.
+#[derive(Resource, Clone, Default)]
+pub struct RendererBusy(std::sync::Arc<std::sync::atomic::AtomicBool>);
+
+impl RendererBusy {
+    /// Pipelines are still being built.
+    pub fn get(&self) -> bool {
+        self.0.load(std::sync::atomic::Ordering::Relaxed)
+    }
+}
+
+/// The window's event loop, as seen from the render world.
+#[derive(Resource)]
+struct PipelineWaker(bevy::winit::EventLoopProxy<bevy::winit::WinitUserEvent>);
+
+fn note_pipelines_building(cache: Res<bevy::render::render_resource::PipelineCache>, busy: Res<RendererBusy>, waker: Option<Res<PipelineWaker>>) {
+    let building = cache.waiting_pipelines().next().is_some();
+    busy.0.store(building, std::sync::atomic::Ordering::Relaxed);
+    if let (true, Some(w)) = (building, waker) {
+        let _ = w.0.send_event(bevy::winit::WinitUserEvent::WakeUp);
     }
 }
 

@@ -28,7 +28,10 @@ pub struct PanelsPlugin;
 
 impl Plugin for PanelsPlugin {
     fn build(&self, app: &mut App) {
-        app.init_resource::<Panels>().add_systems(EguiPrimaryContextPass, draw_ui).add_systems(Update, window_title);
+        app.init_resource::<Panels>()
+            .add_systems(PreUpdate, quiet_modifiers.after(bevy_egui::EguiPreUpdateSet::ProcessInput).before(bevy_egui::EguiPreUpdateSet::BeginPass))
+            .add_systems(EguiPrimaryContextPass, draw_ui)
+            .add_systems(Update, window_title);
     }
 }
 
@@ -100,6 +103,22 @@ fn window_title(doc: Res<SceneDoc>, mode: Res<Mode>, mut windows: Query<&mut Win
         if w.title != t {
             w.title = t;
         }
+    }
+}
+
+/// bevy_egui reports the modifier keys to egui as an event every frame, and egui asks for
+/// another frame after any event, so the editor would never go to sleep. egui keeps the keys'
+/// state between frames, so the event is passed on only when they changed (or along with other
+/// events, which wake the editor anyway).
+fn quiet_modifiers(mut inputs: Query<&mut bevy_egui::EguiInput>, mut last: Local<Option<egui::Modifiers>>) {
+    for mut input in &mut inputs {
+        let events = &mut input.0.events;
+        let Some(m) = events.iter().rev().find_map(|e| if let egui::Event::ModifiersChanged(m) = e { Some(*m) } else { None }) else { continue };
+        let others = events.iter().any(|e| !matches!(e, egui::Event::ModifiersChanged(_)));
+        if !others && *last == Some(m) {
+            events.retain(|e| !matches!(e, egui::Event::ModifiersChanged(_)));
+        }
+        *last = Some(m);
     }
 }
 
