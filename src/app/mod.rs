@@ -14,6 +14,7 @@
 pub mod doc;
 pub mod editor;
 pub mod panels;
+pub mod settings;
 pub mod snapshot;
 pub mod view;
 
@@ -164,7 +165,7 @@ pub struct PlateloadPlugins;
 
 impl PluginGroup for PlateloadPlugins {
     fn build(self) -> PluginGroupBuilder {
-        PluginGroupBuilder::start::<Self>().add(EditorPlugin).add(ViewPlugin).add(PanelsPlugin)
+        PluginGroupBuilder::start::<Self>().add(EditorPlugin).add(settings::SettingsPlugin).add(ViewPlugin).add(PanelsPlugin)
     }
 }
 
@@ -202,6 +203,7 @@ pub fn run(doc: SceneDoc, count_updates: Option<PathBuf>) -> anyhow::Result<()> 
     let title = doc.title();
     let mut app = base_app(doc, Mode::Editor, title, None, true);
     app.insert_resource(editor::RecoveryState::in_user_cache());
+    app.insert_resource(settings::SettingsFile::in_user_config());
     // Draw on demand; `editor::pace_updates` keeps the wake-up timer of the recovery copy.
     app.insert_resource(bevy::winit::WinitSettings::desktop_app());
     if let Some(file) = count_updates {

@@ -462,3 +462,32 @@ fn the_editor_sleeps_until_the_recovery_copy_is_due() {
     assert_eq!(wait(&app), std::time::Duration::MAX);
     let _ = std::fs::remove_dir_all(dir);
 }
+
+#[test]
+fn combinations_that_do_not_check_capacity_read_as_kilonewtons_only() {
+    // common practice, no source: a factored load over a working-load capacity is not a
+    // utilisation, so such a combination gives no percentage and no OK/OVER verdict
+    use super::panels::results::status_text;
+    use super::view::draw::reading;
+    let scene = demo();
+    let a = plateload::analyse(&scene).unwrap();
+    let checked = a.combinations.iter().position(|c| c.checks_capacity).expect("a capacity combination");
+    let unchecked = a.combinations.iter().position(|c| !c.checks_capacity).expect("a combination without");
+    for p in &a.plates {
+        let r = reading(&a, p, Some(unchecked));
+        assert_eq!(r.utilisation, None, "{}", p.id);
+        assert_eq!(r.band(), None);
+        assert_eq!(r.max_kn, p.combinations[unchecked].max_kn);
+        assert!(!r.status.over);
+        assert!(matches!(status_text(r.status, false), "—" | "UPLIFT"));
+        let r = reading(&a, p, Some(checked));
+        assert_eq!(r.utilisation, Some(p.combinations[checked].utilisation));
+        assert_eq!(status_text(r.status, true), p.combinations[checked].status.label());
+        // Governing: the plate's own, a capacity combination.
+        let g = reading(&a, p, None);
+        assert!(a.combinations[g.combination].checks_capacity && g.utilisation == Some(p.governing().utilisation));
+    }
+    // The demo's factored loads exceed some jack's working load: shown as a percentage this
+    // would read as a failure (or, with OK, as a pass) that the check never made.
+    assert!(a.plates.iter().any(|p| p.combinations[unchecked].utilisation > 1.0 && !p.combinations[unchecked].status.over));
+}

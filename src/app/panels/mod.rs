@@ -138,6 +138,7 @@ fn draw_ui(
     timings: Res<EditTimings>,
     drawn: Res<Drawn>,
     without: Option<Res<super::view::Without>>,
+    mut settings: ResMut<super::settings::EditorSettings>,
     mut out: MessageWriter<Action>,
 ) -> Result {
     let ctx = contexts.ctx_mut()?.clone();
@@ -169,6 +170,15 @@ fn draw_ui(
         });
         if panels.show_results {
             egui::Panel::bottom("results").resizable(true).default_size(230.0).show(&mut root, |ui| panels.results.ui(ui, &doc, &view.settings, &selection, &mut actions));
+        }
+        if let Ok(a) = &doc.result {
+            let comb = view.settings.combination;
+            let comb_name = comb.and_then(|c| doc.scene.combinations.get(c)).map_or("governing combination".to_string(), |c| format!("combination “{}”", c.name));
+            let mut open = settings.legend_open;
+            egui::Panel::bottom("legend").show(&mut root, |ui| overlay::legend_strip(ui, a, comb, &comb_name, &mut open));
+            if open != settings.legend_open {
+                settings.legend_open = open;
+            }
         }
         let (open, all) = ctx.input(|i| (i.modifiers.command && i.key_pressed(egui::Key::O), i.modifiers.command && i.key_pressed(egui::Key::A)));
         if open && !ctx.egui_wants_keyboard_input() {

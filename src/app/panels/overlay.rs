@@ -8,7 +8,7 @@ use plateload::{Analysis, AnalysisError, CAUTION};
 
 use super::rgb;
 use crate::app::doc::{SceneDoc, Selection};
-use crate::app::view::draw::{reading, CASE_COLOURS};
+use crate::app::view::draw::{reading, CASE_COLOURS, NOT_CHECKED};
 use plateload::edit::pick::{CUE_BAND_M, CUE_GAP_M};
 use crate::app::view::ViewState;
 
@@ -30,8 +30,10 @@ pub fn picture_view_rect(ctx: &egui::Context, full: Rect) -> Rect {
     Rect::from_min_max(Pos2::new(full.min.x, full.min.y + PICTURE_TITLE_H), Pos2::new(full.max.x - side, full.max.y - caution_h))
 }
 
-/// Draw the overlay: labels inside `rect` (the 3D view); summary and legend inside it in the
-/// editor, beside it in a picture; in a picture also the title and the caution.
+/// Draw the overlay: labels inside `rect` (the 3D view); in a picture also the summary and the
+/// legend beside it (or inside it, when narrow), the title and the caution. The editor shows
+/// its summary and legend in a strip under the view instead ([`legend_strip`]), so nothing
+/// but the labels, which keep clear of the plates, lies over the scene.
 pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &ViewState, selection: &Selection, picture: bool, cache: &mut LabelCache) {
     if rect.width() < 50.0 || rect.height() < 50.0 || !view.ready() {
         return;
@@ -55,14 +57,18 @@ pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &
     match &doc.result {
         Ok(a) => {
             // Summary and legend first: the labels keep clear of them.
-            let s = summary(&painter, column, a, view.settings.combination, &comb_name, side);
-            let legend_at = if side { Some(Pos2::new(column.min.x, s.max.y + 10.0)) } else { None };
-            let l = legend(ctx, column, legend_at, a, view.settings.combination, &comb_name);
+            let (s, l) = if picture {
+                let s = summary(&painter, column, a, view.settings.combination, &comb_name, side);
+                let legend_at = if side { Some(Pos2::new(column.min.x, s.max.y + 10.0)) } else { None };
+                (s, legend(ctx, column, legend_at, a, view.settings.combination, &comb_name))
+            } else {
+                (Rect::NOTHING, Rect::NOTHING)
+            };
             let cog = a.stability.centre_of_gravity.and_then(|(x, y)| {
                 let z = doc.scene.posts.iter().map(|p| p.base_level).fold(f64::INFINITY, f64::min);
                 view.to_window([x, y, if z.is_finite() { z } else { 0.0 }]).map(|p| Pos2::new(p[0], p[1]))
             });
-            let keep_clear = if side { Vec::new() } else { vec![s.expand(4.0), l.expand(4.0)] };
+            let keep_clear = if side { Vec::new() } else { [s, l].into_iter().filter(|r| r.is_positive()).map(|r| r.expand(4.0)).collect() };
             plate_labels(&in_view, rect, a, doc, view, selection, cog, &keep_clear, cache);
             if let Some(h) = selection.hovered.as_ref().filter(|h| h.kind == plateload::scene::model::ElementKind::Post) {
                 if let (Some(i), Some(pointer)) = (a.plate_index(&h.id), ctx.pointer_hover_pos().filter(|p| rect.contains(*p))) {
@@ -90,25 +96,34 @@ pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &
 /// utilisation and the bearing pressure.
 fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, i: usize, comb: Option<usize>) {
     let p = &a.plates[i];
-    let (u, st) = reading(p, comb);
-    let c = comb.unwrap_or(p.governing).min(p.combinations.len().saturating_sub(1));
+    let r = reading(a, p, comb);
+    let c = r.combination;
     let pc = &p.combinations[c];
-    let text = format!(
-        "base plate {} — {:.1} % {}\nG {:.2} kN · Q {:.2} kN · W {:.2} kN\n{}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\nbearing {:.1} kPa of {:.0} kPa allowed\nmax by {}",
-        p.id,
-        100.0 * u,
-        st.label(),
-        p.case_kn[0],
-        p.case_kn[1],
-        p.case_kn[2],
-        a.combinations[c].name,
-        pc.max_kn,
-        pc.min_kn,
-        p.swl_kn,
-        pc.bearing_kpa,
-        p.allowable_kpa,
-        a.method_label(pc.max_method)
-    );
+    let name = &a.combinations[c].name;
+    let cases = format!("G {:.2} kN · Q {:.2} kN · W {:.2} kN", p.case_kn[0], p.case_kn[1], p.case_kn[2]);
+    let text = match r.utilisation {
+        Some(u) => format!(
+            "base plate {} — {:.1} % {}\n{cases}\n{name}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\nbearing {:.1} kPa of {:.0} kPa allowed\nmax by {}",
+            p.id,
+            100.0 * u,
+            r.status.label(),
+            pc.max_kn,
+            pc.min_kn,
+            p.swl_kn,
+            pc.bearing_kpa,
+            p.allowable_kpa,
+            a.method_label(pc.max_method)
+        ),
+        // Factored loads are not compared with working-load capacities: kN only.
+        None => format!(
+            "base plate {}{}\n{cases}\n{name} (not a capacity check): max {:.2} kN, min {:.2} kN\nmax by {}",
+            p.id,
+            if r.status.uplift { " — UPLIFT" } else { "" },
+            pc.max_kn,
+            pc.min_kn,
+            a.method_label(pc.max_method)
+        ),
+    };
     let g = painter.layout_no_wrap(text, FontId::proportional(13.0), Color32::BLACK);
     let size = g.size() + Vec2::new(20.0, 10.0);
     let mut at = pointer + Vec2::new(18.0, 18.0);
@@ -120,7 +135,7 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
     }
     let bx = Rect::from_min_size(at, size);
     painter.rect_filled(bx, 4.0, Color32::from_rgba_unmultiplied(255, 255, 255, 245));
-    painter.rect_filled(Rect::from_min_size(bx.min, Vec2::new(7.0, size.y)), 2.0, rgb(Band::of(u).colour()));
+    painter.rect_filled(Rect::from_min_size(bx.min, Vec2::new(7.0, size.y)), 2.0, band_colour(r.band()));
     painter.rect_stroke(bx, 4.0, Stroke::new(1.0, Color32::from_gray(60)), StrokeKind::Inside);
     painter.galley(bx.min + Vec2::new(14.0, 5.0), g, Color32::BLACK);
 }
@@ -134,30 +149,48 @@ fn caution_banner(painter: &egui::Painter, rect: Rect) {
     painter.galley(Pos2::new(rect.min.x + 16.0, band.min.y + 6.0), galley, Color32::BLACK);
 }
 
+/// The summary's four lines (worst plate, what governs it, counts, what the colours show), its
+/// band and whether that plate fails; `None` without plates.
+pub fn summary_lines(a: &Analysis, comb: Option<usize>, comb_name: &str) -> Option<([String; 4], Option<Band>, bool)> {
+    let &w = worst_first(a, comb).first()?;
+    let p = &a.plates[w];
+    let r = reading(a, p, comb);
+    let c = r.combination;
+    let pc = &p.combinations[c];
+    let over = a.plates.iter().filter(|p| reading(a, p, comb).status.over).count();
+    let lift = a.plates.iter().filter(|p| reading(a, p, comb).status.uplift).count();
+    let lines = match r.utilisation {
+        Some(u) => {
+            let by = if pc.bearing_utilisation >= pc.load_utilisation {
+                format!("ground bearing {:.0} kPa of {:.0} kPa allowed", pc.bearing_kpa, p.allowable_kpa)
+            } else {
+                format!("{:.1} kN on a {:.1} kN jack", pc.max_kn, p.swl_kn)
+            };
+            [
+                format!("Worst base plate: {} at {:.1} %", p.id, 100.0 * u),
+                format!("{by} ({})", a.combinations[c].name),
+                format!("{over} over capacity · {lift} lifting · {} base plates", a.plates.len()),
+                format!("colours: {comb_name}"),
+            ]
+        }
+        None => [
+            format!("Largest load: {} with {:.1} kN", p.id, pc.max_kn),
+            format!("“{}” is not a capacity check: factored kN only", a.combinations[c].name),
+            format!("{lift} lifting · {} base plates", a.plates.len()),
+            "plates in grey: no utilisation in this combination".to_string(),
+        ],
+    };
+    Some((lines, r.band(), !r.status.is_ok()))
+}
+
 /// Worst plate and counts: at the top of `column` (left-aligned beside the view, else
 /// right-aligned inside it). Returns where it was drawn.
 fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usize>, comb_name: &str, side: bool) -> Rect {
-    let Some(&w) = worst_first(a, comb).first() else { return Rect::from_min_size(column.min, Vec2::ZERO) };
-    let p = &a.plates[w];
-    let (u, status) = reading(p, comb);
-    let c = comb.unwrap_or(p.governing);
-    let pc = &p.combinations[c.min(p.combinations.len().saturating_sub(1))];
-    let by = if pc.bearing_utilisation >= pc.load_utilisation {
-        format!("ground bearing {:.0} kPa of {:.0} kPa allowed", pc.bearing_kpa, p.allowable_kpa)
-    } else {
-        format!("{:.1} kN on a {:.1} kN jack", pc.max_kn, p.swl_kn)
-    };
-    let over = a.plates.iter().filter(|p| reading(p, comb).1.over).count();
-    let lift = a.plates.iter().filter(|p| reading(p, comb).1.uplift).count();
-    let lines = [
-        (format!("Worst base plate: {} at {:.1} %", p.id, 100.0 * u), 20.0, true),
-        (format!("{by} ({})", a.combinations[c].name), 14.0, false),
-        (format!("{over} over capacity · {lift} lifting · {} base plates", a.plates.len()), 14.0, false),
-        (format!("colours: {comb_name}"), 12.0, false),
-    ];
+    let Some((lines, band, failing)) = summary_lines(a, comb, comb_name) else { return Rect::from_min_size(column.min, Vec2::ZERO) };
+    let lines = lines.into_iter().zip([20.0, 14.0, 14.0, 12.0]).map(|(t, size)| (t, size, false));
     // Wrapped to the column beside a picture; one line each inside the editor's view.
     let wrap = if side { column.width() - 24.0 } else { f32::INFINITY };
-    let galleys: Vec<_> = lines.iter().map(|(t, s, _)| painter.layout(t.clone(), FontId::proportional(*s), Color32::BLACK, wrap)).collect();
+    let galleys: Vec<_> = lines.map(|(t, s, _)| painter.layout(t, FontId::proportional(s), Color32::BLACK, wrap)).collect();
     let w_box = galleys.iter().map(|g| g.size().x).fold(0.0, f32::max) + 24.0;
     let h_box = galleys.iter().map(|g| g.size().y + 2.0).sum::<f32>() + 14.0;
     let w_box = if side { column.width() } else { w_box };
@@ -165,8 +198,8 @@ fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usi
     let bx = Rect::from_min_size(Pos2::new(x, column.min.y), Vec2::new(w_box, h_box));
     painter.rect_filled(bx, 4.0, Color32::from_rgba_unmultiplied(255, 255, 255, 235));
     let stripe = Rect::from_min_size(bx.min, Vec2::new(8.0, h_box));
-    painter.rect_filled(stripe, 2.0, rgb(Band::of(u).colour()));
-    if !status.is_ok() {
+    painter.rect_filled(stripe, 2.0, band_colour(band));
+    if failing {
         painter.rect_stroke(bx, 4.0, Stroke::new(3.0, Color32::BLACK), StrokeKind::Inside);
     }
     let mut y = bx.min.y + 7.0;
@@ -182,10 +215,7 @@ fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usi
 /// `at`: top-left corner (beside the view); `None`: bottom-left corner of `column`.
 /// Returns where it was drawn.
 fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, comb: Option<usize>, comb_name: &str) -> Rect {
-    let mut counts = [0usize; 5];
-    for p in &a.plates {
-        counts[Band::of(reading(p, comb).0) as usize] += 1;
-    }
+    let (counts, not_checked) = band_counts(a, comb);
     let beside = at.is_some();
     let (pivot, pos) = match at {
         Some(p) => (Align2::LEFT_TOP, p),
@@ -202,18 +232,7 @@ fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, com
                 ui.set_max_width((column.width() - 24.0).min(360.0));
                 ui.label(egui::RichText::new("Base plate utilisation").strong().size(15.0).color(Color32::BLACK));
                 ui.label(egui::RichText::new(format!("larger of load ÷ SWL and pressure ÷ allowable; {comb_name}")).size(11.0));
-                if !beside {
-                    // In the editor the legend folds away so it does not hide the scene.
-                    let id = ui.make_persistent_id("legend-open");
-                    let mut open = ui.data_mut(|d| *d.get_persisted_mut_or(id, true));
-                    if ui.small_button(if open { "hide legend" } else { "show legend" }).clicked() {
-                        open = !open;
-                        ui.data_mut(|d| d.insert_persisted(id, open));
-                    }
-                    if !open {
-                        return;
-                    }
-                }
+                let _ = beside;
                 for b in Band::ALL.iter().rev() {
                     ui.horizontal(|ui| {
                         let (r, _) = ui.allocate_exact_size(Vec2::new(26.0, 16.0), egui::Sense::hover());
@@ -221,6 +240,14 @@ fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, com
                         ui.painter().rect_stroke(r, 2.0, Stroke::new(1.0, Color32::from_gray(90)), StrokeKind::Inside);
                         let n = counts[*b as usize];
                         ui.label(egui::RichText::new(format!("{:<10} {n} plate{}", b.label(), if n == 1 { "" } else { "s" })).monospace().size(13.0));
+                    });
+                }
+                if not_checked > 0 {
+                    ui.horizontal(|ui| {
+                        let (r, _) = ui.allocate_exact_size(Vec2::new(26.0, 16.0), egui::Sense::hover());
+                        ui.painter().rect_filled(r, 2.0, rgb(NOT_CHECKED));
+                        ui.painter().rect_stroke(r, 2.0, Stroke::new(1.0, Color32::from_gray(90)), StrokeKind::Inside);
+                        ui.label(egui::RichText::new(format!("not a capacity check: {not_checked} plate{} (kN only)", if not_checked == 1 { "" } else { "s" })).size(13.0));
                     });
                 }
                 ui.add_space(4.0);
@@ -250,6 +277,78 @@ fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, com
             });
         });
     shown.response.rect
+}
+
+/// The editor's summary and legend: a strip of its own under the 3D view, so neither covers the
+/// scene. The first line names the worst plate; unfolded, the bands with their counts and the
+/// cues follow; folded, the bands and counts stay on that first line.
+pub fn legend_strip(ui: &mut egui::Ui, a: &Analysis, comb: Option<usize>, comb_name: &str, open: &mut bool) {
+    let (counts, not_checked) = band_counts(a, comb);
+    let swatch = |c: Color32| move |p: &egui::Painter, r: Rect| {
+        let r = Rect::from_center_size(r.center(), Vec2::new(20.0, 13.0));
+        p.rect_filled(r, 2.0, c);
+        p.rect_stroke(r, 2.0, Stroke::new(1.0, Color32::from_gray(90)), StrokeKind::Inside);
+    };
+    let bands = |ui: &mut egui::Ui, long: bool| {
+        for b in Band::ALL.iter().rev() {
+            let n = counts[*b as usize];
+            let text = if long { format!("{} {n}", b.label()) } else { n.to_string() };
+            ui.add(chip(swatch(rgb(b.colour())), text)).on_hover_text(format!("{}: {n} plate{}", b.label(), if n == 1 { "" } else { "s" }));
+        }
+        if not_checked > 0 {
+            let text = if long { format!("no capacity check {not_checked}") } else { not_checked.to_string() };
+            ui.add(chip(swatch(rgb(NOT_CHECKED)), text)).on_hover_text("this combination's factored loads are not compared with working-load capacities: kN only");
+        }
+    };
+    ui.horizontal_wrapped(|ui| {
+        if ui.small_button(if *open { "hide legend" } else { "legend" }).on_hover_text(if *open { "fold the legend to one line" } else { "show the bands and the cues" }).clicked() {
+            *open = !*open;
+        }
+        if let Some(([worst, by, counts_line, _], band, failing)) = summary_lines(a, comb, comb_name) {
+            ui.add(chip(swatch(band_colour(band)), egui::RichText::new(worst).strong().color(if failing { Color32::from_rgb(0xb0, 0x20, 0x20) } else { ui.visuals().strong_text_color() })));
+            ui.label(format!("— {by} · {counts_line}"));
+        }
+        if !*open {
+            ui.separator();
+            bands(ui, false);
+        }
+    });
+    if !*open {
+        return;
+    }
+    ui.horizontal_wrapped(|ui| {
+        ui.label(format!("Base plate utilisation, the larger of load ÷ SWL and pressure ÷ allowable ({comb_name}):"));
+        bands(ui, true);
+    });
+    ui.horizontal_wrapped(|ui| {
+        ui.add(chip(|p: &egui::Painter, r: Rect| cue_square(p, r.center(), 7.0), "square frame: over capacity"));
+        ui.add(chip(|p: &egui::Painter, r: Rect| cue_ring(p, r.center(), 7.0), "round ring and raised cone: plate lifts"));
+        ui.add(chip(|p: &egui::Painter, r: Rect| cog_symbol(p, r.center(), 7.0), "centre of gravity of permanent load"));
+        ui.label("load arrows:");
+        for (c, col) in ["G permanent", "Q imposed", "W horizontal"].iter().zip(CASE_COLOURS) {
+            ui.add(chip(
+                move |p: &egui::Painter, r: Rect| {
+                    p.rect_filled(Rect::from_center_size(r.center(), Vec2::splat(12.0)), 1.0, rgb(col));
+                },
+                *c,
+            ));
+        }
+    });
+}
+
+/// A symbol and its text as one piece, so a wrapping line breaks between pieces, never inside.
+fn chip(symbol: impl Fn(&egui::Painter, Rect), text: impl Into<egui::WidgetText>) -> impl egui::Widget {
+    move |ui: &mut egui::Ui| {
+        let galley = text.into().into_galley(ui, Some(egui::TextWrapMode::Extend), f32::INFINITY, egui::TextStyle::Body);
+        let icon = Vec2::new(24.0, galley.size().y.max(18.0));
+        let (rect, response) = ui.allocate_exact_size(Vec2::new(icon.x + galley.size().x, icon.y), egui::Sense::hover());
+        if ui.is_rect_visible(rect) {
+            symbol(ui.painter(), Rect::from_min_size(rect.min, icon));
+            let colour = ui.visuals().text_color();
+            ui.painter().galley(Pos2::new(rect.min.x + icon.x, rect.center().y - galley.size().y / 2.0), galley, colour);
+        }
+        response
+    }
 }
 
 fn cue_square(p: &egui::Painter, c: Pos2, h: f32) {
@@ -326,11 +425,30 @@ pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], keep_clear: &[Re
     placed
 }
 
-/// Plate indices from the highest utilisation down (ties in scene order).
+/// Plate indices from the highest utilisation down, then (where there is none, in a
+/// combination that does not check capacity) from the largest load down; ties in scene order.
 pub fn worst_first(a: &Analysis, comb: Option<usize>) -> Vec<usize> {
+    let key: Vec<(f64, f64)> = a.plates.iter().map(|p| reading(a, p, comb)).map(|r| (r.sort_key(), r.max_kn)).collect();
     let mut order: Vec<usize> = (0..a.plates.len()).collect();
-    order.sort_by(|&i, &j| reading(&a.plates[j], comb).0.partial_cmp(&reading(&a.plates[i], comb).0).unwrap_or(std::cmp::Ordering::Equal));
+    order.sort_by(|&i, &j| key[j].partial_cmp(&key[i]).unwrap_or(std::cmp::Ordering::Equal));
     order
+}
+
+/// Plates per utilisation band, and plates without a utilisation in this combination.
+fn band_counts(a: &Analysis, comb: Option<usize>) -> ([usize; 5], usize) {
+    let (mut counts, mut none) = ([0usize; 5], 0);
+    for p in &a.plates {
+        match reading(a, p, comb).band() {
+            Some(b) => counts[b as usize] += 1,
+            None => none += 1,
+        }
+    }
+    (counts, none)
+}
+
+/// Colour of a band, or the neutral grey of a plate with no utilisation.
+fn band_colour(b: Option<Band>) -> Color32 {
+    rgb(b.map_or(NOT_CHECKED, |b| b.colour()))
 }
 
 /// Where a leader leaves a plate's footprint towards a label centre.
@@ -401,8 +519,9 @@ struct LabelKey {
 struct PlacedLabel {
     rect: Rect,
     leader_from: Pos2,
-    /// Band colour and whether the plate fails; `None` for the centre of gravity.
-    band: Option<(Band, bool)>,
+    /// Band colour (grey without a utilisation) and whether the plate fails; `None` for the
+    /// centre of gravity.
+    band: Option<(Color32, bool)>,
     text: std::sync::Arc<egui::Galley>,
 }
 
@@ -421,7 +540,7 @@ fn paint_labels(painter: &egui::Painter, labels: &[PlacedLabel]) {
                 painter.line_segment([l.leader_from, lr.center()], Stroke::new(2.0, Color32::from_gray(20)));
                 painter.circle_filled(l.leader_from, 3.0, Color32::from_gray(20));
                 painter.rect_filled(lr, 3.0, Color32::from_rgba_unmultiplied(255, 255, 255, 240));
-                painter.rect_filled(Rect::from_min_size(lr.min, Vec2::new(7.0, lr.height())), 2.0, rgb(band.colour()));
+                painter.rect_filled(Rect::from_min_size(lr.min, Vec2::new(7.0, lr.height())), 2.0, band);
                 let stroke = if failing { Stroke::new(2.5, Color32::BLACK) } else { Stroke::new(1.0, Color32::from_gray(60)) };
                 painter.rect_stroke(lr, 3.0, stroke, StrokeKind::Inside);
                 painter.galley(Pos2::new(lr.min.x + 12.0, lr.min.y + 3.0), l.text.clone(), Color32::BLACK);
@@ -442,12 +561,13 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
     let supports: std::collections::HashMap<&str, &plateload::SupportType> = doc.scene.support_types.iter().map(|s| (s.id.as_str(), s)).collect();
     // Screen footprint of every plate, its cue included (the ring of a lifting plate reaches
     // its corners' circle).
+    let posts: std::collections::HashMap<&str, &plateload::Post> = doc.scene.posts.iter().map(|p| (p.id.as_str(), p)).collect();
     let footprint = |i: usize, with_cue: bool| -> Option<Rect> {
         let p = &a.plates[i];
-        let post = doc.scene.posts.get(i)?;
+        let post = posts.get(p.id.as_str())?;
         let s = post.support.as_deref().and_then(|s| supports.get(s))?;
         let b = s.bearing_plate();
-        let st = reading(p, comb).1;
+        let st = reading(a, p, comb).status;
         let pad = if with_cue && !st.is_ok() { CUE_GAP_M + CUE_BAND_M } else { 0.0 };
         let (mut hx, mut hy) = (b.width_m.max(s.base_plate.width_m) / 2.0, b.length_m.max(s.base_plate.length_m) / 2.0);
         if with_cue && st.uplift {
@@ -472,9 +592,9 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
         }
     };
     for &i in &order {
-        let (u, st) = reading(&a.plates[i], comb);
+        let r = reading(a, &a.plates[i], comb);
         // The three worst, then every plate that fails or is near capacity, up to the limit.
-        let notable = !st.is_ok() || u >= Band::Near.range().0;
+        let notable = !r.status.is_ok() || r.utilisation.is_some_and(|u| u >= Band::Near.range().0);
         if labels_on && (chosen.len() < 3 || notable) && chosen.len() < MAX_LABELS {
             add(i, &mut chosen);
         }
@@ -489,14 +609,17 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
         .iter()
         .map(|&i| {
             let p = &a.plates[i];
-            let (u, st) = reading(p, comb);
-            let c = comb.unwrap_or(p.governing);
-            let pc = &p.combinations[c.min(p.combinations.len().saturating_sub(1))];
-            let mut t = format!("{}  {:.1} %", p.id, 100.0 * u);
-            if st.over {
+            let r = reading(a, p, comb);
+            let pc = &p.combinations[r.combination];
+            // Without a capacity check, the factored load alone.
+            let mut t = match r.utilisation {
+                Some(u) => format!("{}  {:.1} %", p.id, 100.0 * u),
+                None => format!("{}  {:.1} kN", p.id, pc.max_kn),
+            };
+            if r.status.over {
                 t.push_str("  OVER");
             }
-            if st.uplift {
+            if r.status.uplift {
                 // The least load where uplift is looked for: in the chosen combination, else
                 // over the combinations that check for it.
                 let least = match comb {
@@ -528,8 +651,8 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
         let slot = placed[k];
         k += 1;
         let Some(lr) = slot else { continue };
-        let (u, st) = reading(&a.plates[i], comb);
-        out.push(PlacedLabel { rect: lr, leader_from: leader_start(anchor, lr.center()), band: Some((Band::of(u), !st.is_ok())), text: galleys[n].clone() });
+        let r = reading(a, &a.plates[i], comb);
+        out.push(PlacedLabel { rect: lr, leader_from: leader_start(anchor, lr.center()), band: Some((band_colour(r.band()), !r.status.is_ok())), text: galleys[n].clone() });
     }
     if let (Some(c), Some(Some(lr))) = (cog, placed.get(k)) {
         let anchor = Rect::from_center_size(c, Vec2::splat(16.0));

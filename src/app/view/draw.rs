@@ -15,7 +15,7 @@ use plateload::edit::ElementRef;
 use plateload::scene::model::{BeamRole, ElementKind};
 use plateload::export::palette::{Band, Cue};
 use plateload::edit::pick::{self, Part, Prim, Shape, ShapeOptions, CUE_BAND_M, CUE_EDGE_M, CUE_GAP_M, V3};
-use plateload::{Case, PlateResult, Status as PlateStatus};
+use plateload::{Analysis, Case, PlateResult, Status as PlateStatus};
 
 use super::flat::FlatMaterial;
 use super::{to_bevy, ViewState, ON_TOP_LAYER, SCENE_LAYER};
@@ -160,6 +160,10 @@ pub const HIGHLIGHT: Color = Color::srgb(0.0, 0.45, 1.0);
 /// dark ones in hue. Over-capacity plates also carry their black and white frame.
 pub const GROUND: [u8; 3] = [0x3d, 0x4a, 0x55];
 
+/// Colour of a plate with no utilisation to show: no result, or a combination that does not
+/// check capacity. A neutral grey, apart from every band of the utilisation ramp.
+pub const NOT_CHECKED: [u8; 3] = [0x9a, 0x9a, 0x9a];
+
 /// Load case colours of arrows: grey, indigo, green (none of them on the utilisation ramp).
 pub const CASE_COLOURS: [[u8; 3]; 3] = [[0x5a, 0x5a, 0x5a], [0x33, 0x4a, 0xa8], [0x1f, 0x7a, 0x4a]];
 
@@ -187,7 +191,7 @@ fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut mat
         cues: HashMap::new(),
         bands: Band::ALL.map(|b| unlit(m, srgb(b.colour()))),
         bands_lit: Band::ALL.map(|b| lit(m, srgb(b.colour()))),
-        no_result: unlit(m, Color::srgb_u8(0x9a, 0x9a, 0x9a)),
+        no_result: unlit(m, srgb(NOT_CHECKED)),
         steel: lit(m, Color::srgb_u8(0x8c, 0x93, 0x9b)),
         ledger: lit(m, Color::srgb_u8(0x74, 0x7c, 0x86)),
         transom: lit(m, Color::srgb_u8(0x9e, 0x8f, 0x7a)),
@@ -555,11 +559,47 @@ fn sync_entities(
     shapes.options = Some(opts);
 }
 
-/// Utilisation and findings of a plate in the chosen combination (`None`: governing).
-pub fn reading(plate: &PlateResult, combination: Option<usize>) -> (f64, PlateStatus) {
-    match combination.and_then(|c| plate.combinations.get(c)) {
-        Some(c) => (c.utilisation, c.status),
-        None => (plate.governing().utilisation, plate.status),
+/// What a plate shows for the chosen combination.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Reading {
+    /// The combination read: the chosen one, else the plate's governing one.
+    pub combination: usize,
+    /// Utilisation, where that combination checks capacity. `None` where it does not: its
+    /// factored load over a working-load capacity is not a utilisation, so only kN are shown.
+    pub utilisation: Option<f64>,
+    /// Findings: of the chosen combination, else over every combination.
+    pub status: PlateStatus,
+    /// Largest and smallest combined load in that combination, kN.
+    pub max_kn: f64,
+    /// Smallest combined load, kN (negative: uplift).
+    pub min_kn: f64,
+}
+
+impl Reading {
+    /// Band of the utilisation, where there is one.
+    pub fn band(&self) -> Option<Band> {
+        self.utilisation.map(Band::of)
+    }
+    /// Utilisation for sorting: not checked counts as below any value.
+    pub fn sort_key(&self) -> f64 {
+        self.utilisation.unwrap_or(f64::NEG_INFINITY)
+    }
+}
+
+/// What a plate shows in the chosen combination (`None`: its governing one).
+pub fn reading(a: &Analysis, plate: &PlateResult, combination: Option<usize>) -> Reading {
+    let chosen = combination.filter(|&c| c < plate.combinations.len());
+    let c = chosen.unwrap_or(plate.governing).min(plate.combinations.len().saturating_sub(1));
+    let Some(pc) = plate.combinations.get(c) else {
+        return Reading { combination: c, utilisation: None, status: plate.status, max_kn: f64::NAN, min_kn: f64::NAN };
+    };
+    let checks = a.combinations.get(c).is_some_and(|k| k.checks_capacity);
+    Reading {
+        combination: c,
+        utilisation: checks.then_some(pc.utilisation),
+        status: if chosen.is_some() { pc.status } else { plate.status },
+        max_kn: pc.max_kn,
+        min_kn: pc.min_kn,
     }
 }
 
@@ -587,14 +627,14 @@ fn recolour(
     }
     let started = std::time::Instant::now();
     let analysis = doc.analysis();
-    let readings: HashMap<&str, (f64, PlateStatus)> = analysis.map(|a| a.plates.iter().map(|p| (p.id.as_str(), reading(p, key.combination))).collect()).unwrap_or_default();
+    let readings: HashMap<&str, Reading> = analysis.map(|a| a.plates.iter().map(|p| (p.id.as_str(), reading(a, p, key.combination))).collect()).unwrap_or_default();
     let selected: HashSet<&ElementRef> = selection.items.iter().collect();
     let picked: HashSet<&str> = tools.picked.iter().map(String::as_str).collect();
     for (part, mut mat, mut vis) in &mut parts {
         let (want, show) = match &part.0 {
             DrawKey::Shape(e, p, _) => {
                 let sel = selected.contains(e) || picked.contains(e.id.as_str());
-                let band = readings.get(e.id.as_str()).map(|r| Band::of(r.0) as usize);
+                let band = readings.get(e.id.as_str()).and_then(|r| r.band()).map(|b| b as usize);
                 let m = match p {
                     // A selected plate keeps its colour; it is outlined instead.
                     Part::BasePlate | Part::SolePlate => match band {
@@ -621,10 +661,10 @@ fn recolour(
                 };
                 (m, true)
             }
-            DrawKey::OverCue(id) => (&assets.cue, readings.get(id.as_str()).is_some_and(|r| matches!(Cue::of(r.1), Cue::Over | Cue::OverAndUplift))),
+            DrawKey::OverCue(id) => (&assets.cue, readings.get(id.as_str()).is_some_and(|r| matches!(Cue::of(r.status), Cue::Over | Cue::OverAndUplift))),
             DrawKey::UpliftCue(id) | DrawKey::UpliftArrow(id) => {
                 let m = if matches!(part.0, DrawKey::UpliftArrow(_)) { &assets.loads[0] } else { &assets.cue };
-                (m, readings.get(id.as_str()).is_some_and(|r| matches!(Cue::of(r.1), Cue::Uplift | Cue::OverAndUplift)))
+                (m, readings.get(id.as_str()).is_some_and(|r| matches!(Cue::of(r.status), Cue::Uplift | Cue::OverAndUplift)))
             }
             DrawKey::CentreOfGravity => (&assets.cue, true),
         };
@@ -768,6 +808,6 @@ mod tests {
         // The old ground failed this: the check can fail.
         assert!(contrast([0xbf, 0xbc, 0xb4], Band::Light.colour()) < 1.7);
         // Nor is the ground the colour of the cues (white) or of a plate without a result.
-        assert!(contrast(GROUND, [255, 255, 255]) >= 4.5 && contrast(GROUND, [0x9a, 0x9a, 0x9a]) >= 1.7);
+        assert!(contrast(GROUND, [255, 255, 255]) >= 4.5 && contrast(GROUND, NOT_CHECKED) >= 1.7);
     }
 }
