@@ -90,7 +90,8 @@ enum Command {
     },
     /// Open the 3D editor on a scene file (the built-in demo if omitted).
     Edit {
-        /// Scene file (RON). Created on first save if it does not exist.
+        /// Scene file (RON). If it does not exist, the editor starts with an empty scene and
+        /// the first save creates the file.
         file: Option<PathBuf>,
         /// Write the number of frames drawn so far to this file after each one.
         #[arg(long, hide = true)]
@@ -441,12 +442,13 @@ fn tidy(v: f64) -> f64 {
 
 #[cfg(feature = "viewer")]
 fn edit(file: Option<PathBuf>, count_updates: Option<PathBuf>) -> anyhow::Result<ExitCode> {
-    let scene = match &file {
-        Some(path) if path.exists() => read(path)?,
-        Some(_) => plateload::scene::demo::default_scene(),
-        None => plateload::scene::demo::default_scene(),
+    let doc = match file {
+        Some(path) if path.exists() => app::SceneDoc::new(read(&path)?, Some(path)),
+        // A new file starts empty and unsaved; the first save creates it.
+        Some(path) => app::SceneDoc::new_file(path),
+        None => app::SceneDoc::new(plateload::scene::demo::default_scene(), None),
     };
-    app::run(app::SceneDoc::new(scene, file), count_updates)?;
+    app::run(doc, count_updates)?;
     Ok(ExitCode::SUCCESS)
 }
 

@@ -43,6 +43,15 @@ impl SceneDoc {
         SceneDoc { scene, history: History::default(), path, saved_state: Some(0), revision: 1, result, solved_revision: 1, solve_time }
     }
 
+    /// A document for a file that does not exist yet: an empty scene named after the file,
+    /// unsaved until the first save writes it.
+    pub fn new_file(path: PathBuf) -> Self {
+        let name = path.file_stem().map_or("new site".into(), |n| n.to_string_lossy().into_owned());
+        let mut doc = SceneDoc::new(new_scene(&name), Some(path));
+        doc.saved_state = None;
+        doc
+    }
+
     /// Whether the scene differs from its file.
     pub fn is_dirty(&self) -> bool {
         self.saved_state != Some(self.history.state())
@@ -119,6 +128,16 @@ impl SceneDoc {
         format!("{}{name} — plateload", if self.is_dirty() { "● " } else { "" })
     }
 }
+
+/// An empty scene: no support types, posts or members; the default combinations and settings.
+pub fn new_scene(name: &str) -> Scene {
+    // The engine needs a number here. It is a placeholder the planner replaces with the site's
+    // value (the status line and the site panel say so); every output shows it.
+    Scene::empty(name, PLACEHOLDER_ALLOWABLE_KPA)
+}
+
+/// Allowable bearing pressure of a new scene until the planner enters the site's, kPa.
+pub const PLACEHOLDER_ALLOWABLE_KPA: f64 = 100.0;
 
 /// The selected elements and the one under the pointer.
 #[derive(Resource, Default, Debug, Clone, PartialEq)]

@@ -464,6 +464,37 @@ fn the_editor_sleeps_until_the_recovery_copy_is_due() {
 }
 
 #[test]
+fn a_new_file_starts_empty_and_unsaved_and_its_first_save_creates_it() {
+    // common practice, no source
+    let dir = temp_dir("newfile");
+    let path = dir.join("new-site.ron");
+    let mut app = App::new();
+    app.add_plugins((MinimalPlugins, bevy::asset::AssetPlugin::default(), bevy::transform::TransformPlugin));
+    app.init_asset::<Mesh>().init_asset::<super::view::flat::FlatMaterial>();
+    app.init_resource::<ButtonInput<KeyCode>>().init_resource::<ViewState>().init_resource::<super::panels::Panels>();
+    app.insert_resource(Mode::Editor).insert_resource(SceneDoc::new_file(path.clone()));
+    app.add_plugins((EditorPlugin, DrawPlugin));
+    app.add_systems(Update, super::panels::layout_for_empty_scene);
+    app.update();
+    let d = doc(&app);
+    assert!(d.scene.posts.is_empty() && d.scene.bearers.is_empty() && d.scene.decks.is_empty() && d.scene.loads.is_empty());
+    assert_eq!(d.scene.site.name, "new-site");
+    assert!(d.is_dirty(), "marked unsaved");
+    assert!(d.title().starts_with('●'), "{}", d.title());
+    assert!(!path.exists(), "nothing written before a save");
+    assert_eq!(app.world().resource::<super::panels::Panels>().right, super::panels::RightTab::Layout, "the layout generator at hand");
+    let status = app.world().resource::<Status>();
+    assert!(status.text.contains("not saved yet") && status.text.contains("allowable bearing pressure"), "{}", status.text);
+    // The first save writes this scene, not a demo.
+    act(&mut app, Action::Save);
+    let saved = plateload::scene::io::read_scene(&path).expect("created by the save");
+    assert_eq!(saved, doc(&app).scene);
+    assert!(saved.posts.is_empty());
+    assert!(!doc(&app).is_dirty());
+    let _ = std::fs::remove_dir_all(dir);
+}
+
+#[test]
 fn combinations_that_do_not_check_capacity_read_as_kilonewtons_only() {
     // common practice, no source: a factored load over a working-load capacity is not a
     // utilisation, so such a combination gives no percentage and no OK/OVER verdict

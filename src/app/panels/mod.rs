@@ -31,7 +31,7 @@ impl Plugin for PanelsPlugin {
         app.init_resource::<Panels>()
             .add_systems(PreUpdate, quiet_modifiers.after(bevy_egui::EguiPreUpdateSet::ProcessInput).before(bevy_egui::EguiPreUpdateSet::BeginPass))
             .add_systems(EguiPrimaryContextPass, draw_ui)
-            .add_systems(Update, window_title);
+            .add_systems(Update, (window_title, layout_for_empty_scene));
     }
 }
 
@@ -120,6 +120,16 @@ fn quiet_modifiers(mut inputs: Query<&mut bevy_egui::EguiInput>, mut last: Local
         }
         *last = Some(m);
     }
+}
+
+/// A new, empty scene opens with the layout generator at hand and says what to enter first.
+pub fn layout_for_empty_scene(doc: Res<SceneDoc>, mut panels: ResMut<Panels>, mut status: ResMut<Status>) {
+    if !doc.is_changed() || !doc.scene.posts.is_empty() || doc.history.undo_len() + doc.history.redo_len() > 0 {
+        return;
+    }
+    panels.right = RightTab::Layout;
+    let what = if doc.path.as_ref().is_some_and(|p| !p.exists()) { "new file, not saved yet" } else { "empty scene" };
+    status.info(format!("{what}: lay out posts and members with the layout generator (right) or the tools (left), and enter the site's allowable bearing pressure under Site & combinations"));
 }
 
 /// Draw the panels (editor) or only the overlay (picture), and note where the 3D view is.
@@ -237,7 +247,7 @@ fn menu_bar(ui: &mut egui::Ui, doc: &SceneDoc, selection: &Selection, view: &mut
                 }
             });
             if ui.button("New empty scene").clicked() {
-                actions.push(Action::New(Box::new(plateload::Scene::empty("New site", 100.0))));
+                actions.push(Action::New(Box::new(super::doc::new_scene("New site"))));
                 ui.close();
             }
             ui.separator();
