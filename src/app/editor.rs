@@ -40,7 +40,7 @@ impl Plugin for EditorPlugin {
                 (EditorSystems::Input, EditorSystems::Apply, EditorSystems::Solve, EditorSystems::Sync, EditorSystems::Recolour).chain(),
             )
             .add_systems(Startup, offer_recovery)
-            .add_systems(Update, (shortcuts, tool_clicks, drag_moves, close_requests).in_set(EditorSystems::Input))
+            .add_systems(Update, (shortcuts, tool_clicks, drag_moves, close_requests).in_set(EditorSystems::Input).after(super::view::PointerSystems))
             .add_systems(Update, (handle_actions, prune_selection).chain().in_set(EditorSystems::Apply))
             .add_systems(Update, solve.run_if(resource_changed::<SceneDoc>).in_set(EditorSystems::Solve))
             .add_systems(Update, own_timing.after(EditorSystems::Recolour))

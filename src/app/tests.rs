@@ -1,6 +1,8 @@
 //! Headless tests of the editor: a bevy `App` with the editor's plugins and no renderer or
 //! window, driven by actions, clicks and keys, checked on the document and the entities.
 
+mod mouse;
+
 use std::path::PathBuf;
 
 use bevy::input::keyboard::KeyCode;

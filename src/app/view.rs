@@ -37,11 +37,8 @@ pub struct ViewPlugin;
 
 impl Plugin for ViewPlugin {
     fn build(&self, app: &mut App) {
-        app.init_resource::<ViewState>()
-            .add_plugins((flat::FlatMaterialPlugin, draw::DrawPlugin, draw::GizmoDrawPlugin, RendererBusyPlugin))
+        app.add_plugins((ViewInputPlugin, flat::FlatMaterialPlugin, draw::DrawPlugin, draw::GizmoDrawPlugin, RendererBusyPlugin))
             .add_systems(Startup, spawn_cameras)
-            .add_systems(Update, (camera_controls, pointer).chain().in_set(EditorSystems::Input))
-            .add_systems(Update, view_requests.after(EditorSystems::Sync).before(EditorSystems::Recolour))
             .add_systems(Update, leave_out.run_if(resource_exists::<Without>))
             // After the panels, which size the view: a new size shows in the same frame.
             .add_systems(PostUpdate, apply_camera.after(bevy_egui::EguiPostUpdateSet::EndPass).before(bevy::camera::CameraUpdateSystems).before(bevy::transform::TransformSystems::Propagate));
@@ -92,6 +89,23 @@ fn note_pipelines_building(cache: Res<bevy::render::render_resource::PipelineCac
         let _ = w.0.send_event(bevy::winit::WinitUserEvent::WakeUp);
     }
 }
+
+/// The view's camera and pointer: orbit, pan and zoom, hover, clicks and drags, fitting.
+/// Needs no renderer (the headless tests drive it with synthesised input).
+pub struct ViewInputPlugin;
+
+impl Plugin for ViewInputPlugin {
+    fn build(&self, app: &mut App) {
+        app.init_resource::<ViewState>()
+            // Clicks and drags are read by the editor's tools in the same frame.
+            .add_systems(Update, (camera_controls, pointer).chain().in_set(EditorSystems::Input).in_set(PointerSystems))
+            .add_systems(Update, view_requests.after(EditorSystems::Sync).before(EditorSystems::Recolour));
+    }
+}
+
+/// The systems that turn mouse input into view changes, clicks and drags.
+#[derive(SystemSet, Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub struct PointerSystems;
 
 /// What the view shows and how.
 #[derive(Debug, Clone, PartialEq)]
@@ -449,7 +463,11 @@ fn pointer(
     let cursor = window.cursor_position().filter(|c| view.ready() && view.contains(*c) && focus.pointer_in_view);
     let shift = keys.is_some_and(|k| k.any_pressed([KeyCode::ShiftLeft, KeyCode::ShiftRight]));
     let tol = view.camera.pick_tolerance(4.0, view.viewport[3].max(1.0) as f64);
-    let pick_at = |c: Vec2| pick::pick(&shapes.shapes, &view.ray_at(c), &tol);
+    // What is drawn on top is picked first: a plate, then anything else.
+    let pick_at = |c: Vec2| {
+        let ray = view.ray_at(c);
+        pick::pick(&shapes.plates, &ray, &tol).or_else(|| pick::pick(&shapes.shapes, &ray, &tol))
+    };
     // Hover: only when the pointer moved or the scene changed under it.
     if cursor != *last_cursor || shapes.is_changed() {
         *last_cursor = cursor;

@@ -52,6 +52,8 @@ impl Plugin for GizmoDrawPlugin {
 pub struct SceneShapes {
     /// Every solid.
     pub shapes: Vec<Shape>,
+    /// The base and sole plates among them: drawn over everything, so picked first.
+    pub plates: Vec<Shape>,
     /// Box around them.
     pub bounds: Option<(V3, V3)>,
     /// Level of the ground plane, m.
@@ -554,6 +556,7 @@ fn sync_entities(
     // Frame the cues too: the ring around a lifting plate reaches past its corners.
     let reach = cue_reach.max(0.0);
     shapes.bounds = pick::shapes_bounds(&list).map(|(lo, hi)| ([lo[0] - reach, lo[1] - reach, lo[2]], [hi[0] + reach, hi[1] + reach, hi[2]]));
+    shapes.plates = list.iter().filter(|s| on_top(s.part)).cloned().collect();
     shapes.shapes = list;
     shapes.ground_z = ground_z;
     shapes.options = Some(opts);
