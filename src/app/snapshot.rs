@@ -65,6 +65,8 @@ pub struct PictureState {
     orbit_done: u32,
     frame_times: Vec<Duration>,
     orbit_times: Vec<Duration>,
+    /// CPU time of the process when the timed frames of the current phase began.
+    cpu_at_start: Option<Duration>,
     last_frame: Option<Instant>,
     requested: bool,
     /// Outcome of writing the file, once known.
@@ -124,8 +126,9 @@ fn run_picture(
     if state.edits_done < spec.timing_edits {
         timings.log = true;
         let now = Instant::now();
-        if let Some(t) = state.last_frame.replace(now) {
-            state.frame_times.push(now - t);
+        match state.last_frame.replace(now) {
+            Some(t) => state.frame_times.push(now - t),
+            None => state.cpu_at_start = process_cpu_time(),
         }
         let Some(post) = doc.scene.posts.get(doc.scene.posts.len() / 2) else {
             state.edits_done = spec.timing_edits;
@@ -141,6 +144,7 @@ fn run_picture(
         state.edits_done += 1;
         if state.edits_done == spec.timing_edits {
             report_timings(&timings, &state.frame_times, doc.scene.posts.len(), view.viewport);
+            info!("timing on {} posts: CPU time per frame while editing (all threads, the software renderer's included): {}", doc.scene.posts.len(), cpu_per_frame(state.cpu_at_start, state.frame_times.len()));
             state.last_frame = None;
         }
         return;
@@ -149,8 +153,9 @@ fn run_picture(
     // (view, labels, panels, GPU) is measured from one frame's end to the next.
     if state.orbit_done < spec.timing_orbit {
         let now = Instant::now();
-        if let Some(t) = state.last_frame.replace(now) {
-            state.orbit_times.push(now - t);
+        match state.last_frame.replace(now) {
+            Some(t) => state.orbit_times.push(now - t),
+            None => state.cpu_at_start = process_cpu_time(),
         }
         view.camera.yaw_deg += 2.0;
         state.orbit_done += 1;
@@ -158,6 +163,7 @@ fn run_picture(
             // Back to where it started, so the picture is the one asked for.
             view.camera.yaw_deg -= 2.0 * spec.timing_orbit as f64;
             info!("timing on {} posts, view {:.0} × {:.0} px: whole frames while orbiting (GPU included): {}", doc.scene.posts.len(), view.viewport[2], view.viewport[3], stats(&state.orbit_times));
+            info!("timing on {} posts: CPU time per frame while orbiting (all threads, the software renderer's included): {}", doc.scene.posts.len(), cpu_per_frame(state.cpu_at_start, state.orbit_times.len()));
         }
         return;
     }
@@ -187,6 +193,26 @@ fn run_picture(
     commands.spawn(Screenshot::primary_window()).observe(move |captured: On<ScreenshotCaptured>, mut state: ResMut<PictureState>| {
         state.saved = Some(write_png(&out, captured.image.clone()));
     });
+}
+
+/// CPU time the process has used so far (user + system, every thread), where the system says.
+/// On a machine shared with other work the wall-clock time of a frame depends on the load;
+/// the CPU time it costs does much less.
+fn process_cpu_time() -> Option<Duration> {
+    let stat = std::fs::read_to_string("/proc/self/stat").ok()?;
+    let fields: Vec<&str> = stat.rsplit_once(')')?.1.split_whitespace().collect();
+    // source: proc(5), /proc/pid/stat fields 14 and 15 (utime, stime) in clock ticks; Linux
+    // reports them at USER_HZ = 100 ticks per second
+    let ticks: u64 = fields.get(11)?.parse::<u64>().ok()? + fields.get(12)?.parse::<u64>().ok()?;
+    Some(Duration::from_millis(ticks * 10))
+}
+
+/// Mean CPU time per frame since `start`, for `frames` frames.
+fn cpu_per_frame(start: Option<Duration>, frames: usize) -> String {
+    match (start, process_cpu_time()) {
+        (Some(a), Some(b)) if frames > 0 => format!("mean {:.1} ms over {frames} frames", (b - a).as_secs_f64() * 1e3 / frames as f64),
+        _ => "not known on this system".into(),
+    }
 }
 
 /// Count, median, 95th percentile and maximum of some durations, in ms.
