@@ -185,10 +185,9 @@ fn window_plugin(title: String, size: Option<[u32; 2]>) -> WindowPlugin {
     }
 }
 
-fn base_app(doc: SceneDoc, mode: Mode, title: String, size: Option<[u32; 2]>, gpu_preprocessing: bool) -> App {
+fn base_app(doc: SceneDoc, mode: Mode, title: String, size: Option<[u32; 2]>) -> App {
     let mut app = App::new();
-    let pbr = bevy::pbr::PbrPlugin { use_gpu_instance_buffer_builder: gpu_preprocessing, ..default() };
-    app.add_plugins(DefaultPlugins.set(window_plugin(title, size)).set(pbr))
+    app.add_plugins(DefaultPlugins.set(window_plugin(title, size)))
         .add_plugins(bevy_egui::EguiPlugin::default())
         .insert_resource(mode)
         .insert_resource(doc)
@@ -201,7 +200,7 @@ fn base_app(doc: SceneDoc, mode: Mode, title: String, size: Option<[u32; 2]>, gp
 /// that the editor sleeps when nothing happens).
 pub fn run(doc: SceneDoc, count_updates: Option<PathBuf>) -> anyhow::Result<()> {
     let title = doc.title();
-    let mut app = base_app(doc, Mode::Editor, title, None, true);
+    let mut app = base_app(doc, Mode::Editor, title, None);
     app.insert_resource(editor::RecoveryState::in_user_cache());
     app.insert_resource(settings::SettingsFile::in_user_config());
     // Draw on demand; `editor::pace_updates` keeps the wake-up timer of the recovery copy.
@@ -224,7 +223,7 @@ pub fn snapshot(scene: Scene, spec: snapshot::PictureSpec) -> anyhow::Result<()>
     let size = spec.size;
     let doc = SceneDoc::new(scene, None);
     let without = view::Without(spec.without.clone());
-    let mut app = base_app(doc, Mode::Picture(spec), "plateload picture".into(), Some(size), !without.has(view::ViewPart::GpuPreprocessing));
+    let mut app = base_app(doc, Mode::Picture(spec), "plateload picture".into(), Some(size));
     app.insert_resource(without);
     app.add_plugins(snapshot::SnapshotPlugin);
     match app.run() {

@@ -211,19 +211,16 @@ pub enum ViewPart {
     Gizmos,
     /// Everything egui draws over the view (legend, labels, summary, title, caution).
     Overlay,
-    /// Mesh data built by compute shaders and indirect draws (bevy's GPU preprocessing).
-    GpuPreprocessing,
 }
 
 impl ViewPart {
     /// Every part, with its command-line name.
-    pub const ALL: [(&'static str, ViewPart); 6] = [
+    pub const ALL: [(&'static str, ViewPart); 5] = [
         ("on-top-camera", ViewPart::OnTopCamera),
         ("decks", ViewPart::Decks),
         ("ground", ViewPart::Ground),
         ("gizmos", ViewPart::Gizmos),
         ("overlay", ViewPart::Overlay),
-        ("gpu-preprocessing", ViewPart::GpuPreprocessing),
     ];
 }
 
@@ -259,15 +256,12 @@ fn spawn_cameras(mut commands: Commands, mut egui_settings: ResMut<bevy_egui::Eg
     let keep = CameraOutputMode::Skip;
     let on_top = !without.has(ViewPart::OnTopCamera);
     let scene_layers = if on_top { RenderLayers::layer(SCENE_LAYER) } else { RenderLayers::from_layers(&[SCENE_LAYER, ON_TOP_LAYER]) };
-    let mut scene = commands.spawn((SceneCamera, Camera3d::default(), Camera { order: 0, clear_color: ClearColorConfig::Custom(BACKGROUND), output_mode: keep, ..default() }, exact, scene_layers));
-    if without.has(ViewPart::GpuPreprocessing) {
-        scene.insert(bevy::render::view::NoIndirectDrawing);
-    }
+    // Per-mesh data is built on the CPU and drawn directly, not by compute shaders and
+    // indirect draws (see `super::base_app`).
+    let direct = bevy::render::view::NoIndirectDrawing;
+    commands.spawn((SceneCamera, Camera3d::default(), Camera { order: 0, clear_color: ClearColorConfig::Custom(BACKGROUND), output_mode: keep, ..default() }, exact, scene_layers, direct));
     if on_top {
-        let mut top = commands.spawn((OnTopCamera, Camera3d::default(), Camera { order: 1, clear_color: ClearColorConfig::None, output_mode: keep, ..default() }, exact, RenderLayers::layer(ON_TOP_LAYER)));
-        if without.has(ViewPart::GpuPreprocessing) {
-            top.insert(bevy::render::view::NoIndirectDrawing);
-        }
+        commands.spawn((OnTopCamera, Camera3d::default(), Camera { order: 1, clear_color: ClearColorConfig::None, output_mode: keep, ..default() }, exact, RenderLayers::layer(ON_TOP_LAYER), bevy::render::view::NoIndirectDrawing));
     }
     // egui draws its panels over the 3D picture in the same texture and writes the result.
     commands.spawn((

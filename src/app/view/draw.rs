@@ -152,6 +152,9 @@ pub struct ViewAssets {
     ground_mat: Handle<FlatMaterial>,
 }
 
+/// Sides of the round bars (posts, members, arrow shafts).
+const BAR_SIDES: u32 = 8;
+
 /// Colour of highlights (selection, picked elements): a saturated blue, apart from every
 /// band of the utilisation ramp.
 pub const HIGHLIGHT: Color = Color::srgb(0.0, 0.45, 1.0);
@@ -185,8 +188,11 @@ fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut mat
     let m = &mut *materials;
     let translucent = |m: &mut Assets<FlatMaterial>, c: Color| m.add(FlatMaterial::translucent(c));
     let assets = ViewAssets {
-        bar: meshes.add(Cylinder::new(1.0, 1.0)),
-        cone: meshes.add(Cone { radius: 1.0, height: 1.0 }),
+        // Eight sides: a tube is a few pixels wide on screen, and a software renderer spends
+        // its time per triangle (bevy's default of 32 sides made 2,000 posts cost several times
+        // as much to draw).
+        bar: meshes.add(Cylinder::new(1.0, 1.0).mesh().resolution(BAR_SIDES)),
+        cone: meshes.add(Cone { radius: 1.0, height: 1.0 }.mesh().resolution(2 * BAR_SIDES)),
         cube: meshes.add(Cuboid::new(1.0, 1.0, 1.0)),
         cog: meshes.add(cog_mesh()),
         ground: meshes.add(Plane3d::default().mesh().size(1.0, 1.0)),
