@@ -390,10 +390,21 @@ fn camera_controls(
     motion: Option<Res<AccumulatedMouseMotion>>,
     scroll: Option<Res<AccumulatedMouseScroll>>,
     focus: Res<UiFocus>,
+    windows: Query<&Window, With<PrimaryWindow>>,
     mut view: ResMut<ViewState>,
     mut dragging: Local<bool>,
+    mut last_cursor: Local<Option<Vec2>>,
 ) {
     let (Some(buttons), Some(motion), Some(scroll)) = (buttons, motion, scroll) else { return };
+    // How far the pointer moved: by its position in the window where known, which every
+    // windowing system reports (a remote desktop or a virtual display may send no raw mouse
+    // motion); else by the raw motion.
+    let cursor = windows.single().ok().and_then(|w| w.cursor_position());
+    let moved = match (cursor, *last_cursor) {
+        (Some(c), Some(l)) => c - l,
+        _ => motion.delta,
+    };
+    *last_cursor = cursor;
     let shift = keys.is_some_and(|k| k.any_pressed([KeyCode::ShiftLeft, KeyCode::ShiftRight]));
     let (right, middle) = (buttons.pressed(MouseButton::Right), buttons.pressed(MouseButton::Middle));
     if buttons.any_just_pressed([MouseButton::Right, MouseButton::Middle]) {
@@ -402,7 +413,7 @@ fn camera_controls(
     if !right && !middle {
         *dragging = false;
     }
-    let d = motion.delta;
+    let d = moved;
     if *dragging && d != Vec2::ZERO {
         let cam = &mut view.camera;
         if middle || (right && shift) {
