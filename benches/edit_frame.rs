@@ -62,11 +62,11 @@ fn main() {
         let (mut frame, mut solve, mut sync, mut colour) = (Vec::new(), Vec::new(), Vec::new(), Vec::new());
         for i in 0..rounds {
             let edit = match (kind.starts_with("load"), i % 2) {
-                (true, 0) => Edit::Add(plateload::edit::Element::Load(plateload::Load {
-                    id: format!("bench-{i}"),
-                    case: plateload::Case::Q,
-                    kind: plateload::LoadKind::PostTop { post: "T26".into(), kn: 25.0 },
-                })),
+                (true, 0) => Edit::Add(plateload::edit::Element::Load(plateload::Load::new(
+                    format!("bench-{i}"),
+                    plateload::Case::Q,
+                    plateload::LoadKind::PostTop { post: "T26".into(), kn: 25.0 },
+                ))),
                 (true, _) => Edit::Delete { targets: vec![ElementRef::new(plateload::scene::model::ElementKind::Load, format!("bench-{}", i - 1))], mode: Default::default() },
                 // A whole line moves, so every member stays straight and the scene solves.
                 (false, k) => Edit::Move { targets: column.clone(), by: [if k == 0 { 0.25 } else { -0.25 }, 0.0, 0.0] },

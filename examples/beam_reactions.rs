@@ -4,12 +4,18 @@
 //! ```text
 //! beam_reactions solve [FILE]        reactions of every beam (stdin if no FILE), JSON on stdout
 //! beam_reactions time FILE [REPEAT]  set up and solve all beams REPEAT times; best and median
+//! beam_reactions arranged [FILE]     worst arrangement of each beam's uniform loads, JSON on stdout
 //! ```
 //!
 //! Input: `{"beams": [{"supports": [0.0, 2.0, 4.0], "ei": 28.9, "loads": [
 //!   {"kind": "uniform", "from": -0.5, "to": 4.0, "w": 5.0}, {"kind": "point", "at": 1.0, "p": 3.0}]}]}`
 //! — positions in m along the beam (beyond the end supports: cantilever overhangs), loads in kN
 //! and kN/m downward. Output of `solve`: `{"reactions": [[R0, R1, ...], ...]}`, kN upward.
+//!
+//! `arranged` builds a whole scene per beam — posts at the supports, one continuous bearer, each
+//! uniform load an arranged imposed line load (point loads are not arranged and must be absent) —
+//! and prints, per support, the sum of the cells that push it down and of those that lift it:
+//! `{"max": [[...], ...], "min": [[...], ...]}`, kN upward.
 
 use std::io::Read;
 use std::time::Instant;
@@ -96,7 +102,60 @@ fn main() -> anyhow::Result<()> {
                 })
             );
         }
-        other => anyhow::bail!("unknown mode {other:?}: use `solve [FILE]` or `time FILE [REPEAT]`"),
+        "arranged" => {
+            let (mut max, mut min) = (Vec::new(), Vec::new());
+            for (i, (s, ei, loads)) in beams.iter().enumerate() {
+                let (hi, lo) = arranged(s, *ei, loads).map_err(|e| anyhow::anyhow!("beam {i}: {e}"))?;
+                max.push(hi);
+                min.push(lo);
+            }
+            println!("{}", serde_json::json!({ "max": max, "min": min }));
+        }
+        other => anyhow::bail!("unknown mode {other:?}: use `solve [FILE]`, `time FILE [REPEAT]` or `arranged [FILE]`"),
     }
     Ok(())
+}
+
+/// The worst arrangement at each support of a continuous beam under arranged uniform loads, by
+/// the engine's scene analysis: (max, min) per support, kN upward.
+fn arranged(supports: &[f64], ei: f64, loads: &[BeamLoad]) -> anyhow::Result<(Vec<f64>, Vec<f64>)> {
+    use plateload::scene::loads::{Case, Load, LoadKind};
+    use plateload::scene::model::{BeamMethod, BeamRole, Bearer, PlateSize, Post, SupportType};
+    let mut scene = plateload::Scene::empty("beam", 1.0e6);
+    scene.support_types.push(SupportType::new("S", PlateSize { width_m: 0.15, length_m: 0.15 }, 1.0e6, None));
+    for (k, &x) in supports.iter().enumerate() {
+        scene.posts.push(Post { id: format!("P{k}"), x, y: 0.0, base_level: 0.0, top_level: 2.0, support: Some("S".into()), self_weight_kn_per_m: 0.0, section: None });
+    }
+    let (mut start, mut end) = (supports[0], supports[supports.len() - 1]);
+    for l in loads {
+        if let BeamLoad::Uniform { from, to, .. } = *l {
+            start = start.min(from);
+            end = end.max(to);
+        } else {
+            anyhow::bail!("point loads are not arranged");
+        }
+    }
+    scene.bearers.push(Bearer {
+        id: "B".into(),
+        role: BeamRole::Bearer,
+        level: 2.0,
+        posts: (0..supports.len()).map(|k| format!("P{k}")).collect(),
+        overhang_start_m: supports[0] - start,
+        overhang_end_m: end - supports[supports.len() - 1],
+        self_weight_kn_per_m: 0.0,
+        method: Some(BeamMethod::Continuous),
+        joints: None,
+        section: None,
+    });
+    scene.analysis.stiffness.bearer_knm2 = ei;
+    for (i, l) in loads.iter().enumerate() {
+        if let BeamLoad::Uniform { from, to, w } = *l {
+            let kind = LoadKind::BearerLine { bearer: "B".into(), from_m: from - supports[0], to_m: to - supports[0], kn_per_m: w };
+            scene.loads.push(Load::new(format!("q{i}"), Case::Q, kind));
+        }
+    }
+    let a = plateload::analyse(&scene).map_err(|e| anyhow::anyhow!("{e}"))?;
+    // The service combination (factor 1 on Q, no permanent load): max and min per support.
+    let service = a.combinations.iter().position(|c| c.name == "service").ok_or_else(|| anyhow::anyhow!("no service combination"))?;
+    Ok(a.plates.iter().map(|p| (p.combinations[service].max_kn, p.combinations[service].min_kn)).unzip())
 }

@@ -18,7 +18,8 @@
 //!    plate, and the colour ramp shared with the view.
 //!
 //! Beside them, **[`edit`]** holds the editor's pure helpers: undoable commands, drawing geometry,
-//! ray picking, recovery copies.
+//! ray picking, recovery copies; and **[`format`](mod@format)** writes numbers for every stage's
+//! output (never a negative zero).
 //!
 //! To find where a number is computed: loads and their values come from `scene/`, reactions
 //! from `solve/`, maxima, minima, utilisations and factors of safety from `check/`, and only
@@ -30,7 +31,7 @@
 pub mod check;
 pub mod edit;
 pub mod export;
-mod fxhash;
+pub mod format;
 pub mod scene;
 pub mod solve;
 

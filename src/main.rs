@@ -7,6 +7,7 @@ use std::process::ExitCode;
 
 use anyhow::Context;
 use clap::{Parser, Subcommand};
+use plateload::format::num;
 use plateload::{analyse, scene::io, Analysis, AnalysisError, Scene, CAUTION};
 
 #[cfg(feature = "viewer")]
@@ -38,7 +39,7 @@ enum Command {
         /// Print the result as JSON (shape documented in the README).
         #[arg(long)]
         json: bool,
-        /// Exit with code 3 if any base plate is over capacity or lifts.
+        /// Exit with code 3 if any base plate is over capacity, lifts or slides, or overturning or sliding fails.
         #[arg(long)]
         strict: bool,
     },
@@ -49,7 +50,7 @@ enum Command {
         /// Output file; standard output if omitted. Written atomically.
         #[arg(short, long)]
         output: Option<PathBuf>,
-        /// Exit with code 3 if any base plate is over capacity or lifts.
+        /// Exit with code 3 if any base plate is over capacity, lifts or slides, or overturning or sliding fails.
         #[arg(long)]
         strict: bool,
     },
@@ -72,9 +73,39 @@ enum Command {
         /// Paper size the print rules are set for.
         #[arg(long, value_enum, default_value_t = PaperArg::A4)]
         paper: PaperArg,
-        /// Exit with code 3 if any base plate is over capacity or lifts.
+        /// Exit with code 3 if any base plate is over capacity, lifts or slides, or overturning or sliding fails.
         #[arg(long)]
         strict: bool,
+    },
+    /// Map the spare capacity of every deck: at each point of a grid, the largest extra imposed
+    /// load that can be placed there before a base plate or the deck reaches a limit, and what
+    /// limits it.
+    Spare {
+        /// Scene file (RON).
+        file: PathBuf,
+        /// What is placed: `point` (default) or a rectangle WIDTHxDEPTH in metres along x and y,
+        /// e.g. 1.2x1.0 (turn it by giving 1.0x1.2).
+        #[arg(long, default_value = "point", value_parser = parse_footprint)]
+        footprint: plateload::solve::influence::Footprint,
+        /// Grid spacing, m.
+        #[arg(long, default_value_t = plateload::check::spare::DEFAULT_SPACING_M)]
+        grid: f64,
+        /// Only this deck (by id); may be given more than once.
+        #[arg(long)]
+        deck: Vec<String>,
+        /// Only this combination (by name); may be given more than once. Default: every one that
+        /// checks capacity or uplift.
+        #[arg(long)]
+        combination: Vec<String>,
+        /// Factor on the placed load for landing it, e.g. 1.2 for loads set down by crane.
+        #[arg(long, default_value_t = 1.0)]
+        dynamic: f64,
+        /// Write the map as CSV to this file (atomically) instead of printing the table.
+        #[arg(long)]
+        csv: Option<PathBuf>,
+        /// Print the map as JSON.
+        #[arg(long)]
+        json: bool,
     },
     /// Show where one base plate's load comes from, share by share.
     Trace {
@@ -82,6 +113,24 @@ enum Command {
         file: PathBuf,
         /// Id of the base plate (its post's id).
         base: String,
+    },
+    /// List the component catalogue: the shipped entries and the user's (from the config
+    /// directory and from beside the scene, if one is given), each value with its source.
+    Catalogue {
+        /// A scene file: its folder's catalogue.ron is read too.
+        scene: Option<PathBuf>,
+    },
+    /// Write a scene file again in the current form: one element per line, every value
+    /// written, the comment lines at its top kept. Prints it, or writes it with --output.
+    Rewrite {
+        /// Scene file (RON).
+        file: PathBuf,
+        /// Output file (may be the same file). Written atomically.
+        #[arg(short, long)]
+        output: Option<PathBuf>,
+        /// Go ahead although comments below the top of the file will not be kept.
+        #[arg(long)]
+        drop_comments: bool,
     },
     /// Print a built-in demo scene as RON, or list them.
     Demo {
@@ -175,6 +224,16 @@ fn generated_birdcage(cols: u32, rows: u32) -> Scene {
     plateload::scene::layout::generate(&format!("generated birdcage {cols} × {rows}"), 100.0, &spec)
 }
 
+/// A footprint: `point`, or WIDTHxDEPTH in metres.
+fn parse_footprint(s: &str) -> Result<plateload::solve::influence::Footprint, String> {
+    if s.trim().eq_ignore_ascii_case("point") {
+        return Ok(plateload::solve::influence::Footprint::POINT);
+    }
+    let (w, d) = s.split_once(['x', 'X']).ok_or_else(|| format!("footprint \"{s}\" is not `point` or WIDTHxDEPTH in metres, e.g. 1.2x1.0"))?;
+    let n = |v: &str| v.trim().parse::<f64>().ok().filter(|v| v.is_finite() && *v > 0.0 && *v <= 100.0).ok_or_else(|| format!("footprint \"{s}\": each side must be a number of metres above 0 (up to 100)"));
+    Ok(plateload::solve::influence::Footprint { x_m: n(w)?, y_m: n(d)? })
+}
+
 /// Paper sizes for `report --paper`.
 #[derive(Clone, Copy, clap::ValueEnum)]
 enum PaperArg {
@@ -247,6 +306,27 @@ fn run() -> anyhow::Result<ExitCode> {
             eprintln!("{CAUTION}");
             Ok(strict_code(strict, &analysis))
         }
+        Command::Spare { file, footprint, grid, deck, combination, dynamic, csv, json } => {
+            let (scene, analysis) = load_and_analyse(&file)?;
+            let settings = plateload::check::spare::SpareSettings { spacing_m: grid, footprint, dynamic_factor: dynamic, combinations: combination, decks: deck };
+            let map = match plateload::check::spare::spare_map(&scene, &analysis, &settings) {
+                Ok(map) => map,
+                Err(e) => {
+                    eprintln!("{}: {e}", file.display());
+                    return Ok(ExitCode::from(EXIT_INVALID));
+                }
+            };
+            if let Some(out) = csv {
+                io::write_atomic(&out, plateload::export::spare::spare_csv(&map).as_bytes()).with_context(|| format!("writing {}", out.display()))?;
+                println!("{CAUTION}
+wrote the spare-capacity map of {} deck(s) to {}", map.decks.len(), out.display());
+            } else if json {
+                println!("{}", plateload::export::spare::spare_json(&map));
+            } else {
+                print!("{}", plateload::export::spare::spare_text(&map));
+            }
+            Ok(ExitCode::SUCCESS)
+        }
         Command::Trace { file, base } => {
             let (scene, analysis) = load_and_analyse(&file)?;
             let Some(plate) = analysis.plate_index(&base) else {
@@ -255,6 +335,43 @@ fn run() -> anyhow::Result<ExitCode> {
             };
             println!("{CAUTION}\n");
             print!("{}", plateload::export::trace::trace_text(&scene, &analysis, plate));
+            Ok(ExitCode::SUCCESS)
+        }
+        Command::Catalogue { scene } => {
+            let loaded = plateload::scene::catalogue::load_for(scene.as_deref());
+            println!("component catalogue: shipped with plateload{}", loaded.files.iter().map(|f| format!(" + {}", f.display())).collect::<String>());
+            if let Some(config) = plateload::scene::catalogue::config_path().filter(|p| !p.exists()) {
+                println!("(your own entries go in {}, or in catalogue.ron beside a scene)", config.display());
+            }
+            println!();
+            print!("{}", plateload::scene::catalogue::list_text(&loaded.catalogue));
+            for n in &loaded.notes {
+                println!("note: {n}");
+            }
+            for p in &loaded.problems {
+                eprintln!("problem: {p}");
+            }
+            Ok(if loaded.problems.is_empty() { ExitCode::SUCCESS } else { ExitCode::from(EXIT_INVALID) })
+        }
+        Command::Rewrite { file, output, drop_comments } => {
+            let text = std::fs::read_to_string(&file).with_context(|| format!("reading {}", file.display()))?;
+            let later = io::comments_after_header(&text);
+            if !later.is_empty() && !drop_comments {
+                let lines: Vec<String> = later.iter().map(|l| l.to_string()).collect();
+                anyhow::bail!(
+                    "{}: the comments on line(s) {} would not be kept (only those at the top of the file are); move them to the top, or pass --drop-comments",
+                    file.display(),
+                    lines.join(", ")
+                );
+            }
+            let out = io::rewrite_scene(&text, &file.display().to_string())?;
+            match output {
+                Some(path) => {
+                    io::write_atomic(&path, out.as_bytes()).with_context(|| format!("writing {}", path.display()))?;
+                    eprintln!("wrote {}", path.display());
+                }
+                None => print!("{out}"),
+            }
             Ok(ExitCode::SUCCESS)
         }
         Command::Demo { name } => {
@@ -301,7 +418,9 @@ fn run() -> anyhow::Result<ExitCode> {
 fn strict_code(strict: bool, analysis: &Analysis) -> ExitCode {
     if strict && analysis.any_failure() {
         let bad = analysis.plates.iter().filter(|p| !p.status.is_ok()).count();
-        eprintln!("strict check failed: {bad} base plate(s) over capacity or lifting");
+        let whole = [(analysis.stability.fails(), "overturning"), (analysis.sliding.fails(), "sliding")].iter().filter(|w| w.0).map(|w| w.1).collect::<Vec<_>>().join(" and ");
+        let whole = if whole.is_empty() { String::new() } else { format!("; {whole} fails") };
+        eprintln!("strict check failed: {bad} base plate(s) over capacity, lifting or sliding{whole}");
         ExitCode::from(EXIT_STRICT_FAILED)
     } else {
         ExitCode::SUCCESS
@@ -351,28 +470,90 @@ fn validate(file: &Path) -> anyhow::Result<ExitCode> {
 fn solve_text(a: &Analysis) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "{}\n{CAUTION}\n", a.scene_name);
+    let _ = writeln!(s, "findings at a glance:");
+    for f in plateload::export::findings::findings(a) {
+        let _ = writeln!(s, "  {:<11} {}: {}", f.verdict.label(), f.check, f.text);
+    }
+    let _ = writeln!(s);
     let _ = write!(s, "{:<10} {:>8} {:>8} {:>9} {:>9} {:>9}", "base", "x m", "y m", "G kN", "Q kN", "W kN");
     for c in &a.combinations {
         let _ = write!(s, " {:>21}", format!("{} max/min kN", c.name));
     }
     let _ = writeln!(s, " {:>7} {:>9} {:>12}  {:<11} method (for max)", "util %", "kPa", "governs", "status");
     for (i, p) in a.plates.iter().enumerate() {
-        let _ = write!(s, "{:<10} {:>8.3} {:>8.3} {:>9.3} {:>9.3} {:>9.3}", p.id, p.x, p.y, p.case_kn[0], p.case_kn[1], p.case_kn[2]);
+        let _ = write!(s, "{:<10} {:>8.3} {:>8.3} {:>9.3} {:>9.3} {:>9.3}", p.id, num(p.x), num(p.y), num(p.case_kn[0]), num(p.case_kn[1]), num(p.case_kn[2]));
         for c in &p.combinations {
-            let _ = write!(s, " {:>10.3}/{:<10.3}", c.max_kn, c.min_kn);
+            let _ = write!(s, " {:>10.3}/{:<10.3}", num(c.max_kn), num(c.min_kn));
         }
         let g = p.governing();
-        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<11} {}", 100.0 * g.utilisation, g.bearing_kpa, a.combinations[p.governing].name, p.status.label(), a.governing_method_label(i));
+        let _ = writeln!(s, " {:>7.1} {:>9.1} {:>12}  {:<11} {}", num(100.0 * g.utilisation), num(g.bearing_kpa), a.combinations[p.governing].name, p.status.label(), a.governing_method_label(i));
+    }
+    let on_structures: Vec<String> = a.plates.iter().filter_map(|p| p.on_structure.as_ref().map(|e| format!("{} on {e}", p.id))).collect();
+    if !on_structures.is_empty() {
+        let _ = writeln!(s, "plates on existing structures (loads for the permanent-works designer): {}", on_structures.join(", "));
+    }
+    if !a.lifts.is_empty() {
+        let _ = writeln!(s, "\nposts standing on other members (load they pass on at their base; negative: pulls up):");
+        let _ = write!(s, "{:<10} {:<28} {:>9} {:>9} {:>9}", "post", "stands on", "G kN", "Q kN", "W kN");
+        for c in &a.combinations {
+            let _ = write!(s, " {:>21}", format!("{} max/min kN", c.name));
+        }
+        let _ = writeln!(s, "  status");
+        for l in &a.lifts {
+            let _ = write!(s, "{:<10} {:<28} {:>9.3} {:>9.3} {:>9.3}", l.id, l.stands_on, num(l.case_kn[0]), num(l.case_kn[1]), num(l.case_kn[2]));
+            for c in &l.combinations {
+                let _ = write!(s, " {:>10.3}/{:<10.3}", num(c.max_kn), num(c.min_kn));
+            }
+            let status = if l.status.uplift { "PULLS UP: tie it down or prop it" } else if l.status.over { "OVER its support's safe working load" } else { "OK" };
+            let _ = writeln!(s, "  {status}");
+        }
     }
     if let Some(w) = a.worst_plate() {
         let p = &a.plates[w];
         let g = p.governing();
-        let by = if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" };
-        let _ = writeln!(s, "\nworst base: {} at {:.1}% ({by}, {})", p.id, 100.0 * g.utilisation, a.combinations[p.governing].name);
+        let _ = writeln!(s, "\nworst base: {} at {:.1}% ({}, {})", p.id, num(100.0 * g.utilisation), g.governed_by(), a.combinations[p.governing].name);
+        for note in a.arrangements_at(w) {
+            let _ = writeln!(s, "  arrangement at {}: {}", p.id, note.words());
+        }
     }
     let over = a.plates.iter().filter(|p| p.status.over).count();
     let uplift = a.plates.iter().filter(|p| p.status.uplift).count();
-    let _ = writeln!(s, "over capacity: {over}   lifting: {uplift}   of {} base plates", a.plates.len());
+    let slides = a.plates.iter().filter(|p| p.status.slides).count();
+    let _ = writeln!(s, "over capacity: {over}   lifting: {uplift}   sliding: {slides}   of {} base plates", a.plates.len());
+    let g = &a.ground;
+    let _ = write!(s, "ground: ");
+    match g.allowable_kpa {
+        Some(q) => {
+            let _ = write!(s, "allowable at formation {:.1} kPa ({})", num(q), g.basis.label());
+        }
+        None => {
+            let _ = write!(s, "no allowable at formation entered: bearing NOT CHECKED (kPa column for information)");
+        }
+    }
+    if let Some(l) = g.layer {
+        let added = if g.layer_weight_added_kpa() > 0.0 { "added at formation" } else { "not added" };
+        let _ = write!(s, "; granular layer {:.3} m at {:.1} kN/m³ = {:.2} kPa {added}", num(l.thickness_m), num(l.unit_weight_kn_m3), num(l.self_weight_kpa()));
+        match l.allowable_kpa {
+            Some(q) => {
+                let _ = write!(s, "; allowable on the layer {:.1} kPa", num(q));
+            }
+            None => {
+                let _ = write!(s, "; no allowable on the layer entered: layer top NOT CHECKED");
+            }
+        }
+    }
+    let _ = writeln!(s);
+    let groups = g.formation_groups.iter().chain(&g.surface_groups).count();
+    if groups > 0 {
+        let _ = writeln!(s, "overlapping bearing areas: {groups} group(s), each plate checked on the larger of its own pressure and its group's total over the union");
+    }
+    let whole: Vec<&str> = a.whole_loads.iter().map(String::as_str).collect();
+    let _ = writeln!(
+        s,
+        "imposed loads: each in its worst arrangement at every plate{}; {}",
+        if whole.is_empty() { String::new() } else { format!(", except {} (applied whole, as set)", whole.join(", ")) },
+        a.working_levels.label()
+    );
     let methods: Vec<&str> = (0..a.method_count()).map(|m| a.method_label(m)).collect();
     if methods.len() > 1 {
         let _ = writeln!(s, "method: envelope of {} (each max and min is the worse; G/Q/W columns: {})", methods.join("; "), methods[0]);
@@ -383,47 +564,139 @@ fn solve_text(a: &Analysis) -> String {
     let tagged = a.equilibrium_by_method.iter().enumerate().flat_map(|(m, eq)| eq.iter().map(move |e| (m, e)));
     for (m, e) in tagged {
         let tag = if methods.len() > 1 { format!(" [{}]", methods[m]) } else { String::new() };
+        if !e.one_state {
+            let _ = writeln!(
+                s,
+                "  {}{tag}: support by support, each two-span model balances (relative {:.1e}); its reactions ({:.3} kN) exceed the applied {:.3} kN by design",
+                e.case,
+                e.relative,
+                num(e.reactions.force[2]),
+                num(e.applied.down())
+            );
+            continue;
+        }
         let _ = writeln!(
             s,
             "  {}{tag}: applied {:>10.3} kN down, reactions {:>10.3} kN up, |ΣF| {:.1e} kN, |ΣM| {:.1e} kN·m, relative {:.1e}",
             e.case,
-            tidy(e.applied.down()),
-            tidy(e.reactions.force[2]),
-            e.force_residual_kn,
-            e.moment_residual_knm,
-            e.relative
+            num(e.applied.down()),
+            num(e.reactions.force[2]),
+            num(e.force_residual_kn),
+            num(e.moment_residual_knm),
+            num(e.relative)
         );
     }
     let horizontal = a.horizontal_base_shear();
     if !horizontal.is_empty() {
         let _ = writeln!(s, "base shear under each horizontal load (plates on the structure, kN):");
         for (id, case, [x, y]) in horizontal {
-            let _ = writeln!(s, "  {id} ({case}): ({:.3}, {:.3}), {:.3} kN", tidy(x), tidy(y), x.hypot(y));
+            let _ = writeln!(s, "  {id} ({case}): ({:.3}, {:.3}), {:.3} kN", num(x), num(y), num(x.hypot(y)));
         }
     }
     let st = &a.stability;
-    let _ = write!(s, "\nstability: permanent load {:.3} kN", st.permanent_kn);
+    let _ = write!(s, "\nstability: permanent load {:.3} kN", num(st.permanent_kn));
     if let Some((x, y)) = st.centre_of_gravity {
-        let _ = write!(s, ", centre of gravity ({x:.3}, {y:.3})");
+        let _ = write!(s, ", centre of gravity ({:.3}, {:.3})", num(x), num(y));
     }
-    let _ = writeln!(s, ", target factor {:.2}", st.target_factor);
-    for d in &st.directions {
-        match d.factor {
-            None => {
-                let _ = writeln!(s, "  tipping {}: nothing overturns", d.direction);
+    let e = st.equilibrium;
+    let _ = writeln!(s, ", target factor {:.2}; equilibrium γG {:.2}/{:.2}, γQ {:.2}, γW {:.2}", num(st.target_factor), num(e.g_unfavourable), num(e.g_favourable), num(e.q), num(e.w));
+    if let Some(why) = &st.refused {
+        let _ = writeln!(s, "  overturning NOT CHECKED: {why}");
+    }
+    let mut quiet = 0;
+    for structure in &st.structures {
+        if structure.axes.iter().all(|x| x.factor.is_none() && x.equ_utilisation.is_none()) {
+            quiet += 1;
+            continue;
+        }
+        let _ = writeln!(s, "  {} on plates {}:", structure.label, structure.hull.join(" – "));
+        for ax in &structure.axes {
+            let Some(f) = ax.factor else {
+                let _ = writeln!(s, "    tipping {} about {}: nothing overturns", ax.towards, ax.about);
+                continue;
+            };
+            let overturning = ax.permanent_destabilising_knm + ax.imposed_destabilising_knm + ax.horizontal_destabilising_knm;
+            let equ = ax.equ_utilisation.map_or_else(|| "-".to_owned(), |u| format!("{:.2}", num(u)));
+            let verdict = if ax.passes() {
+                "meets both".to_owned()
+            } else {
+                match &ax.kentledge {
+                    Some(k) => match (k.needed_kn, &k.cannot) {
+                        (Some(w), _) => format!("FAILS: needs {:.2} kN kentledge over {} (lever {:.3} m), secured", num(w), k.plates.iter().take(6).cloned().collect::<Vec<_>>().join(", "), num(k.lever_m)),
+                        (None, Some(c)) => format!("FAILS: {c}"),
+                        (None, None) => "FAILS".to_owned(),
+                    },
+                    None => "FAILS".to_owned(),
+                }
+            };
+            let _ = writeln!(
+                s,
+                "    tipping {} about {}: restoring {:.3} / overturning {:.3} kN·m (G {:.3}, Q {:.3}, W {:.3}) = {:.2}; E_dst/E_stb {:.3}/{:.3} = {equ}; {verdict}",
+                ax.towards,
+                ax.about,
+                num(ax.permanent_stabilising_knm),
+                num(overturning),
+                num(ax.permanent_destabilising_knm),
+                num(ax.imposed_destabilising_knm),
+                num(ax.horizontal_destabilising_knm),
+                num(f),
+                num(ax.equ_destabilising_knm),
+                num(ax.equ_stabilising_knm)
+            );
+        }
+    }
+    if quiet > 0 {
+        let _ = writeln!(s, "  {quiet} structure(s): nothing overturns");
+    }
+    let sl = &a.sliding;
+    if !sl.checks.is_empty() {
+        let _ = writeln!(s, "sliding (target factor {:.2}):", num(sl.target_factor));
+        for c in &sl.checks {
+            match &c.not_checked {
+                Some(why) => {
+                    let _ = writeln!(s, "  {} {}: NOT CHECKED: {why}", c.structure, c.towards);
+                }
+                None => {
+                    let _ = writeln!(
+                        s,
+                        "  {} {}: friction {:.3} / horizontal {:.3} kN = {:.2}; factored {:.3} against {:.3} kN; {}",
+                        c.structure,
+                        c.towards,
+                        num(c.friction_kn),
+                        num(c.horizontal_kn),
+                        num(c.factor.unwrap_or(0.0)),
+                        num(c.equ_horizontal_kn),
+                        num(c.equ_friction_kn),
+                        if c.meets_target && c.equ_ok { "meets both" } else { "FAILS" }
+                    );
+                }
             }
-            Some(f) => {
-                let k = match d.kentledge_kn {
-                    Some(k) if k > 0.0 => format!("needs {k:.2} kN kentledge over the opposite edge"),
-                    Some(_) => "meets the target".into(),
-                    None => "no base width to add kentledge on".into(),
-                };
-                let _ = writeln!(
-                    s,
-                    "  tipping {} about edge {:.3} m: restoring {:.3} kN·m / overturning {:.3} kN·m = {:.2}; {k}",
-                    d.direction, d.edge_m, d.restoring_knm, d.overturning_knm, f
-                );
-            }
+        }
+    }
+    let held: Vec<&plateload::PlateResult> = a.plates.iter().filter(|p| p.hold_down.is_some()).collect();
+    if !held.is_empty() {
+        let _ = writeln!(s, "hold-down of lifting plates:");
+        for p in held {
+            let h = p.hold_down.expect("filtered");
+            let k = h.kentledge_kn.map_or_else(String::new, |k| format!(" or {:.3} kN secured kentledge", num(k)));
+            let _ = writeln!(s, "  {}: anchor {:.3} kN{k} ({})", p.id, num(h.anchor_kn), a.combinations[h.combination].name);
+        }
+    }
+    let restrained: Vec<&plateload::PlateResult> = a.plates.iter().filter(|p| p.status.slides).collect();
+    if !restrained.is_empty() {
+        let _ = writeln!(s, "plates to restrain against sliding:");
+        for p in restrained {
+            let sl = p.sliding.as_ref().expect("a sliding plate has its check");
+            let _ = writeln!(
+                s,
+                "  {}: shear {:.3} kN, least vertical {:.3} kN, μ {:.2}: restraint {:.3} kN ({})",
+                p.id,
+                num(sl.shear_kn),
+                num(sl.normal_kn),
+                num(sl.mu.unwrap_or(0.0)),
+                num(sl.restraint_kn),
+                sl.towards
+            );
         }
     }
     if !a.warnings.is_empty() {
@@ -433,11 +706,6 @@ fn solve_text(a: &Analysis) -> String {
         }
     }
     s
-}
-
-/// A value for printing: rounding noise around zero shown as 0.
-fn tidy(v: f64) -> f64 {
-    if v.abs() < 5e-10 { 0.0 } else { v }
 }
 
 #[cfg(feature = "viewer")]

@@ -1,7 +1,7 @@
 //! Combinations, utilisation against the entered capacities, schedule and JSON.
 
 use plateload::scene::loads::{Case, LoadKind};
-use plateload::scene::model::{GranularLayer, LoadSpread, PlateSize};
+use plateload::scene::model::{AllowableBasis, GranularLayer, LoadSpread, PlateSize};
 use plateload::analyse;
 
 use crate::util::*;
@@ -12,7 +12,8 @@ fn utilisation_is_the_worse_of_jack_and_ground() {
     // 150 × 150 plate through 150 mm granular fill → 222.2 kPa; with 100 kPa allowable the
     // ground governs at 222 %; the 30 kN jack is at 67 %.
     let mut s = bare_scene();
-    s.site.granular_layer = Some(GranularLayer { thickness_m: 0.15, spread: LoadSpread::TwoToOne });
+    s.site.granular_layer = Some(GranularLayer::new(0.15, LoadSpread::TwoToOne));
+    s.site.allowable_basis = AllowableBasis::Net;
     s.posts = vec![post("P", 0.0, 0.0, 2.0)];
     s.loads.push(load("g", Case::G, LoadKind::PostTop { post: "P".into(), kn: 20.0 }));
     let a = analyse(&s).unwrap();
@@ -20,7 +21,7 @@ fn utilisation_is_the_worse_of_jack_and_ground() {
     let service = &p.combinations[0];
     close("bearing kPa", service.bearing_kpa, 20.0 / 0.09, 1e-9);
     close("jack", service.load_utilisation, 20.0 / 30.0, 1e-12);
-    close("ground", service.bearing_utilisation, 20.0 / 0.09 / 100.0, 1e-12);
+    close("ground", service.bearing_utilisation.unwrap(), 20.0 / 0.09 / 100.0, 1e-12);
     assert!(p.status.over && !p.status.uplift);
     assert_eq!(a.combinations[p.governing].name, "service");
     // A 225 × 450 sole board through the same layer: (0.375 × 0.6) m² → 88.9 kPa, OK.
@@ -28,6 +29,11 @@ fn utilisation_is_the_worse_of_jack_and_ground() {
     let a = analyse(&s).unwrap();
     close("bearing with sole", a.plates[0].governing().bearing_kpa, 20.0 / (0.375 * 0.6), 1e-9);
     assert!(a.plates[0].status.is_ok());
+    // Gross: the layer's own weight is added at formation, γ·z = 19.5 × 0.15 = 2.925 kPa
+    // (default unit weight, the top of EN 1991-1-1 Table A.6's 18.5–19.5 kN/m³ for hardcore).
+    s.site.allowable_basis = AllowableBasis::Gross;
+    let a = analyse(&s).unwrap();
+    close("gross", a.plates[0].governing().bearing_kpa, 20.0 / (0.375 * 0.6) + 19.5 * 0.15, 1e-9);
 }
 
 #[test]
@@ -75,7 +81,7 @@ fn schedule_totals_equal_the_applied_load() {
         }
         for r in &body {
             let status = &r[col("status")];
-            assert!(["OK", "OVER", "UPLIFT", "OVER+UPLIFT"].contains(&status), "{status}");
+            assert!(["OK", "OVER", "UPLIFT", "OVER+UPLIFT", "SLIDES", "OVER+SLIDES", "UPLIFT+SLIDES", "OVER+UPLIFT+SLIDES"].contains(&status), "{status}");
         }
     }
 }
@@ -86,12 +92,12 @@ fn json_has_the_documented_shape() {
     let scene = plateload::scene::io::read_scene(&scene_path("larkfield-falsework.ron")).unwrap();
     let a = analyse(&scene).unwrap();
     let v: serde_json::Value = serde_json::from_str(&plateload::export::json::analysis_json(&a)).unwrap();
-    assert_eq!(v["plateload_json"], 1);
+    assert_eq!(v["plateload_json"], 2);
     assert_eq!(v["caution"], plateload::CAUTION);
     let bases = v["bases"].as_array().unwrap();
     assert_eq!(bases.len(), scene.posts.len());
     for b in bases {
-        for key in ["id", "x", "y", "base_level", "support", "swl_kn", "bearing_area_m2", "allowable_kpa", "cases_kn", "shear_kn", "combinations", "utilisation", "bearing_kpa", "governing_combination", "status"] {
+        for key in ["id", "x", "y", "base_level", "support", "swl_kn", "bearing_area_m2", "plate_area_m2", "allowable_kpa", "cases_kn", "shear_kn", "combinations", "utilisation", "bearing_kpa", "governing_combination", "status"] {
             assert!(!b[key].is_null(), "base field {key} missing: {b}");
         }
         for case in ["G", "Q", "W"] {
@@ -106,4 +112,29 @@ fn json_has_the_documented_shape() {
     assert_eq!(v["equilibrium"].as_array().unwrap().len(), 3);
     assert!(v["equilibrium"][0]["relative"].as_f64().unwrap() <= 1e-9);
     assert!(v["stability"]["centre_of_gravity"].is_array());
+    assert!(v["stability"]["structures"].is_array());
+    assert!(v["findings"].as_array().is_some_and(|f| !f.is_empty()));
+    assert!(v["ground"]["basis"].is_string());
+    assert!(v["sliding"]["checks"].is_array());
+}
+
+#[test]
+fn schedule_fields_with_commas_quotes_and_line_breaks_read_back_whole() {
+    // source: RFC 4180 (fields with commas, quotes or line breaks are quoted, quotes doubled,
+    // records end in CRLF); read back with the csv crate's reader
+    let mut scene = plateload::scene::io::read_scene(&scene_path("tannery-loading-bay.ron")).unwrap();
+    scene.site.name = "Pier 4, \"north\" side\nphase 2".into();
+    let odd = "jack, 40 \"kN\"";
+    scene.posts.iter_mut().for_each(|p| p.support = Some(odd.into()));
+    scene.support_types[0].id = odd.into();
+    let a = analyse(&scene).unwrap();
+    let text = plateload::export::schedule::schedule_csv(&a);
+    assert!(text.contains("\"Pier 4, \"\"north\"\" side\nphase 2\""), "{text}");
+    let bare_lf = text.match_indices('\n').filter(|(i, _)| *i == 0 || text.as_bytes()[i - 1] != b'\r').count();
+    assert_eq!(bare_lf, 1, "only the line break inside the quoted name is a bare LF");
+    let mut rdr = csv::ReaderBuilder::new().has_headers(false).flexible(true).from_reader(text.as_bytes());
+    let rows: Vec<csv::StringRecord> = rdr.records().map(|r| r.unwrap()).collect();
+    assert_eq!(&rows[0][1], scene.site.name);
+    let head = rows.iter().position(|r| r.get(0) == Some("id")).unwrap();
+    assert!(rows[head + 1..].iter().filter(|r| r.get(0) != Some("TOTAL")).all(|r| &r[4] == odd));
 }

@@ -57,7 +57,14 @@ fn report_of_each_demo_holds_the_key_figures() {
             assert_eq!(g.contains("url(#hatch)"), matches!(cue, Cue::Over | Cue::OverAndUplift), "{name}: plate {} over cue", p.id);
             assert_eq!(g.contains("UPLIFT"), matches!(cue, Cue::Uplift | Cue::OverAndUplift), "{name}: plate {} uplift cue", p.id);
             assert_eq!(g.contains("<path"), matches!(cue, Cue::Uplift | Cue::OverAndUplift), "{name}: plate {} uplift marker", p.id);
+            // One meaning everywhere, as in the editor: a round ring is uplift, a square frame
+            // over capacity.
+            assert_eq!(g.contains("<circle"), matches!(cue, Cue::Uplift | Cue::OverAndUplift), "{name}: plate {} uplift ring", p.id);
         }
+        assert!(html.contains("over capacity: hatched, square frame") && html.contains("lifts (uplift): round ring, upward marker"), "{name}: legend words");
+        assert!(!html.contains("bold ring"), "{name}: a ring means uplift only");
+        // The demos' safe working loads are examples: the inputs say so beside the value.
+        assert!(html.contains("EXAMPLE VALUE — replace with the manufacturer's"), "{name}: example SWL not marked");
         for b in Band::ALL {
             assert!(html.contains(&b.label()), "{name}: legend lacks {}", b.label());
         }
@@ -69,9 +76,9 @@ fn report_of_each_demo_holds_the_key_figures() {
         for e in &a.equilibrium {
             assert!(html.contains(&format!("{:.1e}", e.relative)), "{name}: residual of case {}", e.case);
         }
-        for d in &a.stability.directions {
+        for d in a.stability.structures.iter().flat_map(|s| &s.axes) {
             if let Some(f) = d.factor {
-                assert!(html.contains(&format!("{f:.2}")), "{name}: factor {f:.2} tipping {}", d.direction);
+                assert!(html.contains(&format!("{f:.2}")), "{name}: factor {f:.2} tipping {} about {}", d.towards, d.about);
             }
         }
         for c in &a.combinations {
@@ -91,9 +98,10 @@ fn kentledge_and_uplift_of_the_sheeted_face_are_reported() {
     let (_, scene) = demos().into_iter().find(|(n, _)| n.starts_with("harbour")).unwrap();
     let a = analyse(&scene).unwrap();
     let html = report_html(&scene, &a, &opts(""));
-    let need = a.stability.directions.iter().filter_map(|d| d.kentledge_kn).fold(0.0, f64::max);
+    let need = a.stability.structures.iter().flat_map(|s| &s.axes).filter_map(|d| d.kentledge.as_ref().and_then(|k| k.needed_kn)).fold(0.0, f64::max);
     assert!(need > 0.0, "the demo needs kentledge");
-    assert!(html.contains(&format!("add {need:.2} kN over the opposite edge")), "kentledge {need:.2} not reported");
+    assert!(html.contains(&format!("needs {need:.2} kN kentledge over plates")), "kentledge {need:.2} not in the findings");
+    assert!(html.contains(&format!("<strong>{need:.2}</strong>")), "kentledge {need:.2} not in the kentledge table");
     for p in a.plates.iter().filter(|p| p.status.uplift) {
         let lift = p.combinations.iter().filter(|c| c.status.uplift).map(|c| c.min_kn).fold(f64::INFINITY, f64::min);
         assert!(plate_group(&html, &p.id).contains(&format!("min {lift:.2} kN")), "plate {} uplift {lift:.2}", p.id);

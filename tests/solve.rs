@@ -152,12 +152,16 @@ fn overturning_factor_and_kentledge() {
     }
     s.loads.push(load("H", Case::W, LoadKind::Horizontal { x: 1.0, y: 0.0, level: 5.0, kn: 2.0, direction: PLUS_X }));
     let a = analyse(&s).unwrap();
-    let plus_x = a.stability.directions.iter().find(|d| d.direction == "+x").unwrap();
-    close("restoring", plus_x.restoring_knm, 20.0, 1e-12);
-    close("overturning", plus_x.overturning_knm, 10.0, 1e-12);
+    let axes = &a.stability.structures[0].axes;
+    let plus_x = axes.iter().find(|d| d.towards == "+x").unwrap();
+    close("restoring", plus_x.permanent_stabilising_knm, 20.0, 1e-12);
+    close("overturning", plus_x.horizontal_destabilising_knm, 10.0, 1e-12);
     close("factor", plus_x.factor.unwrap(), 2.0, 1e-12);
-    close("kentledge", plus_x.kentledge_kn.unwrap(), 5.0, 1e-12);
-    assert!(a.stability.directions.iter().find(|d| d.direction == "-x").unwrap().factor.is_none());
+    let k = plus_x.kentledge.as_ref().unwrap();
+    close("kentledge", k.needed_kn.unwrap(), 5.0, 1e-12);
+    assert_eq!(k.plates, ["W"]);
+    close("lever", k.lever_m, 2.0, 1e-12);
+    assert!(axes.iter().find(|d| d.towards == "-x").unwrap().factor.is_none());
 }
 
 #[test]
@@ -294,11 +298,12 @@ fn trace_adds_up_to_the_plate_load() {
     // common practice, no source: the shares of a reaction sum to the reaction.
     for (name, scene) in demo_scenes() {
         let a = analyse(&scene).unwrap();
-        let mut sums = vec![[0.0; 3]; a.plates.len()];
+        let mut sums = vec![[0.0; 3]; scene.posts.len()];
         for c in &a.solution.contributions {
-            sums[c.plate as usize][a.solution.items[c.item as usize].case.index()] += c.kn;
+            sums[c.post as usize][a.solution.items[c.item as usize].case.index()] += c.kn;
         }
-        for (p, s) in a.plates.iter().zip(&sums) {
+        for p in &a.plates {
+            let s = sums[p.post];
             for k in 0..3 {
                 close(&format!("{name} {} case {k}", p.id), s[k], p.case_kn[k], 1e-9);
             }

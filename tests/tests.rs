@@ -7,8 +7,18 @@ mod util;
 mod solve;
 // Combinations, utilisation, bearing, schedule and JSON.
 mod check;
+// Overturning, kentledge, sliding, hold-down and ground bearing against hand calculations.
+mod stability;
 // Scene files: syntax errors with positions, round trips, atomic saves.
 mod io;
+// The component catalogue: shipped values against their sources, user catalogues, loader errors.
+mod catalogue;
+// Loads through lifts: spliced standards, transfer members, existing structures.
+mod lifts;
+// Imposed loads in their worst arrangement.
+mod arrangements;
+// The spare-capacity map over the decks.
+mod spare;
 // Continuous members, the method envelope and its outputs.
 mod continuous;
 // Validation: every problem at once, with element ids.

@@ -26,13 +26,13 @@ pub fn demo_scenes() -> Vec<(String, Scene)> {
 /// An empty scene with one weightless support type "S" (SWL 30 kN, 150 × 150 plate).
 pub fn bare_scene() -> Scene {
     let mut s = Scene::empty("test site", 100.0);
-    s.support_types.push(SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: None });
+    s.support_types.push(SupportType::new("S", PlateSize { width_m: 0.15, length_m: 0.15 }, 30.0, None));
     s
 }
 
 /// A weightless post.
 pub fn post(id: &str, x: f64, y: f64, top: f64) -> Post {
-    Post { id: id.into(), x, y, base_level: 0.0, top_level: top, support: Some("S".into()), self_weight_kn_per_m: 0.0 }
+    Post { id: id.into(), x, y, base_level: 0.0, top_level: top, support: Some("S".into()), self_weight_kn_per_m: 0.0, section: None }
 }
 
 /// A weightless bearer on the given posts.
@@ -46,17 +46,19 @@ pub fn bearer(id: &str, level: f64, posts: &[&str]) -> Bearer {
         overhang_end_m: 0.0,
         self_weight_kn_per_m: 0.0,
         method: None,
+        joints: None,
+        section: None,
     }
 }
 
 /// A weightless deck.
 pub fn deck(id: &str, level: f64, x: (f64, f64), y: (f64, f64), bearers: &[&str]) -> Deck {
-    Deck { id: id.into(), level, extent: Rect { x, y }, bearers: bearers.iter().map(|b| b.to_string()).collect(), self_weight_kpa: 0.0, method: None }
+    Deck { id: id.into(), level, extent: Rect { x, y }, bearers: bearers.iter().map(|b| b.to_string()).collect(), self_weight_kpa: 0.0, method: None, joints: None, decking: None }
 }
 
 /// A load.
 pub fn load(id: &str, case: Case, kind: LoadKind) -> Load {
-    Load { id: id.into(), case, kind }
+    Load::new(id, case, kind)
 }
 
 /// A brace between two posts from level 0 to `top`.

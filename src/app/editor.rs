@@ -887,7 +887,7 @@ pub fn tool_click(doc: &SceneDoc, tools: &mut ToolState, click: &ViewClick) -> R
             let id = place::fresh_id(scene, "Load-");
             let p = h.point;
             let kind = load_at(doc, tools, kind, h, [snap(p[0]), snap(p[1]), p[2]])?;
-            Some(add(Element::Load(Load { id, case: tools.case, kind })))
+            Some(add(Element::Load(Load::new(id, tools.case, kind))))
         }
     })
 }

@@ -11,10 +11,12 @@
 //! the scene → recolour. The egui panels run afterwards in `EguiPrimaryContextPass` and their
 //! actions are applied at the start of the next frame.
 
+pub mod catalogue;
 pub mod doc;
 pub mod editor;
 pub mod panels;
 pub mod settings;
+pub mod shipped;
 pub mod snapshot;
 pub mod view;
 
@@ -160,12 +162,19 @@ pub enum EditorSystems {
     Recolour,
 }
 
-/// The editor's plugins: document and commands, 3D view, panels.
+/// The editor's plugins: document and commands, 3D view, panels, the catalogue, and the fonts
+/// and window icon shipped in `assets/`.
 pub struct PlateloadPlugins;
 
 impl PluginGroup for PlateloadPlugins {
     fn build(self) -> PluginGroupBuilder {
-        PluginGroupBuilder::start::<Self>().add(EditorPlugin).add(settings::SettingsPlugin).add(ViewPlugin).add(PanelsPlugin)
+        PluginGroupBuilder::start::<Self>()
+            .add(EditorPlugin)
+            .add(settings::SettingsPlugin)
+            .add(ViewPlugin)
+            .add(PanelsPlugin)
+            .add(catalogue::CataloguePlugin)
+            .add(shipped::ShippedAssetsPlugin)
     }
 }
 

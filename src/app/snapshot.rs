@@ -136,7 +136,7 @@ fn run_picture(
         };
         let id = "timing-load";
         let edit = if state.edits_done % 2 == 0 {
-            Edit::Add(Element::Load(plateload::Load { id: id.into(), case: plateload::Case::Q, kind: plateload::LoadKind::PostTop { post: post.id.clone(), kn: 5.0 } }))
+            Edit::Add(Element::Load(plateload::Load::new(id, plateload::Case::Q, plateload::LoadKind::PostTop { post: post.id.clone(), kn: 5.0 })))
         } else {
             Edit::Delete { targets: vec![ElementRef::new(plateload::scene::model::ElementKind::Load, id)], mode: Default::default() }
         };

@@ -315,7 +315,7 @@ fn the_view_follows_edits_in_place_and_recolours_plates() {
     // At least the 4 posts with their base and sole plates, the 8 ledgers and 2 transoms on them.
     assert!(updated >= 4 * 3 + 8 + 2, "{updated} entities updated");
     // Overload A4 with a 40 kN point load on its top: over its 30 kN jack.
-    let load = Load { id: "test-load".into(), case: Case::Q, kind: LoadKind::PostTop { post: "A4".into(), kn: 40.0 } };
+    let load = Load::new("test-load", Case::Q, LoadKind::PostTop { post: "A4".into(), kn: 40.0 });
     act(&mut app, Action::Edit { edit: Edit::Add(Element::Load(load)), merge: None, select: None });
     let d = doc(&app);
     let a = d.analysis().unwrap();
@@ -523,4 +523,45 @@ fn combinations_that_do_not_check_capacity_read_as_kilonewtons_only() {
     // The demo's factored loads exceed some jack's working load: shown as a percentage this
     // would read as a failure (or, with OK, as a pass) that the check never made.
     assert!(a.plates.iter().any(|p| p.combinations[unchecked].utilisation > 1.0 && !p.combinations[unchecked].status.over));
+}
+
+#[test]
+fn the_catalogue_follows_the_open_file() {
+    // common practice, no source: a catalogue.ron beside the scene adds to the shipped one,
+    // and opening a file elsewhere reads that folder's instead
+    let site = temp_dir("catalogue-site");
+    let other = temp_dir("catalogue-other");
+    std::fs::write(site.join("catalogue.ron"), r#"(members: [(id: "site-beam", self_weight_kn_per_m: 0.2, confidence: Confirmed, source: "supplier's sheet")])"#).unwrap();
+    let first = site.join("a.ron");
+    let second = other.join("b.ron");
+    plateload::scene::io::save_scene(&first, &demo()).unwrap();
+    plateload::scene::io::save_scene(&second, &demo()).unwrap();
+    let mut app = App::new();
+    app.add_plugins(MinimalPlugins);
+    app.insert_resource(SceneDoc::new(demo(), Some(first.clone())));
+    app.add_plugins(super::catalogue::CataloguePlugin);
+    app.update();
+    let cat = |app: &App| app.world().resource::<super::catalogue::EditorCatalogue>().loaded.clone();
+    assert!(cat(&app).catalogue.member("site-beam").is_some(), "{:?}", cat(&app).files);
+    assert!(cat(&app).catalogue.jack(plateload::scene::catalogue::DEFAULT_JACK).is_some(), "shipped entries stay");
+    app.world_mut().resource_mut::<SceneDoc>().path = Some(second);
+    app.update();
+    assert!(cat(&app).catalogue.member("site-beam").is_none());
+}
+
+#[test]
+fn the_shipped_icon_and_fonts_load() {
+    // source: PNG specification (ISO/IEC 15948): the icon decodes to 8-bit RGBA; the font files
+    // start with the TrueType version tag 0x00010000 (OpenType specification, 'sfnt version')
+    let (rgba, w, h) = super::shipped::icon_rgba().unwrap();
+    assert_eq!((w, h, rgba.len()), (128, 128, 128 * 128 * 4));
+    assert!(rgba.chunks(4).any(|p| p[3] == 0) && rgba.chunks(4).any(|p| p[3] == 255), "rounded corners are transparent, the body opaque");
+    for font in [super::shipped::SANS, super::shipped::MONO] {
+        assert_eq!(&font[..4], &[0, 1, 0, 0]);
+    }
+    let defs = super::shipped::font_definitions();
+    use bevy_egui::egui::FontFamily;
+    assert_eq!(defs.families[&FontFamily::Proportional][0], "DejaVu Sans");
+    assert_eq!(defs.families[&FontFamily::Monospace][0], "DejaVu Sans Mono");
+    assert!(defs.families[&FontFamily::Proportional].len() > 1, "egui's own fonts stay as fallbacks");
 }

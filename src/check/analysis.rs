@@ -1,8 +1,12 @@
 //! One call from a scene to everything a site team needs: validate, solve, combine, check,
 //! prove equilibrium and summarise stability.
 
+use crate::check::bearing::Ground;
 use crate::check::equilibrium::{equilibrium, CaseEquilibrium};
-use crate::check::plates::{bearing_area, combine_envelope, PlateCombination, Status};
+use crate::check::plates::{capacities, combine_envelope, PlateCombination, Status};
+use crate::check::sliding::{sliding, PlateSliding, Sliding};
+use crate::check::stability::{hold_down, HoldDown};
+use crate::scene::standing::StandsOn;
 use crate::scene::combination::Combination;
 use crate::scene::loads::Case;
 use crate::scene::model::Scene;
@@ -27,6 +31,11 @@ pub enum AnalysisError {
 pub struct PlateResult {
     /// Post (and base plate) id.
     pub id: String,
+    /// Index of its post in the scene.
+    pub post: usize,
+    /// Existing structure it stands on (its id), if not the ground: its load is for the
+    /// permanent-works designer.
+    pub on_structure: Option<String>,
     /// Plan position, m.
     pub x: f64,
     /// Plan position, m.
@@ -37,10 +46,21 @@ pub struct PlateResult {
     pub support: String,
     /// Safe working load of the support, kN.
     pub swl_kn: f64,
-    /// Bearing area at formation level, m².
+    /// Bearing area at formation level (on an existing structure: the plate's own area), m².
     pub bearing_area_m2: f64,
-    /// Allowable ground bearing pressure, kPa.
-    pub allowable_kpa: f64,
+    /// Area under the plate or sole board (on the granular layer, or on the ground), m².
+    pub plate_area_m2: f64,
+    /// Allowable bearing pressure on that area (the ground's at formation, or the existing
+    /// structure's under the plate), kPa; `None`: not entered, bearing not checked.
+    pub allowable_kpa: Option<f64>,
+    /// Group of plates whose spread areas overlap at formation ([`crate::check::bearing::Ground::formation_groups`]).
+    pub formation_group: Option<u32>,
+    /// Group of plates whose bearing plates overlap on the layer or ground ([`crate::check::bearing::Ground::surface_groups`]).
+    pub surface_group: Option<u32>,
+    /// Hold-down the plate needs where it lifts.
+    pub hold_down: Option<HoldDown>,
+    /// Sliding of the plate under its base shear; `None` when it has none.
+    pub sliding: Option<PlateSliding>,
     /// Vertical reaction per case (G, Q, W), kN, upwards positive.
     pub case_kn: [f64; 3],
     /// Horizontal reaction per case (G, Q, W), [x, y] kN.
@@ -74,6 +94,29 @@ impl PlateResult {
     }
 }
 
+/// What a post that stands on another member passes on at its base: a splice of a standard, or a
+/// post on a transfer bearer or deck. A negative minimum is reported like uplift: tension through
+/// the splice, or the post lifting off what it stands on.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct LiftResult {
+    /// Post id.
+    pub id: String,
+    /// Index of its post in the scene.
+    pub post: usize,
+    /// What it stands on, in words (e.g. `post A1`, `bearer T2 at 1.200 m`, `deck D1`).
+    pub stands_on: String,
+    /// Base level, m.
+    pub base_level: f64,
+    /// Safe working load of its own support, kN, if it has one.
+    pub swl_kn: Option<f64>,
+    /// Load passed on per case (G, Q, W), kN downwards, primary method pass.
+    pub case_kn: [f64; 3],
+    /// Per combination: the largest and smallest load passed on over the method passes, kN.
+    pub combinations: Vec<PlateCombination>,
+    /// Findings: over the safe working load of its own support (if it has one), or pulling up.
+    pub status: Status,
+}
+
 /// Everything found for a scene.
 #[derive(Debug, Clone)]
 pub struct Analysis {
@@ -88,16 +131,27 @@ pub struct Analysis {
     pub other_solutions: Vec<Solution>,
     /// One result per base plate, in post order.
     pub plates: Vec<PlateResult>,
+    /// One result per post that stands on another member (lifts, posts on transfer members), in
+    /// post order.
+    pub lifts: Vec<LiftResult>,
     /// Equilibrium proof per case (G, Q, W), primary method pass.
     pub equilibrium: [CaseEquilibrium; 3],
     /// Equilibrium proof per case for every method pass; `[0]` equals `equilibrium`.
     pub equilibrium_by_method: Vec<[CaseEquilibrium; 3]>,
-    /// Stability summary.
+    /// Overturning of each structure.
     pub stability: Stability,
+    /// Sliding of each structure and plate.
+    pub sliding: Sliding,
+    /// Ground data and the plates whose bearing areas overlap.
+    pub ground: Ground,
     /// Braced plan directions.
     pub braced: Braced,
     /// Non-fatal findings.
     pub warnings: Vec<Problem>,
+    /// Imposed loads that the planner set to act whole (not arranged), by id.
+    pub whole_loads: Vec<String>,
+    /// How working levels act together.
+    pub working_levels: crate::scene::model::WorkingLevels,
 }
 
 impl Analysis {
@@ -143,9 +197,14 @@ impl Analysis {
         let p = &self.plates[plate];
         if self.method_count() > 1 && p.methods_agree { METHODS_AGREE } else { self.method_label(p.min_method) }
     }
-    /// Whether any plate is over capacity or lifts.
+    /// Whether any plate is over capacity, lifts or slides, any post standing on another member
+    /// is over its support's capacity or pulls up, or overturning or sliding fails.
     pub fn any_failure(&self) -> bool {
-        self.plates.iter().any(|p| !p.status.is_ok())
+        self.plates.iter().any(|p| !p.status.is_ok()) || self.lifts.iter().any(|l| !l.status.is_ok()) || self.stability.fails() || self.sliding.fails()
+    }
+    /// Whether the allowable bearing pressure at formation was entered (else bearing is not checked).
+    pub fn bearing_checked(&self) -> bool {
+        self.ground.allowable_kpa.is_some()
     }
     /// Base shear taken by the plates under each horizontal load on its own: (load id, case,
     /// [x, y] kN). Opposite loads of one case would cancel in the case totals.
@@ -173,6 +232,51 @@ impl Analysis {
     }
 }
 
+/// How an arranged imposed load is placed for one plate's worst maximum and minimum.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct ArrangementAt {
+    /// Load id.
+    pub load: String,
+    /// Number of cells it is split into.
+    pub cells: usize,
+    /// Cells loaded for the plate's maximum (those that push it down); the rest empty.
+    pub loaded_for_max: u32,
+    /// Cells loaded for the plate's minimum (those that lift it); the rest empty.
+    pub loaded_for_min: u32,
+}
+
+impl ArrangementAt {
+    /// In words for a site manager.
+    pub fn words(&self) -> String {
+        let lift = if self.loaded_for_min > 0 { format!("; it lifts with {} cell(s) loaded alone", self.loaded_for_min) } else { String::new() };
+        if self.loaded_for_max as usize == self.cells {
+            format!("{}: worst with every cell loaded{lift}", self.load)
+        } else {
+            format!("{}: worst with {} of {} cells loaded, the rest empty{lift}", self.load, self.loaded_for_max, self.cells)
+        }
+    }
+}
+
+impl Analysis {
+    /// The arranged loads reaching plate `plate` (index into [`Analysis::plates`]) and how each
+    /// is placed for its worst maximum, in the method pass that governs that maximum.
+    pub fn arrangements_at(&self, plate: usize) -> Vec<ArrangementAt> {
+        let p = &self.plates[plate];
+        let post = p.post as u32;
+        let solution = self.solution_of(p.governing_method);
+        solution
+            .items
+            .iter()
+            .filter_map(|item| {
+                let a = item.arranged.as_ref()?;
+                let at = a.extremes.binary_search_by_key(&post, |e| e.0).ok()?;
+                let (down, up) = a.counts[at];
+                Some(ArrangementAt { load: item.id.clone(), cells: a.cells.len(), loaded_for_max: down, loaded_for_min: up })
+            })
+            .collect()
+    }
+}
+
 /// Output label of a plate whose loads are the same under every method pass.
 pub const METHODS_AGREE: &str = "any (methods agree)";
 
@@ -183,25 +287,51 @@ const AGREE_RELATIVE: f64 = 1e-6;
 pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
     let model = validate(scene).map_err(AnalysisError::Invalid)?;
     let mut solutions = solve_methods(&model).map_err(AnalysisError::Unsolvable)?;
-    let envelope = combine_envelope(scene, &solutions, &model.post_support);
+    let caps = capacities(&model);
+    let ground = Ground::new(&model, &solutions[0].plates);
+    let permanent: Vec<Vec<crate::check::permanent::PermanentParts>> = solutions.iter().map(|s| crate::check::permanent::permanent_parts(scene, s)).collect();
+    let envelope = combine_envelope(scene, &solutions, &permanent, &caps, &ground);
+    let structures = crate::check::stability::structures(&model);
+    // Overturning depends on the applied loads; horizontal loads are taken from every pass.
+    let stability = stability(&model, &solutions, &structures);
+    let labels: Vec<String> = stability.structures.iter().map(|s| s.label.clone()).collect();
+    let structure_plates: Vec<Vec<u32>> = stability.structures.iter().map(|s| s.plates.clone()).collect();
+    let mut sliding = sliding(scene, &solutions, &permanent, &model.post_support, &structure_plates, &labels);
     let case_by_method: Vec<Vec<[f64; 3]>> = solutions.iter().map(Solution::case_vertical).collect();
     let case_shear = solutions[0].case_shear();
     let capacity_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_capacity).collect();
     let uplift_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_uplift).collect();
     let all_combos: Vec<usize> = (0..scene.combinations.len()).collect();
+    let mut lifts = Vec::new();
     let plates = scene
         .posts
         .iter()
         .zip(envelope.envelope)
         .enumerate()
-        .map(|(i, (post, combinations))| {
-            let support = &scene.support_types[model.post_support[i]];
+        .filter_map(|(i, (post, combinations))| {
+            let stands_on = model.graph.stands_on[i];
+            if !stands_on.is_plate() {
+                lifts.push(LiftResult {
+                    id: post.id.clone(),
+                    post: i,
+                    stands_on: stands_on_words(scene, stands_on),
+                    base_level: post.base_level,
+                    swl_kn: caps[i].swl_kn.is_finite().then_some(caps[i].swl_kn),
+                    case_kn: case_by_method[0][i],
+                    status: combinations.iter().fold(Status::default(), |s, c| s.or(c.status)),
+                    combinations,
+                });
+                return None;
+            }
+            let support = &scene.support_types[model.post_support[i].expect("validation gives every base plate a support type")];
             let all = 0..combinations.len();
             let governing = all
                 .filter(|&c| capacity_combos.is_empty() || capacity_combos.contains(&c))
                 .max_by(|&a, &b| combinations[a].utilisation.partial_cmp(&combinations[b].utilisation).unwrap_or(std::cmp::Ordering::Equal))
                 .unwrap_or(0);
-            let status = combinations.iter().fold(Status::default(), |s, c| s.or(c.status));
+            let plate_sliding = sliding.plates[i].take();
+            let mut status = combinations.iter().fold(Status::default(), |s, c| s.or(c.status));
+            status.slides = plate_sliding.as_ref().is_some_and(|s| s.slides);
             let lows: &[usize] = if uplift_combos.is_empty() { &all_combos } else { &uplift_combos };
             let lowest = lows
                 .iter()
@@ -213,15 +343,28 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
             let methods_agree = combinations_by_method
                 .iter()
                 .all(|m| m.iter().zip(&combinations).all(|(c, e)| same(c.max_kn, e.max_kn) && same(c.min_kn, e.min_kn)));
-            PlateResult {
+            Some(PlateResult {
                 id: post.id.clone(),
+                post: i,
+                on_structure: match stands_on {
+                    StandsOn::Structure(e) => Some(scene.existing_structures[e].id.clone()),
+                    _ => None,
+                },
                 x: post.x,
                 y: post.y,
                 base_level: post.base_level,
                 support: support.id.clone(),
                 swl_kn: support.swl_kn,
-                bearing_area_m2: bearing_area(scene, support),
-                allowable_kpa: scene.site.allowable_bearing_kpa,
+                bearing_area_m2: ground.formation_area_m2[i],
+                plate_area_m2: ground.plate_area_m2[i],
+                allowable_kpa: match ground.bears_on[i] {
+                    crate::check::bearing::BearsOn::Structure { structure, .. } => Some(ground.structure_allowable_kpa[structure]),
+                    _ => ground.allowable_kpa,
+                },
+                formation_group: ground.formation_group_of[i],
+                surface_group: ground.surface_group_of[i],
+                hold_down: hold_down(&scene.combinations, combinations.iter().map(|c| c.min_kn)),
+                sliding: plate_sliding,
                 case_kn: case_by_method[0][i],
                 case_shear_kn: case_shear[i],
                 governing_method: combinations.get(governing).map_or(0, |c| c.max_method),
@@ -232,20 +375,34 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
                 combinations,
                 governing,
                 status,
-            }
+            })
         })
         .collect();
     let equilibrium_by_method: Vec<[CaseEquilibrium; 3]> = solutions.iter().map(equilibrium).collect();
-    // Overturning depends on the applied loads only; a notional load's follows the vertical
-    // load into each post, which the method can shift between levels. The worst pass is kept.
-    let stability = solutions
-        .iter()
-        .map(|s| stability(s, scene.stability.target_factor))
-        .min_by(|a, b| {
-            let f = |s: &Stability| s.governing().and_then(|d| d.factor).unwrap_or(f64::INFINITY);
-            f(a).partial_cmp(&f(b)).unwrap_or(std::cmp::Ordering::Equal)
-        })
-        .expect("at least one method pass");
+    let mut warnings = model.warnings;
+    for g in ground.mixed_level_groups() {
+        let ids: Vec<&str> = g.plates.iter().take(8).map(|&p| scene.posts[p as usize].id.as_str()).collect();
+        let more = if g.plates.len() > 8 { ", …" } else { "" };
+        warnings.push(Problem {
+            kind: crate::scene::model::ElementKind::Post,
+            id: ids[0].to_owned(),
+            message: format!("bearing areas of plates {}{more} overlap but stand at different levels: taken together as if at one level; check the ground under them by hand", ids.join(", ")),
+        });
+    }
+    // T-heads that stand on their head's moment capacity: the worst moment over the passes.
+    let mut heads: Vec<&crate::solve::tee_heads::HeadMoment> = solutions.iter().flat_map(|s| &s.head_moments).collect();
+    heads.sort_by(|a, b| a.bearer.cmp(&b.bearer).then(b.moment_knm.total_cmp(&a.moment_knm)));
+    heads.dedup_by_key(|h| h.bearer);
+    for h in heads {
+        warnings.push(Problem {
+            kind: crate::scene::model::ElementKind::Bearer,
+            id: scene.bearers[h.bearer].id.clone(),
+            message: format!(
+                "rests on post {} alone and is out of balance by up to {:.3} kN·m with one arm loaded: it stands on the head's moment capacity of {:.3} kN·m given on the post's support type — check that value against the maker's data",
+                scene.posts[h.post].id, h.moment_knm, h.capacity_knm
+            ),
+        });
+    }
     let solution = solutions.remove(0);
     Ok(Analysis {
         scene_name: scene.site.name.clone(),
@@ -253,10 +410,31 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
         solution,
         other_solutions: solutions,
         plates,
+        lifts,
         equilibrium: equilibrium_by_method[0],
         equilibrium_by_method,
         stability,
+        sliding,
+        ground,
         braced: model.braced,
-        warnings: model.warnings,
+        warnings,
+        whole_loads: scene
+            .loads
+            .iter()
+            .filter(|l| l.case == Case::Q && l.arrangement == crate::scene::loads::Arrangement::Whole)
+            .map(|l| l.id.clone())
+            .collect(),
+        working_levels: scene.analysis.working_levels,
     })
+}
+
+/// What a post stands on, in words for outputs.
+pub fn stands_on_words(scene: &Scene, s: StandsOn) -> String {
+    match s {
+        StandsOn::Ground => "the ground".into(),
+        StandsOn::Structure(e) => format!("existing structure {}", scene.existing_structures[e].id),
+        StandsOn::Post(q) => format!("post {} (spliced)", scene.posts[q].id),
+        StandsOn::Bearer { bearer, at } => format!("bearer {} at {:.3} m", scene.bearers[bearer].id, at),
+        StandsOn::Deck(d) => format!("deck {}", scene.decks[d].id),
+    }
 }

@@ -18,8 +18,14 @@ pub struct CaseEquilibrium {
     /// |ΣM| about the origin of each load item, summed, kN·m.
     pub moment_residual_knm: f64,
     /// Worst item's largest of |ΣF| / F and |ΣM| / (F·L), with F the magnitude of the item's
-    /// applied force and L the size of the base; 0 when there is no load.
+    /// applied force and L the size of the base; 0 when there is no load. For an arranged load,
+    /// each of its cells is held to the same measure. Where the pass is not one state of the
+    /// structure (`one_state` false), the worst of its members' own two-span models instead.
     pub relative: f64,
+    /// Whether the pass is one state of the structure. Where members with unknown joints are
+    /// taken support by support, each support's reaction comes from its own two-span model: the
+    /// reactions then exceed the load by design, and each model balances on its own.
+    pub one_state: bool,
 }
 
 /// Sum applied loads and reactions per case; the two must cancel.
@@ -55,7 +61,15 @@ pub fn equilibrium(solution: &Solution) -> [CaseEquilibrium; 3] {
             if magnitude > 0.0 {
                 relative = relative.max(f / magnitude).max(m / (magnitude * size));
             }
+            // An arranged load balances cell by cell too.
+            if let Some(arranged) = &item.arranged {
+                relative = relative.max(arranged.worst_cell_residual);
+            }
         }
-        CaseEquilibrium { case, applied, reactions, force_residual_kn: fr, moment_residual_knm: mr, relative }
+        let one_state = solution.method.is_one_state();
+        if !one_state {
+            relative = solution.local_residual;
+        }
+        CaseEquilibrium { case, applied, reactions, force_residual_kn: fr, moment_residual_knm: mr, relative, one_state }
     })
 }

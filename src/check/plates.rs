@@ -1,8 +1,10 @@
 //! Checking each base plate: combined loads, uplift, load on the jack and pressure on the ground.
 
+use crate::check::bearing::Ground;
+use crate::check::permanent::PermanentParts;
 use crate::scene::combination::Combination;
-use crate::scene::loads::Case;
-use crate::scene::model::{Scene, SupportType};
+use crate::scene::model::Scene;
+use crate::scene::validate::Model;
 use crate::solve::Solution;
 
 /// A reaction below this (kN) counts as uplift; above zero by this margin only to ignore
@@ -16,24 +18,31 @@ pub struct Status {
     pub over: bool,
     /// The plate is pulled up (negative minimum load).
     pub uplift: bool,
+    /// Friction cannot hold the plate's base shear: it must be restrained.
+    #[serde(default)]
+    pub slides: bool,
 }
 
 impl Status {
-    /// Neither over capacity nor lifting.
+    /// Neither over capacity, nor lifting, nor sliding.
     pub fn is_ok(self) -> bool {
-        !self.over && !self.uplift
+        !self.over && !self.uplift && !self.slides
     }
-    /// Both findings of two statuses.
+    /// Every finding of two statuses.
     pub fn or(self, o: Status) -> Status {
-        Status { over: self.over || o.over, uplift: self.uplift || o.uplift }
+        Status { over: self.over || o.over, uplift: self.uplift || o.uplift, slides: self.slides || o.slides }
     }
-    /// Short label: OK, OVER, UPLIFT or OVER+UPLIFT.
+    /// Short label: OK, or the findings joined by `+` (OVER, UPLIFT, SLIDES).
     pub fn label(self) -> &'static str {
-        match (self.over, self.uplift) {
-            (false, false) => "OK",
-            (true, false) => "OVER",
-            (false, true) => "UPLIFT",
-            (true, true) => "OVER+UPLIFT",
+        match (self.over, self.uplift, self.slides) {
+            (false, false, false) => "OK",
+            (true, false, false) => "OVER",
+            (false, true, false) => "UPLIFT",
+            (true, true, false) => "OVER+UPLIFT",
+            (false, false, true) => "SLIDES",
+            (true, false, true) => "OVER+SLIDES",
+            (false, true, true) => "UPLIFT+SLIDES",
+            (true, true, true) => "OVER+UPLIFT+SLIDES",
         }
     }
 }
@@ -44,21 +53,18 @@ impl std::fmt::Display for Status {
     }
 }
 
-/// Bearing of one support type on the ground.
+/// What one post's base is checked against for its load (its bearing is [`Ground`]'s).
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
-pub struct Bearing {
-    /// Area the load is spread over at formation level, m².
-    pub area_m2: f64,
-    /// Allowable ground bearing pressure, kPa.
-    pub allowable_kpa: f64,
+pub struct PostCapacity {
+    /// Safe working load of its base jack / plate, kN; infinite where it has no support type.
+    pub swl_kn: f64,
 }
 
-/// Area at formation level under a support: its bearing plate (sole plate, else base plate)
-/// widened on every side by the spread through the granular layer, if any.
-pub fn bearing_area(scene: &Scene, support: &SupportType) -> f64 {
-    let plate = support.bearing_plate();
-    let grow = scene.site.granular_layer.map_or(0.0, |l| 2.0 * l.thickness_m * l.spread.spread_per_side());
-    (plate.width_m + grow) * (plate.length_m + grow)
+/// What each post's base is checked against, in post order: its support's safe working load, if
+/// it has a support type (a post standing on another member may have none).
+pub fn capacities(model: &Model) -> Vec<PostCapacity> {
+    let scene = model.scene;
+    (0..scene.posts.len()).map(|p| PostCapacity { swl_kn: model.post_support[p].map_or(f64::INFINITY, |s| scene.support_types[s].swl_kn) }).collect()
 }
 
 /// One plate under one combination.
@@ -70,11 +76,18 @@ pub struct PlateCombination {
     pub min_kn: f64,
     /// max load ÷ safe working load.
     pub load_utilisation: f64,
-    /// Ground pressure under the maximum load, kPa.
+    /// Ground pressure at formation level under the maximum load, kPa: the plate's own spread
+    /// pressure or its overlap group's, whichever is larger, plus the granular layer's weight
+    /// when the allowable is gross ([`crate::check::bearing`]).
     pub bearing_kpa: f64,
-    /// Ground pressure ÷ allowable.
-    pub bearing_utilisation: f64,
-    /// The larger of the two utilisations.
+    /// Formation pressure ÷ allowable; `None` when no allowable is entered (not checked).
+    pub bearing_utilisation: Option<f64>,
+    /// Pressure on the top of the granular layer under the plate or sole board, kPa; `None`
+    /// without a layer.
+    pub layer_top_kpa: Option<f64>,
+    /// Layer-top pressure ÷ the layer's allowable; `None` when not checked.
+    pub layer_utilisation: Option<f64>,
+    /// The largest of the utilisations that are checked.
     pub utilisation: f64,
     /// What this combination finds (only the checks it is set to make).
     pub status: Status,
@@ -84,6 +97,31 @@ pub struct PlateCombination {
     pub min_method: usize,
 }
 
+impl PlateCombination {
+    /// Set the bearing pressures and finish the utilisation and status.
+    pub fn set_bearing(&mut self, p: crate::check::bearing::Pressures, comb: &Combination) {
+        self.bearing_kpa = p.formation_kpa;
+        self.bearing_utilisation = p.formation_utilisation;
+        self.layer_top_kpa = p.layer_top_kpa;
+        self.layer_utilisation = p.layer_utilisation;
+        self.utilisation = [p.formation_utilisation, p.layer_utilisation].into_iter().flatten().fold(self.load_utilisation, f64::max);
+        self.status.over = comb.checks_capacity && self.utilisation > 1.0 + 1e-9;
+    }
+    /// What governs the utilisation, in words: `safe working load`, `ground bearing` (at
+    /// formation) or `granular layer` (on its top).
+    pub fn governed_by(&self) -> &'static str {
+        let b = self.bearing_utilisation.unwrap_or(f64::NEG_INFINITY);
+        let l = self.layer_utilisation.unwrap_or(f64::NEG_INFINITY);
+        if self.load_utilisation >= b && self.load_utilisation >= l {
+            "safe working load"
+        } else if b >= l {
+            "ground bearing"
+        } else {
+            "granular layer"
+        }
+    }
+}
+
 /// Combine the case reactions of every plate under every combination.
 ///
 /// Permanent load takes, per plate, whichever of its two factors is worse for the value sought;
@@ -91,33 +129,66 @@ pub struct PlateCombination {
 /// horizontal loads the worst single plan direction is taken ([`crate::check::actions::VariableActions`]).
 /// For the minimum, a notional load counts only with the part due to permanent load: the
 /// variable load it would come from is then absent.
-pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Vec<Vec<PlateCombination>> {
+///
+/// Every post gets a result: the plate load of a post with a base plate, the load passed on at the
+/// base of any other (where a negative minimum is tension through a splice or a post lifting off
+/// what it stands on).
+pub fn combine(scene: &Scene, solution: &Solution, caps: &[PostCapacity], ground: &Ground) -> Vec<Vec<PlateCombination>> {
+    combine_with(scene, solution, &crate::check::permanent::permanent_parts(scene, solution), caps, ground)
+}
+
+/// [`combine`] with the permanent parts at every post already split
+/// ([`crate::check::permanent::permanent_parts`]).
+fn combine_with(scene: &Scene, solution: &Solution, permanent: &[PermanentParts], caps: &[PostCapacity], ground: &Ground) -> Vec<Vec<PlateCombination>> {
     let n = solution.plates.len();
-    let case = solution.case_vertical();
-    let bearing: Vec<f64> = scene.support_types.iter().map(|s| bearing_area(scene, s)).collect();
-    let allowable = scene.site.allowable_bearing_kpa;
     let mut out = vec![Vec::with_capacity(scene.combinations.len()); n];
     let (mut hi, mut lo) = (vec![0.0; n], vec![0.0; n]);
     let (mut group_hi, mut group_lo) = (vec![0.0; n], vec![0.0; n]);
-    let actions = crate::check::actions::VariableActions::of(&solution.items);
+    let actions = crate::check::actions::VariableActions::of(&solution.items, scene.analysis.working_levels);
     for comb in &scene.combinations {
         let f = comb.factors;
+        // The parts of the permanent load that press a post down and those that lift it take
+        // their own factors for the minimum; the maximum takes the whole with the worse factor.
         for p in 0..n {
-            let g = case[p][Case::G.index()];
-            let (a, b) = (f.g_unfavourable * g, f.g_favourable * g);
-            hi[p] = a.max(b);
-            lo[p] = a.min(b);
+            hi[p] = permanent[p].maximum(f.g_favourable, f.g_unfavourable);
+            lo[p] = permanent[p].minimum(f.g_favourable, f.g_unfavourable);
         }
         for &i in &actions.independent {
-            let item = &solution.items[i];
-            let gamma = comb.variable_factor(item.case);
-            for &(p, v) in &item.vertical {
-                let v = gamma * v;
-                if v > 0.0 {
-                    hi[p as usize] += v;
-                } else {
-                    lo[p as usize] += v;
+            add_vertical_variable(&solution.items[i], comb, &mut hi, &mut lo);
+        }
+        // Working levels: one level in full with the worse adjacent one at half, at each post.
+        if !actions.by_level.is_empty() {
+            let per_level: Vec<(Vec<f64>, Vec<f64>)> = actions
+                .by_level
+                .iter()
+                .map(|(_, group)| {
+                    let (mut h, mut l) = (vec![0.0; n], vec![0.0; n]);
+                    for &i in group {
+                        add_vertical_variable(&solution.items[i], comb, &mut h, &mut l);
+                    }
+                    (h, l)
+                })
+                .collect();
+            let share = crate::check::actions::ADJACENT_LEVEL_SHARE;
+            for p in 0..n {
+                let (mut best_hi, mut best_lo) = (0.0f64, 0.0f64);
+                for k in 0..per_level.len() {
+                    let adjacent = |f: &dyn Fn(&(Vec<f64>, Vec<f64>)) -> f64, pick: fn(f64, f64) -> f64| {
+                        let below = k.checked_sub(1).map(|j| f(&per_level[j]));
+                        let above = per_level.get(k + 1).map(f);
+                        match (below, above) {
+                            (Some(a), Some(b)) => pick(a, b),
+                            (Some(a), None) | (None, Some(a)) => a,
+                            (None, None) => 0.0,
+                        }
+                    };
+                    let h = per_level[k].0[p] + share * adjacent(&|x| x.0[p], f64::max);
+                    let l = per_level[k].1[p] + share * adjacent(&|x| x.1[p], f64::min);
+                    best_hi = best_hi.max(h);
+                    best_lo = best_lo.min(l);
                 }
+                hi[p] += best_hi;
+                lo[p] += best_lo;
             }
         }
         // Horizontal directions are alternatives: the worst single direction counts.
@@ -129,7 +200,7 @@ pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Ve
                 for &i in group {
                     let item = &solution.items[i];
                     let gamma = comb.variable_factor(item.case);
-                    for &(p, v) in &item.vertical {
+                    for &(p, v) in item.vertical.iter().chain(&item.internal) {
                         group_hi[p as usize] += gamma * v;
                     }
                     for &(p, v) in item.vertical_permanent_basis.as_ref().unwrap_or(&item.vertical) {
@@ -147,23 +218,57 @@ pub fn combine(scene: &Scene, solution: &Solution, post_support: &[usize]) -> Ve
             }
         }
         for p in 0..n {
-            let support = &scene.support_types[post_support[p]];
-            out[p].push(plate_combination(comb, hi[p], lo[p], support.swl_kn, bearing[post_support[p]], allowable));
+            out[p].push(plate_combination(comb, hi[p], lo[p], caps[p]));
         }
     }
+    ground.fill(&scene.combinations, &mut out);
     out
 }
 
-fn plate_combination(comb: &Combination, max_kn: f64, min_kn: f64, swl: f64, area: f64, allowable: f64) -> PlateCombination {
-    let load_utilisation = max_kn.max(0.0) / swl;
-    let bearing_kpa = max_kn.max(0.0) / area;
-    let bearing_utilisation = bearing_kpa / allowable;
-    let utilisation = load_utilisation.max(bearing_utilisation);
-    let status = Status {
-        over: comb.checks_capacity && utilisation > 1.0 + 1e-9,
-        uplift: comb.checks_uplift && min_kn < -UPLIFT_TOLERANCE_KN,
-    };
-    PlateCombination { max_kn, min_kn, load_utilisation, bearing_kpa, bearing_utilisation, utilisation, status, max_method: 0, min_method: 0 }
+/// Add one vertical variable item to the maximum and minimum at every post it reaches.
+fn add_vertical_variable(item: &crate::solve::Item, comb: &Combination, hi: &mut [f64], lo: &mut [f64]) {
+    let gamma = comb.variable_factor(item.case);
+    match &item.arranged {
+        // Arranged: at each post, the cells that push it down for the maximum and those that
+        // lift it for the minimum.
+        Some(arranged) => {
+            for &(p, down, up) in &arranged.extremes {
+                hi[p as usize] += gamma * down;
+                lo[p as usize] += gamma * up;
+            }
+        }
+        // Whole: present everywhere or not at all, whichever is worse.
+        None => {
+            for &(p, v) in item.vertical.iter().chain(&item.internal) {
+                let v = gamma * v;
+                if v > 0.0 {
+                    hi[p as usize] += v;
+                } else {
+                    lo[p as usize] += v;
+                }
+            }
+        }
+    }
+}
+
+/// One post under one combination, with everything but the bearing
+/// ([`PlateCombination::set_bearing`] adds it).
+fn plate_combination(comb: &Combination, max_kn: f64, min_kn: f64, cap: PostCapacity) -> PlateCombination {
+    let load_utilisation = max_kn.max(0.0) / cap.swl_kn;
+    let status = Status { over: comb.checks_capacity && load_utilisation > 1.0 + 1e-9, uplift: comb.checks_uplift && min_kn < -UPLIFT_TOLERANCE_KN, slides: false };
+    PlateCombination {
+        max_kn,
+        min_kn,
+        load_utilisation,
+        bearing_kpa: 0.0,
+        bearing_utilisation: None,
+        layer_top_kpa: None,
+        layer_utilisation: None,
+        utilisation: load_utilisation,
+        status,
+        max_method: 0,
+        min_method: 0,
+    }
 }
 
 /// Relative margin by which a later method pass must exceed an earlier one to govern: below it
@@ -183,12 +288,11 @@ pub struct MethodEnvelope {
 /// [`combine`] every solution (one per method pass, in pass order) and take, per plate and
 /// combination, the larger maximum and the smaller minimum. The structure's behaviour is one for
 /// all loads of a combination, so each pass is combined whole before the envelope is taken.
-pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[usize]) -> MethodEnvelope {
-    let by_method: Vec<_> = solutions.iter().map(|s| combine(scene, s, post_support)).collect();
-    let bearing: Vec<f64> = scene.support_types.iter().map(|s| bearing_area(scene, s)).collect();
-    let allowable = scene.site.allowable_bearing_kpa;
+/// `permanent[pass]` holds the permanent parts at every post of each solution.
+pub fn combine_envelope(scene: &Scene, solutions: &[Solution], permanent: &[Vec<PermanentParts>], caps: &[PostCapacity], ground: &Ground) -> MethodEnvelope {
+    let by_method: Vec<_> = solutions.iter().zip(permanent).map(|(s, parts)| combine_with(scene, s, parts, caps, ground)).collect();
     let n = solutions.first().map_or(0, |s| s.plates.len());
-    let envelope = (0..n)
+    let mut envelope: Vec<Vec<PlateCombination>> = (0..n)
         .map(|p| {
             scene
                 .combinations
@@ -205,8 +309,7 @@ pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[u
                             lo = (pc.min_kn, m);
                         }
                     }
-                    let support = &scene.support_types[post_support[p]];
-                    let mut out = plate_combination(comb, hi.0, lo.0, support.swl_kn, bearing[post_support[p]], allowable);
+                    let mut out = plate_combination(comb, hi.0, lo.0, caps[p]);
                     out.max_method = hi.1;
                     out.min_method = lo.1;
                     out
@@ -214,47 +317,19 @@ pub fn combine_envelope(scene: &Scene, solutions: &[Solution], post_support: &[u
                 .collect()
         })
         .collect();
+    ground.fill(&scene.combinations, &mut envelope);
     MethodEnvelope { envelope, by_method }
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::scene::model::{GranularLayer, LoadSpread, PlateSize};
-
-    fn support(sole: Option<PlateSize>) -> SupportType {
-        SupportType { id: "S".into(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: sole }
-    }
-
-    #[test]
-    fn load_spread_through_a_granular_layer() {
-        // source: 2V:1H rule P/((B+z)(L+z)) (Das; Bowles), 45° rule P/((B+2z)(L+2z)) (common
-        // practice). P = 20 on a 150 × 150 plate → 888.9 kPa directly; through 150 mm of granular
-        // fill: 2:1 → 222.2 kPa, 45° → 98.8 kPa.
-        let mut scene = Scene::empty("t", 100.0);
-        let s = support(None);
-        assert!((20.0 / bearing_area(&scene, &s) - 888.888_9).abs() < 1e-3);
-        scene.site.granular_layer = Some(GranularLayer { thickness_m: 0.15, spread: LoadSpread::TwoToOne });
-        assert!((20.0 / bearing_area(&scene, &s) - 222.222_2).abs() < 1e-3);
-        scene.site.granular_layer = Some(GranularLayer { thickness_m: 0.15, spread: LoadSpread::FortyFive });
-        assert!((20.0 / bearing_area(&scene, &s) - 98.765_4).abs() < 1e-3);
-        scene.site.granular_layer = Some(GranularLayer { thickness_m: 0.15, spread: LoadSpread::AngleDeg(45.0) });
-        assert!((20.0 / bearing_area(&scene, &s) - 98.765_4).abs() < 1e-3);
-    }
-
-    #[test]
-    fn sole_plate_bears_instead_of_base_plate() {
-        // source: sole board 225 mm wide (BS 2482 section) × 450 mm per standard → 0.101 m²
-        // (common practice for the length).
-        let scene = Scene::empty("t", 100.0);
-        let s = support(Some(PlateSize { width_m: 0.225, length_m: 0.45 }));
-        assert!((bearing_area(&scene, &s) - 0.10125).abs() < 1e-12);
-    }
 
     #[test]
     fn status_labels() {
         // common practice, no source
         assert_eq!(Status::default().label(), "OK");
-        assert_eq!(Status { over: true, uplift: true }.to_string(), "OVER+UPLIFT");
+        assert_eq!(Status { over: true, uplift: true, slides: false }.to_string(), "OVER+UPLIFT");
+        assert_eq!(Status { over: false, uplift: true, slides: true }.to_string(), "UPLIFT+SLIDES");
     }
 }

@@ -24,8 +24,8 @@ use std::fmt;
 
 use crate::scene::combination::Combination;
 use crate::scene::layout::{add_layout, LayoutSpec};
-use crate::scene::loads::{Load, LoadKind};
-use crate::scene::model::{AnalysisSettings, Bearer, Brace, Deck, ElementKind, Post, Scene, Site, StabilitySettings, SupportType};
+use crate::scene::loads::{KentledgePlace, Load, LoadKind};
+use crate::scene::model::{AnalysisSettings, Bearer, Brace, Deck, ElementKind, ExistingStructure, Post, Scene, Site, StabilitySettings, SupportType};
 
 /// One element of a scene named by kind and id.
 #[derive(Debug, Clone, PartialEq, Eq, Hash)]
@@ -66,6 +66,7 @@ pub enum Element {
     Bearer(Bearer),
     Deck(Deck),
     Brace(Brace),
+    ExistingStructure(ExistingStructure),
     Load(Load),
 }
 
@@ -78,6 +79,7 @@ impl Element {
             Element::Bearer(_) => ElementKind::Bearer,
             Element::Deck(_) => ElementKind::Deck,
             Element::Brace(_) => ElementKind::Brace,
+            Element::ExistingStructure(_) => ElementKind::ExistingStructure,
             Element::Load(_) => ElementKind::Load,
         }
     }
@@ -89,6 +91,7 @@ impl Element {
             Element::Bearer(e) => &e.id,
             Element::Deck(e) => &e.id,
             Element::Brace(e) => &e.id,
+            Element::ExistingStructure(e) => &e.id,
             Element::Load(e) => &e.id,
         }
     }
@@ -99,6 +102,7 @@ impl Element {
             Element::Bearer(e) => &mut e.id,
             Element::Deck(e) => &mut e.id,
             Element::Brace(e) => &mut e.id,
+            Element::ExistingStructure(e) => &mut e.id,
             Element::Load(e) => &mut e.id,
         }
     }
@@ -117,6 +121,7 @@ pub fn index_of(scene: &Scene, r: &ElementRef) -> Option<usize> {
         ElementKind::Bearer => scene.bearers.iter().position(|e| e.id == id),
         ElementKind::Deck => scene.decks.iter().position(|e| e.id == id),
         ElementKind::Brace => scene.braces.iter().position(|e| e.id == id),
+        ElementKind::ExistingStructure => scene.existing_structures.iter().position(|e| e.id == id),
         ElementKind::Load => scene.loads.iter().position(|e| e.id == id),
         ElementKind::Combination | ElementKind::Site => None,
     }
@@ -130,6 +135,7 @@ fn element_at(scene: &Scene, kind: ElementKind, index: usize) -> Option<Element>
         ElementKind::Bearer => Element::Bearer(scene.bearers.get(index)?.clone()),
         ElementKind::Deck => Element::Deck(scene.decks.get(index)?.clone()),
         ElementKind::Brace => Element::Brace(scene.braces.get(index)?.clone()),
+        ElementKind::ExistingStructure => Element::ExistingStructure(scene.existing_structures.get(index)?.clone()),
         ElementKind::Load => Element::Load(scene.loads.get(index)?.clone()),
         ElementKind::Combination | ElementKind::Site => return None,
     })
@@ -368,6 +374,7 @@ fn change(scene: &mut Scene, c: Change) -> Change {
                 Element::Bearer(e) => insert(&mut scene.bearers, index, e),
                 Element::Deck(e) => insert(&mut scene.decks, index, e),
                 Element::Brace(e) => insert(&mut scene.braces, index, e),
+                Element::ExistingStructure(e) => insert(&mut scene.existing_structures, index, e),
                 Element::Load(e) => insert(&mut scene.loads, index, e),
             }
             Change::Remove { kind, index }
@@ -379,6 +386,7 @@ fn change(scene: &mut Scene, c: Change) -> Change {
                 ElementKind::Bearer => Element::Bearer(scene.bearers.remove(index)),
                 ElementKind::Deck => Element::Deck(scene.decks.remove(index)),
                 ElementKind::Brace => Element::Brace(scene.braces.remove(index)),
+                ElementKind::ExistingStructure => Element::ExistingStructure(scene.existing_structures.remove(index)),
                 ElementKind::Load => Element::Load(scene.loads.remove(index)),
                 ElementKind::Combination | ElementKind::Site => unreachable!("not a list element"),
             };
@@ -391,6 +399,7 @@ fn change(scene: &mut Scene, c: Change) -> Change {
                 Element::Bearer(e) => Element::Bearer(swap(&mut scene.bearers, index, e)),
                 Element::Deck(e) => Element::Deck(swap(&mut scene.decks, index, e)),
                 Element::Brace(e) => Element::Brace(swap(&mut scene.braces, index, e)),
+                Element::ExistingStructure(e) => Element::ExistingStructure(swap(&mut scene.existing_structures, index, e)),
                 Element::Load(e) => Element::Load(swap(&mut scene.loads, index, e)),
             };
             Change::Replace { index, element: old }
@@ -436,7 +445,7 @@ impl Tx<'_> {
                 Ok(())
             }
             Edit::SetStability(s) => {
-                self.make(Change::Stability(*s));
+                self.make(Change::Stability(s.clone()));
                 Ok(())
             }
             Edit::SetAnalysis(a) => {
@@ -592,6 +601,7 @@ impl Tx<'_> {
                 (ElementKind::Deck, self.scene.decks.len()),
                 (ElementKind::Bearer, self.scene.bearers.len()),
                 (ElementKind::Post, self.scene.posts.len()),
+                (ElementKind::ExistingStructure, self.scene.existing_structures.len()),
                 (ElementKind::SupportType, self.scene.support_types.len()),
             ]
             .into_iter()
@@ -647,8 +657,9 @@ fn kind_rank(k: ElementKind) -> u8 {
         ElementKind::Deck => 2,
         ElementKind::Bearer => 3,
         ElementKind::Post => 4,
-        ElementKind::SupportType => 5,
-        ElementKind::Combination | ElementKind::Site => 6,
+        ElementKind::ExistingStructure => 5,
+        ElementKind::SupportType => 6,
+        ElementKind::Combination | ElementKind::Site => 7,
     }
 }
 
@@ -659,6 +670,7 @@ fn list_len(scene: &Scene, kind: ElementKind) -> usize {
         ElementKind::Bearer => scene.bearers.len(),
         ElementKind::Deck => scene.decks.len(),
         ElementKind::Brace => scene.braces.len(),
+        ElementKind::ExistingStructure => scene.existing_structures.len(),
         ElementKind::Load => scene.loads.len(),
         ElementKind::Combination | ElementKind::Site => 0,
     }
@@ -683,7 +695,7 @@ fn without_support(e: Element, gone: &ElementRef) -> Option<Element> {
 /// Call `f` on every reference an element holds, with the kind it refers to.
 fn rewrite_refs(e: &mut Element, f: &dyn Fn(ElementKind, &mut String)) {
     match e {
-        Element::SupportType(_) => {}
+        Element::SupportType(_) | Element::ExistingStructure(_) => {}
         Element::Post(p) => {
             if let Some(s) = &mut p.support {
                 f(ElementKind::SupportType, s);
@@ -699,6 +711,8 @@ fn rewrite_refs(e: &mut Element, f: &dyn Fn(ElementKind, &mut String)) {
             LoadKind::DeckArea { deck, .. } | LoadKind::DeckPatch { deck, .. } | LoadKind::DeckPoint { deck, .. } => f(ElementKind::Deck, deck),
             LoadKind::BearerPoint { bearer, .. } | LoadKind::BearerLine { bearer, .. } => f(ElementKind::Bearer, bearer),
             LoadKind::PostTop { post, .. } => f(ElementKind::Post, post),
+            LoadKind::Kentledge { on: KentledgePlace::Plates(posts), .. } => posts.iter_mut().for_each(|p| f(ElementKind::Post, p)),
+            LoadKind::Kentledge { on: KentledgePlace::Deck { deck, .. }, .. } => f(ElementKind::Deck, deck),
             LoadKind::Horizontal { .. } | LoadKind::Wind { .. } | LoadKind::Notional { .. } => {}
         },
     }
@@ -723,7 +737,17 @@ pub fn dependants(scene: &Scene, r: &ElementRef) -> Vec<ElementRef> {
         ElementKind::Post => {
             out.extend(scene.bearers.iter().filter(|b| b.posts.iter().any(|p| p == id)).map(|b| ElementRef::new(ElementKind::Bearer, &b.id)));
             out.extend(scene.braces.iter().filter(|b| b.from.post == id || b.to.post == id).map(|b| ElementRef::new(ElementKind::Brace, &b.id)));
-            out.extend(scene.loads.iter().filter(|l| matches!(&l.kind, LoadKind::PostTop { post, .. } if post == id)).map(|l| ElementRef::new(ElementKind::Load, &l.id)));
+            out.extend(
+                scene
+                    .loads
+                    .iter()
+                    .filter(|l| match &l.kind {
+                        LoadKind::PostTop { post, .. } => post == id,
+                        LoadKind::Kentledge { on: KentledgePlace::Plates(posts), .. } => posts.iter().any(|p| p == id),
+                        _ => false,
+                    })
+                    .map(|l| ElementRef::new(ElementKind::Load, &l.id)),
+            );
         }
         ElementKind::Bearer => {
             out.extend(scene.decks.iter().filter(|d| d.bearers.iter().any(|b| b == id)).map(|d| ElementRef::new(ElementKind::Deck, &d.id)));
@@ -740,11 +764,13 @@ pub fn dependants(scene: &Scene, r: &ElementRef) -> Vec<ElementRef> {
                 scene
                     .loads
                     .iter()
-                    .filter(|l| matches!(&l.kind, LoadKind::DeckArea { deck, .. } | LoadKind::DeckPatch { deck, .. } | LoadKind::DeckPoint { deck, .. } if deck == id))
+                    .filter(|l| {
+                        matches!(&l.kind, LoadKind::DeckArea { deck, .. } | LoadKind::DeckPatch { deck, .. } | LoadKind::DeckPoint { deck, .. } | LoadKind::Kentledge { on: KentledgePlace::Deck { deck, .. }, .. } if deck == id)
+                    })
                     .map(|l| ElementRef::new(ElementKind::Load, &l.id)),
             );
         }
-        ElementKind::Brace | ElementKind::Load | ElementKind::Combination | ElementKind::Site => {}
+        ElementKind::Brace | ElementKind::ExistingStructure | ElementKind::Load | ElementKind::Combination | ElementKind::Site => {}
     }
     out
 }
@@ -769,6 +795,11 @@ fn shift(e: &mut Element, [dx, dy, dz]: [f64; 3]) {
             b.from.level += dz;
             b.to.level += dz;
         }
+        Element::ExistingStructure(e) => {
+            e.extent.x = (e.extent.x.0 + dx, e.extent.x.1 + dx);
+            e.extent.y = (e.extent.y.0 + dy, e.extent.y.1 + dy);
+            e.level += dz;
+        }
         Element::Load(l) => match &mut l.kind {
             LoadKind::DeckPoint { x, y, .. } => {
                 *x += dx;
@@ -789,7 +820,11 @@ fn shift(e: &mut Element, [dx, dy, dz]: [f64; 3]) {
                 face.bottom += dz;
                 face.top += dz;
             }
-            LoadKind::DeckArea { .. } | LoadKind::BearerPoint { .. } | LoadKind::BearerLine { .. } | LoadKind::PostTop { .. } | LoadKind::Notional { .. } => {}
+            LoadKind::Kentledge { on: KentledgePlace::Deck { x, y, .. }, .. } => {
+                *x += dx;
+                *y += dy;
+            }
+            LoadKind::DeckArea { .. } | LoadKind::BearerPoint { .. } | LoadKind::BearerLine { .. } | LoadKind::PostTop { .. } | LoadKind::Notional { .. } | LoadKind::Kentledge { .. } => {}
         },
     }
 }
@@ -918,7 +953,7 @@ pub mod place {
     use std::collections::HashSet;
 
     use super::EditError;
-    use crate::scene::model::{BeamRole, Bearer, Brace, Deck, PlateSize, Post, PostNode, Rect, Scene, SupportType, STEEL_TUBE_KN_PER_M};
+    use crate::scene::model::{BeamRole, Bearer, Brace, Deck, Post, PostNode, Rect, Scene, SupportType, STEEL_TUBE_KN_PER_M};
     use crate::scene::validate::GEOMETRY_TOLERANCE_M;
 
     /// Round a coordinate to the nearest multiple of `step` (no snap when `step` ≤ 0).
@@ -944,12 +979,13 @@ pub mod place {
             .expect("an unused id exists")
     }
 
-    /// A support type for scenes that have none yet: 150 × 150 mm base plate with a 30 kN
-    /// jack, no sole plate. The user sets the real values in the inspector.
+    /// A support type for scenes that have none yet: the shipped catalogue's example base jack,
+    /// no sole plate. Its safe working load is marked as an example (validation says so) until
+    /// the planner picks or enters the manufacturer's in the inspector.
     pub fn starter_support(id: &str) -> SupportType {
-        // common practice, no source: the usual scaffold base plate size and a typical
-        // adjustable base jack working load; placeholders until the planner enters the product's.
-        SupportType { id: id.to_owned(), base_plate: PlateSize { width_m: 0.15, length_m: 0.15 }, swl_kn: 30.0, sole_plate: None }
+        use crate::scene::catalogue;
+        let jack = catalogue::shipped().jack(catalogue::DEFAULT_JACK).expect("the shipped catalogue has its default jack (tested)");
+        catalogue::support_type(id, jack, None)
     }
 
     /// A new post at (x, y). It takes its levels and support type from the nearest post, or
@@ -964,7 +1000,7 @@ pub mod place {
             Some(p) => (p.base_level, p.top_level, p.support.clone()),
             None => (base_level, base_level + height_m, scene.support_types.first().map(|s| s.id.clone())),
         };
-        Post { id: fresh_id(scene, "P"), x, y, base_level: base, top_level: top, support, self_weight_kn_per_m: STEEL_TUBE_KN_PER_M }
+        Post { id: fresh_id(scene, "P"), x, y, base_level: base, top_level: top, support, self_weight_kn_per_m: STEEL_TUBE_KN_PER_M, section: None }
     }
 
     /// Whether a post stands at (x, y) already (within the geometry tolerance) at that level.
@@ -1017,6 +1053,8 @@ pub mod place {
             overhang_end_m: 0.0,
             self_weight_kn_per_m: STEEL_TUBE_KN_PER_M,
             method: None,
+            joints: None,
+            section: None,
         })
     }
 
@@ -1059,7 +1097,7 @@ pub mod place {
         let span = (spans[0].0, spans[spans.len() - 1].0);
         let extent = if along_x { Rect { x: along, y: span } } else { Rect { x: span, y: along } };
         let level = spans.iter().map(|s| s.2.level).fold(f64::NEG_INFINITY, f64::max);
-        Ok(Deck { id: fresh_id(scene, "D"), level, extent, bearers: spans.iter().map(|s| s.2.id.clone()).collect(), self_weight_kpa, method: None })
+        Ok(Deck { id: fresh_id(scene, "D"), level, extent, bearers: spans.iter().map(|s| s.2.id.clone()).collect(), self_weight_kpa, method: None, joints: None, decking: None })
     }
 
     /// A brace from post `from` at `from_level` to post `to` at `to_level` (defaults: the lower
@@ -1306,7 +1344,7 @@ mod tests {
     fn load_on_deck_follows_a_renamed_deck() {
         // common practice, no source
         let mut s = demo();
-        Edit::Add(Element::Load(Load { id: "pallet".into(), case: Case::Q, kind: LoadKind::DeckPatch { deck: "Deck-2".into(), area: crate::scene::model::Rect { x: (1.0, 2.0), y: (1.0, 2.0) }, intensity: Intensity::Kpa(5.0) } }))
+        Edit::Add(Element::Load(Load::new("pallet", Case::Q, LoadKind::DeckPatch { deck: "Deck-2".into(), area: crate::scene::model::Rect { x: (1.0, 2.0), y: (1.0, 2.0) }, intensity: Intensity::Kpa(5.0) })))
             .apply(&mut s)
             .unwrap();
         let mut d = s.decks[0].clone();

@@ -56,6 +56,8 @@ pub enum Part {
     Bearer(BeamRole),
     /// A deck slab.
     Deck,
+    /// A slab of an existing structure the plates stand on.
+    ExistingStructure,
     /// A brace.
     Brace,
     /// An arrow of a load (shaft and head are separate shapes).
@@ -69,7 +71,7 @@ impl Part {
     /// the same ray wins over it.
     fn pick_priority(self) -> u8 {
         match self {
-            Part::Deck | Part::LoadSpread => 0,
+            Part::Deck | Part::LoadSpread | Part::ExistingStructure => 0,
             _ => 1,
         }
     }
@@ -183,7 +185,7 @@ impl ShapeOptions {
         for l in &scene.loads {
             match &l.kind {
                 LoadKind::DeckArea { intensity, .. } | LoadKind::DeckPatch { intensity, .. } => kpa = kpa.max(intensity.kpa().unwrap_or(0.0).abs()),
-                LoadKind::DeckPoint { kn: f, .. } | LoadKind::BearerPoint { kn: f, .. } | LoadKind::PostTop { kn: f, .. } | LoadKind::Horizontal { kn: f, .. } => kn = kn.max(f.abs()),
+                LoadKind::DeckPoint { kn: f, .. } | LoadKind::BearerPoint { kn: f, .. } | LoadKind::PostTop { kn: f, .. } | LoadKind::Horizontal { kn: f, .. } | LoadKind::Kentledge { kn: f, .. } => kn = kn.max(f.abs()),
                 LoadKind::BearerLine { kn_per_m, from_m, to_m, .. } => kn = kn.max((kn_per_m * (to_m - from_m)).abs()),
                 LoadKind::Wind { face, kpa: p, direction } => kn = kn.max(wind_force(face, *p, *direction).abs()),
                 LoadKind::Notional { .. } => kn = kn.max(notional.get(l.id.as_str()).copied().unwrap_or(0.0)),
@@ -263,6 +265,9 @@ pub fn shapes_bounds(shapes: &[Shape]) -> Option<(V3, V3)> {
     Some(it.fold(first, |(lo, hi), (a, b)| ([0, 1, 2].map(|k| lo[k].min(a[k])), [0, 1, 2].map(|k| hi[k].max(b[k])))))
 }
 
+/// Drawn thickness of an existing structure's slab, m (it is not part of any calculation).
+const EXISTING_SLAB_DRAWN_THICKNESS_M: f64 = 0.2;
+
 /// Every solid of the scene's drawing. Elements whose references do not resolve are left out
 /// (validation reports them). `analysis` gives the size of notional loads, which depend on
 /// the solved vertical load.
@@ -310,6 +315,12 @@ pub fn shapes(scene: &Scene, opts: &ShapeOptions, analysis: Option<&Analysis>) -
         let t = opts.deck_thickness_m;
         let prim = Prim::Cuboid { min: [d.extent.x.0, d.extent.y.0, d.level - t], max: [d.extent.x.1, d.extent.y.1, d.level] };
         push(&ElementRef::new(ElementKind::Deck, &d.id), Part::Deck, 0, prim, None);
+    }
+    for e in &scene.existing_structures {
+        // Drawn as a slab under its top surface, as thick as a floor slab looks.
+        let t = EXISTING_SLAB_DRAWN_THICKNESS_M;
+        let prim = Prim::Cuboid { min: [e.extent.x.0, e.extent.y.0, e.level - t], max: [e.extent.x.1, e.extent.y.1, e.level] };
+        push(&ElementRef::new(ElementKind::ExistingStructure, &e.id), Part::ExistingStructure, 0, prim, None);
     }
     for b in &scene.braces {
         let (Some(p), Some(q)) = (posts.get(b.from.post.as_str()), posts.get(b.to.post.as_str())) else { continue };
@@ -455,6 +466,27 @@ fn load_arrows(
                 (c(face.from, face.top), c(face.from, face.bottom)),
             ] {
                 d.spread.push(Prim::Bar { a, b, radius: rad });
+            }
+        }
+        LoadKind::Kentledge { on, kn, .. } => {
+            // A block on each plate it sits on (or at its point on the deck), with its arrow.
+            let side = opts.arrow_radius_m * 6.0;
+            let mut block = |at: V3, share: f64| {
+                d.spread.push(Prim::Cuboid { min: [at[0] - side, at[1] - side, at[2]], max: [at[0] + side, at[1] + side, at[2] + side] });
+                d.arrows.push(down(add(at, [0.0, 0.0, side]), share * opts.arrow_m_per_kn));
+            };
+            match on {
+                crate::scene::loads::KentledgePlace::Plates(ids) => {
+                    let share = kn / ids.len().max(1) as f64;
+                    for p in ids.iter().filter_map(|id| posts.get(id.as_str())) {
+                        block([p.x, p.y, p.base_level], share);
+                    }
+                }
+                crate::scene::loads::KentledgePlace::Deck { deck, x, y } => {
+                    if let Some(dk) = decks.get(deck.as_str()) {
+                        block([*x, *y, dk.level], *kn);
+                    }
+                }
             }
         }
         LoadKind::Notional { direction, .. } => {
@@ -924,8 +956,8 @@ mod tests {
         // common practice, no source: an arrow twice as long for twice the force
         let mut scene = crate::scene::demo::default_scene();
         scene.loads.retain(|l| !matches!(l.kind, LoadKind::Notional { .. }));
-        scene.loads.push(crate::scene::loads::Load { id: "p1".into(), case: Case::Q, kind: LoadKind::PostTop { post: "A1".into(), kn: 2.0 } });
-        scene.loads.push(crate::scene::loads::Load { id: "p2".into(), case: Case::Q, kind: LoadKind::PostTop { post: "B1".into(), kn: 4.0 } });
+        scene.loads.push(crate::scene::loads::Load::new("p1", Case::Q, LoadKind::PostTop { post: "A1".into(), kn: 2.0 }));
+        scene.loads.push(crate::scene::loads::Load::new("p2", Case::Q, LoadKind::PostTop { post: "B1".into(), kn: 4.0 }));
         let opts = ShapeOptions::for_scene(&scene, None);
         let s = shapes(&scene, &opts, None);
         let len = |id: &str| -> f64 {

@@ -1,6 +1,11 @@
 //! The machine-readable result: one JSON document whose shape is documented in the README
 //! ("JSON output") and versioned by `plateload_json`.
 //!
+//! Version 2 (this one): `allowable_kpa` and `bearing_utilisation` are `null` where no allowable
+//! is entered; each combination adds `layer_top_kpa` and `layer_utilisation`; each base adds
+//! `plate_area_m2`, `hold_down`, `sliding`, `formation_group`, `surface_group`; the document adds
+//! `findings`, `ground` and `sliding`, and `stability` lists each structure's tipping axes.
+//!
 //! Method fields (added without a version change; old readers can ignore them): `methods` lists
 //! the method passes solved, primary first (its loads fill `cases_kn` and `equilibrium`); each
 //! base has `governing_method` and `min_method` (a pass name, or `any (methods agree)`) and
@@ -13,8 +18,10 @@ use crate::check::{Analysis, CaseEquilibrium};
 use crate::scene::loads::Case;
 use crate::check::stability::Stability;
 
-/// Version of the JSON shape.
-pub const JSON_VERSION: u32 = 1;
+/// Version of the JSON shape. 2: the allowable bearing pressure may be `null` (not entered, not
+/// checked); overturning per structure and axis in both forms; sliding, ground, hold-down and the
+/// findings at a glance.
+pub const JSON_VERSION: u32 = 2;
 
 #[derive(Serialize)]
 struct PerCase<T> {
@@ -40,13 +47,44 @@ struct Doc<'a> {
     units: Units,
     combinations: &'a [crate::Combination],
     methods: Vec<&'a str>,
+    imposed_loads: ImposedLoads<'a>,
     bases: Vec<Base<'a>>,
+    lifts: Vec<Lift<'a>>,
     totals: Totals,
     equilibrium: Vec<Equilibrium>,
     horizontal_loads: Vec<HorizontalLoad<'a>>,
     equilibrium_by_method: Vec<MethodEquilibrium<'a>>,
+    findings: Vec<crate::export::findings::Finding>,
+    ground: GroundDoc<'a>,
     stability: &'a Stability,
+    sliding: &'a crate::check::sliding::Sliding,
     warnings: Vec<String>,
+}
+
+/// How the imposed loads are placed.
+#[derive(Serialize)]
+struct ImposedLoads<'a> {
+    /// Every imposed load spread over a deck or bearer is split into cells and loaded where
+    /// unfavourable at each plate, except these (applied whole, as the planner set).
+    whole: &'a [String],
+    working_levels: &'static str,
+}
+
+#[derive(Serialize)]
+struct GroundDoc<'a> {
+    allowable_kpa: Option<f64>,
+    basis: &'static str,
+    layer: Option<crate::scene::model::GranularLayer>,
+    layer_weight_added_kpa: f64,
+    formation_groups: Vec<GroupDoc<'a>>,
+    surface_groups: Vec<GroupDoc<'a>>,
+}
+
+#[derive(Serialize)]
+struct GroupDoc<'a> {
+    plates: Vec<&'a str>,
+    union_area_m2: f64,
+    levels_differ: bool,
 }
 
 #[derive(Serialize)]
@@ -71,9 +109,11 @@ struct Base<'a> {
     y: f64,
     base_level: f64,
     support: &'a str,
+    on_structure: Option<&'a str>,
     swl_kn: f64,
     bearing_area_m2: f64,
-    allowable_kpa: f64,
+    plate_area_m2: f64,
+    allowable_kpa: Option<f64>,
     cases_kn: PerCase<f64>,
     shear_kn: PerCase<[f64; 2]>,
     combinations: Vec<BaseCombination<'a>>,
@@ -83,7 +123,38 @@ struct Base<'a> {
     governing_method: &'a str,
     min_method: &'a str,
     cases_kn_by_method: Vec<MethodCases<'a>>,
+    hold_down: Option<HoldDownDoc<'a>>,
+    sliding: Option<&'a crate::check::sliding::PlateSliding>,
+    formation_group: Option<u32>,
+    surface_group: Option<u32>,
+    arrangements: Vec<crate::check::ArrangementAt>,
     status: &'static str,
+}
+
+/// A post standing on another member: the load it passes on at its base.
+#[derive(Serialize)]
+struct Lift<'a> {
+    id: &'a str,
+    stands_on: &'a str,
+    base_level: f64,
+    swl_kn: Option<f64>,
+    cases_kn: PerCase<f64>,
+    combinations: Vec<LiftCombination<'a>>,
+    status: &'static str,
+}
+
+#[derive(Serialize)]
+struct LiftCombination<'a> {
+    name: &'a str,
+    max_kn: f64,
+    min_kn: f64,
+}
+
+#[derive(Serialize)]
+struct HoldDownDoc<'a> {
+    combination: &'a str,
+    anchor_kn: f64,
+    kentledge_kn: Option<f64>,
 }
 
 #[derive(Serialize)]
@@ -106,7 +177,9 @@ struct BaseCombination<'a> {
     min_kn: f64,
     load_utilisation: f64,
     bearing_kpa: f64,
-    bearing_utilisation: f64,
+    bearing_utilisation: Option<f64>,
+    layer_top_kpa: Option<f64>,
+    layer_utilisation: Option<f64>,
     utilisation: f64,
     status: &'static str,
     max_method: &'a str,
@@ -126,11 +199,12 @@ struct Equilibrium {
     force_residual_kn: f64,
     moment_residual_knm: f64,
     relative: f64,
+    one_state: bool,
 }
 
 impl From<&CaseEquilibrium> for Equilibrium {
     fn from(e: &CaseEquilibrium) -> Self {
-        Equilibrium { case: e.case, force_residual_kn: e.force_residual_kn, moment_residual_knm: e.moment_residual_knm, relative: e.relative }
+        Equilibrium { case: e.case, force_residual_kn: e.force_residual_kn, moment_residual_knm: e.moment_residual_knm, relative: e.relative, one_state: e.one_state }
     }
 }
 
@@ -146,8 +220,10 @@ pub fn analysis_json(a: &Analysis) -> String {
             y: p.y,
             base_level: p.base_level,
             support: &p.support,
+            on_structure: p.on_structure.as_deref(),
             swl_kn: p.swl_kn,
             bearing_area_m2: p.bearing_area_m2,
+            plate_area_m2: p.plate_area_m2,
             allowable_kpa: p.allowable_kpa,
             cases_kn: PerCase::of(p.case_kn),
             shear_kn: PerCase::of(p.case_shear_kn),
@@ -162,6 +238,8 @@ pub fn analysis_json(a: &Analysis) -> String {
                     load_utilisation: c.load_utilisation,
                     bearing_kpa: c.bearing_kpa,
                     bearing_utilisation: c.bearing_utilisation,
+                    layer_top_kpa: c.layer_top_kpa,
+                    layer_utilisation: c.layer_utilisation,
                     utilisation: c.utilisation,
                     status: c.status.label(),
                     max_method: a.method_label(c.max_method),
@@ -174,6 +252,11 @@ pub fn analysis_json(a: &Analysis) -> String {
             governing_method: a.governing_method_label(i),
             min_method: a.min_method_label(i),
             cases_kn_by_method: p.case_kn_by_method.iter().enumerate().map(|(m, &c)| MethodCases { method: a.method_label(m), cases_kn: PerCase::of(c) }).collect(),
+            hold_down: p.hold_down.map(|h| HoldDownDoc { combination: &a.combinations[h.combination].name, anchor_kn: h.anchor_kn, kentledge_kn: h.kentledge_kn }),
+            sliding: p.sliding.as_ref(),
+            formation_group: p.formation_group,
+            surface_group: p.surface_group,
+            arrangements: a.arrangements_at(i),
             status: p.status.label(),
         })
         .collect();
@@ -184,7 +267,21 @@ pub fn analysis_json(a: &Analysis) -> String {
         units: Units { force: "kN", length: "m", pressure: "kPa", moment: "kN.m" },
         combinations: &a.combinations,
         methods: (0..a.method_count()).map(|m| a.method_label(m)).collect(),
+        imposed_loads: ImposedLoads { whole: &a.whole_loads, working_levels: a.working_levels.label() },
         bases,
+        lifts: a
+            .lifts
+            .iter()
+            .map(|l| Lift {
+                id: &l.id,
+                stands_on: &l.stands_on,
+                base_level: l.base_level,
+                swl_kn: l.swl_kn,
+                cases_kn: PerCase::of(l.case_kn),
+                combinations: a.combinations.iter().zip(&l.combinations).map(|(c, r)| LiftCombination { name: &c.name, max_kn: r.max_kn, min_kn: r.min_kn }).collect(),
+                status: l.status.label(),
+            })
+            .collect(),
         totals: Totals {
             applied_kn: PerCase::of(a.equilibrium.map(|e| e.applied.down())),
             reactions_kn: PerCase::of(a.equilibrium.map(|e| e.reactions.force[2])),
@@ -198,9 +295,71 @@ pub fn analysis_json(a: &Analysis) -> String {
             .enumerate()
             .map(|(m, eq)| MethodEquilibrium { method: a.method_label(m), cases: eq.iter().map(Equilibrium::from).collect() })
             .collect(),
+        findings: crate::export::findings::findings(a),
+        ground: GroundDoc {
+            allowable_kpa: a.ground.allowable_kpa,
+            basis: a.ground.basis.label(),
+            layer: a.ground.layer,
+            layer_weight_added_kpa: a.ground.layer_weight_added_kpa(),
+            formation_groups: groups(a, &a.ground.formation_groups),
+            surface_groups: groups(a, &a.ground.surface_groups),
+        },
         stability: &a.stability,
+        sliding: &a.sliding,
         warnings: a.warnings.iter().map(|w| w.to_string()).collect(),
     };
     // Non-finite numbers cannot occur in a valid analysis; serde_json writes them as null.
-    serde_json::to_string_pretty(&doc).expect("the document is plain data")
+    let mut out = Vec::with_capacity(1024 + 2048 * a.plates.len());
+    let mut ser = serde_json::Serializer::with_formatter(&mut out, Numbers(serde_json::ser::PrettyFormatter::new()));
+    doc.serialize(&mut ser).expect("the document is plain data");
+    String::from_utf8(out).expect("serde_json writes UTF-8")
+}
+
+/// serde_json's pretty layout, with every number written through [`crate::format`]: no
+/// negative zero.
+struct Numbers(serde_json::ser::PrettyFormatter<'static>);
+
+impl serde_json::ser::Formatter for Numbers {
+    fn write_f64<W: ?Sized + std::io::Write>(&mut self, w: &mut W, v: f64) -> std::io::Result<()> {
+        self.0.write_f64(w, crate::format::no_negative_zero(v))
+    }
+    fn write_f32<W: ?Sized + std::io::Write>(&mut self, w: &mut W, v: f32) -> std::io::Result<()> {
+        self.0.write_f32(w, if v == 0.0 { 0.0 } else { v })
+    }
+    fn begin_array<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.begin_array(w)
+    }
+    fn end_array<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.end_array(w)
+    }
+    fn begin_array_value<W: ?Sized + std::io::Write>(&mut self, w: &mut W, first: bool) -> std::io::Result<()> {
+        self.0.begin_array_value(w, first)
+    }
+    fn end_array_value<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.end_array_value(w)
+    }
+    fn begin_object<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.begin_object(w)
+    }
+    fn end_object<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.end_object(w)
+    }
+    fn begin_object_key<W: ?Sized + std::io::Write>(&mut self, w: &mut W, first: bool) -> std::io::Result<()> {
+        self.0.begin_object_key(w, first)
+    }
+    fn begin_object_value<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.begin_object_value(w)
+    }
+    fn end_object_value<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.end_object_value(w)
+    }
+}
+
+/// Overlap groups with their plates' ids (the groups hold post indices).
+fn groups<'a>(a: &'a Analysis, list: &'a [crate::check::bearing::SpreadGroup]) -> Vec<GroupDoc<'a>> {
+    let mut id_of: Vec<&str> = vec![""; a.solution.plates.len()];
+    for p in &a.plates {
+        id_of[p.post] = &p.id;
+    }
+    list.iter().map(|g| GroupDoc { plates: g.plates.iter().map(|&p| id_of[p as usize]).collect(), union_area_m2: g.union_area_m2, levels_differ: g.levels_differ }).collect()
 }

@@ -106,9 +106,10 @@ pub fn oklab_to_srgb([l, a, b]: [f64; 3]) -> [u8; 3] {
 pub enum Cue {
     /// Nothing extra.
     None,
-    /// Over capacity: drawn with a bold contrasting outline / cross-hatch.
+    /// Over capacity: a bold square frame around the plate (in print also a cross-hatch).
     Over,
-    /// The plate lifts: drawn with an upward marker.
+    /// The plate lifts: a bold round ring around the plate, with an upward marker (a raised
+    /// cone in the 3D view).
     Uplift,
     /// Both.
     OverAndUplift,
@@ -164,5 +165,103 @@ mod tests {
         assert_eq!(Band::of(1.0), Band::Near);
         assert_eq!(Band::of(1.01), Band::Over);
         assert_eq!(Band::of(f64::NAN), Band::Over);
+    }
+}
+
+/// Bands of the spare-capacity map ([`crate::check::spare`]): how much extra load a point of a
+/// deck takes, kN. One hue, light where there is much room and dark where there is little, so it
+/// reads in grey scale and is not confused with the utilisation ramp; a point already at a limit
+/// is near-black and also hatched, so it never depends on colour alone.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
+pub enum SpareBand {
+    /// A limit is already reached: no extra load.
+    AtLimit,
+    /// Up to 1 kN.
+    UpTo1,
+    /// 1 to 2.5 kN.
+    UpTo2_5,
+    /// 2.5 to 5 kN.
+    UpTo5,
+    /// 5 to 10 kN.
+    UpTo10,
+    /// 10 to 20 kN.
+    UpTo20,
+    /// More than 20 kN.
+    Above20,
+    /// Nothing limits it (no capacity known on its path).
+    Unlimited,
+}
+
+impl SpareBand {
+    /// All bands, least room first.
+    pub const ALL: [SpareBand; 8] =
+        [SpareBand::AtLimit, SpareBand::UpTo1, SpareBand::UpTo2_5, SpareBand::UpTo5, SpareBand::UpTo10, SpareBand::UpTo20, SpareBand::Above20, SpareBand::Unlimited];
+
+    /// The band of a spare load (kN; `None` where nothing limits it).
+    pub fn of(kn: Option<f64>, already_at_limit: bool) -> SpareBand {
+        match kn {
+            None => SpareBand::Unlimited,
+            Some(_) if already_at_limit => SpareBand::AtLimit,
+            Some(k) if k <= 0.0 => SpareBand::AtLimit,
+            Some(k) if k < 1.0 => SpareBand::UpTo1,
+            Some(k) if k < 2.5 => SpareBand::UpTo2_5,
+            Some(k) if k < 5.0 => SpareBand::UpTo5,
+            Some(k) if k < 10.0 => SpareBand::UpTo10,
+            Some(k) if k < 20.0 => SpareBand::UpTo20,
+            Some(_) => SpareBand::Above20,
+        }
+    }
+
+    /// Legend label.
+    pub fn label(self) -> &'static str {
+        match self {
+            SpareBand::AtLimit => "none: a limit is already reached",
+            SpareBand::UpTo1 => "under 1 kN",
+            SpareBand::UpTo2_5 => "1–2.5 kN",
+            SpareBand::UpTo5 => "2.5–5 kN",
+            SpareBand::UpTo10 => "5–10 kN",
+            SpareBand::UpTo20 => "10–20 kN",
+            SpareBand::Above20 => "over 20 kN",
+            SpareBand::Unlimited => "no limit found",
+        }
+    }
+
+    /// sRGB colour.
+    pub fn colour(self) -> [u8; 3] {
+        match self {
+            SpareBand::AtLimit => [0x24, 0x1f, 0x2b],
+            SpareBand::UpTo1 => [0x1d, 0x3f, 0x73],
+            SpareBand::UpTo2_5 => [0x2b, 0x5f, 0x9e],
+            SpareBand::UpTo5 => [0x4f, 0x86, 0xc2],
+            SpareBand::UpTo10 => [0x86, 0xb0, 0xdc],
+            SpareBand::UpTo20 => [0xbd, 0xd4, 0xec],
+            SpareBand::Above20 => [0xe9, 0xf1, 0xf9],
+            SpareBand::Unlimited => [0xf7, 0xf7, 0xf2],
+        }
+    }
+}
+
+#[cfg(test)]
+mod spare_band_tests {
+    use super::*;
+
+    /// Relative luminance of an sRGB colour (WCAG 2 formula).
+    fn luminance(c: [u8; 3]) -> f64 {
+        let lin = |v: u8| {
+            let v = v as f64 / 255.0;
+            if v <= 0.04045 { v / 12.92 } else { ((v + 0.055) / 1.055).powf(2.4) }
+        };
+        0.2126 * lin(c[0]) + 0.7152 * lin(c[1]) + 0.0722 * lin(c[2])
+    }
+
+    #[test]
+    fn spare_bands_get_lighter_with_more_room() {
+        // source: WCAG 2.1 relative luminance definition; the order must read in grey scale
+        let l: Vec<f64> = SpareBand::ALL[..7].iter().map(|b| luminance(b.colour())).collect();
+        assert!(l.windows(2).all(|w| w[1] > w[0]), "{l:?}");
+        assert_eq!(SpareBand::of(Some(0.0), false), SpareBand::AtLimit);
+        assert_eq!(SpareBand::of(Some(3.0), true), SpareBand::AtLimit);
+        assert_eq!(SpareBand::of(Some(7.5), false), SpareBand::UpTo10);
+        assert_eq!(SpareBand::of(None, false), SpareBand::Unlimited);
     }
 }

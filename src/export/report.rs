@@ -99,11 +99,12 @@ pub fn report_html(scene: &Scene, analysis: &Analysis, opts: &ReportOptions) -> 
     schedule(&mut h, analysis);
     stability(&mut h, analysis);
     equilibrium(&mut h, analysis);
+    spare(&mut h, scene, analysis);
     warnings(&mut h, analysis);
     if let Some(png) = &opts.picture_png {
         let _ = writeln!(
             h,
-            "<section class=\"picture\"><h2>8. 3D view</h2><figure><img alt=\"3D view of the scene\" src=\"data:image/png;base64,{}\"><figcaption>Rendered view of the scene, for orientation only; the numbers above govern.</figcaption></figure></section>",
+            "<section class=\"picture\"><h2>9. 3D view</h2><figure><img alt=\"3D view of the scene\" src=\"data:image/png;base64,{}\"><figcaption>Rendered view of the scene, for orientation only; the numbers above govern.</figcaption></figure></section>",
             base64(png)
         );
     }
@@ -175,8 +176,7 @@ fn base64(bytes: &[u8]) -> String {
 
 /// A number with `dp` decimals, never written as `-0.00`.
 fn num(v: f64, dp: usize) -> String {
-    let s = format!("{v:.dp$}");
-    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') { s[1..].to_owned() } else { s }
+    format!("{:.dp$}", crate::format::num(v))
 }
 
 /// kN to two decimals.
@@ -191,7 +191,7 @@ fn pct(v: f64) -> String {
 
 /// A relative residual in scientific notation.
 fn sci(v: f64) -> String {
-    format!("{v:.1e}")
+    format!("{:.1e}", crate::format::num(v))
 }
 
 fn hex([r, g, b]: [u8; 3]) -> String {
@@ -248,6 +248,14 @@ fn load_words(kind: &LoadKind) -> (String, String) {
         LoadKind::Notional { percent, direction, basis } => {
             let cases: Vec<&str> = basis.iter().map(|c| c.name()).collect();
             ("every post, where vertical load enters".into(), format!("{} % of {} towards {}", num(*percent, 2), cases.join("+"), direction_words(*direction)))
+        }
+        LoadKind::Kentledge { on, kn: w, form, secured } => {
+            let place = match on {
+                crate::scene::loads::KentledgePlace::Plates(ids) => format!("on plates {}", ids.join(", ")),
+                crate::scene::loads::KentledgePlace::Deck { deck, x, y } => format!("deck {deck} at ({}, {}) m", m(*x), m(*y)),
+            };
+            let counts = if kind.may_be_favourable() { "counts where it holds down" } else { "never counted as holding down (not secured)" };
+            (place, format!("{} kN, {}, {}; {counts}", kn(*w), form.label(), if *secured { "secured" } else { "not secured" }))
         }
     }
 }
@@ -330,18 +338,28 @@ fn title_block(h: &mut String, scene: &Scene, a: &Analysis, opts: &ReportOptions
 
 /// Which capacity governs a plate's utilisation.
 fn governed_by(p: &PlateResult) -> &'static str {
-    let g = p.governing();
-    if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" }
+    p.governing().governed_by()
 }
 
 fn glance(h: &mut String, a: &Analysis) {
     let _ = writeln!(h, "<section><h2>1. Findings at a glance</h2><table class=\"glance\">");
+    for f in crate::export::findings::findings(a) {
+        let verdict = match f.verdict {
+            crate::export::findings::Verdict::Fails => format!("<span class=\"bad\">{}</span>", f.verdict.label()),
+            crate::export::findings::Verdict::NotChecked => format!("<strong>{}</strong>", f.verdict.label()),
+            crate::export::findings::Verdict::Passes => f.verdict.label().to_owned(),
+        };
+        let text = if f.verdict == crate::export::findings::Verdict::Fails { format!("<span class=\"bad\">{}</span>", esc(&f.text)) } else { esc(&f.text) };
+        let _ = writeln!(h, "<tr><td class=\"k\">{} — {verdict}</td><td>{text}</td></tr>", esc(&capitalise(f.check)));
+    }
     if let Some(w) = a.worst_plate() {
         let p = &a.plates[w];
         let g = p.governing();
+        let arrangement: Vec<String> = a.arrangements_at(w).iter().map(|n| esc(&n.words())).collect();
+        let arrangement = if arrangement.is_empty() { String::new() } else { format!("<br>{}", arrangement.join("<br>")) };
         let _ = writeln!(
             h,
-            "<tr><td class=\"k\">Most utilised base plate</td><td><strong>{}</strong>: {} kN, {} ({}, combination {})</td></tr>",
+            "<tr><td class=\"k\">Most utilised base plate</td><td><strong>{}</strong>: {} kN, {} ({}, combination {}){arrangement}</td></tr>",
             esc(&p.id),
             kn(g.max_kn),
             pct(g.utilisation),
@@ -349,51 +367,35 @@ fn glance(h: &mut String, a: &Analysis) {
             esc(&a.combinations[p.governing].name)
         );
     }
-    let over: Vec<&str> = a.plates.iter().filter(|p| p.status.over).map(|p| p.id.as_str()).collect();
-    let uplift: Vec<&str> = a.plates.iter().filter(|p| p.status.uplift).map(|p| p.id.as_str()).collect();
-    let list = |ids: &[&str]| {
-        if ids.is_empty() {
-            "none".to_owned()
-        } else {
-            let shown: Vec<String> = ids.iter().take(20).map(|s| esc(s)).collect();
-            let more = if ids.len() > 20 { format!(" and {} more", ids.len() - 20) } else { String::new() };
-            format!("<span class=\"bad\">{}: {}{more}</span>", ids.len(), shown.join(", "))
-        }
-    };
-    let _ = writeln!(h, "<tr><td class=\"k\">Over capacity</td><td>{}</td></tr>", list(&over));
-    let _ = writeln!(h, "<tr><td class=\"k\">Lifting (uplift)</td><td>{}</td></tr>", list(&uplift));
-    let st = &a.stability;
-    match st.governing() {
-        Some(d) => {
-            let f = d.factor.unwrap_or(f64::INFINITY);
-            let verdict = if f + 1e-9 >= st.target_factor {
-                "meets it".to_owned()
-            } else {
-                match d.kentledge_kn {
-                    Some(k) if k > 0.0 => format!("<span class=\"bad\">below it: add {} kN kentledge</span> (section 5)", kn(k)),
-                    _ => "<span class=\"bad\">below it</span>".to_owned(),
-                }
-            };
-            let _ = writeln!(
-                h,
-                "<tr><td class=\"k\">Lowest overturning factor</td><td>{} tipping towards {}; target {}: {verdict}</td></tr>",
-                num(f, 2),
-                d.direction,
-                num(st.target_factor, 2)
-            );
-        }
-        None => {
-            let _ = writeln!(h, "<tr><td class=\"k\">Lowest overturning factor</td><td>nothing overturns</td></tr>");
-        }
-    }
     let _ = writeln!(h, "<tr><td class=\"k\">Equilibrium (worst case)</td><td>relative residual {} (section 6)</td></tr>", sci(a.worst_residual()));
-    let _ = writeln!(h, "<tr><td class=\"k\">Warnings</td><td>{}</td></tr></table></section>", a.warnings.len());
+    let _ = writeln!(h, "<tr><td class=\"k\">Warnings</td><td>{}</td></tr></table><p class=\"note\">Overturning, sliding and kentledge in section 5; every plate in section 4.</p></section>", a.warnings.len());
+}
+
+/// First letter upper case.
+fn capitalise(s: &str) -> String {
+    let mut c = s.chars();
+    c.next().map_or_else(String::new, |f| f.to_uppercase().chain(c).collect())
 }
 
 fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
     let site = &scene.site;
     let _ = writeln!(h, "<section><h2>2. Inputs</h2><h3>Ground</h3><table><tbody>");
-    let _ = writeln!(h, "<tr><th>Allowable ground bearing pressure</th><td class=\"n\">{} kPa</td><td>entered by the planner; confirm with site data</td></tr>", num(site.allowable_bearing_kpa, 1));
+    match site.allowable_bearing_kpa {
+        Some(q) => {
+            let _ = writeln!(
+                h,
+                "<tr><th>Allowable ground bearing pressure at formation</th><td class=\"n\">{} kPa</td><td>entered by the planner; confirm with site data. {}</td></tr>",
+                num(q, 1),
+                match site.allowable_basis {
+                    crate::scene::model::AllowableBasis::Gross => "Gross: compared with the plates' pressure plus the granular layer's own weight.",
+                    crate::scene::model::AllowableBasis::Net => "Net: compared with the plates' pressure only; the granular layer's weight is overburden.",
+                }
+            );
+        }
+        None => {
+            let _ = writeln!(h, "<tr><th>Allowable ground bearing pressure at formation</th><td class=\"n\"><strong>not entered</strong></td><td>ground bearing at formation is <strong>not checked</strong>: enter the allowable for the site</td></tr>");
+        }
+    }
     match site.granular_layer {
         None => {
             let _ = writeln!(h, "<tr><th>Granular layer</th><td class=\"n\">none</td><td>plates bear directly on the ground</td></tr>");
@@ -405,25 +407,72 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
                 LoadSpread::AngleDeg(d) => format!("spread at {}° from the vertical", num(d, 1)),
             };
             let _ = writeln!(h, "<tr><th>Granular layer</th><td class=\"n\">{} m</td><td>{}</td></tr>", num(l.thickness_m, 3), esc(&rule));
+            let _ = writeln!(
+                h,
+                "<tr><th>Unit weight of the layer</th><td class=\"n\">{} kN/m³</td><td>its weight at formation {} kPa, {}</td></tr>",
+                num(l.unit_weight_kn_m3, 2),
+                num(l.self_weight_kpa(), 2),
+                if a.ground.layer_weight_added_kpa() > 0.0 { "added to the pressure at formation (gross allowable)" } else { "not added (net allowable)" }
+            );
+            match l.allowable_kpa {
+                Some(q) => {
+                    let _ = writeln!(h, "<tr><th>Allowable pressure on the layer</th><td class=\"n\">{} kPa</td><td>under each plate or sole board, on the top of the layer</td></tr>", num(q, 1));
+                }
+                None => {
+                    let _ = writeln!(h, "<tr><th>Allowable pressure on the layer</th><td class=\"n\"><strong>not entered</strong></td><td>pressure on the top of the layer is <strong>not checked</strong></td></tr>");
+                }
+            }
         }
     }
-    let _ = writeln!(h, "<tr><th>Target overturning factor</th><td class=\"n\">{}</td><td>restoring ÷ overturning moment</td></tr></tbody></table>", num(scene.stability.target_factor, 2));
+    let st = &scene.stability;
+    let e = st.equilibrium;
+    let _ = writeln!(
+        h,
+        "<tr><th>Target overturning factor</th><td class=\"n\">{}</td><td>restoring moment of the stabilising permanent load ÷ overturning moment of the destabilising permanent and variable loads, unfactored (default 1.5: UK falsework practice, from memory)</td></tr>",
+        num(st.target_factor, 2)
+    );
+    let _ = writeln!(
+        h,
+        "<tr><th>Equilibrium partial factors</th><td class=\"n\">{} / {} / {} / {}</td><td>γG on destabilising / on stabilising permanent load, γQ, γW on destabilising variable load (default EN 1990 Table A1.2(A), recommended values)</td></tr>",
+        num(e.g_unfavourable, 2),
+        num(e.g_favourable, 2),
+        num(e.q, 2),
+        num(e.w, 2)
+    );
+    let _ = writeln!(
+        h,
+        "<tr><th>Target sliding factor</th><td class=\"n\">{}</td><td>friction ÷ horizontal load, unfactored (default 2.0 where friction alone transfers the load: Concrete Society note on Pallett et al. 2002)</td></tr>",
+        num(st.sliding_target_factor, 2)
+    );
+    let kent = if st.kentledge_plates.is_empty() { "over the plates farthest from each tipping edge".to_owned() } else { format!("over plates {}", esc(&st.kentledge_plates.join(", "))) };
+    let _ = writeln!(h, "<tr><th>Kentledge placed</th><td class=\"n\">—</td><td>{kent}, secured to the standards</td></tr></tbody></table>");
 
     let _ = writeln!(
         h,
-        "<h3>Support types</h3><table><thead><tr><th>Id</th><th>Base plate (mm)</th><th>Sole plate (mm)</th><th class=\"n\">SWL (kN)</th><th class=\"n\">Bearing area at formation (m²)</th><th class=\"n\">Plates</th></tr></thead><tbody>"
+        "<h3>Support types</h3><table><thead><tr><th>Id</th><th>Base plate (mm)</th><th>Sole plate (mm)</th><th class=\"n\">SWL (kN)</th><th>Source of the SWL</th><th class=\"n\">Bearing area at formation (m²)</th><th>Friction (lowest μ of its interfaces)</th><th class=\"n\">Plates</th></tr></thead><tbody>"
     );
     for s in &scene.support_types {
         let mm = |p: crate::scene::model::PlateSize| format!("{} × {}", num(p.width_m * 1000.0, 0), num(p.length_m * 1000.0, 0));
         let used = a.plates.iter().filter(|p| p.support == s.id).count();
+        let mut source = if s.source.trim().is_empty() { "not given".to_owned() } else { esc(&s.source) };
+        if let Some(e) = s.max_extension_m {
+            source = format!("up to {} m jack extension; {source}", num(e, 2));
+        }
+        if crate::scene::catalogue::uses_example_values(s) {
+            source = format!("<span class=\"bad\">EXAMPLE VALUE — replace with the manufacturer's</span>; {source}");
+        }
         let _ = writeln!(
             h,
-            "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{used}</td></tr>",
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"n\">{}</td><td>{source}</td><td class=\"n\">{}</td><td>{}</td><td class=\"n\">{used}</td></tr>",
             esc(&s.id),
             mm(s.base_plate),
             s.sole_plate.map_or_else(|| "none".into(), mm),
             kn(s.swl_kn),
-            num(crate::check::bearing_area(scene, s), 4)
+            num(crate::check::bearing_area(scene, s), 4),
+            match s.friction() {
+                Some((mu, i)) => format!("μ = {}: {}", num(mu, 2), esc(&i.label())),
+                None => "<strong>not given</strong>: sliding not checked".to_owned(),
+            }
         );
     }
     let _ = writeln!(h, "</tbody></table>");
@@ -458,11 +507,18 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
         "</tbody></table><p class=\"note\">Permanent load takes, per plate, whichever factor is worse. Each imposed load counts only where it makes the result worse; of the horizontal loads, the worst single plan direction counts.</p>"
     );
 
-    let _ = writeln!(h, "<h3>Loads</h3><table><thead><tr><th>Id</th><th>Case</th><th>Kind</th><th>Where</th><th>Value</th></tr></thead><tbody>");
-    let _ = writeln!(h, "<tr><td>self-weight</td><td>G</td><td>self-weight</td><td>every post, bearer and deck</td><td>from the members' kN/m and the decks' kPa</td></tr>");
+    let _ = writeln!(h, "<h3>Loads</h3><table><thead><tr><th>Id</th><th>Case</th><th>Kind</th><th>Where</th><th>Value</th><th>Placed</th></tr></thead><tbody>");
+    let _ = writeln!(h, "<tr><td>self-weight</td><td>G</td><td>self-weight</td><td>every post, bearer and deck</td><td>from the members' kN/m and the decks' kPa</td><td>everywhere</td></tr>");
     for l in &scene.loads {
         let (place, value) = load_words(&l.kind);
-        let _ = writeln!(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>", esc(&l.id), l.case, l.kind.label(), esc(&place), esc(&value));
+        let placed = if l.is_arranged() {
+            "in its worst arrangement at each plate"
+        } else if l.case == crate::scene::loads::Case::Q && l.arrangement == crate::scene::loads::Arrangement::Whole {
+            "<strong>whole</strong> (as set)"
+        } else {
+            "whole"
+        };
+        let _ = writeln!(h, "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{placed}</td></tr>", esc(&l.id), l.case, l.kind.label(), esc(&place), esc(&value));
     }
     let braced = match (a.braced.x, a.braced.y) {
         (true, true) => "x and y",
@@ -470,7 +526,11 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
         (false, true) => "y only",
         (false, false) => "neither direction",
     };
-    let _ = writeln!(h, "</tbody></table><p class=\"note\">Braced plan directions: {braced}. Cases: G permanent, Q imposed, W horizontal.</p></section>");
+    let _ = writeln!(
+        h,
+        "</tbody></table><p class=\"note\">Braced plan directions: {braced}. Cases: G permanent, Q imposed, W horizontal. An imposed load placed in its worst arrangement is split into cells (each deck strip between bearers × each stretch between posts, each cantilever or overhang part on its own); at each plate only the cells that push it down count for its maximum, and only those that lift it for its minimum. Working levels: {}.</p></section>",
+        a.working_levels.label()
+    );
 }
 
 /// Plan geometry in drawing units (1 unit ≈ 0.19 mm when printed across A4).
@@ -547,13 +607,21 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
     let scale = ((WIDTH - 2.0 * MARGIN - label_room) / dx).min(900.0 / dy);
     let view = View { scale, x0, y1: y0 + dy, margin: MARGIN, top: TOP };
     let labels: Vec<Vec<String>> = a.plates.iter().map(plate_label).collect();
-    // Drawn plate rectangles (centre x, centre y, half width, half length), drawing units.
+    // Drawn plate footprints (centre x, centre y, half width, half length), drawing units: the
+    // plate rectangle, or the square round its uplift ring, so labels keep clear of both.
     let rects: Vec<[f64; 4]> = a
         .plates
         .iter()
         .map(|p| {
             let (w, l) = plate_size(p);
-            [view.x(p.x), view.y(p.y), (w * scale).max(MIN_PLATE) / 2.0, (l * scale).max(MIN_PLATE) / 2.0]
+            let (hw, hl) = ((w * scale).max(MIN_PLATE) / 2.0, (l * scale).max(MIN_PLATE) / 2.0);
+            let cue = Cue::of(p.status);
+            if matches!(cue, Cue::Uplift | Cue::OverAndUplift) {
+                let r = uplift_ring_radius(hw, hl, cue == Cue::OverAndUplift) + 1.5;
+                [view.x(p.x), view.y(p.y), r, r]
+            } else {
+                [view.x(p.x), view.y(p.y), hw, hl]
+            }
         })
         .collect();
     let font = label_font(&rects, &labels);
@@ -627,7 +695,7 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
     }
     // Plates at scale (never smaller than MIN_PLATE units), coloured by band, with cues.
     let mut enlarged = false;
-    for (p, label) in a.plates.iter().zip(&labels) {
+    for ((p, label), rect) in a.plates.iter().zip(&labels).zip(&rects) {
         let g = p.governing();
         let band = Band::of(g.utilisation);
         let cue = Cue::of(p.status);
@@ -653,7 +721,8 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
             hex(band.colour())
         );
         if over {
-            // Second cue for over capacity: white cross-hatch and a bold outline ring.
+            // Second cue for over capacity: white cross-hatch and a bold square frame (the
+            // editor's cue too; a round ring means uplift).
             let _ = write!(
                 s,
                 "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"url(#hatch)\"/><rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"none\" stroke=\"#000\" stroke-width=\"3.5\"/>",
@@ -668,8 +737,17 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
             );
         }
         if uplift {
-            // Second cue for uplift: an upward marker above the plate.
-            let (tx, ty) = (cx, ry - 8.0);
+            // Second cue for uplift: a bold round ring around the plate (as in the editor) and
+            // an upward marker above it.
+            let ring = uplift_ring_radius(pw / 2.0, pl / 2.0, over);
+            let _ = write!(
+                s,
+                "<circle cx=\"{}\" cy=\"{}\" r=\"{}\" fill=\"none\" stroke=\"#000\" stroke-width=\"3\"/>",
+                num(cx, 1),
+                num(cy, 1),
+                num(ring, 1)
+            );
+            let (tx, ty) = (cx, cy - ring - 2.0);
             let k = font * 0.8;
             let _ = write!(
                 s,
@@ -686,7 +764,7 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
                 num(ty, 1)
             );
         }
-        let lx = cx + pw / 2.0 + 4.0;
+        let lx = rect[0] + rect[2] + 4.0;
         let ly = cy - font * 0.55;
         let _ = write!(
             s,
@@ -759,6 +837,12 @@ fn plan_svg(scene: &Scene, a: &Analysis) -> String {
 
 /// Box of a plate's label at font size `f`: to the right of the plate, starting a little above
 /// its centre. Characters are taken as 0.62 em wide (a little over the average of sans faces).
+/// Radius of the ring drawn round a lifting plate of half sizes `hw` × `hl`: clear of its
+/// corners, and of the square frame when the plate is over capacity too.
+fn uplift_ring_radius(hw: f64, hl: f64, over: bool) -> f64 {
+    hw.hypot(hl) + if over { 9.0 } else { 4.5 }
+}
+
 fn label_box(r: &[f64; 4], label: &[String], f: f64) -> [f64; 4] {
     let chars = label.iter().map(|t| t.chars().count()).max().unwrap_or(1) as f64;
     let lines = label.len() as f64;
@@ -827,6 +911,9 @@ fn plate_label(p: &PlateResult) -> Vec<String> {
         lines.push("UPLIFT".into());
         lines.push(format!("min {} kN", kn(lift)));
     }
+    if p.status.slides {
+        lines.push("SLIDES".into());
+    }
     lines
 }
 
@@ -838,8 +925,8 @@ fn legend() -> String {
     let over = hex(Band::Over.colour());
     let _ = write!(
         l,
-        "<span><svg width=\"26\" height=\"18\" viewBox=\"0 0 26 18\"><defs><pattern id=\"lh\" width=\"5\" height=\"5\" patternUnits=\"userSpaceOnUse\"><path d=\"M0 0L5 5M5 0L0 5\" stroke=\"#fff\" stroke-width=\"1\"/></pattern></defs><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"{over}\"/><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"url(#lh)\"/><rect x=\"2\" y=\"1\" width=\"22\" height=\"16\" fill=\"none\" stroke=\"#000\" stroke-width=\"2.5\"/></svg>over capacity: hatched, bold ring</span>\
-<span><svg width=\"18\" height=\"18\" viewBox=\"0 0 18 18\"><path d=\"M9 1L3 9L15 9z\" fill=\"#fff\" stroke=\"#000\" stroke-width=\"1.6\"/><line x1=\"9\" y1=\"9\" x2=\"9\" y2=\"17\" stroke=\"#000\" stroke-width=\"1.6\"/></svg>uplift: upward marker</span></div>"
+        "<span><svg width=\"26\" height=\"18\" viewBox=\"0 0 26 18\"><defs><pattern id=\"lh\" width=\"5\" height=\"5\" patternUnits=\"userSpaceOnUse\"><path d=\"M0 0L5 5M5 0L0 5\" stroke=\"#fff\" stroke-width=\"1\"/></pattern></defs><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"{over}\"/><rect x=\"6\" y=\"4\" width=\"14\" height=\"10\" fill=\"url(#lh)\"/><rect x=\"2\" y=\"1\" width=\"22\" height=\"16\" fill=\"none\" stroke=\"#000\" stroke-width=\"2.5\"/></svg>over capacity: hatched, square frame</span>\
+<span><svg width=\"30\" height=\"30\" viewBox=\"0 0 30 30\"><circle cx=\"15\" cy=\"18\" r=\"10\" fill=\"none\" stroke=\"#000\" stroke-width=\"2\"/><rect x=\"11\" y=\"15\" width=\"8\" height=\"6\" fill=\"#fff\" stroke=\"#222\" stroke-width=\"0.8\"/><path d=\"M15 0L11 5L19 5z\" fill=\"#fff\" stroke=\"#000\" stroke-width=\"1.4\"/><line x1=\"15\" y1=\"5\" x2=\"15\" y2=\"8\" stroke=\"#000\" stroke-width=\"1.4\"/></svg>lifts (uplift): round ring, upward marker</span></div>"
     );
     l
 }
@@ -878,9 +965,17 @@ fn schedule(h: &mut String, a: &Analysis) {
     for c in &a.combinations {
         let _ = write!(h, "<th colspan=\"2\">{} (kN)</th>", esc(&c.name));
     }
+    // Columns a scene does not need are left out, so the table still fits a landscape page.
+    let show_layer = a.ground.layer.is_some();
+    let show_hold = a.plates.iter().any(|p| p.hold_down.is_some());
+    let show_slide = a.plates.iter().any(|p| p.sliding.is_some());
+    let th = |show: bool, text: &str| if show { format!("<th rowspan=\"2\" class=\"n\">{text}</th>") } else { String::new() };
     let _ = write!(
         h,
-        "<th rowspan=\"2\" class=\"n\">SWL (kN)</th><th rowspan=\"2\" class=\"n\">Bearing area (m²)</th><th rowspan=\"2\" class=\"n\">Bearing (kPa)</th><th rowspan=\"2\" class=\"n\">Allowed (kPa)</th><th rowspan=\"2\" class=\"n\">Utilisation</th><th rowspan=\"2\">Governs</th><th rowspan=\"2\">Status</th></tr><tr><th class=\"n\">G</th><th class=\"n\">Q</th><th class=\"n\">W</th>"
+        "<th rowspan=\"2\" class=\"n\">SWL (kN)</th>{}<th rowspan=\"2\" class=\"n\">Bearing area (m²)</th><th rowspan=\"2\" class=\"n\">Bearing (kPa)</th><th rowspan=\"2\" class=\"n\">Allowed (kPa)</th><th rowspan=\"2\" class=\"n\">Utilisation</th><th rowspan=\"2\">Governs</th>{}{}<th rowspan=\"2\">Status</th></tr><tr><th class=\"n\">G</th><th class=\"n\">Q</th><th class=\"n\">W</th>",
+        th(show_layer, "On layer (kPa)"),
+        th(show_hold, "Hold-down (kN)"),
+        th(show_slide, "Restraint (kN)")
     );
     for _ in &a.combinations {
         h.push_str("<th class=\"n\">max</th><th class=\"n\">min</th>");
@@ -900,21 +995,27 @@ fn schedule(h: &mut String, a: &Analysis) {
             let _ = write!(h, "<td class=\"n\">{}</td><td class=\"n{min_cls}\">{}</td>", kn(pc.max_kn), kn(pc.min_kn));
         }
         let status = if p.status.is_ok() { "OK".to_owned() } else { format!("<span class=\"bad\">{}</span>", p.status.label()) };
+        let group = crate::export::findings::group_label(p.formation_group, p.surface_group);
+        let group = if group.is_empty() { String::new() } else { format!(" ({group})") };
+        let td = |show: bool, text: String| if show { format!("<td class=\"n\">{text}</td>") } else { String::new() };
         let _ = writeln!(
             h,
-            "<td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n u\" style=\"background:{};color:{}\">{}</td><td>{}, {}</td><td>{status}</td></tr>",
+            "<td class=\"n\">{}</td>{}<td class=\"n\">{}</td><td class=\"n\">{}{group}</td><td class=\"n\">{}</td><td class=\"n u\" style=\"background:{};color:{}\">{}</td><td>{}, {}</td>{}{}<td>{status}</td></tr>",
             kn(p.swl_kn),
+            td(show_layer, g.layer_top_kpa.map_or_else(|| "—".to_owned(), |q| format!("{}{}", num(q, 1), if g.layer_utilisation.is_none() { " (not checked)" } else { "" }))),
             num(p.bearing_area_m2, 4),
             num(g.bearing_kpa, 1),
-            num(p.allowable_kpa, 1),
+            p.allowable_kpa.map_or_else(|| "not entered".to_owned(), |q| num(q, 1)),
             hex(colour),
             ink_on(colour),
             pct(g.utilisation),
             esc(&a.combinations[p.governing].name),
-            governed_by(p)
+            governed_by(p),
+            td(show_hold, p.hold_down.map_or_else(|| "—".to_owned(), |d| kn(d.anchor_kn))),
+            td(show_slide, p.sliding.as_ref().map_or_else(|| "—".to_owned(), |sl| if sl.mu.is_none() { "not checked".into() } else if sl.slides { format!("<span class=\"bad\">{}</span>", kn(sl.restraint_kn)) } else { "0.00".into() }))
         );
     }
-    let span = 3 + 2 * a.combinations.len() + 7;
+    let span = 3 + 2 * a.combinations.len() + 7 + usize::from(show_layer) + usize::from(show_hold) + usize::from(show_slide);
     let _ = writeln!(
         h,
         "<tr class=\"total\"><td colspan=\"4\">Total of the reactions</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td colspan=\"{}\"></td></tr></tbody></table>",
@@ -925,51 +1026,211 @@ fn schedule(h: &mut String, a: &Analysis) {
     );
     let _ = writeln!(
         h,
-        "<p class=\"note\">Reactions upward positive; a negative minimum is uplift. Utilisation is the larger of load ÷ SWL and bearing pressure ÷ allowable, under the combination that governs (capacity-checking combinations only). The per-case totals equal the applied load of each case (section 6). The W column adds every horizontal load item, including alternatives from opposite sides, so it is an equilibrium total, not a design value: the combination columns take the worst single direction.</p></section>"
+        "<p class=\"note\">Reactions upward positive; a negative minimum is uplift. Utilisation is the largest of load ÷ SWL, pressure on the granular layer ÷ its allowable and bearing pressure at formation ÷ allowable, of those entered, under the combination that governs (capacity-checking combinations only). Bearing at formation is the plate's own spread pressure or, where spread areas overlap (group F1, F2…; S1… for plates or sole boards overlapping on the layer), the group's total load over the union of their areas if larger. Hold-down: the anchor tension a lifting plate needs; restraint: the horizontal restraint a sliding plate needs (section 5). The per-case totals equal the applied load of each case (section 6). The W column adds every horizontal load item, including alternatives from opposite sides, so it is an equilibrium total, not a design value: the combination columns take the worst single direction.</p>"
     );
+    let on_structures: Vec<String> = a.plates.iter().filter_map(|p| p.on_structure.as_ref().map(|e| format!("{} on {}", esc(&p.id), esc(e)))).collect();
+    if !on_structures.is_empty() {
+        let _ = writeln!(h, "<p class=\"note\"><b>Plates on existing structures</b> — their loads are for the permanent-works designer, and bear on the plate itself against the pressure given for the structure: {}.</p>", on_structures.join(", "));
+    }
+    if !a.lifts.is_empty() {
+        let _ = write!(h, "<h3>Posts standing on other members</h3><table><thead><tr><th>Post</th><th>Stands on</th><th class=\"n\">G</th><th class=\"n\">Q</th><th class=\"n\">W</th>");
+        for c in &a.combinations {
+            let _ = write!(h, "<th class=\"n\">{} max</th><th class=\"n\">{} min</th>", esc(&c.name), esc(&c.name));
+        }
+        h.push_str("<th>Status</th></tr></thead><tbody>\n");
+        for l in &a.lifts {
+            let _ = write!(h, "<tr><td>{}</td><td>{}</td>", esc(&l.id), esc(&l.stands_on));
+            for c in Case::ALL {
+                let _ = write!(h, "<td class=\"n\">{}</td>", kn(l.case_kn[c.index()]));
+            }
+            for pc in &l.combinations {
+                let min_cls = if pc.min_kn < -crate::check::UPLIFT_TOLERANCE_KN { " bad" } else { "" };
+                let _ = write!(h, "<td class=\"n\">{}</td><td class=\"n{min_cls}\">{}</td>", kn(pc.max_kn), kn(pc.min_kn));
+            }
+            let status = if l.status.uplift {
+                "<span class=\"bad\">PULLS UP — tie down or prop</span>".to_owned()
+            } else if l.status.over {
+                "<span class=\"bad\">OVER its support's SWL</span>".to_owned()
+            } else {
+                "OK".to_owned()
+            };
+            let _ = writeln!(h, "<td>{status}</td></tr>");
+        }
+        let _ = writeln!(h, "</tbody></table><p class=\"note\">Load each post passes on at its base, downward positive. A negative minimum is tension through a splice or a post lifting off the member it stands on: it must be tied down.</p>");
+    }
+    h.push_str("</section>\n");
 }
 
 fn stability(h: &mut String, a: &Analysis) {
     let st = &a.stability;
-    let _ = writeln!(h, "<section><h2>5. Stability against overturning</h2><table class=\"glance\">");
+    let e = st.equilibrium;
+    let _ = writeln!(h, "<section><h2>5. Stability: overturning, kentledge, sliding and hold-down</h2><table class=\"glance\">");
     let _ = writeln!(h, "<tr><td class=\"k\">Permanent load</td><td>{} kN</td></tr>", kn(st.permanent_kn));
     let cog = st.centre_of_gravity.map_or_else(|| "— (no permanent load)".to_owned(), |(x, y)| format!("x = {} m, y = {} m", num(x, 3), num(y, 3)));
     let _ = writeln!(h, "<tr><td class=\"k\">Centre of gravity (plan)</td><td>{cog}</td></tr>");
-    let _ = writeln!(h, "<tr><td class=\"k\">Target factor</td><td>{}</td></tr></table>", num(st.target_factor, 2));
     let _ = writeln!(
         h,
-        "<table><thead><tr><th>Tipping towards</th><th class=\"n\">Edge at (m)</th><th class=\"n\">Restoring (kN·m)</th><th class=\"n\">Overturning (kN·m)</th><th class=\"n\">Factor</th><th class=\"n\">Kentledge needed (kN)</th><th>Verdict</th></tr></thead><tbody>"
+        "<tr><td class=\"k\">Targets</td><td>factor of safety {} against overturning; equilibrium with γG {} / {} (destabilising / stabilising), γQ {}, γW {}</td></tr></table>",
+        num(st.target_factor, 2),
+        num(e.g_unfavourable, 2),
+        num(e.g_favourable, 2),
+        num(e.q, 2),
+        num(e.w, 2)
     );
-    for d in &st.directions {
-        let axis = if d.direction.ends_with('x') { "x" } else { "y" };
-        let (factor, kent, verdict) = match d.factor {
-            None => ("—".to_owned(), "0.00".to_owned(), "nothing overturns".to_owned()),
-            Some(f) => {
-                let k = match d.kentledge_kn {
-                    Some(k) => kn(k),
-                    None => "—".into(),
-                };
-                let v = match d.kentledge_kn {
-                    Some(k) if k > 0.0 => format!("<span class=\"bad\">below target: add {} kN over the opposite edge</span>", kn(k)),
-                    Some(_) => "meets the target".into(),
-                    None => "<span class=\"bad\">below target; no base width to add kentledge on</span>".into(),
-                };
-                (num(f, 2), k, v)
-            }
-        };
+    if let Some(why) = &st.refused {
+        let _ = writeln!(h, "<p><span class=\"bad\">Overturning not checked:</span> {}</p>", esc(why));
+    }
+    let _ = writeln!(h, "<h3>Overturning</h3>");
+    let quiet = st.structures.iter().filter(|s| s.axes.iter().all(|x| x.factor.is_none() && x.equ_utilisation.is_none())).count();
+    for s in st.structures.iter().filter(|s| s.axes.iter().any(|x| x.factor.is_some() || x.equ_utilisation.is_some())) {
         let _ = writeln!(
             h,
-            "<tr><td>{}</td><td class=\"n\">{axis} = {}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{factor}</td><td class=\"n\">{kent}</td><td>{verdict}</td></tr>",
-            d.direction,
-            num(d.edge_m, 3),
-            num(d.restoring_knm, 2),
-            num(d.overturning_knm, 2)
+            "<p><strong>{}</strong>: permanent load {} kN; base hull {}.</p><table><thead><tr><th>About</th><th>Tipping towards</th><th class=\"n\">Stabilising G (kN·m)</th><th class=\"n\">Destabilising G (kN·m)</th><th class=\"n\">Imposed (kN·m)</th><th class=\"n\">Horizontal (kN·m)</th><th class=\"n\">Factor</th><th class=\"n\">E_d,dst / E_d,stb (kN·m)</th><th>Verdict</th></tr></thead><tbody>",
+            esc(&s.label),
+            kn(s.permanent_kn),
+            esc(&s.hull.join(" – "))
         );
+        for ax in &s.axes {
+            let factor = ax.factor.map_or_else(|| "—".to_owned(), |f| num(f, 2));
+            let equ = format!("{} / {}", kn(ax.equ_destabilising_knm), kn(ax.equ_stabilising_knm));
+            let verdict = if ax.factor.is_none() && ax.equ_utilisation.is_none() {
+                "nothing overturns".to_owned()
+            } else if ax.passes() {
+                "meets both".to_owned()
+            } else {
+                let mut why = Vec::new();
+                if !ax.meets_target {
+                    why.push("factor below target");
+                }
+                if !ax.equ_ok {
+                    why.push("E<sub>d,dst</sub> &gt; E<sub>d,stb</sub>");
+                }
+                format!("<span class=\"bad\">FAILS: {}</span> (kentledge below)", why.join("; "))
+            };
+            let which = ax.horizontal_loads.as_deref().map_or_else(String::new, |w| format!("<br><span class=\"note\">{}</span>", esc(w)));
+            let _ = writeln!(
+                h,
+                "<tr><td>{}</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}{which}</td><td class=\"n\">{factor}</td><td class=\"n\">{equ}</td><td>{verdict}</td></tr>",
+                esc(&ax.about),
+                esc(&ax.towards),
+                kn(ax.permanent_stabilising_knm),
+                kn(ax.permanent_destabilising_knm),
+                kn(ax.imposed_destabilising_knm),
+                kn(ax.horizontal_destabilising_knm),
+            );
+        }
+        let _ = writeln!(h, "</tbody></table>");
+        let failing: Vec<&crate::check::stability::TippingAxis> = s.axes.iter().filter(|x| !x.passes()).collect();
+        if !failing.is_empty() {
+            let _ = writeln!(
+                h,
+                "<table><thead><tr><th>Kentledge about</th><th>Over plates (secured to their standards)</th><th class=\"n\">Lever (m)</th><th class=\"n\">For the factor (kN)</th><th class=\"n\">For equilibrium (kN)</th><th class=\"n\">To place (kN)</th></tr></thead><tbody>"
+            );
+            for ax in failing {
+                let Some(k) = &ax.kentledge else { continue };
+                let place = match (k.needed_kn, &k.cannot) {
+                    (Some(w), _) => format!("<strong>{}</strong>", kn(w)),
+                    (None, Some(c)) => format!("<span class=\"bad\">none can help: {}</span>", esc(c)),
+                    (None, None) => "—".into(),
+                };
+                let plates = if k.plates.len() > 12 { format!("{} and {} more", k.plates[..12].join(", "), k.plates.len() - 12) } else { k.plates.join(", ") };
+                let _ = writeln!(
+                    h,
+                    "<tr><td>{} (towards {})</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{place}</td></tr>",
+                    esc(&ax.about),
+                    esc(&ax.towards),
+                    esc(&plates),
+                    num(k.lever_m, 3),
+                    k.for_factor_kn.map_or_else(|| "—".into(), kn),
+                    k.for_equ_kn.map_or_else(|| "—".into(), kn)
+                );
+            }
+            let _ = writeln!(h, "</tbody></table>");
+        }
+    }
+    if quiet > 0 {
+        let _ = writeln!(h, "<p>{quiet} structure(s) have nothing that overturns them (no horizontal load, nothing cantilevered beyond their plates).</p>");
     }
     let _ = writeln!(
         h,
-        "</tbody></table><p class=\"note\">About each edge of the base footprint: permanent load restores; every imposed load that overturns and the worst single direction of horizontal load overturn. Kentledge is placed over the opposite edge.</p></section>"
+        "<p class=\"note\">About every edge of the convex hull of each structure's base plates, and across each direction a horizontal load acts in or a cantilevered load lies in beyond a corner. Each load is split where it acts into the part that restores and the part beyond the edge that overturns; imposed load never restores (a whole-deck load counts on its part beyond the edge, any other imposed load whole where it overturns); the worst single direction of horizontal load counts. Factor = stabilising permanent ÷ (destabilising permanent + imposed + horizontal), unfactored. Equilibrium: E_d,dst = γG,sup × destabilising permanent + γQ, γW × variable; E_d,stb = γG,inf × stabilising permanent; kentledge that could be taken away and is not secured never stabilises. Kentledge shares its weight equally over the plates named, at their mean lever.</p>"
     );
+    // Sliding.
+    let sl = &a.sliding;
+    let _ = writeln!(h, "<h3>Sliding</h3>");
+    if sl.checks.is_empty() {
+        let _ = writeln!(h, "<p>No horizontal load: nothing slides.</p>");
+    } else {
+        let _ = writeln!(
+            h,
+            "<table><thead><tr><th>Structure</th><th>Loads</th><th class=\"n\">Horizontal (kN)</th><th class=\"n\">Friction (kN)</th><th class=\"n\">Factor (target {})</th><th class=\"n\">Factored: horizontal / friction (kN)</th><th>Verdict</th></tr></thead><tbody>",
+            num(sl.target_factor, 2)
+        );
+        for c in &sl.checks {
+            let verdict = match &c.not_checked {
+                Some(why) => format!("<strong>not checked</strong>: {}", esc(why)),
+                None if c.meets_target && c.equ_ok => "meets both".into(),
+                None => "<span class=\"bad\">slides</span>".into(),
+            };
+            let checked = c.not_checked.is_none();
+            let _ = writeln!(
+                h,
+                "<tr><td>{}</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{} / {}</td><td>{verdict}</td></tr>",
+                esc(&c.structure),
+                esc(&c.towards),
+                kn(c.horizontal_kn),
+                if checked { kn(c.friction_kn) } else { "—".into() },
+                c.factor.map_or_else(|| "—".into(), |f| num(f, 2)),
+                kn(c.equ_horizontal_kn),
+                if checked { kn(c.equ_friction_kn) } else { "—".into() }
+            );
+        }
+        let _ = writeln!(h, "</tbody></table>");
+    }
+    let restrained: Vec<&PlateResult> = a.plates.iter().filter(|p| p.sliding.as_ref().is_some_and(|s| s.slides)).collect();
+    if !restrained.is_empty() {
+        let _ = writeln!(h, "<table><thead><tr><th>Plate</th><th>Loads</th><th class=\"n\">μ</th><th class=\"n\">Shear (kN)</th><th class=\"n\">Least vertical (kN)</th><th class=\"n\">Factor</th><th class=\"n\">Restraint needed (kN)</th></tr></thead><tbody>");
+        for p in restrained.iter().take(200) {
+            let s = p.sliding.as_ref().expect("filtered");
+            let _ = writeln!(
+                h,
+                "<tr><td>{}</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n bad\">{}</td></tr>",
+                esc(&p.id),
+                esc(&s.towards),
+                s.mu.map_or_else(|| "—".into(), |m| num(m, 2)),
+                kn(s.shear_kn),
+                kn(s.normal_kn),
+                s.factor.map_or_else(|| "—".into(), |f| num(f, 2)),
+                kn(s.restraint_kn)
+            );
+        }
+        let _ = writeln!(h, "</tbody></table>");
+    }
+    let _ = writeln!(
+        h,
+        "<p class=\"note\">Friction at a plate: μ (the lowest lower-bound coefficient of its support's interfaces) × the least vertical load it carries while the horizontal load acts; a lifting plate has none. Factor = friction ÷ horizontal load, unfactored; factored: horizontal load × γ against friction from the least vertical load with γG,inf on what presses down and γG,sup on what lifts.</p>"
+    );
+    // Hold-down.
+    let lifting: Vec<&PlateResult> = a.plates.iter().filter(|p| p.hold_down.is_some()).collect();
+    let _ = writeln!(h, "<h3>Hold-down of lifting plates</h3>");
+    if lifting.is_empty() {
+        let _ = writeln!(h, "<p>No plate lifts.</p>");
+    } else {
+        let _ = writeln!(h, "<table><thead><tr><th>Plate</th><th>Combination</th><th class=\"n\">Anchor tension (kN)</th><th class=\"n\">or secured kentledge on the plate (kN)</th></tr></thead><tbody>");
+        for p in lifting.iter().take(200) {
+            let d = p.hold_down.expect("filtered");
+            let _ = writeln!(
+                h,
+                "<tr><td>{}</td><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td></tr>",
+                esc(&p.id),
+                esc(&a.combinations[d.combination].name),
+                kn(d.anchor_kn),
+                d.kentledge_kn.map_or_else(|| "—".into(), kn)
+            );
+        }
+        let _ = writeln!(h, "</tbody></table>");
+    }
+    let _ = writeln!(h, "</section>");
 }
 
 fn equilibrium(h: &mut String, a: &Analysis) {
@@ -1049,8 +1310,95 @@ fn plan_size(plates: &[[f64; 3]]) -> f64 {
         .fold(1.0, f64::max)
 }
 
+/// Grid of the report's spare-capacity plans, m: coarse enough to print a number in each cell.
+// common practice, no source
+const REPORT_SPARE_GRID_M: f64 = 0.5;
+
+/// A plan of each deck's spare capacity for a point load, in the spare ramp, with numbers.
+fn spare(h: &mut String, scene: &Scene, a: &Analysis) {
+    use crate::check::spare::{spare_map, SpareSettings};
+    use crate::export::palette::SpareBand;
+    let _ = writeln!(h, "<section><h2>7. Spare capacity on the decks</h2>");
+    let settings = SpareSettings { spacing_m: REPORT_SPARE_GRID_M, ..SpareSettings::default() };
+    let map = match spare_map(scene, a, &settings) {
+        Ok(map) => map,
+        Err(e) => {
+            let _ = writeln!(h, "<p>Not worked out: {}.</p></section>", esc(&e.to_string()));
+            return;
+        }
+    };
+    let _ = writeln!(
+        h,
+        "<p class=\"note\">The largest extra imposed load (characteristic, kN) one point load may add at each point, on top of the existing loads in their worst arrangement, before a base plate reaches its safe working load or allowable bearing, a plate lifts, or the deck its load class (combinations: {}). Values do not add: after placing one load, work the map out again (<code>plateload spare</code>, which also takes a footprint such as a pallet and a dynamic factor for crane landing). Not checked here, as no capacity is known for them: {}.</p>",
+        esc(&map.combinations.join(", ")),
+        esc(&if map.not_checked.is_empty() { "none".to_owned() } else if map.not_checked.len() > 12 { format!("{} and {} more members", map.not_checked[..12].join(", "), map.not_checked.len() - 12) } else { map.not_checked.join(", ") })
+    );
+    for d in &map.decks {
+        let (x0, x1) = d.points.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p.x), hi.max(p.x)));
+        let (y0, y1) = d.points.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p.y), hi.max(p.y)));
+        let cell = REPORT_SPARE_GRID_M;
+        // Drawing units per metre: the plan fits the printed width.
+        let width = 640.0;
+        let scale = (width / (x1 - x0 + cell).max(cell)).min(120.0);
+        let (w, hgt) = ((x1 - x0 + cell) * scale, (y1 - y0 + cell) * scale);
+        let _ = writeln!(
+            h,
+            "<h3>Deck {} at {} m{}</h3><svg class=\"plan-drawing\" xmlns=\"http://www.w3.org/2000/svg\" viewBox=\"0 0 {} {}\" font-family=\"DejaVu Sans, Liberation Sans, Arial, sans-serif\" role=\"img\" aria-label=\"Spare capacity of deck {}\"><defs><pattern id=\"limit-hatch\" width=\"6\" height=\"6\" patternUnits=\"userSpaceOnUse\" patternTransform=\"rotate(45)\"><rect width=\"6\" height=\"6\" fill=\"{}\"/><line x1=\"0\" y1=\"0\" x2=\"0\" y2=\"6\" stroke=\"#fff\" stroke-width=\"1.5\"/></pattern></defs>",
+            esc(&d.deck),
+            num(d.level, 2),
+            d.load_class.map_or(" (no load class known: the deck itself is not checked)".to_owned(), |c| format!(" (load class {c})")),
+            num(w, 1),
+            num(hgt, 1),
+            esc(&d.deck),
+            hex(SpareBand::AtLimit.colour())
+        );
+        let font = (cell * scale * 0.3).clamp(6.0, 12.0);
+        for p in &d.points {
+            let band = SpareBand::of(p.kn, p.already_at_limit);
+            let (cx, cy) = ((p.x - x0 + 0.5 * cell) * scale, (y1 - p.y + 0.5 * cell) * scale);
+            let fill = if band == SpareBand::AtLimit { "url(#limit-hatch)".to_owned() } else { hex(band.colour()) };
+            let _ = write!(
+                h,
+                "<rect x=\"{}\" y=\"{}\" width=\"{}\" height=\"{}\" fill=\"{fill}\" stroke=\"#fff\" stroke-width=\"0.5\"><title>({}, {}): {}</title></rect>",
+                num(cx - 0.5 * cell * scale, 1),
+                num(cy - 0.5 * cell * scale, 1),
+                num(cell * scale, 1),
+                num(cell * scale, 1),
+                num(p.x, 2),
+                num(p.y, 2),
+                esc(&match p.kn {
+                    Some(k) if !p.already_at_limit => format!("up to {} kN — limited by {}", num(k, 1), p.limit.words()),
+                    Some(_) => format!("no extra load — {}", p.limit.words()),
+                    None => "no limit found".to_owned(),
+                })
+            );
+            if cell * scale >= 18.0 && band != SpareBand::AtLimit {
+                let text = p.kn.map_or("–".to_owned(), |k| num(k, if k < 10.0 { 1 } else { 0 }));
+                let _ = write!(h, "<text x=\"{}\" y=\"{}\" font-size=\"{}\" text-anchor=\"middle\" fill=\"{}\">{}</text>", num(cx, 1), num(cy + font * 0.35, 1), num(font, 1), ink_on(band.colour()), esc(&text));
+            }
+        }
+        h.push_str("</svg>\n");
+        let least = d.points.iter().filter(|p| p.kn.is_some()).min_by(|a, b| a.kn.unwrap_or(0.0).total_cmp(&b.kn.unwrap_or(0.0)));
+        let full = d.points.iter().filter(|p| p.already_at_limit).count();
+        let _ = write!(h, "<p class=\"note\">");
+        if let Some(p) = least {
+            let _ = write!(h, "Least: {} kN at ({}, {}), limited by {}. ", num(p.kn.unwrap_or(0.0), 1), num(p.x, 2), num(p.y, 2), esc(&p.limit.words()));
+        }
+        if full > 0 {
+            let _ = write!(h, "{full} of {} points (hatched) can take no extra load: a limit is already reached there. ", d.points.len());
+        }
+        h.push_str("x to the right, y up, as the plan in section 3.</p>\n");
+    }
+    h.push_str("<p class=\"note\">");
+    for band in SpareBand::ALL {
+        let swatch = if band == SpareBand::AtLimit { "background:repeating-linear-gradient(45deg,#241f2b 0 3px,#fff 3px 4px)".to_owned() } else { format!("background:{}", hex(band.colour())) };
+        let _ = write!(h, "<span style=\"display:inline-block;width:1.2em;height:0.9em;border:1px solid #888;vertical-align:middle;{swatch}\"></span> {} &nbsp; ", esc(band.label()));
+    }
+    h.push_str("</p></section>\n");
+}
+
 fn warnings(h: &mut String, a: &Analysis) {
-    let _ = writeln!(h, "<section><h2>7. Warnings</h2>");
+    let _ = writeln!(h, "<section><h2>8. Warnings</h2>");
     if a.warnings.is_empty() {
         h.push_str("<p>None.</p>");
     } else {

@@ -3,28 +3,35 @@
 use std::fmt::Write;
 
 use crate::check::analysis::Analysis;
+use crate::format::num;
 use crate::solve::beam::Piece;
 use crate::scene::loads::Case;
 use crate::scene::model::Scene;
-use crate::solve::Route;
+use crate::solve::{Contribution, Route};
 
 /// Words for a route, using the scene's ids.
 pub fn route_words(scene: &Scene, route: Route) -> String {
     match route {
-        Route::Bearer { bearer, piece } => {
-            let b = &scene.bearers[bearer as usize];
-            let post = |k: usize| b.posts.get(k).map(String::as_str).unwrap_or("?");
-            match piece {
-                Piece::Span(j) => format!("{} {}, span {}-{}", role(b.role), b.id, post(j as usize), post(j as usize + 1)),
-                Piece::StartOverhang => format!("{} {}, overhang before {}", role(b.role), b.id, post(0)),
-                Piece::EndOverhang => format!("{} {}, overhang after {}", role(b.role), b.id, post(b.posts.len() - 1)),
-                Piece::Single => format!("{} {} on its single post", role(b.role), b.id),
-                Piece::Continuous => format!("{} {}, continuous over {} posts", role(b.role), b.id, b.posts.len()),
-            }
-        }
+        Route::Bearer { bearer, piece } => piece_words(scene, bearer, piece),
+        Route::Lift { from } => format!("post {} above, spliced onto this one", scene.posts[from as usize].id),
+        Route::Transfer { bearer, piece, from } => format!("{} (transfer), from post {} standing on it", piece_words(scene, bearer, piece), scene.posts[from as usize].id),
         Route::PostSelfWeight => "own weight of the post".into(),
         Route::PostTop => "load on the post top".into(),
         Route::Overturning => "overturning couple on the braced base".into(),
+        Route::Kentledge => "kentledge on the plate".into(),
+    }
+}
+
+fn piece_words(scene: &Scene, bearer: u32, piece: Piece) -> String {
+    let b = &scene.bearers[bearer as usize];
+    let post = |k: usize| b.posts.get(k).map(String::as_str).unwrap_or("?");
+    match piece {
+        Piece::Span(j) => format!("{} {}, span {}-{}", role(b.role), b.id, post(j as usize), post(j as usize + 1)),
+        Piece::StartOverhang => format!("{} {}, overhang before {}", role(b.role), b.id, post(0)),
+        Piece::EndOverhang => format!("{} {}, overhang after {}", role(b.role), b.id, post(b.posts.len() - 1)),
+        Piece::Single => format!("{} {} on its single post", role(b.role), b.id),
+        Piece::Continuous => format!("{} {}, continuous over {} posts", role(b.role), b.id, b.posts.len()),
+        Piece::TwoSpanModel => format!("{} {}, two-span model about this post (joints not known)", role(b.role), b.id),
     }
 }
 
@@ -42,7 +49,10 @@ fn role(r: crate::scene::model::BeamRole) -> &'static str {
 pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
     let p = &analysis.plates[plate];
     let mut out = String::new();
-    let _ = writeln!(out, "Base {} at ({:.3}, {:.3}), base level {:.3} m, support {}", p.id, p.x, p.y, p.base_level, p.support);
+    let _ = writeln!(out, "Base {} at ({:.3}, {:.3}), base level {:.3} m, support {}", p.id, num(p.x), num(p.y), num(p.base_level), p.support);
+    if let Some(e) = &p.on_structure {
+        let _ = writeln!(out, "  on existing structure {e}: this plate's load is for the permanent-works designer");
+    }
     let m = p.governing_method;
     let methods = analysis.method_count();
     if methods == 1 {
@@ -53,35 +63,35 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
         let _ = writeln!(out, "  method: {} ({why}; envelope of: {})", analysis.method_label(m), all.join("; "));
     }
     let solution = analysis.solution_of(m);
-    let mut shares: Vec<_> = solution.contributions.iter().filter(|c| c.plate as usize == plate).collect();
-    shares.sort_by_key(|c| (c.item, c.route));
+    let mut shares: Vec<&Contribution> = solution.contributions.iter().collect();
+    shares.sort_by_key(|c| (c.post, c.item, c.route));
     let mut totals = [0.0; 3];
     let mut last_item = u32::MAX;
-    for c in shares {
+    for c in shares.iter().filter(|c| c.post as usize == p.post) {
         let item = &solution.items[c.item as usize];
         if c.item != last_item {
             let _ = writeln!(out, "  {} ({})", item.id, item.case);
             last_item = c.item;
         }
-        let _ = writeln!(out, "    {:>10.3} kN  via {}", c.kn, route_words(scene, c.route));
+        write_share(&mut out, scene, &shares, c, 2);
         totals[item.case.index()] += c.kn;
     }
     let case_kn = p.case_kn_by_method.get(m).copied().unwrap_or(p.case_kn);
     for c in Case::ALL {
-        let _ = writeln!(out, "  total {}: {:.3} kN (plate load {:.3} kN)", c, totals[c.index()], case_kn[c.index()]);
+        let _ = writeln!(out, "  total {}: {:.3} kN (plate load {:.3} kN)", c, num(totals[c.index()]), num(case_kn[c.index()]));
     }
     for (k, cases) in p.case_kn_by_method.iter().enumerate().filter(|&(k, _)| k != m) {
-        let _ = writeln!(out, "  under {}: G {:.3} kN, Q {:.3} kN, W {:.3} kN", analysis.method_label(k), cases[0], cases[1], cases[2]);
+        let _ = writeln!(out, "  under {}: G {:.3} kN, Q {:.3} kN, W {:.3} kN", analysis.method_label(k), num(cases[0]), num(cases[1]), num(cases[2]));
     }
     for (comb, r) in analysis.combinations.iter().zip(&p.combinations) {
         let _ = write!(
             out,
             "  {:<12} max {:>9.3} kN  min {:>9.3} kN  utilisation {:>6.1}%  bearing {:>7.1} kPa  {}",
             comb.name,
-            r.max_kn,
-            r.min_kn,
-            100.0 * r.utilisation,
-            r.bearing_kpa,
+            num(r.max_kn),
+            num(r.min_kn),
+            num(100.0 * r.utilisation),
+            num(r.bearing_kpa),
             r.status
         );
         if methods > 1 && !p.methods_agree {
@@ -89,5 +99,117 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
         }
         let _ = writeln!(out);
     }
+    // Permanent load split as the minimum uses it.
+    let parts = crate::check::permanent::permanent_parts(scene, analysis.solution_of(p.min_method))[p.post];
+    let _ = write!(out, "  permanent load for the minimum: pushes down {:.3} kN, lifts {:.3} kN", num(parts.down_kn), num(parts.up_kn));
+    if parts.down_unreliable_kn != 0.0 {
+        let _ = write!(out, ", and {:.3} kN of kentledge that could be taken away (never counted as holding down)", num(parts.down_unreliable_kn));
+    }
+    let _ = writeln!(out);
+    // Ground.
+    let g = p.governing();
+    let ground = &analysis.ground;
+    match g.layer_top_kpa {
+        Some(q) => {
+            let verdict = g.layer_utilisation.map_or_else(|| "not checked: no allowable for the layer".to_owned(), |u| format!("{:.1} % of the allowable", num(100.0 * u)));
+            let _ = writeln!(out, "  on the granular layer under {:.4} m²: {:.1} kPa ({verdict})", num(p.plate_area_m2), num(q));
+        }
+        None => {}
+    }
+    let verdict = g.bearing_utilisation.map_or_else(|| "not checked: no allowable bearing pressure entered".to_owned(), |u| format!("{:.1} % of {:.1} kPa allowable, {}", num(100.0 * u), num(p.allowable_kpa.unwrap_or(0.0)), ground.basis.label()));
+    let _ = write!(out, "  at formation over {:.4} m²: {:.1} kPa ({verdict})", num(p.bearing_area_m2), num(g.bearing_kpa));
+    if ground.layer_weight_added_kpa() > 0.0 {
+        let _ = write!(out, ", layer weight {:.2} kPa included", num(ground.layer_weight_added_kpa()));
+    }
+    let group = crate::export::findings::group_label(p.formation_group, p.surface_group);
+    if !group.is_empty() {
+        let _ = write!(out, "; overlap group {group}, taken together over the union of the areas");
+    }
+    let _ = writeln!(out);
+    if let Some(h) = p.hold_down {
+        let k = h.kentledge_kn.map_or_else(String::new, |k| format!(" or {:.3} kN secured kentledge on the plate", num(k)));
+        let _ = writeln!(out, "  hold-down: an anchor for {:.3} kN{k} ({})", num(h.anchor_kn), analysis.combinations[h.combination].name);
+    }
+    if let Some(sl) = &p.sliding {
+        match (sl.mu, sl.factor) {
+            (Some(mu), Some(f)) => {
+                let _ = writeln!(
+                    out,
+                    "  sliding {}: shear {:.3} kN, least vertical load {:.3} kN, μ {:.2} → factor {:.2}; factored shear {:.3} kN against {:.3} kN friction{}",
+                    sl.towards,
+                    num(sl.shear_kn),
+                    num(sl.normal_kn),
+                    num(mu),
+                    num(f),
+                    num(sl.equ_shear_kn),
+                    num(sl.equ_friction_kn),
+                    if sl.slides { format!("; must be restrained for {:.3} kN", num(sl.restraint_kn)) } else { String::new() }
+                );
+            }
+            _ => {
+                let _ = writeln!(out, "  sliding {}: shear {:.3} kN, not checked: no friction coefficient given for support {}", sl.towards, num(sl.shear_kn), p.support);
+            }
+        }
+    }
+    arrangement_lines(&mut out, scene, analysis, plate);
     out
+}
+
+/// Where each arranged imposed load is placed for this plate's worst maximum and minimum: the
+/// cells to load, in plan coordinates, so the arrangement can be set out on site.
+fn arrangement_lines(out: &mut String, scene: &Scene, analysis: &Analysis, plate: usize) {
+    let notes = analysis.arrangements_at(plate);
+    if notes.is_empty() {
+        return;
+    }
+    let p = &analysis.plates[plate];
+    let Ok(model) = crate::validate(scene) else { return };
+    let pass = analysis.method(p.governing_method);
+    let _ = writeln!(out, "  imposed loads in their worst arrangement ({}):", pass.label);
+    for note in notes {
+        let _ = writeln!(out, "    {}", note.words());
+        let Some(load) = scene.loads.iter().position(|l| l.id == note.load) else { continue };
+        let item = analysis.solution_of(p.governing_method).items.iter().find(|i| i.id == note.load);
+        let (Some(effects), Some(cells)) = (crate::solve::arrangement::cell_effects(&model, pass, load, p.post), item.and_then(|i| i.arranged.as_ref())) else { continue };
+        for (what, down) in [("loaded for the maximum", true), ("loaded for the minimum", false)] {
+            let picked: Vec<(usize, f64)> = effects.iter().copied().enumerate().filter(|&(_, e)| if down { e > 0.0 } else { e < 0.0 }).collect();
+            if picked.is_empty() {
+                continue;
+            }
+            let shown: Vec<String> = picked.iter().take(MAX_CELLS_LISTED).map(|&(c, e)| format!("{} ({e:+.3} kN)", cell_words(scene, &cells.cells[c].place))).collect();
+            let more = if picked.len() > MAX_CELLS_LISTED { format!(", and {} more", picked.len() - MAX_CELLS_LISTED) } else { String::new() };
+            let _ = writeln!(out, "      {what}: {}{more}", shown.join(", "));
+        }
+    }
+}
+
+/// Cells listed one by one in a trace before the rest are counted.
+const MAX_CELLS_LISTED: usize = 12;
+
+/// Where a cell is, in words.
+fn cell_words(scene: &Scene, place: &crate::solve::CellPlace) -> String {
+    match *place {
+        crate::solve::CellPlace::Deck { rect, .. } => format!("x {:.2}–{:.2}, y {:.2}–{:.2} m", rect.x.0, rect.x.1, rect.y.0, rect.y.1),
+        crate::solve::CellPlace::Bearer { bearer, from_m, to_m } => format!("{} {:.2}–{:.2} m from its first post", scene.bearers[bearer as usize].id, from_m, to_m),
+    }
+}
+
+/// One share, and where a share from a post above came from in turn, indented by `depth`.
+fn write_share(out: &mut String, scene: &Scene, shares: &[&Contribution], c: &Contribution, depth: usize) {
+    let pad = "  ".repeat(depth);
+    let _ = writeln!(out, "{pad}{:>10.3} kN  via {}", num(c.kn), route_words(scene, c.route));
+    let from = match c.route {
+        Route::Lift { from } | Route::Transfer { from, .. } => from,
+        _ => return,
+    };
+    // The post above carries this item's load by its own shares (a transfer passes on part of it).
+    let lo = shares.partition_point(|s| (s.post, s.item) < (from, c.item));
+    let hi = shares.partition_point(|s| (s.post, s.item) <= (from, c.item));
+    if matches!(c.route, Route::Transfer { .. }) {
+        let total: f64 = shares[lo..hi].iter().map(|s| s.kn).sum();
+        let _ = writeln!(out, "{pad}    (part of the {total:.3} kN post {} passes on, which it takes:)", scene.posts[from as usize].id);
+    }
+    for s in &shares[lo..hi] {
+        write_share(out, scene, shares, s, depth + 2);
+    }
 }

@@ -1,4 +1,6 @@
-//! Scene files: reading RON with file:line:col errors, writing atomically.
+//! Scene files: reading RON with file:line:col errors, writing one element per line, atomically.
+//!
+//! The reader is shared with the component catalogue ([`parse_ron`]).
 
 use std::fs;
 use std::io::Write;
@@ -8,7 +10,7 @@ use ron::extensions::Extensions;
 
 use crate::scene::model::Scene;
 
-/// A scene file that could not be read.
+/// A scene (or catalogue) file that could not be read.
 #[derive(Debug, thiserror::Error)]
 #[non_exhaustive]
 pub enum SceneFileError {
@@ -20,7 +22,7 @@ pub enum SceneFileError {
         /// What the system said.
         source: std::io::Error,
     },
-    /// The text is not a valid scene.
+    /// The text is not a valid scene (or catalogue).
     #[error("{origin}:{line}:{col}: {message}")]
     Syntax {
         /// File path or other name of the text.
@@ -41,7 +43,13 @@ fn options() -> ron::Options {
 
 /// Parse scene text; `origin` names it in errors (a path, or e.g. `<demo>`).
 pub fn parse_scene(text: &str, origin: &str) -> Result<Scene, SceneFileError> {
-    options().from_str::<Scene>(text).map_err(|e| SceneFileError::Syntax {
+    parse_ron(text, origin)
+}
+
+/// Parse any RON text the way scene files are read (optional values may be written bare),
+/// with `origin:line:col` syntax errors.
+pub fn parse_ron<T: serde::de::DeserializeOwned>(text: &str, origin: &str) -> Result<T, SceneFileError> {
+    options().from_str::<T>(text).map_err(|e| SceneFileError::Syntax {
         origin: origin.to_owned(),
         line: e.span.start.line,
         col: e.span.start.col,
@@ -55,10 +63,87 @@ pub fn read_scene(path: &Path) -> Result<Scene, SceneFileError> {
     parse_scene(&text, &path.display().to_string())
 }
 
-/// The scene as RON text, the way scene files are written.
+/// The scene as RON text, the way scene files are written: the top-level fields one per line,
+/// each element of a list (support type, post, bearer, deck, brace, load, combination…) on a
+/// line of its own with its fields in declaration order, and the site and settings spread over
+/// a few lines. The layout comes from the nesting depth alone, so fields and lists added to the
+/// model later are written the same way without a change here. Every field is written except
+/// those the model itself leaves out (`skip_serializing_if`), which are only ever informative.
 pub fn scene_to_ron(scene: &Scene) -> String {
-    let config = ron::ser::PrettyConfig::new().indentor("  ").struct_names(false).extensions(Extensions::IMPLICIT_SOME);
-    options().to_string_pretty(scene, config).expect("a scene is always serialisable")
+    to_ron_lines(scene)
+}
+
+/// Any value as RON the way scene files are written (see [`scene_to_ron`]): pretty down to the
+/// elements of the top-level lists, each of those compact on one line.
+pub fn to_ron_lines<T: serde::Serialize>(value: &T) -> String {
+    // Depth 1: the top-level struct's fields; depth 2: the items of its lists (and the fields
+    // of the site and settings); deeper: compact, on the item's line. Strings are written as
+    // typed (no `\'` for an apostrophe); one holding `"` or `\` becomes a raw string.
+    let config = ron::ser::PrettyConfig::new()
+        .indentor("  ")
+        .struct_names(false)
+        .depth_limit(2)
+        .escape_strings(false)
+        .extensions(Extensions::IMPLICIT_SOME);
+    let mut text = options().to_string_pretty(value, config).expect("scene data is always serialisable");
+    text.push('\n');
+    text
+}
+
+/// The comment block at the top of a scene text (comment and blank lines before the first
+/// other line), with its line ends; it is kept when a file is written again ([`rewrite_scene`]).
+pub fn header_comments(text: &str) -> &str {
+    let mut end = 0;
+    for line in text.split_inclusive('\n') {
+        let t = line.trim();
+        if !(t.is_empty() || t.starts_with("//")) {
+            break;
+        }
+        end += line.len();
+    }
+    &text[..end]
+}
+
+/// Lines (from 1) after the header that hold a comment, which writing the scene again would
+/// drop. Strings are skipped, so `"//"` inside a name is not a comment.
+pub fn comments_after_header(text: &str) -> Vec<usize> {
+    let header = header_comments(text);
+    let mut lines = Vec::new();
+    let mut line = 1 + header.matches('\n').count();
+    let mut in_string = false;
+    let mut chars = text[header.len()..].chars().peekable();
+    while let Some(c) = chars.next() {
+        match c {
+            '\n' => line += 1,
+            '\\' if in_string => {
+                if chars.next() == Some('\n') {
+                    line += 1;
+                }
+            }
+            '"' => in_string = !in_string,
+            '/' if !in_string && matches!(chars.peek(), Some('/' | '*')) => {
+                if lines.last() != Some(&line) {
+                    lines.push(line);
+                }
+            }
+            _ => {}
+        }
+    }
+    lines
+}
+
+/// A scene text written again the way scene files are written ([`scene_to_ron`]), its header
+/// comments kept. Comments further down are not kept (see [`comments_after_header`]).
+pub fn rewrite_scene(text: &str, origin: &str) -> Result<String, SceneFileError> {
+    let scene = parse_scene(text, origin)?;
+    let header = header_comments(text);
+    let mut out = String::with_capacity(text.len());
+    out.push_str(header);
+    if !header.is_empty() && !header.ends_with('\n') {
+        out.push('\n');
+    }
+    out.push_str(&scene_to_ron(&scene));
+    Ok(out)
 }
 
 /// Write a file so that a crash or full disk part-way leaves the old file whole: the bytes go to

@@ -4,8 +4,9 @@
 
 use serde::{Deserialize, Serialize};
 
+use crate::scene::catalogue;
 use crate::scene::loads::{Case, Intensity, Load, LoadKind, PlanDirection};
-use crate::scene::model::{BeamRole, Bearer, Brace, Deck, PlateSize, Post, PostNode, Rect, Scene, SupportType, STEEL_TUBE_KN_PER_M};
+use crate::scene::model::{BeamRole, Bearer, Brace, Deck, Post, PostNode, Rect, Scene, SupportType};
 
 /// What to generate.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -31,6 +32,15 @@ pub struct LayoutSpec {
     pub deck_lifts: Vec<usize>,
     /// Self-weight of each deck, kPa.
     pub deck_self_weight_kpa: f64,
+    /// Catalogue id of the decking the self-weight was copied from, if any (informative).
+    #[serde(default)]
+    pub decking: Option<String>,
+    /// Self-weight of every post and member, kN/m.
+    #[serde(default = "tube_self_weight")]
+    pub member_self_weight_kn_per_m: f64,
+    /// Catalogue id of the section the member self-weight was copied from, if any (informative).
+    #[serde(default)]
+    pub section: Option<String>,
     /// Load class (EN 12811-1 Table 3) of the imposed load on every deck (1–6), if any.
     #[serde(alias = "duty_class")]
     pub load_class: Option<u8>,
@@ -42,8 +52,21 @@ pub struct LayoutSpec {
     pub id_prefix: String,
 }
 
+fn tube_self_weight() -> f64 {
+    crate::scene::model::STEEL_TUBE_KN_PER_M
+}
+
 impl Default for LayoutSpec {
+    /// A small birdcage built from the shipped catalogue's defaults: steel tube members, wet
+    /// timber boards, and an example base jack on a sole board (its safe working load is an
+    /// example, which validation points out until the planner enters the manufacturer's).
     fn default() -> Self {
+        let c = catalogue::shipped();
+        let entry = "the shipped catalogue has its default entries (tested)";
+        let jack = c.jack(catalogue::DEFAULT_JACK).expect(entry);
+        let sole = c.sole_plate(catalogue::DEFAULT_SOLE_PLATE).expect(entry);
+        let tube = c.member(catalogue::DEFAULT_MEMBER).expect(entry);
+        let boards = c.deck(catalogue::DEFAULT_DECK).expect(entry);
         LayoutSpec {
             bays_x: 3,
             bays_y: 2,
@@ -54,18 +77,12 @@ impl Default for LayoutSpec {
             lifts: 2,
             lift_m: 2.0,
             deck_lifts: vec![2],
-            // source: timber board 38 mm, C24 mean density 420 kg/m³ (EN 338) ≈ 0.16 kPa dry;
-            // 0.25 kPa allows for wet boards and steel fittings (common practice)
-            deck_self_weight_kpa: 0.25,
+            deck_self_weight_kpa: boards.self_weight_kpa,
+            decking: Some(boards.id.clone()),
+            member_self_weight_kn_per_m: tube.self_weight_kn_per_m,
+            section: Some(tube.id.clone()),
             load_class: Some(3),
-            support: SupportType {
-                id: "jack".into(),
-                // common practice, no source: 150 × 150 mm scaffold base plate
-                base_plate: PlateSize { width_m: 0.15, length_m: 0.15 },
-                swl_kn: 30.0,
-                // common practice: 225 mm board, 450 mm long per standard
-                sole_plate: Some(PlateSize { width_m: 0.225, length_m: 0.45 }),
-            },
+            support: catalogue::support_type("jack", jack, Some(sole)),
             braced: true,
             id_prefix: String::new(),
         }
@@ -107,7 +124,8 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 base_level: spec.base_level,
                 top_level: top,
                 support: Some(spec.support.id.clone()),
-                self_weight_kn_per_m: STEEL_TUBE_KN_PER_M,
+                self_weight_kn_per_m: spec.member_self_weight_kn_per_m,
+                section: spec.section.clone(),
             });
         }
     }
@@ -123,8 +141,10 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 posts: (0..nx).map(|i| post_id(i, j)).collect(),
                 overhang_start_m: 0.0,
                 overhang_end_m: 0.0,
-                self_weight_kn_per_m: STEEL_TUBE_KN_PER_M,
+                self_weight_kn_per_m: spec.member_self_weight_kn_per_m,
                 method: None,
+                joints: None,
+                section: spec.section.clone(),
             });
         }
         for i in 0..nx {
@@ -135,8 +155,10 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 posts: (0..ny).map(|j| post_id(i, j)).collect(),
                 overhang_start_m: 0.0,
                 overhang_end_m: 0.0,
-                self_weight_kn_per_m: STEEL_TUBE_KN_PER_M,
+                self_weight_kn_per_m: spec.member_self_weight_kn_per_m,
                 method: None,
+                joints: None,
+                section: spec.section.clone(),
             });
         }
         if deck {
@@ -148,9 +170,11 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 bearers: scene.bearers[first_bearer..first_bearer + ny].iter().map(|b| b.id.clone()).collect(),
                 self_weight_kpa: spec.deck_self_weight_kpa,
                 method: None,
+                joints: None,
+                decking: spec.decking.clone(),
             });
             if let Some(class) = spec.load_class {
-                scene.loads.push(Load { id: format!("{p}Q-{id}"), case: Case::Q, kind: LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) } });
+                scene.loads.push(Load::new(format!("{p}Q-{id}"), Case::Q, LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) }));
             }
         }
     }
@@ -190,7 +214,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
 }
 
 fn notional(id: String, direction: PlanDirection) -> Load {
-    Load { id, case: Case::W, kind: LoadKind::Notional { percent: crate::scene::loads::DEFAULT_NOTIONAL_PERCENT, direction, basis: vec![Case::G, Case::Q] } }
+    Load::new(id, Case::W, LoadKind::Notional { percent: crate::scene::loads::DEFAULT_NOTIONAL_PERCENT, direction, basis: vec![Case::G, Case::Q] })
 }
 
 /// A new scene holding only the generated layout.

@@ -48,6 +48,52 @@ pub struct Load {
     pub case: Case,
     /// What and where.
     pub kind: LoadKind,
+    /// For an imposed (Q) load spread over a deck or along a bearer: whether it is placed in its
+    /// worst arrangement at every plate (the default) or always acts whole. Permanent and
+    /// horizontal loads always act whole.
+    #[serde(default)]
+    pub arrangement: Arrangement,
+}
+
+impl Load {
+    /// A load, arranged if it is an imposed load that can be.
+    pub fn new(id: impl Into<String>, case: Case, kind: LoadKind) -> Self {
+        Load { id: id.into(), case, kind, arrangement: Arrangement::default() }
+    }
+
+    /// Whether the load is placed in its worst arrangement: an imposed load spread over a deck
+    /// (area, patch) or along a bearer (line), not marked whole.
+    pub fn is_arranged(&self) -> bool {
+        self.case == Case::Q
+            && self.arrangement == Arrangement::Arranged
+            && matches!(self.kind, LoadKind::DeckArea { .. } | LoadKind::DeckPatch { .. } | LoadKind::BearerLine { .. })
+    }
+}
+
+/// How a variable load spread over an area or a length is placed.
+///
+/// An imposed load need not be present everywhere at once: each part of it may be there or not.
+/// Arranged, it is split into cells — each deck strip between two bearers × each bearer span, each
+/// cantilever or overhang part separately — and at every plate each cell counts for the maximum
+/// only where it pushes that plate down and for the minimum only where it lifts it (a free
+/// variable action, EN 1991-1-1 6.2.1, from memory).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+pub enum Arrangement {
+    /// Placed in its worst arrangement at every plate.
+    #[default]
+    Arranged,
+    /// Always present over its whole area or length at once (e.g. a pour taken as one block).
+    Whole,
+}
+
+impl Arrangement {
+    /// Words for outputs.
+    pub fn label(self) -> &'static str {
+        match self {
+            Arrangement::Arranged => "arranged (worst cells at each plate)",
+            Arrangement::Whole => "whole (always everywhere at once)",
+        }
+    }
 }
 
 /// Intensity of an area load.
@@ -224,6 +270,61 @@ pub enum LoadKind {
         #[serde(default = "default_notional_basis")]
         basis: Vec<Case>,
     },
+    /// Kentledge: a weight placed to hold the structure down. It must be permanent (case G). It
+    /// counts as load everywhere it makes things worse (plate load, bearing), and where it helps
+    /// (restoring moment, less uplift, more friction) only if it cannot go away: fixed, or
+    /// secured against removal.
+    Kentledge {
+        /// Where it sits.
+        on: KentledgePlace,
+        /// Weight, kN.
+        kn: f64,
+        /// What it is. Default: removable.
+        #[serde(default)]
+        form: KentledgeForm,
+        /// Secured against removal: chained or clamped to the standards, valves locked.
+        #[serde(default)]
+        secured: bool,
+    },
+}
+
+/// Where a kentledge sits.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub enum KentledgePlace {
+    /// On these base plates (post ids), its weight shared equally, straight into the plates.
+    Plates(Vec<String>),
+    /// On a deck at a plan point, carried like a point load on the deck.
+    Deck {
+        /// Deck id.
+        deck: String,
+        /// Plan position, m.
+        x: f64,
+        /// Plan position, m.
+        y: f64,
+    },
+}
+
+/// What a kentledge is.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
+pub enum KentledgeForm {
+    /// Loose blocks or other weights that can be lifted off. The default.
+    #[default]
+    Removable,
+    /// Water-filled tanks or bags: they can be drained.
+    WaterFilled,
+    /// Fixed: cast in place or bolted down, so it cannot be taken away on site.
+    Fixed,
+}
+
+impl KentledgeForm {
+    /// Word for outputs.
+    pub fn label(self) -> &'static str {
+        match self {
+            KentledgeForm::Removable => "removable",
+            KentledgeForm::WaterFilled => "water-filled",
+            KentledgeForm::Fixed => "fixed",
+        }
+    }
 }
 
 impl LoadKind {
@@ -244,6 +345,16 @@ impl LoadKind {
             LoadKind::Horizontal { .. } => "horizontal force",
             LoadKind::Wind { .. } => "wind",
             LoadKind::Notional { .. } => "notional horizontal",
+            LoadKind::Kentledge { .. } => "kentledge",
+        }
+    }
+
+    /// Whether a permanent load of this kind may count where it is favourable: everything but a
+    /// kentledge that could be taken away (removable or water-filled, and not secured).
+    pub fn may_be_favourable(&self) -> bool {
+        match self {
+            LoadKind::Kentledge { form, secured, .. } => *secured || *form == KentledgeForm::Fixed,
+            _ => true,
         }
     }
 }

@@ -7,9 +7,14 @@
 //! - [`io`]: scene files, with `file:line:col` errors and atomic saves.
 //! - [`validate`](mod@validate): every problem at once, with element ids; resolves ids to indices and
 //!   sets up the member lines the solver works on ([`Model`]).
+//! - [`catalogue`]: the component catalogue (jacks, sole plates, sections, decking, friction),
+//!   every value with its source; shipped in `assets/` and extended by the user's files.
+//! - [`standing`]: what each post stands on (ground, existing structure, a post below, a bearer,
+//!   a deck) and the top-down order loads flow in.
 //! - [`layout`]: the generator of regular scaffolds and birdcages.
 //! - [`demo`]: the built-in demo scenes.
 
+pub mod catalogue;
 pub mod combination;
 pub mod demo;
 pub mod geometry;
@@ -17,6 +22,7 @@ pub mod io;
 pub mod layout;
 pub mod loads;
 pub mod model;
+pub mod standing;
 pub mod validate;
 
 pub use combination::{Combination, Factors};

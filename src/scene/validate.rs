@@ -1,11 +1,12 @@
 //! Validation: every problem of a scene at once, with element ids, and the resolved geometry the
 //! solver works on (ids turned into indices, bearer and deck lines set up).
 
-use crate::fxhash::FxMap as HashMap;
+use rustc_hash::FxHashMap as HashMap;
 use std::fmt;
 
-use crate::scene::loads::{Intensity, LoadKind};
+use crate::scene::loads::{Intensity, KentledgePlace, LoadKind};
 use crate::scene::model::{ElementKind, Scene};
+use crate::scene::standing::{self, LoadPathGraph, StandsOn};
 
 /// Plan and level tolerance for "the same place", m.
 pub const GEOMETRY_TOLERANCE_M: f64 = 1e-3;
@@ -85,6 +86,8 @@ pub struct BearerLine {
     pub start: f64,
     /// End of the member (last support + end overhang), m.
     pub end: f64,
+    /// Inner supports (indices into `posts`) declared as joints; `None` when not known.
+    pub joints: Option<Vec<usize>>,
 }
 
 impl BearerLine {
@@ -120,6 +123,8 @@ pub struct DeckLine {
     pub supports: Vec<f64>,
     /// Span coordinate range of the deck extent.
     pub span_range: (f64, f64),
+    /// Inner supports (indices into `bearers`) declared as joints; `None` when not known.
+    pub joints: Option<Vec<usize>>,
 }
 
 impl DeckLine {
@@ -166,14 +171,18 @@ pub struct Braced {
 pub struct Model<'s> {
     /// The scene this was made from.
     pub scene: &'s Scene,
-    /// Support type index of each post.
-    pub post_support: Vec<usize>,
+    /// Support type index of each post (`None` for a post standing on another member without one).
+    pub post_support: Vec<Option<usize>>,
+    /// What each post stands on, and the top-down order of the members.
+    pub graph: LoadPathGraph,
     /// Line of each bearer.
     pub bearers: Vec<BearerLine>,
     /// Span line of each deck.
     pub decks: Vec<DeckLine>,
     /// Element each load acts on.
     pub load_targets: Vec<Target>,
+    /// Posts each load names (the plates a kentledge sits on), per load; empty for the others.
+    pub load_posts: Vec<Vec<usize>>,
     /// Braced plan directions.
     pub braced: Braced,
     /// Non-fatal findings worth a look.
@@ -198,7 +207,8 @@ impl<'s> Checker<'s> {
     }
     /// A number as written in messages: plain, or in exponent form when very large or small.
     fn show(v: f64) -> String {
-        if v != 0.0 && v.is_finite() && !(1e-4..1e9).contains(&v.abs()) { format!("{v:e}") } else { format!("{v}") }
+        let v = crate::format::num(v);
+        if v.0 != 0.0 && v.0.is_finite() && !(1e-4..1e9).contains(&v.0.abs()) { format!("{v:e}") } else { format!("{v}") }
     }
     /// A finite number within ±limit; reports and returns false otherwise.
     fn number(&mut self, kind: ElementKind, id: &str, what: &str, v: f64, limit: f64) -> bool {
@@ -219,7 +229,7 @@ impl<'s> Checker<'s> {
         }
         if v < 0.0 || (!allow_zero && v == 0.0) {
             let need = if allow_zero { "zero or more" } else { "more than zero" };
-            self.err(kind, id, format!("{what} must be {need} (it is {v})"));
+            self.err(kind, id, format!("{what} must be {need} (it is {})", Self::show(v)));
             return false;
         }
         true
@@ -268,31 +278,84 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
     let post_support = check_posts(&mut c, &support_ix);
     let bearers = check_bearers(&mut c, &post_ix);
     let decks = check_decks(&mut c, &bearer_ix, &bearers);
+    check_existing_structures(&mut c);
+    let graph = load_path_graph(&mut c, &bearers, &decks);
     let braced = check_braces(&mut c, &post_ix);
-    let load_targets = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers, braced);
+    let (load_targets, load_posts) = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers, braced);
+    check_kentledge_plates(&mut c, &post_ix, &load_posts, graph.as_ref());
     check_combinations(&mut c);
-    check_one_braced_body(&mut c, &post_ix, &bearers);
+    check_one_braced_body(&mut c, &post_ix, &bearers, graph.as_ref());
 
-    if c.problems.is_empty() {
-        Ok(Model {
+    match graph {
+        Some(graph) if c.problems.is_empty() => Ok(Model {
             scene,
-            post_support: post_support.into_iter().map(|s| s.unwrap_or(0)).collect(),
+            post_support,
+            graph,
             bearers: bearers.into_iter().map(|b| b.expect("checked")).collect(),
             decks: decks.into_iter().map(|d| d.expect("checked")).collect(),
             load_targets,
+            load_posts,
             braced,
             warnings: c.warnings,
-        })
-    } else {
-        Err(ValidationError { problems: c.problems })
+        }),
+        _ => Err(ValidationError { problems: c.problems }),
     }
 }
+
+/// Check the declared existing structures of the permanent works.
+fn check_existing_structures(c: &mut Checker) {
+    use ElementKind as K;
+    for e in &c.scene.existing_structures {
+        let id = e.id.as_str();
+        c.number(K::ExistingStructure, id, "level (m)", e.level, LIMIT_M);
+        let r = e.extent;
+        let mut ok = true;
+        for (what, v) in [("extent x min", r.x.0), ("extent x max", r.x.1), ("extent y min", r.y.0), ("extent y max", r.y.1)] {
+            ok &= c.number(K::ExistingStructure, id, what, v, LIMIT_M);
+        }
+        if ok && (r.x.1 - r.x.0 < MIN_SPAN_M || r.y.1 - r.y.0 < MIN_SPAN_M) {
+            c.err(K::ExistingStructure, id, format!("extent x {:?}, y {:?} must have max above min in both directions", r.x, r.y));
+        }
+        c.at_least(K::ExistingStructure, id, "allowable bearing pressure (kPa)", e.allowable_kpa, MIN_CAPACITY, LIMIT_KN);
+    }
+}
+
+/// Work out what every post stands on; a post with a base plate needs a support type.
+fn load_path_graph(c: &mut Checker, bearers: &[Option<BearerLine>], decks: &[Option<DeckLine>]) -> Option<LoadPathGraph> {
+    let scene = c.scene;
+    let usable = |v: f64| v.is_finite() && v.abs() <= LIMIT_M;
+    if scene.posts.iter().any(|p| !(usable(p.x) && usable(p.y) && usable(p.base_level) && usable(p.top_level))) {
+        // Reported by the post checks; without numbers there is nothing to stand on. Every post
+        // without a support type is then taken to need one.
+        for p in scene.posts.iter().filter(|p| p.support.is_none()) {
+            c.err(ElementKind::Post, &p.id, NO_SUPPORT_TYPE);
+        }
+        return None;
+    }
+    let (graph, problems, warnings, stands_on) = standing::resolve(scene, bearers, decks);
+    c.problems.extend(problems);
+    c.warnings.extend(warnings);
+    for (p, s) in scene.posts.iter().zip(&stands_on) {
+        if s.is_plate() && p.support.is_none() {
+            c.err(ElementKind::Post, &p.id, NO_SUPPORT_TYPE);
+        }
+    }
+    graph
+}
+
+/// A post with a base plate and no support type.
+const NO_SUPPORT_TYPE: &str = "has no support type: its base plate needs one (jack, plate and safe working load)";
 
 fn check_site(c: &mut Checker) {
     use ElementKind as K;
     let site = &c.scene.site;
     let name = site.name.clone();
-    c.at_least(K::Site, &name, "allowable bearing pressure (kPa)", site.allowable_bearing_kpa, MIN_CAPACITY, LIMIT_KN);
+    match site.allowable_bearing_kpa {
+        Some(q) => {
+            c.at_least(K::Site, &name, "allowable bearing pressure (kPa)", q, MIN_CAPACITY, LIMIT_KN);
+        }
+        None => c.warn(K::Site, &name, "no allowable bearing pressure entered: ground bearing at formation is not checked"),
+    }
     if let Some(layer) = site.granular_layer {
         c.positive(K::Site, &name, "granular layer thickness (m)", layer.thickness_m, LIMIT_M, true);
         if let crate::scene::model::LoadSpread::AngleDeg(a) = layer.spread {
@@ -300,9 +363,32 @@ fn check_site(c: &mut Checker) {
                 c.err(K::Site, &name, format!("spread angle {a}° must be from 0° up to 89°"));
             }
         }
+        // Water is 9.81 kN/m³ and dense rock fill under 25: outside this is an input mistake.
+        if c.positive(K::Site, &name, "granular layer unit weight (kN/m³)", layer.unit_weight_kn_m3, 1e3, true) && !(5.0..=30.0).contains(&layer.unit_weight_kn_m3) {
+            c.err(K::Site, &name, format!("granular layer unit weight {} kN/m³ is outside the plausible range 5 to 30 kN/m³", layer.unit_weight_kn_m3));
+        }
+        match layer.allowable_kpa {
+            Some(q) => {
+                c.at_least(K::Site, &name, "allowable pressure on the granular layer (kPa)", q, MIN_CAPACITY, LIMIT_KN);
+            }
+            None => c.warn(K::Site, &name, "no allowable pressure on the granular layer entered: pressure under the plates on top of the layer is not checked"),
+        }
     }
-    let target = c.scene.stability.target_factor;
+    let st = &c.scene.stability;
+    let (target, sliding, equ) = (st.target_factor, st.sliding_target_factor, st.equilibrium);
     c.positive(K::Site, &name, "target overturning factor", target, 1e3, false);
+    c.positive(K::Site, &name, "target sliding factor", sliding, 1e3, false);
+    for (what, v) in [
+        ("equilibrium factor on destabilising permanent load", equ.g_unfavourable),
+        ("equilibrium factor on stabilising permanent load", equ.g_favourable),
+        ("equilibrium factor on imposed load", equ.q),
+        ("equilibrium factor on horizontal load", equ.w),
+    ] {
+        c.positive(K::Site, &name, what, v, 100.0, true);
+    }
+    if equ.g_favourable > equ.g_unfavourable {
+        c.warn(K::Site, &name, "equilibrium factor on stabilising permanent load is above the one on destabilising permanent load");
+    }
     let ei = c.scene.analysis.stiffness;
     for (what, v) in [
         ("bearer stiffness EI (kN·m²)", ei.bearer_knm2),
@@ -320,9 +406,36 @@ fn check_support_types(c: &mut Checker) {
         c.at_least(K::SupportType, &s.id, "base plate width (m)", s.base_plate.width_m, MIN_SPAN_M, LIMIT_M);
         c.at_least(K::SupportType, &s.id, "base plate length (m)", s.base_plate.length_m, MIN_SPAN_M, LIMIT_M);
         c.at_least(K::SupportType, &s.id, "safe working load (kN)", s.swl_kn, MIN_CAPACITY, LIMIT_KN);
+        if let Some(m) = s.head_moment_capacity_knm {
+            c.positive(K::SupportType, &s.id, "head moment capacity (kN·m)", m, LIMIT_KN, true);
+        }
         if let Some(sole) = s.sole_plate {
             c.at_least(K::SupportType, &s.id, "sole plate width (m)", sole.width_m, MIN_SPAN_M, LIMIT_M);
             c.at_least(K::SupportType, &s.id, "sole plate length (m)", sole.length_m, MIN_SPAN_M, LIMIT_M);
+        }
+        for i in &s.friction {
+            if let crate::scene::model::Interface::Given { mu, source } = i {
+                // common practice, no source: measured coefficients of dry construction
+                // interfaces lie well below 1.5; anything above is an input mistake.
+                if c.positive(K::SupportType, &s.id, "friction coefficient", *mu, 1e3, false) && *mu > 1.5 {
+                    c.err(K::SupportType, &s.id, format!("friction coefficient {mu} is above the plausible 1.5"));
+                }
+                if source.trim().is_empty() {
+                    c.err(K::SupportType, &s.id, format!("friction coefficient {mu} has no source: say where it comes from (a test, a published table)"));
+                }
+            }
+        }
+        if let Some(e) = s.max_extension_m {
+            c.positive(K::SupportType, &s.id, "maximum jack extension (m)", e, LIMIT_M, true);
+        }
+        if crate::scene::catalogue::uses_example_values(s) {
+            let from = s.catalogue_id.as_deref().map_or(String::new(), |id| format!(" from catalogue entry {id}"));
+            let ext = s.max_extension_m.map_or(String::new(), |e| format!(" (the example holds for up to {e} m)"));
+            c.warn(
+                K::SupportType,
+                &s.id,
+                format!("uses example values{from}: safe working load {} kN is not a manufacturer's figure; replace it with the manufacturer's safe working load for the jack extension used{ext}", s.swl_kn),
+            );
         }
     }
 }
@@ -346,10 +459,7 @@ fn check_posts(c: &mut Checker, support_ix: &HashMap<&str, usize>) -> Vec<Option
             c.err(K::Post, &p.id, format!("top level {} must be above base level {}", p.top_level, p.base_level));
         }
         let support = match &p.support {
-            None => {
-                c.err(K::Post, &p.id, "has no support type");
-                None
-            }
+            None => None,
             Some(s) => match support_ix.get(s.as_str()) {
                 Some(&ix) => Some(ix),
                 None => {
@@ -452,14 +562,14 @@ fn check_bearers(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Vec<Option<
             let along = rx * dir.0 + ry * dir.1;
             let off = (rx * dir.1 - ry * dir.0).abs();
             if off > GEOMETRY_TOLERANCE_M {
-                c.err(K::Bearer, id, format!("post {} is {:.3} m off the straight line of the bearer", post.id, off));
+                c.err(K::Bearer, id, format!("post {} is {:.3} m off the straight line of the bearer", post.id, crate::format::num(off)));
                 line_ok = false;
             }
             if let Some(&prev) = supports.last() {
                 let span: f64 = along - prev;
                 if span < MIN_SPAN_M {
                     let prev_id = &scene.posts[posts[k - 1]].id;
-                    c.err(K::Bearer, id, format!("span from post {prev_id} to post {} is {span:.4} m: posts must be in order along the bearer, at least {MIN_SPAN_M} m apart", post.id));
+                    c.err(K::Bearer, id, format!("span from post {prev_id} to post {} is {:.4} m: posts must be in order along the bearer, at least {MIN_SPAN_M} m apart", post.id, crate::format::num(span)));
                     line_ok = false;
                 }
             }
@@ -470,9 +580,26 @@ fn check_bearers(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Vec<Option<
             continue;
         }
         let end = supports.last().copied().unwrap_or(0.0) + b.overhang_end_m;
-        out.push(Some(BearerLine { posts, origin, dir, supports, start: -b.overhang_start_m, end }));
+        let names: Vec<&str> = b.posts.iter().map(String::as_str).collect();
+        let joints = inner_joints(c, K::Bearer, id, b.joints.as_deref(), &names, "post");
+        out.push(Some(BearerLine { posts, origin, dir, supports, start: -b.overhang_start_m, end, joints }));
     }
     out
+}
+
+/// Declared joints of a member as support indices: each must name one of its inner supports
+/// (`supports`, in order along it).
+fn inner_joints(c: &mut Checker, kind: ElementKind, id: &str, declared: Option<&[String]>, supports: &[&str], what: &str) -> Option<Vec<usize>> {
+    let declared = declared?;
+    let mut out = Vec::with_capacity(declared.len());
+    for j in declared {
+        match supports.iter().position(|s| s == j) {
+            Some(k) if k > 0 && k + 1 < supports.len() => out.push(k),
+            Some(_) => c.err(kind, id, format!("joint at {what} {j}: a joint must be at an inner {what}, not at an end")),
+            None => c.err(kind, id, format!("joint at {what} {j}: it does not rest on that {what}")),
+        }
+    }
+    Some(out)
 }
 
 fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Option<BearerLine>]) -> Vec<Option<DeckLine>> {
@@ -524,7 +651,7 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
             out.push(None);
             continue;
         };
-        let line = DeckLine { bearers: Vec::new(), bearer_axis: axis, supports: Vec::new(), span_range: (0.0, 0.0) };
+        let line = DeckLine { bearers: Vec::new(), bearer_axis: axis, supports: Vec::new(), span_range: (0.0, 0.0), joints: None };
         let (along_range, span_range) = line.split_rect(&e);
         let mut positions: Vec<(f64, usize)> = Vec::new();
         let mut covered = true;
@@ -540,7 +667,10 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
             let b = line.split(l.point_at(l.end).0, l.point_at(l.end).1).0;
             let (lo, hi) = (a.min(b), a.max(b));
             if along_range.0 < lo - GEOMETRY_TOLERANCE_M || along_range.1 > hi + GEOMETRY_TOLERANCE_M {
-                c.err(K::Deck, id, format!("extends from {:.3} to {:.3} m along bearer {b_id}, which only runs from {lo:.3} to {hi:.3} m", along_range.0, along_range.1));
+                c.err(K::Deck, id, {
+                    let n = crate::format::num;
+                    format!("extends from {:.3} to {:.3} m along bearer {b_id}, which only runs from {:.3} to {:.3} m", n(along_range.0), n(along_range.1), n(lo), n(hi))
+                });
                 covered = false;
             }
             positions.push((s, list[k]));
@@ -565,11 +695,14 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
                 c.warn(K::Deck, id, format!("level {} is below bearer {} at {}", d.level, bl.id, bl.level));
             }
         }
+        let ordered: Vec<&str> = positions.iter().map(|p| scene.bearers[p.1].id.as_str()).collect();
+        let joints = inner_joints(c, K::Deck, id, d.joints.as_deref(), &ordered, "bearer");
         out.push(Some(DeckLine {
             bearers: positions.iter().map(|p| p.1).collect(),
             bearer_axis: axis,
             supports: positions.iter().map(|p| p.0).collect(),
             span_range,
+            joints,
         }));
     }
     out
@@ -620,12 +753,13 @@ fn check_loads(
     post_ix: &HashMap<&str, usize>,
     bearers: &[Option<BearerLine>],
     braced: Braced,
-) -> Vec<Target> {
+) -> (Vec<Target>, Vec<Vec<usize>>) {
     use ElementKind as K;
     let scene = c.scene;
     let tol = GEOMETRY_TOLERANCE_M;
     let mut out = Vec::with_capacity(scene.loads.len());
-    for load in &scene.loads {
+    let mut load_posts = vec![Vec::new(); scene.loads.len()];
+    for (k, load) in scene.loads.iter().enumerate() {
         let id = load.id.as_str();
         let deck = |c: &mut Checker, name: &str| -> Option<usize> {
             let found = deck_ix.get(name).copied();
@@ -689,7 +823,7 @@ fn check_loads(
                         if c.number(K::Load, id, "position (m)", *at_m, LIMIT_M) {
                             if let Some(line) = &bearers[b] {
                                 if *at_m < line.start - tol || *at_m > line.end + tol {
-                                    c.err(K::Load, id, format!("position {at_m} m is off bearer {bearer} ({} to {} m)", line.start, line.end));
+                                    c.err(K::Load, id, format!("position {at_m} m is off bearer {bearer} ({} to {} m)", crate::format::num(line.start), crate::format::num(line.end)));
                                 }
                             }
                         }
@@ -708,7 +842,7 @@ fn check_loads(
                             c.err(K::Load, id, format!("line load from {from_m} to {to_m} m must have its end after its start"));
                         } else if let (true, Some(line)) = (ok, &bearers[b]) {
                             if *from_m < line.start - tol || *to_m > line.end + tol {
-                                c.err(K::Load, id, format!("line load from {from_m} to {to_m} m runs off bearer {bearer} ({} to {} m)", line.start, line.end));
+                                c.err(K::Load, id, format!("line load from {from_m} to {to_m} m runs off bearer {bearer} ({} to {} m)", crate::format::num(line.start), crate::format::num(line.end)));
                             }
                         }
                     }
@@ -748,6 +882,39 @@ fn check_loads(
                 }
                 Some(Target::None)
             }
+            LoadKind::Kentledge { on, kn, .. } => {
+                if load.case != crate::scene::loads::Case::G {
+                    c.err(K::Load, id, format!("is kentledge, a permanent weight: its case must be G, not {}", load.case));
+                }
+                c.positive(K::Load, id, "weight (kN)", *kn, LIMIT_KN, false);
+                match on {
+                    KentledgePlace::Plates(ids) => {
+                        if ids.is_empty() {
+                            c.err(K::Load, id, "is kentledge on no base plate: name the plates it sits on");
+                        }
+                        let mut found = Vec::with_capacity(ids.len());
+                        for pid in ids {
+                            match post_ix.get(pid.as_str()) {
+                                None => c.err(K::Load, id, format!("post \"{pid}\" does not exist")),
+                                Some(ix) if found.contains(ix) => c.err(K::Load, id, format!("sits on plate {pid} twice")),
+                                Some(&ix) => found.push(ix),
+                            }
+                        }
+                        load_posts[k] = found;
+                        Some(Target::None)
+                    }
+                    KentledgePlace::Deck { deck: d, x, y } => {
+                        let ix = deck(c, d);
+                        let ok = c.number(K::Load, id, "x (m)", *x, LIMIT_M) & c.number(K::Load, id, "y (m)", *y, LIMIT_M);
+                        if let (Some(ix), true) = (ix, ok) {
+                            if !scene.decks[ix].extent.contains(*x, *y, tol) {
+                                c.err(K::Load, id, format!("point ({x}, {y}) is not on deck {d}"));
+                            }
+                        }
+                        ix.map(Target::Deck)
+                    }
+                }
+            }
             LoadKind::Notional { percent, direction, basis } => {
                 c.positive(K::Load, id, "percentage", *percent, 100.0, true);
                 if basis.is_empty() {
@@ -762,13 +929,13 @@ fn check_loads(
         };
         out.push(target.unwrap_or(Target::None));
     }
-    out
+    (out, load_posts)
 }
 
 /// Horizontal loads are shared among all base plates as one rigid braced body. That holds only
 /// if every post is joined to the others by bearers or braces: separate structures would lean
 /// on each other through nothing, so refuse rather than give a wrong share.
-fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>, bearers: &[Option<BearerLine>]) {
+fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>, bearers: &[Option<BearerLine>], graph: Option<&LoadPathGraph>) {
     let scene = c.scene;
     let n = scene.posts.len();
     if n < 2 || !scene.loads.iter().any(|l| l.kind.is_horizontal()) {
@@ -797,6 +964,24 @@ fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>, bearer
             join(&mut parent, a, z);
         }
     }
+    // A post standing on another member belongs to the structure under it.
+    for (p, s) in graph.map(|g| g.stands_on.as_slice()).unwrap_or_default().iter().enumerate() {
+        match *s {
+            StandsOn::Post(q) => join(&mut parent, p, q),
+            StandsOn::Bearer { bearer, .. } => {
+                if let Some(line) = &bearers[bearer] {
+                    join(&mut parent, p, line.posts[0]);
+                }
+            }
+            StandsOn::Deck(d) => {
+                let first_bearer = scene.decks[d].bearers.first().and_then(|id| scene.bearers.iter().position(|b| &b.id == id));
+                if let Some(line) = first_bearer.and_then(|b| bearers[b].as_ref()) {
+                    join(&mut parent, p, line.posts[0]);
+                }
+            }
+            StandsOn::Ground | StandsOn::Structure(_) => {}
+        }
+    }
     // First post of each separate group, in file order.
     let mut firsts: Vec<(usize, usize)> = Vec::new();
     let mut root_seen = vec![false; n];
@@ -820,6 +1005,28 @@ fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>, bearer
                     names.join(", ")
                 ),
             );
+        }
+    }
+}
+
+/// The plates named for kentledge (in the stability settings, and those a kentledge sits on) must
+/// exist, once each, and be base plates: a post standing on another member has none.
+fn check_kentledge_plates(c: &mut Checker, post_ix: &HashMap<&str, usize>, load_posts: &[Vec<usize>], graph: Option<&crate::scene::standing::LoadPathGraph>) {
+    let scene = c.scene;
+    let name = scene.site.name.clone();
+    let ids = &scene.stability.kentledge_plates;
+    let no_plate = |p: usize| graph.is_some_and(|g| !g.is_plate(p));
+    for (i, pid) in ids.iter().enumerate() {
+        match post_ix.get(pid.as_str()) {
+            None => c.err(ElementKind::Site, &name, format!("kentledge plate \"{pid}\" (stability settings) does not exist")),
+            Some(_) if ids[..i].contains(pid) => c.err(ElementKind::Site, &name, format!("kentledge plate {pid} (stability settings) is listed twice")),
+            Some(&p) if no_plate(p) => c.err(ElementKind::Site, &name, format!("kentledge plate {pid} (stability settings) is a post standing on another member: it has no base plate to put kentledge on")),
+            Some(_) => {}
+        }
+    }
+    for (load, posts) in scene.loads.iter().zip(load_posts) {
+        for &p in posts.iter().filter(|&&p| no_plate(p)) {
+            c.err(ElementKind::Load, &load.id, format!("is kentledge on post {}, which stands on another member: it has no base plate; put the kentledge on a base plate or on a deck", scene.posts[p].id));
         }
     }
 }

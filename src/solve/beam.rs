@@ -57,8 +57,12 @@ pub enum Piece {
     EndOverhang,
     /// The whole member on its only support.
     Single,
-    /// The whole member, continuous over all its supports ([`crate::solve::continuous`]).
+    /// The whole member, continuous over all its supports but its joints
+    /// ([`crate::solve::continuous`]).
     Continuous,
+    /// The two-span model about the support, for a member whose joints are not known
+    /// ([`crate::solve::continuous::TwoSpanLocal`]).
+    TwoSpanModel,
 }
 
 /// Share one load among the supports by segment moment balance.

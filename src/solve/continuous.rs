@@ -23,7 +23,7 @@
 //! all: every term of the stiffness matrix scales with it and the load vector does not. EI is kept
 //! so that sections and support settlement can be added without changing the interface.
 
-use crate::solve::beam::BeamLoad;
+use crate::solve::beam::{share_simple, BeamLoad};
 
 /// Why a continuous member could not be set up.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -66,6 +66,15 @@ impl ContinuousBeam {
     /// Set up a member on supports at distances `supports` (strictly increasing) with flexural
     /// stiffness `ei`, kN·m².
     pub fn new(supports: &[f64], ei: f64) -> Result<Self, ContinuousError> {
+        let mut beam = ContinuousBeam { supports: Vec::new(), ei, k: Vec::new(), pivot: Vec::new(), mult: Vec::new(), fixed: Vec::new(), theta: Vec::new(), overhang: [(0.0, 0.0); 2] };
+        beam.set_supports(supports)?;
+        Ok(beam)
+    }
+
+    /// Move the member onto other supports (strictly increasing) and factorise again, reusing
+    /// its buffers: a member solved on many short stretches allocates once.
+    pub fn set_supports(&mut self, supports: &[f64]) -> Result<(), ContinuousError> {
+        let ei = self.ei;
         if !(ei.is_finite() && ei > 0.0) {
             return Err(ContinuousError::Stiffness(ei));
         }
@@ -76,19 +85,30 @@ impl ContinuousBeam {
         }
         let n = supports.len();
         let spans = n.saturating_sub(1);
-        let k: Vec<f64> = supports.windows(2).map(|w| ei / (w[1] - w[0])).collect();
-        let (mut pivot, mut mult) = (vec![0.0; n], vec![0.0; n]);
+        self.supports.clear();
+        self.supports.extend_from_slice(supports);
+        self.k.clear();
+        self.k.extend(supports.windows(2).map(|w| ei / (w[1] - w[0])));
+        let k = &self.k;
+        self.pivot.clear();
+        self.pivot.resize(n, 0.0);
+        self.mult.clear();
+        self.mult.resize(n, 0.0);
         if n >= 2 {
             // Tridiagonal LDLᵀ: diagonal 4(k_{i-1} + k_i), off-diagonal 2k_i between i and i+1.
-            pivot[0] = 4.0 * k[0];
+            self.pivot[0] = 4.0 * k[0];
             for i in 1..n {
                 let off = 2.0 * k[i - 1];
                 let diag = 4.0 * (k[i - 1] + if i < spans { k[i] } else { 0.0 });
-                mult[i] = off / pivot[i - 1];
-                pivot[i] = diag - mult[i] * off;
+                self.mult[i] = off / self.pivot[i - 1];
+                self.pivot[i] = diag - self.mult[i] * off;
             }
         }
-        Ok(ContinuousBeam { supports: supports.to_vec(), ei, k, pivot, mult, fixed: vec![[0.0; 4]; spans], theta: vec![0.0; n], overhang: [(0.0, 0.0); 2] })
+        self.fixed.clear();
+        self.fixed.resize(spans, [0.0; 4]);
+        self.theta.clear();
+        self.theta.resize(n, 0.0);
+        Ok(())
     }
 
     /// Support positions, m.
@@ -269,6 +289,227 @@ fn add_uniform_fea(f: &mut [f64; 4], l: f64, a: f64, c: f64, w: f64) {
     f[3] -= total * (t * s * s + (t - 2.0 * s) * c2 / 12.0) / (l * l);
 }
 
+/// A member continuous over its supports except at joints: continuous pieces, each from one joint
+/// (or end) to the next, meeting at the jointed supports. A load at a joint goes to that support;
+/// overhangs belong to the end pieces.
+#[derive(Debug, Clone)]
+pub struct JointedBeam {
+    /// Each piece: index of its first support, and the piece as a continuous member.
+    pieces: Vec<(usize, ContinuousBeam)>,
+    /// Loads and reactions of one piece, reused.
+    piece_loads: Vec<BeamLoad>,
+    piece_reactions: Vec<f64>,
+}
+
+impl JointedBeam {
+    /// Set up a member on `supports` (strictly increasing) with stiffness `ei`, jointed at the
+    /// inner supports whose indices are in `joints` (others are ignored).
+    pub fn new(supports: &[f64], ei: f64, joints: &[usize]) -> Result<Self, ContinuousError> {
+        let n = supports.len();
+        let mut cuts: Vec<usize> = joints.iter().copied().filter(|&k| k > 0 && k + 1 < n).collect();
+        cuts.sort_unstable();
+        cuts.dedup();
+        let mut pieces = Vec::with_capacity(cuts.len() + 1);
+        let mut first = 0;
+        for end in cuts.into_iter().chain(std::iter::once(n.saturating_sub(1))) {
+            pieces.push((first, ContinuousBeam::new(&supports[first..=end.max(first)], ei)?));
+            first = end;
+        }
+        Ok(JointedBeam { pieces, piece_loads: Vec::new(), piece_reactions: Vec::new() })
+    }
+
+    /// Share a set of loads among the supports, as [`ContinuousBeam::share`] does: `reactions`
+    /// (one per support, kN upward) is overwritten; returns the moment a single-support member
+    /// cannot balance.
+    pub fn share(&mut self, loads: &[BeamLoad], reactions: &mut [f64]) -> f64 {
+        if self.pieces.len() == 1 {
+            return self.pieces[0].1.share(loads, reactions);
+        }
+        reactions.iter_mut().for_each(|r| *r = 0.0);
+        let last = self.pieces.len() - 1;
+        for (p, (first, beam)) in self.pieces.iter_mut().enumerate() {
+            let s = beam.supports();
+            // This piece takes what lies after its first support (all of the start overhang for
+            // the first piece) up to its last support (all of the end overhang for the last).
+            let lo = if p == 0 { f64::NEG_INFINITY } else { s[0] };
+            let hi = if p == last { f64::INFINITY } else { s[s.len() - 1] };
+            self.piece_loads.clear();
+            for load in loads {
+                match *load {
+                    BeamLoad::Point { at, .. } => {
+                        if (at > lo || (p == 0 && at == lo)) && at <= hi {
+                            self.piece_loads.push(*load);
+                        }
+                    }
+                    BeamLoad::Uniform { from, to, w } => {
+                        let (a, z) = (from.max(lo), to.min(hi));
+                        if z > a {
+                            self.piece_loads.push(BeamLoad::Uniform { from: a, to: z, w });
+                        }
+                    }
+                }
+            }
+            if self.piece_loads.is_empty() {
+                continue;
+            }
+            self.piece_reactions.resize(s.len(), 0.0);
+            beam.share(&self.piece_loads, &mut self.piece_reactions);
+            for (k, r) in self.piece_reactions.iter().enumerate() {
+                reactions[*first + k] += r;
+            }
+        }
+        0.0
+    }
+}
+
+/// A member whose joints are not known, taken support by support as the middle of a two-span
+/// piece: the reaction at each inner support is that of a beam continuous over it and jointed at
+/// the supports either side; at an end support, that of the end span alone (with its overhang).
+///
+/// Each support's value is the most any joint layout can put on it under loads spread over
+/// equal spans (two-span continuity gives 1.25 wL at the middle, longer continuity less, simple
+/// spans 1.0 wL), so the values do not add up to the load: they are an envelope, support by
+/// support, not one state of the member. Each two-span model is in equilibrium on its own.
+#[derive(Debug, Clone)]
+pub struct TwoSpanLocal {
+    supports: Vec<f64>,
+    /// A two-span beam to copy from, and the two-span beams met so far by their spans (the
+    /// middle support at 0).
+    middle: ContinuousBeam,
+    shapes: Vec<((u64, u64), ContinuousBeam)>,
+    piece_loads: Vec<BeamLoad>,
+    piece_reactions: [f64; 3],
+    /// Worst relative equilibrium residual of a two-span model so far.
+    worst_residual: f64,
+}
+
+impl TwoSpanLocal {
+    /// Set up a member on `supports` (strictly increasing) with stiffness `ei`.
+    pub fn new(supports: &[f64], ei: f64) -> Result<Self, ContinuousError> {
+        let middle = ContinuousBeam::new(&supports[..supports.len().min(3)], ei)?;
+        if let Some(i) = (1..supports.len()).find(|&i| !(supports[i] > supports[i - 1])) {
+            return Err(ContinuousError::SupportOrder { index: i, at: supports[i] });
+        }
+        Ok(TwoSpanLocal { supports: supports.to_vec(), middle, shapes: Vec::new(), piece_loads: Vec::new(), piece_reactions: [0.0; 3], worst_residual: 0.0 })
+    }
+
+    /// Worst relative residual (|ΣF| / ΣF and |ΣM| / (ΣF · length)) of the two-span models
+    /// solved so far.
+    pub fn worst_residual(&self) -> f64 {
+        self.worst_residual
+    }
+
+    /// Each support's reaction from its own model (kN upward), overwriting `reactions`.
+    pub fn share(&mut self, loads: &[BeamLoad], reactions: &mut [f64]) -> f64 {
+        let s = &self.supports;
+        let n = s.len();
+        reactions.iter_mut().for_each(|r| *r = 0.0);
+        if n < 3 {
+            // One or two supports: nothing is unknown about the member.
+            if n == 2 {
+                for load in loads {
+                    share_simple(s, load, &mut |k, _, r| reactions[k] += r);
+                }
+                return 0.0;
+            }
+            return loads.iter().map(|l| {
+                reactions[0] += l.total();
+                l.moment_about(s[0])
+            }).sum();
+        }
+        // End supports: the end span alone, jointed at the next support, with its overhang.
+        for (k, window) in [(0, (f64::NEG_INFINITY, s[1])), (n - 1, (s[n - 2], f64::INFINITY))] {
+            let pair = if k == 0 { [s[0], s[1]] } else { [s[n - 2], s[n - 1]] };
+            clip(loads, window, k == 0, &mut self.piece_loads);
+            for load in &self.piece_loads {
+                share_simple(&pair, load, &mut |j, _, r| {
+                    if (k == 0 && j == 0) || (k == n - 1 && j == 1) {
+                        reactions[k] += r;
+                    }
+                });
+            }
+        }
+        // Inner supports: the two-span beam about each — only those whose window the loads reach.
+        let (mut first, mut last) = (n - 1, 0);
+        for load in loads {
+            let (a, z) = match *load {
+                BeamLoad::Point { at, .. } => (at, at),
+                BeamLoad::Uniform { from, to, .. } => (from, to),
+            };
+            // Support k's window is (s[k−1], s[k+1]] — open to the outside for the first and last
+            // inner supports, which carry the overhangs: reached when s[k−1] < z and a ≤ s[k+1].
+            first = first.min(s.partition_point(|&x| x < a).saturating_sub(1).clamp(1, n - 2));
+            last = last.max(s.partition_point(|&x| x < z).clamp(1, n - 2));
+        }
+        for k in first..=last {
+            let lo = if k == 1 { f64::NEG_INFINITY } else { s[k - 1] };
+            let hi = if k == n - 2 { f64::INFINITY } else { s[k + 1] };
+            clip(loads, (lo, hi), k == 1, &mut self.piece_loads);
+            if self.piece_loads.is_empty() {
+                continue;
+            }
+            // Solved about the middle support (at 0), so that a model of the same two spans is
+            // factorised once: on a regular grid every inner support has the same one.
+            let (l1, l2) = (s[k] - s[k - 1], s[k + 1] - s[k]);
+            let middle = s[k];
+            for l in &mut self.piece_loads {
+                *l = match *l {
+                    BeamLoad::Point { at, p } => BeamLoad::Point { at: at - middle, p },
+                    BeamLoad::Uniform { from, to, w } => BeamLoad::Uniform { from: from - middle, to: to - middle, w },
+                };
+            }
+            let key = (l1.to_bits(), l2.to_bits());
+            let slot = match self.shapes.iter().position(|e| e.0 == key) {
+                Some(i) => i,
+                None => {
+                    if self.shapes.len() >= MAX_TWO_SPAN_SHAPES {
+                        self.shapes.pop();
+                    }
+                    let mut beam = self.middle.clone();
+                    beam.set_supports(&[-l1, 0.0, l2]).expect("supports checked when set up");
+                    self.shapes.push((key, beam));
+                    self.shapes.len() - 1
+                }
+            };
+            self.shapes[slot].1.share(&self.piece_loads, &mut self.piece_reactions);
+            reactions[k] = self.piece_reactions[1];
+            // Its own equilibrium: ΣR = ΣW and ΣR·x = ΣW·c.
+            let w: f64 = self.piece_loads.iter().map(BeamLoad::total).sum();
+            let scale: f64 = self.piece_loads.iter().map(|l| l.total().abs()).sum::<f64>().max(1e-300);
+            let mw: f64 = self.piece_loads.iter().map(|l| l.moment_about(0.0)).sum();
+            let fr: f64 = self.piece_reactions.iter().sum();
+            let mr: f64 = self.piece_reactions[2] * l2 - self.piece_reactions[0] * l1;
+            let length = (s[k + 1] - s[k - 1]).max(1.0);
+            self.worst_residual = self.worst_residual.max((fr - w).abs() / scale).max((mr - mw).abs() / (scale * length));
+        }
+        0.0
+    }
+}
+
+/// Two-span shapes a member keeps factorised; a member of more different span pairs than this
+/// factorises again as it goes.
+const MAX_TWO_SPAN_SHAPES: usize = 16;
+
+/// The parts of `loads` inside the window `(lo, hi]` (`[lo, hi]` when `closed_start`), into `out`.
+fn clip(loads: &[BeamLoad], (lo, hi): (f64, f64), closed_start: bool, out: &mut Vec<BeamLoad>) {
+    out.clear();
+    for load in loads {
+        match *load {
+            BeamLoad::Point { at, .. } => {
+                if (at > lo || (closed_start && at == lo)) && at <= hi {
+                    out.push(*load);
+                }
+            }
+            BeamLoad::Uniform { from, to, w } => {
+                let (a, z) = (from.max(lo), to.min(hi));
+                if z > a {
+                    out.push(BeamLoad::Uniform { from: a, to: z, w });
+                }
+            }
+        }
+    }
+}
+
 /// Reactions of a continuous member under `loads`, one per support (kN, upward positive). A
 /// convenience over [`ContinuousBeam`] for one-off use.
 pub fn continuous_reactions(supports: &[f64], loads: &[BeamLoad], ei: f64) -> Result<Vec<f64>, ContinuousError> {
@@ -396,6 +637,48 @@ mod tests {
             add_point_fea(&mut sum, l, x, w * c / steps as f64);
         }
         assert!(close(&exact, &sum, 1e-8), "{exact:?} {sum:?}");
+    }
+
+    #[test]
+    fn a_joint_splits_the_member_into_continuous_pieces() {
+        // source: Hicks Table 2.1 / AISC Table 3-23, two equal spans under uniform load: 3/8,
+        // 10/8, 3/8 wL. Four spans jointed at the middle support are two such beams side by
+        // side: 3/8, 10/8, 6/8, 10/8, 3/8 wL. L = 2, w = 4 → wL = 8: 3, 10, 6, 10, 3.
+        let mut beam = JointedBeam::new(&[0.0, 2.0, 4.0, 6.0, 8.0], EI, &[2]).unwrap();
+        let mut r = [0.0; 5];
+        beam.share(&[udl(0.0, 8.0, 4.0)], &mut r);
+        assert!(close(&r, &[3.0, 10.0, 6.0, 10.0, 3.0], 1e-12), "{r:?}");
+        // A point load right at the joint goes to that support only.
+        beam.share(&[BeamLoad::Point { at: 4.0, p: 5.0 }], &mut r);
+        assert!(close(&r, &[0.0, 0.0, 5.0, 0.0, 0.0], 1e-12), "{r:?}");
+        // Jointed everywhere it is simple spans: wL/2 to each end of each span (AISC case 1).
+        let mut beam = JointedBeam::new(&[0.0, 2.0, 4.0, 6.0, 8.0], EI, &[1, 2, 3]).unwrap();
+        beam.share(&[udl(-1.0, 9.0, 4.0)], &mut r);
+        // The overhangs: AISC case 24 on the end spans, L = 2, a = 1, w = 4: R1 = w(L² − a²)/(2L) = 3,
+        // R2 = w(L + a)²/(2L) = 9, so the end supports get 9 and the next ones 3 + 4.
+        assert!(close(&r, &[9.0, 7.0, 8.0, 7.0, 9.0], 1e-12), "{r:?}");
+    }
+
+    #[test]
+    fn unknown_joints_give_each_support_its_two_span_value() {
+        // source: Hicks Table 2.1 / AISC Table 3-23 — two equal spans: 3/8, 10/8, 3/8 wL; simple
+        // span (AISC case 1): wL/2. Four equal spans of L = 2 under w = 4 (wL = 8), each inner
+        // support as the middle of its own two-span beam: 10; each end as its own simple span: 4.
+        let mut beam = TwoSpanLocal::new(&[0.0, 2.0, 4.0, 6.0, 8.0], EI).unwrap();
+        let mut r = [0.0; 5];
+        beam.share(&[udl(0.0, 8.0, 4.0)], &mut r);
+        assert!(close(&r, &[4.0, 10.0, 10.0, 10.0, 4.0], 1e-12), "{r:?}");
+        assert!(beam.worst_residual() < 1e-12);
+        // One span loaded (the second): the two-span models about supports 1 and 2 each have one
+        // of their spans loaded, 5/8 wL at the middle (Hicks: 7/16, 5/8, −1/16); the models of
+        // the others, jointed short of it, take nothing. (Lifting from longer continuity is the
+        // continuous pass's to find.)
+        beam.share(&[udl(2.0, 4.0, 4.0)], &mut r);
+        assert!(close(&r, &[0.0, 5.0, 5.0, 0.0, 0.0], 1e-12), "{r:?}");
+        // An overhang stays with the end models: AISC case 25 (load on the overhang only), L = 2,
+        // a = 1, w = 4 → the end support takes wa(2L + a)/(2L) = 5.
+        beam.share(&[udl(-1.0, 0.0, 4.0)], &mut r);
+        assert!((r[0] - 5.0).abs() < 1e-12, "{r:?}");
     }
 
     #[test]

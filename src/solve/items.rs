@@ -50,7 +50,7 @@ impl Resultant {
     }
 }
 
-/// Which route a reaction came by.
+/// Which route a share of load came by into a post.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize)]
 pub enum Route {
     /// Through a piece of a bearer onto the post.
@@ -60,19 +60,38 @@ pub enum Route {
         /// Which piece of it.
         piece: Piece,
     },
+    /// From the post standing on this one: an upper lift of the same standard.
+    Lift {
+        /// The upper post (index).
+        from: u32,
+    },
+    /// Through a piece of a transfer bearer, from a post standing on that bearer (or on a deck
+    /// over it).
+    Transfer {
+        /// Bearer index.
+        bearer: u32,
+        /// Which piece of it.
+        piece: Piece,
+        /// The post standing on it (index).
+        from: u32,
+    },
     /// The post's own weight.
     PostSelfWeight,
     /// A load straight onto the post top.
     PostTop,
     /// The overturning couple of a horizontal load on the rigid braced base.
     Overturning,
+    /// Kentledge sitting on the plate.
+    Kentledge,
 }
 
-/// One reaction share at one base plate: the trace behind every number.
+/// One share of the load entering one post: the trace behind every number. The shares of a post
+/// with a base plate add up to its plate load; those of a post standing on another member add up
+/// to the load it passes on.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct Contribution {
-    /// Base plate (post) index.
-    pub plate: u32,
+    /// Post index.
+    pub post: u32,
     /// Item index.
     pub item: u32,
     /// Route it came by.
@@ -90,8 +109,12 @@ pub struct Item {
     pub case: Case,
     /// Resultant of the applied load, from its own definition.
     pub applied: Resultant,
-    /// Upward vertical reaction at each plate it reaches: (plate, kN), one entry per plate.
+    /// Upward vertical reaction at each base plate it reaches: (post, kN), one entry per plate.
     pub vertical: Vec<(u32, f64)>,
+    /// Load passed on at the base of each post it reaches that stands on another member (a post,
+    /// a bearer, a deck): (post, kN downwards). Negative: the post pulls on what it stands on —
+    /// tension through a splice, or a post lifting off a transfer bearer.
+    pub internal: Vec<(u32, f64)>,
     /// Horizontal reaction at each plate it reaches: (plate, [x, y] kN).
     pub shear: Vec<(u32, [f64; 2])>,
     /// Plan direction (unit x, y) of a horizontal load; `None` for vertical loads.
@@ -100,9 +123,67 @@ pub struct Item {
     /// part due to permanent load alone. Where uplift is sought the variable load is absent, and
     /// so is the notional load it would cause.
     pub vertical_permanent_basis: Option<Vec<(u32, f64)>>,
+    /// For an arranged imposed load: its cells and, at every post, the worst arrangement. The
+    /// whole-load reactions above are then the case with every cell loaded.
+    pub arranged: Option<Arranged>,
+    /// For a load-class imposed load on a deck: the level of that deck, m (a working level).
+    pub working_level: Option<f64>,
+}
+
+/// An arranged imposed load: split into cells, each present or absent, so that at every post the
+/// maximum takes only the cells that push it down and the minimum only those that lift it.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct Arranged {
+    /// The cells, with their applied load.
+    pub cells: Vec<Cell>,
+    /// At every post the load reaches: (post, sum of the cells that push it down (≥ 0), sum of
+    /// the cells that lift it (≤ 0)), kN — reactions for a plate, load passed on for any other
+    /// post.
+    pub extremes: Vec<(u32, f64, f64)>,
+    /// For each entry of `extremes`: how many cells push that post down, and how many lift it.
+    pub counts: Vec<(u32, u32)>,
+    /// Worst relative equilibrium residual of a single cell: largest of |ΣF| / F and
+    /// |ΣM| / (F·L) over the cells (L the plan size of the structure, at least 1 m).
+    pub worst_cell_residual: f64,
+}
+
+/// One cell of an arranged load.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct Cell {
+    /// Where it is.
+    pub place: CellPlace,
+    /// Its applied load.
+    pub applied: Resultant,
+}
+
+/// Where a cell of an arranged load lies.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub enum CellPlace {
+    /// A plan rectangle of a deck: one strip between bearers (or a cantilever) over one span
+    /// between posts (or an overhang).
+    Deck {
+        /// Deck index.
+        deck: u32,
+        /// Plan rectangle, m.
+        rect: crate::scene::geometry::Rect,
+    },
+    /// A stretch of a bearer between posts (or an overhang), distances from its first post.
+    Bearer {
+        /// Bearer index.
+        bearer: u32,
+        /// Start, m.
+        from_m: f64,
+        /// End, m.
+        to_m: f64,
+    },
 }
 
 impl Item {
+    /// An item of a load with nothing reaching the base yet.
+    pub fn new(id: impl Into<String>, case: Case, applied: Resultant) -> Self {
+        Item { id: id.into(), case, applied, vertical: Vec::new(), internal: Vec::new(), shear: Vec::new(), direction: None, vertical_permanent_basis: None, arranged: None, working_level: None }
+    }
+
     /// Horizontal loads in the same plan direction act together; loads in different directions
     /// are alternatives. This key (direction in hundredths of a degree) tells them apart.
     pub fn direction_key(&self) -> Option<i64> {
@@ -131,22 +212,31 @@ pub const SELF_WEIGHT_ID: &str = "self-weight";
 /// Everything the solver found, before any combination is applied.
 #[derive(Debug, Clone)]
 pub struct Solution {
-    /// Base plate positions (x, y, base level), in post order.
+    /// Base positions (x, y, base level) of every post, in post order; only those with
+    /// [`is_plate`](Self::is_plate) are base plates.
     pub plates: Vec<[f64; 3]>,
+    /// Whether each post has a base plate (on the ground or an existing structure).
+    pub is_plate: Vec<bool>,
     /// Every load item: self-weight first, then the scene's loads in order.
     pub items: Vec<Item>,
     /// Every reaction share, for tracing.
     pub contributions: Vec<Contribution>,
+    /// Single-post bearers that stand only because their post's head takes a moment.
+    pub head_moments: Vec<crate::solve::tee_heads::HeadMoment>,
+    /// Where members are taken support by support ([`MethodPass::is_one_state`] false): the
+    /// worst relative equilibrium residual of their two-span models; 0 otherwise.
+    pub local_residual: f64,
     /// How the members shared their loads in this solution.
     pub method: MethodPass,
 }
 
 impl Solution {
-    /// Vertical reaction of each plate in each case, kN: `[plate][case]`.
+    /// Vertical load at the base of each post in each case, kN: `[post][case]` — the plate load
+    /// (upwards positive) for a post with a base plate, the load it passes on for any other.
     pub fn case_vertical(&self) -> Vec<[f64; 3]> {
         let mut out = vec![[0.0; 3]; self.plates.len()];
         for item in &self.items {
-            for &(p, v) in &item.vertical {
+            for &(p, v) in item.vertical.iter().chain(&item.internal) {
                 out[p as usize][item.case.index()] += v;
             }
         }

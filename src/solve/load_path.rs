@@ -12,28 +12,28 @@
 //! jointed at every bearer over continuous bearers is covered as well as all-simple and
 //! all-continuous. [`crate::check`] then takes the worst pass at every plate.
 
+use std::cmp::Reverse;
+use std::collections::BinaryHeap;
+
+use crate::scene::standing::{Member, StandsOn};
 use crate::solve::beam::{share_simple, BeamLoad, Piece};
-use crate::solve::continuous::ContinuousBeam;
-use crate::scene::loads::{Case, LoadKind};
+use crate::solve::continuous::{JointedBeam, TwoSpanLocal};
+use crate::solve::arrangement::FlowCache;
+use crate::solve::passes::Behaviour;
+use crate::scene::loads::{Case, Intensity, KentledgePlace, LoadKind};
 use crate::solve::rigid_base::{RigidBase, RigidBaseError};
 use crate::scene::validate::{Model, Target};
 use crate::solve::items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
-use crate::solve::passes::{method_passes, Behaviour, MethodPass};
+use crate::solve::passes::{method_passes, MethodPass};
+use crate::solve::tee_heads::{TeeHeadTips, TeeHeads};
 
 /// Why a valid scene could not be solved.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 #[non_exhaustive]
 pub enum SolveError {
     /// A single-post bearer whose loads do not balance about the post.
-    #[error("bearer {bearer} rests on a single post and tips under load {load}: {moment_knm:.3} kN·m about the post is not balanced; give it a second post or balance it")]
-    TeeHeadTips {
-        /// Bearer id.
-        bearer: String,
-        /// Load id.
-        load: String,
-        /// Unbalanced moment, kN·m.
-        moment_knm: f64,
-    },
+    #[error("{0}")]
+    TeeHeadTips(#[from] TeeHeadTips),
     /// The base cannot take a horizontal load.
     #[error("horizontal load {load} cannot be taken to the ground: {reason}")]
     Horizontal {
@@ -42,36 +42,6 @@ pub enum SolveError {
         /// Why.
         reason: RigidBaseError,
     },
-}
-
-/// Dense per-plate accumulator that remembers which plates it touched.
-struct Sparse {
-    values: Vec<f64>,
-    touched: Vec<u32>,
-    seen: Vec<bool>,
-}
-
-impl Sparse {
-    fn new(n: usize) -> Self {
-        Sparse { values: vec![0.0; n], touched: Vec::new(), seen: vec![false; n] }
-    }
-    fn add(&mut self, i: usize, v: f64) {
-        if !self.seen[i] {
-            self.seen[i] = true;
-            self.touched.push(i as u32);
-        }
-        self.values[i] += v;
-    }
-    fn take(&mut self) -> Vec<(u32, f64)> {
-        self.touched.sort_unstable();
-        let out = self.touched.iter().map(|&i| (i, self.values[i as usize])).collect();
-        for &i in &self.touched {
-            self.values[i as usize] = 0.0;
-            self.seen[i as usize] = false;
-        }
-        self.touched.clear();
-        out
-    }
 }
 
 /// Vertical load entering each post at a level: what the notional horizontal load is made of.
@@ -120,23 +90,47 @@ impl Nodes {
     }
 }
 
-/// Work buffers reused from item to item.
-struct Solver<'m, 's> {
-    model: &'m Model<'s>,
-    plates: Sparse,
-    /// Loads gathered on each bearer for the current item.
-    bearer_loads: Vec<Vec<BeamLoad>>,
-    bearers_touched: Vec<usize>,
+/// Where a load on a member came from: applied to it directly, or passed on by a post standing on
+/// it (or on a deck over it).
+pub(super) type Source = Option<u32>;
+
+/// Work buffers reused from item to item: the loads gathered on each member for the current flow
+/// and the members waiting to pass them on, in top-down order.
+pub(super) struct Solver<'m, 's> {
+    pub(super) model: &'m Model<'s>,
+    /// Loads gathered on each bearer for the current flow, with where each came from.
+    bearer_loads: Vec<Vec<(BeamLoad, Source)>>,
+    /// Load entering each post for the current flow, kN downwards.
+    post_load: Vec<f64>,
+    /// Members waiting to pass their loads on, by rank in the top-down order.
+    queue: BinaryHeap<Reverse<u32>>,
+    queued: Vec<bool>,
+    /// Plate reactions and loads passed on at post bases of the current flow: (post, kN).
+    pub(super) bases: Vec<(u32, f64)>,
+    pub(super) internal: Vec<(u32, f64)>,
+    /// Whether the current flow records its trace and the notional-load nodes (real load items
+    /// do; the unit flows of the arrangement analysis do not).
+    pub(super) record: bool,
     /// Reaction per (piece, support side) of the bearer being shared.
     piece_sums: Vec<[f64; 2]>,
     nodes: Nodes,
     contributions: Vec<Contribution>,
     /// Each bearer that is continuous in this pass (and has two or more posts), factorised once.
-    bearer_beams: Vec<Option<ContinuousBeam>>,
+    pub(super) bearer_beams: Vec<Option<MemberBeam>>,
     /// Each deck that is continuous in this pass, per metre of width.
-    deck_beams: Vec<Option<ContinuousBeam>>,
+    pub(super) deck_beams: Vec<Option<MemberBeam>>,
     /// Reactions of one continuous member.
-    reactions: Vec<f64>,
+    pub(super) reactions: Vec<f64>,
+    /// Single-post bearers' unbalanced moments of the current flow: (bearer, moment, scale).
+    pub(super) unbalanced: Vec<(usize, f64, f64)>,
+    /// Behaviour of each bearer in this pass.
+    pub(super) bearer_behaviour: Vec<Behaviour>,
+    /// Unit flows kept from earlier passes.
+    pub(super) flow_cache: FlowCache,
+    /// Entries of the unit flows of one arranged load, reused from load to load.
+    pub(super) flow_buffer: Vec<(u32, f64)>,
+    /// Single-post bearers' moments under the last arranged load, each way.
+    pub(super) arranged_tee: Vec<crate::solve::arrangement::ArrangedTee>,
 }
 
 /// Carry every load of a validated scene down to the base plates, the way the scene's primary
@@ -148,41 +142,31 @@ pub fn solve(model: &Model) -> Result<Solution, SolveError> {
 
 /// One solution per method pass of the scene ([`method_passes`]), primary first.
 pub fn solve_methods(model: &Model) -> Result<Vec<Solution>, SolveError> {
-    method_passes(model.scene).into_iter().map(|pass| solve_pass(model, pass)).collect()
+    // Unit flows of the arranged loads are shared by the passes where a bearer behaves alike.
+    let mut cache = FlowCache::default();
+    method_passes(model.scene).into_iter().map(|pass| solve_pass_with(model, pass, &mut cache)).collect()
 }
 
 /// Carry every load of a validated scene down to the base plates, members behaving as `pass` says.
 pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveError> {
+    solve_pass_with(model, pass, &mut FlowCache::default())
+}
+
+fn solve_pass_with(model: &Model, pass: MethodPass, cache: &mut FlowCache) -> Result<Solution, SolveError> {
     let scene = model.scene;
     let plates: Vec<[f64; 3]> = scene.posts.iter().map(|p| [p.x, p.y, p.base_level]).collect();
-    let stiffness = scene.analysis.stiffness;
-    // Validation guarantees increasing supports and a positive EI; a member that still fails to
-    // set up (it cannot) would fall back to simple spans rather than stop the analysis.
-    let bearer_beams = (0..model.bearers.len())
-        .map(|b| {
-            let line = &model.bearers[b];
-            (pass.bearer(scene, b) == Behaviour::Continuous && line.supports.len() >= 2)
-                .then(|| ContinuousBeam::new(&line.supports, stiffness.of(scene.bearers[b].role)).ok())
-                .flatten()
-        })
-        .collect();
-    let deck_beams = (0..model.decks.len())
-        .map(|d| (pass.deck(scene, d) == Behaviour::Continuous).then(|| ContinuousBeam::new(&model.decks[d].supports, stiffness.deck_knm2_per_m).ok()).flatten())
-        .collect();
-    let mut s = Solver {
-        model,
-        plates: Sparse::new(plates.len()),
-        bearer_loads: vec![Vec::new(); model.bearers.len()],
-        bearers_touched: Vec::new(),
-        piece_sums: Vec::new(),
-        nodes: Nodes::new(model),
-        contributions: Vec::new(),
-        bearer_beams,
-        deck_beams,
-        reactions: Vec::new(),
-    };
+    let is_plate: Vec<bool> = (0..scene.posts.len()).map(|p| model.graph.is_plate(p)).collect();
+    let mut s = Solver::new(model, &pass);
+    s.flow_cache = std::mem::take(cache);
+    let solved = solve_with(&mut s, model, pass, plates, is_plate);
+    *cache = std::mem::take(&mut s.flow_cache);
+    solved
+}
+
+fn solve_with(s: &mut Solver, model: &Model, pass: MethodPass, plates: Vec<[f64; 3]>, is_plate: Vec<bool>) -> Result<Solution, SolveError> {
+    let scene = model.scene;
     // Slot 0: self-weight; slot k + 1: the scene's load k.
-    let mut permanent_tee: Vec<(usize, f64, f64)> = Vec::new();
+    let mut heads = TeeHeads::default();
     let mut items: Vec<Option<Item>> = vec![None; scene.loads.len() + 1];
 
     // Self-weight of every element: one permanent item.
@@ -197,16 +181,18 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
             let w = scene.bearers[b].self_weight_kn_per_m;
             let (x, y) = line.point_at(0.5 * (line.start + line.end));
             applied.add_down(x, y, w * (line.end - line.start));
-            s.push_bearer(b, BeamLoad::Uniform { from: line.start, to: line.end, w });
+            s.push_bearer(b, BeamLoad::Uniform { from: line.start, to: line.end, w }, None);
         }
         let item = 0;
-        s.share_bearers(item, Case::G, &mut permanent_tee);
         for (i, p) in scene.posts.iter().enumerate() {
             let wt = p.self_weight_kn_per_m * (p.top_level - p.base_level);
             applied.add_down(p.x, p.y, wt);
             s.post_direct(item, i, wt, Route::PostSelfWeight, Case::G);
         }
-        items[0] = Some(Item { id: SELF_WEIGHT_ID.into(), case: Case::G, applied, vertical: s.plates.take(), shear: Vec::new(), direction: None, vertical_permanent_basis: None });
+        s.flow(item, Case::G);
+        heads.permanent(&s.unbalanced);
+        s.unbalanced.clear();
+        items[0] = Some(s.take_item(Item::new(SELF_WEIGHT_ID, Case::G, applied)));
     }
 
     // Vertical loads, one item each.
@@ -232,41 +218,72 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
             }
             (LoadKind::DeckPoint { x, y, kn, .. }, Target::Deck(d)) => {
                 applied.add_down(*x, *y, *kn);
-                s.deck_point(d, *x, *y, *kn);
+                s.deck_point(d, *x, *y, *kn, None);
             }
             (LoadKind::BearerPoint { at_m, kn, .. }, Target::Bearer(b)) => {
                 let (x, y) = model.bearers[b].point_at(*at_m);
                 applied.add_down(x, y, *kn);
-                s.push_bearer(b, BeamLoad::Point { at: *at_m, p: *kn });
+                s.push_bearer(b, BeamLoad::Point { at: *at_m, p: *kn }, None);
             }
             (LoadKind::BearerLine { from_m, to_m, kn_per_m, .. }, Target::Bearer(b)) => {
                 let (x, y) = model.bearers[b].point_at(0.5 * (from_m + to_m));
                 applied.add_down(x, y, kn_per_m * (to_m - from_m));
-                s.push_bearer(b, BeamLoad::Uniform { from: *from_m, to: *to_m, w: *kn_per_m });
+                s.push_bearer(b, BeamLoad::Uniform { from: *from_m, to: *to_m, w: *kn_per_m }, None);
             }
             (LoadKind::PostTop { kn, .. }, Target::Post(p)) => {
                 let post = &scene.posts[p];
                 applied.add_down(post.x, post.y, *kn);
+                s.post_direct(item, p, *kn, Route::PostTop, load.case);
+            }
+            (LoadKind::Kentledge { on: KentledgePlace::Plates(_), kn, .. }, _) => {
+                // Straight onto the plates, at base level: no member carries it and it does not
+                // lean with the structure, so it adds nothing to a notional horizontal load.
+                let on = &model.load_posts[k];
+                for &p in on {
+                    let post = &scene.posts[p];
+                    let share = kn / on.len() as f64;
+                    applied.add_down(post.x, post.y, share);
+                    s.post_direct(item, p, share, Route::Kentledge, load.case);
+                }
+            }
+            (LoadKind::Kentledge { on: KentledgePlace::Deck { x, y, .. }, kn, .. }, Target::Deck(d)) => {
+                applied.add_down(*x, *y, *kn);
+                s.deck_point(d, *x, *y, *kn, None);
             }
             _ => unreachable!("validation resolves every vertical load to its element"),
         }
+        s.flow(item, load.case);
+        let mut it = s.take_item(Item::new(load.id.clone(), load.case, applied));
+        it.arranged = s.arrange(load, model.load_targets[k]);
+        if let (Case::Q, Target::Deck(d), LoadKind::DeckArea { intensity, .. } | LoadKind::DeckPatch { intensity, .. }) = (load.case, model.load_targets[k], &load.kind) {
+            if matches!(intensity, Intensity::LoadClassUniform(_) | Intensity::LoadClassPartial(_)) {
+                it.working_level = Some(scene.decks[d].level);
+            }
+        }
         if load.case == Case::G {
-            s.share_bearers(item, load.case, &mut permanent_tee);
+            heads.permanent(&s.unbalanced);
+        } else if it.arranged.is_some() {
+            // Arranged: one arm may be loaded alone, each way counts on its own.
+            for t in std::mem::take(&mut s.arranged_tee) {
+                heads.variable(t.bearer, t.one_way_knm, t.other_way_knm, t.scale, &load.id);
+            }
         } else {
-            let mut own = Vec::new();
-            s.share_bearers(item, load.case, &mut own);
-            tee_head_balances(model, &own, &load.id)?;
+            for (b, m, scale) in sum_per_bearer(&s.unbalanced) {
+                heads.variable(b, m, 0.0, scale, &load.id);
+            }
         }
-        if let (LoadKind::PostTop { kn, .. }, Target::Post(p)) = (&load.kind, model.load_targets[k]) {
-            s.post_direct(item, p, *kn, Route::PostTop, load.case);
-        }
-        items[k + 1] = Some(Item { id: load.id.clone(), case: load.case, applied, vertical: s.plates.take(), shear: Vec::new(), direction: None, vertical_permanent_basis: None });
+        s.unbalanced.clear();
+        s.arranged_tee.clear();
+        items[k + 1] = Some(it);
     }
 
-    // Permanent loads are always present together, so their moments on a T-head may cancel.
-    tee_head_balances(model, &permanent_tee, "permanent load")?;
+    // Permanent loads act together; each variable load may act alone, on either arm.
+    let head_moments = heads.check(model)?;
 
-    // Horizontal loads, after the vertical ones: a notional load is a share of them.
+    // Horizontal loads, after the vertical ones: a notional load is a share of them. They reach
+    // the base plates only (not the posts standing on other members).
+    let plate_posts: Vec<u32> = (0..plates.len() as u32).filter(|&p| is_plate[p as usize]).collect();
+    let plate_at: Vec<[f64; 3]> = plate_posts.iter().map(|&p| plates[p as usize]).collect();
     let mut rigid: Option<RigidBase> = None;
     s.nodes.sum_moments(scene);
     for (k, load) in scene.loads.iter().enumerate() {
@@ -277,7 +294,7 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
         let applied = s.horizontal_resultant(&load.kind, None);
         let base = match &rigid {
             Some(b) => b,
-            None => rigid.insert(RigidBase::new(&plates).map_err(|reason| SolveError::Horizontal { load: load.id.clone(), reason })?),
+            None => rigid.insert(RigidBase::new(&plate_at).map_err(|reason| SolveError::Horizontal { load: load.id.clone(), reason })?),
         };
         let share_of = |r: &Resultant| {
             base.share_horizontal([r.force[0], r.force[1]], r.moment).map_err(|reason| SolveError::Horizontal { load: load.id.clone(), reason })
@@ -286,34 +303,154 @@ pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveErro
         let vertical_permanent_basis = match &load.kind {
             LoadKind::Notional { basis, .. } if basis.iter().any(|c| *c != Case::G) => {
                 let part = share_of(&s.horizontal_resultant(&load.kind, Some(&[Case::G])))?;
-                Some(part.vertical.iter().enumerate().map(|(p, &v)| (p as u32, v)).collect())
+                Some(plate_posts.iter().zip(&part.vertical).map(|(&p, &v)| (p, v)).collect())
             }
             _ => None,
         };
-        let mut vertical = Vec::with_capacity(plates.len());
-        for (p, &v) in share.vertical.iter().enumerate() {
-            vertical.push((p as u32, v));
-            s.contributions.push(Contribution { plate: p as u32, item, route: Route::Overturning, kn: v });
+        let mut it = Item::new(load.id.clone(), load.case, applied);
+        for (&p, &v) in plate_posts.iter().zip(&share.vertical) {
+            it.vertical.push((p, v));
+            s.contributions.push(Contribution { post: p, item, route: Route::Overturning, kn: v });
         }
-        let shear = share.shear.iter().enumerate().map(|(p, &v)| (p as u32, v)).collect();
-        let direction = horizontal_direction(&load.kind);
-        items[k + 1] = Some(Item { id: load.id.clone(), case: load.case, applied, vertical, shear, direction, vertical_permanent_basis });
+        it.shear = plate_posts.iter().zip(&share.shear).map(|(&p, &v)| (p, v)).collect();
+        it.direction = horizontal_direction(&load.kind);
+        it.vertical_permanent_basis = vertical_permanent_basis;
+        items[k + 1] = Some(it);
     }
     let items = items.into_iter().map(|i| i.expect("every load is solved once")).collect();
-    Ok(Solution { plates, items, contributions: s.contributions, method: pass })
+    let local_residual = s.bearer_beams.iter().chain(&s.deck_beams).flatten().map(MemberBeam::worst_residual).fold(0.0, f64::max);
+    Ok(Solution { plates, is_plate, items, contributions: std::mem::take(&mut s.contributions), method: pass, head_moments, local_residual })
 }
 
-impl Solver<'_, '_> {
-    fn push_bearer(&mut self, b: usize, load: BeamLoad) {
-        if self.bearer_loads[b].is_empty() {
-            self.bearers_touched.push(b);
+impl<'m, 's> Solver<'m, 's> {
+    pub(super) fn new(model: &'m Model<'s>, pass: &MethodPass) -> Self {
+        let scene = model.scene;
+        let stiffness = scene.analysis.stiffness;
+        // Validation guarantees increasing supports and a positive EI; a member that still fails
+        // to set up (it cannot) would fall back to simple spans rather than stop the analysis.
+        let bearer_beams = (0..model.bearers.len())
+            .map(|b| {
+                let line = &model.bearers[b];
+                (line.supports.len() >= 2).then(|| MemberBeam::new(pass.bearer(scene, b), &line.supports, stiffness.of(scene.bearers[b].role), line.joints.as_deref())).flatten()
+            })
+            .collect();
+        let deck_beams = (0..model.decks.len())
+            .map(|d| {
+                let line = &model.decks[d];
+                MemberBeam::new(pass.deck(scene, d), &line.supports, stiffness.deck_knm2_per_m, line.joints.as_deref())
+            })
+            .collect();
+        let members = model.graph.order.len();
+        Solver {
+            model,
+            bearer_loads: vec![Vec::new(); model.bearers.len()],
+            post_load: vec![0.0; scene.posts.len()],
+            queue: BinaryHeap::new(),
+            queued: vec![false; members],
+            bases: Vec::new(),
+            internal: Vec::new(),
+            record: true,
+            piece_sums: Vec::new(),
+            nodes: Nodes::new(model),
+            contributions: Vec::new(),
+            bearer_beams,
+            deck_beams,
+            reactions: Vec::new(),
+            unbalanced: Vec::new(),
+            arranged_tee: Vec::new(),
+            bearer_behaviour: (0..model.bearers.len()).map(|b| pass.bearer(scene, b)).collect(),
+            flow_cache: FlowCache::default(),
+            flow_buffer: Vec::new(),
         }
-        self.bearer_loads[b].push(load);
+    }
+
+    /// Put a member in line to pass its loads on.
+    pub(super) fn enqueue(&mut self, m: Member) {
+        let rank = self.model.graph.rank(m);
+        if !self.queued[rank as usize] {
+            self.queued[rank as usize] = true;
+            self.queue.push(Reverse(rank));
+        }
+    }
+
+    pub(super) fn push_bearer(&mut self, b: usize, load: BeamLoad, from: Source) {
+        self.bearer_loads[b].push((load, from));
+        self.enqueue(Member::Bearer(b));
+    }
+
+    /// Load `kn` entering post `post` by `route`.
+    pub(super) fn post_direct(&mut self, item: u32, post: usize, kn: f64, route: Route, case: Case) {
+        self.post_load[post] += kn;
+        self.enqueue(Member::Post(post));
+        if self.record {
+            let node = match route {
+                Route::PostTop => Some(self.nodes.post_top_first + post),
+                Route::PostSelfWeight => Some(self.nodes.post_top_first + self.model.scene.posts.len() + post),
+                _ => None,
+            };
+            if let Some(node) = node {
+                self.nodes.load[node][case.index()] += kn;
+            }
+            self.contributions.push(Contribution { post: post as u32, item, route, kn });
+        }
+    }
+
+    /// Pass every gathered load down, member by member in the top-down order, until it reaches
+    /// the base plates.
+    pub(super) fn flow(&mut self, item: u32, case: Case) {
+        while let Some(Reverse(rank)) = self.queue.pop() {
+            self.queued[rank as usize] = false;
+            match self.model.graph.order[rank as usize] {
+                Member::Bearer(b) => self.share_bearer(b, item, case),
+                Member::Post(p) => self.pass_post(p, item),
+                // Decks pass their loads to their bearers as the loads arrive.
+                Member::Deck(_) => {}
+            }
+        }
+    }
+
+    /// The item with what the last flow put on the plates and passed on at post bases.
+    pub(super) fn take_item(&mut self, mut item: Item) -> Item {
+        self.bases.sort_unstable_by_key(|e| e.0);
+        self.internal.sort_unstable_by_key(|e| e.0);
+        item.vertical = std::mem::take(&mut self.bases);
+        item.internal = std::mem::take(&mut self.internal);
+        item
+    }
+
+    /// A post passes everything that entered it to what it stands on.
+    pub(super) fn pass_post(&mut self, p: usize, item: u32) {
+        let f = std::mem::take(&mut self.post_load[p]);
+        let stands_on = self.model.graph.stands_on[p];
+        if stands_on.is_plate() {
+            self.bases.push((p as u32, f));
+            return;
+        }
+        self.internal.push((p as u32, f));
+        if f == 0.0 {
+            return;
+        }
+        match stands_on {
+            StandsOn::Post(q) => {
+                self.post_load[q] += f;
+                self.enqueue(Member::Post(q));
+                if self.record {
+                    self.contributions.push(Contribution { post: q as u32, item, route: Route::Lift { from: p as u32 }, kn: f });
+                }
+            }
+            StandsOn::Bearer { bearer, at } => self.push_bearer(bearer, BeamLoad::Point { at, p: f }, Some(p as u32)),
+            StandsOn::Deck(d) => {
+                let post = &self.model.scene.posts[p];
+                self.deck_point(d, post.x, post.y, f, Some(p as u32));
+            }
+            StandsOn::Ground | StandsOn::Structure(_) => unreachable!("plates keep their load"),
+        }
     }
 
     /// A uniform pressure `q` on a plan rectangle of deck `d`: each strip between bearers is a
-    /// simply supported span across them; the per-metre reactions become line loads on the bearers.
-    fn deck_area(&mut self, d: usize, rect: &crate::scene::model::Rect, q: f64) {
+    /// span across them (simple or continuous); the per-metre reactions become line loads on the
+    /// bearers.
+    pub(super) fn deck_area(&mut self, d: usize, rect: &crate::scene::model::Rect, q: f64) {
         let deck = &self.model.decks[d];
         let (along, span) = deck.split_rect(rect);
         let load = BeamLoad::Uniform { from: span.0, to: span.1, w: q };
@@ -332,13 +469,14 @@ impl Solver<'_, '_> {
             let line = &self.model.bearers[b];
             let (p0, p1) = (along_point(deck.bearer_axis, along.0, line), along_point(deck.bearer_axis, along.1, line));
             let (a, z) = (line.distance_of(p0.0, p0.1), line.distance_of(p1.0, p1.1));
-            self.push_bearer(b, BeamLoad::Uniform { from: a.min(z), to: a.max(z), w });
+            self.push_bearer(b, BeamLoad::Uniform { from: a.min(z), to: a.max(z), w }, None);
         }
         self.piece_sums = per_metre;
     }
 
-    /// A point load on deck `d`, shared between the bearers either side by moment balance.
-    fn deck_point(&mut self, d: usize, x: f64, y: f64, p: f64) {
+    /// A point load on deck `d`, shared between the bearers either side by moment balance (or
+    /// over all of them, continuous).
+    pub(super) fn deck_point(&mut self, d: usize, x: f64, y: f64, p: f64, from: Source) {
         let deck = &self.model.decks[d];
         let (_, s) = deck.split(x, y);
         let load = BeamLoad::Point { at: s, p };
@@ -351,79 +489,84 @@ impl Solver<'_, '_> {
             share_simple(&deck.supports, &load, &mut |k, _, r| shares.push((k, r)));
         }
         for (k, r) in shares {
-            let b = deck.bearers[k];
+            let b = self.model.decks[d].bearers[k];
             let at = self.model.bearers[b].distance_of(x, y);
-            self.push_bearer(b, BeamLoad::Point { at, p: r });
+            self.push_bearer(b, BeamLoad::Point { at, p: r }, from);
         }
     }
 
-    /// Share the gathered loads of every touched bearer among its posts. Single-post bearers add
-    /// the moment they cannot balance to `unbalanced` as (bearer, moment, scale).
-    fn share_bearers(&mut self, item: u32, case: Case, unbalanced: &mut Vec<(usize, f64, f64)>) {
-        let mut touched = std::mem::take(&mut self.bearers_touched);
-        touched.sort_unstable();
-        for &b in &touched {
-            let line = &self.model.bearers[b];
-            let n = line.supports.len();
+    /// Share the gathered loads of bearer `b` among its posts. Loads passed on by posts standing
+    /// on it are shared separately, so the trace can say whose load each share is; they are not
+    /// new load entering the structure, so they add nothing to the notional-load nodes. A
+    /// single-post bearer adds the moment it cannot balance to [`Solver::unbalanced`].
+    pub(super) fn share_bearer(&mut self, b: usize, item: u32, case: Case) {
+        let mut loads = std::mem::take(&mut self.bearer_loads[b]);
+        // Group by source: direct loads first, then each post's, in a stable order.
+        loads.sort_by_key(|l| l.1.map_or(0, |p| p as u64 + 1));
+        let line = &self.model.bearers[b];
+        let n = line.supports.len();
+        let mut moment = 0.0;
+        let mut scale = 0.0;
+        for group in loads.chunk_by(|a, b| a.1 == b.1) {
+            let from = group[0].1;
+            let route = |piece: Piece| match from {
+                None => Route::Bearer { bearer: b as u32, piece },
+                Some(p) => Route::Transfer { bearer: b as u32, piece, from: p },
+            };
             if let Some(beam) = &mut self.bearer_beams[b] {
-                // Continuous: one solve for all of this item's loads on the member.
+                // Continuous: one solve for all of this group's loads on the member.
                 self.reactions.resize(n, 0.0);
-                beam.share(&self.bearer_loads[b], &mut self.reactions);
-                for (k, &r) in self.reactions.iter().enumerate() {
-                    if r == 0.0 {
-                        continue;
+                let group_loads: Vec<BeamLoad> = group.iter().map(|l| l.0).collect();
+                beam.share(&group_loads, &mut self.reactions);
+                let piece = beam.piece();
+                for k in 0..n {
+                    let r = self.reactions[k];
+                    if r != 0.0 {
+                        self.bearer_reaction(b, k, r, route(piece), from.is_none(), item, case);
                     }
-                    let post = line.posts[k];
-                    self.plates.add(post, r);
-                    self.nodes.load[self.nodes.bearer_first[b] + k][case.index()] += r;
-                    self.contributions.push(Contribution { plate: post as u32, item, route: Route::Bearer { bearer: b as u32, piece: Piece::Continuous }, kn: r });
                 }
-                self.bearer_loads[b].clear();
                 continue;
             }
             // Pieces: spans 0..n-1, then start and end overhang (or the single support).
             let mut sums = std::mem::take(&mut self.piece_sums);
             sums.clear();
             sums.resize(n + 1, [0.0; 2]);
-            let mut moment = 0.0;
-            let mut scale = 0.0;
-            for load in &self.bearer_loads[b] {
+            for (load, _) in group {
                 scale += load.total().abs() * (line.end - line.start).max(1.0);
                 moment += share_simple(&line.supports, load, &mut |k, piece, r| {
                     let (slot, side) = piece_slot(piece, k, n);
                     sums[slot][side] += r;
                 });
             }
-            if n == 1 {
-                unbalanced.push((b, moment, scale));
-            }
             for (slot, pair) in sums.iter().enumerate() {
                 for (side, &r) in pair.iter().enumerate() {
-                    if r == 0.0 {
-                        continue;
+                    if r != 0.0 {
+                        let (k, piece) = slot_piece(slot, side, n);
+                        self.bearer_reaction(b, k, r, route(piece), from.is_none(), item, case);
                     }
-                    let (k, piece) = slot_piece(slot, side, n);
-                    let post = line.posts[k];
-                    self.plates.add(post, r);
-                    self.nodes.load[self.nodes.bearer_first[b] + k][case.index()] += r;
-                    self.contributions.push(Contribution { plate: post as u32, item, route: Route::Bearer { bearer: b as u32, piece }, kn: r });
                 }
             }
             self.piece_sums = sums;
-            self.bearer_loads[b].clear();
         }
-        touched.clear();
-        self.bearers_touched = touched;
+        if n == 1 {
+            self.unbalanced.push((b, moment, scale));
+        }
+        loads.clear();
+        self.bearer_loads[b] = loads;
     }
 
-    fn post_direct(&mut self, item: u32, post: usize, kn: f64, route: Route, case: Case) {
-        self.plates.add(post, kn);
-        let node = match route {
-            Route::PostTop => self.nodes.post_top_first + post,
-            _ => self.nodes.post_top_first + self.model.scene.posts.len() + post,
-        };
-        self.nodes.load[node][case.index()] += kn;
-        self.contributions.push(Contribution { plate: post as u32, item, route, kn });
+    /// Reaction `r` of bearer `b` at its `k`-th post: load entering that post.
+    #[allow(clippy::too_many_arguments)]
+    pub(super) fn bearer_reaction(&mut self, b: usize, k: usize, r: f64, route: Route, new_load: bool, item: u32, case: Case) {
+        let post = self.model.bearers[b].posts[k];
+        self.post_load[post] += r;
+        self.enqueue(Member::Post(post));
+        if self.record {
+            if new_load {
+                self.nodes.load[self.nodes.bearer_first[b] + k][case.index()] += r;
+            }
+            self.contributions.push(Contribution { post: post as u32, item, route, kn: r });
+        }
     }
 
     /// Resultant of the forces a horizontal load applies. A notional load takes its percentage
@@ -466,19 +609,12 @@ impl Solver<'_, '_> {
     }
 }
 
-/// A single-post bearer must balance about its post under each load that can act alone
-/// (each variable load) and under all permanent load together.
-fn tee_head_balances(model: &Model, moments: &[(usize, f64, f64)], load: &str) -> Result<(), SolveError> {
-    // Sum per bearer: sorted, so a scene of many T-heads costs n log n, not n².
+/// One moment per single-post bearer: (bearer, Σ moment, Σ scale) of a flow's entries.
+fn sum_per_bearer(moments: &[(usize, f64, f64)]) -> Vec<(usize, f64, f64)> {
+    // Sorted, so a scene of many T-heads costs n log n, not n².
     let mut sorted = moments.to_vec();
     sorted.sort_unstable_by_key(|e| e.0);
-    for group in sorted.chunk_by(|a, b| a.0 == b.0) {
-        let (m, scale) = group.iter().fold((0.0, 0.0), |(m, s), e| (m + e.1, s + e.2));
-        if m.abs() > 1e-9 * f64::max(scale, 1e-9) {
-            return Err(SolveError::TeeHeadTips { bearer: model.scene.bearers[group[0].0].id.clone(), load: load.to_owned(), moment_knm: m.abs() });
-        }
-    }
-    Ok(())
+    sorted.chunk_by(|a, b| a.0 == b.0).map(|g| (g[0].0, g.iter().map(|e| e.1).sum(), g.iter().map(|e| e.2).sum())).collect()
 }
 
 fn horizontal_direction(kind: &LoadKind) -> Option<[f64; 2]> {
@@ -498,7 +634,7 @@ fn piece_slot(piece: Piece, k: usize, n: usize) -> (usize, usize) {
         Piece::StartOverhang => (n - 1, k),
         Piece::EndOverhang => (n, k + 2 - n),
         Piece::Single => (0, 0),
-        Piece::Continuous => unreachable!("segment moment balance reports no continuous piece"),
+        Piece::Continuous | Piece::TwoSpanModel => unreachable!("segment moment balance reports no continuous piece"),
     }
 }
 
@@ -544,6 +680,51 @@ mod tests {
                 let (slot, side) = piece_slot(Piece::EndOverhang, k, n);
                 assert_eq!(slot_piece(slot, side, n), (k, Piece::EndOverhang));
             }
+        }
+    }
+}
+
+/// How one member shares its loads in a pass, where it is not simple spans.
+pub(super) enum MemberBeam {
+    /// Continuous between its joints (declared ones, or none).
+    Jointed(JointedBeam),
+    /// Joints not known: each support from its own two-span model.
+    Local(TwoSpanLocal),
+}
+
+impl MemberBeam {
+    /// The member as `behaviour` says, on `supports` with stiffness `ei` and declared joints
+    /// (support indices) if known; `None` for simple spans (or a member that cannot be set up,
+    /// which validation rules out).
+    fn new(behaviour: Behaviour, supports: &[f64], ei: f64, declared: Option<&[usize]>) -> Option<MemberBeam> {
+        match (behaviour, declared) {
+            (Behaviour::SimpleSpans, _) => None,
+            (Behaviour::TwoSpanEach, None) => TwoSpanLocal::new(supports, ei).ok().map(MemberBeam::Local),
+            (_, joints) => JointedBeam::new(supports, ei, joints.unwrap_or_default()).ok().map(MemberBeam::Jointed),
+        }
+    }
+
+    /// Reactions of `loads` at every support, overwriting `reactions`.
+    pub(super) fn share(&mut self, loads: &[BeamLoad], reactions: &mut [f64]) -> f64 {
+        match self {
+            MemberBeam::Jointed(b) => b.share(loads, reactions),
+            MemberBeam::Local(b) => b.share(loads, reactions),
+        }
+    }
+
+    /// The piece its reactions are traced as.
+    fn piece(&self) -> Piece {
+        match self {
+            MemberBeam::Jointed(_) => Piece::Continuous,
+            MemberBeam::Local(_) => Piece::TwoSpanModel,
+        }
+    }
+
+    /// Worst relative equilibrium residual of its own models (0 where it is one state).
+    fn worst_residual(&self) -> f64 {
+        match self {
+            MemberBeam::Jointed(_) => 0.0,
+            MemberBeam::Local(b) => b.worst_residual(),
         }
     }
 }

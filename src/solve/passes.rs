@@ -8,8 +8,14 @@ use crate::scene::model::{BeamMethod, Scene};
 pub enum Behaviour {
     /// Simply supported spans and balanced overhangs ([`crate::solve::beam::share_simple`]).
     SimpleSpans,
-    /// Continuous over all its supports ([`crate::solve::continuous::ContinuousBeam`]).
+    /// Continuous over all its supports but its declared joints
+    /// ([`crate::solve::continuous::JointedBeam`]).
     Continuous,
+    /// Joints not known: every support taken on its own as the middle of a two-span piece (an
+    /// end support as the end of a single span), the most any joint layout puts on it
+    /// ([`crate::solve::continuous::TwoSpanLocal`]). An envelope support by support, not one
+    /// state of the member. Members whose joints are declared are continuous as declared instead.
+    TwoSpanEach,
 }
 
 impl Behaviour {
@@ -18,17 +24,29 @@ impl Behaviour {
         match self {
             Behaviour::SimpleSpans => BeamMethod::SimpleSpans.label(),
             Behaviour::Continuous => BeamMethod::Continuous.label(),
+            Behaviour::TwoSpanEach => "two-span continuity at each support",
         }
     }
 
-    /// How a member with its own setting `own` behaves in a scene whose method is `scene_method`,
-    /// in a pass where the enveloped members of its level (decks or bearers) behave as `level`.
-    fn of(own: Option<BeamMethod>, scene_method: BeamMethod, level: Behaviour) -> Behaviour {
+    /// How a member with its own setting `own` and joints `known` behaves in a scene whose
+    /// method is `scene_method`, in a pass where the enveloped members of its level (decks or
+    /// bearers) behave as `level`.
+    fn of(own: Option<BeamMethod>, known: bool, scene_method: BeamMethod, level: Behaviour) -> Behaviour {
         match own.unwrap_or(scene_method) {
             BeamMethod::SimpleSpans => Behaviour::SimpleSpans,
             BeamMethod::Continuous => Behaviour::Continuous,
-            BeamMethod::Envelope => level,
+            BeamMethod::Envelope => match level {
+                // Joints that are known need no guessing: continuous as declared.
+                Behaviour::TwoSpanEach if known => Behaviour::Continuous,
+                other => other,
+            },
         }
+    }
+
+    /// Whether the solution is one state of the structure (every load item in equilibrium as a
+    /// whole): not where members are taken support by support.
+    pub fn is_one_state(self) -> bool {
+        self != Behaviour::TwoSpanEach
     }
 }
 
@@ -47,18 +65,28 @@ pub struct MethodPass {
 impl MethodPass {
     /// Behaviour of bearer `b` of `scene` in this pass.
     pub fn bearer(&self, scene: &Scene, b: usize) -> Behaviour {
-        Behaviour::of(scene.bearers[b].method, scene.analysis.method, self.bearers)
+        let m = &scene.bearers[b];
+        Behaviour::of(m.method, m.joints.is_some(), scene.analysis.method, self.bearers)
     }
     /// Behaviour of deck `d` of `scene` in this pass.
     pub fn deck(&self, scene: &Scene, d: usize) -> Behaviour {
-        Behaviour::of(scene.decks[d].method, scene.analysis.method, self.decks)
+        let m = &scene.decks[d];
+        Behaviour::of(m.method, m.joints.is_some(), scene.analysis.method, self.decks)
+    }
+    /// Whether the solution of this pass is one state of the structure, every load item in
+    /// equilibrium as a whole; not where members are taken support by support
+    /// ([`Behaviour::TwoSpanEach`]), whose two-span models balance one by one instead.
+    pub fn is_one_state(&self) -> bool {
+        self.decks.is_one_state() && self.bearers.is_one_state()
     }
 }
 
 /// The solutions a scene needs, the first being the primary one (its case loads fill the
 /// schedule's case columns): one if no member follows the envelope, else both behaviours for
-/// each level that has enveloped members — up to four: all simple spans, all continuous, and the
-/// two mixtures of decks and bearers.
+/// each level that has enveloped members — all simple spans, all continuous, and the two
+/// mixtures of decks and bearers. Where an enveloped member of three or more supports has joints
+/// that are not known, also two-span continuity at each support: at both levels if both have such
+/// members, else at that level over each behaviour of the other. Up to six passes.
 pub fn method_passes(scene: &Scene) -> Vec<MethodPass> {
     let global = scene.analysis.method;
     let decks: Vec<BeamMethod> = scene.decks.iter().map(|d| d.method.unwrap_or(global)).collect();
@@ -70,10 +98,19 @@ pub fn method_passes(scene: &Scene) -> Vec<MethodPass> {
         Some(if ms.iter().all(|&m| m == first) { first.label() } else { "as set per member" })
     };
     let (deck_env, bearer_env) = (enveloped(&decks), enveloped(&bearers));
-    use Behaviour::{Continuous as C, SimpleSpans as S};
+    let deck_unknown = scene.decks.iter().zip(&decks).any(|(d, &m)| m == BeamMethod::Envelope && d.joints.is_none() && d.bearers.len() >= 3);
+    let bearer_unknown = scene.bearers.iter().zip(&bearers).any(|(b, &m)| m == BeamMethod::Envelope && b.joints.is_none() && b.posts.len() >= 3);
+    use Behaviour::{Continuous as C, SimpleSpans as S, TwoSpanEach as T};
+    let mut combos = vec![(S, S), (C, C), (S, C), (C, S)];
+    match (deck_unknown, bearer_unknown) {
+        (true, true) => combos.push((T, T)),
+        (true, false) => combos.extend([(T, S), (T, C)]),
+        (false, true) => combos.extend([(S, T), (C, T)]),
+        (false, false) => {}
+    }
     let mut out = Vec::new();
-    for (d, b) in [(S, S), (C, C), (S, C), (C, S)] {
-        if (d == C && !deck_env) || (b == C && !bearer_env) {
+    for (d, b) in combos {
+        if (d != S && !deck_env) || (b != S && !bearer_env) {
             continue;
         }
         let deck_part = if deck_env { Some(d.label()) } else { fixed(&decks) };

@@ -40,6 +40,6 @@ fn subnormal_plate_and_ground_values_are_refused() {
     s.support_types[0].sole_plate = Some(plateload::scene::model::PlateSize { width_m: 0.25, length_m: tiny });
     refused_with(&s, &["sole plate length"]);
     let mut s = base;
-    s.site.allowable_bearing_kpa = tiny;
+    s.site.allowable_bearing_kpa = Some(tiny);
     refused_with(&s, &["allowable bearing pressure"]);
 }

@@ -17,7 +17,8 @@ pub struct ElementsPanel {
     pub kind: Option<ElementKind>,
 }
 
-const KINDS: [ElementKind; 6] = [ElementKind::Post, ElementKind::Bearer, ElementKind::Deck, ElementKind::Brace, ElementKind::Load, ElementKind::SupportType];
+const KINDS: [ElementKind; 7] =
+    [ElementKind::Post, ElementKind::Bearer, ElementKind::Deck, ElementKind::Brace, ElementKind::Load, ElementKind::SupportType, ElementKind::ExistingStructure];
 
 impl ElementsPanel {
     /// Draw the list.

@@ -3,8 +3,9 @@
 
 use bevy_egui::egui;
 use plateload::edit::{dependants, DeleteMode, Edit, Element};
-use plateload::scene::loads::{Case, Face, Intensity, LoadKind, PlanDirection};
-use plateload::scene::model::{BeamMethod, BeamRole, ElementKind, PlateSize, Rect};
+use plateload::scene::loads::{Case, Face, Intensity, KentledgeForm, KentledgePlace, LoadKind, PlanDirection};
+use plateload::scene::catalogue::{self, Catalogue};
+use plateload::scene::model::{BeamMethod, BeamRole, ElementKind, Interface, PlateSize, Rect};
 use plateload::Scene;
 
 use super::rgb;
@@ -67,6 +68,50 @@ impl Fields<'_> {
         }
         false
     }
+}
+
+/// The interfaces under a support and their friction coefficients.
+fn friction_ui(ui: &mut egui::Ui, f: &mut Fields, list: &mut Vec<Interface>) {
+    let named = [Interface::SteelOnCastConcrete, Interface::SteelOnTrowelledConcrete, Interface::ConcreteOnConcrete, Interface::TimberOnConcrete];
+    let mut remove = None;
+    for (k, i) in list.iter_mut().enumerate() {
+        ui.label(if k == 0 { "Friction interfaces" } else { "" });
+        ui.horizontal(|ui| {
+            match i {
+                Interface::Given { mu, source } => {
+                    if ui.add(egui::DragValue::new(mu).speed(0.01).range(0.0..=1.5).prefix("μ ")).changed() {
+                        f.merge = Some(format!("{}.mu{k}", f.key));
+                    }
+                    let r = ui.add(egui::TextEdit::singleline(source).hint_text("source of μ").desired_width(120.0));
+                    if r.changed() {
+                        f.merge = Some(format!("{}.source{k}", f.key));
+                    }
+                }
+                named => {
+                    ui.label(format!("μ {:.2}: {}", named.mu(), named.label()));
+                }
+            }
+            if ui.small_button("✕").clicked() {
+                remove = Some(k);
+            }
+        });
+        ui.end_row();
+    }
+    if let Some(k) = remove {
+        list.remove(k);
+    }
+    ui.label(if list.is_empty() { "Friction interfaces" } else { "" });
+    egui::ComboBox::from_id_salt(format!("{}-friction", f.key)).selected_text(if list.is_empty() { "none: sliding not checked" } else { "add an interface" }).show_ui(ui, |ui| {
+        for i in named {
+            if ui.selectable_label(false, format!("μ {:.2}: {}", i.mu(), i.label())).clicked() {
+                list.push(i.clone());
+            }
+        }
+        if ui.selectable_label(false, "a coefficient with its source").clicked() {
+            list.push(Interface::Given { mu: 0.3, source: String::new() });
+        }
+    });
+    ui.end_row();
 }
 
 /// A choice among ids.
@@ -148,7 +193,7 @@ fn intensity_ui(ui: &mut egui::Ui, f: &mut Fields, i: &mut Intensity) {
 
 impl InspectorPanel {
     /// Draw the selected element's fields and results.
-    pub fn ui(&mut self, ui: &mut egui::Ui, doc: &SceneDoc, selection: &Selection, actions: &mut Vec<Action>) {
+    pub fn ui(&mut self, ui: &mut egui::Ui, doc: &SceneDoc, cat: &Catalogue, selection: &Selection, actions: &mut Vec<Action>) {
         let scene = &doc.scene;
         let Some(r) = selection.single().cloned() else {
             if selection.items.is_empty() {
@@ -186,6 +231,7 @@ impl InspectorPanel {
                 pick_id(ui, "Support type", "post-support", &mut s, &support_ids);
                 p.support = (!s.is_empty()).then_some(s);
                 f.num(ui, "Self-weight", &mut p.self_weight_kn_per_m, 0.001, " kN/m");
+                section_ui(ui, "post-section", &mut p.section, &mut p.self_weight_kn_per_m, cat);
             }
             Element::Bearer(b) => {
                 committed |= f.text(ui, "Id", &mut b.id);
@@ -201,6 +247,7 @@ impl InspectorPanel {
                 f.num(ui, "Overhang at start", &mut b.overhang_start_m, 0.01, " m");
                 f.num(ui, "Overhang at end", &mut b.overhang_end_m, 0.01, " m");
                 f.num(ui, "Self-weight", &mut b.self_weight_kn_per_m, 0.001, " kN/m");
+                section_ui(ui, "bearer-section", &mut b.section, &mut b.self_weight_kn_per_m, cat);
                 method_choice(ui, "bearer-method", &mut b.method, scene.analysis.method);
             }
             Element::Deck(d) => {
@@ -212,6 +259,7 @@ impl InspectorPanel {
                 f.num(ui, "Extent y to", &mut d.extent.y.1, 0.01, " m");
                 committed |= f.ids(ui, "Bearers (across the span)", &mut d.bearers);
                 f.num(ui, "Self-weight", &mut d.self_weight_kpa, 0.01, " kPa");
+                decking_ui(ui, d, cat);
                 method_choice(ui, "deck-method", &mut d.method, scene.analysis.method);
             }
             Element::Brace(b) => {
@@ -221,22 +269,85 @@ impl InspectorPanel {
                 pick_id(ui, "To post", "brace-to", &mut b.to.post, &post_ids);
                 f.num(ui, "at level", &mut b.to.level, 0.01, " m");
             }
+            Element::ExistingStructure(x) => {
+                committed |= f.text(ui, "Id", &mut x.id);
+                committed |= f.text(ui, "Description", &mut x.description);
+                f.num(ui, "Top level", &mut x.level, 0.01, " m");
+                f.num(ui, "Extent x from", &mut x.extent.x.0, 0.01, " m");
+                f.num(ui, "Extent x to", &mut x.extent.x.1, 0.01, " m");
+                f.num(ui, "Extent y from", &mut x.extent.y.0, 0.01, " m");
+                f.num(ui, "Extent y to", &mut x.extent.y.1, 0.01, " m");
+                f.num(ui, "Allowable pressure", &mut x.allowable_kpa, 5.0, " kPa");
+            }
             Element::SupportType(s) => {
                 committed |= f.text(ui, "Id", &mut s.id);
+                ui.label("Base jack");
+                let jack = s.catalogue_id.as_deref().and_then(|id| cat.jack(id));
+                let shown = match (&s.catalogue_id, jack) {
+                    (Some(id), Some(_)) => id.clone(),
+                    (Some(id), None) => format!("{id} (not in this catalogue)"),
+                    (None, _) => "own values".to_owned(),
+                };
+                egui::ComboBox::from_id_salt("support-jack").selected_text(shown).width(190.0).show_ui(ui, |ui| {
+                    for j in &cat.jacks {
+                        let tag = if j.example { " — EXAMPLE" } else { "" };
+                        let text = format!("{}: {} kN up to {} m extension{tag}", j.id, j.swl_kn, j.max_extension_m);
+                        if ui.selectable_label(s.catalogue_id.as_deref() == Some(&j.id), text).on_hover_text(j.source.as_str()).clicked() {
+                            catalogue::apply_jack(s, j);
+                        }
+                    }
+                });
+                ui.end_row();
                 f.num(ui, "Base plate width", &mut s.base_plate.width_m, 0.005, " m");
                 f.num(ui, "Base plate length", &mut s.base_plate.length_m, 0.005, " m");
                 f.num(ui, "Safe working load", &mut s.swl_kn, 0.5, " kN");
-                ui.label("Sole plate");
-                let mut has = s.sole_plate.is_some();
-                ui.checkbox(&mut has, "under the base plate");
+                ui.label("… up to extension");
+                let mut known = s.max_extension_m.is_some();
+                ui.horizontal(|ui| {
+                    ui.checkbox(&mut known, "");
+                    if let Some(e) = &mut s.max_extension_m {
+                        ui.add(egui::DragValue::new(e).speed(0.01).range(0.0..=5.0).suffix(" m"));
+                    }
+                });
                 ui.end_row();
-                if has != s.sole_plate.is_some() {
-                    s.sole_plate = has.then_some(PlateSize { width_m: 0.225, length_m: 0.45 });
+                if known != s.max_extension_m.is_some() {
+                    s.max_extension_m = known.then_some(0.0);
                 }
+                committed |= f.text(ui, "Source of the SWL", &mut s.source);
+                ui.label("Example values");
+                ui.checkbox(&mut s.example, "replace with the manufacturer's").on_hover_text("While this is ticked, validation warns that the safe working load is not a manufacturer's figure.");
+                ui.end_row();
+                ui.label("Sole plate");
+                let shown = match (&s.sole_plate, &s.sole_plate_id) {
+                    (None, _) => "none".to_owned(),
+                    (Some(_), Some(id)) => id.clone(),
+                    (Some(_), None) => "own size".to_owned(),
+                };
+                egui::ComboBox::from_id_salt("support-sole").selected_text(shown).width(190.0).show_ui(ui, |ui| {
+                    if ui.selectable_label(s.sole_plate.is_none(), "none").clicked() {
+                        catalogue::apply_sole_plate(s, None);
+                    }
+                    for e in &cat.sole_plates {
+                        if ui.selectable_label(s.sole_plate_id.as_deref() == Some(&e.id), format!("{}: {}", e.id, e.name)).on_hover_text(e.source.as_str()).clicked() {
+                            catalogue::apply_sole_plate(s, Some(e));
+                        }
+                    }
+                    if ui.selectable_label(s.sole_plate.is_some() && s.sole_plate_id.is_none(), "own size").clicked() && (s.sole_plate.is_none() || s.sole_plate_id.is_some()) {
+                        s.sole_plate = Some(s.sole_plate.unwrap_or(PlateSize { width_m: 0.225, length_m: 0.45 }));
+                        s.sole_plate_id = None;
+                    }
+                });
+                ui.end_row();
                 if let Some(sole) = &mut s.sole_plate {
+                    let before = *sole;
                     f.num(ui, "Sole plate width", &mut sole.width_m, 0.005, " m");
                     f.num(ui, "Sole plate length", &mut sole.length_m, 0.005, " m");
+                    if *sole != before {
+                        // Sized by hand: no longer the catalogue's entry.
+                        s.sole_plate_id = None;
+                    }
                 }
+                friction_ui(ui, &mut f, &mut s.friction);
             }
             Element::Load(l) => {
                 committed |= f.text(ui, "Id", &mut l.id);
@@ -294,6 +405,34 @@ impl InspectorPanel {
                         f.num(ui, "Net pressure", kpa, 0.01, " kPa");
                         direction_ui(ui, &format!("{key}-dir"), direction);
                     }
+                    LoadKind::Kentledge { on, kn, form, secured } => {
+                        match on {
+                            KentledgePlace::Plates(ids) => {
+                                committed |= f.ids(ui, "On plates", ids);
+                            }
+                            KentledgePlace::Deck { deck, x, y } => {
+                                pick_id(ui, "Deck", "load-deck", deck, &deck_ids);
+                                f.num(ui, "x", x, 0.01, " m");
+                                f.num(ui, "y", y, 0.01, " m");
+                            }
+                        }
+                        f.num(ui, "Weight", kn, 0.1, " kN");
+                        ui.label("Form");
+                        egui::ComboBox::from_id_salt(format!("{key}-form")).selected_text(form.label()).show_ui(ui, |ui| {
+                            for k in [KentledgeForm::Removable, KentledgeForm::WaterFilled, KentledgeForm::Fixed] {
+                                ui.selectable_value(form, k, k.label());
+                            }
+                        });
+                        ui.end_row();
+                        ui.label("Secured");
+                        ui.checkbox(secured, "against removal (chained or clamped to the standards)");
+                        ui.end_row();
+                        if !(*secured || *form == KentledgeForm::Fixed) {
+                            ui.label("");
+                            ui.colored_label(egui::Color32::from_rgb(0xb0, 0x20, 0x20), "not secured: it never counts as holding down");
+                            ui.end_row();
+                        }
+                    }
                     LoadKind::Notional { percent, direction, basis } => {
                         f.num(ui, "Percent of vertical load", percent, 0.1, " %");
                         direction_ui(ui, &format!("{key}-dir"), direction);
@@ -346,6 +485,45 @@ impl InspectorPanel {
         }
         refs_of(ui, scene, &original, actions);
     }
+}
+
+/// The catalogue section of a post or member: choosing one copies its self-weight; a self-weight
+/// typed by hand no longer names a section.
+fn section_ui(ui: &mut egui::Ui, salt: &str, section: &mut Option<String>, self_weight: &mut f64, cat: &Catalogue) {
+    let entry = section.as_deref().and_then(|id| cat.member(id));
+    if let Some(e) = entry
+        && e.self_weight_kn_per_m != *self_weight
+    {
+        *section = None;
+    }
+    ui.label("Section");
+    egui::ComboBox::from_id_salt(salt).selected_text(section.clone().unwrap_or_else(|| "own value".into())).width(190.0).show_ui(ui, |ui| {
+        for m in &cat.members {
+            if ui.selectable_label(section.as_deref() == Some(&m.id), format!("{}: {} kN/m", m.id, m.self_weight_kn_per_m)).on_hover_text(m.source.as_str()).clicked() {
+                *self_weight = m.self_weight_kn_per_m;
+                *section = Some(m.id.clone());
+            }
+        }
+    });
+    ui.end_row();
+}
+
+/// The catalogue decking of a deck, as [`section_ui`].
+fn decking_ui(ui: &mut egui::Ui, d: &mut plateload::Deck, cat: &Catalogue) {
+    if let Some(e) = d.decking.as_deref().and_then(|id| cat.deck(id))
+        && e.self_weight_kpa != d.self_weight_kpa
+    {
+        d.decking = None;
+    }
+    ui.label("Decking");
+    egui::ComboBox::from_id_salt("deck-decking").selected_text(d.decking.clone().unwrap_or_else(|| "own value".into())).width(190.0).show_ui(ui, |ui| {
+        for e in &cat.decks {
+            if ui.selectable_label(d.decking.as_deref() == Some(&e.id), format!("{}: {} kPa", e.id, e.self_weight_kpa)).on_hover_text(e.source.as_str()).clicked() {
+                catalogue::apply_deck(d, e);
+            }
+        }
+    });
+    ui.end_row();
 }
 
 fn selection_buttons(ui: &mut egui::Ui, actions: &mut Vec<Action>) {
@@ -425,8 +603,7 @@ pub fn plate_results(ui: &mut egui::Ui, doc: &SceneDoc, id: &str) {
         };
     });
     if r.utilisation.is_some() {
-        let by = if g.bearing_utilisation >= g.load_utilisation { "ground bearing" } else { "safe working load" };
-        ui.label(format!("Governed by {by} in “{}”.", a.combinations[p.governing].name));
+        ui.label(format!("Governed by {} in “{}”.", g.governed_by(), a.combinations[p.governing].name));
     }
     let i = a.plate_index(id).unwrap_or(0);
     if a.method_count() > 1 {
@@ -454,8 +631,8 @@ pub fn plate_results(ui: &mut egui::Ui, doc: &SceneDoc, id: &str) {
             ui.end_row();
         }
     });
-    egui::Grid::new("plate-combs").num_columns(6).striped(true).show(ui, |ui| {
-        for h in ["combination", "max kN", "min kN", "util %", "kPa", "status"] {
+    egui::Grid::new("plate-combs").num_columns(7).striped(true).show(ui, |ui| {
+        for h in ["combination", "max kN", "min kN", "util %", "on layer kPa", "formation kPa", "status"] {
             ui.strong(h);
         }
         ui.end_row();
@@ -466,13 +643,37 @@ pub fn plate_results(ui: &mut egui::Ui, doc: &SceneDoc, id: &str) {
             ui.label(format!("{:.3}", pc.max_kn));
             ui.label(format!("{:.3}", pc.min_kn));
             ui.label(if checked { format!("{:.1}", 100.0 * pc.utilisation) } else { "—".into() });
+            ui.label(if checked { pc.layer_top_kpa.map_or_else(|| "—".to_owned(), |q| format!("{q:.1}")) } else { "—".into() });
             ui.label(if checked { format!("{:.1}", pc.bearing_kpa) } else { "—".into() });
             ui.label(super::results::status_text(pc.status, checked));
             ui.end_row();
         }
     });
-    ui.label(format!(
-        "Support {}: SWL {:.1} kN; bearing area {:.4} m² on {:.0} kPa allowable.",
-        p.support, p.swl_kn, p.bearing_area_m2, p.allowable_kpa
-    ));
+    let allowable = match p.allowable_kpa {
+        Some(q) => format!("{q:.0} kPa allowable ({})", a.ground.basis.label()),
+        None => "no allowable entered: ground bearing not checked".to_owned(),
+    };
+    ui.label(format!("Support {}: SWL {:.1} kN; bearing area at formation {:.4} m², {allowable}.", p.support, p.swl_kn, p.bearing_area_m2));
+    if let Some(l) = a.ground.layer {
+        ui.label(match l.allowable_kpa {
+            Some(q) => format!("On the granular layer: {:.4} m² under the plate, {q:.0} kPa allowable.", p.plate_area_m2),
+            None => format!("On the granular layer: {:.4} m² under the plate; no allowable entered, not checked.", p.plate_area_m2),
+        });
+    }
+    if let Some(h) = p.hold_down {
+        let k = h.kentledge_kn.map_or_else(String::new, |k| format!(" or {k:.2} kN secured kentledge on it"));
+        ui.colored_label(egui::Color32::from_rgb(0xb0, 0x20, 0x20), format!("Lifts: needs an anchor for {:.2} kN{k} ({}).", h.anchor_kn, a.combinations[h.combination].name));
+    }
+    if let Some(s) = &p.sliding {
+        let text = match (s.mu, s.factor) {
+            (Some(mu), Some(f)) if s.slides => format!("Slides {}: shear {:.2} kN, μ {mu:.2}, factor {f:.2}: restrain it for {:.2} kN.", s.towards, s.shear_kn, s.restraint_kn),
+            (Some(mu), Some(f)) => format!("Sliding {}: shear {:.2} kN, μ {mu:.2}, factor {f:.2}.", s.towards, s.shear_kn),
+            _ => format!("Sliding {}: shear {:.2} kN, not checked (no friction given for its support type).", s.towards, s.shear_kn),
+        };
+        if s.slides {
+            ui.colored_label(egui::Color32::from_rgb(0xb0, 0x20, 0x20), text);
+        } else {
+            ui.label(text);
+        }
+    }
 }

@@ -2,6 +2,7 @@
 
 use bevy_egui::egui;
 use plateload::edit::Edit;
+use plateload::scene::catalogue::{self, Catalogue};
 use plateload::scene::layout::LayoutSpec;
 use plateload::Scene;
 
@@ -30,7 +31,7 @@ impl Default for LayoutPanel {
 
 impl LayoutPanel {
     /// Draw the generator.
-    pub fn ui(&mut self, ui: &mut egui::Ui, scene: &Scene, actions: &mut Vec<Action>) {
+    pub fn ui(&mut self, ui: &mut egui::Ui, scene: &Scene, cat: &Catalogue, actions: &mut Vec<Action>) {
         let Self { spec, deck_lifts, replace, use_support } = self;
         ui.heading("Generate a layout");
         egui::Grid::new("layout").num_columns(2).show(ui, |ui| {
@@ -64,8 +65,35 @@ impl LayoutPanel {
             ui.label("Decks on lifts");
             ui.add(egui::TextEdit::singleline(deck_lifts).desired_width(80.0).hint_text("e.g. 2, 4"));
             ui.end_row();
-            ui.label("Deck self-weight");
-            ui.add(egui::DragValue::new(&mut spec.deck_self_weight_kpa).speed(0.01).range(0.0..=50.0).suffix(" kPa"));
+            ui.label("Decking");
+            egui::ComboBox::from_id_salt("layout-decking").selected_text(spec.decking.clone().unwrap_or_else(|| "own value".into())).show_ui(ui, |ui| {
+                for e in &cat.decks {
+                    if ui.selectable_label(spec.decking.as_deref() == Some(&e.id), format!("{}: {} kPa", e.id, e.self_weight_kpa)).on_hover_text(e.source.as_str()).clicked() {
+                        spec.deck_self_weight_kpa = e.self_weight_kpa;
+                        spec.decking = Some(e.id.clone());
+                    }
+                }
+            });
+            ui.end_row();
+            ui.label("  self-weight");
+            if ui.add(egui::DragValue::new(&mut spec.deck_self_weight_kpa).speed(0.01).range(0.0..=50.0).suffix(" kPa")).changed() {
+                spec.decking = None;
+            }
+            ui.end_row();
+            ui.label("Members");
+            egui::ComboBox::from_id_salt("layout-section").selected_text(spec.section.clone().unwrap_or_else(|| "own value".into())).show_ui(ui, |ui| {
+                for m in &cat.members {
+                    if ui.selectable_label(spec.section.as_deref() == Some(&m.id), format!("{}: {} kN/m", m.id, m.self_weight_kn_per_m)).on_hover_text(m.source.as_str()).clicked() {
+                        spec.member_self_weight_kn_per_m = m.self_weight_kn_per_m;
+                        spec.section = Some(m.id.clone());
+                    }
+                }
+            });
+            ui.end_row();
+            ui.label("  self-weight");
+            if ui.add(egui::DragValue::new(&mut spec.member_self_weight_kn_per_m).speed(0.001).range(0.0..=10.0).suffix(" kN/m")).changed() {
+                spec.section = None;
+            }
             ui.end_row();
             ui.label("load class");
             let mut class = spec.load_class.unwrap_or(0);
@@ -88,6 +116,23 @@ impl LayoutPanel {
             });
             ui.end_row();
             if use_support.is_none() {
+                ui.label("  base jack");
+                let shown = spec.support.catalogue_id.clone().unwrap_or_else(|| "own values".into());
+                egui::ComboBox::from_id_salt("layout-jack").selected_text(shown).show_ui(ui, |ui| {
+                    for j in &cat.jacks {
+                        let tag = if j.example { " — EXAMPLE" } else { "" };
+                        let text = format!("{}: {} kN up to {} m extension{tag}", j.id, j.swl_kn, j.max_extension_m);
+                        if ui.selectable_label(spec.support.catalogue_id.as_deref() == Some(&j.id), text).on_hover_text(j.source.as_str()).clicked() {
+                            catalogue::apply_jack(&mut spec.support, j);
+                        }
+                    }
+                });
+                ui.end_row();
+                if spec.support.example {
+                    ui.label("");
+                    ui.colored_label(egui::Color32::from_rgb(0xb0, 0x20, 0x20), "example SWL: replace it with the manufacturer's");
+                    ui.end_row();
+                }
                 ui.label("  SWL");
                 ui.add(egui::DragValue::new(&mut spec.support.swl_kn).speed(0.5).range(0.1..=1.0e4).suffix(" kN"));
                 ui.end_row();
@@ -98,19 +143,33 @@ impl LayoutPanel {
                 });
                 ui.end_row();
                 ui.label("  sole plate");
-                let mut has = spec.support.sole_plate.is_some();
-                ui.checkbox(&mut has, "");
+                let shown = match (&spec.support.sole_plate, &spec.support.sole_plate_id) {
+                    (None, _) => "none".to_owned(),
+                    (Some(_), Some(id)) => id.clone(),
+                    (Some(_), None) => "own size".to_owned(),
+                };
+                egui::ComboBox::from_id_salt("layout-sole").selected_text(shown).show_ui(ui, |ui| {
+                    if ui.selectable_label(spec.support.sole_plate.is_none(), "none").clicked() {
+                        catalogue::apply_sole_plate(&mut spec.support, None);
+                    }
+                    for e in &cat.sole_plates {
+                        if ui.selectable_label(spec.support.sole_plate_id.as_deref() == Some(&e.id), format!("{}: {}", e.id, e.name)).on_hover_text(e.source.as_str()).clicked() {
+                            catalogue::apply_sole_plate(&mut spec.support, Some(e));
+                        }
+                    }
+                });
                 ui.end_row();
-                if has != spec.support.sole_plate.is_some() {
-                    spec.support.sole_plate = has.then_some(plateload::scene::model::PlateSize { width_m: 0.225, length_m: 0.45 });
-                }
                 if let Some(sole) = &mut spec.support.sole_plate {
+                    let before = *sole;
                     ui.label("");
                     ui.horizontal(|ui| {
                         ui.add(egui::DragValue::new(&mut sole.width_m).speed(0.005).range(0.01..=5.0).suffix(" m"));
                         ui.add(egui::DragValue::new(&mut sole.length_m).speed(0.005).range(0.01..=5.0).suffix(" m"));
                     });
                     ui.end_row();
+                    if *sole != before {
+                        spec.support.sole_plate_id = None;
+                    }
                 }
             }
             ui.label("Braces and notional loads");

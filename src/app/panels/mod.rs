@@ -149,6 +149,7 @@ fn draw_ui(
     drawn: Res<Drawn>,
     without: Option<Res<super::view::Without>>,
     mut settings: ResMut<super::settings::EditorSettings>,
+    catalogue: Res<crate::app::catalogue::EditorCatalogue>,
     mut out: MessageWriter<Action>,
 ) -> Result {
     let ctx = contexts.ctx_mut()?.clone();
@@ -173,9 +174,12 @@ fn draw_ui(
             });
             ui.separator();
             egui::ScrollArea::vertical().id_salt("right-scroll").show(ui, |ui| match panels.right {
-                RightTab::Inspector => panels.inspector.ui(ui, &doc, &selection, &mut actions),
+                RightTab::Inspector => panels.inspector.ui(ui, &doc, &catalogue.loaded.catalogue, &selection, &mut actions),
                 RightTab::Site => panels.site.ui(ui, &doc.scene, &mut actions),
-                RightTab::Layout => panels.layout.ui(ui, &doc.scene, &mut actions),
+                RightTab::Layout => {
+                    ui.label(crate::app::catalogue::summary(&catalogue.loaded)).on_hover_text(catalogue.loaded.problems.join("\n"));
+                    panels.layout.ui(ui, &doc.scene, &catalogue.loaded.catalogue, &mut actions)
+                }
             });
         });
         if panels.show_results {

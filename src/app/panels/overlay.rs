@@ -101,29 +101,37 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
     let pc = &p.combinations[c];
     let name = &a.combinations[c].name;
     let cases = format!("G {:.2} kN · Q {:.2} kN · W {:.2} kN", p.case_kn[0], p.case_kn[1], p.case_kn[2]);
-    let text = match r.utilisation {
-        Some(u) => format!(
-            "base plate {} — {:.1} % {}\n{cases}\n{name}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\nbearing {:.1} kPa of {:.0} kPa allowed\nmax by {}",
-            p.id,
-            100.0 * u,
-            r.status.label(),
-            pc.max_kn,
-            pc.min_kn,
-            p.swl_kn,
-            pc.bearing_kpa,
-            p.allowable_kpa,
-            a.method_label(pc.max_method)
-        ),
+    let mut text = match r.utilisation {
+        Some(u) => {
+            let bearing = match p.allowable_kpa {
+                Some(q) => format!("bearing {:.1} kPa of {q:.0} kPa allowed ({})", pc.bearing_kpa, a.ground.basis.label()),
+                None => format!("bearing {:.1} kPa, not checked (no allowable)", pc.bearing_kpa),
+            };
+            let mut t = format!("base plate {} — {:.1} % {}\n{cases}\n{name}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\n{bearing}", p.id, 100.0 * u, r.status.label(), pc.max_kn, pc.min_kn, p.swl_kn);
+            if let Some(q) = pc.layer_top_kpa {
+                t += &match pc.layer_utilisation {
+                    Some(l) => format!("\non the layer {q:.1} kPa ({:.0} %)", 100.0 * l),
+                    None => format!("\non the layer {q:.1} kPa, not checked"),
+                };
+            }
+            t
+        }
         // Factored loads are not compared with working-load capacities: kN only.
         None => format!(
-            "base plate {}{}\n{cases}\n{name} (not a capacity check): max {:.2} kN, min {:.2} kN\nmax by {}",
+            "base plate {}{}\n{cases}\n{name} (not a capacity check): max {:.2} kN, min {:.2} kN",
             p.id,
             if r.status.uplift { " — UPLIFT" } else { "" },
             pc.max_kn,
             pc.min_kn,
-            a.method_label(pc.max_method)
         ),
     };
+    if let Some(h) = p.hold_down {
+        text += &format!("\nlifts: anchor {:.2} kN{}", h.anchor_kn, h.kentledge_kn.map_or_else(String::new, |k| format!(" or {k:.2} kN kentledge")));
+    }
+    if let Some(s) = p.sliding.as_ref().filter(|s| s.slides) {
+        text += &format!("\nslides: restrain for {:.2} kN", s.restraint_kn);
+    }
+    text += &format!("\nmax by {}", a.method_label(pc.max_method));
     let g = painter.layout_no_wrap(text, FontId::proportional(13.0), Color32::BLACK);
     let size = g.size() + Vec2::new(20.0, 10.0);
     let mut at = pointer + Vec2::new(18.0, 18.0);
@@ -161,10 +169,10 @@ pub fn summary_lines(a: &Analysis, comb: Option<usize>, comb_name: &str) -> Opti
     let lift = a.plates.iter().filter(|p| reading(a, p, comb).status.uplift).count();
     let lines = match r.utilisation {
         Some(u) => {
-            let by = if pc.bearing_utilisation >= pc.load_utilisation {
-                format!("ground bearing {:.0} kPa of {:.0} kPa allowed", pc.bearing_kpa, p.allowable_kpa)
-            } else {
-                format!("{:.1} kN on a {:.1} kN jack", pc.max_kn, p.swl_kn)
+            let by = match pc.governed_by() {
+                "ground bearing" => format!("ground bearing {:.0} kPa of {:.0} kPa allowed", pc.bearing_kpa, p.allowable_kpa.unwrap_or(0.0)),
+                "granular layer" => format!("{:.0} kPa on the granular layer", pc.layer_top_kpa.unwrap_or(0.0)),
+                _ => format!("{:.1} kN on a {:.1} kN jack", pc.max_kn, p.swl_kn),
             };
             [
                 format!("Worst base plate: {} at {:.1} %", p.id, 100.0 * u),
@@ -183,14 +191,36 @@ pub fn summary_lines(a: &Analysis, comb: Option<usize>, comb_name: &str) -> Opti
     Some((lines, r.band(), !r.status.is_ok()))
 }
 
+/// Whole-structure checks that fail or were refused (overturning, sliding), one line each.
+pub fn structure_alerts(a: &Analysis) -> Vec<String> {
+    let mut lines = Vec::new();
+    if let Some(why) = &a.stability.refused {
+        lines.push(format!("overturning NOT CHECKED: {why}"));
+    } else if a.stability.fails() {
+        if let Some((_, ax)) = a.stability.governing() {
+            let need = ax.kentledge.as_ref().and_then(|k| k.needed_kn).map_or_else(String::new, |k| format!(", needs {k:.2} kN kentledge"));
+            lines.push(format!("overturning FAILS towards {} (factor {}){need}", ax.towards, ax.factor.map_or_else(|| "—".to_owned(), |f| format!("{f:.2}"))));
+        }
+    }
+    if a.sliding.fails() {
+        lines.push(format!("sliding FAILS: {} plate(s) to restrain", a.sliding.plates_to_restrain));
+    }
+    lines
+}
+
 /// Worst plate and counts: at the top of `column` (left-aligned beside the view, else
 /// right-aligned inside it). Returns where it was drawn.
 fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usize>, comb_name: &str, side: bool) -> Rect {
     let Some((lines, band, failing)) = summary_lines(a, comb, comb_name) else { return Rect::from_min_size(column.min, Vec2::ZERO) };
-    let lines = lines.into_iter().zip([20.0, 14.0, 14.0, 12.0]).map(|(t, size)| (t, size, false));
+    let [worst, by, counts, colours] = lines;
+    // Whole-structure checks that fail come before the colours line (details in "Equilibrium &
+    // stability").
+    let mut lines = vec![(worst, 20.0), (by, 14.0), (counts, 14.0)];
+    lines.extend(structure_alerts(a).into_iter().map(|t| (t, 14.0)));
+    lines.push((colours, 12.0));
     // Wrapped to the column beside a picture; one line each inside the editor's view.
     let wrap = if side { column.width() - 24.0 } else { f32::INFINITY };
-    let galleys: Vec<_> = lines.map(|(t, s, _)| painter.layout(t, FontId::proportional(s), Color32::BLACK, wrap)).collect();
+    let galleys: Vec<_> = lines.into_iter().map(|(t, s)| painter.layout(t, FontId::proportional(s), Color32::BLACK, wrap)).collect();
     let w_box = galleys.iter().map(|g| g.size().x).fold(0.0, f32::max) + 24.0;
     let h_box = galleys.iter().map(|g| g.size().y + 2.0).sum::<f32>() + 14.0;
     let w_box = if side { column.width() } else { w_box };
@@ -307,6 +337,9 @@ pub fn legend_strip(ui: &mut egui::Ui, a: &Analysis, comb: Option<usize>, comb_n
         if let Some(([worst, by, counts_line, _], band, failing)) = summary_lines(a, comb, comb_name) {
             ui.add(chip(swatch(band_colour(band)), egui::RichText::new(worst).strong().color(if failing { Color32::from_rgb(0xb0, 0x20, 0x20) } else { ui.visuals().strong_text_color() })));
             ui.label(format!("— {by} · {counts_line}"));
+        }
+        for alert in structure_alerts(a) {
+            ui.label(egui::RichText::new(alert).strong().color(Color32::from_rgb(0xb0, 0x20, 0x20)));
         }
         if !*open {
             ui.separator();
@@ -561,10 +594,9 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
     let supports: std::collections::HashMap<&str, &plateload::SupportType> = doc.scene.support_types.iter().map(|s| (s.id.as_str(), s)).collect();
     // Screen footprint of every plate, its cue included (the ring of a lifting plate reaches
     // its corners' circle).
-    let posts: std::collections::HashMap<&str, &plateload::Post> = doc.scene.posts.iter().map(|p| (p.id.as_str(), p)).collect();
     let footprint = |i: usize, with_cue: bool| -> Option<Rect> {
         let p = &a.plates[i];
-        let post = posts.get(p.id.as_str())?;
+        let post = doc.scene.posts.get(p.post)?;
         let s = post.support.as_deref().and_then(|s| supports.get(s))?;
         let b = s.bearing_plate();
         let st = reading(a, p, comb).status;

@@ -2,8 +2,10 @@
 //! validation problems (click one to select its element).
 
 use bevy_egui::egui;
-use plateload::edit::ElementRef;
+use plateload::edit::{place, Edit, Element, ElementRef};
+use plateload::scene::loads::{KentledgeForm, KentledgePlace};
 use plateload::scene::model::ElementKind;
+use plateload::export::findings::Verdict;
 use plateload::{AnalysisError, Problem};
 
 use super::rgb;
@@ -117,6 +119,16 @@ impl ResultsPanel {
             }
             (Ok(a), ResultsTab::Checks) => {
                 egui::ScrollArea::vertical().id_salt("checks").show(ui, |ui| {
+                    // The findings first, failures leading.
+                    for f in plateload::export::findings::findings(a) {
+                        let colour = match f.verdict {
+                            Verdict::Fails => egui::Color32::from_rgb(0xb0, 0x20, 0x20),
+                            Verdict::NotChecked => egui::Color32::from_rgb(0x90, 0x60, 0x00),
+                            Verdict::Passes => ui.visuals().text_color(),
+                        };
+                        ui.colored_label(colour, format!("{} — {}: {}", f.verdict.label(), f.check, f.text));
+                    }
+                    ui.separator();
                     egui::Grid::new("equilibrium").striped(true).show(ui, |ui| {
                         for h in ["case", "applied down kN", "reactions up kN", "|ΣF| kN", "|ΣM| kN·m", "relative"] {
                             ui.strong(h);
@@ -135,21 +147,57 @@ impl ResultsPanel {
                     ui.label(format!("Worst relative equilibrium residual: {:.1e}", a.worst_residual()));
                     let st = &a.stability;
                     let cog = st.centre_of_gravity.map_or("none".into(), |(x, y)| format!("({x:.3}, {y:.3}) m"));
-                    ui.label(format!("Permanent load {:.3} kN; centre of gravity {cog}; target overturning factor {:.2}.", st.permanent_kn, st.target_factor));
-                    for d in &st.directions {
-                        let text = match d.factor {
-                            None => format!("tipping {}: nothing overturns", d.direction),
-                            Some(f) => {
-                                let k = match d.kentledge_kn {
-                                    Some(k) if k > 0.0 => format!("needs {k:.2} kN kentledge over the opposite edge"),
-                                    Some(_) => "meets the target".into(),
-                                    None => "no base width to add kentledge on".into(),
-                                };
-                                format!("tipping {}: factor {:.2} ({:.2} / {:.2} kN·m) — {k}", d.direction, f, d.restoring_knm, d.overturning_knm)
-                            }
+                    ui.label(format!(
+                        "Permanent load {:.3} kN; centre of gravity {cog}; target overturning factor {:.2}; equilibrium γG {:.2}/{:.2}, γQ {:.2}, γW {:.2}.",
+                        st.permanent_kn, st.target_factor, st.equilibrium.g_unfavourable, st.equilibrium.g_favourable, st.equilibrium.q, st.equilibrium.w
+                    ));
+                    if let Some(why) = &st.refused {
+                        ui.colored_label(egui::Color32::from_rgb(0xb0, 0x20, 0x20), format!("Overturning not checked: {why}"));
+                    }
+                    for s in st.structures.iter().filter(|s| s.axes.iter().any(|x| x.factor.is_some() || x.equ_utilisation.is_some())) {
+                        ui.strong(format!("{} — plates {}", s.label, s.hull.join(" – ")));
+                        for d in &s.axes {
+                            let Some(f) = d.factor else { continue };
+                            let verdict = if d.passes() {
+                                "meets both".to_owned()
+                            } else {
+                                match d.kentledge.as_ref().map(|k| (k.needed_kn, k)) {
+                                    Some((Some(w), k)) => format!("needs {w:.2} kN kentledge over {} (lever {:.2} m)", k.plates.iter().take(4).cloned().collect::<Vec<_>>().join(", "), k.lever_m),
+                                    Some((None, k)) => k.cannot.clone().unwrap_or_default(),
+                                    None => String::new(),
+                                }
+                            };
+                            let text = format!(
+                                "tipping {} about {}: factor {f:.2}; E_dst/E_stb {} — {verdict}",
+                                d.towards,
+                                d.about,
+                                d.equ_utilisation.map_or_else(|| "—".to_owned(), |u| format!("{u:.2}"))
+                            );
+                            ui.horizontal(|ui| {
+                                ui.colored_label(if d.passes() { ui.visuals().text_color() } else { egui::Color32::from_rgb(0xb0, 0x20, 0x20) }, text);
+                                // Place the reported kentledge as a scene element (undoable),
+                                // secured to the standards as reported; rounded up to 10 N.
+                                if let Some((w, k)) = d.kentledge.as_ref().and_then(|k| k.needed_kn.filter(|w| *w > 0.0).map(|w| (w, k))) {
+                                    if ui.button("place it").on_hover_text("add this kentledge to the scene, secured to the standards of those plates").clicked() {
+                                        let kn = (w * 100.0).ceil() / 100.0;
+                                        let load = plateload::Load::new(
+                                            place::fresh_id(&doc.scene, "kentledge-"),
+                                            plateload::Case::G,
+                                            plateload::LoadKind::Kentledge { on: KentledgePlace::Plates(k.plates.clone()), kn, form: KentledgeForm::Removable, secured: true },
+                                        );
+                                        actions.push(Action::Edit { edit: Edit::Add(Element::Load(load)), merge: None, select: None });
+                                    }
+                                }
+                            });
+                        }
+                    }
+                    for c in &a.sliding.checks {
+                        let text = match &c.not_checked {
+                            Some(why) => format!("sliding of {} {}: not checked — {why}", c.structure, c.towards),
+                            None => format!("sliding of {} {}: factor {:.2} (target {:.2})", c.structure, c.towards, c.factor.unwrap_or(0.0), a.sliding.target_factor),
                         };
-                        let short = d.factor.is_some_and(|f| f < st.target_factor);
-                        ui.colored_label(if short { egui::Color32::from_rgb(0xb0, 0x20, 0x20) } else { ui.visuals().text_color() }, text);
+                        let bad = c.not_checked.is_none() && !(c.meets_target && c.equ_ok);
+                        ui.colored_label(if bad { egui::Color32::from_rgb(0xb0, 0x20, 0x20) } else { ui.visuals().text_color() }, text);
                     }
                 });
             }

@@ -4,7 +4,7 @@
 use bevy_egui::egui;
 use plateload::scene::combination::{Combination, Factors};
 use plateload::edit::{place, Edit, Element, ElementRef};
-use plateload::scene::model::{BeamMethod, ElementKind, GranularLayer, LoadSpread};
+use plateload::scene::model::{AllowableBasis, BeamMethod, ElementKind, GranularLayer, LoadSpread};
 use plateload::Scene;
 
 use crate::app::Action;
@@ -44,16 +44,41 @@ impl SitePanel {
             }
             ui.end_row();
             ui.label("Allowable bearing pressure");
-            let r = ui.add(egui::DragValue::new(&mut site.allowable_bearing_kpa).speed(1.0).range(0.0..=1.0e5).suffix(" kPa"));
+            ui.horizontal(|ui| {
+                let mut entered = site.allowable_bearing_kpa.is_some();
+                if ui.checkbox(&mut entered, "entered").changed() {
+                    // A starting value only when the box is ticked; the planner enters the site's.
+                    site.allowable_bearing_kpa = entered.then_some(100.0);
+                    actions.push(Action::Edit { edit: Edit::SetSite(site.clone()), merge: None, select: None });
+                }
+                match &mut site.allowable_bearing_kpa {
+                    Some(q) => {
+                        let r = ui.add(egui::DragValue::new(q).speed(1.0).range(0.0..=1.0e5).suffix(" kPa"));
+                        if r.changed() {
+                            push(actions, Edit::SetSite(site.clone()), "site.allowable", &r);
+                        }
+                    }
+                    None => {
+                        ui.label("not entered: bearing not checked");
+                    }
+                }
+            });
             ui.end_row();
-            if r.changed() {
-                push(actions, Edit::SetSite(site.clone()), "site.allowable", &r);
+            ui.label("Allowable is");
+            let before = site.allowable_basis;
+            egui::ComboBox::from_id_salt("basis").selected_text(site.allowable_basis.label()).show_ui(ui, |ui| {
+                ui.selectable_value(&mut site.allowable_basis, AllowableBasis::Gross, "gross: add the layer's weight");
+                ui.selectable_value(&mut site.allowable_basis, AllowableBasis::Net, "net: layer weight is overburden");
+            });
+            ui.end_row();
+            if site.allowable_basis != before {
+                actions.push(Action::Edit { edit: Edit::SetSite(site.clone()), merge: None, select: None });
             }
             ui.label("Granular layer");
             let mut has = site.granular_layer.is_some();
             if ui.checkbox(&mut has, "spreads the load").changed() {
                 // Starting thickness only; the planner enters the layer actually placed.
-                site.granular_layer = has.then_some(GranularLayer { thickness_m: 0.15, spread: LoadSpread::TwoToOne });
+                site.granular_layer = has.then_some(GranularLayer::new(0.15, LoadSpread::TwoToOne));
                 actions.push(Action::Edit { edit: Edit::SetSite(site.clone()), merge: None, select: None });
             }
             ui.end_row();
@@ -81,17 +106,64 @@ impl SitePanel {
                     angle_r = Some(ui.add(egui::DragValue::new(a).speed(0.5).range(0.0..=89.0).suffix("°")));
                 }
                 ui.end_row();
+                ui.label("Unit weight");
+                let w = ui.add(egui::DragValue::new(&mut layer.unit_weight_kn_m3).speed(0.1).range(5.0..=30.0).suffix(" kN/m³"));
+                ui.end_row();
+                ui.label("Allowable on the layer");
+                let mut top_r = None;
+                let mut top_toggled = false;
+                ui.horizontal(|ui| {
+                    let mut entered = layer.allowable_kpa.is_some();
+                    if ui.checkbox(&mut entered, "entered").changed() {
+                        layer.allowable_kpa = entered.then_some(100.0);
+                        top_toggled = true;
+                    }
+                    match &mut layer.allowable_kpa {
+                        Some(q) => top_r = Some(ui.add(egui::DragValue::new(q).speed(1.0).range(0.0..=1.0e5).suffix(" kPa"))),
+                        None => {
+                            ui.label("not entered: not checked");
+                        }
+                    }
+                });
+                ui.end_row();
                 let changed = r.changed() || layer.spread != before && !angle_r.as_ref().is_some_and(|a| a.changed()) || angle_r.as_ref().is_some_and(|a| a.changed());
                 if changed {
                     push(actions, Edit::SetSite(site.clone()), "site.layer", angle_r.as_ref().unwrap_or(&r));
+                } else if w.changed() {
+                    push(actions, Edit::SetSite(site.clone()), "site.layer.weight", &w);
+                } else if let Some(t) = top_r.as_ref().filter(|t| t.changed()) {
+                    push(actions, Edit::SetSite(site.clone()), "site.layer.allowable", t);
+                } else if top_toggled {
+                    actions.push(Action::Edit { edit: Edit::SetSite(site.clone()), merge: None, select: None });
                 }
             }
             ui.label("Overturning: target factor");
-            let mut st = scene.stability;
+            let mut st = scene.stability.clone();
             let r = ui.add(egui::DragValue::new(&mut st.target_factor).speed(0.01).range(0.0..=100.0));
             ui.end_row();
             if r.changed() {
-                push(actions, Edit::SetStability(st), "stability", &r);
+                push(actions, Edit::SetStability(st.clone()), "stability", &r);
+            }
+            ui.label("Sliding: target factor");
+            let r = ui.add(egui::DragValue::new(&mut st.sliding_target_factor).speed(0.01).range(0.0..=100.0));
+            ui.end_row();
+            if r.changed() {
+                push(actions, Edit::SetStability(st.clone()), "stability.sliding", &r);
+            }
+            ui.label("Equilibrium γG dst / stb, γQ, γW");
+            let mut changed: Option<(String, egui::Response)> = None;
+            ui.horizontal(|ui| {
+                let Factors { g_unfavourable, g_favourable, q, w } = &mut st.equilibrium;
+                for (k, v) in [("gu", g_unfavourable), ("gf", g_favourable), ("q", q), ("w", w)] {
+                    let r = ui.add(egui::DragValue::new(v).speed(0.01).range(0.0..=100.0).max_decimals(3));
+                    if r.changed() {
+                        changed = Some((format!("stability.{k}"), r));
+                    }
+                }
+            });
+            ui.end_row();
+            if let Some((key, r)) = changed {
+                push(actions, Edit::SetStability(st.clone()), &key, &r);
             }
             ui.label("Members analysed as");
             let mut analysis = scene.analysis;

@@ -659,7 +659,7 @@ fn recolour(
                     Part::Bearer(BeamRole::Ledger) => &assets.ledger,
                     Part::Bearer(BeamRole::Transom) => &assets.transom,
                     Part::Brace => &assets.brace,
-                    Part::Deck => &assets.deck,
+                    Part::Deck | Part::ExistingStructure => &assets.deck,
                     Part::LoadArrow | Part::LoadSpread => {
                         let case = match e.kind {
                             ElementKind::Load => doc.scene.loads.iter().find(|l| l.id == e.id).map_or(Case::G, |l| l.case),

@@ -1,0 +1,596 @@
+//! Spare capacity over every deck: at each point of a grid, the largest extra imposed load (one
+//! footprint at a time, on top of the existing loads in their worst arrangement) before any base
+//! plate exceeds its safe working load or allowable bearing, any plate lifts, or the deck exceeds
+//! its load class — and what limits it.
+//!
+//! Every plate's reaction is linear in the load, so the extra load `P` at a point adds `c·P` at a
+//! plate, `c` the influence coefficient of that point at that plate in a method pass
+//! ([`crate::solve::influence`]). With γ the combination's imposed-load factor and φ the dynamic
+//! factor, a plate limits `P` to `(capacity − max) / (γ·φ·c)` where `c > 0`, and — the placed load
+//! being free to be there or not — to `min / (γ·φ·|c|)` where `c < 0` (no uplift). The value is the
+//! least over plates, combinations and method passes, and the deck's own capacity. The values do
+//! not add: after placing one load, the map must be read again.
+
+use crate::check::analysis::Analysis;
+use crate::scene::loads::{Intensity, LoadClass, LoadKind};
+use crate::scene::model::Scene;
+use crate::solve::influence::{deck_influences, DeckInfluence, Footprint};
+
+/// Influence coefficients smaller than this (kN per kN) are rounding, not load: a plate far along
+/// a continuous member gets 1e-12 of a load, which must not let an over-capacity plate there
+/// block the whole deck.
+pub const INFLUENCE_FLOOR: f64 = 1e-9;
+
+/// What the map is worked out for.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct SpareSettings {
+    /// Grid spacing, m.
+    pub spacing_m: f64,
+    /// What is placed: a point, or a rectangle centred on the grid point.
+    pub footprint: Footprint,
+    /// Factor on the placed load for landing it (1.0 none; e.g. 1.2 for loads set down by crane
+    /// or hoist).
+    pub dynamic_factor: f64,
+    /// Combinations to check, by name; empty: every one that checks capacity or uplift.
+    pub combinations: Vec<String>,
+    /// Decks to map, by id; empty: every deck.
+    pub decks: Vec<String>,
+}
+
+/// Default grid spacing, m.
+// common practice, no source: a quarter-metre grid resolves a board width and a pallet.
+pub const DEFAULT_SPACING_M: f64 = 0.25;
+
+/// Factor on loads set down by hoist or crane, a suggested value for `dynamic_factor`.
+// source: DGUV Information 201-011 (loads set down by hoist × 1.2), via REFERENCES §2
+pub const HOISTED_FACTOR: f64 = 1.2;
+
+impl Default for SpareSettings {
+    fn default() -> Self {
+        SpareSettings { spacing_m: DEFAULT_SPACING_M, footprint: Footprint::POINT, dynamic_factor: 1.0, combinations: Vec::new(), decks: Vec::new() }
+    }
+}
+
+/// Why the map cannot be worked out.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[non_exhaustive]
+pub enum SpareError {
+    /// A setting is out of range.
+    #[error("{0}")]
+    Setting(String),
+    /// No combination checks capacity or uplift (or none of those named exists).
+    #[error("{0}")]
+    NoCombination(String),
+}
+
+/// What limits the spare load at a point.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub enum Limit {
+    /// A base plate reaches a capacity.
+    Plate {
+        /// Plate id.
+        plate: String,
+        /// Which capacity: `safe working load`, `ground bearing` or `uplift`.
+        check: &'static str,
+        /// Combination.
+        combination: String,
+        /// Method pass.
+        method: String,
+    },
+    /// The structure reaches its overturning target about an axis.
+    Overturning {
+        /// The axis, e.g. `edge A1–G1`.
+        about: String,
+        /// Which form: `factor of safety` or `EQU`.
+        form: &'static str,
+    },
+    /// The deck reaches its load class.
+    Deck {
+        /// What of the class limits it, in words (e.g. `load class 3, q1 2.0 kPa over the footprint`).
+        what: String,
+    },
+    /// Nothing found that limits it: no plate takes any of it upward or downward and the deck has
+    /// no stated capacity.
+    None,
+}
+
+impl Limit {
+    /// In words for a site manager.
+    pub fn words(&self) -> String {
+        match self {
+            Limit::Plate { plate, check, combination, .. } if *check == "uplift" => format!("plate {plate} would lift ({combination})"),
+            Limit::Plate { plate, check, combination, .. } => format!("plate {plate}, {check} ({combination})"),
+            Limit::Overturning { about, form } => format!("overturning about {about} ({form})"),
+            Limit::Deck { what } => format!("the deck, {what}"),
+            Limit::None => "no limit found".into(),
+        }
+    }
+}
+
+/// One grid point of a deck's map.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct SparePoint {
+    /// Plan position of the footprint's centre, m.
+    pub x: f64,
+    /// Plan position, m.
+    pub y: f64,
+    /// Largest extra characteristic imposed load there, kN (0: none — already at a limit);
+    /// `None` where nothing limits it.
+    pub kn: Option<f64>,
+    /// Whether a limit is already reached or exceeded without the extra load (shown apart from a
+    /// small spare capacity).
+    pub already_at_limit: bool,
+    /// What limits it.
+    pub limit: Limit,
+}
+
+/// The map of one deck.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct DeckSpare {
+    /// Deck id.
+    pub deck: String,
+    /// Deck level, m.
+    pub level: f64,
+    /// Load class the deck is checked against, if known.
+    pub load_class: Option<u8>,
+    /// Grid points, row by row.
+    pub points: Vec<SparePoint>,
+    /// Number of columns of the grid (points per row).
+    pub columns: usize,
+}
+
+/// The spare-capacity map of a scene.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct SpareMap {
+    /// What it was worked out for.
+    pub settings: SpareSettings,
+    /// Combinations checked.
+    pub combinations: Vec<String>,
+    /// One map per deck.
+    pub decks: Vec<DeckSpare>,
+    /// Members whose own strength is not checked by the map (no capacity is known for them).
+    pub not_checked: Vec<String>,
+}
+
+/// The influence coefficients behind a map, per deck and method pass. They depend on the
+/// structure, the footprint and the grid only, not on the loads: after an edit of loads alone,
+/// the map can be worked out again from the same coefficients ([`spare_map_from`]).
+#[derive(Debug, Clone)]
+pub struct SpareInfluences {
+    footprint: Footprint,
+    spacing_m: f64,
+    /// The method passes they were worked out for, by label.
+    methods: Vec<String>,
+    /// Per deck in scene order: per method pass, or `None` where the footprint does not fit.
+    decks: Vec<Option<Vec<DeckInfluence>>>,
+}
+
+impl SpareInfluences {
+    /// Whether these coefficients are for the same footprint, grid and method passes.
+    pub fn fits(&self, analysis: &Analysis, settings: &SpareSettings) -> bool {
+        self.footprint == settings.footprint
+            && self.spacing_m == settings.spacing_m
+            && self.methods.len() == analysis.method_count()
+            && self.methods.iter().enumerate().all(|(m, l)| l == analysis.method_label(m))
+    }
+}
+
+/// Check the settings against the scene and its analysis: the combinations to check.
+fn checked(scene: &Scene, analysis: &Analysis, settings: &SpareSettings) -> Result<Vec<usize>, SpareError> {
+    if !(settings.spacing_m.is_finite() && settings.spacing_m >= 0.01) {
+        return Err(SpareError::Setting(format!("grid spacing must be at least 0.01 m (it is {} m)", settings.spacing_m)));
+    }
+    let fp = settings.footprint;
+    if !(fp.x_m.is_finite() && fp.y_m.is_finite() && fp.x_m >= 0.0 && fp.y_m >= 0.0) || (fp.x_m > 0.0) != (fp.y_m > 0.0) {
+        return Err(SpareError::Setting(format!("the footprint must be a point (0 × 0) or a rectangle with both sides above zero (it is {} × {} m)", fp.x_m, fp.y_m)));
+    }
+    if !(settings.dynamic_factor.is_finite() && (1.0..=10.0).contains(&settings.dynamic_factor)) {
+        return Err(SpareError::Setting(format!("the dynamic factor must be from 1.0 to 10 (it is {})", settings.dynamic_factor)));
+    }
+    let combos: Vec<usize> = (0..analysis.combinations.len())
+        .filter(|&c| {
+            let comb = &analysis.combinations[c];
+            (comb.checks_capacity || comb.checks_uplift) && (settings.combinations.is_empty() || settings.combinations.contains(&comb.name))
+        })
+        .collect();
+    if combos.is_empty() {
+        return Err(SpareError::NoCombination(if settings.combinations.is_empty() {
+            "no combination checks capacity or uplift, so no load has a limit: set checks_capacity on one".into()
+        } else {
+            format!("none of {} is a combination that checks capacity or uplift", settings.combinations.join(", "))
+        }));
+    }
+    for name in &settings.decks {
+        if !scene.decks.iter().any(|d| &d.id == name) {
+            return Err(SpareError::Setting(format!("deck \"{name}\" does not exist")));
+        }
+    }
+    Ok(combos)
+}
+
+/// Work out the influence coefficients of the decks a map covers.
+pub fn spare_influences(scene: &Scene, analysis: &Analysis, settings: &SpareSettings) -> Result<SpareInfluences, SpareError> {
+    checked(scene, analysis, settings)?;
+    let model = crate::validate(scene).map_err(|e| SpareError::Setting(e.to_string()))?;
+    let passes: Vec<crate::solve::MethodPass> = (0..analysis.method_count()).map(|m| analysis.method(m).clone()).collect();
+    let decks = (0..scene.decks.len())
+        .map(|d| {
+            let wanted = settings.decks.is_empty() || settings.decks.contains(&scene.decks[d].id);
+            wanted.then(|| deck_influences(&model, &passes, d, settings.footprint, settings.spacing_m).into_iter().collect::<Option<Vec<_>>>()).flatten()
+        })
+        .collect();
+    Ok(SpareInfluences {
+        footprint: settings.footprint,
+        spacing_m: settings.spacing_m,
+        methods: (0..analysis.method_count()).map(|m| analysis.method_label(m).to_owned()).collect(),
+        decks,
+    })
+}
+
+/// Work out the spare-capacity map of an analysed scene.
+pub fn spare_map(scene: &Scene, analysis: &Analysis, settings: &SpareSettings) -> Result<SpareMap, SpareError> {
+    let influences = spare_influences(scene, analysis, settings)?;
+    spare_map_from(scene, analysis, settings, &influences)
+}
+
+/// Work out the map from influence coefficients worked out before for the same structure,
+/// footprint and grid ([`spare_influences`]): what is left to do after an edit of loads alone.
+pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettings, influences: &SpareInfluences) -> Result<SpareMap, SpareError> {
+    let combos = checked(scene, analysis, settings)?;
+    let fp = settings.footprint;
+    if !influences.fits(analysis, settings) || influences.decks.len() != scene.decks.len() {
+        return Err(SpareError::Setting("the influence coefficients are for another structure, footprint or grid: work them out again".into()));
+    }
+    let mut decks = Vec::new();
+    for (d, deck) in scene.decks.iter().enumerate() {
+        if !settings.decks.is_empty() && !settings.decks.contains(&deck.id) {
+            continue;
+        }
+        match &influences.decks[d] {
+            Some(per_pass) => decks.push(deck_map(scene, analysis, d, settings, &combos, per_pass)),
+            None if !settings.decks.is_empty() => {
+                return Err(SpareError::Setting(format!("the footprint {} × {} m does not fit on deck {}", fp.x_m, fp.y_m, deck.id)));
+            }
+            None => {}
+        }
+    }
+    if decks.is_empty() {
+        return Err(SpareError::Setting(if scene.decks.is_empty() {
+            "the scene has no deck to place a load on".to_owned()
+        } else {
+            format!("the footprint {} × {} m does not fit on any deck", fp.x_m, fp.y_m)
+        }));
+    }
+    let mut not_checked: Vec<String> = scene.bearers.iter().map(|b| format!("{} {}", role_word(b.role), b.id)).collect();
+    not_checked.extend(scene.decks.iter().filter(|d| deck_class(scene, d).is_none()).map(|d| format!("deck {}", d.id)));
+    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked })
+}
+
+fn role_word(r: crate::scene::model::BeamRole) -> &'static str {
+    match r {
+        crate::scene::model::BeamRole::Bearer => "bearer",
+        crate::scene::model::BeamRole::Ledger => "ledger",
+        crate::scene::model::BeamRole::Transom => "transom",
+    }
+}
+
+/// The load class a deck is checked against: that of a load-class imposed load on it.
+pub fn deck_class(scene: &Scene, deck: &crate::scene::model::Deck) -> Option<u8> {
+    scene.loads.iter().find_map(|l| match &l.kind {
+        LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(c) | Intensity::LoadClassPartial(c) }
+        | LoadKind::DeckPatch { deck: id, intensity: Intensity::LoadClassUniform(c) | Intensity::LoadClassPartial(c), .. }
+            if *id == deck.id =>
+        {
+            Some(*c)
+        }
+        _ => None,
+    })
+}
+
+/// The best (smallest) limit found so far at a grid point.
+#[derive(Debug, Clone, Copy)]
+struct Best {
+    kn: f64,
+    plate: u32,
+    /// 0 safe working load, 1 ground bearing, 2 uplift.
+    check: u8,
+    combination: u16,
+    method: u16,
+    already: bool,
+}
+
+impl Best {
+    const NONE: Best = Best { kn: f64::INFINITY, plate: u32::MAX, check: 0, combination: 0, method: 0, already: false };
+    fn take(&mut self, other: Best) {
+        if other.kn < self.kn || (other.kn == self.kn && other.already && !self.already) {
+            *self = other;
+        }
+    }
+}
+
+/// Per plate (by post index) and per combination of one method pass: the room left before each
+/// capacity, kN of plate load; `None` where the post has no plate or the check is not made.
+struct Room {
+    /// (to safe working load, to allowable bearing) for capacity-checking combinations.
+    capacity: Vec<Option<(f64, f64)>>,
+    /// Minimum load for uplift-checking combinations: room before it lifts.
+    uplift: Vec<Option<f64>>,
+}
+
+fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], per_pass: &[DeckInfluence]) -> DeckSpare {
+    let deck = &scene.decks[d];
+    let n_posts = scene.posts.len();
+    let mut grid: Option<Vec<Best>> = None;
+    let mut shape = (0, 0);
+    for (m, inf) in per_pass.iter().enumerate() {
+        let (rows, cols) = (inf.across.len(), inf.along.len());
+        shape = (rows, cols);
+        let best = grid.get_or_insert_with(|| vec![Best::NONE; rows * cols]);
+        for &c in combos {
+            let comb = &analysis.combinations[c];
+            let gamma = comb.factors.q * settings.dynamic_factor;
+            if gamma <= 0.0 {
+                continue;
+            }
+            let room = room_of(analysis, m, c, n_posts);
+            let shared = shared_posts(&inf, n_posts);
+            let shared_list: Vec<usize> = (0..n_posts).filter(|&p| shared[p]).collect();
+            // Per bearer and column: the least ratio room / influence over the plates, for a
+            // positive and for a negative deck share, with what gave it.
+            let nk = inf.bearers.len();
+            let mut by_sign = vec![[Best::NONE; 2]; nk * cols];
+            for k in 0..nk {
+                for j in 0..cols {
+                    let slot = &mut by_sign[k * cols + j];
+                    for &(p, f) in &inf.flows[k][j] {
+                        if f.abs() < INFLUENCE_FLOOR || shared[p as usize] {
+                            continue;
+                        }
+                        for (sign, effect) in [(0usize, f), (1usize, -f)] {
+                            if let Some(b) = plate_limit(&room, p, effect, c, m) {
+                                slot[sign].take(b);
+                            }
+                        }
+                    }
+                }
+            }
+            // The least ratio over the bearers of each column: no bearer can give less than that
+            // over its share, so bearers are taken largest share first and the rest skipped once
+            // their share cannot beat the value found.
+            let least: Vec<f64> = (0..cols).map(|j| (0..nk).flat_map(|k| by_sign[k * cols + j]).map(|b| b.kn).fold(f64::INFINITY, f64::min)).collect();
+            let mut shares: Vec<(usize, f64)> = Vec::with_capacity(nk);
+            for i in 0..rows {
+                shares.clear();
+                shares.extend(inf.d[i].iter().copied().enumerate().filter(|(_, dk)| dk.abs() >= INFLUENCE_FLOOR));
+                shares.sort_unstable_by(|a, b| b.1.abs().total_cmp(&a.1.abs()));
+                for j in 0..cols {
+                    let mut here = Best::NONE;
+                    for &(k, dk) in &shares {
+                        if least[j] / dk.abs() >= here.kn {
+                            break;
+                        }
+                        let b = by_sign[k * cols + j][if dk > 0.0 { 0 } else { 1 }];
+                        if b.kn.is_finite() {
+                            here.take(Best { kn: b.kn / dk.abs(), ..b });
+                        }
+                    }
+                    // Plates reached through more than one of the deck's bearers: summed here.
+                    for &p in &shared_list {
+                        let c_p: f64 = (0..nk).map(|k| inf.d[i][k] * inf.flows[k][j].iter().filter(|e| e.0 as usize == p).map(|e| e.1).sum::<f64>()).sum();
+                        if c_p.abs() >= INFLUENCE_FLOOR {
+                            if let Some(b) = plate_limit(&room, p as u32, c_p, c, m) {
+                                here.take(b);
+                            }
+                        }
+                    }
+                    best[i * cols + j].take(Best { kn: here.kn / gamma, ..here });
+                }
+            }
+        }
+    }
+    let inf = &per_pass[0];
+    let mut grid = grid.unwrap_or_default();
+    let (rows, cols) = shape;
+    // The deck's own capacity under the footprint: the most its load class allows there, less
+    // the imposed load already on it.
+    let tipping = tipping_room(analysis, per_pass);
+    let class = deck_class(scene, deck).and_then(LoadClass::get);
+    let models = class.map(|c| class_models(c, settings.footprint)).unwrap_or_default();
+    let mut points = Vec::with_capacity(rows * cols);
+    for i in 0..rows {
+        for j in 0..cols {
+            let (x, y) = inf.point(i, j);
+            let b = grid[i * cols + j];
+            let mut kn = b.kn;
+            let mut limit = if b.kn.is_finite() {
+                Limit::Plate {
+                    plate: scene.posts[b.plate as usize].id.clone(),
+                    check: ["safe working load", "ground bearing", "uplift"][b.check as usize],
+                    combination: analysis.combinations[b.combination as usize].name.clone(),
+                    method: analysis.method_label(b.method as usize).to_owned(),
+                }
+            } else {
+                Limit::None
+            };
+            let mut already = b.already;
+            // Overturning: a load beyond an axis of the structure under the deck adds its moment
+            // there (an imposed load never restores), in both forms.
+            for t in &tipping {
+                let lever = (x - t.point[0]) * t.normal[0] + (y - t.point[1]) * t.normal[1];
+                if lever <= 0.0 {
+                    continue;
+                }
+                for (room, gamma, form) in [(t.factor_room, 1.0, "factor of safety"), (t.equ_room, t.equ_gamma, "EQU")] {
+                    let kn_here = room.max(0.0) / (gamma * settings.dynamic_factor * lever);
+                    if kn_here < kn {
+                        kn = kn_here;
+                        already = room <= 0.0;
+                        limit = Limit::Overturning { about: t.about.clone(), form };
+                    }
+                }
+            }
+            if !models.is_empty() {
+                // The class's load models are alternatives: the one that leaves the most room.
+                let (room, what) = models
+                    .iter()
+                    .map(|(allowed, over, what)| (allowed - existing_imposed(scene, d, x, y, *over), what))
+                    .max_by(|a, b| a.0.total_cmp(&b.0))
+                    .expect("q1 is always a model");
+                let deck_kn = room.max(0.0) / settings.dynamic_factor;
+                if deck_kn < kn {
+                    kn = deck_kn;
+                    already = room <= 0.0;
+                    limit = Limit::Deck { what: what.clone() };
+                }
+            }
+            grid[i * cols + j].kn = kn;
+            points.push(SparePoint { x, y, kn: kn.is_finite().then_some(kn.max(0.0)), already_at_limit: already, limit });
+        }
+    }
+    DeckSpare { deck: deck.id.clone(), level: deck.level, load_class: class.map(|c| c.class), points, columns: cols }
+}
+
+/// Room an axis of overturning leaves for a load placed beyond it.
+struct TippingRoom {
+    about: String,
+    point: [f64; 3],
+    normal: [f64; 2],
+    /// Restoring ÷ target − overturning, kN·m (factor-of-safety form, unfactored).
+    factor_room: f64,
+    /// E_d,stb − E_d,dst, kN·m, and the imposed-load factor of the EQU form.
+    equ_room: f64,
+    equ_gamma: f64,
+}
+
+/// The overturning axes of the structure that carries the deck — every plate its loads reach —
+/// with the room each leaves. A load on the deck then turns that structure about an axis by its
+/// full lever. (A deck shared by structures that are not joined puts on each only reactions at its
+/// own posts, which turn it about its edges only by lifting its plates: the plate checks above
+/// cover that.)
+fn tipping_room(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<TippingRoom> {
+    let st = &analysis.stability;
+    let reached: std::collections::HashSet<u32> = per_pass.iter().flat_map(|inf| inf.flows.iter().flatten().flatten().filter(|e| e.1 != 0.0).map(|e| e.0)).collect();
+    st.structures
+        .iter()
+        .filter(|s| !reached.is_empty() && reached.iter().all(|p| s.plates.contains(p)))
+        .flat_map(|s| s.axes.iter())
+        .map(|t| {
+            let overturning = t.permanent_destabilising_knm + t.imposed_destabilising_knm + t.horizontal_destabilising_knm;
+            TippingRoom {
+                about: t.about.clone(),
+                point: t.point,
+                normal: t.normal,
+                factor_room: t.permanent_stabilising_knm / st.target_factor - overturning,
+                equ_room: t.equ_stabilising_knm - t.equ_destabilising_knm,
+                equ_gamma: st.equilibrium.q.max(f64::MIN_POSITIVE),
+            }
+        })
+        .collect()
+}
+
+/// The limit one plate puts on the placed load (before the factor γ·φ) for an `effect` of 1 kN
+/// placed: kN of load.
+fn plate_limit(room: &Room, p: u32, effect: f64, c: usize, m: usize) -> Option<Best> {
+    let p_us = p as usize;
+    let at = |kn: f64, check: u8| Best { kn: kn.max(0.0) / effect.abs(), plate: p, check, combination: c as u16, method: m as u16, already: kn <= 0.0 };
+    if effect > 0.0 {
+        let (swl, bearing) = room.capacity[p_us]?;
+        Some(if swl <= bearing { at(swl, 0) } else { at(bearing, 1) })
+    } else {
+        room.uplift[p_us].map(|low| at(low, 2))
+    }
+}
+
+/// Room left at every plate in combination `c` of method pass `m`.
+fn room_of(analysis: &Analysis, m: usize, c: usize, n_posts: usize) -> Room {
+    let comb = &analysis.combinations[c];
+    let mut room = Room { capacity: vec![None; n_posts], uplift: vec![None; n_posts] };
+    // Bearing room as the checks take it: on the layer and at formation, overlap groups included.
+    let mut max = vec![0.0; analysis.ground.plate_area_m2.len()];
+    for p in &analysis.plates {
+        max[p.post] = p.combinations_by_method[m][c].max_kn;
+    }
+    for p in &analysis.plates {
+        let r = &p.combinations_by_method[m][c];
+        if comb.checks_capacity {
+            room.capacity[p.post] = Some((p.swl_kn - r.max_kn, analysis.ground.room_kn(p.post, &max)));
+        }
+        if comb.checks_uplift {
+            room.uplift[p.post] = Some(r.min_kn);
+        }
+    }
+    room
+}
+
+/// Posts reached through more than one of the deck's bearers.
+fn shared_posts(inf: &DeckInfluence, n_posts: usize) -> Vec<bool> {
+    let mut via = vec![u32::MAX; n_posts];
+    let mut shared = vec![false; n_posts];
+    for (k, columns) in inf.flows.iter().enumerate() {
+        for col in columns {
+            for &(p, f) in col {
+                if f == 0.0 {
+                    continue;
+                }
+                let v = &mut via[p as usize];
+                if *v == u32::MAX {
+                    *v = k as u32;
+                } else if *v != k as u32 {
+                    shared[p as usize] = true;
+                }
+            }
+        }
+    }
+    shared
+}
+
+/// The load models of load class `class` that apply to the footprint: (the most it takes, kN;
+/// the area the imposed load already there is counted over; in words). The uniform load q1 over
+/// the footprint; the partial-area load q2 over it (classes 4–6); and, for a point or a footprint
+/// within 500 × 500 mm, the concentrated load F1 on that square. They are alternatives, not added.
+// source: EN 12811-1:2003 Table 3 (q1, q2 via DGUV 201-011; F1 and the rule that the models act
+// separately from memory), REFERENCES §2
+fn class_models(class: &LoadClass, fp: Footprint) -> Vec<(f64, Footprint, String)> {
+    let a = fp.area();
+    let mut out = vec![(class.uniform_kpa * a, fp, format!("load class {}, q1 {} kPa over the footprint", class.class, class.uniform_kpa))];
+    if let Some(q2) = class.partial_kpa {
+        out.push((q2 * a, fp, format!("load class {}, q2 {} kPa over the footprint", class.class, q2)));
+    }
+    if fp.x_m <= 0.5 + 1e-9 && fp.y_m <= 0.5 + 1e-9 {
+        let square = Footprint { x_m: 0.5, y_m: 0.5 };
+        out.push((class.concentrated_500_kn, square, format!("load class {}, concentrated load F1 {} kN on 500 × 500 mm", class.class, class.concentrated_500_kn)));
+    }
+    out
+}
+
+/// Imposed load already on the footprint at (x, y) of deck `d`, kN: area and patch pressures
+/// covering it, and point loads on it.
+fn existing_imposed(scene: &Scene, d: usize, x: f64, y: f64, fp: Footprint) -> f64 {
+    let deck = &scene.decks[d];
+    let rect = crate::scene::geometry::Rect { x: (x - 0.5 * fp.x_m, x + 0.5 * fp.x_m), y: (y - 0.5 * fp.y_m, y + 0.5 * fp.y_m) };
+    let overlap = |r: &crate::scene::geometry::Rect| {
+        let w = (rect.x.1.min(r.x.1) - rect.x.0.max(r.x.0)).max(0.0);
+        let h = (rect.y.1.min(r.y.1) - rect.y.0.max(r.y.0)).max(0.0);
+        w * h
+    };
+    let mut total = 0.0;
+    for l in scene.loads.iter().filter(|l| l.case == crate::scene::loads::Case::Q) {
+        match &l.kind {
+            LoadKind::DeckArea { deck: id, intensity } if *id == deck.id => {
+                let q = intensity.kpa().unwrap_or(0.0);
+                total += q * if fp.is_point() { 0.0 } else { overlap(&deck.extent) };
+            }
+            LoadKind::DeckPatch { deck: id, area, intensity } if *id == deck.id => {
+                total += intensity.kpa().unwrap_or(0.0) * if fp.is_point() { 0.0 } else { overlap(area) };
+            }
+            LoadKind::DeckPoint { deck: id, x: px, y: py, kn } if *id == deck.id => {
+                let inside = if fp.is_point() { (px - x).abs() < 1e-9 && (py - y).abs() < 1e-9 } else { rect.contains(*px, *py, 0.0) };
+                if inside {
+                    total += kn;
+                }
+            }
+            _ => {}
+        }
+    }
+    total
+}

@@ -1,0 +1,232 @@
+//! The spare-capacity map against hand calculations, and re-solved with the reported load placed.
+
+use plateload::check::spare::{spare_map, Limit, SpareSettings};
+use plateload::scene::loads::{Arrangement, Case, LoadKind};
+use plateload::scene::model::BeamMethod;
+use plateload::solve::influence::Footprint;
+use plateload::{analyse, Scene};
+
+use crate::util::*;
+
+/// Four weightless posts at (0|2, 0|3) with SWL 30 kN, bearers along x at y = 0 and y = 3, a
+/// deck over x 0..2 spanning y 0..`y_top` (beyond 3: a cantilever), all simple spans; ground and
+/// bearing generous so the safe working load governs.
+fn strip(y_top: f64) -> Scene {
+    let mut s = bare_scene();
+    s.site.allowable_bearing_kpa = Some(1e5);
+    s.analysis.method = BeamMethod::SimpleSpans;
+    s.posts = vec![post("A1", 0.0, 0.0, 2.0), post("B1", 2.0, 0.0, 2.0), post("A2", 0.0, 3.0, 2.0), post("B2", 2.0, 3.0, 2.0)];
+    s.bearers = vec![bearer("South", 2.0, &["A1", "B1"]), bearer("North", 2.0, &["A2", "B2"])];
+    s.decks = vec![deck("D", 2.0, (0.0, 2.0), (0.0, y_top), &["South", "North"])];
+    s
+}
+
+fn at<'a>(map: &'a plateload::check::spare::SpareMap, x: f64, y: f64) -> &'a plateload::check::spare::SparePoint {
+    map.decks[0].points.iter().find(|p| (p.x - x).abs() < 1e-9 && (p.y - y).abs() < 1e-9).unwrap_or_else(|| panic!("no grid point at ({x}, {y})"))
+}
+
+#[test]
+fn a_deck_strip_on_four_plates_by_the_lever_rule() {
+    // statics, by hand (lever rule across the deck, then along the bearer — AISC Table 3-23 case
+    // 8): a point load at (0.5, 1.0) puts (1 − 1/3)·(1 − 0.5/2) = 0.5 of itself on A1, the most of
+    // any plate. With 6 kN already on A1 (a permanent load on its top), A1 has 30 − 6 = 24 kN of
+    // room: the spare load there is 24 / 0.5 = 48 kN. B1 gets 1/6 (room 30 → 180), A2 1/4
+    // (→ 120), B2 1/12 (→ 360).
+    let mut s = strip(3.0);
+    s.loads.push(load("kit", Case::G, LoadKind::PostTop { post: "A1".into(), kn: 6.0 }));
+    let a = analyse(&s).unwrap();
+    let map = spare_map(&s, &a, &SpareSettings::default()).unwrap();
+    let p = at(&map, 0.5, 1.0);
+    close("spare at (0.5, 1.0)", p.kn.unwrap(), 48.0, 1e-9);
+    match &p.limit {
+        Limit::Plate { plate, check, combination, .. } => assert_eq!((plate.as_str(), *check, combination.as_str()), ("A1", "safe working load", "service")),
+        other => panic!("{other:?}"),
+    }
+    // Mid-deck (1.0, 1.5): a quarter to each plate; A1 binds with 24 / 0.25 = 96 kN.
+    close("spare at the middle", at(&map, 1.0, 1.5).kn.unwrap(), 96.0, 1e-9);
+    // Right on post B2's corner (2, 3) the load goes straight into B2: 30 kN.
+    close("spare over B2", at(&map, 2.0, 3.0).kn.unwrap(), 30.0, 1e-9);
+    assert!(map.not_checked.iter().any(|m| m == "bearer South") && map.not_checked.iter().any(|m| m == "deck D"), "{:?}", map.not_checked);
+}
+
+#[test]
+fn a_cantilever_point_is_limited_by_the_back_plate_lifting() {
+    // statics, by hand: the deck cantilevers 1 m past the north bearer (span 3 m). A point load at
+    // the tip (1.0, 4.0) puts −1/3 of itself on the south bearer (lever rule, AISC Table 3-23 case
+    // 25), −1/6 on each of A1 and B1. Each carries 1 kN of permanent load. Service (G × 1.0, Q ×
+    // 1.0): 1 / (1/6) = 6 kN. Stability (EN 1990 Table A1.2(A): G × 0.9 favourable, Q × 1.5):
+    // 0.9 / (1.5 × 1/6) = 3.6 kN — that governs.
+    let mut s = strip(4.0);
+    for id in ["A1", "B1"] {
+        s.loads.push(load(&format!("kit-{id}"), Case::G, LoadKind::PostTop { post: id.into(), kn: 1.0 }));
+    }
+    let a = analyse(&s).unwrap();
+    let map = spare_map(&s, &a, &SpareSettings::default()).unwrap();
+    let tip = at(&map, 1.0, 4.0);
+    close("spare at the tip", tip.kn.unwrap(), 3.6, 1e-9);
+    match &tip.limit {
+        Limit::Plate { plate, check, combination, .. } => {
+            assert!(plate == "A1" || plate == "B1", "{plate}");
+            assert_eq!((*check, combination.as_str()), ("uplift", "stability"));
+        }
+        other => panic!("{other:?}"),
+    }
+    assert!(tip.limit.words().contains("would lift"), "{}", tip.limit.words());
+}
+
+#[test]
+fn a_point_limited_by_the_deck_load_class() {
+    // source: EN 12811-1:2003 Table 3 (REFERENCES §2): load class 3, q1 = 2.0 kPa, F1 = 1.5 kN on
+    // 500 × 500 mm, applied separately. With q1 already over the whole deck, a point load may add
+    // F1 less the 2.0 × 0.25 = 0.5 kN already on that square: 1.0 kN. A 1.0 × 1.0 m pallet may
+    // add nothing: q1 over its area is already there, and F1 (1.5 kN) < q1 × 1 m² is not larger.
+    let mut s = strip(3.0);
+    s.loads.push(load("class", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: plateload::Intensity::LoadClassUniform(3) }));
+    let a = analyse(&s).unwrap();
+    let map = spare_map(&s, &a, &SpareSettings::default()).unwrap();
+    let p = at(&map, 1.0, 1.5);
+    close("point on a class-3 deck", p.kn.unwrap(), 1.0, 1e-9);
+    assert!(matches!(&p.limit, Limit::Deck { what } if what.contains("F1 1.5 kN")), "{:?}", p.limit);
+    assert_eq!(map.decks[0].load_class, Some(3));
+    let pallet = spare_map(&s, &a, &SpareSettings { footprint: Footprint { x_m: 1.0, y_m: 1.0 }, ..SpareSettings::default() }).unwrap();
+    let p = at(&pallet, 1.0, 1.5);
+    assert_eq!(p.kn, Some(0.0));
+    assert!(p.already_at_limit, "a deck at its class already is shown apart from small spare capacity");
+}
+
+#[test]
+fn bad_settings_are_refused_with_a_clear_message() {
+    // common practice, no source
+    let s = strip(3.0);
+    let a = analyse(&s).unwrap();
+    let refuse = |settings: SpareSettings, needle: &str| {
+        let err = spare_map(&s, &a, &settings).unwrap_err().to_string();
+        assert!(err.contains(needle), "{err}");
+    };
+    refuse(SpareSettings { spacing_m: 0.0, ..Default::default() }, "grid spacing must be at least 0.01 m");
+    refuse(SpareSettings { spacing_m: -1.0, ..Default::default() }, "grid spacing");
+    refuse(SpareSettings { footprint: Footprint { x_m: 1.0, y_m: 0.0 }, ..Default::default() }, "footprint must be a point");
+    refuse(SpareSettings { footprint: Footprint { x_m: 5.0, y_m: 5.0 }, decks: vec!["D".into()], ..Default::default() }, "does not fit on deck D");
+    refuse(SpareSettings { decks: vec!["Nope".into()], ..Default::default() }, "deck \"Nope\" does not exist");
+    refuse(SpareSettings { footprint: Footprint { x_m: 5.0, y_m: 5.0 }, ..Default::default() }, "does not fit on any deck");
+    refuse(SpareSettings { combinations: vec!["factored".into()], ..Default::default() }, "none of factored");
+    refuse(SpareSettings { dynamic_factor: 0.5, ..Default::default() }, "dynamic factor");
+    let mut t = s.clone();
+    for c in &mut t.combinations {
+        c.checks_capacity = false;
+        c.checks_uplift = false;
+    }
+    let b = analyse(&t).unwrap();
+    let err = spare_map(&t, &b, &SpareSettings::default()).unwrap_err().to_string();
+    assert!(err.contains("no combination checks capacity or uplift"), "{err}");
+}
+
+mod properties {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 48, .. ProptestConfig::default() })]
+
+        #[test]
+        fn the_reported_load_brings_its_limit_exactly_to_capacity(
+            nx in 2usize..4, ny in 2usize..4, bay in 1.0f64..2.5, cant in 0.0f64..0.8,
+            method in 0usize..3, q in 0.5f64..4.0, g in 0.0f64..2.0, pick in any::<u64>(), rect in any::<bool>(),
+        ) {
+            // common practice, no source: linearity — placing the reported load at the point and
+            // solving again brings the limiting check to its limit (1e-6), and no other beyond
+            // it; 1 % more exceeds it.
+            let mut s = bare_scene();
+            s.site.allowable_bearing_kpa = Some(400.0);
+            s.analysis.method = [BeamMethod::SimpleSpans, BeamMethod::Continuous, BeamMethod::Envelope][method];
+            for j in 0..ny {
+                for i in 0..nx {
+                    s.posts.push(post(&format!("P{i}-{j}"), i as f64 * bay, j as f64 * bay, 2.0));
+                }
+            }
+            for j in 0..ny {
+                let ids: Vec<String> = (0..nx).map(|i| format!("P{i}-{j}")).collect();
+                let refs: Vec<&str> = ids.iter().map(String::as_str).collect();
+                s.bearers.push(bearer(&format!("L{j}"), 2.0, &refs));
+            }
+            let names: Vec<String> = (0..ny).map(|j| format!("L{j}")).collect();
+            let refs: Vec<&str> = names.iter().map(String::as_str).collect();
+            s.decks.push(deck("D", 2.0, (0.0, (nx - 1) as f64 * bay), (0.0, (ny - 1) as f64 * bay + cant), &refs));
+            s.loads.push(load("q", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(q) }));
+            s.loads.push(load("g", Case::G, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(g) }));
+            let a = analyse(&s).unwrap();
+            let fp = if rect { Footprint { x_m: 0.6, y_m: 0.4 } } else { Footprint::POINT };
+            let map = spare_map(&s, &a, &SpareSettings { spacing_m: 0.5, footprint: fp, ..SpareSettings::default() }).unwrap();
+            let candidates: Vec<_> = map.decks[0].points.iter().filter(|p| p.kn.is_some_and(|k| k > 1e-6) && matches!(p.limit, Limit::Plate { .. })).collect();
+            prop_assume!(!candidates.is_empty());
+            let p = candidates[(pick % candidates.len() as u64) as usize];
+            let kn = p.kn.unwrap();
+            let Limit::Plate { plate, check, combination, .. } = &p.limit else { unreachable!() };
+            let place = |factor: f64| {
+                let mut t = s.clone();
+                let kind = if rect {
+                    LoadKind::DeckPatch { deck: "D".into(), area: plateload::Rect { x: (p.x - 0.3, p.x + 0.3), y: (p.y - 0.2, p.y + 0.2) }, intensity: kpa(factor * kn / fp.area()) }
+                } else {
+                    LoadKind::DeckPoint { deck: "D".into(), x: p.x, y: p.y, kn: factor * kn }
+                };
+                let mut l = load("placed", Case::Q, kind);
+                l.arrangement = Arrangement::Whole;
+                t.loads.push(l);
+                analyse(&t).unwrap()
+            };
+            let b = place(1.0);
+            let c = b.combinations.iter().position(|x| &x.name == combination).unwrap();
+            let r = &b.plates[b.plate_index(plate).unwrap()];
+            let cap = match *check {
+                "safe working load" => r.swl_kn,
+                "ground bearing" => r.allowable_kpa.unwrap() * r.bearing_area_m2,
+                _ => 0.0,
+            };
+            let reached = if *check == "uplift" { r.combinations[c].min_kn } else { r.combinations[c].max_kn };
+            prop_assert!((reached - cap).abs() <= 1e-6 * cap.abs().max(1.0), "{plate} {check} {combination}: {reached} vs {cap} with {kn} kN at ({}, {})", p.x, p.y);
+            // Nothing else goes beyond its limit.
+            for r in &b.plates {
+                for (k, comb) in b.combinations.iter().enumerate() {
+                    let rc = &r.combinations[k];
+                    if comb.checks_capacity {
+                        prop_assert!(rc.max_kn <= r.swl_kn.min(r.allowable_kpa.unwrap() * r.bearing_area_m2) * (1.0 + 1e-6) + 1e-9 || a.plates[a.plate_index(&r.id).unwrap()].combinations[k].max_kn > r.swl_kn.min(r.allowable_kpa.unwrap() * r.bearing_area_m2), "{} over in {}", r.id, comb.name);
+                    }
+                    if comb.checks_uplift {
+                        prop_assert!(rc.min_kn >= -1e-6 || a.plates[a.plate_index(&r.id).unwrap()].combinations[k].min_kn < 0.0, "{} lifts in {}", r.id, comb.name);
+                    }
+                }
+            }
+            // 1 % more goes beyond the limit: by half the extra load's effect at least.
+            let d = place(1.01);
+            let r1 = &d.plates[d.plate_index(plate).unwrap()].combinations[c];
+            let (before, after) = if *check == "uplift" { (-reached, -r1.min_kn) } else { (reached, r1.max_kn) };
+            let step = after - before;
+            let limit = if *check == "uplift" { 0.0 } else { cap };
+            prop_assert!(step > 0.0 && after - limit >= 0.5 * step, "1 % more must exceed the limit of {plate}: {before} → {after} against {limit}");
+        }
+    }
+}
+
+#[test]
+fn a_point_beyond_the_tipping_edge_is_limited_by_overturning() {
+    // statics, by hand: the deck cantilevers 2 m past the north bearer (y = 3) of a one-bay tower
+    // (its two lines joined by transoms). Each plate carries
+    // 1 kN of permanent load. About the north edge the two south plates restore 2 × 1 × 3 = 6 kN·m.
+    // With a target factor of 2.0 the room is 6 / 2 = 3 kN·m: a load at the tip (lever 2 m) may
+    // add 1.5 kN. (EQU, EN 1990 Table A1.2(A): 0.9 × 6 = 5.4 ≥ 1.5 × 2 × P → 1.8 kN; the south
+    // plates lift at 0.9 / (1.5 × 1/3) = 1.8 kN too: both less strict here.)
+    let mut s = strip(5.0);
+    for id in ["A1", "B1", "A2", "B2"] {
+        s.loads.push(load(&format!("kit-{id}"), Case::G, LoadKind::PostTop { post: id.into(), kn: 1.0 }));
+    }
+    // Transoms join the two lines into one structure (weightless, carrying nothing).
+    s.bearers.push(bearer("West", 1.0, &["A1", "A2"]));
+    s.bearers.push(bearer("East", 1.0, &["B1", "B2"]));
+    s.stability.target_factor = 2.0;
+    let a = analyse(&s).unwrap();
+    let map = spare_map(&s, &a, &SpareSettings::default()).unwrap();
+    let tip = at(&map, 1.0, 5.0);
+    close("spare at the tip", tip.kn.unwrap(), 1.5, 1e-9);
+    assert!(matches!(&tip.limit, Limit::Overturning { form: "factor of safety", .. }), "{:?}", tip.limit);
+    assert!(tip.limit.words().starts_with("overturning about"), "{}", tip.limit.words());
+}
