@@ -53,6 +53,9 @@ pub struct SnapshotPlugin;
 impl Plugin for SnapshotPlugin {
     fn build(&self, app: &mut App) {
         app.init_resource::<PictureState>().add_systems(Startup, preselect).add_systems(Last, run_picture);
+        // A picture shows the scene, not wherever the display's pointer happens to rest: no
+        // hover outline, no clicks or camera drags from the mouse.
+        app.configure_sets(Update, super::view::PointerSystems.run_if(|| false));
     }
 }
 
