@@ -415,13 +415,16 @@ pub struct LabelRequest {
     pub anchor: Rect,
     /// Label size, pixels.
     pub size: Vec2,
+    /// Where its leader starts: the plate's coloured face (without the cue), pixels.
+    pub face: Rect,
 }
 
 /// Place labels near their anchors without covering any plate, another label or a box to keep
 /// clear: the first of eight positions around the anchor (then further out) that is free and
-/// inside `bounds`, preferring one whose leader crosses no other plate. `None` (no label) when
-/// there is no such place, as in a dense grid seen from afar: a label never hides a plate.
-pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], keep_clear: &[Rect], bounds: Rect) -> Vec<Option<Rect>> {
+/// inside `bounds`, preferring one whose leader crosses no other plate's cue, then one whose
+/// leader crosses no other plate's coloured face (`faces`: every plate's). `None` (no label)
+/// when there is no such place, as in a dense grid seen from afar: a label never hides a plate.
+pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], faces: &[Rect], keep_clear: &[Rect], bounds: Rect) -> Vec<Option<Rect>> {
     let mut placed: Vec<Option<Rect>> = Vec::with_capacity(requests.len());
     for req in requests {
         let a = req.anchor;
@@ -452,8 +455,21 @@ pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], keep_clear: &[Re
                 && !placed.iter().flatten().any(|o| o.expand(2.0).intersects(*r))
                 && !plates.iter().any(|p| p.intersects(*r))
         };
-        let clean_leader = |r: &Rect| !plates.iter().filter(|p| !p.intersects(a)).any(|p| segment_hits_rect(leader_start(a, r.center()), r.center(), **p));
-        placed.push(rects.iter().find(|r| allowed(r) && clean_leader(r)).or_else(|| rects.iter().find(|r| allowed(r))).copied());
+        // Leaders are drawn over the scene: one across another plate's face hides a strip of
+        // its colour. (Footprints with cues overlap their neighbours' when seen obliquely, so
+        // the plates whose cue touches this one's are left out of the first, stricter test.)
+        let leader = |r: &Rect| (leader_start(req.face, r.center()), r.center());
+        let clean_of_cues = |r: &Rect| !plates.iter().filter(|p| !p.intersects(a)).any(|p| segment_hits_rect(leader(r).0, leader(r).1, **p));
+        let faces: Vec<&Rect> = faces.iter().filter(|f| f.intersects(reach) && **f != req.face).collect();
+        let clean_of_faces = |r: &Rect| !faces.iter().any(|f| segment_hits_rect(leader(r).0, leader(r).1, **f));
+        placed.push(
+            rects
+                .iter()
+                .find(|r| allowed(r) && clean_of_faces(r) && clean_of_cues(r))
+                .or_else(|| rects.iter().find(|r| allowed(r) && clean_of_faces(r)))
+                .or_else(|| rects.iter().find(|r| allowed(r)))
+                .copied(),
+        );
     }
     placed
 }
@@ -491,22 +507,45 @@ pub fn leader_start(anchor: Rect, to: Pos2) -> Pos2 {
 
 /// Whether the segment a–b passes through the rectangle (slab test).
 pub fn segment_hits_rect(a: Pos2, b: Pos2, r: Rect) -> bool {
+    segment_in_rect(a, b, r).is_some()
+}
+
+/// The part of segment a–b inside the rectangle, as parameters `t0..t1` along it (slab test).
+fn segment_in_rect(a: Pos2, b: Pos2, r: Rect) -> Option<(f32, f32)> {
     let (mut t0, mut t1) = (0.0f32, 1.0f32);
     for (o, d, lo, hi) in [(a.x, b.x - a.x, r.min.x, r.max.x), (a.y, b.y - a.y, r.min.y, r.max.y)] {
         if d.abs() < 1e-6 {
             if o < lo || o > hi {
-                return false;
+                return None;
             }
         } else {
             let (u, v) = ((lo - o) / d, (hi - o) / d);
             t0 = t0.max(u.min(v));
             t1 = t1.min(u.max(v));
             if t0 > t1 {
-                return false;
+                return None;
             }
         }
     }
-    true
+    Some((t0, t1))
+}
+
+/// The pieces of segment a–b outside every rectangle, in order from `a`.
+pub fn segment_outside_rects(a: Pos2, b: Pos2, rects: &[Rect]) -> Vec<[Pos2; 2]> {
+    let mut inside: Vec<(f32, f32)> = rects.iter().filter_map(|r| segment_in_rect(a, b, *r)).collect();
+    inside.sort_by(|x, y| x.0.total_cmp(&y.0));
+    let mut pieces = Vec::new();
+    let mut t = 0.0f32;
+    for (t0, t1) in inside {
+        if t0 > t {
+            pieces.push([a.lerp(b, t), a.lerp(b, t0)]);
+        }
+        t = t.max(t1);
+    }
+    if t < 1.0 {
+        pieces.push([a.lerp(b, t), b]);
+    }
+    pieces
 }
 
 /// Label the worst plates, every plate that is over capacity or lifts (up to [`MAX_LABELS`]),
@@ -552,6 +591,9 @@ struct LabelKey {
 struct PlacedLabel {
     rect: Rect,
     leader_from: Pos2,
+    /// The leader's visible pieces: it passes under other plates' faces, so it never hides
+    /// their colour.
+    leader: Vec<[Pos2; 2]>,
     /// Band colour (grey without a utilisation) and whether the plate fails; `None` for the
     /// centre of gravity.
     band: Option<(Color32, bool)>,
@@ -570,7 +612,9 @@ fn paint_labels(painter: &egui::Painter, labels: &[PlacedLabel]) {
         let lr = l.rect;
         match l.band {
             Some((band, failing)) => {
-                painter.line_segment([l.leader_from, lr.center()], Stroke::new(2.0, Color32::from_gray(20)));
+                for piece in &l.leader {
+                    painter.line_segment(*piece, Stroke::new(2.0, Color32::from_gray(20)));
+                }
                 painter.circle_filled(l.leader_from, 3.0, Color32::from_gray(20));
                 painter.rect_filled(lr, 3.0, Color32::from_rgba_unmultiplied(255, 255, 255, 240));
                 painter.rect_filled(Rect::from_min_size(lr.min, Vec2::new(7.0, lr.height())), 2.0, band);
@@ -579,7 +623,9 @@ fn paint_labels(painter: &egui::Painter, labels: &[PlacedLabel]) {
                 painter.galley(Pos2::new(lr.min.x + 12.0, lr.min.y + 3.0), l.text.clone(), Color32::BLACK);
             }
             None => {
-                painter.line_segment([l.leader_from, lr.center()], Stroke::new(1.0, Color32::from_gray(40)));
+                for piece in &l.leader {
+                    painter.line_segment(*piece, Stroke::new(1.0, Color32::from_gray(40)));
+                }
                 painter.rect_filled(lr, 2.0, Color32::from_rgba_unmultiplied(255, 255, 255, 200));
                 painter.galley(lr.min + Vec2::new(4.0, 2.0), l.text.clone(), Color32::BLACK);
             }
@@ -616,6 +662,7 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
         out.map(|o| o.expand(2.0))
     };
     let plates: Vec<Option<Rect>> = (0..a.plates.len()).map(|i| footprint(i, true)).collect();
+    let faces: Vec<Option<Rect>> = (0..a.plates.len()).map(|i| footprint(i, false)).collect();
     let order = worst_first(a, comb);
     let mut chosen: Vec<usize> = Vec::new();
     let add = |i: usize, chosen: &mut Vec<usize>| {
@@ -667,28 +714,35 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
     let mut requests: Vec<LabelRequest> = chosen
         .iter()
         .zip(&galleys)
-        .filter_map(|(&i, g)| plates[i].map(|anchor| LabelRequest { anchor, size: g.size() + Vec2::new(18.0, 6.0) }))
+        .filter_map(|(&i, g)| Some(LabelRequest { anchor: plates[i]?, size: g.size() + Vec2::new(18.0, 6.0), face: faces[i]? }))
         .collect();
     let cog_galley = painter.layout_no_wrap("centre of gravity (G)".into(), FontId::proportional(13.0), Color32::BLACK);
     if let Some(c) = cog {
-        requests.push(LabelRequest { anchor: Rect::from_center_size(c, Vec2::splat(16.0)), size: cog_galley.size() + Vec2::new(8.0, 4.0) });
+        let anchor = Rect::from_center_size(c, Vec2::splat(16.0));
+        requests.push(LabelRequest { anchor, size: cog_galley.size() + Vec2::new(8.0, 4.0), face: anchor });
     }
     let all_plates: Vec<Rect> = plates.iter().flatten().copied().collect();
+    let all_faces: Vec<Rect> = faces.iter().flatten().copied().collect();
     let bounds = rect.shrink(4.0);
-    let placed = place_labels(&requests, &all_plates, keep_clear, bounds);
+    let placed = place_labels(&requests, &all_plates, &all_faces, keep_clear, bounds);
     let mut out = Vec::new();
     let mut k = 0;
     for (n, &i) in chosen.iter().enumerate() {
-        let Some(anchor) = footprint(i, false) else { continue };
+        let (Some(_), Some(anchor)) = (plates[i], faces[i]) else { continue };
         let slot = placed[k];
         k += 1;
         let Some(lr) = slot else { continue };
         let r = reading(a, &a.plates[i], comb);
-        out.push(PlacedLabel { rect: lr, leader_from: leader_start(anchor, lr.center()), band: Some((band_colour(r.band()), !r.status.is_ok())), text: galleys[n].clone() });
+        let from = leader_start(anchor, lr.center());
+        let others: Vec<Rect> = all_faces.iter().filter(|f| **f != anchor).copied().collect();
+        let leader = segment_outside_rects(from, lr.center(), &others);
+        out.push(PlacedLabel { rect: lr, leader_from: from, leader, band: Some((band_colour(r.band()), !r.status.is_ok())), text: galleys[n].clone() });
     }
     if let (Some(c), Some(Some(lr))) = (cog, placed.get(k)) {
         let anchor = Rect::from_center_size(c, Vec2::splat(16.0));
-        out.push(PlacedLabel { rect: *lr, leader_from: leader_start(anchor, lr.center()), band: None, text: cog_galley });
+        let from = leader_start(anchor, lr.center());
+        let leader = segment_outside_rects(from, lr.center(), &all_faces);
+        out.push(PlacedLabel { rect: *lr, leader_from: from, leader, band: None, text: cog_galley });
     }
     out
 }
@@ -702,8 +756,8 @@ mod tests {
         // common practice, no source
         let plate = Rect::from_min_size(Pos2::new(50.0, 50.0), Vec2::splat(10.0));
         let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::new(160.0, 110.0));
-        let req = LabelRequest { anchor: plate, size: Vec2::new(60.0, 30.0) };
-        let placed = place_labels(&vec![req; 12], &[plate], &[], bounds);
+        let req = LabelRequest { anchor: plate, size: Vec2::new(60.0, 30.0), face: plate };
+        let placed = place_labels(&vec![req; 12], &[plate], &[plate], &[], bounds);
         let shown: Vec<Rect> = placed.iter().flatten().copied().collect();
         assert!(!shown.is_empty() && shown.len() < 12, "{}", shown.len());
         for (i, r) in shown.iter().enumerate() {
@@ -714,12 +768,47 @@ mod tests {
     }
 
     #[test]
+    fn a_leader_does_not_cross_a_neighbour_plate_whose_cue_touches_its_own() {
+        // common practice, no source: a leader drawn across another plate hides a strip of its
+        // colour. Here the neighbour's cue overlaps this plate's (as rings do seen obliquely)
+        // and its face lies on the leader to the first place tried (up and to the right).
+        let face = Rect::from_min_max(Pos2::new(100.0, 100.0), Pos2::new(120.0, 120.0));
+        let anchor = face.expand(10.0);
+        let other_face = Rect::from_min_max(Pos2::new(133.0, 89.0), Pos2::new(137.0, 93.0));
+        let other = other_face.expand(6.0);
+        assert!(other.intersects(anchor));
+        let req = LabelRequest { anchor, size: Vec2::new(60.0, 18.0), face };
+        let first = Rect::from_min_size(Pos2::new(anchor.max.x + 10.0, anchor.min.y - 10.0 - 18.0), req.size);
+        assert!(segment_hits_rect(leader_start(face, first.center()), first.center(), other_face), "the first place would cross it");
+        let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::splat(400.0));
+        let placed = place_labels(&[req], &[anchor, other], &[face, other_face], &[], bounds)[0].expect("room for the label");
+        assert!(!segment_hits_rect(leader_start(face, placed.center()), placed.center(), other_face), "{placed:?}");
+        assert!(!placed.intersects(other) && !placed.intersects(anchor));
+    }
+
+    #[test]
+    fn a_leader_is_drawn_only_outside_other_plates() {
+        // common practice, no source: a line passing under two boxes shows three pieces, none
+        // of them inside a box; a line clear of the boxes is drawn whole
+        let a = Pos2::new(0.0, 10.0);
+        let b = Pos2::new(100.0, 10.0);
+        let boxes = [Rect::from_min_max(Pos2::new(60.0, 0.0), Pos2::new(70.0, 20.0)), Rect::from_min_max(Pos2::new(20.0, 0.0), Pos2::new(30.0, 20.0))];
+        let pieces = segment_outside_rects(a, b, &boxes);
+        let xs = |pieces: &[[Pos2; 2]]| pieces.iter().map(|[p, q]| [p.x.round(), q.x.round()]).collect::<Vec<_>>();
+        assert_eq!(xs(&pieces), vec![[0.0, 20.0], [30.0, 60.0], [70.0, 100.0]]);
+        assert_eq!(segment_outside_rects(a, b, &[Rect::from_min_max(Pos2::new(40.0, 30.0), Pos2::new(50.0, 40.0))]), vec![[a, b]]);
+        // Overlapping boxes, and one that covers the end.
+        let pieces = segment_outside_rects(a, b, &[Rect::from_min_max(Pos2::new(20.0, 0.0), Pos2::new(50.0, 20.0)), Rect::from_min_max(Pos2::new(40.0, 0.0), Pos2::new(60.0, 20.0)), Rect::from_min_max(Pos2::new(90.0, 0.0), Pos2::new(120.0, 20.0))]);
+        assert_eq!(xs(&pieces), vec![[0.0, 20.0], [60.0, 90.0]]);
+    }
+
+    #[test]
     fn labels_avoid_plates_and_each_other() {
         // common practice, no source: labels must not hide what they label
         let plates = vec![Rect::from_min_size(Pos2::new(100.0, 100.0), Vec2::splat(20.0)), Rect::from_min_size(Pos2::new(140.0, 60.0), Vec2::splat(20.0))];
-        let req = |p: &Rect| LabelRequest { anchor: *p, size: Vec2::new(60.0, 18.0) };
+        let req = |p: &Rect| LabelRequest { anchor: *p, size: Vec2::new(60.0, 18.0), face: *p };
         let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::splat(400.0));
-        let placed = place_labels(&[req(&plates[0]), req(&plates[1]), req(&plates[0])], &plates, &[], bounds);
+        let placed = place_labels(&[req(&plates[0]), req(&plates[1]), req(&plates[0])], &plates, &plates, &[], bounds);
         let placed: Vec<Rect> = placed.into_iter().map(|r| r.expect("room for every label")).collect();
         for (i, r) in placed.iter().enumerate() {
             assert!(bounds.contains_rect(*r));
