@@ -98,6 +98,7 @@ fn run_picture(
     mut state: ResMut<PictureState>,
     mut actions: MessageWriter<Action>,
     mut exit: MessageWriter<AppExit>,
+    panels: Option<Res<super::panels::Panels>>,
 ) {
     let Mode::Picture(spec) = &*mode else { return };
     let started = *state.started.get_or_insert_with(Instant::now);
@@ -185,6 +186,8 @@ fn run_picture(
             "distance": c.distance,
             "fov_y_deg": c.fov_y_deg,
             "orthographic": c.orthographic,
+            // Label boxes as drawn over the view, [min x, min y, max x, max y] in pixels.
+            "labels": panels.as_ref().map_or_else(Vec::new, |p| p.labels.boxes()),
         });
         if let Err(e) = plateload::scene::io::write_atomic(path, json.to_string().as_bytes()) {
             error!("could not write {}: {e}", path.display());

@@ -607,6 +607,13 @@ pub struct LabelCache {
     labels: Vec<PlacedLabel>,
 }
 
+impl LabelCache {
+    /// The boxes of the labels last placed, [min x, min y, max x, max y] in window pixels.
+    pub fn boxes(&self) -> Vec<[f32; 4]> {
+        self.labels.iter().map(|l| [l.rect.min.x, l.rect.min.y, l.rect.max.x, l.rect.max.y]).collect()
+    }
+}
+
 fn paint_labels(painter: &egui::Painter, labels: &[PlacedLabel]) {
     for l in labels {
         let lr = l.rect;
