@@ -131,13 +131,12 @@ impl SceneDoc {
 
 /// An empty scene: no support types, posts or members; the default combinations and settings.
 pub fn new_scene(name: &str) -> Scene {
-    // The engine needs a number here. It is a placeholder the planner replaces with the site's
-    // value (the status line and the site panel say so); every output shows it.
-    Scene::empty(name, PLACEHOLDER_ALLOWABLE_KPA)
+    // No allowable bearing pressure until the planner enters the site's: until then ground
+    // bearing is reported as not checked, never judged against a made-up figure.
+    let mut scene = Scene::empty(name, 0.0);
+    scene.site.allowable_bearing_kpa = None;
+    scene
 }
-
-/// Allowable bearing pressure of a new scene until the planner enters the site's, kPa.
-pub const PLACEHOLDER_ALLOWABLE_KPA: f64 = 100.0;
 
 /// The selected elements and the one under the pointer.
 #[derive(Resource, Default, Debug, Clone, PartialEq)]

@@ -481,6 +481,7 @@ fn a_new_file_starts_empty_and_unsaved_and_its_first_save_creates_it() {
     let d = doc(&app);
     assert!(d.scene.posts.is_empty() && d.scene.bearers.is_empty() && d.scene.decks.is_empty() && d.scene.loads.is_empty());
     assert_eq!(d.scene.site.name, "new-site");
+    assert_eq!(d.scene.site.allowable_bearing_kpa, None, "no allowable until the planner enters one");
     assert!(d.is_dirty(), "marked unsaved");
     assert!(d.title().starts_with('●'), "{}", d.title());
     assert!(!path.exists(), "nothing written before a save");

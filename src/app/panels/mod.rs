@@ -129,7 +129,7 @@ pub fn layout_for_empty_scene(doc: Res<SceneDoc>, mut panels: ResMut<Panels>, mu
     }
     panels.right = RightTab::Layout;
     let what = if doc.path.as_ref().is_some_and(|p| !p.exists()) { "new file, not saved yet" } else { "empty scene" };
-    status.info(format!("{what}: lay out posts and members with the layout generator (right) or the tools (left), and enter the site's allowable bearing pressure under Site & combinations"));
+    status.info(format!("{what}: lay out posts and members with the layout generator (right) or the tools (left), and enter the site's allowable bearing pressure under Site & combinations (ground bearing is not checked until then)"));
 }
 
 /// Draw the panels (editor) or only the overlay (picture), and note where the 3D view is.
