@@ -148,6 +148,9 @@ fn arranged(supports: &[f64], ei: f64, loads: &[BeamLoad]) -> anyhow::Result<(Ve
         section: None,
     });
     scene.analysis.stiffness.bearer_knm2 = ei;
+    // Vertical load only: an unbraced single line of posts has no horizontal load path, so no
+    // notional load is generated.
+    scene.horizontal.notional = plateload::scene::model::NotionalRule::Off;
     for (i, l) in loads.iter().enumerate() {
         if let BeamLoad::Uniform { from, to, w } = *l {
             let kind = LoadKind::BearerLine { bearer: "B".into(), from_m: from - supports[0], to_m: to - supports[0], kn_per_m: w };

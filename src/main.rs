@@ -593,6 +593,34 @@ fn solve_text(a: &Analysis) -> String {
             let _ = writeln!(s, "  {id} ({case}): ({:.3}, {:.3}), {:.3} kN", num(x), num(y), num(x.hypot(y)));
         }
     }
+    let h = &a.horizontal;
+    let _ = writeln!(s, "\nhorizontal loads go down the braced bays:");
+    if h.planes.is_empty() {
+        let _ = writeln!(s, "  no braced plane");
+    }
+    for p in &h.planes {
+        let to = p.braced_to_m.map_or("not counted".to_owned(), |z| format!("braced up to {:.3} m", num(z)));
+        let cut = p.cut.as_ref().map_or(String::new(), |c| format!(" (bracing above not counted: {c})"));
+        let _ = writeln!(s, "  {}: {to}, {} brace(s) in bays {}{cut}", p.name, p.diagonals, p.bays.join(", "));
+    }
+    for d in &h.diaphragms {
+        let _ = writeln!(s, "  {d}");
+    }
+    if let Some(sharing) = h.sharing {
+        let _ = writeln!(s, "  {sharing}");
+    }
+    let _ = writeln!(s, "  notional load: {}", h.notional);
+    for c in &h.combinations {
+        let _ = writeln!(s, "  combination {c}");
+    }
+    let braced: Vec<&plateload::PlateResult> = a.plates.iter().filter(|p| p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10 || !p.brace.bays.is_empty()).collect();
+    if !braced.is_empty() {
+        let bay_names = a.bay_names();
+        let _ = writeln!(s, "brace forces at the plates (vertical components, unfactored, worst direction; + down, − up):");
+        for p in braced {
+            let _ = writeln!(s, "  {:<10} {:>+9.3} / {:>+9.3} kN   bays {}", p.id, num(p.brace.max_kn), num(p.brace.min_kn), if p.brace.bays.is_empty() { "-".to_owned() } else { bay_names_of(&bay_names, &p.brace.bays) });
+        }
+    }
     let st = &a.stability;
     let _ = write!(s, "\nstability: permanent load {:.3} kN", num(st.permanent_kn));
     if let Some((x, y)) = st.centre_of_gravity {
@@ -706,6 +734,11 @@ fn solve_text(a: &Analysis) -> String {
         }
     }
     s
+}
+
+/// The named bays of a plate, joined.
+fn bay_names_of(names: &[String], bays: &[u32]) -> String {
+    bays.iter().map(|&b| names.get(b as usize).map_or("?", String::as_str)).collect::<Vec<_>>().join(", ")
 }
 
 #[cfg(feature = "viewer")]

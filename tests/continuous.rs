@@ -29,6 +29,8 @@ fn bearer(id: &str, posts: &[&str]) -> Bearer {
 
 fn scene() -> Scene {
     let mut s = Scene::empty("test site", 1.0e6);
+    // Vertical load paths on their own: no notional load generated.
+    s.horizontal.notional = plateload::scene::model::NotionalRule::Off;
     s.support_types.push(SupportType::new("S", PlateSize { width_m: 0.15, length_m: 0.15 }, 1.0e6, None));
     s
 }
@@ -145,7 +147,7 @@ fn deck_on_three_bearers() -> Scene {
         s.bearers.push(bearer(&format!("B{j}"), &refs));
         names.push(format!("B{j}"));
     }
-    s.decks.push(Deck { id: "D".into(), level: 2.0, extent: Rect { x: (0.0, 3.0), y: (0.0, 2.0) }, bearers: names, self_weight_kpa: 0.0, method: None, joints: Some(Vec::new()), decking: None });
+    s.decks.push(Deck { id: "D".into(), level: 2.0, extent: Rect { x: (0.0, 3.0), y: (0.0, 2.0) }, bearers: names, self_weight_kpa: 0.0, method: None, joints: Some(Vec::new()), decking: None, diaphragm: false });
     let mut q = Load::new("q", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: Intensity::Kpa(2.0) });
     q.arrangement = plateload::scene::loads::Arrangement::Whole;
     s.loads.push(q);

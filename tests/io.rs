@@ -233,9 +233,9 @@ fn the_twenty_post_demo_is_short() {
     let scene = parse_scene(text, "demo").unwrap();
     assert_eq!(scene.posts.len(), 20);
     let elements = scene.support_types.len() + scene.posts.len() + scene.bearers.len() + scene.decks.len() + scene.braces.len() + scene.loads.len() + scene.combinations.len();
-    // Beyond one line per element: the header comment, the site, the stability and analysis
-    // settings (one line per field) and the brackets.
-    assert!(text.lines().count() < elements + 45, "{} lines for {elements} elements", text.lines().count());
+    // Beyond one line per element: the header comment, the site, the stability, horizontal-load
+    // and analysis settings (one line per field) and the brackets.
+    assert!(text.lines().count() < elements + 50, "{} lines for {elements} elements", text.lines().count());
 }
 
 #[test]

@@ -5,6 +5,8 @@ mod util;
 
 // Load paths: beam-formula cases carried through whole scenes, rigid base, stability.
 mod solve;
+// Horizontal loads down the braced bays: hand calculations, refusals, diaphragms, combinations.
+mod braced;
 // Combinations, utilisation, bearing, schedule and JSON.
 mod check;
 // Overturning, kentledge, sliding, hold-down and ground bearing against hand calculations.

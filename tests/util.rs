@@ -23,9 +23,11 @@ pub fn demo_scenes() -> Vec<(String, Scene)> {
     out
 }
 
-/// An empty scene with one weightless support type "S" (SWL 30 kN, 150 × 150 plate).
+/// An empty scene with one weightless support type "S" (SWL 30 kN, 150 × 150 plate), and no
+/// notional load generated: the vertical load paths are tested on their own.
 pub fn bare_scene() -> Scene {
     let mut s = Scene::empty("test site", 100.0);
+    s.horizontal.notional = plateload::scene::model::NotionalRule::Off;
     s.support_types.push(SupportType::new("S", PlateSize { width_m: 0.15, length_m: 0.15 }, 30.0, None));
     s
 }
@@ -53,7 +55,7 @@ pub fn bearer(id: &str, level: f64, posts: &[&str]) -> Bearer {
 
 /// A weightless deck.
 pub fn deck(id: &str, level: f64, x: (f64, f64), y: (f64, f64), bearers: &[&str]) -> Deck {
-    Deck { id: id.into(), level, extent: Rect { x, y }, bearers: bearers.iter().map(|b| b.to_string()).collect(), self_weight_kpa: 0.0, method: None, joints: None, decking: None }
+    Deck { id: id.into(), level, extent: Rect { x, y }, bearers: bearers.iter().map(|b| b.to_string()).collect(), self_weight_kpa: 0.0, method: None, joints: None, decking: None, diaphragm: false }
 }
 
 /// A load.

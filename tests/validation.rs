@@ -30,7 +30,7 @@ fn all_problems_are_reported_together_with_ids() {
     s.loads.push(load("Off", Case::Q, LoadKind::DeckPoint { deck: "D".into(), x: 10.0, y: 1.0, kn: 1.0 }));
     s.loads.push(load("NoDeck", Case::Q, LoadKind::DeckArea { deck: "Missing".into(), intensity: kpa(1.0) }));
     s.loads.push(load("Class9", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: plateload::Intensity::LoadClassUniform(9) }));
-    s.loads.push(load("Push", Case::W, LoadKind::Horizontal { x: 0.0, y: 0.0, level: 2.0, kn: 1.0, direction: PLUS_X }));
+    s.loads.push(load("Push", Case::W, LoadKind::Horizontal { x: 0.5, y: 0.5, level: 2.0, kn: 1.0, direction: PLUS_X }));
     let list = problems(&s);
     has(&list, "post A1: id is already used");
     has(&list, "post X: has no support type");
@@ -43,7 +43,7 @@ fn all_problems_are_reported_together_with_ids() {
     has(&list, "load Off: point (10, 1) is not on deck D");
     has(&list, "load NoDeck: deck \"Missing\" does not exist");
     has(&list, "load Class9: load class 9 does not exist");
-    has(&list, "load Push: acts horizontally along x, but no brace covers that direction");
+    has(&list, "load Push: acts at (0.5, 0.5) at 2 m, which is neither on a post nor on a diaphragm");
     assert!(list.len() >= 12, "{list:#?}");
 }
 
@@ -63,17 +63,19 @@ fn degenerate_geometry_is_refused_not_solved() {
 
 #[test]
 fn a_line_of_plates_cannot_resist_overturning_across_it() {
-    // common practice, no source: plates on one line are a hinge about that line; no brace can
-    // cover the direction across it, so a push that way is refused before solving.
+    // common practice, no source: plates on one line are a hinge about that line; a brace in the
+    // line braces it along the line only, so a push across it is refused, naming the post.
     let mut s = bare_scene();
     s.posts = vec![post("A", 0.0, 0.0, 3.0), post("B", 2.0, 0.0, 3.0)];
     s.braces = vec![brace("diag", "A", "B", 3.0)];
-    s.loads.push(load("Y", Case::W, LoadKind::Horizontal { x: 1.0, y: 0.0, level: 3.0, kn: 1.0, direction: plateload::PlanDirection::PlusY }));
-    has(&problems(&s), "load Y: acts horizontally along y");
-    // Along the line it is taken: 1 kN at 3 m over a 2 m base → ∓1.5 kN.
-    s.loads[0] = load("X", Case::W, LoadKind::Horizontal { x: 1.0, y: 0.0, level: 3.0, kn: 1.0, direction: PLUS_X });
+    s.loads.push(load("Y", Case::W, LoadKind::Horizontal { x: 2.0, y: 0.0, level: 3.0, kn: 1.0, direction: plateload::PlanDirection::PlusY }));
+    let err = analyse(&s).unwrap_err().to_string();
+    assert!(err.contains("load Y") && err.contains("post B is not held along y"), "{err}");
+    // Along the line it is taken: 1 kN at 3 m over a 2 m bay → ∓1.5 kN.
+    s.loads[0] = load("X", Case::W, LoadKind::Horizontal { x: 2.0, y: 0.0, level: 3.0, kn: 1.0, direction: PLUS_X });
     let a = analyse(&s).unwrap();
-    // source: rigid-base couple M/(lever arm), common practice
+    // source: a diagonal carrying shear H over rise h and run b puts ±H·h/b into the standards
+    // (REFERENCES §8, Peurifoy & Oberlender Ex. 5-19)
     close("A", case_load(&a, "A", Case::W), -1.5, 1e-12);
     close("B", case_load(&a, "B", Case::W), 1.5, 1e-12);
 }

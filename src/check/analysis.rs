@@ -3,6 +3,7 @@
 
 use crate::check::bearing::Ground;
 use crate::check::equilibrium::{equilibrium, CaseEquilibrium};
+use crate::check::horizontal::{brace_at_posts, summary, BraceAtPlate, HorizontalSummary};
 use crate::check::plates::{capacities, combine_envelope, PlateCombination, Status};
 use crate::check::sliding::{sliding, PlateSliding, Sliding};
 use crate::check::stability::{hold_down, HoldDown};
@@ -85,6 +86,8 @@ pub struct PlateResult {
     pub case_kn_by_method: Vec<[f64; 3]>,
     /// Results under each combination for each method pass alone: `[pass][combination]`.
     pub combinations_by_method: Vec<Vec<PlateCombination>>,
+    /// Vertical components of the brace forces it carries, and the braced bays they come from.
+    pub brace: BraceAtPlate,
 }
 
 impl PlateResult {
@@ -146,6 +149,10 @@ pub struct Analysis {
     pub ground: Ground,
     /// Braced plan directions.
     pub braced: Braced,
+    /// The horizontal load path in words: braced planes, diaphragms, notional load, combinations.
+    pub horizontal: HorizontalSummary,
+    /// The braced planes and diaphragms themselves (for the trace of brace forces and drawing).
+    pub bracing: crate::scene::bracing::Bracing,
     /// Non-fatal findings.
     pub warnings: Vec<Problem>,
     /// Imposed loads that the planner set to act whole (not arranged), by id.
@@ -218,6 +225,29 @@ impl Analysis {
                 (i.id.as_str(), i.case, s)
             })
             .collect()
+    }
+    /// Id of every post, by index (base plates and posts on other members alike).
+    pub fn post_ids(&self) -> Vec<&str> {
+        let n = self.plates.iter().map(|p| p.post + 1).chain(self.lifts.iter().map(|l| l.post + 1)).max().unwrap_or(0);
+        let mut ids = vec!["?"; n];
+        for p in &self.plates {
+            ids[p.post] = &p.id;
+        }
+        for l in &self.lifts {
+            ids[l.post] = &l.id;
+        }
+        ids
+    }
+    /// Names of the braced bays, e.g. `A1–B1`, in the order of
+    /// [`HorizontalSummary::bays`](crate::check::horizontal::HorizontalSummary::bays).
+    pub fn bay_names(&self) -> Vec<String> {
+        let ids = self.post_ids();
+        self.horizontal.bays.iter().map(|&(a, z)| format!("{}–{}", ids[a as usize], ids[z as usize])).collect()
+    }
+    /// Names of the braced bays whose brace forces a plate carries.
+    pub fn bays_of(&self, brace: &crate::check::horizontal::BraceAtPlate) -> Vec<String> {
+        let ids = self.post_ids();
+        brace.bays.iter().filter_map(|&b| self.horizontal.bays.get(b as usize)).map(|&(a, z)| format!("{}–{}", ids[a as usize], ids[z as usize])).collect()
     }
     /// Total base shear per case, [x, y] kN.
     pub fn base_shear(&self) -> [[f64; 2]; 3] {
@@ -302,6 +332,7 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
     let capacity_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_capacity).collect();
     let uplift_combos: Vec<usize> = (0..scene.combinations.len()).filter(|&c| scene.combinations[c].checks_uplift).collect();
     let all_combos: Vec<usize> = (0..scene.combinations.len()).collect();
+    let (mut brace, bays) = brace_at_posts(&model, &solutions);
     let mut lifts = Vec::new();
     let plates = scene
         .posts
@@ -375,10 +406,12 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
                 combinations,
                 governing,
                 status,
+                brace: std::mem::take(&mut brace[i]),
             })
         })
         .collect();
     let equilibrium_by_method: Vec<[CaseEquilibrium; 3]> = solutions.iter().map(equilibrium).collect();
+    let horizontal = summary(&model, &solutions[0], bays);
     let mut warnings = model.warnings;
     for g in ground.mixed_level_groups() {
         let ids: Vec<&str> = g.plates.iter().take(8).map(|&p| scene.posts[p as usize].id.as_str()).collect();
@@ -417,6 +450,8 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
         sliding,
         ground,
         braced: model.braced,
+        horizontal,
+        bracing: model.bracing,
         warnings,
         whole_loads: scene
             .loads

@@ -12,8 +12,9 @@ pub struct CaseEquilibrium {
     pub applied: Resultant,
     /// Resultant of the base reactions.
     pub reactions: Resultant,
-    /// |ΣF| of each load item of the case, summed, kN. Each item must balance on its own, so
-    /// opposite loads in one case (wind from either side) cannot hide an error.
+    /// |ΣF| of each load item of the case (under each diaphragm assumption it was solved for),
+    /// summed, kN. Each item must balance on its own, so opposite loads in one case (wind from
+    /// either side) cannot hide an error.
     pub force_residual_kn: f64,
     /// |ΣM| about the origin of each load item, summed, kN·m.
     pub moment_residual_knm: f64,
@@ -49,17 +50,22 @@ pub fn equilibrium(solution: &Solution) -> [CaseEquilibrium; 3] {
         let mut reactions = Resultant::default();
         let (mut fr, mut mr, mut relative) = (0.0, 0.0, 0.0f64);
         // Each item is balanced on its own, so opposite loads in one case cannot hide an error.
+        // An item solved under two diaphragm assumptions must balance under each.
         for item in solution.items.iter().filter(|i| i.case == case) {
-            let r = item.reaction_resultant(plates);
             applied = applied.plus(&item.applied);
-            reactions = reactions.plus(&r);
-            let sum = item.applied.plus(&r);
-            let (f, m) = (norm(sum.force), norm(sum.moment));
-            fr += f;
-            mr += m;
-            let magnitude = norm(item.applied.force);
-            if magnitude > 0.0 {
-                relative = relative.max(f / magnitude).max(m / (magnitude * size));
+            for v in 0..item.variant_count() {
+                let r = item.variant_resultant(plates, v);
+                if v == 0 {
+                    reactions = reactions.plus(&r);
+                }
+                let sum = item.applied.plus(&r);
+                let (f, m) = (norm(sum.force), norm(sum.moment));
+                fr += f;
+                mr += m;
+                let magnitude = norm(item.applied.force);
+                if magnitude > 0.0 {
+                    relative = relative.max(f / magnitude).max(m / (magnitude * size));
+                }
             }
             // An arranged load balances cell by cell too.
             if let Some(arranged) = &item.arranged {

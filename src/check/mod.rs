@@ -6,6 +6,7 @@
 //!   utilisation of the jack and the ground, status.
 //! - [`bearing`]: the area each plate's load spreads over in the ground.
 //! - [`permanent`]: the parts of the permanent load that press each plate down and that lift it.
+//! - [`horizontal`]: the horizontal load path in words, and the brace forces at each plate.
 //! - [`spare`]: the spare-capacity map — the largest extra load at every point of every deck.
 //! - [`stability`]: overturning of each structure in both forms, the kentledge that reaches the
 //!   targets, and the hold-down each lifting plate needs.
@@ -16,6 +17,7 @@ pub mod actions;
 pub mod analysis;
 pub mod bearing;
 pub mod equilibrium;
+pub mod horizontal;
 pub mod permanent;
 pub mod plates;
 pub mod sliding;

@@ -125,10 +125,13 @@ impl PlateCombination {
 /// Combine the case reactions of every plate under every combination.
 ///
 /// Permanent load takes, per plate, whichever of its two factors is worse for the value sought;
-/// each vertical variable item is added only where it makes that value worse, and of the
-/// horizontal loads the worst single plan direction is taken ([`crate::check::actions::VariableActions`]).
-/// For the minimum, a notional load counts only with the part due to permanent load: the
-/// variable load it would come from is then absent.
+/// each imposed load and each identified horizontal force is added only where it makes that value
+/// worse (under the working-scaffold rule, the load-class loads of one working level in full with
+/// the worse adjacent level at half), and of wind with notional load the worst single plan
+/// direction is taken ([`crate::check::actions::VariableActions`]). For the minimum, a notional load counts only with
+/// the part due to permanent load: the variable load it would come from is then absent. With ψ0
+/// set, each variable case leads in turn; where diaphragms were solved both ways, each way in
+/// turn; the worse governs every plate.
 ///
 /// Every post gets a result: the plate load of a post with a base plate, the load passed on at the
 /// base of any other (where a negative minimum is tension through a splice or a post lifting off
@@ -143,91 +146,111 @@ fn combine_with(scene: &Scene, solution: &Solution, permanent: &[PermanentParts]
     let n = solution.plates.len();
     let mut out = vec![Vec::with_capacity(scene.combinations.len()); n];
     let (mut hi, mut lo) = (vec![0.0; n], vec![0.0; n]);
+    let (mut best_hi, mut best_lo) = (vec![0.0; n], vec![0.0; n]);
     let (mut group_hi, mut group_lo) = (vec![0.0; n], vec![0.0; n]);
     let actions = crate::check::actions::VariableActions::of(&solution.items, scene.analysis.working_levels);
     for comb in &scene.combinations {
         let f = comb.factors;
-        // The parts of the permanent load that press a post down and those that lift it take
-        // their own factors for the minimum; the maximum takes the whole with the worse factor.
-        for p in 0..n {
-            hi[p] = permanent[p].maximum(f.g_favourable, f.g_unfavourable);
-            lo[p] = permanent[p].minimum(f.g_favourable, f.g_unfavourable);
-        }
-        for &i in &actions.independent {
-            add_vertical_variable(&solution.items[i], comb, &mut hi, &mut lo);
-        }
-        // Working levels: one level in full with the worse adjacent one at half, at each post.
-        if !actions.by_level.is_empty() {
-            let per_level: Vec<(Vec<f64>, Vec<f64>)> = actions
-                .by_level
-                .iter()
-                .map(|(_, group)| {
-                    let (mut h, mut l) = (vec![0.0; n], vec![0.0; n]);
-                    for &i in group {
-                        add_vertical_variable(&solution.items[i], comb, &mut h, &mut l);
-                    }
-                    (h, l)
-                })
-                .collect();
-            let share = crate::check::actions::ADJACENT_LEVEL_SHARE;
-            for p in 0..n {
-                let (mut best_hi, mut best_lo) = (0.0f64, 0.0f64);
-                for k in 0..per_level.len() {
-                    let adjacent = |f: &dyn Fn(&(Vec<f64>, Vec<f64>)) -> f64, pick: fn(f64, f64) -> f64| {
-                        let below = k.checked_sub(1).map(|j| f(&per_level[j]));
-                        let above = per_level.get(k + 1).map(f);
-                        match (below, above) {
-                            (Some(a), Some(b)) => pick(a, b),
-                            (Some(a), None) | (None, Some(a)) => a,
-                            (None, None) => 0.0,
-                        }
-                    };
-                    let h = per_level[k].0[p] + share * adjacent(&|x| x.0[p], f64::max);
-                    let l = per_level[k].1[p] + share * adjacent(&|x| x.1[p], f64::min);
-                    best_hi = best_hi.max(h);
-                    best_lo = best_lo.min(l);
+        best_hi.iter_mut().for_each(|v| *v = f64::NEG_INFINITY);
+        best_lo.iter_mut().for_each(|v| *v = f64::INFINITY);
+        // Each leading action (with ψ0) and each diaphragm assumption is a way the structure may
+        // be loaded; the worse governs each plate.
+        for &leading in crate::check::actions::leading_options(comb) {
+            for variant in 0..actions.variants {
+                // The parts of the permanent load that press a post down and those that lift it
+                // take their own factors for the minimum; the maximum takes the whole with the
+                // worse factor.
+                for p in 0..n {
+                    hi[p] = permanent[p].maximum(f.g_favourable, f.g_unfavourable);
+                    lo[p] = permanent[p].minimum(f.g_favourable, f.g_unfavourable);
                 }
-                hi[p] += best_hi;
-                lo[p] += best_lo;
-            }
-        }
-        // Horizontal directions are alternatives: the worst single direction counts.
-        if !actions.by_direction.is_empty() {
-            let (mut worst_hi, mut worst_lo) = (vec![0.0f64; n], vec![0.0f64; n]);
-            for group in &actions.by_direction {
-                group_hi.iter_mut().for_each(|v| *v = 0.0);
-                group_lo.iter_mut().for_each(|v| *v = 0.0);
-                for &i in group {
+                for &i in &actions.independent {
                     let item = &solution.items[i];
-                    let gamma = comb.variable_factor(item.case);
-                    for &(p, v) in item.vertical.iter().chain(&item.internal) {
-                        group_hi[p as usize] += gamma * v;
+                    let gamma = crate::check::actions::variable_factor(comb, item, leading);
+                    add_variable(item, gamma, variant, &mut hi, &mut lo);
+                }
+                // Working levels: one level in full with the worse adjacent one at half, at each post.
+                if !actions.by_level.is_empty() {
+                    let per_level: Vec<(Vec<f64>, Vec<f64>)> = actions
+                        .by_level
+                        .iter()
+                        .map(|(_, group)| {
+                            let (mut h, mut l) = (vec![0.0; n], vec![0.0; n]);
+                            for &i in group {
+                                let item = &solution.items[i];
+                                let gamma = crate::check::actions::variable_factor(comb, item, leading);
+                                add_variable(item, gamma, variant, &mut h, &mut l);
+                            }
+                            (h, l)
+                        })
+                        .collect();
+                    let share = crate::check::actions::ADJACENT_LEVEL_SHARE;
+                    for p in 0..n {
+                        let (mut level_hi, mut level_lo) = (0.0f64, 0.0f64);
+                        for k in 0..per_level.len() {
+                            let adjacent = |f: &dyn Fn(&(Vec<f64>, Vec<f64>)) -> f64, pick: fn(f64, f64) -> f64| {
+                                let below = k.checked_sub(1).map(|j| f(&per_level[j]));
+                                let above = per_level.get(k + 1).map(f);
+                                match (below, above) {
+                                    (Some(a), Some(b)) => pick(a, b),
+                                    (Some(a), None) | (None, Some(a)) => a,
+                                    (None, None) => 0.0,
+                                }
+                            };
+                            let h = per_level[k].0[p] + share * adjacent(&|x| x.0[p], f64::max);
+                            let l = per_level[k].1[p] + share * adjacent(&|x| x.1[p], f64::min);
+                            level_hi = level_hi.max(h);
+                            level_lo = level_lo.min(l);
+                        }
+                        hi[p] += level_hi;
+                        lo[p] += level_lo;
                     }
-                    for &(p, v) in item.vertical_permanent_basis.as_ref().unwrap_or(&item.vertical) {
-                        group_lo[p as usize] += gamma * v;
+                }
+                // Wind and notional directions are alternatives: the worst single direction counts.
+                if !actions.by_direction.is_empty() {
+                    let (mut worst_hi, mut worst_lo) = (vec![0.0f64; n], vec![0.0f64; n]);
+                    for group in &actions.by_direction {
+                        group_hi.iter_mut().for_each(|v| *v = 0.0);
+                        group_lo.iter_mut().for_each(|v| *v = 0.0);
+                        for &i in group {
+                            let item = &solution.items[i];
+                            let gamma = crate::check::actions::variable_factor(comb, item, leading);
+                            let r = item.variant(variant);
+                            for &(p, v) in r.vertical.iter().chain(r.internal) {
+                                group_hi[p as usize] += gamma * v;
+                            }
+                            match r.permanent {
+                                Some(perm) => perm.iter().for_each(|&(p, v)| group_lo[p as usize] += gamma * v),
+                                None => r.vertical.iter().chain(r.internal).for_each(|&(p, v)| group_lo[p as usize] += gamma * v),
+                            }
+                        }
+                        for p in 0..n {
+                            worst_hi[p] = worst_hi[p].max(group_hi[p]);
+                            worst_lo[p] = worst_lo[p].min(group_lo[p]);
+                        }
+                    }
+                    for p in 0..n {
+                        hi[p] += worst_hi[p];
+                        lo[p] += worst_lo[p];
                     }
                 }
                 for p in 0..n {
-                    worst_hi[p] = worst_hi[p].max(group_hi[p]);
-                    worst_lo[p] = worst_lo[p].min(group_lo[p]);
+                    best_hi[p] = best_hi[p].max(hi[p]);
+                    best_lo[p] = best_lo[p].min(lo[p]);
                 }
-            }
-            for p in 0..n {
-                hi[p] += worst_hi[p];
-                lo[p] += worst_lo[p];
             }
         }
         for p in 0..n {
-            out[p].push(plate_combination(comb, hi[p], lo[p], caps[p]));
+            out[p].push(plate_combination(comb, best_hi[p], best_lo[p], caps[p]));
         }
     }
     ground.fill(&scene.combinations, &mut out);
     out
 }
 
-/// Add one vertical variable item to the maximum and minimum at every post it reaches.
-fn add_vertical_variable(item: &crate::solve::Item, comb: &Combination, hi: &mut [f64], lo: &mut [f64]) {
-    let gamma = comb.variable_factor(item.case);
+/// Add one independent variable item (factor `gamma` already chosen) to the maximum and minimum
+/// at every post it reaches, under diaphragm assumption `variant`.
+fn add_variable(item: &crate::solve::Item, gamma: f64, variant: usize, hi: &mut [f64], lo: &mut [f64]) {
     match &item.arranged {
         // Arranged: at each post, the cells that push it down for the maximum and those that
         // lift it for the minimum.
@@ -239,7 +262,8 @@ fn add_vertical_variable(item: &crate::solve::Item, comb: &Combination, hi: &mut
         }
         // Whole: present everywhere or not at all, whichever is worse.
         None => {
-            for &(p, v) in item.vertical.iter().chain(&item.internal) {
+            let r = item.variant(variant);
+            for &(p, v) in r.vertical.iter().chain(r.internal) {
                 let v = gamma * v;
                 if v > 0.0 {
                     hi[p as usize] += v;

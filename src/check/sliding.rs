@@ -137,15 +137,32 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
     let mu: Vec<Option<f64>> = (0..n).map(|p| post_support[p].and_then(|s| scene.support_types[s].friction()).map(|(m, _)| m)).collect();
     // Every imposed load that lifts a plate counts, on every working level (the more cautious).
     let actions = VariableActions::of(&solutions[0].items, crate::scene::model::WorkingLevels::AllAtOnce);
-    let has_permanent_horizontal = solutions[0].items.iter().any(|i| i.case == Case::G && i.direction.is_some());
-    // Direction groups; permanent horizontal loads alone if there is no variable one.
+    let items0 = &solutions[0].items;
+    let has_permanent_horizontal = items0.iter().any(|i| i.case == Case::G && i.direction.is_some());
+    // Direction groups (wind and notional of one direction), by item id: a method pass may hold
+    // other items than the primary one. Identified forces are independent and present wherever
+    // unfavourable: each joins every group it does not oppose (or forms the only group).
+    let identified: Vec<usize> = actions.independent.iter().copied().filter(|&i| items0[i].direction.is_some()).collect();
     let mut groups: Vec<Vec<usize>> = actions.by_direction.clone();
+    for group in &mut groups {
+        let Some(d) = group.first().and_then(|&i| items0[i].direction) else { continue };
+        for &i in &identified {
+            let e = items0[i].direction.unwrap_or([0.0; 2]);
+            if d[0] * e[0] + d[1] * e[1] > -1e-9 {
+                group.push(i);
+            }
+        }
+    }
+    if groups.is_empty() && !identified.is_empty() {
+        groups.push(identified.clone());
+    }
     if groups.is_empty() && has_permanent_horizontal {
         groups.push(Vec::new());
     }
     if groups.is_empty() {
         return Sliding { target_factor: target, checks: Vec::new(), plates_to_restrain: 0, plates: vec![None; n] };
     }
+    let group_ids: Vec<Vec<&str>> = groups.iter().map(|g| g.iter().map(|&i| items0[i].id.as_str()).collect()).collect();
     let gamma = |case: Case| match case {
         Case::G => f.g_unfavourable,
         Case::Q => f.q,
@@ -167,12 +184,13 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
     let mut checks: Vec<Option<SlidingCheck>> = vec![None; structure_plates.len() * groups.len()];
     let mut cases = vec![Case2::default(); n];
     let (mut lift, mut lift_d, mut g_shear) = (vec![0.0; n], vec![0.0; n], vec![[0.0; 2]; n]);
+    let variants = solutions.iter().flat_map(|s| &s.items).map(|i| i.variant_count()).max().unwrap_or(1);
     for (sol, parts) in solutions.iter().zip(permanent) {
+        let index: rustc_hash::FxHashMap<&str, usize> = sol.items.iter().enumerate().map(|(i, it)| (it.id.as_str(), i)).collect();
         // Imposed (and other vertical variable) loads that lift a plate: always with it.
         lift.iter_mut().for_each(|v| *v = 0.0);
         lift_d.iter_mut().for_each(|v| *v = 0.0);
-        for &i in &actions.independent {
-            let item = &sol.items[i];
+        for item in sol.items.iter().filter(|i| i.case != Case::G && i.direction.is_none()) {
             let y = gamma(item.case);
             let mut add = |p: u32, v: f64| {
                 if v < 0.0 && sol.is_plate[p as usize] {
@@ -194,7 +212,8 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
                 g_shear[p as usize][1] += s[1];
             }
         }
-        for (g, group) in groups.iter().enumerate() {
+        for (g, variant) in (0..group_ids.len()).flat_map(|g| (0..variants).map(move |v| (g, v))) {
+            let group = &group_ids[g];
             for (p, c) in cases.iter_mut().enumerate() {
                 *c = Case2 {
                     shear: g_shear[p],
@@ -206,17 +225,18 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
             // The group's own vertical effect, both ways: the loads that shear the plate press it
             // down or pull it up at the same time. A notional load counts with its share due to
             // permanent load only (the imposed load it would come from is then absent).
-            for &i in group {
+            for &i in group.iter().filter_map(|id| index.get(id)) {
                 let item = &sol.items[i];
                 let y = gamma(item.case);
-                for &(p, s) in &item.shear {
+                let r = item.variant(variant);
+                for &(p, s) in r.shear {
                     let c = &mut cases[p as usize];
                     c.shear[0] += s[0];
                     c.shear[1] += s[1];
                     c.shear_d[0] += y * s[0];
                     c.shear_d[1] += y * s[1];
                 }
-                for &(p, x) in item.vertical_permanent_basis.as_ref().unwrap_or(&item.vertical) {
+                for &(p, x) in r.permanent.unwrap_or(r.vertical) {
                     let c = &mut cases[p as usize];
                     c.normal += x;
                     c.normal_d += y * x;

@@ -150,6 +150,9 @@ pub struct SpareMap {
     pub decks: Vec<DeckSpare>,
     /// Members whose own strength is not checked by the map (no capacity is known for them).
     pub not_checked: Vec<String>,
+    /// What the extra load would bring that the map leaves out, in words, if anything: the
+    /// notional horizontal load it adds and the brace forces that puts into plates.
+    pub not_included: Option<String>,
 }
 
 /// The influence coefficients behind a map, per deck and method pass. They depend on the
@@ -263,7 +266,35 @@ pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettin
     }
     let mut not_checked: Vec<String> = scene.bearers.iter().map(|b| format!("{} {}", role_word(b.role), b.id)).collect();
     not_checked.extend(scene.decks.iter().filter(|d| deck_class(scene, d).is_none()).map(|d| format!("deck {}", d.id)));
-    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked })
+    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked, not_included: notional_left_out(scene, analysis) })
+}
+
+/// The notional horizontal load an extra vertical load brings is not in the influence
+/// coefficients (they carry vertical load only): where the scene has notional load and some
+/// plate takes brace forces, say so, with those plates.
+fn notional_left_out(scene: &Scene, analysis: &Analysis) -> Option<String> {
+    use crate::scene::model::NotionalRule;
+    let explicit = scene.loads.iter().find_map(|l| match l.kind {
+        LoadKind::Notional { percent, ref basis, .. } if basis.contains(&crate::scene::loads::Case::Q) => Some(percent),
+        _ => None,
+    });
+    let has_explicit = scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. }));
+    let percent = match (explicit, has_explicit, scene.horizontal.notional) {
+        (Some(p), _, _) => p,
+        (None, true, _) | (None, false, NotionalRule::Off) => return None,
+        (None, false, NotionalRule::Percent(p)) => p,
+        // source: BS 5975:2008+A1:2011 cl. 19 — the falsework rule is at most 2.5 % of the vertical load
+        (None, false, NotionalRule::Falsework) => 2.5,
+    };
+    let braced: Vec<&str> = analysis.plates.iter().filter(|p| p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10).map(|p| p.id.as_str()).collect();
+    if braced.is_empty() || percent <= 0.0 {
+        return None;
+    }
+    let shown = if braced.len() > 12 { format!("{} and {} more", braced[..12].join(", "), braced.len() - 12) } else { braced.join(", ") };
+    Some(format!(
+        "the notional horizontal load the extra load itself brings (up to {} % of it) and the brace forces that puts into the plates of braced bays ({shown}); keep a margin at those plates, or add the load to the scene and solve it",
+        crate::format::num(percent)
+    ))
 }
 
 fn role_word(r: crate::scene::model::BeamRole) -> &'static str {

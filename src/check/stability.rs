@@ -727,7 +727,9 @@ pub fn stability(model: &Model, solutions: &[Solution], structure_plates: &[Vec<
     let favourable = crate::check::permanent::favourable_items(scene, primary);
     // Every working level counts in full here (the working-scaffold rule is not used for
     // overturning, which is the more cautious).
-    let actions = VariableActions::of(&primary.items, crate::scene::model::WorkingLevels::AllAtOnce);
+    // Per method pass: a pass may hold other horizontal items than the primary one (a notional
+    // load follows the vertical load the pass carries), so each is sorted on its own.
+    let actions: Vec<VariableActions> = solutions.iter().map(|s| VariableActions::of(&s.items, crate::scene::model::WorkingLevels::AllAtOnce)).collect();
     let plate_id = |i: u32| scene.posts[i as usize].id.clone();
     let kentledge_at: Vec<usize> = settings.kentledge_plates.iter().filter_map(|id| scene.posts.iter().position(|p| p.id == *id)).collect();
     let pts: Vec<[f64; 2]> = plates.iter().map(|p| [p[0], p[1]]).collect();
@@ -851,7 +853,7 @@ fn evaluate(
     parts: &Parts,
     groups: &[&Group],
     solutions: &[Solution],
-    actions: &VariableActions,
+    actions: &[VariableActions],
     favourable: &[Option<bool>],
     horizontal_on: &dyn Fn(usize, usize) -> Resultant,
     settings: &crate::scene::model::StabilitySettings,
@@ -923,21 +925,47 @@ fn evaluate(
         }
         hg_dst = hg_dst.max(pg_dst);
         hg_stb = hg_stb.min(pg_stb);
-        for group in &actions.by_direction {
+        // Identified forces are independent: each counts wherever it overturns.
+        let (mut ident, mut ident_equ, mut ident_ids) = (0.0, 0.0, Vec::new());
+        for &i in &actions[m].independent {
+            let item = &sol.items[i];
+            if item.direction.is_none() {
+                continue;
+            }
+            let t = ax.moment(&horizontal_on(m, i));
+            if t > 0.0 {
+                ident += t;
+                ident_equ += t * variable_factor(&f, item.case);
+                ident_ids.push(item.id.as_str());
+            }
+        }
+        // Wind and notional directions are alternatives: the worst single one.
+        let (mut best, mut best_equ, mut best_words) = (0.0, 0.0, None::<String>);
+        for group in &actions[m].by_direction {
             let (mut sum, mut sum_equ) = (0.0, 0.0);
             for &i in group {
                 let t = ax.moment(&horizontal_on(m, i)).max(0.0);
                 sum += t;
                 sum_equ += t * variable_factor(&f, sol.items[i].case);
             }
-            if sum > h_dst {
-                h_dst = sum;
+            if sum > best {
+                best = sum;
                 let ids: Vec<&str> = group.iter().map(|&i| sol.items[i].id.as_str()).collect();
                 let dir = sol.items[group[0]].direction.map_or_else(String::new, direction_words);
-                h_which = Some(format!("towards {dir}: {}", ids.join(", ")));
+                best_words = Some(format!("towards {dir}: {}", ids.join(", ")));
             }
-            h_dst_equ = h_dst_equ.max(sum_equ);
+            best_equ = f64::max(best_equ, sum_equ);
         }
+        if ident + best > h_dst {
+            h_dst = ident + best;
+            h_which = match (best_words, ident_ids.is_empty()) {
+                (Some(w), true) => Some(w),
+                (Some(w), false) => Some(format!("{w}; with {}", ident_ids.join(", "))),
+                (None, false) => Some(ident_ids.join(", ")),
+                (None, true) => None,
+            };
+        }
+        h_dst_equ = h_dst_equ.max(ident_equ + best_equ);
     }
     g_dst += hg_dst;
     g_stb += hg_stb;

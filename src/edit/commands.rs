@@ -726,7 +726,8 @@ pub fn references(e: &Element) -> Vec<ElementRef> {
     out.into_inner()
 }
 
-/// Elements that refer to `r` directly, in scene order.
+/// Elements that refer to `r` directly, in scene order. A plan brace (a level brace) stands on
+/// the bearers that frame its bay: a bearer at its level through one of its ends.
 pub fn dependants(scene: &Scene, r: &ElementRef) -> Vec<ElementRef> {
     let id = r.id.as_str();
     let mut out = Vec::new();
@@ -751,6 +752,15 @@ pub fn dependants(scene: &Scene, r: &ElementRef) -> Vec<ElementRef> {
         }
         ElementKind::Bearer => {
             out.extend(scene.decks.iter().filter(|d| d.bearers.iter().any(|b| b == id)).map(|d| ElementRef::new(ElementKind::Deck, &d.id)));
+            if let Some(bearer) = scene.bearers.iter().find(|b| b.id == id) {
+                let tol = crate::scene::validate::GEOMETRY_TOLERANCE_M;
+                let frames = |b: &crate::scene::model::Brace| {
+                    (b.from.level - b.to.level).abs() <= tol
+                        && (b.from.level - bearer.level).abs() <= tol
+                        && bearer.posts.iter().any(|p| *p == b.from.post || *p == b.to.post)
+                };
+                out.extend(scene.braces.iter().filter(|b| frames(b)).map(|b| ElementRef::new(ElementKind::Brace, &b.id)));
+            }
             out.extend(
                 scene
                     .loads
@@ -1097,7 +1107,7 @@ pub mod place {
         let span = (spans[0].0, spans[spans.len() - 1].0);
         let extent = if along_x { Rect { x: along, y: span } } else { Rect { x: span, y: along } };
         let level = spans.iter().map(|s| s.2.level).fold(f64::NEG_INFINITY, f64::max);
-        Ok(Deck { id: fresh_id(scene, "D"), level, extent, bearers: spans.iter().map(|s| s.2.id.clone()).collect(), self_weight_kpa, method: None, joints: None, decking: None })
+        Ok(Deck { id: fresh_id(scene, "D"), level, extent, bearers: spans.iter().map(|s| s.2.id.clone()).collect(), self_weight_kpa, method: None, joints: None, decking: None, diaphragm: false })
     }
 
     /// A brace from post `from` at `from_level` to post `to` at `to_level` (defaults: the lower
@@ -1165,7 +1175,7 @@ mod tests {
         let EditError::HasDependants { element, dependants } = &err else { panic!("{err}") };
         assert_eq!(element, &ElementRef::post("B2"));
         let ids: Vec<&str> = dependants.iter().map(|d| d.id.as_str()).collect();
-        assert_eq!(ids, ["L1-2", "T1-B", "L2-2", "T2-B"]);
+        assert_eq!(ids, ["L1-2", "T1-B", "L2-2", "T2-B", "PB2-A1", "PB2-A2", "PB2-B1"]);
         assert!(err.to_string().contains("bearer L1-2"), "{err}");
         assert_eq!(s, before);
     }

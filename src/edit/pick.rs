@@ -502,6 +502,65 @@ fn load_arrows(
     d
 }
 
+/// What a line of [`bracing_lines`] shows.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum BracingLine {
+    /// The outline of a braced plane, from the ground to the top of its bracing, and its braced
+    /// levels.
+    Plane,
+    /// Bracing of a plane above a lift with no brace: not counted.
+    NotCounted,
+    /// The outline of a diaphragm at its level, and its diagonals.
+    Diaphragm,
+}
+
+/// Height above the base at which a plane's outline starts, m: clear of the plate and its cues.
+const PLATE_CLEARANCE_M: f64 = 0.4;
+
+/// Lines that show the braced planes and the diaphragms of an analysis: (from, to, what).
+pub fn bracing_lines(scene: &Scene, bracing: &crate::scene::bracing::Bracing) -> Vec<(V3, V3, BracingLine)> {
+    let mut out = Vec::new();
+    for plane in &bracing.planes {
+        let (Some(&first), Some(&last)) = (plane.posts.first(), plane.posts.last()) else { continue };
+        let (a, z) = (&scene.posts[first as usize], &scene.posts[last as usize]);
+        let base = plane.posts.iter().map(|&p| scene.posts[p as usize].base_level).fold(f64::INFINITY, f64::min);
+        let counted_top = plane.braced_to.checked_sub(1).map(|k| plane.levels[k]);
+        // An outline without its bottom edge on the ground, its sides starting clear of the
+        // plates, so that it never covers a plate's colour or its failure cue.
+        let rect = |lo: f64, hi: f64, kind: BracingLine, out: &mut Vec<(V3, V3, BracingLine)>| {
+            let from = if lo <= base { base + PLATE_CLEARANCE_M } else { lo };
+            out.push(([a.x, a.y, from], [a.x, a.y, hi], kind));
+            out.push(([z.x, z.y, from], [z.x, z.y, hi], kind));
+            out.push(([a.x, a.y, hi], [z.x, z.y, hi], kind));
+            if lo > base {
+                out.push(([a.x, a.y, lo], [z.x, z.y, lo], kind));
+            }
+        };
+        if let Some(top) = counted_top {
+            rect(base, top, BracingLine::Plane, &mut out);
+            for &zl in &plane.levels[..plane.braced_to - 1] {
+                out.push(([a.x, a.y, zl], [z.x, z.y, zl], BracingLine::Plane));
+            }
+        }
+        if let Some(&top) = plane.levels.last() {
+            if plane.braced_to < plane.levels.len() {
+                rect(counted_top.unwrap_or(base), top, BracingLine::NotCounted, &mut out);
+            }
+        }
+    }
+    for d in &bracing.diaphragms {
+        let ((x0, x1), (y0, y1)) = d.bounds;
+        let z = d.level;
+        let corners = [[x0, y0, z], [x1, y0, z], [x1, y1, z], [x0, y1, z]];
+        for k in 0..4 {
+            out.push((corners[k], corners[(k + 1) % 4], BracingLine::Diaphragm));
+        }
+        out.push((corners[0], corners[2], BracingLine::Diaphragm));
+        out.push((corners[1], corners[3], BracingLine::Diaphragm));
+    }
+    out
+}
+
 /// A half-line from `origin` along the unit vector `dir`.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Ray {
@@ -854,8 +913,8 @@ mod tests {
         let down = Ray::new([3.0, 1.5, 50.0], [0.0, 0.0, -1.0]);
         let hit = pick(&shapes, &down, &PickTolerance::default()).unwrap();
         assert_eq!(hit.element, ElementRef::post("C2"));
-        // Off every post but over the deck: the deck (or a load sheet above it).
-        let hit = pick(&shapes, &Ray::new([0.75, 0.75, 50.0], [0.0, 0.0, -1.0]), &PickTolerance::default()).unwrap();
+        // Off every post and plan brace but over the deck: the deck (or a load sheet above it).
+        let hit = pick(&shapes, &Ray::new([1.1, 0.4, 50.0], [0.0, 0.0, -1.0]), &PickTolerance::default()).unwrap();
         assert!(matches!(hit.element.kind, ElementKind::Deck | ElementKind::Load), "{hit:?}");
         // A ray beside the structure hits nothing.
         assert!(pick(&shapes, &Ray::new([30.0, 30.0, 50.0], [0.0, 0.0, -1.0]), &PickTolerance::default()).is_none());

@@ -11,6 +11,12 @@
 //! base has `governing_method` and `min_method` (a pass name, or `any (methods agree)`) and
 //! `cases_kn_by_method`; each base combination has `max_method` and `min_method`;
 //! `equilibrium_by_method` proves every pass.
+//!
+//! Horizontal fields (also added without a version change): each base has `brace` — the largest
+//! downward (`max_kn`) and upward (`min_kn`) vertical components of the brace forces it carries,
+//! unfactored, and the braced `bays` they come from; `horizontal_path` lists the braced `planes`,
+//! the `diaphragms` (and that load is shared nowhere else), how the `notional` load was made, what
+//! each of the `combinations` does, and the diaphragm `sharing` when two ways were solved.
 
 use serde::Serialize;
 
@@ -53,6 +59,7 @@ struct Doc<'a> {
     totals: Totals,
     equilibrium: Vec<Equilibrium>,
     horizontal_loads: Vec<HorizontalLoad<'a>>,
+    horizontal_path: Path<'a>,
     equilibrium_by_method: Vec<MethodEquilibrium<'a>>,
     findings: Vec<crate::export::findings::Finding>,
     ground: GroundDoc<'a>,
@@ -129,6 +136,23 @@ struct Base<'a> {
     surface_group: Option<u32>,
     arrangements: Vec<crate::check::ArrangementAt>,
     status: &'static str,
+    brace: Brace<'a>,
+}
+
+/// Brace forces at a base: largest push down and pull up, kN, and the braced bays.
+#[derive(Serialize)]
+struct Brace<'a> {
+    max_kn: f64,
+    min_kn: f64,
+    bays: Vec<&'a str>,
+}
+
+/// The horizontal load path with the braced bays named.
+#[derive(Serialize)]
+struct Path<'a> {
+    #[serde(flatten)]
+    summary: &'a crate::check::horizontal::HorizontalSummary,
+    bay_names: &'a [String],
 }
 
 /// A post standing on another member: the load it passes on at its base.
@@ -210,6 +234,7 @@ impl From<&CaseEquilibrium> for Equilibrium {
 
 /// The analysis as a pretty-printed JSON document.
 pub fn analysis_json(a: &Analysis) -> String {
+    let bay_names = a.bay_names();
     let bases = a
         .plates
         .iter()
@@ -258,6 +283,7 @@ pub fn analysis_json(a: &Analysis) -> String {
             surface_group: p.surface_group,
             arrangements: a.arrangements_at(i),
             status: p.status.label(),
+            brace: Brace { max_kn: p.brace.max_kn, min_kn: p.brace.min_kn, bays: p.brace.bays.iter().map(|&b| bay_names.get(b as usize).map_or("?", String::as_str)).collect() },
         })
         .collect();
     let doc = Doc {
@@ -288,6 +314,7 @@ pub fn analysis_json(a: &Analysis) -> String {
             base_shear_kn: PerCase::of(a.base_shear()),
         },
         equilibrium: a.equilibrium.iter().map(Equilibrium::from).collect(),
+        horizontal_path: Path { summary: &a.horizontal, bay_names: &bay_names },
         horizontal_loads: a.horizontal_base_shear().into_iter().map(|(id, case, base_shear_kn)| HorizontalLoad { id, case, base_shear_kn }).collect(),
         equilibrium_by_method: a
             .equilibrium_by_method

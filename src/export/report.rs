@@ -502,10 +502,11 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
             if checks.is_empty() { "reported only".into() } else { checks.join(", ") }
         );
     }
-    let _ = writeln!(
-        h,
-        "</tbody></table><p class=\"note\">Permanent load takes, per plate, whichever factor is worse. Each imposed load counts only where it makes the result worse; of the horizontal loads, the worst single plan direction counts.</p>"
-    );
+    let _ = writeln!(h, "</tbody></table><p class=\"note\">What each combination does:</p><ul class=\"note\">");
+    for c in &a.horizontal.combinations {
+        let _ = writeln!(h, "<li>{}</li>", esc(c));
+    }
+    let _ = writeln!(h, "</ul><p class=\"note\">Notional horizontal load: {}.</p>", esc(&a.horizontal.notional));
 
     let _ = writeln!(h, "<h3>Loads</h3><table><thead><tr><th>Id</th><th>Case</th><th>Kind</th><th>Where</th><th>Value</th><th>Placed</th></tr></thead><tbody>");
     let _ = writeln!(h, "<tr><td>self-weight</td><td>G</td><td>self-weight</td><td>every post, bearer and deck</td><td>from the members' kN/m and the decks' kPa</td><td>everywhere</td></tr>");
@@ -528,7 +529,7 @@ fn inputs(h: &mut String, scene: &Scene, a: &Analysis) {
     };
     let _ = writeln!(
         h,
-        "</tbody></table><p class=\"note\">Braced plan directions: {braced}. Cases: G permanent, Q imposed, W horizontal. An imposed load placed in its worst arrangement is split into cells (each deck strip between bearers × each stretch between posts, each cantilever or overhang part on its own); at each plate only the cells that push it down count for its maximum, and only those that lift it for its minimum. Working levels: {}.</p></section>",
+        "</tbody></table><p class=\"note\">Braced planes along: {braced} (section 4 lists them with the diaphragms). Cases: G permanent, Q imposed, W horizontal. An imposed load placed in its worst arrangement is split into cells (each deck strip between bearers × each stretch between posts, each cantilever or overhang part on its own); at each plate only the cells that push it down count for its maximum, and only those that lift it for its minimum. Working levels: {}.</p></section>",
         a.working_levels.label()
     );
 }
@@ -1058,7 +1059,42 @@ fn schedule(h: &mut String, a: &Analysis) {
         }
         let _ = writeln!(h, "</tbody></table><p class=\"note\">Load each post passes on at its base, downward positive. A negative minimum is tension through a splice or a post lifting off the member it stands on: it must be tied down.</p>");
     }
+    horizontal_path(h, a);
     h.push_str("</section>\n");
+}
+
+/// The braced planes, the diaphragms and the brace forces at each plate.
+fn horizontal_path(h: &mut String, a: &Analysis) {
+    let hz = &a.horizontal;
+    let _ = writeln!(h, "<h3>Horizontal loads down the braced bays</h3><table><thead><tr><th>Braced plane</th><th>Braced from the ground up to</th><th>Braces</th><th>Braced bays</th></tr></thead><tbody>");
+    if hz.planes.is_empty() {
+        let _ = writeln!(h, "<tr><td colspan=\"4\">none</td></tr>");
+    }
+    for p in &hz.planes {
+        let to = match (p.braced_to_m, &p.cut) {
+            (Some(z), None) => format!("{} m", num(z, 3)),
+            (Some(z), Some(c)) => format!("{} m; <span class=\"bad\">above not counted: {}</span>", num(z, 3), esc(c)),
+            (None, c) => format!("<span class=\"bad\">not counted: {}</span>", esc(c.as_deref().unwrap_or(""))),
+        };
+        let _ = writeln!(h, "<tr><td>{}</td><td>{to}</td><td class=\"n\">{}</td><td>{}</td></tr>", esc(&p.name), p.diagonals, esc(&p.bays.join(", ")));
+    }
+    let _ = writeln!(h, "</tbody></table><ul class=\"note\">");
+    for d in &hz.diaphragms {
+        let _ = writeln!(h, "<li>{}</li>", esc(d));
+    }
+    if let Some(s) = hz.sharing {
+        let _ = writeln!(h, "<li>{}</li>", esc(s));
+    }
+    let _ = writeln!(h, "</ul>");
+    let braced: Vec<&PlateResult> = a.plates.iter().filter(|p| p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10).collect();
+    if !braced.is_empty() {
+        let bay_names = a.bay_names();
+        let _ = writeln!(h, "<table><thead><tr><th>Plate</th><th class=\"n\">Brace push down (kN)</th><th class=\"n\">Brace pull up (kN)</th><th>From braced bays</th></tr></thead><tbody>");
+        for p in braced {
+            let _ = writeln!(h, "<tr><td>{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td>{}</td></tr>", esc(&p.id), kn(p.brace.max_kn), kn(p.brace.min_kn), esc(&p.brace.bays.iter().map(|&b| bay_names.get(b as usize).map_or("?", String::as_str)).collect::<Vec<_>>().join(", ")));
+        }
+        let _ = writeln!(h, "</tbody></table><p class=\"note\">Vertical components of the brace forces (±V·h/b for shear V in a bay of width b and lift h), unfactored, worst plan direction and diaphragm assumption; they are part of the W column and the combinations above.</p>");
+    }
 }
 
 fn stability(h: &mut String, a: &Analysis) {
@@ -1272,10 +1308,15 @@ fn equilibrium(h: &mut String, a: &Analysis) {
         );
         for item in horizontal {
             let r = item.reaction_resultant(&a.solution.plates);
-            let sum = item.applied.plus(&r);
             let norm = |v: [f64; 3]| v.iter().map(|c| c * c).sum::<f64>().sqrt();
             let f = norm(item.applied.force);
-            let (fr, mr) = (norm(sum.force), norm(sum.moment));
+            // Every diaphragm assumption the item was solved for must balance.
+            let (mut fr, mut mr) = (0.0f64, 0.0f64);
+            for v in 0..item.variant_count() {
+                let sum = item.applied.plus(&item.variant_resultant(&a.solution.plates, v));
+                fr = fr.max(norm(sum.force));
+                mr = mr.max(norm(sum.moment));
+            }
             let rel = if f > 0.0 { (fr / f).max(mr / (f * size)) } else { 0.0 };
             let couple = item.vertical.iter().map(|&(_, v)| v.abs()).fold(0.0, f64::max);
             let _ = writeln!(
@@ -1333,6 +1374,9 @@ fn spare(h: &mut String, scene: &Scene, a: &Analysis) {
         esc(&map.combinations.join(", ")),
         esc(&if map.not_checked.is_empty() { "none".to_owned() } else if map.not_checked.len() > 12 { format!("{} and {} more members", map.not_checked[..12].join(", "), map.not_checked.len() - 12) } else { map.not_checked.join(", ") })
     );
+    if let Some(w) = &map.not_included {
+        let _ = writeln!(h, "<p class=\"note\"><strong>Not included:</strong> {}.</p>", esc(w));
+    }
     for d in &map.decks {
         let (x0, x1) = d.points.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p.x), hi.max(p.x)));
         let (y0, y1) = d.points.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p.y), hi.max(p.y)));

@@ -1,8 +1,10 @@
 //! The support-load schedule: one CSV row per base plate, for the ground-bearing check.
 //!
-//! Plain ASCII so it opens cleanly in any spreadsheet; header lines first (scene, caution,
-//! units, combinations and their factors, equilibrium), a blank line, then the table and a
-//! totals row whose case columns equal the applied load of each case.
+//! Plain ASCII so it opens cleanly in any spreadsheet, apart from the words of the horizontal
+//! path; header lines first (scene, caution, units, combinations with their factors and what each
+//! does, where horizontal load is shared, the notional load, equilibrium), a blank line, then the
+//! table (ending with the vertical components of the brace forces at each plate)
+//! and a totals row whose case columns equal the applied load of each case.
 
 use crate::check::analysis::Analysis;
 use crate::format::{num, push_fixed};
@@ -82,6 +84,8 @@ fn ascii(s: &str) -> String {
             '°' => out.push_str(" deg"),
             '…' => out.push_str("..."),
             '≤' => out.push_str("<="),
+            '≥' => out.push_str(">="),
+            'ψ' => out.push_str("psi"),
             _ => out.push('?'),
         }
     }
@@ -123,10 +127,20 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
             format!("checks capacity: {}", if c.checks_capacity { "yes" } else { "no" }),
             format!("checks uplift: {}", if c.checks_uplift { "yes" } else { "no" }),
             c.source.clone(),
+            ascii(&crate::check::actions::describe(c, analysis.working_levels)),
         ]);
     }
     let whole = if analysis.whole_loads.is_empty() { "none".to_owned() } else { analysis.whole_loads.join(" ") };
     w.record(&["Imposed loads", "each split into cells and loaded where unfavourable at each plate", &format!("applied whole as set: {whole}"), analysis.working_levels.label()]);
+    // Where horizontal load goes: the diaphragms (and that it is shared nowhere else), the
+    // notional load.
+    for d in &analysis.horizontal.diaphragms {
+        w.record(&["Horizontal path".to_string(), ascii(d)]);
+    }
+    if let Some(sharing) = analysis.horizontal.sharing {
+        w.record(&["Horizontal path".to_string(), ascii(sharing)]);
+    }
+    w.record(&["Notional load".to_string(), ascii(&analysis.horizontal.notional)]);
     let methods = analysis.method_count();
     if methods == 1 {
         w.record(&["Method", analysis.method_label(0)]);
@@ -184,6 +198,8 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
             "sliding factor",
             "restraint needed (kN)",
             "status",
+            "brace down (kN)",
+            "brace up (kN)",
         ]
         .map(String::from),
     );
@@ -271,6 +287,8 @@ pub fn schedule_csv(analysis: &Analysis) -> String {
             }
         }
         w.field(p.status.label());
+        w.fixed(p.brace.max_kn, 3);
+        w.fixed(p.brace.min_kn, 3);
         w.end();
     }
     for f in ["TOTAL", "", "", "", "", ""] {

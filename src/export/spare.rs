@@ -21,6 +21,9 @@ fn preamble(map: &SpareMap) -> Vec<String> {
         "Each value is for one load placed there alone, on top of the existing loads in their worst arrangement; values do not add — after placing one, work the map out again.".to_owned(),
         format!("Not checked here (no capacity known): {}.", if map.not_checked.is_empty() { "none".to_owned() } else { map.not_checked.join(", ") }),
     ]
+    .into_iter()
+    .chain(map.not_included.as_ref().map(|w| format!("Not included: {w}.")))
+    .collect()
 }
 
 /// A value in a table cell: kN to one decimal, `0 !` where a limit is already reached, `-` where

@@ -7,7 +7,8 @@ use crate::format::num;
 use crate::solve::beam::Piece;
 use crate::scene::loads::Case;
 use crate::scene::model::Scene;
-use crate::solve::{Contribution, Route};
+use crate::scene::bracing::Bracing;
+use crate::solve::{Contribution, Item, Route};
 
 /// Words for a route, using the scene's ids.
 pub fn route_words(scene: &Scene, route: Route) -> String {
@@ -19,7 +20,43 @@ pub fn route_words(scene: &Scene, route: Route) -> String {
         Route::PostTop => "load on the post top".into(),
         Route::Overturning => "overturning couple on the braced base".into(),
         Route::Kentledge => "kentledge on the plate".into(),
+        Route::Bracing => "the vertical components of the brace forces at its nodes".into(),
     }
+}
+
+/// The brace forces behind a [`Route::Bracing`] share of item `item` at post `post`: one line per
+/// brace ending on the post, with its braced bay and lever arm; they add up to the share.
+pub fn brace_shares(scene: &Scene, bracing: &Bracing, item: &Item, post: u32) -> Vec<(f64, String)> {
+    let offsets = crate::solve::braced::plane_offsets(bracing);
+    let mut out = Vec::new();
+    if item.lift_shear.is_empty() {
+        return out;
+    }
+    for (pk, plane) in bracing.planes.iter().enumerate() {
+        for (k, lift) in plane.lifts.iter().enumerate().take(plane.braced_to) {
+            let v = item.lift_shear[offsets[pk] + k];
+            for d in lift {
+                for (end, upper) in [(d.lower, false), (d.upper, true)] {
+                    if end == post && v != 0.0 {
+                        out.push((crate::solve::braced::diagonal_component(d, v, upper), brace_words(scene, d.brace as usize)));
+                    }
+                }
+            }
+        }
+    }
+    out
+}
+
+/// Words for the vertical component of a brace's force: its braced bay and lever arm.
+pub fn brace_words(scene: &Scene, brace: usize) -> String {
+    let Some(b) = scene.braces.get(brace) else { return "a brace".into() };
+    let at = |id: &str| scene.posts.iter().find(|p| p.id == id).map(|p| (p.x, p.y));
+    let lever = match (at(&b.from.post), at(&b.to.post)) {
+        (Some(a), Some(z)) => format!(", lever {:.3} m", (z.0 - a.0).hypot(z.1 - a.1)),
+        _ => String::new(),
+    };
+    let (lo, hi) = (b.from.level.min(b.to.level), b.from.level.max(b.to.level));
+    format!("braced bay {}–{} (brace {}, {:.3}–{:.3} m){lever}", b.from.post, b.to.post, b.id, num(lo), num(hi))
 }
 
 fn piece_words(scene: &Scene, bearer: u32, piece: Piece) -> String {
@@ -73,7 +110,7 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
             let _ = writeln!(out, "  {} ({})", item.id, item.case);
             last_item = c.item;
         }
-        write_share(&mut out, scene, &shares, c, 2);
+        write_share(&mut out, scene, (&analysis.bracing, &solution.items), &shares, c, 2);
         totals[item.case.index()] += c.kn;
     }
     let case_kn = p.case_kn_by_method.get(m).copied().unwrap_or(p.case_kn);
@@ -151,6 +188,24 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
             }
         }
     }
+    // Horizontal loads: the brace forces this plate carries, and the other way the diaphragms may
+    // share them.
+    if p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10 || !p.brace.bays.is_empty() {
+        let bays = if p.brace.bays.is_empty() { "through posts above".to_owned() } else { format!("from braced bays {}", analysis.bays_of(&p.brace).join(", ")) };
+        let _ = writeln!(out, "  brace forces (vertical components, unfactored, worst direction): {:+.3} kN down, {:+.3} kN up, {bays}", num(p.brace.max_kn), num(p.brace.min_kn));
+    }
+    for item in solution.items.iter().filter(|i| i.direction.is_some()) {
+        if let Some(alt) = &item.alternative {
+            let at = |v: &[(u32, f64)]| v.iter().filter(|e| e.0 as usize == p.post).map(|e| e.1).sum::<f64>();
+            let (a, b) = (at(&item.vertical), at(&alt.vertical));
+            if (a - b).abs() > 5e-10 {
+                let _ = writeln!(out, "  {}: {:.3} kN by the {}, {:.3} kN as a {}; the worse counts", item.id, num(a), alt.primary, num(b), alt.label);
+            }
+        }
+    }
+    for d in &analysis.horizontal.diaphragms {
+        let _ = writeln!(out, "  {d}");
+    }
     arrangement_lines(&mut out, scene, analysis, plate);
     out
 }
@@ -195,9 +250,15 @@ fn cell_words(scene: &Scene, place: &crate::solve::CellPlace) -> String {
 }
 
 /// One share, and where a share from a post above came from in turn, indented by `depth`.
-fn write_share(out: &mut String, scene: &Scene, shares: &[&Contribution], c: &Contribution, depth: usize) {
+fn write_share(out: &mut String, scene: &Scene, (bracing, items): (&Bracing, &[Item]), shares: &[&Contribution], c: &Contribution, depth: usize) {
     let pad = "  ".repeat(depth);
     let _ = writeln!(out, "{pad}{:>10.3} kN  via {}", num(c.kn), route_words(scene, c.route));
+    if c.route == Route::Bracing {
+        for (kn, words) in brace_shares(scene, bracing, &items[c.item as usize], c.post) {
+            let _ = writeln!(out, "{pad}    {:>10.3} kN  via {words}", num(kn));
+        }
+        return;
+    }
     let from = match c.route {
         Route::Lift { from } | Route::Transfer { from, .. } => from,
         _ => return,
@@ -210,6 +271,6 @@ fn write_share(out: &mut String, scene: &Scene, shares: &[&Contribution], c: &Co
         let _ = writeln!(out, "{pad}    (part of the {total:.3} kN post {} passes on, which it takes:)", scene.posts[from as usize].id);
     }
     for s in &shares[lo..hi] {
-        write_share(out, scene, shares, s, depth + 2);
+        write_share(out, scene, (bracing, items), shares, s, depth + 2);
     }
 }

@@ -39,6 +39,26 @@ pub struct Combination {
     /// Where the factors come from.
     #[serde(default)]
     pub source: String,
+    /// Combination factors ψ0 of accompanying variable actions (EN 1990 expression 6.10): when
+    /// set, each variable case is taken in turn as the leading action at its full factor, the
+    /// other accompanying at factor × ψ0, and the worse governs at every plate. The notional
+    /// load follows the vertical load it comes from and is never reduced. Default: none (every
+    /// variable action at its full factor).
+    #[serde(default)]
+    pub psi0: Option<Psi0>,
+}
+
+/// Combination factors ψ0 of accompanying variable actions.
+// source: EN 1990 expression 6.10 and Annex A1 Table A1.1 (recommended values for buildings, e.g.
+// wind 0.6, imposed 0.7 — from memory; REFERENCES §3 marks ψ0 = 0.7 as from memory). No value is
+// assumed here: the planner states them.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Psi0 {
+    /// ψ0 of the imposed loads (case Q) when a horizontal load leads.
+    pub imposed: f64,
+    /// ψ0 of wind and identified horizontal forces (case W) when an imposed load leads.
+    pub horizontal: f64,
 }
 
 impl Combination {
@@ -54,6 +74,7 @@ impl Combination {
                 checks_capacity: true,
                 checks_uplift: true,
                 source: "unfactored; working-load capacities (common practice)".into(),
+                psi0: None,
             },
             Combination {
                 name: "factored".into(),
@@ -62,6 +83,7 @@ impl Combination {
                 checks_capacity: false,
                 checks_uplift: false,
                 source: "EN 1990 Table A1.2(B) recommended values; National Annex may differ".into(),
+                psi0: None,
             },
             Combination {
                 name: "stability".into(),
@@ -70,6 +92,7 @@ impl Combination {
                 checks_capacity: false,
                 checks_uplift: true,
                 source: "EN 1990 Table A1.2(A) EQU recommended values; National Annex may differ".into(),
+                psi0: None,
             },
         ]
     }

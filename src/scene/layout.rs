@@ -1,11 +1,12 @@
 //! A regular scaffold or birdcage in one step: a grid of posts, members at every lift, decks on
-//! chosen lifts, braces on the faces, a load-class load and notional horizontal loads.
+//! chosen lifts, braces in every line of posts (and optionally in plan), and a load-class load.
+//! The notional horizontal load comes from the scene's rule ([`crate::scene::model::HorizontalSettings`]).
 //! The result is an ordinary [`Scene`], freely editable afterwards.
 
 use serde::{Deserialize, Serialize};
 
 use crate::scene::catalogue;
-use crate::scene::loads::{Case, Intensity, Load, LoadKind, PlanDirection};
+use crate::scene::loads::{Case, Intensity, Load, LoadKind};
 use crate::scene::model::{BeamRole, Bearer, Brace, Deck, Post, PostNode, Rect, Scene, SupportType};
 
 /// What to generate.
@@ -46,8 +47,15 @@ pub struct LayoutSpec {
     pub load_class: Option<u8>,
     /// Support type of every post; its id is used in the scene.
     pub support: SupportType,
-    /// Add face braces in both plan directions and notional horizontal loads both ways.
+    /// Brace every line of posts along x and along y, in every lift: a diagonal in the first
+    /// bay and in every `brace_every`-th bay after it.
     pub braced: bool,
+    /// Bays between braced bays along a line (1 = every bay). Default 3.
+    #[serde(default = "default_brace_every")]
+    pub brace_every: usize,
+    /// Plan-brace every bay at every lift, making each lift a diaphragm.
+    #[serde(default)]
+    pub plan_braced: bool,
     /// Prefix for every generated id, so a layout can be added beside others.
     pub id_prefix: String,
 }
@@ -84,9 +92,15 @@ impl Default for LayoutSpec {
             load_class: Some(3),
             support: catalogue::support_type("jack", jack, Some(sole)),
             braced: true,
+            brace_every: 3,
+            plan_braced: false,
             id_prefix: String::new(),
         }
     }
+}
+
+fn default_brace_every() -> usize {
+    3
 }
 
 /// Grid column name: A, B, …, Z, AA, AB, …
@@ -172,6 +186,7 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
                 method: None,
                 joints: None,
                 decking: spec.decking.clone(),
+                diaphragm: false,
             });
             if let Some(class) = spec.load_class {
                 scene.loads.push(Load::new(format!("{p}Q-{id}"), Case::Q, LoadKind::DeckArea { deck: id, intensity: Intensity::LoadClassUniform(class) }));
@@ -179,42 +194,40 @@ pub fn add_layout(scene: &mut Scene, spec: &LayoutSpec) {
         }
     }
     if spec.braced {
-        // A face brace in the first bay of each outer line, every lift, both directions.
+        // A diagonal in the first bay of every line and every `brace_every`-th bay after it,
+        // every lift, both directions.
+        let every = spec.brace_every.max(1);
         for lift in 0..spec.lifts {
             let (lo, hi) = (spec.base_level + lift as f64 * spec.lift_m, spec.base_level + (lift + 1) as f64 * spec.lift_m);
             let mut brace = |id: String, a: String, b: String| {
                 scene.braces.push(Brace { id, from: PostNode { post: a, level: lo }, to: PostNode { post: b, level: hi } });
             };
-            if nx > 1 {
-                for j in [0, ny - 1] {
-                    brace(format!("{p}BX{}-{}", lift + 1, j + 1), post_id(0, j), post_id(1, j));
-                    if ny == 1 {
-                        break;
-                    }
+            for j in 0..ny {
+                for i in (0..nx - 1).step_by(every) {
+                    brace(format!("{p}BX{}-{}-{}", lift + 1, j + 1, column_name(i)), post_id(i, j), post_id(i + 1, j));
                 }
             }
-            if ny > 1 {
-                for i in [0, nx - 1] {
-                    brace(format!("{p}BY{}-{}", lift + 1, column_name(i)), post_id(i, 0), post_id(i, 1));
-                    if nx == 1 {
-                        break;
-                    }
+            for i in 0..nx {
+                for j in (0..ny - 1).step_by(every) {
+                    brace(format!("{p}BY{}-{}-{}", lift + 1, column_name(i), j + 1), post_id(i, j), post_id(i, j + 1));
                 }
             }
-        }
-        if nx > 1 {
-            scene.loads.push(notional(format!("{p}N+x"), PlanDirection::PlusX));
-            scene.loads.push(notional(format!("{p}N-x"), PlanDirection::MinusX));
-        }
-        if ny > 1 {
-            scene.loads.push(notional(format!("{p}N+y"), PlanDirection::PlusY));
-            scene.loads.push(notional(format!("{p}N-y"), PlanDirection::MinusY));
         }
     }
-}
-
-fn notional(id: String, direction: PlanDirection) -> Load {
-    Load::new(id, Case::W, LoadKind::Notional { percent: crate::scene::loads::DEFAULT_NOTIONAL_PERCENT, direction, basis: vec![Case::G, Case::Q] })
+    if spec.plan_braced {
+        for lift in 1..=spec.lifts {
+            let level = spec.base_level + lift as f64 * spec.lift_m;
+            for j in 0..ny - 1 {
+                for i in 0..nx - 1 {
+                    scene.braces.push(Brace {
+                        id: format!("{p}PB{lift}-{}{}", column_name(i), j + 1),
+                        from: PostNode { post: post_id(i, j), level },
+                        to: PostNode { post: post_id(i + 1, j + 1), level },
+                    });
+                }
+            }
+        }
+    }
 }
 
 /// A new scene holding only the generated layout.
@@ -240,13 +253,15 @@ mod tests {
 
     #[test]
     fn generated_counts() {
-        // common practice, no source: (bx+1)(by+1) posts; per lift (by+1) ledgers + (bx+1) transoms
+        // common practice, no source: (bx+1)(by+1) posts; per lift (by+1) ledgers + (bx+1) transoms;
+        // braces every third bay: bays 0 and 3 of the 4 along x on each of 4 lines, bay 0 of the 3
+        // along y on each of 5 lines
         let spec = LayoutSpec { bays_x: 4, bays_y: 3, lifts: 3, deck_lifts: vec![3], ..LayoutSpec::default() };
         let s = generate("t", 100.0, &spec);
         assert_eq!(s.posts.len(), 20);
         assert_eq!(s.bearers.len(), 3 * (4 + 5));
         assert_eq!(s.decks.len(), 1);
-        assert_eq!(s.braces.len(), 3 * 4);
+        assert_eq!(s.braces.len(), 3 * (4 * 2 + 5));
         if let Err(e) = crate::validate(&s) {
             panic!("{e}");
         }

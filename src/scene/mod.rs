@@ -7,6 +7,7 @@
 //! - [`io`]: scene files, with `file:line:col` errors and atomic saves.
 //! - [`validate`](mod@validate): every problem at once, with element ids; resolves ids to indices and
 //!   sets up the member lines the solver works on ([`Model`]).
+//! - [`bracing`]: what the braces make — braced planes, diaphragms, and where each post is held.
 //! - [`catalogue`]: the component catalogue (jacks, sole plates, sections, decking, friction),
 //!   every value with its source; shipped in `assets/` and extended by the user's files.
 //! - [`standing`]: what each post stands on (ground, existing structure, a post below, a bearer,
@@ -14,6 +15,7 @@
 //! - [`layout`]: the generator of regular scaffolds and birdcages.
 //! - [`demo`]: the built-in demo scenes.
 
+pub mod bracing;
 pub mod catalogue;
 pub mod combination;
 pub mod demo;

@@ -57,6 +57,10 @@ pub struct Scene {
     /// How members share load among their supports. Omitted in older files: the defaults.
     #[serde(default)]
     pub analysis: AnalysisSettings,
+    /// The notional horizontal load and the plan directions the structure is checked in. Omitted
+    /// in older files: the defaults.
+    #[serde(default)]
+    pub horizontal: HorizontalSettings,
 }
 
 fn format_version() -> u32 {
@@ -400,6 +404,11 @@ pub struct Deck {
     /// Catalogue id of the deck type the self-weight was copied from, if any (informative).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub decking: Option<String>,
+    /// Whether the deck is fixed so that it acts as a diaphragm: stiff in its own plane, sharing
+    /// horizontal load among the braced planes it is joined to (nailed plywood, bolted steel
+    /// units). Loose boards are not one. Default: false.
+    #[serde(default)]
+    pub diaphragm: bool,
 }
 
 /// A structure of the permanent works that base plates stand on, such as an existing slab. Its
@@ -431,9 +440,10 @@ pub struct PostNode {
     pub level: f64,
 }
 
-/// A brace between two post nodes. It carries no vertical load; it declares that the structure
-/// is braced in the plan direction(s) it runs in, so horizontal loads in those directions are
-/// taken down to the base plates.
+/// A brace between two post nodes, pin-ended. Either a diagonal that rises in the vertical plane
+/// of a line of posts along x or y (a vertical brace: it braces that plane over the lift it
+/// spans), or a level tube across one bay in plan (a plan brace: it makes the bay part of that
+/// level's diaphragm). A level tube along a ledger is a ledger and braces nothing.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Brace {
@@ -443,6 +453,68 @@ pub struct Brace {
     pub from: PostNode,
     /// The other end.
     pub to: PostNode,
+}
+
+/// The notional horizontal load and the plan directions the structure is checked in.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct HorizontalSettings {
+    /// How the notional horizontal load is generated. Ignored when the scene has notional loads
+    /// of its own (`Notional` loads), which then stand instead.
+    #[serde(default)]
+    pub notional: NotionalRule,
+    /// Plan directions the structure is checked in; a notional load is generated in each one
+    /// and in the direction of every wind load. Default: +x, −x, +y, −y.
+    #[serde(default = "default_directions")]
+    pub directions: Vec<crate::scene::loads::PlanDirection>,
+}
+
+fn default_directions() -> Vec<crate::scene::loads::PlanDirection> {
+    use crate::scene::loads::PlanDirection as D;
+    vec![D::PlusX, D::MinusX, D::PlusY, D::MinusY]
+}
+
+impl Default for HorizontalSettings {
+    fn default() -> Self {
+        HorizontalSettings { notional: NotionalRule::default(), directions: default_directions() }
+    }
+}
+
+impl HorizontalSettings {
+    /// Whether these are the default settings.
+    pub fn is_default(&self) -> bool {
+        *self == HorizontalSettings::default()
+    }
+}
+
+/// How the notional horizontal load is generated, in each checked direction, from the vertical
+/// load V of the permanent and imposed cases (applied where that load enters the posts).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize, Default)]
+pub enum NotionalRule {
+    /// The falsework rule: the horizontal load in a direction is the greater of 2.5 % of V and
+    /// the identified horizontal forces in that direction plus 1 % of V. Wind in that direction
+    /// counts as identified; the notional load makes up the difference, never less than 1 % of V.
+    /// Identified point forces (`Horizontal` loads) may be absent, so they do not reduce it.
+    // source: 2.5 % — BS 5975:2008+A1:2011 cl. 19 (via a secondary summary); "identifiable forces
+    // + 1 %" — Advisory Committee on Falsework (Bragg) final report, HMSO 1975 (C, REFERENCES §4).
+    // That BS 5975 keeps the "+ 1 %" alternative, and that wind counts as identified: from memory.
+    #[default]
+    Falsework,
+    /// A fixed percentage of V in each direction.
+    Percent(f64),
+    /// None generated.
+    Off,
+}
+
+impl NotionalRule {
+    /// Short description for outputs.
+    pub fn describe(self) -> String {
+        match self {
+            NotionalRule::Falsework => "greater of 2.5 % of the vertical load, or wind in that direction + 1 % (falsework rule)".into(),
+            NotionalRule::Percent(p) => format!("{p} % of the vertical load"),
+            NotionalRule::Off => "none generated".into(),
+        }
+    }
 }
 
 /// Settings of the overturning and sliding checks.
@@ -674,6 +746,7 @@ impl Scene {
             combinations: Combination::defaults(),
             stability: StabilitySettings::default(),
             analysis: AnalysisSettings::default(),
+            horizontal: HorizontalSettings::default(),
         }
     }
 

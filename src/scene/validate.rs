@@ -4,9 +4,10 @@
 use rustc_hash::FxHashMap as HashMap;
 use std::fmt;
 
+use crate::scene::bracing::{analyse_bracing, place_loads, Bracing};
 use crate::scene::loads::{Intensity, KentledgePlace, LoadKind};
 use crate::scene::model::{ElementKind, Scene};
-use crate::scene::standing::{self, LoadPathGraph, StandsOn};
+use crate::scene::standing::{self, LoadPathGraph};
 
 /// Plan and level tolerance for "the same place", m.
 pub const GEOMETRY_TOLERANCE_M: f64 = 1e-3;
@@ -157,12 +158,12 @@ pub enum Target {
     None,
 }
 
-/// Which plan directions the braces cover.
+/// Which plan directions have a braced plane.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, serde::Serialize)]
 pub struct Braced {
-    /// Some brace runs along x (within 75°).
+    /// Some plane along x is braced from the ground.
     pub x: bool,
-    /// Some brace runs along y (within 75°).
+    /// Some plane along y is braced from the ground.
     pub y: bool,
 }
 
@@ -185,12 +186,11 @@ pub struct Model<'s> {
     pub load_posts: Vec<Vec<usize>>,
     /// Braced plan directions.
     pub braced: Braced,
+    /// Braced planes, diaphragms, and where each post is held horizontally.
+    pub bracing: Bracing,
     /// Non-fatal findings worth a look.
     pub warnings: Vec<Problem>,
 }
-
-/// A brace counts for an axis if its plan direction is within this many degrees of it.
-const BRACE_AXIS_LIMIT_DEG: f64 = 75.0;
 
 struct Checker<'s> {
     scene: &'s Scene,
@@ -280,11 +280,13 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
     let decks = check_decks(&mut c, &bearer_ix, &bearers);
     check_existing_structures(&mut c);
     let graph = load_path_graph(&mut c, &bearers, &decks);
-    let braced = check_braces(&mut c, &post_ix);
-    let (load_targets, load_posts) = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers, braced);
+    let brace_ends = check_braces(&mut c, &post_ix);
+    let (load_targets, load_posts) = check_loads(&mut c, &deck_ix, &bearer_ix, &post_ix, &bearers);
     check_kentledge_plates(&mut c, &post_ix, &load_posts, graph.as_ref());
     check_combinations(&mut c);
-    check_one_braced_body(&mut c, &post_ix, &bearers, graph.as_ref());
+    let mut bracing = analyse_bracing(scene, &brace_ends, &bearers, graph.as_ref().map(|g| g.stands_on.as_slice()), &mut c.problems, &mut c.warnings);
+    place_loads(scene, &mut bracing, &mut c.problems);
+    let braced = Braced { x: bracing.braced_along(Axis::X), y: bracing.braced_along(Axis::Y) };
 
     match graph {
         Some(graph) if c.problems.is_empty() => Ok(Model {
@@ -296,6 +298,7 @@ pub fn validate<'s>(scene: &'s Scene) -> Result<Model<'s>, ValidationError> {
             load_targets,
             load_posts,
             braced,
+            bracing,
             warnings: c.warnings,
         }),
         _ => Err(ValidationError { problems: c.problems }),
@@ -372,6 +375,15 @@ fn check_site(c: &mut Checker) {
                 c.at_least(K::Site, &name, "allowable pressure on the granular layer (kPa)", q, MIN_CAPACITY, LIMIT_KN);
             }
             None => c.warn(K::Site, &name, "no allowable pressure on the granular layer entered: pressure under the plates on top of the layer is not checked"),
+        }
+    }
+    let h = &c.scene.horizontal;
+    if let crate::scene::model::NotionalRule::Percent(p) = h.notional {
+        c.positive(K::Site, &name, "notional horizontal load (%)", p, 100.0, true);
+    }
+    for d in &h.directions {
+        if let crate::scene::loads::PlanDirection::Degrees(deg) = d {
+            c.number(K::Site, &name, "checked direction (degrees)", *deg, 1e4);
         }
     }
     let st = &c.scene.stability;
@@ -708,14 +720,16 @@ fn check_decks(c: &mut Checker, bearer_ix: &HashMap<&str, usize>, bearers: &[Opt
     out
 }
 
-fn check_braces(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Braced {
+/// Brace ends on existing posts, within their height; the posts at the two ends of each brace.
+/// What each brace is (and whether it is a brace at all) is worked out in
+/// [`crate::scene::bracing`].
+fn check_braces(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Vec<Option<(usize, usize)>> {
     use ElementKind as K;
     let scene = c.scene;
-    let mut braced = Braced::default();
-    let limit = BRACE_AXIS_LIMIT_DEG.to_radians().cos();
+    let mut out = Vec::with_capacity(scene.braces.len());
     for b in &scene.braces {
-        let mut ends = Vec::new();
-        for node in [&b.from, &b.to] {
+        let mut ends = [None, None];
+        for (k, node) in [&b.from, &b.to].into_iter().enumerate() {
             match post_ix.get(node.post.as_str()) {
                 None => c.err(K::Brace, &b.id, format!("post \"{}\" does not exist", node.post)),
                 Some(&p) => {
@@ -725,25 +739,13 @@ fn check_braces(c: &mut Checker, post_ix: &HashMap<&str, usize>) -> Braced {
                     {
                         c.err(K::Brace, &b.id, format!("level {} is not on post {}", node.level, post.id));
                     }
-                    ends.push(post);
+                    ends[k] = Some(p);
                 }
             }
         }
-        if let [a, z] = ends[..] {
-            let (dx, dy) = (z.x - a.x, z.y - a.y);
-            let len = dx.hypot(dy);
-            if !len.is_finite() {
-                continue;
-            }
-            if len < GEOMETRY_TOLERANCE_M {
-                c.err(K::Brace, &b.id, "joins two points on the same post line: it braces no plan direction");
-                continue;
-            }
-            braced.x |= dx.abs() / len >= limit;
-            braced.y |= dy.abs() / len >= limit;
-        }
+        out.push(ends[0].zip(ends[1]));
     }
-    braced
+    out
 }
 
 fn check_loads(
@@ -752,7 +754,6 @@ fn check_loads(
     bearer_ix: &HashMap<&str, usize>,
     post_ix: &HashMap<&str, usize>,
     bearers: &[Option<BearerLine>],
-    braced: Braced,
 ) -> (Vec<Target>, Vec<Vec<usize>>) {
     use ElementKind as K;
     let scene = c.scene;
@@ -861,7 +862,7 @@ fn check_loads(
                 for (what, v, lim) in [("x (m)", *x, LIMIT_M), ("y (m)", *y, LIMIT_M), ("level (m)", *level, LIMIT_M), ("force (kN)", *kn, LIMIT_KN)] {
                     c.number(K::Load, id, what, v, lim);
                 }
-                check_direction(c, id, *direction, braced);
+                check_direction(c, id, *direction);
                 Some(Target::None)
             }
             LoadKind::Wind { face, kpa, direction } => {
@@ -873,7 +874,7 @@ fn check_loads(
                 if ok && face.top - face.bottom < MIN_SPAN_M {
                     c.err(K::Load, id, format!("face top {} must be above its bottom {}", face.top, face.bottom));
                 }
-                if check_direction(c, id, *direction, braced) && ok {
+                if check_direction(c, id, *direction) && ok {
                     let (ux, uy) = direction.unit();
                     let (dx, dy) = (face.to.0 - face.from.0, face.to.1 - face.from.1);
                     if (dx * uy - dy * ux).abs() < MIN_SPAN_M {
@@ -923,90 +924,13 @@ fn check_loads(
                 if let Some(twice) = basis.iter().enumerate().find(|(i, b)| basis[..*i].contains(b)) {
                     c.err(K::Load, id, format!("names case {} twice: its percentage would be counted twice", twice.1));
                 }
-                check_direction(c, id, *direction, braced);
+                check_direction(c, id, *direction);
                 Some(Target::None)
             }
         };
         out.push(target.unwrap_or(Target::None));
     }
     (out, load_posts)
-}
-
-/// Horizontal loads are shared among all base plates as one rigid braced body. That holds only
-/// if every post is joined to the others by bearers or braces: separate structures would lean
-/// on each other through nothing, so refuse rather than give a wrong share.
-fn check_one_braced_body(c: &mut Checker, post_ix: &HashMap<&str, usize>, bearers: &[Option<BearerLine>], graph: Option<&LoadPathGraph>) {
-    let scene = c.scene;
-    let n = scene.posts.len();
-    if n < 2 || !scene.loads.iter().any(|l| l.kind.is_horizontal()) {
-        return;
-    }
-    let mut parent: Vec<usize> = (0..n).collect();
-    fn root(parent: &mut [usize], mut i: usize) -> usize {
-        while parent[i] != i {
-            parent[i] = parent[parent[i]];
-            i = parent[i];
-        }
-        i
-    }
-    fn join(parent: &mut [usize], a: usize, b: usize) {
-        let (ra, rb) = (root(parent, a), root(parent, b));
-        parent[ra] = rb;
-    }
-    // Bearers by their resolved posts (ids already looked up once); braces by id.
-    for line in bearers.iter().flatten() {
-        for w in line.posts.windows(2) {
-            join(&mut parent, w[0], w[1]);
-        }
-    }
-    for b in &scene.braces {
-        if let (Some(&a), Some(&z)) = (post_ix.get(b.from.post.as_str()), post_ix.get(b.to.post.as_str())) {
-            join(&mut parent, a, z);
-        }
-    }
-    // A post standing on another member belongs to the structure under it.
-    for (p, s) in graph.map(|g| g.stands_on.as_slice()).unwrap_or_default().iter().enumerate() {
-        match *s {
-            StandsOn::Post(q) => join(&mut parent, p, q),
-            StandsOn::Bearer { bearer, .. } => {
-                if let Some(line) = &bearers[bearer] {
-                    join(&mut parent, p, line.posts[0]);
-                }
-            }
-            StandsOn::Deck(d) => {
-                let first_bearer = scene.decks[d].bearers.first().and_then(|id| scene.bearers.iter().position(|b| &b.id == id));
-                if let Some(line) = first_bearer.and_then(|b| bearers[b].as_ref()) {
-                    join(&mut parent, p, line.posts[0]);
-                }
-            }
-            StandsOn::Ground | StandsOn::Structure(_) => {}
-        }
-    }
-    // First post of each separate group, in file order.
-    let mut firsts: Vec<(usize, usize)> = Vec::new();
-    let mut root_seen = vec![false; n];
-    for i in 0..n {
-        let r = root(&mut parent, i);
-        if !root_seen[r] {
-            root_seen[r] = true;
-            firsts.push((r, i));
-        }
-    }
-    if firsts.len() > 1 {
-        let names: Vec<&str> = firsts.iter().take(4).map(|&(_, i)| scene.posts[i].id.as_str()).collect();
-        let more = if firsts.len() > 4 { ", …" } else { "" };
-        for l in scene.loads.iter().filter(|l| l.kind.is_horizontal()) {
-            c.err(
-                ElementKind::Load,
-                &l.id,
-                format!(
-                    "acts horizontally, but the posts form {} separate structures not joined by any bearer or brace (the groups of {}{more}): horizontal load cannot be shared between them; join them or analyse each in its own scene",
-                    firsts.len(),
-                    names.join(", ")
-                ),
-            );
-        }
-    }
 }
 
 /// The plates named for kentledge (in the stability settings, and those a kentledge sits on) must
@@ -1031,25 +955,13 @@ fn check_kentledge_plates(c: &mut Checker, post_ix: &HashMap<&str, usize>, load_
     }
 }
 
-/// A horizontal load needs bracing in each plan direction it has a component in.
-fn check_direction(c: &mut Checker, id: &str, dir: crate::scene::loads::PlanDirection, braced: Braced) -> bool {
+/// A plan direction given in degrees must be a number. Whether the bracing can take the load is
+/// found when it is carried down ([`crate::solve::braced`]).
+fn check_direction(c: &mut Checker, id: &str, dir: crate::scene::loads::PlanDirection) -> bool {
     if let crate::scene::loads::PlanDirection::Degrees(d) = dir {
         if !c.number(ElementKind::Load, id, "direction (degrees)", d, 1e4) {
             return false;
         }
-    }
-    let (ux, uy) = dir.unit();
-    let tol = 1e-9;
-    let mut missing = Vec::new();
-    if ux.abs() > tol && !braced.x {
-        missing.push("x");
-    }
-    if uy.abs() > tol && !braced.y {
-        missing.push("y");
-    }
-    if !missing.is_empty() {
-        c.err(ElementKind::Load, id, format!("acts horizontally along {}, but no brace covers that direction: add a brace or remove the load", missing.join(" and ")));
-        return false;
     }
     true
 }
@@ -1074,6 +986,13 @@ fn check_combinations(c: &mut Checker) {
         }
         if f.g_favourable > f.g_unfavourable {
             c.warn(K::Combination, n, "favourable permanent factor is above the unfavourable one");
+        }
+        if let Some(psi) = comb.psi0 {
+            for (what, v) in [("ψ0 of imposed loads", psi.imposed), ("ψ0 of horizontal loads", psi.horizontal)] {
+                if c.number(K::Combination, n, what, v, 1.0) && v < 0.0 {
+                    c.err(K::Combination, n, format!("{what} must be from 0 to 1 (it is {v})"));
+                }
+            }
         }
     }
 }

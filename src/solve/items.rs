@@ -83,6 +83,54 @@ pub enum Route {
     Overturning,
     /// Kentledge sitting on the plate.
     Kentledge,
+    /// The vertical components of the brace forces at this post's nodes, from the braced bays
+    /// its post is part of (the item's [`Item::lift_shear`] gives each brace's share).
+    Bracing,
+}
+
+/// What kind of action a load item is, for combining it with the others.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, serde::Serialize)]
+pub enum Action {
+    /// A vertical load.
+    Vertical,
+    /// Wind: the plan directions are alternatives.
+    Wind,
+    /// An identified horizontal force: independent, present wherever it is unfavourable.
+    Identified,
+    /// A notional horizontal load: acts with the wind of its own direction.
+    Notional,
+}
+
+/// The reactions of a horizontal item under a second assumption about how its diaphragms share
+/// it (the primary is the lever rule between adjacent braced planes, this one a rigid diaphragm
+/// with equal-stiffness planes). Each balances the load on its own; the worse governs each plate.
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct Alternative {
+    /// What the primary reactions assume.
+    pub primary: &'static str,
+    /// What these assume.
+    pub label: &'static str,
+    /// Upward vertical reaction at each plate it reaches: (post, kN).
+    pub vertical: Vec<(u32, f64)>,
+    /// Load passed on at the base of posts standing on other members: (post, kN).
+    pub internal: Vec<(u32, f64)>,
+    /// Horizontal reaction at each plate it reaches: (plate, [x, y] kN).
+    pub shear: Vec<(u32, [f64; 2])>,
+    /// As [`Item::vertical_permanent_basis`].
+    pub vertical_permanent_basis: Option<Vec<(u32, f64)>>,
+}
+
+/// One set of reactions of an item (see [`Item::variant`]).
+#[derive(Debug, Clone, Copy)]
+pub struct Variant<'a> {
+    /// Upward vertical reaction at each plate: (post, kN).
+    pub vertical: &'a [(u32, f64)],
+    /// Load passed on at the base of posts standing on other members: (post, kN).
+    pub internal: &'a [(u32, f64)],
+    /// Horizontal reaction at each plate: (post, [x, y] kN).
+    pub shear: &'a [(u32, [f64; 2])],
+    /// For a notional load: the part due to permanent load, at plates and other posts alike.
+    pub permanent: Option<&'a [(u32, f64)]>,
 }
 
 /// One share of the load entering one post: the trace behind every number. The shares of a post
@@ -123,6 +171,16 @@ pub struct Item {
     /// part due to permanent load alone. Where uplift is sought the variable load is absent, and
     /// so is the notional load it would cause.
     pub vertical_permanent_basis: Option<Vec<(u32, f64)>>,
+    /// How it combines with the others.
+    pub action: Action,
+    /// Its reactions under the other diaphragm assumption, where that differs.
+    pub alternative: Option<Box<Alternative>>,
+    /// How a generated item was made (e.g. the notional rule and the vertical load it is a share
+    /// of); empty for the scene's own loads.
+    pub note: String,
+    /// For a horizontal item: the shear of each lift of each braced plane, flat over the planes'
+    /// levels (primary reactions), kN; empty otherwise.
+    pub lift_shear: Vec<f64>,
     /// For an arranged imposed load: its cells and, at every post, the worst arrangement. The
     /// whole-load reactions above are then the case with every cell loaded.
     pub arranged: Option<Arranged>,
@@ -181,7 +239,22 @@ pub enum CellPlace {
 impl Item {
     /// An item of a load with nothing reaching the base yet.
     pub fn new(id: impl Into<String>, case: Case, applied: Resultant) -> Self {
-        Item { id: id.into(), case, applied, vertical: Vec::new(), internal: Vec::new(), shear: Vec::new(), direction: None, vertical_permanent_basis: None, arranged: None, working_level: None }
+        Item {
+            id: id.into(),
+            case,
+            applied,
+            vertical: Vec::new(),
+            internal: Vec::new(),
+            shear: Vec::new(),
+            direction: None,
+            vertical_permanent_basis: None,
+            action: Action::Vertical,
+            alternative: None,
+            note: String::new(),
+            lift_shear: Vec::new(),
+            arranged: None,
+            working_level: None,
+        }
     }
 
     /// Horizontal loads in the same plan direction act together; loads in different directions
@@ -195,15 +268,38 @@ impl Item {
 
     /// Resultant of the item's plate reactions.
     pub fn reaction_resultant(&self, plates: &[[f64; 3]]) -> Resultant {
-        let mut r = Resultant::default();
-        for &(p, v) in &self.vertical {
-            r.add(plates[p as usize], [0.0, 0.0, v]);
-        }
-        for &(p, [sx, sy]) in &self.shear {
-            r.add(plates[p as usize], [sx, sy, 0.0]);
-        }
-        r
+        resultant_of(plates, &self.vertical, &self.shear)
     }
+
+    /// Number of reaction sets: 2 when an alternative diaphragm assumption differs, else 1.
+    pub fn variant_count(&self) -> usize {
+        1 + self.alternative.is_some() as usize
+    }
+
+    /// Reaction set `v` (0 = primary, 1 = the alternative; the primary if there is none).
+    pub fn variant(&self, v: usize) -> Variant<'_> {
+        match (&self.alternative, v) {
+            (Some(a), 1) => Variant { vertical: &a.vertical, internal: &a.internal, shear: &a.shear, permanent: a.vertical_permanent_basis.as_deref() },
+            _ => Variant { vertical: &self.vertical, internal: &self.internal, shear: &self.shear, permanent: self.vertical_permanent_basis.as_deref() },
+        }
+    }
+
+    /// Resultant of the plate reactions of reaction set `v`.
+    pub fn variant_resultant(&self, plates: &[[f64; 3]], v: usize) -> Resultant {
+        let r = self.variant(v);
+        resultant_of(plates, r.vertical, r.shear)
+    }
+}
+
+fn resultant_of(plates: &[[f64; 3]], vertical: &[(u32, f64)], shear: &[(u32, [f64; 2])]) -> Resultant {
+    let mut r = Resultant::default();
+    for &(p, v) in vertical {
+        r.add(plates[p as usize], [0.0, 0.0, v]);
+    }
+    for &(p, [sx, sy]) in shear {
+        r.add(plates[p as usize], [sx, sy, 0.0]);
+    }
+    r
 }
 
 /// Id of the item that holds the self-weight of every element.

@@ -3,8 +3,8 @@
 //! Each load of the scene (and the self-weight of everything, as one more permanent load) is an
 //! *item*. Vertical items go deck strip → bearer → post → base plate, each member sharing its
 //! load among its supports either by segment moment balance ([`crate::solve::beam`]) or as a continuous
-//! beam ([`crate::solve::continuous`]); horizontal items go to the plates through the rigid braced base
-//! ([`crate::solve::rigid_base`]). Each item's plate reactions are kept separately, so combinations can
+//! beam ([`crate::solve::continuous`]); horizontal items go down the braced planes to the plates
+//! ([`crate::solve::braced`]). Each item's plate reactions are kept separately, so combinations can
 //! take each variable load only where it is unfavourable, and every reaction can be traced back.
 //!
 //! A scene whose members follow the method envelope is solved once per [`MethodPass`]
@@ -21,7 +21,7 @@ use crate::solve::continuous::{JointedBeam, TwoSpanLocal};
 use crate::solve::arrangement::FlowCache;
 use crate::solve::passes::Behaviour;
 use crate::scene::loads::{Case, Intensity, KentledgePlace, LoadKind};
-use crate::solve::rigid_base::{RigidBase, RigidBaseError};
+use crate::solve::braced::{horizontal_items, route_item, Network, NodeLoads};
 use crate::scene::validate::{Model, Target};
 use crate::solve::items::{Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
 use crate::solve::passes::{method_passes, MethodPass};
@@ -34,14 +34,22 @@ pub enum SolveError {
     /// A single-post bearer whose loads do not balance about the post.
     #[error("{0}")]
     TeeHeadTips(#[from] TeeHeadTips),
-    /// The base cannot take a horizontal load.
-    #[error("horizontal load {load} cannot be taken to the ground: {reason}")]
-    Horizontal {
-        /// Load id.
-        load: String,
-        /// Why.
-        reason: RigidBaseError,
+    /// Horizontal loads that cannot reach the ground through the bracing, each with its reasons.
+    #[error("{}", describe_paths(problems))]
+    HorizontalPath {
+        /// (load id, reasons).
+        problems: Vec<crate::solve::braced::PathProblem>,
     },
+}
+
+fn describe_paths(problems: &[crate::solve::braced::PathProblem]) -> String {
+    let mut s = format!("{} horizontal load{} cannot reach the ground through the bracing:", problems.len(), if problems.len() == 1 { "" } else { "s" });
+    for (load, reasons) in problems {
+        for r in reasons {
+            s.push_str(&format!("\n  - load {load}: {r}"));
+        }
+    }
+    s
 }
 
 /// Vertical load entering each post at a level: what the notional horizontal load is made of.
@@ -140,30 +148,46 @@ pub fn solve(model: &Model) -> Result<Solution, SolveError> {
     solve_pass(model, pass)
 }
 
-/// One solution per method pass of the scene ([`method_passes`]), primary first.
+/// One solution per method pass of the scene ([`method_passes`]), primary first. The bracing is
+/// prepared once for them all.
 pub fn solve_methods(model: &Model) -> Result<Vec<Solution>, SolveError> {
+    let net = Network::new(model, &Nodes::new(model).at);
     // Unit flows of the arranged loads are shared by the passes where a bearer behaves alike.
     let mut cache = FlowCache::default();
-    method_passes(model.scene).into_iter().map(|pass| solve_pass_with(model, pass, &mut cache)).collect()
+    let mut primary_nodes: Option<NodeSnapshot> = None;
+    let mut out = Vec::new();
+    for pass in method_passes(model.scene) {
+        let (solution, nodes) = solve_pass_with(model, pass, &net, &mut cache, primary_nodes.as_ref())?;
+        primary_nodes.get_or_insert(nodes);
+        out.push(solution);
+    }
+    Ok(out)
 }
 
 /// Carry every load of a validated scene down to the base plates, members behaving as `pass` says.
 pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveError> {
-    solve_pass_with(model, pass, &mut FlowCache::default())
+    let net = Network::new(model, &Nodes::new(model).at);
+    let mut cache = FlowCache::default();
+    // A pass of local models takes its notional load from the primary pass (see below).
+    let primary = if pass.is_one_state() { None } else { Some(solve_pass_with(model, method_passes(model.scene).swap_remove(0), &net, &mut cache, None)?.1) };
+    Ok(solve_pass_with(model, pass, &net, &mut cache, primary.as_ref())?.0)
 }
 
-fn solve_pass_with(model: &Model, pass: MethodPass, cache: &mut FlowCache) -> Result<Solution, SolveError> {
+/// The vertical load entering each notional-load node per case, and its first moments.
+type NodeSnapshot = (Vec<[f64; 3]>, [[f64; 4]; 3]);
+
+fn solve_pass_with(model: &Model, pass: MethodPass, net: &Network, cache: &mut FlowCache, primary_nodes: Option<&NodeSnapshot>) -> Result<(Solution, NodeSnapshot), SolveError> {
     let scene = model.scene;
     let plates: Vec<[f64; 3]> = scene.posts.iter().map(|p| [p.x, p.y, p.base_level]).collect();
     let is_plate: Vec<bool> = (0..scene.posts.len()).map(|p| model.graph.is_plate(p)).collect();
     let mut s = Solver::new(model, &pass);
     s.flow_cache = std::mem::take(cache);
-    let solved = solve_with(&mut s, model, pass, plates, is_plate);
+    let solved = solve_with(&mut s, model, pass, net, plates, is_plate, primary_nodes);
     *cache = std::mem::take(&mut s.flow_cache);
-    solved
+    Ok((solved?, (std::mem::take(&mut s.nodes.load), s.nodes.moments)))
 }
 
-fn solve_with(s: &mut Solver, model: &Model, pass: MethodPass, plates: Vec<[f64; 3]>, is_plate: Vec<bool>) -> Result<Solution, SolveError> {
+fn solve_with(s: &mut Solver, model: &Model, pass: MethodPass, net: &Network, plates: Vec<[f64; 3]>, is_plate: Vec<bool>, primary_nodes: Option<&NodeSnapshot>) -> Result<Solution, SolveError> {
     let scene = model.scene;
     // Slot 0: self-weight; slot k + 1: the scene's load k.
     let mut heads = TeeHeads::default();
@@ -280,44 +304,34 @@ fn solve_with(s: &mut Solver, model: &Model, pass: MethodPass, plates: Vec<[f64;
     // Permanent loads act together; each variable load may act alone, on either arm.
     let head_moments = heads.check(model)?;
 
-    // Horizontal loads, after the vertical ones: a notional load is a share of them. They reach
-    // the base plates only (not the posts standing on other members).
-    let plate_posts: Vec<u32> = (0..plates.len() as u32).filter(|&p| is_plate[p as usize]).collect();
-    let plate_at: Vec<[f64; 3]> = plate_posts.iter().map(|&p| plates[p as usize]).collect();
-    let mut rigid: Option<RigidBase> = None;
+    // Horizontal loads, after the vertical ones: a notional load is a share of them. They go down
+    // the braced planes; the vertical components of the brace forces enter the posts at their
+    // nodes and flow down to the plates like any other load.
     s.nodes.sum_moments(scene);
-    for (k, load) in scene.loads.iter().enumerate() {
-        if !load.kind.is_horizontal() {
-            continue;
-        }
-        let item = (k + 1) as u32;
-        let applied = s.horizontal_resultant(&load.kind, None);
-        let base = match &rigid {
-            Some(b) => b,
-            None => rigid.insert(RigidBase::new(&plate_at).map_err(|reason| SolveError::Horizontal { load: load.id.clone(), reason })?),
-        };
-        let share_of = |r: &Resultant| {
-            base.share_horizontal([r.force[0], r.force[1]], r.moment).map_err(|reason| SolveError::Horizontal { load: load.id.clone(), reason })
-        };
-        let share = share_of(&applied)?;
-        let vertical_permanent_basis = match &load.kind {
-            LoadKind::Notional { basis, .. } if basis.iter().any(|c| *c != Case::G) => {
-                let part = share_of(&s.horizontal_resultant(&load.kind, Some(&[Case::G])))?;
-                Some(plate_posts.iter().zip(&part.vertical).map(|(&p, &v)| (p, v)).collect())
+    // A pass that takes each support's reaction from its own local model (two-span continuity
+    // support by support) puts more load into the posts than is applied, by design. The notional
+    // load is a share of the load applied, so such a pass takes its node loads from the primary
+    // pass (simple spans, which balances exactly); each pass routes them down its own way.
+    let (node_load, node_moments) = match primary_nodes {
+        Some((load, moments)) if !pass.is_one_state() => (load.as_slice(), *moments),
+        _ => (s.nodes.load.as_slice(), s.nodes.moments),
+    };
+    let nodes = NodeLoads { at: &s.nodes.at, load: node_load, moments: node_moments };
+    let horizontal = horizontal_items(model, net, &nodes).map_err(|problems| SolveError::HorizontalPath { problems })?;
+    // Horizontal loads fill their slots below.
+    let mut items: Vec<Item> = items.into_iter().map(|i| i.unwrap_or_else(|| Item::new(String::new(), Case::W, Resultant::default()))).collect();
+    for h in horizontal {
+        match h.slot {
+            Some(k) => {
+                let it = route_item(s, (k + 1) as u32, h);
+                items[k + 1] = it;
             }
-            _ => None,
-        };
-        let mut it = Item::new(load.id.clone(), load.case, applied);
-        for (&p, &v) in plate_posts.iter().zip(&share.vertical) {
-            it.vertical.push((p, v));
-            s.contributions.push(Contribution { post: p, item, route: Route::Overturning, kn: v });
+            None => {
+                let it = route_item(s, items.len() as u32, h);
+                items.push(it);
+            }
         }
-        it.shear = plate_posts.iter().zip(&share.shear).map(|(&p, &v)| (p, v)).collect();
-        it.direction = horizontal_direction(&load.kind);
-        it.vertical_permanent_basis = vertical_permanent_basis;
-        items[k + 1] = Some(it);
     }
-    let items = items.into_iter().map(|i| i.expect("every load is solved once")).collect();
     let local_residual = s.bearer_beams.iter().chain(&s.deck_beams).flatten().map(MemberBeam::worst_residual).fold(0.0, f64::max);
     Ok(Solution { plates, is_plate, items, contributions: std::mem::take(&mut s.contributions), method: pass, head_moments, local_residual })
 }
@@ -362,6 +376,11 @@ impl<'m, 's> Solver<'m, 's> {
             flow_cache: FlowCache::default(),
             flow_buffer: Vec::new(),
         }
+    }
+
+    /// The trace of the current solution, to add shares to.
+    pub(super) fn contributions_mut(&mut self) -> &mut Vec<Contribution> {
+        &mut self.contributions
     }
 
     /// Put a member in line to pass its loads on.
@@ -568,45 +587,6 @@ impl<'m, 's> Solver<'m, 's> {
             self.contributions.push(Contribution { post: post as u32, item, route, kn: r });
         }
     }
-
-    /// Resultant of the forces a horizontal load applies. A notional load takes its percentage
-    /// of the vertical load of `basis` if given, else of its own basis cases, at every node
-    /// where that load enters a post.
-    fn horizontal_resultant(&self, kind: &LoadKind, basis: Option<&[Case]>) -> Resultant {
-        let mut r = Resultant::default();
-        match kind {
-            LoadKind::Horizontal { x, y, level, kn, direction } => {
-                let (ux, uy) = direction.unit();
-                r.add([*x, *y, *level], [kn * ux, kn * uy, 0.0]);
-            }
-            LoadKind::Wind { face, kpa, direction } => {
-                let (ux, uy) = direction.unit();
-                let (dx, dy) = (face.to.0 - face.from.0, face.to.1 - face.from.1);
-                let projected = (dx * uy - dy * ux).abs();
-                let f = kpa * projected * (face.top - face.bottom);
-                let at = [0.5 * (face.from.0 + face.to.0), 0.5 * (face.from.1 + face.to.1), 0.5 * (face.bottom + face.top)];
-                r.add(at, [f * ux, f * uy, 0.0]);
-            }
-            LoadKind::Notional { percent, direction, basis: own } => {
-                let basis = basis.unwrap_or(own);
-                let (ux, uy) = direction.unit();
-                let share = percent / 100.0;
-                // Forces share·V·u at every node: only the node sums ΣV, ΣVx, ΣVy, ΣVz matter.
-                let [v, vx, vy, vz] = basis.iter().fold([0.0; 4], |a, c| {
-                    let m = self.nodes.moments[c.index()];
-                    [a[0] + m[0], a[1] + m[1], a[2] + m[2], a[3] + m[3]]
-                });
-                let (fx, fy) = (share * v * ux, share * v * uy);
-                r.force[0] += fx;
-                r.force[1] += fy;
-                r.moment[0] += -share * vz * uy;
-                r.moment[1] += share * vz * ux;
-                r.moment[2] += share * (vx * uy - vy * ux);
-            }
-            _ => {}
-        }
-        r
-    }
 }
 
 /// One moment per single-post bearer: (bearer, Σ moment, Σ scale) of a flow's entries.
@@ -615,16 +595,6 @@ fn sum_per_bearer(moments: &[(usize, f64, f64)]) -> Vec<(usize, f64, f64)> {
     let mut sorted = moments.to_vec();
     sorted.sort_unstable_by_key(|e| e.0);
     sorted.chunk_by(|a, b| a.0 == b.0).map(|g| (g[0].0, g.iter().map(|e| e.1).sum(), g.iter().map(|e| e.2).sum())).collect()
-}
-
-fn horizontal_direction(kind: &LoadKind) -> Option<[f64; 2]> {
-    match kind {
-        LoadKind::Horizontal { direction, .. } | LoadKind::Wind { direction, .. } | LoadKind::Notional { direction, .. } => {
-            let (x, y) = direction.unit();
-            Some([x, y])
-        }
-        _ => None,
-    }
 }
 
 /// Where a reaction of `piece` at support `k` is summed: (slot, side).

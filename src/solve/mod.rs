@@ -5,7 +5,9 @@
 //! - [`arrangement`]: imposed loads split into cells, each placed only where it is unfavourable.
 //! - [`beam`]: one member's load shared among its supports by segment moment balance.
 //! - [`continuous`]: the same member continuous over its supports (direct stiffness method).
-//! - [`rigid_base`]: horizontal loads shared among the plates of a rigid braced structure.
+//! - [`braced`]: horizontal loads down the braced planes, through the diaphragms, to the plates.
+//! - [`rigid_base`]: loads shared among the plates of a rigid base (the pile-group formula); not
+//!   used by the scene path.
 //! - [`tee_heads`]: bearers on a single post must balance, or stay within a stated head moment
 //!   capacity, with either arm loaded alone.
 //! - [`influence`]: the reaction at every post for a unit load anywhere on a deck.
@@ -16,6 +18,7 @@
 
 pub mod arrangement;
 pub mod beam;
+pub mod braced;
 pub mod continuous;
 pub mod influence;
 pub mod items;
@@ -24,6 +27,6 @@ pub mod passes;
 pub mod rigid_base;
 pub mod tee_heads;
 
-pub use items::{Arranged, Cell, CellPlace, Contribution, Item, Resultant, Route, Solution, SELF_WEIGHT_ID};
+pub use items::{Action, Alternative, Arranged, Cell, CellPlace, Contribution, Item, Resultant, Route, Solution, Variant, SELF_WEIGHT_ID};
 pub use load_path::{solve, solve_methods, solve_pass, SolveError};
 pub use passes::{method_passes, Behaviour, MethodPass};

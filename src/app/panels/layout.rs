@@ -172,8 +172,16 @@ impl LayoutPanel {
                     }
                 }
             }
-            ui.label("Braces and notional loads");
+            ui.label("Braces in every line");
             ui.checkbox(&mut spec.braced, "");
+            ui.end_row();
+            if spec.braced {
+                ui.label("  braced bay every");
+                ui.add(egui::DragValue::new(&mut spec.brace_every).range(1..=20).suffix(" bays"));
+                ui.end_row();
+            }
+            ui.label("Plan braces at every lift");
+            ui.checkbox(&mut spec.plan_braced, "");
             ui.end_row();
             ui.label("Id prefix");
             ui.add(egui::TextEdit::singleline(&mut spec.id_prefix).desired_width(80.0));

@@ -131,6 +131,12 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
     if let Some(s) = p.sliding.as_ref().filter(|s| s.slides) {
         text += &format!("\nslides: restrain for {:.2} kN", s.restraint_kn);
     }
+    // Which braced bays' brace forces it carries.
+    if !p.brace.bays.is_empty() || p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10 {
+        let bays = a.bays_of(&p.brace);
+        let from = if bays.is_empty() { "posts above".to_owned() } else { format!("braced bay{} {}", if bays.len() == 1 { "" } else { "s" }, bays.join(", ")) };
+        text.push_str(&format!("\nbrace forces {:+.2} / {:+.2} kN from {from}", plateload::format::num(p.brace.max_kn), plateload::format::num(p.brace.min_kn)));
+    }
     text += &format!("\nmax by {}", a.method_label(pc.max_method));
     let g = painter.layout_no_wrap(text, FontId::proportional(13.0), Color32::BLACK);
     let size = g.size() + Vec2::new(20.0, 10.0);

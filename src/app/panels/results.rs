@@ -145,6 +145,27 @@ impl ResultsPanel {
                         }
                     });
                     ui.label(format!("Worst relative equilibrium residual: {:.1e}", a.worst_residual()));
+                    ui.separator();
+                    ui.strong("Horizontal loads down the braced bays");
+                    let h = &a.horizontal;
+                    if h.planes.is_empty() {
+                        ui.label("No braced plane.");
+                    }
+                    for p in &h.planes {
+                        let to = p.braced_to_m.map_or("not counted".to_owned(), |z| format!("braced up to {:.3} m", plateload::format::num(z)));
+                        let cut = p.cut.as_ref().map_or(String::new(), |c| format!(" — above not counted: {c}"));
+                        ui.label(format!("{}: {to}, {} brace(s){cut}", p.name, p.diagonals));
+                    }
+                    for d in &h.diaphragms {
+                        ui.label(d);
+                    }
+                    if let Some(s) = h.sharing {
+                        ui.label(s);
+                    }
+                    ui.label(format!("Notional load: {}", h.notional));
+                    for c in &h.combinations {
+                        ui.label(format!("Combination {c}"));
+                    }
                     let st = &a.stability;
                     let cog = st.centre_of_gravity.map_or("none".into(), |(x, y)| format!("({x:.3}, {y:.3}) m"));
                     ui.label(format!(

@@ -43,7 +43,7 @@ impl Plugin for GizmoDrawPlugin {
     fn build(&self, app: &mut App) {
         app.init_gizmo_group::<OnTopGizmos>()
             .add_systems(Startup, configure_gizmos)
-            .add_systems(Update, (draw_grid, draw_highlights).after(EditorSystems::Recolour));
+            .add_systems(Update, (draw_grid, draw_bracing, draw_highlights).after(EditorSystems::Recolour));
     }
 }
 
@@ -713,6 +713,20 @@ fn draw_grid(mut gizmos: Gizmos, shapes: Res<SceneShapes>) {
         let c = if (y / (5.0 * step)).round() * 5.0 * step == y { major } else { minor };
         gizmos.line(to_bevy([x0, y, z]), to_bevy([x1, y, z]), c);
         y += step;
+    }
+}
+
+/// Braced planes (green, from the ground to the top of their bracing; bracing above a lift with
+/// no brace in red), and diaphragms (blue, at their level).
+fn draw_bracing(mut gizmos: Gizmos, doc: Res<SceneDoc>) {
+    let Ok(a) = &doc.result else { return };
+    for (from, to, kind) in pick::bracing_lines(&doc.scene, &a.bracing) {
+        let c = match kind {
+            pick::BracingLine::Plane => Color::srgba(0.10, 0.55, 0.20, 0.9),
+            pick::BracingLine::NotCounted => Color::srgba(0.80, 0.15, 0.10, 0.9),
+            pick::BracingLine::Diaphragm => Color::srgba(0.10, 0.35, 0.85, 0.9),
+        };
+        gizmos.line(to_bevy(from), to_bevy(to), c);
     }
 }
 
