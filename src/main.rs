@@ -329,6 +329,11 @@ wrote the spare-capacity map of {} deck(s) to {}", map.decks.len(), out.display(
         }
         Command::Trace { file, base } => {
             let (scene, analysis) = load_and_analyse(&file)?;
+            if let Some(lift) = analysis.lifts.iter().position(|l| l.id == base) {
+                println!("{CAUTION}\n");
+                print!("{}", plateload::export::trace::lift_text(&analysis, lift));
+                return Ok(ExitCode::SUCCESS);
+            }
             let Some(plate) = analysis.plate_index(&base) else {
                 let known: Vec<&str> = analysis.plates.iter().take(12).map(|p| p.id.as_str()).collect();
                 anyhow::bail!("no base plate \"{base}\" in {} (some ids: {})", file.display(), known.join(", "));
@@ -504,7 +509,11 @@ fn solve_text(a: &Analysis) -> String {
             for c in &l.combinations {
                 let _ = write!(s, " {:>10.3}/{:<10.3}", num(c.max_kn), num(c.min_kn));
             }
-            let status = if l.status.uplift { "PULLS UP: tie it down or prop it" } else if l.status.over { "OVER its support's safe working load" } else { "OK" };
+            let status = if l.status.uplift && l.spliced {
+                "TENSION in the splice: lock the joint (pinned or bolted spigot) for it"
+            } else if l.status.uplift {
+                "PULLS UP: tie it down or prop it"
+            } else if l.status.over { "OVER its support's safe working load" } else { "OK" };
             let _ = writeln!(s, "  {status}");
         }
     }

@@ -72,14 +72,20 @@ fn schedule_totals_equal_the_applied_load() {
         let head = rows.iter().position(|r| r.get(0) == Some("id")).expect("table header");
         let col = |name: &str| rows[head].iter().position(|h| h == name).unwrap_or_else(|| panic!("no column {name}"));
         let total = rows.iter().find(|r| r.get(0) == Some("TOTAL")).expect("totals row");
-        let body: Vec<&csv::StringRecord> = rows[head + 1..].iter().filter(|r| r.get(0) != Some("TOTAL")).collect();
-        assert_eq!(body.len(), scene.posts.len(), "{name}: one row per base plate");
+        // The plate table runs from its header to the totals row; posts standing on other
+        // members follow in a table of their own.
+        let end = rows.iter().position(|r| r.get(0) == Some("TOTAL")).expect("totals row");
+        let body = &rows[head + 1..end];
+        assert_eq!(body.len(), a.plates.len(), "{name}: one row per base plate");
+        let on_members = rows.iter().filter(|r| r.get(0).is_some_and(|id| a.lifts.iter().any(|l| l.id == id))).count();
+        assert_eq!(on_members, a.lifts.len(), "{name}: one row per post standing on another member");
+        assert_eq!(a.plates.len() + a.lifts.len(), scene.posts.len(), "{name}: every post is a plate or stands on a member");
         for (case, column) in [(Case::G, "G (kN)"), (Case::Q, "Q (kN)"), (Case::W, "W (kN)")] {
             let t: f64 = total[col(column)].parse().unwrap();
             let applied = a.equilibrium[case.index()].applied.down();
             close(&format!("{name} total {case}"), t, applied, 2e-3);
         }
-        for r in &body {
+        for r in body {
             let status = &r[col("status")];
             assert!(["OK", "OVER", "UPLIFT", "OVER+UPLIFT", "SLIDES", "OVER+SLIDES", "UPLIFT+SLIDES", "OVER+UPLIFT+SLIDES"].contains(&status), "{status}");
         }

@@ -108,6 +108,9 @@ pub struct LiftResult {
     pub post: usize,
     /// What it stands on, in words (e.g. `post A1`, `bearer T2 at 1.200 m`, `deck D1`).
     pub stands_on: String,
+    /// Whether it continues the standard under it (a splice): pulling up is then tension in the
+    /// joint, not a post lifting off a member.
+    pub spliced: bool,
     /// Base level, m.
     pub base_level: f64,
     /// Safe working load of its own support, kN, if it has one.
@@ -346,6 +349,7 @@ pub fn analyse(scene: &Scene) -> Result<Analysis, AnalysisError> {
                     id: post.id.clone(),
                     post: i,
                     stands_on: stands_on_words(scene, stands_on),
+                    spliced: matches!(stands_on, StandsOn::Post(_)),
                     base_level: post.base_level,
                     swl_kn: caps[i].swl_kn.is_finite().then_some(caps[i].swl_kn),
                     case_kn: case_by_method[0][i],

@@ -160,6 +160,8 @@ struct Path<'a> {
 struct Lift<'a> {
     id: &'a str,
     stands_on: &'a str,
+    /// Continues the standard under it: a negative minimum is tension in the splice.
+    spliced: bool,
     base_level: f64,
     swl_kn: Option<f64>,
     cases_kn: PerCase<f64>,
@@ -301,6 +303,7 @@ pub fn analysis_json(a: &Analysis) -> String {
             .map(|l| Lift {
                 id: &l.id,
                 stands_on: &l.stands_on,
+                spliced: l.spliced,
                 base_level: l.base_level,
                 swl_kn: l.swl_kn,
                 cases_kn: PerCase::of(l.case_kn),

@@ -1048,7 +1048,9 @@ fn schedule(h: &mut String, a: &Analysis) {
                 let min_cls = if pc.min_kn < -crate::check::UPLIFT_TOLERANCE_KN { " bad" } else { "" };
                 let _ = write!(h, "<td class=\"n\">{}</td><td class=\"n{min_cls}\">{}</td>", kn(pc.max_kn), kn(pc.min_kn));
             }
-            let status = if l.status.uplift {
+            let status = if l.status.uplift && l.spliced {
+                "<span class=\"bad\">TENSION in the splice — lock the joint</span>".to_owned()
+            } else if l.status.uplift {
                 "<span class=\"bad\">PULLS UP — tie down or prop</span>".to_owned()
             } else if l.status.over {
                 "<span class=\"bad\">OVER its support's SWL</span>".to_owned()

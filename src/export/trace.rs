@@ -274,3 +274,24 @@ fn write_share(out: &mut String, scene: &Scene, (bracing, items): (&Bracing, &[I
         write_share(out, scene, (bracing, items), shares, s, depth + 2);
     }
 }
+
+/// A post standing on another member has no base plate of its own: what it passes on at its
+/// base, per case and per combination, and where to follow that load down.
+pub fn lift_text(analysis: &Analysis, lift: usize) -> String {
+    let l = &analysis.lifts[lift];
+    let mut out = String::new();
+    let _ = writeln!(out, "Post {} stands on {} at base level {:.3} m: it has no base plate of its own.", l.id, l.stands_on, num(l.base_level));
+    let _ = writeln!(out, "  load it passes on at its base (downward positive), method {}:", analysis.method_label(0));
+    for c in Case::ALL {
+        let _ = writeln!(out, "    {c}: {:+.3} kN", num(l.case_kn[c.index()]));
+    }
+    for (c, r) in analysis.combinations.iter().zip(&l.combinations) {
+        let _ = writeln!(out, "  {}: max {:.3} kN, min {:.3} kN over the methods", c.name, num(r.max_kn), num(r.min_kn));
+    }
+    if l.status.uplift {
+        let what = if l.spliced { "tension in the splice: lock the joint (pinned or bolted spigot) for it" } else { "it pulls up off what it stands on: tie it down or prop it" };
+        let _ = writeln!(out, "  {what}");
+    }
+    let _ = writeln!(out, "  follow the load down by tracing what it stands on ({}); its shares are in the traces of the base plates below.", l.stands_on);
+    out
+}
