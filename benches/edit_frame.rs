@@ -49,7 +49,7 @@ fn main() {
     }
     let mut a = App::new();
     a.add_plugins((MinimalPlugins, bevy::asset::AssetPlugin::default(), bevy::transform::TransformPlugin));
-    a.init_asset::<Mesh>().init_asset::<StandardMaterial>();
+    a.init_asset::<Mesh>().init_asset::<app::view::flat::FlatMaterial>();
     a.insert_resource(app::Mode::Editor).insert_resource(app::SceneDoc::new(scene, None)).init_resource::<app::view::ViewState>();
     a.add_plugins((app::EditorPlugin, app::view::draw::DrawPlugin));
     let t = Instant::now();

@@ -139,13 +139,18 @@ enum Command {
     },
     /// Open the 3D editor on a scene file (the built-in demo if omitted).
     Edit {
-        /// Scene file (RON). Created on first save if it does not exist.
+        /// Scene file (RON). If it does not exist, the editor starts with an empty scene and
+        /// the first save creates the file.
         file: Option<PathBuf>,
+        /// Write the number of frames drawn so far to this file after each one.
+        #[arg(long, hide = true)]
+        count_updates: Option<PathBuf>,
     },
     /// Render a picture of a scene to PNG (needs a display; a virtual one such as Xvfb will do).
     Snapshot {
         /// Scene file (RON).
-        file: PathBuf,
+        #[arg(required_unless_present = "generated")]
+        file: Option<PathBuf>,
         /// PNG file to write.
         #[arg(short, long)]
         output: PathBuf,
@@ -164,6 +169,17 @@ enum Command {
         /// Time this many edits (a load put on a post and taken off) first and log the figures.
         #[arg(long, default_value_t = 0, hide = true)]
         timing_edits: u32,
+        /// Then time this many frames turning the camera 2° each, as when orbiting with the mouse.
+        #[arg(long, default_value_t = 0, hide = true)]
+        timing_orbit: u32,
+        /// Instead of a file, picture a generated birdcage of COLSxROWS posts (three lifts, a
+        /// deck on the top one), e.g. 40x50 for 2,000 posts: for timing large scenes.
+        #[arg(long, hide = true, value_parser = parse_grid, conflicts_with = "file")]
+        generated: Option<(u32, u32)>,
+        /// Leave parts of the view out, to time what each costs: on-top-camera, decks, ground,
+        /// gizmos, overlay (comma-separated).
+        #[arg(long, hide = true, value_delimiter = ',')]
+        timing_without: Vec<String>,
         /// Also write the camera and viewport used, as JSON (for tests that check pixels).
         #[arg(long, hide = true)]
         camera_json: Option<PathBuf>,
@@ -193,6 +209,19 @@ fn parse_size(s: &str) -> Result<(u32, u32), String> {
     let (w, h) = s.split_once(['x', 'X']).ok_or_else(|| format!("size \"{s}\" is not WIDTHxHEIGHT, e.g. 1600x1000"))?;
     let n = |v: &str| v.trim().parse::<u32>().ok().filter(|&v| (64..=8192).contains(&v)).ok_or_else(|| format!("size \"{s}\": each side must be a whole number from 64 to 8192"));
     Ok((n(w)?, n(h)?))
+}
+
+fn parse_grid(s: &str) -> Result<(u32, u32), String> {
+    let (c, r) = s.split_once(['x', 'X']).ok_or_else(|| format!("\"{s}\" is not COLSxROWS, e.g. 40x50"))?;
+    let n = |v: &str| v.trim().parse::<u32>().ok().filter(|&v| (2..=200).contains(&v)).ok_or_else(|| format!("\"{s}\": each side must be a whole number of posts from 2 to 200"));
+    Ok((n(c)?, n(r)?))
+}
+
+/// A birdcage of `cols` × `rows` posts: three lifts and a deck on the top one (the editor's
+/// benchmark scene when 40 × 50).
+fn generated_birdcage(cols: u32, rows: u32) -> Scene {
+    let spec = plateload::scene::layout::LayoutSpec { bays_x: cols as usize - 1, bays_y: rows as usize - 1, lifts: 3, deck_lifts: vec![3], ..Default::default() };
+    plateload::scene::layout::generate(&format!("generated birdcage {cols} × {rows}"), 100.0, &spec)
 }
 
 /// A footprint: `point`, or WIDTHxDEPTH in metres.
@@ -225,7 +254,7 @@ fn main() -> ExitCode {
 fn run() -> anyhow::Result<ExitCode> {
     let cli = Cli::parse();
     let Some(command) = cli.command else {
-        return edit(None);
+        return edit(None, None);
     };
     match command {
         Command::Validate { file } => validate(&file),
@@ -367,9 +396,13 @@ wrote the spare-capacity map of {} deck(s) to {}", map.decks.len(), out.display(
             }
             Ok(ExitCode::SUCCESS)
         }
-        Command::Edit { file } => edit(file),
-        Command::Snapshot { file, output, size, view, combination, settle_frames, timing_edits, camera_json, with_panels, select } => {
-            let scene = read(&file)?;
+        Command::Edit { file, count_updates } => edit(file, count_updates),
+        Command::Snapshot { file, output, size, view, combination, settle_frames, timing_edits, timing_orbit, generated, timing_without, camera_json, with_panels, select } => {
+            let (scene, file) = match (file, generated) {
+                (_, Some((cols, rows))) => (generated_birdcage(cols, rows), PathBuf::from(format!("generated {cols}x{rows}"))),
+                (Some(file), None) => (read(&file)?, file),
+                (None, None) => anyhow::bail!("give a scene file"),
+            };
             let combination = match combination {
                 None => None,
                 Some(name) => Some(scene.combinations.iter().position(|c| c.name == name).ok_or_else(|| {
@@ -382,7 +415,7 @@ wrote the spare-capacity map of {} deck(s) to {}", map.decks.len(), out.display(
             {
                 anyhow::bail!("no post \"{id}\" in {}", file.display());
             }
-            snapshot(scene, output, size, view, combination, (settle_frames, timing_edits), (camera_json, with_panels, select))
+            snapshot(scene, output, size, view, combination, (settle_frames, timing_edits, timing_orbit, timing_without), (camera_json, with_panels, select))
         }
     }
 }
@@ -718,38 +751,44 @@ fn bay_names_of(names: &[String], bays: &[u32]) -> String {
 }
 
 #[cfg(feature = "viewer")]
-fn edit(file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
-    let scene = match &file {
-        Some(path) if path.exists() => read(path)?,
-        Some(_) => plateload::scene::demo::default_scene(),
-        None => plateload::scene::demo::default_scene(),
+fn edit(file: Option<PathBuf>, count_updates: Option<PathBuf>) -> anyhow::Result<ExitCode> {
+    let doc = match file {
+        Some(path) if path.exists() => app::SceneDoc::new(read(&path)?, Some(path)),
+        // A new file starts empty and unsaved; the first save creates it.
+        Some(path) => app::SceneDoc::new_file(path),
+        None => app::SceneDoc::new(plateload::scene::demo::default_scene(), None),
     };
-    app::run(scene, file)?;
+    app::run(doc, count_updates)?;
     Ok(ExitCode::SUCCESS)
 }
 
 #[cfg(feature = "viewer")]
-fn snapshot(scene: Scene, out: PathBuf, (w, h): (u32, u32), view: PictureView, combination: Option<usize>, (settle_frames, timing_edits): (u32, u32), (camera_out, editor_ui, select): (Option<PathBuf>, bool, Option<String>)) -> anyhow::Result<ExitCode> {
+fn snapshot(scene: Scene, out: PathBuf, (w, h): (u32, u32), view: PictureView, combination: Option<usize>, (settle_frames, timing_edits, timing_orbit, without): (u32, u32, u32, Vec<String>), (camera_out, editor_ui, select): (Option<PathBuf>, bool, Option<String>)) -> anyhow::Result<ExitCode> {
     use plateload::edit::pick::ViewPreset;
+    let parts = app::view::ViewPart::ALL;
+    let without = without
+        .iter()
+        .map(|w| parts.iter().find(|(n, _)| n == w).map(|p| p.1).ok_or_else(|| anyhow::anyhow!("no part of the view called \"{w}\" (there are: {})", parts.map(|p| p.0).join(", "))))
+        .collect::<anyhow::Result<Vec<_>>>()?;
     let view = match view {
         PictureView::Iso => ViewPreset::Iso,
         PictureView::Plan => ViewPreset::Plan,
         PictureView::Front => ViewPreset::Front,
         PictureView::Side => ViewPreset::Side,
     };
-    app::snapshot(scene, app::snapshot::PictureSpec { out: out.clone(), size: [w, h], view, combination, settle_frames, timing_edits, camera_out, editor_ui, select: select.map(plateload::edit::ElementRef::post) })?;
+    app::snapshot(scene, app::snapshot::PictureSpec { out: out.clone(), size: [w, h], view, combination, settle_frames, timing_edits, timing_orbit, camera_out, editor_ui, select: select.map(plateload::edit::ElementRef::post), without })?;
     eprintln!("wrote {}", out.display());
     eprintln!("{CAUTION}");
     Ok(ExitCode::SUCCESS)
 }
 
 #[cfg(not(feature = "viewer"))]
-fn snapshot(_: Scene, _: PathBuf, _: (u32, u32), _: PictureView, _: Option<usize>, _: (u32, u32), _: (Option<PathBuf>, bool, Option<String>)) -> anyhow::Result<ExitCode> {
+fn snapshot(_: Scene, _: PathBuf, _: (u32, u32), _: PictureView, _: Option<usize>, _: (u32, u32, u32, Vec<String>), _: (Option<PathBuf>, bool, Option<String>)) -> anyhow::Result<ExitCode> {
     anyhow::bail!("this build has no renderer (it was built without the `viewer` feature)")
 }
 
 #[cfg(not(feature = "viewer"))]
-fn edit(_file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
+fn edit(_file: Option<PathBuf>, _count_updates: Option<PathBuf>) -> anyhow::Result<ExitCode> {
     use clap::CommandFactory;
     Cli::command().print_help()?;
     anyhow::bail!("this build has no editor (it was built without the `viewer` feature); the other commands all work")

@@ -43,6 +43,15 @@ impl SceneDoc {
         SceneDoc { scene, history: History::default(), path, saved_state: Some(0), revision: 1, result, solved_revision: 1, solve_time }
     }
 
+    /// A document for a file that does not exist yet: an empty scene named after the file,
+    /// unsaved until the first save writes it.
+    pub fn new_file(path: PathBuf) -> Self {
+        let name = path.file_stem().map_or("new site".into(), |n| n.to_string_lossy().into_owned());
+        let mut doc = SceneDoc::new(new_scene(&name), Some(path));
+        doc.saved_state = None;
+        doc
+    }
+
     /// Whether the scene differs from its file.
     pub fn is_dirty(&self) -> bool {
         self.saved_state != Some(self.history.state())
@@ -118,6 +127,15 @@ impl SceneDoc {
         let name = self.path.as_ref().and_then(|p| p.file_name()).map_or("untitled".into(), |n| n.to_string_lossy().into_owned());
         format!("{}{name} — plateload", if self.is_dirty() { "● " } else { "" })
     }
+}
+
+/// An empty scene: no support types, posts or members; the default combinations and settings.
+pub fn new_scene(name: &str) -> Scene {
+    // No allowable bearing pressure until the planner enters the site's: until then ground
+    // bearing is reported as not checked, never judged against a made-up figure.
+    let mut scene = Scene::empty(name, 0.0);
+    scene.site.allowable_bearing_kpa = None;
+    scene
 }
 
 /// The selected elements and the one under the pointer.

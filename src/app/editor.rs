@@ -8,7 +8,7 @@ use std::time::{Duration, Instant};
 
 use bevy::input::keyboard::KeyCode;
 use bevy::prelude::*;
-use bevy::window::WindowCloseRequested;
+use bevy::window::{RequestRedraw, WindowCloseRequested};
 use plateload::edit::{place, DeleteMode, Edit, EditError, Element, ElementRef};
 use plateload::scene::loads::{Case, Intensity, Load, LoadKind, PlanDirection};
 use plateload::scene::model::{ElementKind, Rect};
@@ -40,11 +40,12 @@ impl Plugin for EditorPlugin {
                 (EditorSystems::Input, EditorSystems::Apply, EditorSystems::Solve, EditorSystems::Sync, EditorSystems::Recolour).chain(),
             )
             .add_systems(Startup, offer_recovery)
-            .add_systems(Update, (shortcuts, tool_clicks, drag_moves, close_requests).in_set(EditorSystems::Input))
+            .add_systems(Update, (shortcuts, tool_clicks, drag_moves, close_requests).in_set(EditorSystems::Input).after(super::view::PointerSystems))
             .add_systems(Update, (handle_actions, prune_selection).chain().in_set(EditorSystems::Apply))
             .add_systems(Update, solve.run_if(resource_changed::<SceneDoc>).in_set(EditorSystems::Solve))
             .add_systems(Update, own_timing.after(EditorSystems::Recolour))
-            .add_systems(Last, (write_recovery, finish_timing));
+            .add_message::<RequestRedraw>()
+            .add_systems(Last, (write_recovery, finish_timing, settle, pace_updates).chain());
     }
 }
 
@@ -618,6 +619,63 @@ fn write_recovery(doc: Res<SceneDoc>, mut recovery: ResMut<RecoveryState>, mut s
             recovery.last_write = Some(Instant::now());
             status.error(format!("could not write the recovery copy: {e}"));
         }
+    }
+}
+
+/// How long the editor may sleep without input: until the next recovery copy could be due
+/// while one is pending, else until something happens (input, a window event, a redraw asked
+/// for by the panels).
+pub fn idle_wait(doc: &SceneDoc, recovery: &RecoveryState) -> Duration {
+    let pending = recovery.store.is_some() && doc.is_dirty() && recovery.written_revision != doc.revision;
+    if pending {
+        // Woken at the latest `interval` after the last update, which is no earlier than the
+        // last copy: so the copy is due by then and is written at once.
+        recovery.interval.max(Duration::from_millis(100))
+    } else {
+        Duration::MAX
+    }
+}
+
+/// Draw only when something happened: the window's event loop sleeps until input, a window
+/// event or a redraw request, or until the recovery copy is due. (Only where a window runs the
+/// app; a picture keeps drawing until it is taken.)
+fn pace_updates(mode: Res<super::Mode>, doc: Res<SceneDoc>, recovery: Res<RecoveryState>, settings: Option<ResMut<bevy::winit::WinitSettings>>) {
+    use bevy::winit::UpdateMode;
+    let Some(mut settings) = settings else { return };
+    if !matches!(*mode, super::Mode::Editor) {
+        return;
+    }
+    let wait = idle_wait(&doc, &recovery);
+    // Unfocused, mouse movement over other windows does not wake it.
+    let (focused, unfocused) = (UpdateMode::reactive(wait), UpdateMode::reactive_low_power(wait));
+    if settings.focused_mode != focused || settings.unfocused_mode != unfocused {
+        settings.focused_mode = focused;
+        settings.unfocused_mode = unfocused;
+    }
+}
+
+/// Ask for one more frame when this one may have left work for the next: actions or view
+/// requests (the panels write theirs after the frame's actions were applied), clicks and
+/// drags, a changed scene, a fit waiting for the size of the view. Without input nothing else
+/// wakes the editor, so this is what lets a chain of frames finish.
+#[allow(clippy::too_many_arguments)]
+fn settle(
+    mut actions: MessageReader<Action>,
+    mut views: MessageReader<ViewRequestMessage>,
+    mut clicks: MessageReader<ViewClick>,
+    mut drags: MessageReader<ViewDrag>,
+    doc: Res<SceneDoc>,
+    selection: Res<Selection>,
+    view: Res<super::view::ViewState>,
+    mut redraw: MessageWriter<RequestRedraw>,
+) {
+    // Every reader must see its messages, so no short-cut evaluation here.
+    let busy = [actions.read().count(), views.read().count(), clicks.read().count(), drags.read().count()].iter().any(|&n| n > 0);
+    // A fit waits for the view's size; once known it is done in the next frame. (Before, the
+    // window's events wake the editor anyway.)
+    let fit_due = view.pending_fit.is_some() && view.ready();
+    if busy || doc.is_changed() || selection.is_changed() || fit_due {
+        redraw.write(RequestRedraw);
     }
 }
 

@@ -15,6 +15,7 @@ pub mod catalogue;
 pub mod doc;
 pub mod editor;
 pub mod panels;
+pub mod settings;
 pub mod shipped;
 pub mod snapshot;
 pub mod view;
@@ -169,6 +170,7 @@ impl PluginGroup for PlateloadPlugins {
     fn build(self) -> PluginGroupBuilder {
         PluginGroupBuilder::start::<Self>()
             .add(EditorPlugin)
+            .add(settings::SettingsPlugin)
             .add(ViewPlugin)
             .add(PanelsPlugin)
             .add(catalogue::CataloguePlugin)
@@ -203,11 +205,21 @@ fn base_app(doc: SceneDoc, mode: Mode, title: String, size: Option<[u32; 2]>) ->
 }
 
 /// Open the editor on a scene (read from `path`, if given) and run until it is closed.
-pub fn run(scene: Scene, path: Option<PathBuf>) -> anyhow::Result<()> {
-    let doc = SceneDoc::new(scene, path);
+/// `count_updates`: write the number of frames so far to this file after each one (to check
+/// that the editor sleeps when nothing happens).
+pub fn run(doc: SceneDoc, count_updates: Option<PathBuf>) -> anyhow::Result<()> {
     let title = doc.title();
     let mut app = base_app(doc, Mode::Editor, title, None);
     app.insert_resource(editor::RecoveryState::in_user_cache());
+    app.insert_resource(settings::SettingsFile::in_user_config());
+    // Draw on demand; `editor::pace_updates` keeps the wake-up timer of the recovery copy.
+    app.insert_resource(bevy::winit::WinitSettings::desktop_app());
+    if let Some(file) = count_updates {
+        app.add_systems(Last, move |mut n: Local<u64>| {
+            *n += 1;
+            let _ = plateload::scene::io::write_atomic(&file, n.to_string().as_bytes());
+        });
+    }
     match app.run() {
         AppExit::Success => Ok(()),
         AppExit::Error(code) => anyhow::bail!("the editor stopped with code {code}"),
@@ -219,7 +231,9 @@ pub fn snapshot(scene: Scene, spec: snapshot::PictureSpec) -> anyhow::Result<()>
     let out = spec.out.clone();
     let size = spec.size;
     let doc = SceneDoc::new(scene, None);
+    let without = view::Without(spec.without.clone());
     let mut app = base_app(doc, Mode::Picture(spec), "plateload picture".into(), Some(size));
+    app.insert_resource(without);
     app.add_plugins(snapshot::SnapshotPlugin);
     match app.run() {
         AppExit::Success => Ok(()),

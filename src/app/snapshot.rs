@@ -3,7 +3,8 @@
 //!
 //! With `timing_edits`, the picture run first makes that many edits (a load put on and off),
 //! one per frame, and logs how long each took from the edit to its recoloured frame, and the
-//! frame times, so the figures come from the real renderer.
+//! frame times, so the figures come from the real renderer; with `timing_orbit` it then turns
+//! the camera a little every frame and logs those frame times.
 
 use std::path::PathBuf;
 use std::time::{Duration, Instant};
@@ -34,12 +35,16 @@ pub struct PictureSpec {
     pub settle_frames: u32,
     /// Edits to time before the picture (0: none).
     pub timing_edits: u32,
+    /// Frames to time turning the camera, after the edits (0: none).
+    pub timing_orbit: u32,
     /// Also write the camera and the viewport used, as JSON (for tests that look at pixels).
     pub camera_out: Option<PathBuf>,
     /// Show the editor's panels instead of the picture layout (to look at the editor).
     pub editor_ui: bool,
     /// Select this element first (its plate is labelled and outlined).
     pub select: Option<plateload::edit::ElementRef>,
+    /// Parts of the view left out (to time what each costs).
+    pub without: Vec<super::view::ViewPart>,
 }
 
 /// Takes the picture in picture mode.
@@ -48,6 +53,9 @@ pub struct SnapshotPlugin;
 impl Plugin for SnapshotPlugin {
     fn build(&self, app: &mut App) {
         app.init_resource::<PictureState>().add_systems(Startup, preselect).add_systems(Last, run_picture);
+        // A picture shows the scene, not wherever the display's pointer happens to rest: no
+        // hover outline, no clicks or camera drags from the mouse.
+        app.configure_sets(Update, super::view::PointerSystems.run_if(|| false));
     }
 }
 
@@ -55,17 +63,22 @@ impl Plugin for SnapshotPlugin {
 #[derive(Resource, Default, Debug)]
 pub struct PictureState {
     frames_ready: u32,
-    frames_total: u32,
+    started: Option<Instant>,
     edits_done: u32,
+    orbit_done: u32,
     frame_times: Vec<Duration>,
+    orbit_times: Vec<Duration>,
+    /// CPU time of the process when the timed frames of the current phase began.
+    cpu_at_start: Option<Duration>,
     last_frame: Option<Instant>,
     requested: bool,
     /// Outcome of writing the file, once known.
     pub saved: Option<Result<PathBuf, String>>,
 }
 
-/// Longest a picture may take, in frames, before giving up.
-const MAX_FRAMES: u32 = 3_000;
+/// Longest a picture may take before giving up (a software renderer on a busy machine can
+/// take minutes over its first shaders).
+const MAX_TIME: Duration = Duration::from_secs(600);
 
 fn preselect(mode: Res<Mode>, mut selection: ResMut<super::doc::Selection>) {
     if let Mode::Picture(PictureSpec { select: Some(r), .. }) = &*mode {
@@ -79,14 +92,16 @@ fn run_picture(
     mode: Res<Mode>,
     doc: Res<SceneDoc>,
     drawn: Res<Drawn>,
-    view: Res<ViewState>,
+    mut view: ResMut<ViewState>,
     mut timings: ResMut<EditTimings>,
+    busy: Res<super::view::RendererBusy>,
     mut state: ResMut<PictureState>,
     mut actions: MessageWriter<Action>,
     mut exit: MessageWriter<AppExit>,
+    panels: Option<Res<super::panels::Panels>>,
 ) {
     let Mode::Picture(spec) = &*mode else { return };
-    state.frames_total += 1;
+    let started = *state.started.get_or_insert_with(Instant::now);
     if let Some(result) = state.saved.take() {
         match result {
             Ok(p) => {
@@ -100,12 +115,13 @@ fn run_picture(
         }
         return;
     }
-    if state.frames_total > MAX_FRAMES {
-        error!("the picture was not ready after {MAX_FRAMES} frames");
+    if started.elapsed() > MAX_TIME {
+        error!("the picture was not ready after {} s", MAX_TIME.as_secs());
         exit.write(AppExit::error());
         return;
     }
-    let ready = doc.solved_revision == doc.revision && drawn.revision == doc.revision && view.ready() && view.pending_fit.is_none();
+    // Pipelines still being built would leave things out of the picture.
+    let ready = doc.solved_revision == doc.revision && drawn.revision == doc.revision && view.ready() && view.pending_fit.is_none() && !busy.get();
     if !ready || state.requested {
         return;
     }
@@ -114,8 +130,9 @@ fn run_picture(
     if state.edits_done < spec.timing_edits {
         timings.log = true;
         let now = Instant::now();
-        if let Some(t) = state.last_frame.replace(now) {
-            state.frame_times.push(now - t);
+        match state.last_frame.replace(now) {
+            Some(t) => state.frame_times.push(now - t),
+            None => state.cpu_at_start = process_cpu_time(),
         }
         let Some(post) = doc.scene.posts.get(doc.scene.posts.len() / 2) else {
             state.edits_done = spec.timing_edits;
@@ -130,7 +147,27 @@ fn run_picture(
         actions.write(Action::Edit { edit, merge: None, select: None });
         state.edits_done += 1;
         if state.edits_done == spec.timing_edits {
-            report_timings(&timings, &state.frame_times, doc.scene.posts.len());
+            report_timings(&timings, &state.frame_times, doc.scene.posts.len(), view.viewport);
+            info!("timing on {} posts: CPU time per frame while editing (all threads, the software renderer's included): {}", doc.scene.posts.len(), cpu_per_frame(state.cpu_at_start, state.frame_times.len()));
+            state.last_frame = None;
+        }
+        return;
+    }
+    // Timed orbit: the camera turns 2° a frame, as under a dragging mouse; the whole frame
+    // (view, labels, panels, GPU) is measured from one frame's end to the next.
+    if state.orbit_done < spec.timing_orbit {
+        let now = Instant::now();
+        match state.last_frame.replace(now) {
+            Some(t) => state.orbit_times.push(now - t),
+            None => state.cpu_at_start = process_cpu_time(),
+        }
+        view.camera.yaw_deg += 2.0;
+        state.orbit_done += 1;
+        if state.orbit_done == spec.timing_orbit {
+            // Back to where it started, so the picture is the one asked for.
+            view.camera.yaw_deg -= 2.0 * spec.timing_orbit as f64;
+            info!("timing on {} posts, view {:.0} × {:.0} px: whole frames while orbiting (GPU included): {}", doc.scene.posts.len(), view.viewport[2], view.viewport[3], stats(&state.orbit_times));
+            info!("timing on {} posts: CPU time per frame while orbiting (all threads, the software renderer's included): {}", doc.scene.posts.len(), cpu_per_frame(state.cpu_at_start, state.orbit_times.len()));
         }
         return;
     }
@@ -149,6 +186,8 @@ fn run_picture(
             "distance": c.distance,
             "fov_y_deg": c.fov_y_deg,
             "orthographic": c.orthographic,
+            // Label boxes as drawn over the view, [min x, min y, max x, max y] in pixels.
+            "labels": panels.as_ref().map_or_else(Vec::new, |p| p.labels.boxes()),
         });
         if let Err(e) = plateload::scene::io::write_atomic(path, json.to_string().as_bytes()) {
             error!("could not write {}: {e}", path.display());
@@ -162,19 +201,41 @@ fn run_picture(
     });
 }
 
-fn report_timings(timings: &EditTimings, frames: &[Duration], posts: usize) {
-    let stats = |v: &[Duration]| -> String {
-        if v.is_empty() {
-            return "no samples".into();
-        }
-        let mut ms: Vec<f64> = v.iter().map(|d| d.as_secs_f64() * 1e3).collect();
-        ms.sort_by(|a, b| a.partial_cmp(b).unwrap_or(std::cmp::Ordering::Equal));
-        let q = |f: f64| ms[((ms.len() - 1) as f64 * f).round() as usize];
-        format!("n {}, median {:.2} ms, p95 {:.2} ms, max {:.2} ms", ms.len(), q(0.5), q(0.95), ms[ms.len() - 1])
-    };
+/// CPU time the process has used so far (user + system, every thread), where the system says.
+/// On a machine shared with other work the wall-clock time of a frame depends on the load;
+/// the CPU time it costs does much less.
+fn process_cpu_time() -> Option<Duration> {
+    let stat = std::fs::read_to_string("/proc/self/stat").ok()?;
+    let fields: Vec<&str> = stat.rsplit_once(')')?.1.split_whitespace().collect();
+    // source: proc(5), /proc/pid/stat fields 14 and 15 (utime, stime) in clock ticks; Linux
+    // reports them at USER_HZ = 100 ticks per second
+    let ticks: u64 = fields.get(11)?.parse::<u64>().ok()? + fields.get(12)?.parse::<u64>().ok()?;
+    Some(Duration::from_millis(ticks * 10))
+}
+
+/// Mean CPU time per frame since `start`, for `frames` frames.
+fn cpu_per_frame(start: Option<Duration>, frames: usize) -> String {
+    match (start, process_cpu_time()) {
+        (Some(a), Some(b)) if frames > 0 => format!("mean {:.1} ms over {frames} frames", (b - a).as_secs_f64() * 1e3 / frames as f64),
+        _ => "not known on this system".into(),
+    }
+}
+
+/// Count, median, 95th percentile and maximum of some durations, in ms.
+fn stats(v: &[Duration]) -> String {
+    if v.is_empty() {
+        return "no samples".into();
+    }
+    let mut ms: Vec<f64> = v.iter().map(|d| d.as_secs_f64() * 1e3).collect();
+    ms.sort_by(|a, b| a.partial_cmp(b).unwrap_or(std::cmp::Ordering::Equal));
+    let q = |f: f64| ms[((ms.len() - 1) as f64 * f).round() as usize];
+    format!("n {}, median {:.2} ms, p95 {:.2} ms, max {:.2} ms", ms.len(), q(0.5), q(0.95), ms[ms.len() - 1])
+}
+
+fn report_timings(timings: &EditTimings, frames: &[Duration], posts: usize, viewport: [f32; 4]) {
     info!("timing on {posts} posts: edit → recoloured, editor systems (edit, solve, redraw, recolour): {}", stats(&timings.own));
     info!("timing on {posts} posts: edit → recoloured, whole ECS update of the frame (no GPU): {}", stats(&timings.recent));
-    info!("timing on {posts} posts: whole frames while editing (GPU included): {}", stats(frames));
+    info!("timing on {posts} posts, view {:.0} × {:.0} px: whole frames while editing (GPU included): {}", viewport[2], viewport[3], stats(frames));
 }
 
 /// Encode a screenshot as PNG and write it atomically.

@@ -7,13 +7,13 @@
 //! everything else, so a deck or a post in front never hides the colour of a plate.
 
 pub mod draw;
+pub mod flat;
 
 use bevy::camera::visibility::RenderLayers;
 use bevy::camera::{CameraOutputMode, ScalingMode, Viewport};
 use bevy::core_pipeline::tonemapping::{DebandDither, Tonemapping};
 use bevy::input::mouse::{AccumulatedMouseMotion, AccumulatedMouseScroll, MouseScrollUnit};
 use bevy::prelude::*;
-use bevy::render::render_resource::BlendState;
 use bevy::window::PrimaryWindow;
 use bevy_egui::PrimaryEguiContext;
 use plateload::edit::pick::{self, ViewCamera, ViewPreset, V3};
@@ -37,14 +37,75 @@ pub struct ViewPlugin;
 
 impl Plugin for ViewPlugin {
     fn build(&self, app: &mut App) {
-        app.init_resource::<ViewState>()
-            .add_plugins((draw::DrawPlugin, draw::GizmoDrawPlugin))
+        app.add_plugins((ViewInputPlugin, flat::FlatMaterialPlugin, draw::DrawPlugin, draw::GizmoDrawPlugin, RendererBusyPlugin))
             .add_systems(Startup, spawn_cameras)
-            .add_systems(Update, (camera_controls, pointer).chain().in_set(EditorSystems::Input))
-            .add_systems(Update, view_requests.after(EditorSystems::Sync).before(EditorSystems::Recolour))
-            .add_systems(PostUpdate, apply_camera.before(bevy::camera::CameraUpdateSystems).before(bevy::transform::TransformSystems::Propagate));
+            .add_systems(Update, leave_out.run_if(resource_exists::<Without>))
+            // After the panels, which size the view: a new size shows in the same frame.
+            .add_systems(PostUpdate, apply_camera.after(bevy_egui::EguiPostUpdateSet::EndPass).before(bevy::camera::CameraUpdateSystems).before(bevy::transform::TransformSystems::Propagate));
     }
 }
+
+impl Plugin for RendererBusyPlugin {
+    fn build(&self, app: &mut App) {
+        app.init_resource::<RendererBusy>();
+    }
+    fn finish(&self, app: &mut App) {
+        let busy = app.world().resource::<RendererBusy>().clone();
+        let waker = app.world().get_resource::<bevy::winit::EventLoopProxyWrapper>().map(|p| PipelineWaker((**p).clone()));
+        if let Some(render) = app.get_sub_app_mut(bevy::render::RenderApp) {
+            render.insert_resource(busy).add_systems(bevy::render::Render, note_pipelines_building.in_set(bevy::render::RenderSystems::Cleanup));
+            if let Some(w) = waker {
+                render.insert_resource(w);
+            }
+        }
+    }
+}
+
+/// Watches the renderer build its pipelines. Shaders compile in the background on first use
+/// (seconds, on a software renderer), and a frame drawn before they are ready leaves those
+/// things out: so the editor keeps drawing until they are (else it would sleep on that frame),
+/// and a picture is not taken before.
+struct RendererBusyPlugin;
+
+/// Whether the renderer is still building pipelines, as last seen from the render world.
+#[derive(Resource, Clone, Default)]
+pub struct RendererBusy(std::sync::Arc<std::sync::atomic::AtomicBool>);
+
+impl RendererBusy {
+    /// Pipelines are still being built.
+    pub fn get(&self) -> bool {
+        self.0.load(std::sync::atomic::Ordering::Relaxed)
+    }
+}
+
+/// The window's event loop, as seen from the render world.
+#[derive(Resource)]
+struct PipelineWaker(bevy::winit::EventLoopProxy<bevy::winit::WinitUserEvent>);
+
+fn note_pipelines_building(cache: Res<bevy::render::render_resource::PipelineCache>, busy: Res<RendererBusy>, waker: Option<Res<PipelineWaker>>) {
+    let building = cache.waiting_pipelines().next().is_some();
+    busy.0.store(building, std::sync::atomic::Ordering::Relaxed);
+    if let (true, Some(w)) = (building, waker) {
+        let _ = w.0.send_event(bevy::winit::WinitUserEvent::WakeUp);
+    }
+}
+
+/// The view's camera and pointer: orbit, pan and zoom, hover, clicks and drags, fitting.
+/// Needs no renderer (the headless tests drive it with synthesised input).
+pub struct ViewInputPlugin;
+
+impl Plugin for ViewInputPlugin {
+    fn build(&self, app: &mut App) {
+        app.init_resource::<ViewState>()
+            // Clicks and drags are read by the editor's tools in the same frame.
+            .add_systems(Update, (camera_controls, pointer).chain().in_set(EditorSystems::Input).in_set(PointerSystems))
+            .add_systems(Update, view_requests.after(EditorSystems::Sync).before(EditorSystems::Recolour));
+    }
+}
+
+/// The systems that turn mouse input into view changes, clicks and drags.
+#[derive(SystemSet, Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub struct PointerSystems;
 
 /// What the view shows and how.
 #[derive(Debug, Clone, PartialEq)]
@@ -136,35 +197,99 @@ pub struct SceneCamera;
 #[derive(Component)]
 pub struct OnTopCamera;
 
-fn spawn_cameras(mut commands: Commands, mut egui_settings: ResMut<bevy_egui::EguiGlobalSettings>, mode: Res<Mode>, mut view: ResMut<ViewState>) {
+/// Parts of the view that a timing run can leave out, to measure what each one costs
+/// (`snapshot --timing-without`). The editor always draws them all.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum ViewPart {
+    /// The second 3D camera that draws plates and cues on top (they go in the first instead).
+    OnTopCamera,
+    /// The decks.
+    Decks,
+    /// The ground plane.
+    Ground,
+    /// The metric grid and the highlights (gizmo lines).
+    Gizmos,
+    /// Everything egui draws over the view (legend, labels, summary, title, caution).
+    Overlay,
+}
+
+impl ViewPart {
+    /// Every part, with its command-line name.
+    pub const ALL: [(&'static str, ViewPart); 5] = [
+        ("on-top-camera", ViewPart::OnTopCamera),
+        ("decks", ViewPart::Decks),
+        ("ground", ViewPart::Ground),
+        ("gizmos", ViewPart::Gizmos),
+        ("overlay", ViewPart::Overlay),
+    ];
+}
+
+/// The parts left out of the view (empty in the editor).
+#[derive(Resource, Debug, Clone, Default, PartialEq)]
+pub struct Without(pub Vec<ViewPart>);
+
+impl Without {
+    /// Whether a part is left out.
+    pub fn has(&self, p: ViewPart) -> bool {
+        self.0.contains(&p)
+    }
+}
+
+fn spawn_cameras(mut commands: Commands, mut egui_settings: ResMut<bevy_egui::EguiGlobalSettings>, mode: Res<Mode>, mut view: ResMut<ViewState>, without: Option<Res<Without>>) {
     // The egui context goes on its own full-window camera, so the 3D cameras can draw in the
     // part of the window the panels leave free.
     egui_settings.auto_create_primary_context = false;
+    let without = without.map(|w| w.clone()).unwrap_or_default();
     if let Mode::Picture(spec) = &*mode {
         view.settings.combination = spec.combination;
         view.camera.orthographic = true;
         view.pending_fit = Some(spec.view);
     }
+    if without.has(ViewPart::Decks) {
+        view.settings.show_decks = false;
+    }
     // Exact colours: the legend's swatches and the plates must match, so no tonemapping or
-    // dithering changes them (the plates are unlit).
+    // dithering changes them (the plates are drawn in their flat colour).
     let exact = (Tonemapping::None, DebandDither::Disabled, msaa());
-    commands.spawn((SceneCamera, Camera3d::default(), Camera { order: 0, clear_color: ClearColorConfig::Custom(Color::srgb_u8(0xe9, 0xec, 0xef)), ..default() }, exact, RenderLayers::layer(SCENE_LAYER)));
-    commands.spawn((OnTopCamera, Camera3d::default(), Camera { order: 1, clear_color: ClearColorConfig::None, ..default() }, exact, RenderLayers::layer(ON_TOP_LAYER)));
+    // All three cameras draw into the same main texture, in order; only the last copies it to
+    // the window. (On a software renderer each copy of the window costs a few milliseconds.)
+    let keep = CameraOutputMode::Skip;
+    let on_top = !without.has(ViewPart::OnTopCamera);
+    let scene_layers = if on_top { RenderLayers::layer(SCENE_LAYER) } else { RenderLayers::from_layers(&[SCENE_LAYER, ON_TOP_LAYER]) };
+    // Per-mesh data is built on the CPU and drawn directly, not by compute shaders and
+    // indirect draws (see `super::base_app`).
+    let direct = bevy::render::view::NoIndirectDrawing;
+    commands.spawn((SceneCamera, Camera3d::default(), Camera { order: 0, clear_color: ClearColorConfig::Custom(BACKGROUND), output_mode: keep, ..default() }, exact, scene_layers, direct));
+    if on_top {
+        commands.spawn((OnTopCamera, Camera3d::default(), Camera { order: 1, clear_color: ClearColorConfig::None, output_mode: keep, ..default() }, exact, RenderLayers::layer(ON_TOP_LAYER), bevy::render::view::NoIndirectDrawing));
+    }
+    // egui draws its panels over the 3D picture in the same texture and writes the result.
     commands.spawn((
         PrimaryEguiContext,
         Camera2d,
         RenderLayers::none(),
         exact,
-        Camera {
-            order: 2,
-            output_mode: CameraOutputMode::Write { blend_state: Some(BlendState::ALPHA_BLENDING), clear_color: ClearColorConfig::None },
-            clear_color: ClearColorConfig::Custom(Color::NONE),
-            ..default()
-        },
+        Camera { order: 2, output_mode: CameraOutputMode::Write { blend_state: None, clear_color: ClearColorConfig::None }, clear_color: ClearColorConfig::None, ..default() },
     ));
-    commands.spawn((DirectionalLight { illuminance: 6_000.0, shadow_maps_enabled: false, ..default() }, Transform::from_xyz(-4.0, 10.0, 6.0).looking_at(Vec3::ZERO, Vec3::Y)));
-    commands.insert_resource(GlobalAmbientLight { brightness: 900.0, ..default() });
 }
+
+/// Hide the ground and turn the gizmos off where a timing run leaves them out.
+fn leave_out(without: Res<Without>, mut ground: Query<&mut Visibility, With<draw::GroundPlane>>, mut store: ResMut<GizmoConfigStore>) {
+    if without.has(ViewPart::Ground) {
+        for mut v in &mut ground {
+            if *v != Visibility::Hidden {
+                *v = Visibility::Hidden;
+            }
+        }
+    }
+    if without.has(ViewPart::Gizmos) && store.config::<DefaultGizmoConfigGroup>().0.enabled {
+        store.config_mut::<DefaultGizmoConfigGroup>().0.enabled = false;
+        store.config_mut::<draw::OnTopGizmos>().0.enabled = false;
+    }
+}
+
+/// Colour behind the scene.
+pub const BACKGROUND: Color = Color::srgb_u8(0xe9, 0xec, 0xef);
 
 /// Multisampling of the cameras: off by default, since a software renderer spends most of a
 /// frame on it; `PLATELOAD_MSAA=4` (or 2, 8) turns it on.
@@ -265,10 +390,21 @@ fn camera_controls(
     motion: Option<Res<AccumulatedMouseMotion>>,
     scroll: Option<Res<AccumulatedMouseScroll>>,
     focus: Res<UiFocus>,
+    windows: Query<&Window, With<PrimaryWindow>>,
     mut view: ResMut<ViewState>,
     mut dragging: Local<bool>,
+    mut last_cursor: Local<Option<Vec2>>,
 ) {
     let (Some(buttons), Some(motion), Some(scroll)) = (buttons, motion, scroll) else { return };
+    // How far the pointer moved: by its position in the window where known, which every
+    // windowing system reports (a remote desktop or a virtual display may send no raw mouse
+    // motion); else by the raw motion.
+    let cursor = windows.single().ok().and_then(|w| w.cursor_position());
+    let moved = match (cursor, *last_cursor) {
+        (Some(c), Some(l)) => c - l,
+        _ => motion.delta,
+    };
+    *last_cursor = cursor;
     let shift = keys.is_some_and(|k| k.any_pressed([KeyCode::ShiftLeft, KeyCode::ShiftRight]));
     let (right, middle) = (buttons.pressed(MouseButton::Right), buttons.pressed(MouseButton::Middle));
     if buttons.any_just_pressed([MouseButton::Right, MouseButton::Middle]) {
@@ -277,7 +413,7 @@ fn camera_controls(
     if !right && !middle {
         *dragging = false;
     }
-    let d = motion.delta;
+    let d = moved;
     if *dragging && d != Vec2::ZERO {
         let cam = &mut view.camera;
         if middle || (right && shift) {
@@ -332,7 +468,11 @@ fn pointer(
     let cursor = window.cursor_position().filter(|c| view.ready() && view.contains(*c) && focus.pointer_in_view);
     let shift = keys.is_some_and(|k| k.any_pressed([KeyCode::ShiftLeft, KeyCode::ShiftRight]));
     let tol = view.camera.pick_tolerance(4.0, view.viewport[3].max(1.0) as f64);
-    let pick_at = |c: Vec2| pick::pick(&shapes.shapes, &view.ray_at(c), &tol);
+    // What is drawn on top is picked first: a plate, then anything else.
+    let pick_at = |c: Vec2| {
+        let ray = view.ray_at(c);
+        pick::pick(&shapes.plates, &ray, &tol).or_else(|| pick::pick(&shapes.shapes, &ray, &tol))
+    };
     // Hover: only when the pointer moved or the scene changed under it.
     if cursor != *last_cursor || shapes.is_changed() {
         *last_cursor = cursor;

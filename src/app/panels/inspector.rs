@@ -6,7 +6,6 @@ use plateload::edit::{dependants, DeleteMode, Edit, Element};
 use plateload::scene::loads::{Case, Face, Intensity, KentledgeForm, KentledgePlace, LoadKind, PlanDirection};
 use plateload::scene::catalogue::{self, Catalogue};
 use plateload::scene::model::{BeamMethod, BeamRole, ElementKind, Interface, PlateSize, Rect};
-use plateload::export::palette::Band;
 use plateload::Scene;
 
 use super::rgb;
@@ -594,13 +593,18 @@ pub fn plate_results(ui: &mut egui::Ui, doc: &SceneDoc, id: &str) {
     };
     let Some(p) = a.plates.iter().find(|p| p.id == id) else { return };
     let g = p.governing();
-    let band = Band::of(g.utilisation);
+    let r = crate::app::view::draw::reading(a, p, None);
     ui.horizontal(|ui| {
         let (rect, _) = ui.allocate_exact_size(egui::vec2(18.0, 18.0), egui::Sense::hover());
-        ui.painter().rect_filled(rect, 2.0, rgb(band.colour()));
-        ui.heading(format!("Base plate {}: {:.1} % — {}", p.id, 100.0 * g.utilisation, p.status));
+        ui.painter().rect_filled(rect, 2.0, rgb(r.band().map_or(crate::app::view::draw::NOT_CHECKED, |b| b.colour())));
+        match r.utilisation {
+            Some(u) => ui.heading(format!("Base plate {}: {:.1} % — {}", p.id, 100.0 * u, p.status)),
+            None => ui.heading(format!("Base plate {}: {:.1} kN — no combination checks capacity", p.id, g.max_kn)),
+        };
     });
-    ui.label(format!("Governed by {} in “{}”.", g.governed_by(), a.combinations[p.governing].name));
+    if r.utilisation.is_some() {
+        ui.label(format!("Governed by {} in “{}”.", g.governed_by(), a.combinations[p.governing].name));
+    }
     let i = a.plate_index(id).unwrap_or(0);
     if a.method_count() > 1 {
         ui.label(format!("Method: the maximum comes from {}, the minimum from {}.", a.governing_method_label(i), a.min_method_label(i)));
@@ -633,13 +637,15 @@ pub fn plate_results(ui: &mut egui::Ui, doc: &SceneDoc, id: &str) {
         }
         ui.end_row();
         for (c, pc) in a.combinations.iter().zip(&p.combinations) {
-            ui.label(if c.checks_capacity { c.name.clone() } else { format!("{} (no capacity check)", c.name) });
+            // A factored load over a working-load capacity is not a utilisation: kN only.
+            let checked = c.checks_capacity;
+            ui.label(if checked { c.name.clone() } else { format!("{} (no capacity check)", c.name) });
             ui.label(format!("{:.3}", pc.max_kn));
             ui.label(format!("{:.3}", pc.min_kn));
-            ui.label(format!("{:.1}", 100.0 * pc.utilisation));
-            ui.label(pc.layer_top_kpa.map_or_else(|| "—".to_owned(), |q| format!("{q:.1}")));
-            ui.label(format!("{:.1}", pc.bearing_kpa));
-            ui.label(pc.status.label());
+            ui.label(if checked { format!("{:.1}", 100.0 * pc.utilisation) } else { "—".into() });
+            ui.label(if checked { pc.layer_top_kpa.map_or_else(|| "—".to_owned(), |q| format!("{q:.1}")) } else { "—".into() });
+            ui.label(if checked { format!("{:.1}", pc.bearing_kpa) } else { "—".into() });
+            ui.label(super::results::status_text(pc.status, checked));
             ui.end_row();
         }
     });

@@ -28,7 +28,10 @@ pub struct PanelsPlugin;
 
 impl Plugin for PanelsPlugin {
     fn build(&self, app: &mut App) {
-        app.init_resource::<Panels>().add_systems(EguiPrimaryContextPass, draw_ui).add_systems(Update, window_title);
+        app.init_resource::<Panels>()
+            .add_systems(PreUpdate, quiet_modifiers.after(bevy_egui::EguiPreUpdateSet::ProcessInput).before(bevy_egui::EguiPreUpdateSet::BeginPass))
+            .add_systems(EguiPrimaryContextPass, draw_ui)
+            .add_systems(Update, (window_title, layout_for_empty_scene));
     }
 }
 
@@ -103,6 +106,32 @@ fn window_title(doc: Res<SceneDoc>, mode: Res<Mode>, mut windows: Query<&mut Win
     }
 }
 
+/// bevy_egui reports the modifier keys to egui as an event every frame, and egui asks for
+/// another frame after any event, so the editor would never go to sleep. egui keeps the keys'
+/// state between frames, so the event is passed on only when they changed (or along with other
+/// events, which wake the editor anyway).
+fn quiet_modifiers(mut inputs: Query<&mut bevy_egui::EguiInput>, mut last: Local<Option<egui::Modifiers>>) {
+    for mut input in &mut inputs {
+        let events = &mut input.0.events;
+        let Some(m) = events.iter().rev().find_map(|e| if let egui::Event::ModifiersChanged(m) = e { Some(*m) } else { None }) else { continue };
+        let others = events.iter().any(|e| !matches!(e, egui::Event::ModifiersChanged(_)));
+        if !others && *last == Some(m) {
+            events.retain(|e| !matches!(e, egui::Event::ModifiersChanged(_)));
+        }
+        *last = Some(m);
+    }
+}
+
+/// A new, empty scene opens with the layout generator at hand and says what to enter first.
+pub fn layout_for_empty_scene(doc: Res<SceneDoc>, mut panels: ResMut<Panels>, mut status: ResMut<Status>) {
+    if !doc.is_changed() || !doc.scene.posts.is_empty() || doc.history.undo_len() + doc.history.redo_len() > 0 {
+        return;
+    }
+    panels.right = RightTab::Layout;
+    let what = if doc.path.as_ref().is_some_and(|p| !p.exists()) { "new file, not saved yet" } else { "empty scene" };
+    status.info(format!("{what}: lay out posts and members with the layout generator (right) or the tools (left), and enter the site's allowable bearing pressure under Site & combinations (ground bearing is not checked until then)"));
+}
+
 /// Draw the panels (editor) or only the overlay (picture), and note where the 3D view is.
 #[allow(clippy::too_many_arguments)]
 fn draw_ui(
@@ -118,6 +147,8 @@ fn draw_ui(
     mut focus: ResMut<UiFocus>,
     timings: Res<EditTimings>,
     drawn: Res<Drawn>,
+    without: Option<Res<super::view::Without>>,
+    mut settings: ResMut<super::settings::EditorSettings>,
     catalogue: Res<crate::app::catalogue::EditorCatalogue>,
     mut out: MessageWriter<Action>,
 ) -> Result {
@@ -154,6 +185,15 @@ fn draw_ui(
         if panels.show_results {
             egui::Panel::bottom("results").resizable(true).default_size(230.0).show(&mut root, |ui| panels.results.ui(ui, &doc, &view.settings, &selection, &mut actions));
         }
+        if let Ok(a) = &doc.result {
+            let comb = view.settings.combination;
+            let comb_name = comb.and_then(|c| doc.scene.combinations.get(c)).map_or("governing combination".to_string(), |c| format!("combination “{}”", c.name));
+            let mut open = settings.legend_open;
+            egui::Panel::bottom("legend").show(&mut root, |ui| overlay::legend_strip(ui, a, comb, &comb_name, &mut open));
+            if open != settings.legend_open {
+                settings.legend_open = open;
+            }
+        }
         let (open, all) = ctx.input(|i| (i.modifiers.command && i.key_pressed(egui::Key::O), i.modifiers.command && i.key_pressed(egui::Key::A)));
         if open && !ctx.egui_wants_keyboard_input() {
             panels.files.open_for(files::Purpose::Open, &doc);
@@ -171,7 +211,9 @@ fn draw_ui(
     if view.viewport != vp {
         view.viewport = vp;
     }
-    overlay::draw(&ctx, full, rect, &doc, &view, &selection, picture, &mut panels.labels);
+    if !without.is_some_and(|w| w.has(super::view::ViewPart::Overlay)) {
+        overlay::draw(&ctx, full, rect, &doc, &view, &selection, picture, &mut panels.labels);
+    }
     let pointer_in_view = !picture && ctx.pointer_latest_pos().is_some_and(|p| rect.contains(p)) && !ctx.is_pointer_over_egui() && !ctx.egui_is_using_pointer();
     let keyboard = ctx.egui_wants_keyboard_input();
     if focus.pointer_in_view != pointer_in_view || focus.keyboard != keyboard {
@@ -209,7 +251,7 @@ fn menu_bar(ui: &mut egui::Ui, doc: &SceneDoc, selection: &Selection, view: &mut
                 }
             });
             if ui.button("New empty scene").clicked() {
-                actions.push(Action::New(Box::new(plateload::Scene::empty("New site", 100.0))));
+                actions.push(Action::New(Box::new(super::doc::new_scene("New site"))));
                 ui.close();
             }
             ui.separator();

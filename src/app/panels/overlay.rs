@@ -8,7 +8,7 @@ use plateload::{Analysis, AnalysisError, CAUTION};
 
 use super::rgb;
 use crate::app::doc::{SceneDoc, Selection};
-use crate::app::view::draw::{reading, CASE_COLOURS};
+use crate::app::view::draw::{reading, CASE_COLOURS, NOT_CHECKED};
 use plateload::edit::pick::{CUE_BAND_M, CUE_GAP_M};
 use crate::app::view::ViewState;
 
@@ -30,8 +30,10 @@ pub fn picture_view_rect(ctx: &egui::Context, full: Rect) -> Rect {
     Rect::from_min_max(Pos2::new(full.min.x, full.min.y + PICTURE_TITLE_H), Pos2::new(full.max.x - side, full.max.y - caution_h))
 }
 
-/// Draw the overlay: labels inside `rect` (the 3D view); summary and legend inside it in the
-/// editor, beside it in a picture; in a picture also the title and the caution.
+/// Draw the overlay: labels inside `rect` (the 3D view); in a picture also the summary and the
+/// legend beside it (or inside it, when narrow), the title and the caution. The editor shows
+/// its summary and legend in a strip under the view instead ([`legend_strip`]), so nothing
+/// but the labels, which keep clear of the plates, lies over the scene.
 pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &ViewState, selection: &Selection, picture: bool, cache: &mut LabelCache) {
     if rect.width() < 50.0 || rect.height() < 50.0 || !view.ready() {
         return;
@@ -55,14 +57,18 @@ pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &
     match &doc.result {
         Ok(a) => {
             // Summary and legend first: the labels keep clear of them.
-            let s = summary(&painter, column, a, view.settings.combination, &comb_name, side);
-            let legend_at = if side { Some(Pos2::new(column.min.x, s.max.y + 10.0)) } else { None };
-            let l = legend(ctx, column, legend_at, a, view.settings.combination, &comb_name);
+            let (s, l) = if picture {
+                let s = summary(&painter, column, a, view.settings.combination, &comb_name, side);
+                let legend_at = if side { Some(Pos2::new(column.min.x, s.max.y + 10.0)) } else { None };
+                (s, legend(ctx, column, legend_at, a, view.settings.combination, &comb_name))
+            } else {
+                (Rect::NOTHING, Rect::NOTHING)
+            };
             let cog = a.stability.centre_of_gravity.and_then(|(x, y)| {
                 let z = doc.scene.posts.iter().map(|p| p.base_level).fold(f64::INFINITY, f64::min);
                 view.to_window([x, y, if z.is_finite() { z } else { 0.0 }]).map(|p| Pos2::new(p[0], p[1]))
             });
-            let keep_clear = if side { Vec::new() } else { vec![s.expand(4.0), l.expand(4.0)] };
+            let keep_clear = if side { Vec::new() } else { [s, l].into_iter().filter(|r| r.is_positive()).map(|r| r.expand(4.0)).collect() };
             plate_labels(&in_view, rect, a, doc, view, selection, cog, &keep_clear, cache);
             if let Some(h) = selection.hovered.as_ref().filter(|h| h.kind == plateload::scene::model::ElementKind::Post) {
                 if let (Some(i), Some(pointer)) = (a.plate_index(&h.id), ctx.pointer_hover_pos().filter(|p| rect.contains(*p))) {
@@ -90,32 +96,35 @@ pub fn draw(ctx: &egui::Context, full: Rect, rect: Rect, doc: &SceneDoc, view: &
 /// utilisation and the bearing pressure.
 fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, i: usize, comb: Option<usize>) {
     let p = &a.plates[i];
-    let (u, st) = reading(p, comb);
-    let c = comb.unwrap_or(p.governing).min(p.combinations.len().saturating_sub(1));
+    let r = reading(a, p, comb);
+    let c = r.combination;
     let pc = &p.combinations[c];
-    let bearing = match p.allowable_kpa {
-        Some(q) => format!("bearing {:.1} kPa of {q:.0} kPa allowed ({})", pc.bearing_kpa, a.ground.basis.label()),
-        None => format!("bearing {:.1} kPa, not checked (no allowable)", pc.bearing_kpa),
+    let name = &a.combinations[c].name;
+    let cases = format!("G {:.2} kN · Q {:.2} kN · W {:.2} kN", p.case_kn[0], p.case_kn[1], p.case_kn[2]);
+    let mut text = match r.utilisation {
+        Some(u) => {
+            let bearing = match p.allowable_kpa {
+                Some(q) => format!("bearing {:.1} kPa of {q:.0} kPa allowed ({})", pc.bearing_kpa, a.ground.basis.label()),
+                None => format!("bearing {:.1} kPa, not checked (no allowable)", pc.bearing_kpa),
+            };
+            let mut t = format!("base plate {} — {:.1} % {}\n{cases}\n{name}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\n{bearing}", p.id, 100.0 * u, r.status.label(), pc.max_kn, pc.min_kn, p.swl_kn);
+            if let Some(q) = pc.layer_top_kpa {
+                t += &match pc.layer_utilisation {
+                    Some(l) => format!("\non the layer {q:.1} kPa ({:.0} %)", 100.0 * l),
+                    None => format!("\non the layer {q:.1} kPa, not checked"),
+                };
+            }
+            t
+        }
+        // Factored loads are not compared with working-load capacities: kN only.
+        None => format!(
+            "base plate {}{}\n{cases}\n{name} (not a capacity check): max {:.2} kN, min {:.2} kN",
+            p.id,
+            if r.status.uplift { " — UPLIFT" } else { "" },
+            pc.max_kn,
+            pc.min_kn,
+        ),
     };
-    let mut text = format!(
-        "base plate {} — {:.1} % {}\nG {:.2} kN · Q {:.2} kN · W {:.2} kN\n{}: max {:.2} kN, min {:.2} kN (SWL {:.1} kN)\n{bearing}",
-        p.id,
-        100.0 * u,
-        st.label(),
-        p.case_kn[0],
-        p.case_kn[1],
-        p.case_kn[2],
-        a.combinations[c].name,
-        pc.max_kn,
-        pc.min_kn,
-        p.swl_kn,
-    );
-    if let Some(q) = pc.layer_top_kpa {
-        text += &match pc.layer_utilisation {
-            Some(l) => format!("\non the layer {q:.1} kPa ({:.0} %)", 100.0 * l),
-            None => format!("\non the layer {q:.1} kPa, not checked"),
-        };
-    }
     if let Some(h) = p.hold_down {
         text += &format!("\nlifts: anchor {:.2} kN{}", h.anchor_kn, h.kentledge_kn.map_or_else(String::new, |k| format!(" or {k:.2} kN kentledge")));
     }
@@ -140,7 +149,7 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
     }
     let bx = Rect::from_min_size(at, size);
     painter.rect_filled(bx, 4.0, Color32::from_rgba_unmultiplied(255, 255, 255, 245));
-    painter.rect_filled(Rect::from_min_size(bx.min, Vec2::new(7.0, size.y)), 2.0, rgb(Band::of(u).colour()));
+    painter.rect_filled(Rect::from_min_size(bx.min, Vec2::new(7.0, size.y)), 2.0, band_colour(r.band()));
     painter.rect_stroke(bx, 4.0, Stroke::new(1.0, Color32::from_gray(60)), StrokeKind::Inside);
     painter.galley(bx.min + Vec2::new(14.0, 5.0), g, Color32::BLACK);
 }
@@ -154,42 +163,70 @@ fn caution_banner(painter: &egui::Painter, rect: Rect) {
     painter.galley(Pos2::new(rect.min.x + 16.0, band.min.y + 6.0), galley, Color32::BLACK);
 }
 
-/// Worst plate and counts: at the top of `column` (left-aligned beside the view, else
-/// right-aligned inside it). Returns where it was drawn.
-fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usize>, comb_name: &str, side: bool) -> Rect {
-    let Some(&w) = worst_first(a, comb).first() else { return Rect::from_min_size(column.min, Vec2::ZERO) };
+/// The summary's four lines (worst plate, what governs it, counts, what the colours show), its
+/// band and whether that plate fails; `None` without plates.
+pub fn summary_lines(a: &Analysis, comb: Option<usize>, comb_name: &str) -> Option<([String; 4], Option<Band>, bool)> {
+    let &w = worst_first(a, comb).first()?;
     let p = &a.plates[w];
-    let (u, status) = reading(p, comb);
-    let c = comb.unwrap_or(p.governing);
-    let pc = &p.combinations[c.min(p.combinations.len().saturating_sub(1))];
-    let by = match pc.governed_by() {
-        "ground bearing" => format!("ground bearing {:.0} kPa of {:.0} kPa allowed", pc.bearing_kpa, p.allowable_kpa.unwrap_or(0.0)),
-        "granular layer" => format!("{:.0} kPa on the granular layer", pc.layer_top_kpa.unwrap_or(0.0)),
-        _ => format!("{:.1} kN on a {:.1} kN jack", pc.max_kn, p.swl_kn),
+    let r = reading(a, p, comb);
+    let c = r.combination;
+    let pc = &p.combinations[c];
+    let over = a.plates.iter().filter(|p| reading(a, p, comb).status.over).count();
+    let lift = a.plates.iter().filter(|p| reading(a, p, comb).status.uplift).count();
+    let lines = match r.utilisation {
+        Some(u) => {
+            let by = match pc.governed_by() {
+                "ground bearing" => format!("ground bearing {:.0} kPa of {:.0} kPa allowed", pc.bearing_kpa, p.allowable_kpa.unwrap_or(0.0)),
+                "granular layer" => format!("{:.0} kPa on the granular layer", pc.layer_top_kpa.unwrap_or(0.0)),
+                _ => format!("{:.1} kN on a {:.1} kN jack", pc.max_kn, p.swl_kn),
+            };
+            [
+                format!("Worst base plate: {} at {:.1} %", p.id, 100.0 * u),
+                format!("{by} ({})", a.combinations[c].name),
+                format!("{over} over capacity · {lift} lifting · {} base plates", a.plates.len()),
+                format!("colours: {comb_name}"),
+            ]
+        }
+        None => [
+            format!("Largest load: {} with {:.1} kN", p.id, pc.max_kn),
+            format!("“{}” is not a capacity check: factored kN only", a.combinations[c].name),
+            format!("{lift} lifting · {} base plates", a.plates.len()),
+            "plates in grey: no utilisation in this combination".to_string(),
+        ],
     };
-    let over = a.plates.iter().filter(|p| reading(p, comb).1.over).count();
-    let lift = a.plates.iter().filter(|p| reading(p, comb).1.uplift).count();
-    let mut lines = vec![
-        (format!("Worst base plate: {} at {:.1} %", p.id, 100.0 * u), 20.0, true),
-        (format!("{by} ({})", a.combinations[c].name), 14.0, false),
-        (format!("{over} over capacity · {lift} lifting · {} base plates", a.plates.len()), 14.0, false),
-    ];
-    // Whole-structure checks that fail lead the rest (details in "Equilibrium & stability").
+    Some((lines, r.band(), !r.status.is_ok()))
+}
+
+/// Whole-structure checks that fail or were refused (overturning, sliding), one line each.
+pub fn structure_alerts(a: &Analysis) -> Vec<String> {
+    let mut lines = Vec::new();
     if let Some(why) = &a.stability.refused {
-        lines.push((format!("overturning NOT CHECKED: {why}"), 14.0, true));
+        lines.push(format!("overturning NOT CHECKED: {why}"));
     } else if a.stability.fails() {
         if let Some((_, ax)) = a.stability.governing() {
             let need = ax.kentledge.as_ref().and_then(|k| k.needed_kn).map_or_else(String::new, |k| format!(", needs {k:.2} kN kentledge"));
-            lines.push((format!("overturning FAILS towards {} (factor {}){need}", ax.towards, ax.factor.map_or_else(|| "—".to_owned(), |f| format!("{f:.2}"))), 14.0, true));
+            lines.push(format!("overturning FAILS towards {} (factor {}){need}", ax.towards, ax.factor.map_or_else(|| "—".to_owned(), |f| format!("{f:.2}"))));
         }
     }
     if a.sliding.fails() {
-        lines.push((format!("sliding FAILS: {} plate(s) to restrain", a.sliding.plates_to_restrain), 14.0, true));
+        lines.push(format!("sliding FAILS: {} plate(s) to restrain", a.sliding.plates_to_restrain));
     }
-    lines.push((format!("colours: {comb_name}"), 12.0, false));
+    lines
+}
+
+/// Worst plate and counts: at the top of `column` (left-aligned beside the view, else
+/// right-aligned inside it). Returns where it was drawn.
+fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usize>, comb_name: &str, side: bool) -> Rect {
+    let Some((lines, band, failing)) = summary_lines(a, comb, comb_name) else { return Rect::from_min_size(column.min, Vec2::ZERO) };
+    let [worst, by, counts, colours] = lines;
+    // Whole-structure checks that fail come before the colours line (details in "Equilibrium &
+    // stability").
+    let mut lines = vec![(worst, 20.0), (by, 14.0), (counts, 14.0)];
+    lines.extend(structure_alerts(a).into_iter().map(|t| (t, 14.0)));
+    lines.push((colours, 12.0));
     // Wrapped to the column beside a picture; one line each inside the editor's view.
     let wrap = if side { column.width() - 24.0 } else { f32::INFINITY };
-    let galleys: Vec<_> = lines.iter().map(|(t, s, _)| painter.layout(t.clone(), FontId::proportional(*s), Color32::BLACK, wrap)).collect();
+    let galleys: Vec<_> = lines.into_iter().map(|(t, s)| painter.layout(t, FontId::proportional(s), Color32::BLACK, wrap)).collect();
     let w_box = galleys.iter().map(|g| g.size().x).fold(0.0, f32::max) + 24.0;
     let h_box = galleys.iter().map(|g| g.size().y + 2.0).sum::<f32>() + 14.0;
     let w_box = if side { column.width() } else { w_box };
@@ -197,8 +234,8 @@ fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usi
     let bx = Rect::from_min_size(Pos2::new(x, column.min.y), Vec2::new(w_box, h_box));
     painter.rect_filled(bx, 4.0, Color32::from_rgba_unmultiplied(255, 255, 255, 235));
     let stripe = Rect::from_min_size(bx.min, Vec2::new(8.0, h_box));
-    painter.rect_filled(stripe, 2.0, rgb(Band::of(u).colour()));
-    if !status.is_ok() {
+    painter.rect_filled(stripe, 2.0, band_colour(band));
+    if failing {
         painter.rect_stroke(bx, 4.0, Stroke::new(3.0, Color32::BLACK), StrokeKind::Inside);
     }
     let mut y = bx.min.y + 7.0;
@@ -214,10 +251,7 @@ fn summary(painter: &egui::Painter, column: Rect, a: &Analysis, comb: Option<usi
 /// `at`: top-left corner (beside the view); `None`: bottom-left corner of `column`.
 /// Returns where it was drawn.
 fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, comb: Option<usize>, comb_name: &str) -> Rect {
-    let mut counts = [0usize; 5];
-    for p in &a.plates {
-        counts[Band::of(reading(p, comb).0) as usize] += 1;
-    }
+    let (counts, not_checked) = band_counts(a, comb);
     let beside = at.is_some();
     let (pivot, pos) = match at {
         Some(p) => (Align2::LEFT_TOP, p),
@@ -234,18 +268,7 @@ fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, com
                 ui.set_max_width((column.width() - 24.0).min(360.0));
                 ui.label(egui::RichText::new("Base plate utilisation").strong().size(15.0).color(Color32::BLACK));
                 ui.label(egui::RichText::new(format!("larger of load ÷ SWL and pressure ÷ allowable; {comb_name}")).size(11.0));
-                if !beside {
-                    // In the editor the legend folds away so it does not hide the scene.
-                    let id = ui.make_persistent_id("legend-open");
-                    let mut open = ui.data_mut(|d| *d.get_persisted_mut_or(id, true));
-                    if ui.small_button(if open { "hide legend" } else { "show legend" }).clicked() {
-                        open = !open;
-                        ui.data_mut(|d| d.insert_persisted(id, open));
-                    }
-                    if !open {
-                        return;
-                    }
-                }
+                let _ = beside;
                 for b in Band::ALL.iter().rev() {
                     ui.horizontal(|ui| {
                         let (r, _) = ui.allocate_exact_size(Vec2::new(26.0, 16.0), egui::Sense::hover());
@@ -253,6 +276,14 @@ fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, com
                         ui.painter().rect_stroke(r, 2.0, Stroke::new(1.0, Color32::from_gray(90)), StrokeKind::Inside);
                         let n = counts[*b as usize];
                         ui.label(egui::RichText::new(format!("{:<10} {n} plate{}", b.label(), if n == 1 { "" } else { "s" })).monospace().size(13.0));
+                    });
+                }
+                if not_checked > 0 {
+                    ui.horizontal(|ui| {
+                        let (r, _) = ui.allocate_exact_size(Vec2::new(26.0, 16.0), egui::Sense::hover());
+                        ui.painter().rect_filled(r, 2.0, rgb(NOT_CHECKED));
+                        ui.painter().rect_stroke(r, 2.0, Stroke::new(1.0, Color32::from_gray(90)), StrokeKind::Inside);
+                        ui.label(egui::RichText::new(format!("not a capacity check: {not_checked} plate{} (kN only)", if not_checked == 1 { "" } else { "s" })).size(13.0));
                     });
                 }
                 ui.add_space(4.0);
@@ -282,6 +313,81 @@ fn legend(ctx: &egui::Context, column: Rect, at: Option<Pos2>, a: &Analysis, com
             });
         });
     shown.response.rect
+}
+
+/// The editor's summary and legend: a strip of its own under the 3D view, so neither covers the
+/// scene. The first line names the worst plate; unfolded, the bands with their counts and the
+/// cues follow; folded, the bands and counts stay on that first line.
+pub fn legend_strip(ui: &mut egui::Ui, a: &Analysis, comb: Option<usize>, comb_name: &str, open: &mut bool) {
+    let (counts, not_checked) = band_counts(a, comb);
+    let swatch = |c: Color32| move |p: &egui::Painter, r: Rect| {
+        let r = Rect::from_center_size(r.center(), Vec2::new(20.0, 13.0));
+        p.rect_filled(r, 2.0, c);
+        p.rect_stroke(r, 2.0, Stroke::new(1.0, Color32::from_gray(90)), StrokeKind::Inside);
+    };
+    let bands = |ui: &mut egui::Ui, long: bool| {
+        for b in Band::ALL.iter().rev() {
+            let n = counts[*b as usize];
+            let text = if long { format!("{} {n}", b.label()) } else { n.to_string() };
+            ui.add(chip(swatch(rgb(b.colour())), text)).on_hover_text(format!("{}: {n} plate{}", b.label(), if n == 1 { "" } else { "s" }));
+        }
+        if not_checked > 0 {
+            let text = if long { format!("no capacity check {not_checked}") } else { not_checked.to_string() };
+            ui.add(chip(swatch(rgb(NOT_CHECKED)), text)).on_hover_text("this combination's factored loads are not compared with working-load capacities: kN only");
+        }
+    };
+    ui.horizontal_wrapped(|ui| {
+        if ui.small_button(if *open { "hide legend" } else { "legend" }).on_hover_text(if *open { "fold the legend to one line" } else { "show the bands and the cues" }).clicked() {
+            *open = !*open;
+        }
+        if let Some(([worst, by, counts_line, _], band, failing)) = summary_lines(a, comb, comb_name) {
+            ui.add(chip(swatch(band_colour(band)), egui::RichText::new(worst).strong().color(if failing { Color32::from_rgb(0xb0, 0x20, 0x20) } else { ui.visuals().strong_text_color() })));
+            ui.label(format!("— {by} · {counts_line}"));
+        }
+        for alert in structure_alerts(a) {
+            ui.label(egui::RichText::new(alert).strong().color(Color32::from_rgb(0xb0, 0x20, 0x20)));
+        }
+        if !*open {
+            ui.separator();
+            bands(ui, false);
+        }
+    });
+    if !*open {
+        return;
+    }
+    ui.horizontal_wrapped(|ui| {
+        ui.label(format!("Base plate utilisation, the larger of load ÷ SWL and pressure ÷ allowable ({comb_name}):"));
+        bands(ui, true);
+    });
+    ui.horizontal_wrapped(|ui| {
+        ui.add(chip(|p: &egui::Painter, r: Rect| cue_square(p, r.center(), 7.0), "square frame: over capacity"));
+        ui.add(chip(|p: &egui::Painter, r: Rect| cue_ring(p, r.center(), 7.0), "round ring and raised cone: plate lifts"));
+        ui.add(chip(|p: &egui::Painter, r: Rect| cog_symbol(p, r.center(), 7.0), "centre of gravity of permanent load"));
+        ui.label("load arrows:");
+        for (c, col) in ["G permanent", "Q imposed", "W horizontal"].iter().zip(CASE_COLOURS) {
+            ui.add(chip(
+                move |p: &egui::Painter, r: Rect| {
+                    p.rect_filled(Rect::from_center_size(r.center(), Vec2::splat(12.0)), 1.0, rgb(col));
+                },
+                *c,
+            ));
+        }
+    });
+}
+
+/// A symbol and its text as one piece, so a wrapping line breaks between pieces, never inside.
+fn chip(symbol: impl Fn(&egui::Painter, Rect), text: impl Into<egui::WidgetText>) -> impl egui::Widget {
+    move |ui: &mut egui::Ui| {
+        let galley = text.into().into_galley(ui, Some(egui::TextWrapMode::Extend), f32::INFINITY, egui::TextStyle::Body);
+        let icon = Vec2::new(24.0, galley.size().y.max(18.0));
+        let (rect, response) = ui.allocate_exact_size(Vec2::new(icon.x + galley.size().x, icon.y), egui::Sense::hover());
+        if ui.is_rect_visible(rect) {
+            symbol(ui.painter(), Rect::from_min_size(rect.min, icon));
+            let colour = ui.visuals().text_color();
+            ui.painter().galley(Pos2::new(rect.min.x + icon.x, rect.center().y - galley.size().y / 2.0), galley, colour);
+        }
+        response
+    }
 }
 
 fn cue_square(p: &egui::Painter, c: Pos2, h: f32) {
@@ -315,13 +421,16 @@ pub struct LabelRequest {
     pub anchor: Rect,
     /// Label size, pixels.
     pub size: Vec2,
+    /// Where its leader starts: the plate's coloured face (without the cue), pixels.
+    pub face: Rect,
 }
 
 /// Place labels near their anchors without covering any plate, another label or a box to keep
 /// clear: the first of eight positions around the anchor (then further out) that is free and
-/// inside `bounds`, preferring one whose leader crosses no other plate. `None` (no label) when
-/// there is no such place, as in a dense grid seen from afar: a label never hides a plate.
-pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], keep_clear: &[Rect], bounds: Rect) -> Vec<Option<Rect>> {
+/// inside `bounds`, preferring one whose leader crosses no other plate's cue, then one whose
+/// leader crosses no other plate's coloured face (`faces`: every plate's). `None` (no label)
+/// when there is no such place, as in a dense grid seen from afar: a label never hides a plate.
+pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], faces: &[Rect], keep_clear: &[Rect], bounds: Rect) -> Vec<Option<Rect>> {
     let mut placed: Vec<Option<Rect>> = Vec::with_capacity(requests.len());
     for req in requests {
         let a = req.anchor;
@@ -352,17 +461,49 @@ pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], keep_clear: &[Re
                 && !placed.iter().flatten().any(|o| o.expand(2.0).intersects(*r))
                 && !plates.iter().any(|p| p.intersects(*r))
         };
-        let clean_leader = |r: &Rect| !plates.iter().filter(|p| !p.intersects(a)).any(|p| segment_hits_rect(leader_start(a, r.center()), r.center(), **p));
-        placed.push(rects.iter().find(|r| allowed(r) && clean_leader(r)).or_else(|| rects.iter().find(|r| allowed(r))).copied());
+        // Leaders are drawn over the scene: one across another plate's face hides a strip of
+        // its colour. (Footprints with cues overlap their neighbours' when seen obliquely, so
+        // the plates whose cue touches this one's are left out of the first, stricter test.)
+        let leader = |r: &Rect| (leader_start(req.face, r.center()), r.center());
+        let clean_of_cues = |r: &Rect| !plates.iter().filter(|p| !p.intersects(a)).any(|p| segment_hits_rect(leader(r).0, leader(r).1, **p));
+        let faces: Vec<&Rect> = faces.iter().filter(|f| f.intersects(reach) && **f != req.face).collect();
+        let clean_of_faces = |r: &Rect| !faces.iter().any(|f| segment_hits_rect(leader(r).0, leader(r).1, **f));
+        placed.push(
+            rects
+                .iter()
+                .find(|r| allowed(r) && clean_of_faces(r) && clean_of_cues(r))
+                .or_else(|| rects.iter().find(|r| allowed(r) && clean_of_faces(r)))
+                .or_else(|| rects.iter().find(|r| allowed(r)))
+                .copied(),
+        );
     }
     placed
 }
 
-/// Plate indices from the highest utilisation down (ties in scene order).
+/// Plate indices from the highest utilisation down, then (where there is none, in a
+/// combination that does not check capacity) from the largest load down; ties in scene order.
 pub fn worst_first(a: &Analysis, comb: Option<usize>) -> Vec<usize> {
+    let key: Vec<(f64, f64)> = a.plates.iter().map(|p| reading(a, p, comb)).map(|r| (r.sort_key(), r.max_kn)).collect();
     let mut order: Vec<usize> = (0..a.plates.len()).collect();
-    order.sort_by(|&i, &j| reading(&a.plates[j], comb).0.partial_cmp(&reading(&a.plates[i], comb).0).unwrap_or(std::cmp::Ordering::Equal));
+    order.sort_by(|&i, &j| key[j].partial_cmp(&key[i]).unwrap_or(std::cmp::Ordering::Equal));
     order
+}
+
+/// Plates per utilisation band, and plates without a utilisation in this combination.
+fn band_counts(a: &Analysis, comb: Option<usize>) -> ([usize; 5], usize) {
+    let (mut counts, mut none) = ([0usize; 5], 0);
+    for p in &a.plates {
+        match reading(a, p, comb).band() {
+            Some(b) => counts[b as usize] += 1,
+            None => none += 1,
+        }
+    }
+    (counts, none)
+}
+
+/// Colour of a band, or the neutral grey of a plate with no utilisation.
+fn band_colour(b: Option<Band>) -> Color32 {
+    rgb(b.map_or(NOT_CHECKED, |b| b.colour()))
 }
 
 /// Where a leader leaves a plate's footprint towards a label centre.
@@ -372,22 +513,45 @@ pub fn leader_start(anchor: Rect, to: Pos2) -> Pos2 {
 
 /// Whether the segment a–b passes through the rectangle (slab test).
 pub fn segment_hits_rect(a: Pos2, b: Pos2, r: Rect) -> bool {
+    segment_in_rect(a, b, r).is_some()
+}
+
+/// The part of segment a–b inside the rectangle, as parameters `t0..t1` along it (slab test).
+fn segment_in_rect(a: Pos2, b: Pos2, r: Rect) -> Option<(f32, f32)> {
     let (mut t0, mut t1) = (0.0f32, 1.0f32);
     for (o, d, lo, hi) in [(a.x, b.x - a.x, r.min.x, r.max.x), (a.y, b.y - a.y, r.min.y, r.max.y)] {
         if d.abs() < 1e-6 {
             if o < lo || o > hi {
-                return false;
+                return None;
             }
         } else {
             let (u, v) = ((lo - o) / d, (hi - o) / d);
             t0 = t0.max(u.min(v));
             t1 = t1.min(u.max(v));
             if t0 > t1 {
-                return false;
+                return None;
             }
         }
     }
-    true
+    Some((t0, t1))
+}
+
+/// The pieces of segment a–b outside every rectangle, in order from `a`.
+pub fn segment_outside_rects(a: Pos2, b: Pos2, rects: &[Rect]) -> Vec<[Pos2; 2]> {
+    let mut inside: Vec<(f32, f32)> = rects.iter().filter_map(|r| segment_in_rect(a, b, *r)).collect();
+    inside.sort_by(|x, y| x.0.total_cmp(&y.0));
+    let mut pieces = Vec::new();
+    let mut t = 0.0f32;
+    for (t0, t1) in inside {
+        if t0 > t {
+            pieces.push([a.lerp(b, t), a.lerp(b, t0)]);
+        }
+        t = t.max(t1);
+    }
+    if t < 1.0 {
+        pieces.push([a.lerp(b, t), b]);
+    }
+    pieces
 }
 
 /// Label the worst plates, every plate that is over capacity or lifts (up to [`MAX_LABELS`]),
@@ -433,8 +597,12 @@ struct LabelKey {
 struct PlacedLabel {
     rect: Rect,
     leader_from: Pos2,
-    /// Band colour and whether the plate fails; `None` for the centre of gravity.
-    band: Option<(Band, bool)>,
+    /// The leader's visible pieces: it passes under other plates' faces, so it never hides
+    /// their colour.
+    leader: Vec<[Pos2; 2]>,
+    /// Band colour (grey without a utilisation) and whether the plate fails; `None` for the
+    /// centre of gravity.
+    band: Option<(Color32, bool)>,
     text: std::sync::Arc<egui::Galley>,
 }
 
@@ -445,21 +613,32 @@ pub struct LabelCache {
     labels: Vec<PlacedLabel>,
 }
 
+impl LabelCache {
+    /// The boxes of the labels last placed, [min x, min y, max x, max y] in window pixels.
+    pub fn boxes(&self) -> Vec<[f32; 4]> {
+        self.labels.iter().map(|l| [l.rect.min.x, l.rect.min.y, l.rect.max.x, l.rect.max.y]).collect()
+    }
+}
+
 fn paint_labels(painter: &egui::Painter, labels: &[PlacedLabel]) {
     for l in labels {
         let lr = l.rect;
         match l.band {
             Some((band, failing)) => {
-                painter.line_segment([l.leader_from, lr.center()], Stroke::new(2.0, Color32::from_gray(20)));
+                for piece in &l.leader {
+                    painter.line_segment(*piece, Stroke::new(2.0, Color32::from_gray(20)));
+                }
                 painter.circle_filled(l.leader_from, 3.0, Color32::from_gray(20));
                 painter.rect_filled(lr, 3.0, Color32::from_rgba_unmultiplied(255, 255, 255, 240));
-                painter.rect_filled(Rect::from_min_size(lr.min, Vec2::new(7.0, lr.height())), 2.0, rgb(band.colour()));
+                painter.rect_filled(Rect::from_min_size(lr.min, Vec2::new(7.0, lr.height())), 2.0, band);
                 let stroke = if failing { Stroke::new(2.5, Color32::BLACK) } else { Stroke::new(1.0, Color32::from_gray(60)) };
                 painter.rect_stroke(lr, 3.0, stroke, StrokeKind::Inside);
                 painter.galley(Pos2::new(lr.min.x + 12.0, lr.min.y + 3.0), l.text.clone(), Color32::BLACK);
             }
             None => {
-                painter.line_segment([l.leader_from, lr.center()], Stroke::new(1.0, Color32::from_gray(40)));
+                for piece in &l.leader {
+                    painter.line_segment(*piece, Stroke::new(1.0, Color32::from_gray(40)));
+                }
                 painter.rect_filled(lr, 2.0, Color32::from_rgba_unmultiplied(255, 255, 255, 200));
                 painter.galley(lr.min + Vec2::new(4.0, 2.0), l.text.clone(), Color32::BLACK);
             }
@@ -479,7 +658,7 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
         let post = doc.scene.posts.get(p.post)?;
         let s = post.support.as_deref().and_then(|s| supports.get(s))?;
         let b = s.bearing_plate();
-        let st = reading(p, comb).1;
+        let st = reading(a, p, comb).status;
         let pad = if with_cue && !st.is_ok() { CUE_GAP_M + CUE_BAND_M } else { 0.0 };
         let (mut hx, mut hy) = (b.width_m.max(s.base_plate.width_m) / 2.0, b.length_m.max(s.base_plate.length_m) / 2.0);
         if with_cue && st.uplift {
@@ -496,6 +675,7 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
         out.map(|o| o.expand(2.0))
     };
     let plates: Vec<Option<Rect>> = (0..a.plates.len()).map(|i| footprint(i, true)).collect();
+    let faces: Vec<Option<Rect>> = (0..a.plates.len()).map(|i| footprint(i, false)).collect();
     let order = worst_first(a, comb);
     let mut chosen: Vec<usize> = Vec::new();
     let add = |i: usize, chosen: &mut Vec<usize>| {
@@ -504,9 +684,9 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
         }
     };
     for &i in &order {
-        let (u, st) = reading(&a.plates[i], comb);
+        let r = reading(a, &a.plates[i], comb);
         // The three worst, then every plate that fails or is near capacity, up to the limit.
-        let notable = !st.is_ok() || u >= Band::Near.range().0;
+        let notable = !r.status.is_ok() || r.utilisation.is_some_and(|u| u >= Band::Near.range().0);
         if labels_on && (chosen.len() < 3 || notable) && chosen.len() < MAX_LABELS {
             add(i, &mut chosen);
         }
@@ -521,14 +701,17 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
         .iter()
         .map(|&i| {
             let p = &a.plates[i];
-            let (u, st) = reading(p, comb);
-            let c = comb.unwrap_or(p.governing);
-            let pc = &p.combinations[c.min(p.combinations.len().saturating_sub(1))];
-            let mut t = format!("{}  {:.1} %", p.id, 100.0 * u);
-            if st.over {
+            let r = reading(a, p, comb);
+            let pc = &p.combinations[r.combination];
+            // Without a capacity check, the factored load alone.
+            let mut t = match r.utilisation {
+                Some(u) => format!("{}  {:.1} %", p.id, 100.0 * u),
+                None => format!("{}  {:.1} kN", p.id, pc.max_kn),
+            };
+            if r.status.over {
                 t.push_str("  OVER");
             }
-            if st.uplift {
+            if r.status.uplift {
                 // The least load where uplift is looked for: in the chosen combination, else
                 // over the combinations that check for it.
                 let least = match comb {
@@ -544,28 +727,35 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
     let mut requests: Vec<LabelRequest> = chosen
         .iter()
         .zip(&galleys)
-        .filter_map(|(&i, g)| plates[i].map(|anchor| LabelRequest { anchor, size: g.size() + Vec2::new(18.0, 6.0) }))
+        .filter_map(|(&i, g)| Some(LabelRequest { anchor: plates[i]?, size: g.size() + Vec2::new(18.0, 6.0), face: faces[i]? }))
         .collect();
     let cog_galley = painter.layout_no_wrap("centre of gravity (G)".into(), FontId::proportional(13.0), Color32::BLACK);
     if let Some(c) = cog {
-        requests.push(LabelRequest { anchor: Rect::from_center_size(c, Vec2::splat(16.0)), size: cog_galley.size() + Vec2::new(8.0, 4.0) });
+        let anchor = Rect::from_center_size(c, Vec2::splat(16.0));
+        requests.push(LabelRequest { anchor, size: cog_galley.size() + Vec2::new(8.0, 4.0), face: anchor });
     }
     let all_plates: Vec<Rect> = plates.iter().flatten().copied().collect();
+    let all_faces: Vec<Rect> = faces.iter().flatten().copied().collect();
     let bounds = rect.shrink(4.0);
-    let placed = place_labels(&requests, &all_plates, keep_clear, bounds);
+    let placed = place_labels(&requests, &all_plates, &all_faces, keep_clear, bounds);
     let mut out = Vec::new();
     let mut k = 0;
     for (n, &i) in chosen.iter().enumerate() {
-        let Some(anchor) = footprint(i, false) else { continue };
+        let (Some(_), Some(anchor)) = (plates[i], faces[i]) else { continue };
         let slot = placed[k];
         k += 1;
         let Some(lr) = slot else { continue };
-        let (u, st) = reading(&a.plates[i], comb);
-        out.push(PlacedLabel { rect: lr, leader_from: leader_start(anchor, lr.center()), band: Some((Band::of(u), !st.is_ok())), text: galleys[n].clone() });
+        let r = reading(a, &a.plates[i], comb);
+        let from = leader_start(anchor, lr.center());
+        let others: Vec<Rect> = all_faces.iter().filter(|f| **f != anchor).copied().collect();
+        let leader = segment_outside_rects(from, lr.center(), &others);
+        out.push(PlacedLabel { rect: lr, leader_from: from, leader, band: Some((band_colour(r.band()), !r.status.is_ok())), text: galleys[n].clone() });
     }
     if let (Some(c), Some(Some(lr))) = (cog, placed.get(k)) {
         let anchor = Rect::from_center_size(c, Vec2::splat(16.0));
-        out.push(PlacedLabel { rect: *lr, leader_from: leader_start(anchor, lr.center()), band: None, text: cog_galley });
+        let from = leader_start(anchor, lr.center());
+        let leader = segment_outside_rects(from, lr.center(), &all_faces);
+        out.push(PlacedLabel { rect: *lr, leader_from: from, leader, band: None, text: cog_galley });
     }
     out
 }
@@ -579,8 +769,8 @@ mod tests {
         // common practice, no source
         let plate = Rect::from_min_size(Pos2::new(50.0, 50.0), Vec2::splat(10.0));
         let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::new(160.0, 110.0));
-        let req = LabelRequest { anchor: plate, size: Vec2::new(60.0, 30.0) };
-        let placed = place_labels(&vec![req; 12], &[plate], &[], bounds);
+        let req = LabelRequest { anchor: plate, size: Vec2::new(60.0, 30.0), face: plate };
+        let placed = place_labels(&vec![req; 12], &[plate], &[plate], &[], bounds);
         let shown: Vec<Rect> = placed.iter().flatten().copied().collect();
         assert!(!shown.is_empty() && shown.len() < 12, "{}", shown.len());
         for (i, r) in shown.iter().enumerate() {
@@ -591,12 +781,47 @@ mod tests {
     }
 
     #[test]
+    fn a_leader_does_not_cross_a_neighbour_plate_whose_cue_touches_its_own() {
+        // common practice, no source: a leader drawn across another plate hides a strip of its
+        // colour. Here the neighbour's cue overlaps this plate's (as rings do seen obliquely)
+        // and its face lies on the leader to the first place tried (up and to the right).
+        let face = Rect::from_min_max(Pos2::new(100.0, 100.0), Pos2::new(120.0, 120.0));
+        let anchor = face.expand(10.0);
+        let other_face = Rect::from_min_max(Pos2::new(133.0, 89.0), Pos2::new(137.0, 93.0));
+        let other = other_face.expand(6.0);
+        assert!(other.intersects(anchor));
+        let req = LabelRequest { anchor, size: Vec2::new(60.0, 18.0), face };
+        let first = Rect::from_min_size(Pos2::new(anchor.max.x + 10.0, anchor.min.y - 10.0 - 18.0), req.size);
+        assert!(segment_hits_rect(leader_start(face, first.center()), first.center(), other_face), "the first place would cross it");
+        let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::splat(400.0));
+        let placed = place_labels(&[req], &[anchor, other], &[face, other_face], &[], bounds)[0].expect("room for the label");
+        assert!(!segment_hits_rect(leader_start(face, placed.center()), placed.center(), other_face), "{placed:?}");
+        assert!(!placed.intersects(other) && !placed.intersects(anchor));
+    }
+
+    #[test]
+    fn a_leader_is_drawn_only_outside_other_plates() {
+        // common practice, no source: a line passing under two boxes shows three pieces, none
+        // of them inside a box; a line clear of the boxes is drawn whole
+        let a = Pos2::new(0.0, 10.0);
+        let b = Pos2::new(100.0, 10.0);
+        let boxes = [Rect::from_min_max(Pos2::new(60.0, 0.0), Pos2::new(70.0, 20.0)), Rect::from_min_max(Pos2::new(20.0, 0.0), Pos2::new(30.0, 20.0))];
+        let pieces = segment_outside_rects(a, b, &boxes);
+        let xs = |pieces: &[[Pos2; 2]]| pieces.iter().map(|[p, q]| [p.x.round(), q.x.round()]).collect::<Vec<_>>();
+        assert_eq!(xs(&pieces), vec![[0.0, 20.0], [30.0, 60.0], [70.0, 100.0]]);
+        assert_eq!(segment_outside_rects(a, b, &[Rect::from_min_max(Pos2::new(40.0, 30.0), Pos2::new(50.0, 40.0))]), vec![[a, b]]);
+        // Overlapping boxes, and one that covers the end.
+        let pieces = segment_outside_rects(a, b, &[Rect::from_min_max(Pos2::new(20.0, 0.0), Pos2::new(50.0, 20.0)), Rect::from_min_max(Pos2::new(40.0, 0.0), Pos2::new(60.0, 20.0)), Rect::from_min_max(Pos2::new(90.0, 0.0), Pos2::new(120.0, 20.0))]);
+        assert_eq!(xs(&pieces), vec![[0.0, 20.0], [60.0, 90.0]]);
+    }
+
+    #[test]
     fn labels_avoid_plates_and_each_other() {
         // common practice, no source: labels must not hide what they label
         let plates = vec![Rect::from_min_size(Pos2::new(100.0, 100.0), Vec2::splat(20.0)), Rect::from_min_size(Pos2::new(140.0, 60.0), Vec2::splat(20.0))];
-        let req = |p: &Rect| LabelRequest { anchor: *p, size: Vec2::new(60.0, 18.0) };
+        let req = |p: &Rect| LabelRequest { anchor: *p, size: Vec2::new(60.0, 18.0), face: *p };
         let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::splat(400.0));
-        let placed = place_labels(&[req(&plates[0]), req(&plates[1]), req(&plates[0])], &plates, &[], bounds);
+        let placed = place_labels(&[req(&plates[0]), req(&plates[1]), req(&plates[0])], &plates, &plates, &[], bounds);
         let placed: Vec<Rect> = placed.into_iter().map(|r| r.expect("room for every label")).collect();
         for (i, r) in placed.iter().enumerate() {
             assert!(bounds.contains_rect(*r));

@@ -6,7 +6,6 @@ use plateload::edit::{place, Edit, Element, ElementRef};
 use plateload::scene::loads::{KentledgeForm, KentledgePlace};
 use plateload::scene::model::ElementKind;
 use plateload::export::findings::Verdict;
-use plateload::export::palette::Band;
 use plateload::{AnalysisError, Problem};
 
 use super::rgb;
@@ -54,6 +53,16 @@ pub struct ResultsPanel {
     pub descending: bool,
     /// Tab.
     pub tab: ResultsTab,
+}
+
+/// A plate's verdict in a combination: OK / OVER / UPLIFT where it checks capacity; where it
+/// does not, only uplift (if it checks that), else a dash.
+pub fn status_text(status: plateload::Status, checks_capacity: bool) -> &'static str {
+    match (checks_capacity, status.uplift) {
+        (true, _) => status.label(),
+        (false, true) => "UPLIFT",
+        (false, false) => "—",
+    }
 }
 
 fn problem_link(ui: &mut egui::Ui, p: &Problem, actions: &mut Vec<Action>, colour: egui::Color32) {
@@ -223,7 +232,7 @@ impl ResultsPanel {
                     match sort {
                         SortBy::Order | SortBy::Id => i as f64,
                         SortBy::Load => pc.max_kn,
-                        SortBy::Utilisation => reading(p, comb).0,
+                        SortBy::Utilisation => reading(a, p, comb).sort_key(),
                         SortBy::Bearing => pc.bearing_kpa,
                         SortBy::MinLoad => pc.min_kn,
                     }
@@ -236,8 +245,8 @@ impl ResultsPanel {
                 if *descending {
                     order.reverse();
                 }
-                let over = a.plates.iter().filter(|p| reading(p, comb).1.over).count();
-                let uplift = a.plates.iter().filter(|p| reading(p, comb).1.uplift).count();
+                let over = a.plates.iter().filter(|p| reading(a, p, comb).status.over).count();
+                let uplift = a.plates.iter().filter(|p| reading(a, p, comb).status.uplift).count();
                 ui.label(format!("{} base plates — {over} over capacity, {uplift} lifting ({comb_name}). Click a heading to sort, a row to select.", a.plates.len()));
                 let mut header = |ui: &mut egui::Ui, label: &str, by: SortBy| {
                     let mark = if *sort == by { if *descending { " ▼" } else { " ▲" } } else { "" };
@@ -280,9 +289,12 @@ impl ResultsPanel {
                 egui::ScrollArea::vertical().id_salt("bases").auto_shrink([false, false]).show_rows(ui, row_h, order.len(), |ui, range| {
                     for &i in &order[range] {
                         let p = &a.plates[i];
-                        let (u, status) = reading(p, comb);
-                        let c = comb.unwrap_or(p.governing);
-                        let pc = &p.combinations[c.min(p.combinations.len() - 1)];
+                        let rd = reading(a, p, comb);
+                        let (c, status) = (rd.combination, rd.status);
+                        let pc = &p.combinations[c];
+                        // A combination that does not check capacity: kN only, no percentage,
+                        // no pressure and no verdict beyond uplift.
+                        let checked = rd.utilisation.is_some();
                         let r = ElementRef::post(&p.id);
                         let selected = selection.contains(&r);
                         let resp = ui
@@ -296,17 +308,17 @@ impl ResultsPanel {
                                     format!("{:.3}", p.case_kn[2]),
                                     format!("{:.3}", pc.max_kn),
                                     format!("{:.3}", pc.min_kn),
-                                    format!("{:.1}", 100.0 * u),
-                                    format!("{:.1}", pc.bearing_kpa),
+                                    rd.utilisation.map_or("—".into(), |u| format!("{:.1}", 100.0 * u)),
+                                    if checked { format!("{:.1}", pc.bearing_kpa) } else { "—".into() },
                                     a.combinations[c].name.clone(),
-                                    status.label().to_string(),
+                                    status_text(status, checked).to_string(),
                                     a.method_label(pc.max_method).to_string(),
                                 ];
                                 for (k, (text, w)) in cells.into_iter().zip(widths).enumerate() {
                                     ui.allocate_ui(egui::vec2(w, row_h), |ui| {
-                                        if k == 8 {
+                                        if let (8, Some(b)) = (k, rd.band()) {
                                             let (rect, _) = ui.allocate_exact_size(egui::vec2(10.0, 10.0), egui::Sense::hover());
-                                            ui.painter().rect_filled(rect, 1.0, rgb(Band::of(u).colour()));
+                                            ui.painter().rect_filled(rect, 1.0, rgb(b.colour()));
                                         }
                                         let t = egui::RichText::new(text);
                                         ui.label(if selected { t.strong() } else if k == 11 && !status.is_ok() { t.strong() } else { t });

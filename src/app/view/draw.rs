@@ -15,8 +15,9 @@ use plateload::edit::ElementRef;
 use plateload::scene::model::{BeamRole, ElementKind};
 use plateload::export::palette::{Band, Cue};
 use plateload::edit::pick::{self, Part, Prim, Shape, ShapeOptions, CUE_BAND_M, CUE_EDGE_M, CUE_GAP_M, V3};
-use plateload::{Case, PlateResult, Status as PlateStatus};
+use plateload::{Analysis, Case, PlateResult, Status as PlateStatus};
 
+use super::flat::FlatMaterial;
 use super::{to_bevy, ViewState, ON_TOP_LAYER, SCENE_LAYER};
 use crate::app::doc::{SceneDoc, Selection};
 use crate::app::editor::ToolState;
@@ -51,6 +52,8 @@ impl Plugin for GizmoDrawPlugin {
 pub struct SceneShapes {
     /// Every solid.
     pub shapes: Vec<Shape>,
+    /// The base and sole plates among them: drawn over everything, so picked first.
+    pub plates: Vec<Shape>,
     /// Box around them.
     pub bounds: Option<(V3, V3)>,
     /// Level of the ground plane, m.
@@ -132,26 +135,39 @@ pub struct ViewAssets {
     ground: Handle<Mesh>,
     /// Cue meshes per plate footprint (mm × mm): over frame, uplift ring.
     cues: HashMap<(i64, i64), (Handle<Mesh>, Handle<Mesh>)>,
-    /// Unlit band colours for plates.
-    pub bands: [Handle<StandardMaterial>; 5],
-    /// Lit band colours for posts.
-    bands_lit: [Handle<StandardMaterial>; 5],
-    no_result: Handle<StandardMaterial>,
-    steel: Handle<StandardMaterial>,
-    ledger: Handle<StandardMaterial>,
-    transom: Handle<StandardMaterial>,
-    brace: Handle<StandardMaterial>,
-    deck: Handle<StandardMaterial>,
-    loads: [Handle<StandardMaterial>; 3],
-    sheets: [Handle<StandardMaterial>; 3],
-    selected: Handle<StandardMaterial>,
-    cue: Handle<StandardMaterial>,
-    ground_mat: Handle<StandardMaterial>,
+    /// Exact band colours for plates.
+    pub bands: [Handle<FlatMaterial>; 5],
+    /// Shaded band colours for posts.
+    bands_lit: [Handle<FlatMaterial>; 5],
+    no_result: Handle<FlatMaterial>,
+    steel: Handle<FlatMaterial>,
+    ledger: Handle<FlatMaterial>,
+    transom: Handle<FlatMaterial>,
+    brace: Handle<FlatMaterial>,
+    deck: Handle<FlatMaterial>,
+    loads: [Handle<FlatMaterial>; 3],
+    sheets: [Handle<FlatMaterial>; 3],
+    selected: Handle<FlatMaterial>,
+    cue: Handle<FlatMaterial>,
+    ground_mat: Handle<FlatMaterial>,
 }
+
+/// Sides of the round bars (posts, members, arrow shafts).
+const BAR_SIDES: u32 = 8;
 
 /// Colour of highlights (selection, picked elements): a saturated blue, apart from every
 /// band of the utilisation ramp.
 pub const HIGHLIGHT: Color = Color::srgb(0.0, 0.45, 1.0);
+
+/// Colour of the ground: a dark slate. The bands run from nearly white to nearly black, so no
+/// colour stands clear of all of them by lightness alone; a dark ground sets the light bands
+/// (most plates, and the ones that vanished on a pale ground) off best, and differs from the
+/// dark ones in hue. Over-capacity plates also carry their black and white frame.
+pub const GROUND: [u8; 3] = [0x3d, 0x4a, 0x55];
+
+/// Colour of a plate with no utilisation to show: no result, or a combination that does not
+/// check capacity. A neutral grey, apart from every band of the utilisation ramp.
+pub const NOT_CHECKED: [u8; 3] = [0x9a, 0x9a, 0x9a];
 
 /// Load case colours of arrows: grey, indigo, green (none of them on the utilisation ramp).
 pub const CASE_COLOURS: [[u8; 3]; 3] = [[0x5a, 0x5a, 0x5a], [0x33, 0x4a, 0xa8], [0x1f, 0x7a, 0x4a]];
@@ -160,40 +176,43 @@ fn srgb([r, g, b]: [u8; 3]) -> Color {
     Color::srgb_u8(r, g, b)
 }
 
-fn unlit(materials: &mut Assets<StandardMaterial>, c: Color) -> Handle<StandardMaterial> {
-    materials.add(StandardMaterial { base_color: c, unlit: true, ..default() })
+fn unlit(materials: &mut Assets<FlatMaterial>, c: Color) -> Handle<FlatMaterial> {
+    materials.add(FlatMaterial::flat(c))
 }
 
-fn lit(materials: &mut Assets<StandardMaterial>, c: Color, roughness: f32) -> Handle<StandardMaterial> {
-    materials.add(StandardMaterial { base_color: c, perceptual_roughness: roughness, metallic: 0.0, ..default() })
+fn lit(materials: &mut Assets<FlatMaterial>, c: Color) -> Handle<FlatMaterial> {
+    materials.add(FlatMaterial::shaded(c))
 }
 
-fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut materials: ResMut<Assets<StandardMaterial>>) {
+fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut materials: ResMut<Assets<FlatMaterial>>) {
     let m = &mut *materials;
-    let translucent = |m: &mut Assets<StandardMaterial>, c: Color| m.add(StandardMaterial { base_color: c, alpha_mode: AlphaMode::Blend, double_sided: true, cull_mode: None, unlit: true, ..default() });
+    let translucent = |m: &mut Assets<FlatMaterial>, c: Color| m.add(FlatMaterial::translucent(c));
     let assets = ViewAssets {
-        bar: meshes.add(Cylinder::new(1.0, 1.0)),
-        cone: meshes.add(Cone { radius: 1.0, height: 1.0 }),
+        // Eight sides: a tube is a few pixels wide on screen, and a software renderer spends
+        // its time per triangle (bevy's default of 32 sides made 2,000 posts cost several times
+        // as much to draw).
+        bar: meshes.add(Cylinder::new(1.0, 1.0).mesh().resolution(BAR_SIDES)),
+        cone: meshes.add(Cone { radius: 1.0, height: 1.0 }.mesh().resolution(2 * BAR_SIDES)),
         cube: meshes.add(Cuboid::new(1.0, 1.0, 1.0)),
         cog: meshes.add(cog_mesh()),
         ground: meshes.add(Plane3d::default().mesh().size(1.0, 1.0)),
         cues: HashMap::new(),
         bands: Band::ALL.map(|b| unlit(m, srgb(b.colour()))),
-        bands_lit: Band::ALL.map(|b| lit(m, srgb(b.colour()), 0.7)),
-        no_result: unlit(m, Color::srgb_u8(0x9a, 0x9a, 0x9a)),
-        steel: lit(m, Color::srgb_u8(0x8c, 0x93, 0x9b), 0.45),
-        ledger: lit(m, Color::srgb_u8(0x74, 0x7c, 0x86), 0.5),
-        transom: lit(m, Color::srgb_u8(0x9e, 0x8f, 0x7a), 0.5),
-        brace: lit(m, Color::srgb_u8(0x6f, 0x8a, 0x6f), 0.5),
+        bands_lit: Band::ALL.map(|b| lit(m, srgb(b.colour()))),
+        no_result: unlit(m, srgb(NOT_CHECKED)),
+        steel: lit(m, Color::srgb_u8(0x8c, 0x93, 0x9b)),
+        ledger: lit(m, Color::srgb_u8(0x74, 0x7c, 0x86)),
+        transom: lit(m, Color::srgb_u8(0x9e, 0x8f, 0x7a)),
+        brace: lit(m, Color::srgb_u8(0x6f, 0x8a, 0x6f)),
         deck: translucent(m, Color::srgba_u8(0xb8, 0x9a, 0x6a, 0x30)),
-        loads: CASE_COLOURS.map(|c| lit(m, srgb(c), 0.6)),
+        loads: CASE_COLOURS.map(|c| lit(m, srgb(c))),
         sheets: CASE_COLOURS.map(|[r, g, b]| translucent(m, Color::srgba_u8(r, g, b, 0x14))),
         selected: unlit(m, HIGHLIGHT),
         // The cue meshes carry their own black and white vertex colours.
         cue: unlit(m, Color::WHITE),
-        // Unlit, so the ground keeps one known colour under any light: never white, which is
-        // the colour of the cues.
-        ground_mat: unlit(m, Color::srgb_u8(0xbf, 0xbc, 0xb4)),
+        // Flat, so the ground keeps one known colour: never white, which is the colour of the
+        // cues, and apart from every band (see the tests below).
+        ground_mat: unlit(m, srgb(GROUND)),
     };
     // The ground: a large plane under everything, scaled to the scene when it is drawn.
     commands.spawn((Mesh3d(assets.ground.clone()), MeshMaterial3d(assets.ground_mat.clone()), Transform::from_scale(Vec3::ZERO), GroundPlane, RenderLayers::layer(SCENE_LAYER)));
@@ -387,7 +406,7 @@ impl Reconcile {
         map: &mut HashMap<DrawKey, Entity>,
         commands: &mut Commands,
         transforms: &mut Query<(&mut Transform, &mut Mesh3d), (With<DrawnPart>, Without<GroundPlane>)>,
-        material: &Handle<StandardMaterial>,
+        material: &Handle<FlatMaterial>,
     ) -> Entity {
         let hit = (0..=LOOKAHEAD).map(|d| self.cursor + d).find(|&i| matches!(self.old.get(i), Some(Some((k, _))) if want.matches(k)));
         let found = match hit {
@@ -543,16 +562,53 @@ fn sync_entities(
     // Frame the cues too: the ring around a lifting plate reaches past its corners.
     let reach = cue_reach.max(0.0);
     shapes.bounds = pick::shapes_bounds(&list).map(|(lo, hi)| ([lo[0] - reach, lo[1] - reach, lo[2]], [hi[0] + reach, hi[1] + reach, hi[2]]));
+    shapes.plates = list.iter().filter(|s| on_top(s.part)).cloned().collect();
     shapes.shapes = list;
     shapes.ground_z = ground_z;
     shapes.options = Some(opts);
 }
 
-/// Utilisation and findings of a plate in the chosen combination (`None`: governing).
-pub fn reading(plate: &PlateResult, combination: Option<usize>) -> (f64, PlateStatus) {
-    match combination.and_then(|c| plate.combinations.get(c)) {
-        Some(c) => (c.utilisation, c.status),
-        None => (plate.governing().utilisation, plate.status),
+/// What a plate shows for the chosen combination.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Reading {
+    /// The combination read: the chosen one, else the plate's governing one.
+    pub combination: usize,
+    /// Utilisation, where that combination checks capacity. `None` where it does not: its
+    /// factored load over a working-load capacity is not a utilisation, so only kN are shown.
+    pub utilisation: Option<f64>,
+    /// Findings: of the chosen combination, else over every combination.
+    pub status: PlateStatus,
+    /// Largest and smallest combined load in that combination, kN.
+    pub max_kn: f64,
+    /// Smallest combined load, kN (negative: uplift).
+    pub min_kn: f64,
+}
+
+impl Reading {
+    /// Band of the utilisation, where there is one.
+    pub fn band(&self) -> Option<Band> {
+        self.utilisation.map(Band::of)
+    }
+    /// Utilisation for sorting: not checked counts as below any value.
+    pub fn sort_key(&self) -> f64 {
+        self.utilisation.unwrap_or(f64::NEG_INFINITY)
+    }
+}
+
+/// What a plate shows in the chosen combination (`None`: its governing one).
+pub fn reading(a: &Analysis, plate: &PlateResult, combination: Option<usize>) -> Reading {
+    let chosen = combination.filter(|&c| c < plate.combinations.len());
+    let c = chosen.unwrap_or(plate.governing).min(plate.combinations.len().saturating_sub(1));
+    let Some(pc) = plate.combinations.get(c) else {
+        return Reading { combination: c, utilisation: None, status: plate.status, max_kn: f64::NAN, min_kn: f64::NAN };
+    };
+    let checks = a.combinations.get(c).is_some_and(|k| k.checks_capacity);
+    Reading {
+        combination: c,
+        utilisation: checks.then_some(pc.utilisation),
+        status: if chosen.is_some() { pc.status } else { plate.status },
+        max_kn: pc.max_kn,
+        min_kn: pc.min_kn,
     }
 }
 
@@ -565,7 +621,7 @@ fn recolour(
     tools: Res<ToolState>,
     mut drawn: ResMut<Drawn>,
     assets: Res<ViewAssets>,
-    mut parts: Query<(&DrawnPart, &mut MeshMaterial3d<StandardMaterial>, &mut Visibility)>,
+    mut parts: Query<(&DrawnPart, &mut MeshMaterial3d<FlatMaterial>, &mut Visibility)>,
 ) {
     let key = ColourKey {
         sync_revision: drawn.revision,
@@ -580,14 +636,14 @@ fn recolour(
     }
     let started = std::time::Instant::now();
     let analysis = doc.analysis();
-    let readings: HashMap<&str, (f64, PlateStatus)> = analysis.map(|a| a.plates.iter().map(|p| (p.id.as_str(), reading(p, key.combination))).collect()).unwrap_or_default();
+    let readings: HashMap<&str, Reading> = analysis.map(|a| a.plates.iter().map(|p| (p.id.as_str(), reading(a, p, key.combination))).collect()).unwrap_or_default();
     let selected: HashSet<&ElementRef> = selection.items.iter().collect();
     let picked: HashSet<&str> = tools.picked.iter().map(String::as_str).collect();
     for (part, mut mat, mut vis) in &mut parts {
         let (want, show) = match &part.0 {
             DrawKey::Shape(e, p, _) => {
                 let sel = selected.contains(e) || picked.contains(e.id.as_str());
-                let band = readings.get(e.id.as_str()).map(|r| Band::of(r.0) as usize);
+                let band = readings.get(e.id.as_str()).and_then(|r| r.band()).map(|b| b as usize);
                 let m = match p {
                     // A selected plate keeps its colour; it is outlined instead.
                     Part::BasePlate | Part::SolePlate => match band {
@@ -614,10 +670,10 @@ fn recolour(
                 };
                 (m, true)
             }
-            DrawKey::OverCue(id) => (&assets.cue, readings.get(id.as_str()).is_some_and(|r| matches!(Cue::of(r.1), Cue::Over | Cue::OverAndUplift))),
+            DrawKey::OverCue(id) => (&assets.cue, readings.get(id.as_str()).is_some_and(|r| matches!(Cue::of(r.status), Cue::Over | Cue::OverAndUplift))),
             DrawKey::UpliftCue(id) | DrawKey::UpliftArrow(id) => {
                 let m = if matches!(part.0, DrawKey::UpliftArrow(_)) { &assets.loads[0] } else { &assets.cue };
-                (m, readings.get(id.as_str()).is_some_and(|r| matches!(Cue::of(r.1), Cue::Uplift | Cue::OverAndUplift)))
+                (m, readings.get(id.as_str()).is_some_and(|r| matches!(Cue::of(r.status), Cue::Uplift | Cue::OverAndUplift)))
             }
             DrawKey::CentreOfGravity => (&assets.cue, true),
         };
@@ -643,8 +699,9 @@ fn draw_grid(mut gizmos: Gizmos, shapes: Res<SceneShapes>) {
     // At most a few hundred lines: coarser steps on large sites.
     let span = (x1 - x0).max(y1 - y0);
     let step = if span > 400.0 { 10.0 } else if span > 120.0 { 5.0 } else { 1.0 };
-    let minor = Color::srgba(0.25, 0.25, 0.25, 0.35);
-    let major = Color::srgba(0.15, 0.15, 0.15, 0.75);
+    // Light lines on the dark ground.
+    let minor = Color::srgba(1.0, 1.0, 1.0, 0.16);
+    let major = Color::srgba(1.0, 1.0, 1.0, 0.4);
     let mut x = (x0 / step).floor() * step;
     while x <= x1 {
         let c = if (x / (5.0 * step)).round() * 5.0 * step == x { major } else { minor };
@@ -708,5 +765,72 @@ fn draw_highlights(mut gizmos: Gizmos<OnTopGizmos>, shapes: Res<SceneShapes>, se
                 outline(s, HIGHLIGHT, pad);
             }
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Relative luminance of an sRGB colour.
+    fn luminance(c: [u8; 3]) -> f64 {
+        // source: WCAG 2.1, definition of relative luminance (sRGB linearisation, Rec. 709 weights)
+        let lin = c.map(|v| {
+            let s = v as f64 / 255.0;
+            if s <= 0.04045 { s / 12.92 } else { ((s + 0.055) / 1.055).powf(2.4) }
+        });
+        0.2126 * lin[0] + 0.7152 * lin[1] + 0.0722 * lin[2]
+    }
+
+    /// Contrast ratio of two colours, 1 to 21.
+    fn contrast(a: [u8; 3], b: [u8; 3]) -> f64 {
+        // source: WCAG 2.1, definition of contrast ratio (L1 + 0.05) / (L2 + 0.05)
+        let (la, lb) = (luminance(a), luminance(b));
+        (la.max(lb) + 0.05) / (la.min(lb) + 0.05)
+    }
+
+    /// OKLab of an sRGB colour.
+    fn oklab(c: [u8; 3]) -> [f64; 3] {
+        // source: B. Ottosson, "A perceptual color space for image processing" (2020), sRGB → OKLab matrices
+        let [r, g, b] = c.map(|v| {
+            let s = v as f64 / 255.0;
+            if s <= 0.04045 { s / 12.92 } else { ((s + 0.055) / 1.055).powf(2.4) }
+        });
+        let l = (0.412_221_470_8 * r + 0.536_332_536_3 * g + 0.051_445_992_9 * b).cbrt();
+        let m = (0.211_903_498_2 * r + 0.680_699_545_1 * g + 0.107_396_956_6 * b).cbrt();
+        let s = (0.088_302_461_9 * r + 0.281_718_837_6 * g + 0.629_978_700_5 * b).cbrt();
+        [0.210_454_255_3 * l + 0.793_617_785 * m - 0.004_072_046_8 * s, 1.977_998_495_1 * l - 2.428_592_205 * m + 0.450_593_709_9 * s, 0.025_904_037_1 * l + 0.782_771_766_2 * m - 0.808_675_766 * s]
+    }
+
+    #[test]
+    fn the_ground_stands_apart_from_every_band() {
+        // This converter is the inverse of the palette's: white is L = 1, and every band
+        // comes back to itself through the palette's OKLab → sRGB.
+        assert!(oklab([255, 255, 255]).iter().zip([1.0, 0.0, 0.0]).all(|(a, b)| (a - b).abs() < 1e-3));
+        let bands = Band::ALL.map(|b| (b, b.colour()));
+        for (b, c) in bands {
+            let back = plateload::export::palette::oklab_to_srgb(oklab(c));
+            assert!((0..3).all(|k| back[k].abs_diff(c[k]) <= 1), "{b:?}: {c:?} → {back:?}");
+        }
+        // The bands span nearly the whole range of lightness, so no single colour reaches the
+        // 3 : 1 of WCAG 2.1 SC 1.4.11 (non-text contrast) against all of them: the best is
+        // about 1.7 : 1, between the two darkest bands. The ground takes that, gives the light
+        // bands (which vanished on the old pale ground, 1.3 : 1) the full 3 : 1, and differs
+        // from every band in colour as well.
+        for (b, c) in bands {
+            let k = contrast(GROUND, c);
+            let d = oklab(GROUND).iter().zip(oklab(c)).map(|(x, y)| (x - y).powi(2)).sum::<f64>().sqrt();
+            assert!(k >= 1.7, "{b:?}: contrast {k:.2} : 1 with the ground");
+            // common practice, no source: a difference of about 0.02 in OKLab is just noticeable
+            assert!(d >= 0.14, "{b:?}: OKLab difference {d:.3} from the ground");
+            if matches!(b, Band::Light | Band::Moderate) {
+                // source: WCAG 2.1 SC 1.4.11, 3 : 1 for graphical objects
+                assert!(k >= 3.0, "{b:?}: contrast {k:.2} : 1 with the ground");
+            }
+        }
+        // The old ground failed this: the check can fail.
+        assert!(contrast([0xbf, 0xbc, 0xb4], Band::Light.colour()) < 1.7);
+        // Nor is the ground the colour of the cues (white) or of a plate without a result.
+        assert!(contrast(GROUND, [255, 255, 255]) >= 4.5 && contrast(GROUND, NOT_CHECKED) >= 1.7);
     }
 }

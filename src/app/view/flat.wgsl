@@ -1,0 +1,29 @@
+// The view's only surface shader: a flat colour, times the mesh's vertex colour when it has one,
+// optionally with one light term. A software renderer spends most of a frame in fragment
+// shaders, so this stays as small as the picture allows.
+#import bevy_pbr::forward_io::VertexOutput
+
+struct FlatParams {
+    // Linear RGBA; with `shade` 0 it is written unchanged, so band colours stay exact.
+    color: vec4<f32>,
+    // 0: flat. 1: lit by one fixed light from above (dimmed to `1 - 0.45 * shade` facing away).
+    shade: f32,
+}
+
+@group(#{MATERIAL_BIND_GROUP}) @binding(0) var<uniform> params: FlatParams;
+
+@fragment
+fn fragment(in: VertexOutput) -> @location(0) vec4<f32> {
+    var c = params.color;
+#ifdef VERTEX_COLORS
+    c = c * in.color;
+#endif
+    if params.shade > 0.0 {
+        // Towards the light: (−4, 10, 6) in bevy axes, up and a little towards −x and +z.
+        let l = vec3<f32>(-0.324, 0.811, 0.487);
+        let lambert = max(dot(normalize(in.world_normal), l), 0.0);
+        let k = 1.0 - params.shade * 0.45 * (1.0 - lambert);
+        c = vec4<f32>(c.rgb * k, c.a);
+    }
+    return c;
+}
