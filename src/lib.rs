@@ -10,7 +10,8 @@
 //! 2. **[`solve`](mod@solve)** — each load item carried deck strip → bearer → post → base plate
 //!    ([`solve::load_path`]), by segment moment balance ([`solve::beam`]) or over continuous
 //!    members ([`solve::continuous`]), both in separate method passes by default; horizontal
-//!    loads through the braced base ([`solve::rigid_base`]). Every share is kept for tracing.
+//!    loads down the braced planes and diaphragms ([`solve::braced`]). Every share is kept for
+//!    tracing.
 //! 3. **[`check`]** — combinations per plate, the worse method pass at every plate, uplift,
 //!    utilisation of jack and ground ([`check::plates`]), stability ([`check::stability`]) and the
 //!    equilibrium proof ([`check::equilibrium`](mod@check::equilibrium)); [`analyse`] runs stages 1–3 in one call.

@@ -18,7 +18,6 @@ pub fn route_words(scene: &Scene, route: Route) -> String {
         Route::Transfer { bearer, piece, from } => format!("{} (transfer), from post {} standing on it", piece_words(scene, bearer, piece), scene.posts[from as usize].id),
         Route::PostSelfWeight => "own weight of the post".into(),
         Route::PostTop => "load on the post top".into(),
-        Route::Overturning => "overturning couple on the braced base".into(),
         Route::Kentledge => "kentledge on the plate".into(),
         Route::Bracing => "the vertical components of the brace forces at its nodes".into(),
     }

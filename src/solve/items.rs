@@ -79,8 +79,6 @@ pub enum Route {
     PostSelfWeight,
     /// A load straight onto the post top.
     PostTop,
-    /// The overturning couple of a horizontal load on the rigid braced base.
-    Overturning,
     /// Kentledge sitting on the plate.
     Kentledge,
     /// The vertical components of the brace forces at this post's nodes, from the braced bays

@@ -6,8 +6,6 @@
 //! - [`beam`]: one member's load shared among its supports by segment moment balance.
 //! - [`continuous`]: the same member continuous over its supports (direct stiffness method).
 //! - [`braced`]: horizontal loads down the braced planes, through the diaphragms, to the plates.
-//! - [`rigid_base`]: loads shared among the plates of a rigid base (the pile-group formula); not
-//!   used by the scene path.
 //! - [`tee_heads`]: bearers on a single post must balance, or stay within a stated head moment
 //!   capacity, with either arm loaded alone.
 //! - [`influence`]: the reaction at every post for a unit load anywhere on a deck.
@@ -24,7 +22,6 @@ pub mod influence;
 pub mod items;
 pub mod load_path;
 pub mod passes;
-pub mod rigid_base;
 pub mod tee_heads;
 
 pub use items::{Action, Alternative, Arranged, Cell, CellPlace, Contribution, Item, Resultant, Route, Solution, Variant, SELF_WEIGHT_ID};
