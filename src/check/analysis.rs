@@ -167,9 +167,10 @@ pub struct Analysis {
 impl Analysis {
     /// Index of the plate with the highest governing utilisation.
     pub fn worst_plate(&self) -> Option<usize> {
-        (0..self.plates.len()).max_by(|&a, &b| {
-            let (ua, ub) = (self.plates[a].governing().utilisation, self.plates[b].governing().utilisation);
-            ua.partial_cmp(&ub).unwrap_or(std::cmp::Ordering::Equal)
+        // Of equal utilisations the first in the scene, as the editor's summary names it.
+        (0..self.plates.len()).fold(None, |best: Option<usize>, i| match best {
+            Some(b) if self.plates[i].governing().utilisation <= self.plates[b].governing().utilisation => Some(b),
+            _ => Some(i),
         })
     }
     /// Plate index by id.
