@@ -53,21 +53,16 @@ pub fn strip(ui: &mut egui::Ui, spare: &mut SpareView) {
             spare.spacing_m = g;
         }
         ui.separator();
+        ui.label("D places at the pointer, as an imposed load (one undo step):");
         let mut own = spare.place_kn.is_some();
-        ui.checkbox(&mut own, "place").on_hover_text("off: D places the spare value where the pointer is, rounded down");
-        if own {
-            let mut kn = spare.place_kn.unwrap_or(1.0);
-            ui.add(egui::DragValue::new(&mut kn).range(0.1..=500.0).speed(0.1).max_decimals(1).suffix(" kN"));
-            if spare.place_kn != Some(kn) {
-                spare.place_kn = Some(kn);
-            }
-        } else {
-            if spare.place_kn.is_some() {
-                spare.place_kn = None;
-            }
-            ui.label("the value shown");
+        ui.radio_value(&mut own, false, "the value shown there, rounded down");
+        ui.radio_value(&mut own, true, "");
+        let mut kn = spare.place_kn.unwrap_or(1.0);
+        ui.add_enabled(own, egui::DragValue::new(&mut kn).range(0.1..=500.0).speed(0.1).max_decimals(1).suffix(" kN"));
+        let want = own.then_some(kn);
+        if spare.place_kn != want {
+            spare.place_kn = want;
         }
-        ui.label("with D where the pointer is (case Q, one undo step)");
     });
     match &spare.map {
         Some(Err(why)) => {
