@@ -46,6 +46,9 @@ pub fn strip(ui: &mut egui::Ui, spare: &mut SpareView) {
             }
             spare.footprint_m = fp;
         }
+        if spare.footprint_m == [0.0, 0.0] {
+            ui.label("(a point load)");
+        }
         ui.label("on a grid of");
         let mut g = spare.spacing_m;
         ui.add(egui::DragValue::new(&mut g).range(0.05..=5.0).speed(0.01).max_decimals(2).suffix(" m"));
@@ -79,17 +82,17 @@ pub fn strip(ui: &mut egui::Ui, spare: &mut SpareView) {
                     ui.add(chip(b, format!("{} {n}", b.label()))).on_hover_text(format!("{}: {n} grid point{}", b.label(), if n == 1 { "" } else { "s" }));
                 }
             });
-            ui.label(
-                egui::RichText::new("Each value is for one load placed there alone, on top of the existing loads; values do not add — after placing one, the map is worked out again.")
-                    .small(),
-            );
-            if let Some(w) = &map.not_included {
-                ui.label(egui::RichText::new(format!("Not included: {w}.")).small());
-            }
-            if !map.not_checked.is_empty() {
-                let shown = if map.not_checked.len() > 8 { format!("{} and {} more", map.not_checked[..8].join(", "), map.not_checked.len() - 8) } else { map.not_checked.join(", ") };
-                ui.label(egui::RichText::new(format!("Not checked here (no capacity known): {shown}.")).small());
-            }
+            ui.horizontal_wrapped(|ui| {
+                ui.label(egui::RichText::new("Each value is for one load placed there alone, on top of the existing loads; values do not add — after placing one, the map is worked out again.").small());
+                if !map.not_checked.is_empty() {
+                    let n = map.not_checked.len();
+                    ui.label(egui::RichText::new(format!("Not checked here (no capacity known): {n} member{}.", if n == 1 { "" } else { "s" })).small().underline())
+                        .on_hover_text(map.not_checked.join(", "));
+                }
+                if let Some(w) = &map.not_included {
+                    ui.label(egui::RichText::new(format!("Not included: {w}.")).small());
+                }
+            });
         }
         None => {
             ui.label("working out the map…");

@@ -31,6 +31,7 @@ impl Plugin for SparePlugin {
         app.init_resource::<SpareView>()
             .add_systems(Startup, init_material)
             .add_systems(Update, (refresh_map, draw_cells).chain().in_set(EditorSystems::Sync))
+            .add_systems(Update, hide_sheets.after(EditorSystems::Recolour))
             .add_systems(Update, (hover, place_key).chain().in_set(EditorSystems::Input).after(super::PointerSystems))
             .add_systems(Last, ask_for_frame);
     }
@@ -248,6 +249,22 @@ fn draw_cells(mut commands: Commands, spare: Res<SpareView>, doc: Res<SceneDoc>,
 fn ask_for_frame(spare: Res<SpareView>, mut redraw: MessageWriter<bevy::window::RequestRedraw>) {
     if spare.is_changed() && !spare.is_added() {
         redraw.write(bevy::window::RequestRedraw);
+    }
+}
+
+/// While the overlay is on, the see-through sheets over distributed loads are left out: drawn
+/// over the cells they would change their colours. The load arrows stay.
+fn hide_sheets(spare: Res<SpareView>, drawn: Res<super::draw::Drawn>, mut parts: Query<(&super::draw::DrawnPart, &mut Visibility)>) {
+    if !spare.is_changed() && !drawn.is_changed() {
+        return;
+    }
+    for (part, mut vis) in &mut parts {
+        if let super::draw::DrawKey::Shape(_, plateload::edit::pick::Part::LoadSpread, _) = part.0 {
+            let v = if spare.on { Visibility::Hidden } else { Visibility::Inherited };
+            if *vis != v {
+                *vis = v;
+            }
+        }
     }
 }
 
