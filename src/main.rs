@@ -189,6 +189,10 @@ enum Command {
         /// Select this post first: its plate is labelled and outlined.
         #[arg(long)]
         select: Option<String>,
+        /// Draw the spare-capacity map on the decks, for one extra load of this footprint:
+        /// `point` or WIDTHxDEPTH in metres (grid 0.25 m).
+        #[arg(long, value_parser = parse_footprint)]
+        spare_overlay: Option<plateload::solve::influence::Footprint>,
     },
 }
 
@@ -397,7 +401,7 @@ wrote the spare-capacity map of {} deck(s) to {}", map.decks.len(), out.display(
             Ok(ExitCode::SUCCESS)
         }
         Command::Edit { file, count_updates } => edit(file, count_updates),
-        Command::Snapshot { file, output, size, view, combination, settle_frames, timing_edits, timing_orbit, generated, timing_without, camera_json, with_panels, select } => {
+        Command::Snapshot { file, output, size, view, combination, settle_frames, timing_edits, timing_orbit, generated, timing_without, camera_json, with_panels, select, spare_overlay } => {
             let (scene, file) = match (file, generated) {
                 (_, Some((cols, rows))) => (generated_birdcage(cols, rows), PathBuf::from(format!("generated {cols}x{rows}"))),
                 (Some(file), None) => (read(&file)?, file),
@@ -415,7 +419,7 @@ wrote the spare-capacity map of {} deck(s) to {}", map.decks.len(), out.display(
             {
                 anyhow::bail!("no post \"{id}\" in {}", file.display());
             }
-            snapshot(scene, output, size, view, combination, (settle_frames, timing_edits, timing_orbit, timing_without), (camera_json, with_panels, select))
+            snapshot(scene, output, size, view, combination, (settle_frames, timing_edits, timing_orbit, timing_without), (camera_json, with_panels, select), spare_overlay)
         }
     }
 }
@@ -763,7 +767,7 @@ fn edit(file: Option<PathBuf>, count_updates: Option<PathBuf>) -> anyhow::Result
 }
 
 #[cfg(feature = "viewer")]
-fn snapshot(scene: Scene, out: PathBuf, (w, h): (u32, u32), view: PictureView, combination: Option<usize>, (settle_frames, timing_edits, timing_orbit, without): (u32, u32, u32, Vec<String>), (camera_out, editor_ui, select): (Option<PathBuf>, bool, Option<String>)) -> anyhow::Result<ExitCode> {
+fn snapshot(scene: Scene, out: PathBuf, (w, h): (u32, u32), view: PictureView, combination: Option<usize>, (settle_frames, timing_edits, timing_orbit, without): (u32, u32, u32, Vec<String>), (camera_out, editor_ui, select): (Option<PathBuf>, bool, Option<String>), spare: Option<plateload::solve::influence::Footprint>) -> anyhow::Result<ExitCode> {
     use plateload::edit::pick::ViewPreset;
     let parts = app::view::ViewPart::ALL;
     let without = without
@@ -776,14 +780,14 @@ fn snapshot(scene: Scene, out: PathBuf, (w, h): (u32, u32), view: PictureView, c
         PictureView::Front => ViewPreset::Front,
         PictureView::Side => ViewPreset::Side,
     };
-    app::snapshot(scene, app::snapshot::PictureSpec { out: out.clone(), size: [w, h], view, combination, settle_frames, timing_edits, timing_orbit, camera_out, editor_ui, select: select.map(plateload::edit::ElementRef::post), without })?;
+    app::snapshot(scene, app::snapshot::PictureSpec { out: out.clone(), size: [w, h], view, combination, settle_frames, timing_edits, timing_orbit, camera_out, editor_ui, select: select.map(plateload::edit::ElementRef::post), without, spare })?;
     eprintln!("wrote {}", out.display());
     eprintln!("{CAUTION}");
     Ok(ExitCode::SUCCESS)
 }
 
 #[cfg(not(feature = "viewer"))]
-fn snapshot(_: Scene, _: PathBuf, _: (u32, u32), _: PictureView, _: Option<usize>, _: (u32, u32, u32, Vec<String>), _: (Option<PathBuf>, bool, Option<String>)) -> anyhow::Result<ExitCode> {
+fn snapshot(_: Scene, _: PathBuf, _: (u32, u32), _: PictureView, _: Option<usize>, _: (u32, u32, u32, Vec<String>), _: (Option<PathBuf>, bool, Option<String>), _: Option<plateload::solve::influence::Footprint>) -> anyhow::Result<ExitCode> {
     anyhow::bail!("this build has no renderer (it was built without the `viewer` feature)")
 }
 

@@ -353,3 +353,64 @@ fn the_open_editor_draws_nothing_while_nothing_happens() {
         panic!("{e}");
     }
 }
+
+#[test]
+#[ignore = "needs display: run under Xvfb with Mesa llvmpipe (.ci/run does)"]
+fn the_spare_overlay_shows_the_maps_bands_on_the_decks_and_hides_no_plate() {
+    let _display = display_to_myself();
+    // source: the engine's own map (`spare_map`) and band colours; common practice, no source:
+    // an overlay on the decks must leave every plate's colour in view
+    use plateload::check::spare::{spare_map, SpareSettings};
+    use plateload::export::palette::SpareBand;
+    let name = "tannery-loading-bay";
+    let s = scene(name);
+    let a = analyse(&s).expect("the demo solves");
+    let map = spare_map(&s, &a, &SpareSettings::default()).expect("a map");
+    let shot = snapshot_with(name, "plan", &["--with-panels", "--spare-overlay", "point"]);
+    let [vx, vy, vw, vh] = shot.viewport;
+    let inside = |at: [f64; 2]| at[0] >= vx + 2.0 && at[1] >= vy + 2.0 && at[0] <= vx + vw - 2.0 && at[1] <= vy + vh - 2.0;
+    // Every plate keeps its band colour at its centre.
+    for plate in &a.plates {
+        let at = shot.pixel([plate.x, plate.y, plate.base_level + 0.01]);
+        let want = Band::of(plate.governing().utilisation).colour();
+        assert!(inside(at) && close(shot.picture.median(at), want, 6), "plate {} is {:?}, its band is {want:?}", plate.id, shot.picture.median(at));
+    }
+    // Inner grid points, off the hatch's diagonal, away from plates, rings and labels: the
+    // colour of their band. (Load arrows standing on the deck hide a few.)
+    // Reach of each plate's cues (the uplift ring is the widest), m.
+    let reach: Vec<f64> = s
+        .posts
+        .iter()
+        .map(|q| {
+            let t = s.support_types.iter().find(|t| Some(&t.id) == q.support.as_ref()).expect("support");
+            let b = t.bearing_plate();
+            let (hx, hy) = (b.width_m.max(t.base_plate.width_m) / 2.0, b.length_m.max(t.base_plate.length_m) / 2.0);
+            plateload::edit::pick::uplift_ring_radius(hx, hy) + CUE_BAND_M + 0.05
+        })
+        .collect();
+    let (mut checked, mut right, mut wrong) = (0, 0, Vec::new());
+    for d in &map.decks {
+        let deck = s.decks.iter().find(|k| k.id == d.deck).expect("deck");
+        for p in &d.points {
+            // Two spots either side of the hatch's diagonal: a leader or a brace line drawn over
+            // the deck seldom crosses both.
+            let inner = p.x > deck.extent.x.0 + 0.2 && p.x < deck.extent.x.1 - 0.2 && p.y > deck.extent.y.0 + 0.2 && p.y < deck.extent.y.1 - 0.2;
+            let near_plate = s.posts.iter().zip(&reach).any(|(q, r)| (q.x - p.x).hypot(q.y - p.y) < *r);
+            let spots = [(0.06, -0.06), (-0.06, 0.06)].map(|(dx, dy)| shot.pixel([p.x + dx, p.y + dy, deck.level + 0.005]));
+            if !inner || near_plate || spots.iter().any(|at| !inside(*at) || shot.under_label(*at)) {
+                continue;
+            }
+            checked += 1;
+            let want = SpareBand::of(p.kn, p.already_at_limit).colour();
+            let got = spots.map(|at| shot.picture.median(at));
+            if got.iter().any(|c| close(*c, want, 6)) {
+                right += 1;
+            } else {
+                wrong.push(format!("({:.2}, {:.2}) is {got:?}, its band is {want:?}", p.x, p.y));
+            }
+        }
+    }
+    eprintln!("{right} of {checked} grid points show their band");
+    assert!(checked >= 60, "{checked} points checked");
+    assert!(right * 10 >= checked * 9, "{right} of {checked} points show their band:\n{}", wrong.join("\n"));
+}

@@ -45,6 +45,8 @@ pub struct PictureSpec {
     pub select: Option<plateload::edit::ElementRef>,
     /// Parts of the view left out (to time what each costs).
     pub without: Vec<super::view::ViewPart>,
+    /// Draw the spare-capacity map on the decks for one extra load of this footprint.
+    pub spare: Option<plateload::solve::influence::Footprint>,
 }
 
 /// Takes the picture in picture mode.
@@ -80,9 +82,13 @@ pub struct PictureState {
 /// take minutes over its first shaders).
 const MAX_TIME: Duration = Duration::from_secs(600);
 
-fn preselect(mode: Res<Mode>, mut selection: ResMut<super::doc::Selection>) {
+fn preselect(mode: Res<Mode>, mut selection: ResMut<super::doc::Selection>, mut spare: ResMut<super::view::spare::SpareView>) {
     if let Mode::Picture(PictureSpec { select: Some(r), .. }) = &*mode {
         selection.items = vec![r.clone()];
+    }
+    if let Mode::Picture(PictureSpec { spare: Some(f), .. }) = &*mode {
+        spare.on = true;
+        spare.footprint_m = [f.x_m, f.y_m];
     }
 }
 

@@ -2,6 +2,7 @@
 //! window, driven by actions, clicks and keys, checked on the document and the entities.
 
 mod mouse;
+mod spare;
 
 use std::path::PathBuf;
 

@@ -8,6 +8,7 @@
 
 pub mod draw;
 pub mod flat;
+pub mod spare;
 
 use bevy::camera::visibility::RenderLayers;
 use bevy::camera::{CameraOutputMode, ScalingMode, Viewport};
@@ -37,7 +38,7 @@ pub struct ViewPlugin;
 
 impl Plugin for ViewPlugin {
     fn build(&self, app: &mut App) {
-        app.add_plugins((ViewInputPlugin, flat::FlatMaterialPlugin, draw::DrawPlugin, draw::GizmoDrawPlugin, RendererBusyPlugin))
+        app.add_plugins((ViewInputPlugin, flat::FlatMaterialPlugin, draw::DrawPlugin, draw::GizmoDrawPlugin, RendererBusyPlugin, spare::SparePlugin))
             .add_systems(Startup, spawn_cameras)
             .add_systems(Update, leave_out.run_if(resource_exists::<Without>))
             // After the panels, which size the view: a new size shows in the same frame.

@@ -1121,6 +1121,29 @@ pub mod place {
         let (lo, hi) = levels.unwrap_or((a.base_level.max(b.base_level), a.top_level.min(b.top_level)));
         Ok(Brace { id: fresh_id(scene, "X"), from: PostNode { post: a.id.clone(), level: lo }, to: PostNode { post: b.id.clone(), level: hi } })
     }
+
+    /// An imposed load (case Q) of `kn` over `footprint` centred at (`x`, `y`) on deck `deck`, as
+    /// the spare-capacity map places it: a point load for a point, else a patch of that size
+    /// carrying `kn` in all. It must lie wholly on the deck.
+    pub fn footprint_load(scene: &Scene, deck: &str, (x, y): (f64, f64), footprint: crate::solve::influence::Footprint, kn: f64) -> Result<crate::scene::loads::Load, EditError> {
+        use crate::scene::loads::{Case, Intensity, Load, LoadKind};
+        let d = scene.decks.iter().find(|d| d.id == deck).ok_or_else(|| EditError::Placement(format!("there is no deck {deck}")))?;
+        if !(kn.is_finite() && kn > 0.0) {
+            return Err(EditError::Placement(format!("the load to place must be above 0 kN (it is {kn} kN)")));
+        }
+        let (hx, hy) = (0.5 * footprint.x_m, 0.5 * footprint.y_m);
+        let t = GEOMETRY_TOLERANCE_M;
+        let on = x - hx >= d.extent.x.0 - t && x + hx <= d.extent.x.1 + t && y - hy >= d.extent.y.0 - t && y + hy <= d.extent.y.1 + t;
+        if !on || !(x.is_finite() && y.is_finite()) {
+            return Err(EditError::Placement(format!("a {} × {} m footprint at ({x:.3}, {y:.3}) does not lie wholly on deck {deck}", footprint.x_m, footprint.y_m)));
+        }
+        let kind = if footprint.is_point() {
+            LoadKind::DeckPoint { deck: deck.to_owned(), x, y, kn }
+        } else {
+            LoadKind::DeckPatch { deck: deck.to_owned(), area: Rect { x: (x - hx, x + hx), y: (y - hy, y + hy) }, intensity: Intensity::Kpa(kn / footprint.area()) }
+        };
+        Ok(Load::new(fresh_id(scene, "Load-"), Case::Q, kind))
+    }
 }
 
 #[cfg(test)]
@@ -1128,6 +1151,29 @@ mod tests {
     use super::*;
     use crate::scene::layout::generate;
     use crate::scene::loads::{Case, Intensity};
+
+    #[test]
+    fn a_footprint_load_carries_the_force_asked_for_and_stays_on_its_deck() {
+        // common practice, no source: a patch of uniform pressure q over area A carries q·A
+        let scene = crate::scene::demo::demo_scene(1).expect("demo");
+        let d = &scene.decks[0];
+        let (cx, cy) = (0.5 * (d.extent.x.0 + d.extent.x.1), 0.5 * (d.extent.y.0 + d.extent.y.1));
+        let fp = crate::solve::influence::Footprint { x_m: 1.2, y_m: 0.8 };
+        let l = place::footprint_load(&scene, &d.id, (cx, cy), fp, 4.8).expect("fits");
+        assert_eq!(l.case, Case::Q);
+        match &l.kind {
+            LoadKind::DeckPatch { area, intensity: Intensity::Kpa(q), .. } => {
+                assert!((q * area.area() - 4.8).abs() < 1e-12, "{q} kPa over {} m²", area.area());
+                assert!((area.x.0 - (cx - 0.6)).abs() < 1e-12 && (area.y.1 - (cy + 0.4)).abs() < 1e-12);
+            }
+            k => panic!("{k:?}"),
+        }
+        let p = place::footprint_load(&scene, &d.id, (cx, cy), crate::solve::influence::Footprint::POINT, 2.0).expect("fits");
+        assert!(matches!(p.kind, LoadKind::DeckPoint { kn, .. } if kn == 2.0));
+        assert!(place::footprint_load(&scene, &d.id, (d.extent.x.1, cy), fp, 1.0).is_err(), "half off the deck");
+        assert!(place::footprint_load(&scene, &d.id, (cx, cy), fp, 0.0).is_err());
+        assert!(place::footprint_load(&scene, "nope", (cx, cy), fp, 1.0).is_err());
+    }
 
     fn demo() -> Scene {
         crate::scene::demo::default_scene()

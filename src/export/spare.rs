@@ -36,6 +36,22 @@ fn cell(p: &crate::check::spare::SparePoint) -> String {
     }
 }
 
+/// One point of the map in words, as shown where the pointer is: e.g. `up to 6.4 kN here —
+/// limited by plate C2, ground bearing (service)`. The value is rounded down, never up.
+pub fn point_words(p: &crate::check::spare::SparePoint) -> String {
+    match p.kn {
+        None => "no limit found here: nothing on this point's load path has a known capacity".to_owned(),
+        Some(_) if p.already_at_limit => format!("no extra load here — a limit is already reached: {}", p.limit.words()),
+        Some(kn) => format!("up to {} kN here — limited by {}", num(round_down_kn(kn)), p.limit.words()),
+    }
+}
+
+/// A spare load rounded down to 0.1 kN, as shown and as offered to place: never more than the
+/// map gives.
+pub fn round_down_kn(kn: f64) -> f64 {
+    if kn.is_finite() { ((kn * 10.0) + 1e-9).floor().max(0.0) / 10.0 } else { 0.0 }
+}
+
 /// The map as plain text: one grid per deck (rows from the far side down, as on a plan), then what
 /// limits the smallest values.
 pub fn spare_text(map: &SpareMap) -> String {
@@ -115,4 +131,26 @@ pub fn spare_json(map: &SpareMap) -> String {
         map: &'a SpareMap,
     }
     serde_json::to_string_pretty(&Doc { plateload_spare_json: 1, caution: crate::CAUTION, units: "kN, m", map }).expect("the map is plain data")
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::check::spare::{Limit, SparePoint};
+
+    fn at(kn: Option<f64>, already: bool) -> SparePoint {
+        let limit = Limit::Plate { plate: "C2".into(), check: "ground bearing", combination: "service".into(), method: "simple".into() };
+        SparePoint { x: 1.0, y: 2.0, kn, already_at_limit: already, limit }
+    }
+
+    #[test]
+    fn point_words_round_down_and_keep_a_reached_limit_apart() {
+        // common practice, no source: a capacity shown to a user is rounded towards safety
+        assert_eq!(point_words(&at(Some(6.49), false)), "up to 6.4 kN here — limited by plate C2, ground bearing (service)");
+        assert_eq!(round_down_kn(6.99), 6.9);
+        assert_eq!(round_down_kn(0.3), 0.3, "0.3 is not shown as 0.2 through floating-point noise");
+        assert_eq!(round_down_kn(-1.0), 0.0);
+        assert!(point_words(&at(Some(0.0), true)).starts_with("no extra load here — a limit is already reached: plate C2"));
+        assert!(point_words(&at(None, false)).starts_with("no limit found here"));
+    }
 }

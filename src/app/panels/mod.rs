@@ -9,6 +9,7 @@ pub mod layout;
 pub mod overlay;
 pub mod results;
 pub mod site;
+pub mod spare;
 pub mod tools;
 
 use bevy::prelude::*;
@@ -147,7 +148,7 @@ fn draw_ui(
     mut focus: ResMut<UiFocus>,
     timings: Res<EditTimings>,
     drawn: Res<Drawn>,
-    without: Option<Res<super::view::Without>>,
+    (without, mut spare): (Option<Res<super::view::Without>>, Option<ResMut<super::view::spare::SpareView>>),
     mut settings: ResMut<super::settings::EditorSettings>,
     catalogue: Res<crate::app::catalogue::EditorCatalogue>,
     mut out: MessageWriter<Action>,
@@ -155,11 +156,15 @@ fn draw_ui(
     let ctx = contexts.ctx_mut()?.clone();
     let mut actions: Vec<Action> = Vec::new();
     let picture = matches!(&*mode, Mode::Picture(spec) if !spec.editor_ui);
+    // The overlay's settings as the panels found them: changed only when a control changed them
+    // (a change asks for the frame that works the map out again).
+    let spare_asked = spare.as_ref().map(|s| (s.on, s.footprint_m, s.spacing_m, s.place_kn));
+    let mut spare_on = spare.as_ref().map(|s| s.on);
     let mut root = egui::Ui::new(ctx.clone(), "plateload-root".into(), egui::UiBuilder::new().layer_id(egui::LayerId::background()).max_rect(ctx.viewport_rect()));
     if !picture {
         let panels = &mut *panels;
         caution_strip(&mut root);
-        egui::Panel::top("menu").show(&mut root, |ui| menu_bar(ui, &doc, &selection, &mut view, panels, &tools, &mut actions));
+        egui::Panel::top("menu").show(&mut root, |ui| menu_bar(ui, &doc, &selection, &mut view, panels, &tools, &mut spare_on, &mut actions));
         egui::Panel::bottom("status").show(&mut root, |ui| status_bar(ui, &doc, &status, &timings, &drawn));
         egui::Panel::left("left").default_size(250.0).show(&mut root, |ui| {
             panels.tools.ui(ui, &mut tools, &doc.scene, &mut actions);
@@ -194,6 +199,13 @@ fn draw_ui(
                 settings.legend_open = open;
             }
         }
+        if let (Some(s), Some(on)) = (spare.as_mut(), spare_on) {
+            let s = s.bypass_change_detection();
+            s.on = on;
+            if s.on {
+                egui::Panel::bottom("spare").show(&mut root, |ui| spare::strip(ui, s));
+            }
+        }
         let (open, all) = ctx.input(|i| (i.modifiers.command && i.key_pressed(egui::Key::O), i.modifiers.command && i.key_pressed(egui::Key::A)));
         if open && !ctx.egui_wants_keyboard_input() {
             panels.files.open_for(files::Purpose::Open, &doc);
@@ -213,6 +225,21 @@ fn draw_ui(
     }
     if !without.is_some_and(|w| w.has(super::view::ViewPart::Overlay)) {
         overlay::draw(&ctx, full, rect, &doc, &view, &selection, picture, &mut panels.labels);
+        if let Some(s) = spare.as_deref().filter(|s| s.on) {
+            if picture {
+                let side = rect.max.x < full.max.x - 100.0;
+                let (at, w) = if side { (egui::Pos2::new(rect.max.x + 10.0, rect.max.y - 10.0), full.max.x - rect.max.x - 20.0) } else { (egui::Pos2::new(rect.min.x + 10.0, rect.max.y - 10.0), 380.0) };
+                spare::picture_legend(&ctx, at, w, s);
+            } else if let Some(p) = ctx.pointer_hover_pos().filter(|p| rect.contains(*p)) {
+                let painter = ctx.layer_painter(egui::LayerId::new(egui::Order::Middle, egui::Id::new("spare-hover")));
+                spare::hover_card(&painter, rect, p, s);
+            }
+        }
+    }
+    if let Some(s) = spare.as_mut() {
+        if Some((s.on, s.footprint_m, s.spacing_m, s.place_kn)) != spare_asked {
+            s.set_changed();
+        }
     }
     let pointer_in_view = !picture && ctx.pointer_latest_pos().is_some_and(|p| rect.contains(p)) && !ctx.is_pointer_over_egui() && !ctx.egui_is_using_pointer();
     let keyboard = ctx.egui_wants_keyboard_input();
@@ -233,7 +260,7 @@ fn caution_strip(root: &mut egui::Ui) {
 }
 
 #[allow(clippy::too_many_arguments)]
-fn menu_bar(ui: &mut egui::Ui, doc: &SceneDoc, selection: &Selection, view: &mut ViewState, panels: &mut Panels, tools: &ToolState, actions: &mut Vec<Action>) {
+fn menu_bar(ui: &mut egui::Ui, doc: &SceneDoc, selection: &Selection, view: &mut ViewState, panels: &mut Panels, tools: &ToolState, spare_on: &mut Option<bool>, actions: &mut Vec<Action>) {
     egui::MenuBar::new().ui(ui, |ui| {
         ui.menu_button("File", |ui| {
             if ui.button("Open…  (Ctrl+O)").clicked() {
@@ -332,6 +359,10 @@ fn menu_bar(ui: &mut egui::Ui, doc: &SceneDoc, selection: &Selection, view: &mut
             ui.checkbox(&mut s.labels, "Labels on the worst plates");
             ui.checkbox(&mut s.colour_posts, "Colour posts like their plates");
             ui.checkbox(&mut panels.show_results, "Results panel");
+            if let Some(on) = spare_on.as_mut() {
+                ui.separator();
+                ui.checkbox(on, "Spare capacity on the decks").on_hover_text("where the next load can go: the largest extra imposed load at each point of the decks; D places it where the pointer is");
+            }
         });
         ui.separator();
         ui.label("Colour by:");

@@ -25,7 +25,7 @@ const H: f32 = 700.0;
 
 /// The editor with its view's input systems, a window (no renderer) and bevy's input plugin,
 /// framed in plan.
-fn mouse_app(scene: Scene) -> App {
+pub(super) fn mouse_app(scene: Scene) -> App {
     let mut app = App::new();
     let window = Window { resolution: WindowResolution::new(W as u32, H as u32).with_scale_factor_override(1.0), ..default() };
     app.add_plugins((
@@ -37,7 +37,7 @@ fn mouse_app(scene: Scene) -> App {
     ));
     app.init_asset::<Mesh>().init_asset::<crate::app::view::flat::FlatMaterial>();
     app.insert_resource(Mode::Editor).insert_resource(SceneDoc::new(scene, None));
-    app.add_plugins((EditorPlugin, ViewInputPlugin, DrawPlugin));
+    app.add_plugins((EditorPlugin, ViewInputPlugin, DrawPlugin, crate::app::view::spare::SparePlugin));
     app.update();
     // The panels leave the whole window to the view here; the first frame with a size fits
     // the scene, and then the plan view is asked for.
@@ -56,7 +56,7 @@ fn window(app: &mut App) -> Entity {
 }
 
 /// The pointer moves to `p` (logical pixels): the window's cursor and a cursor message.
-fn move_to(app: &mut App, p: Vec2) {
+pub(super) fn move_to(app: &mut App, p: Vec2) {
     let w = window(app);
     let delta = app.world().get::<Window>(w).and_then(|win| win.cursor_position()).map(|c| p - c);
     app.world_mut().get_mut::<Window>(w).unwrap().set_cursor_position(Some(p));
@@ -93,7 +93,7 @@ fn scroll(app: &mut App, lines: f32) {
     assert!((after / before - 0.88f64.powf(lines as f64)).abs() < 1e-9, "zoom {before} → {after}");
 }
 
-fn key(app: &mut App, key_code: KeyCode) {
+pub(super) fn key(app: &mut App, key_code: KeyCode) {
     let window = window(app);
     for state in [ButtonState::Pressed, ButtonState::Released] {
         app.world_mut().write_message(KeyboardInput { key_code, logical_key: Key::Unidentified(bevy::input::keyboard::NativeKey::Unidentified), state, text: None, repeat: false, window });
@@ -102,7 +102,7 @@ fn key(app: &mut App, key_code: KeyCode) {
     app.update();
 }
 
-fn ctrl_z(app: &mut App) {
+pub(super) fn ctrl_z(app: &mut App) {
     let window = window(app);
     let send = |app: &mut App, key_code: KeyCode, state: ButtonState| {
         app.world_mut().write_message(KeyboardInput { key_code, logical_key: Key::Unidentified(bevy::input::keyboard::NativeKey::Unidentified), state, text: None, repeat: false, window });
@@ -116,7 +116,7 @@ fn ctrl_z(app: &mut App) {
 }
 
 /// Window position of a scene point.
-fn at(app: &App, p: [f64; 3]) -> Vec2 {
+pub(super) fn at(app: &App, p: [f64; 3]) -> Vec2 {
     let q = app.world().resource::<ViewState>().to_window(p).expect("in view");
     Vec2::new(q[0], q[1])
 }
@@ -137,7 +137,7 @@ fn selection(app: &App) -> Vec<ElementRef> {
     app.world().resource::<Selection>().items.clone()
 }
 
-fn scene(app: &App) -> Scene {
+pub(super) fn scene(app: &App) -> Scene {
     app.world().resource::<SceneDoc>().scene.clone()
 }
 

@@ -255,7 +255,7 @@ fn cog_mesh() -> Mesh {
 }
 
 /// A horizontal triangle list facing up, with vertex colours.
-fn flat_mesh(pos: Vec<[f32; 3]>, col: Vec<[f32; 4]>) -> Mesh {
+pub(super) fn flat_mesh(pos: Vec<[f32; 3]>, col: Vec<[f32; 4]>) -> Mesh {
     let n = pos.len();
     Mesh::new(PrimitiveTopology::TriangleList, RenderAssetUsages::default())
         .with_inserted_attribute(Mesh::ATTRIBUTE_POSITION, pos)
@@ -312,7 +312,7 @@ fn cue_meshes(hx: f64, hy: f64) -> (Mesh, Mesh) {
 }
 
 /// Make every triangle face up (+y), whatever order its corners were listed in.
-fn fix_winding(mut pos: Vec<[f32; 3]>) -> Vec<[f32; 3]> {
+pub(super) fn fix_winding(mut pos: Vec<[f32; 3]>) -> Vec<[f32; 3]> {
     for t in pos.chunks_mut(3) {
         let (a, b, c) = (Vec3::from(t[0]), Vec3::from(t[1]), Vec3::from(t[2]));
         if (b - a).cross(c - a).y < 0.0 {

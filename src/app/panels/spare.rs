@@ -1,0 +1,171 @@
+//! The spare-capacity overlay's controls, legend and the words under the pointer. Everything
+//! shown is the engine's: its map, its bands and its words for what limits a point.
+
+use bevy_egui::egui::{self, Align2, Color32, FontId, Pos2, Rect, Stroke, StrokeKind, Vec2};
+use plateload::export::palette::SpareBand;
+
+use super::rgb;
+use crate::app::view::spare::{SpareView, HATCH};
+
+/// Per band, the number of grid points of the map in it.
+fn band_counts(spare: &SpareView) -> [usize; 8] {
+    let mut counts = [0usize; 8];
+    if let Some(map) = spare.map() {
+        for p in map.decks.iter().flat_map(|d| &d.points) {
+            counts[SpareBand::of(p.kn, p.already_at_limit) as usize] += 1;
+        }
+    }
+    counts
+}
+
+/// A band's swatch: its colour, and the hatch where a limit is already reached.
+fn swatch(p: &egui::Painter, r: Rect, band: SpareBand) {
+    let r = Rect::from_center_size(r.center(), Vec2::new(20.0, 13.0));
+    p.rect_filled(r, 2.0, rgb(band.colour()));
+    if band == SpareBand::AtLimit {
+        p.line_segment([r.left_bottom() + Vec2::new(4.0, -2.0), r.right_top() + Vec2::new(-4.0, 2.0)], Stroke::new(3.0, rgb(HATCH)));
+    }
+    p.rect_stroke(r, 2.0, Stroke::new(1.0, Color32::from_gray(90)), StrokeKind::Inside);
+}
+
+/// The editor's strip under the view while the overlay is on: footprint, grid and load to
+/// place, the map's bands with their counts, and how to read it.
+pub fn strip(ui: &mut egui::Ui, spare: &mut SpareView) {
+    ui.horizontal_wrapped(|ui| {
+        ui.label(egui::RichText::new("Spare capacity").strong());
+        ui.label("for one extra imposed load of");
+        let mut fp = spare.footprint_m;
+        ui.add(egui::DragValue::new(&mut fp[0]).range(0.0..=20.0).speed(0.05).max_decimals(2).suffix(" m"));
+        ui.label("×");
+        ui.add(egui::DragValue::new(&mut fp[1]).range(0.0..=20.0).speed(0.05).max_decimals(2).suffix(" m")).on_hover_text("0 × 0: a point load");
+        // Both sides above zero, or a point.
+        if fp != spare.footprint_m {
+            if (fp[0] > 0.0) != (fp[1] > 0.0) {
+                let side = fp[0].max(fp[1]);
+                fp = [side, side];
+            }
+            spare.footprint_m = fp;
+        }
+        if spare.footprint_m == [0.0, 0.0] {
+            ui.label("(a point load)");
+        }
+        ui.label("on a grid of");
+        let mut g = spare.spacing_m;
+        ui.add(egui::DragValue::new(&mut g).range(0.05..=5.0).speed(0.01).max_decimals(2).suffix(" m"));
+        if g != spare.spacing_m {
+            spare.spacing_m = g;
+        }
+        ui.separator();
+        ui.label("D places at the pointer, as an imposed load (one undo step):");
+        let mut own = spare.place_kn.is_some();
+        ui.radio_value(&mut own, false, "the value shown there, rounded down");
+        ui.radio_value(&mut own, true, "");
+        let mut kn = spare.place_kn.unwrap_or(1.0);
+        ui.add_enabled(own, egui::DragValue::new(&mut kn).range(0.1..=500.0).speed(0.1).max_decimals(1).suffix(" kN"));
+        let want = own.then_some(kn);
+        if spare.place_kn != want {
+            spare.place_kn = want;
+        }
+    });
+    match &spare.map {
+        Some(Err(why)) => {
+            ui.label(egui::RichText::new(format!("no map: {why}")).color(Color32::from_rgb(0xb0, 0x20, 0x20)));
+        }
+        Some(Ok(map)) => {
+            let counts = band_counts(spare);
+            ui.horizontal_wrapped(|ui| {
+                for b in SpareBand::ALL {
+                    let n = counts[b as usize];
+                    if n == 0 && b == SpareBand::Unlimited {
+                        continue;
+                    }
+                    ui.add(chip(b, format!("{} {n}", b.label()))).on_hover_text(format!("{}: {n} grid point{}", b.label(), if n == 1 { "" } else { "s" }));
+                }
+            });
+            ui.horizontal_wrapped(|ui| {
+                ui.label(egui::RichText::new("Each value is for one load placed there alone, on top of the existing loads; values do not add — after placing one, the map is worked out again.").small());
+                if !map.not_checked.is_empty() {
+                    let n = map.not_checked.len();
+                    ui.label(egui::RichText::new(format!("Not checked here (no capacity known): {n} member{}.", if n == 1 { "" } else { "s" })).small().underline())
+                        .on_hover_text(map.not_checked.join(", "));
+                }
+                if let Some(w) = &map.not_included {
+                    ui.label(egui::RichText::new(format!("Not included: {w}.")).small());
+                }
+            });
+        }
+        None => {
+            ui.label("working out the map…");
+        }
+    }
+}
+
+/// A band swatch and its text as one piece.
+fn chip(band: SpareBand, text: String) -> impl egui::Widget {
+    move |ui: &mut egui::Ui| {
+        let galley = egui::WidgetText::from(text).into_galley(ui, Some(egui::TextWrapMode::Extend), f32::INFINITY, egui::TextStyle::Body);
+        let icon = Vec2::new(24.0, galley.size().y.max(18.0));
+        let (rect, response) = ui.allocate_exact_size(Vec2::new(icon.x + galley.size().x + 6.0, icon.y), egui::Sense::hover());
+        if ui.is_rect_visible(rect) {
+            swatch(ui.painter(), Rect::from_min_size(rect.min, icon), band);
+            let colour = ui.visuals().text_color();
+            ui.painter().galley(Pos2::new(rect.min.x + icon.x, rect.center().y - galley.size().y / 2.0), galley, colour);
+        }
+        response
+    }
+}
+
+/// The hovered point in words beside the pointer, with what D would place there.
+pub fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, spare: &SpareView) {
+    let (Some(h), Some(p)) = (spare.hover.as_ref(), spare.hovered_point()) else { return };
+    let Some(deck) = spare.map().and_then(|m| m.decks.get(h.deck)) else { return };
+    let mut text = format!("deck {} at ({:.2}, {:.2})\n{}", deck.deck, p.x, p.y, h.words);
+    text += &match spare.load_to_place() {
+        Some(kn) => format!("\nD: put {} kN here as an imposed load (case Q)", plateload::format::num(kn)),
+        None => "\nnothing to place here".to_owned(),
+    };
+    let g = painter.layout_no_wrap(text, FontId::proportional(13.0), Color32::BLACK);
+    let size = g.size() + Vec2::new(20.0, 10.0);
+    let mut at = pointer + Vec2::new(18.0, 18.0);
+    if at.x + size.x > rect.max.x {
+        at.x = pointer.x - 18.0 - size.x;
+    }
+    if at.y + size.y > rect.max.y {
+        at.y = pointer.y - 18.0 - size.y;
+    }
+    let bx = Rect::from_min_size(at, size);
+    painter.rect_filled(bx, 4.0, Color32::from_rgba_unmultiplied(255, 255, 255, 245));
+    painter.rect_filled(Rect::from_min_size(bx.min, Vec2::new(7.0, size.y)), 2.0, rgb(SpareBand::of(p.kn, p.already_at_limit).colour()));
+    painter.rect_stroke(bx, 4.0, Stroke::new(1.0, Color32::from_gray(60)), StrokeKind::Inside);
+    painter.galley(bx.min + Vec2::new(14.0, 5.0), g, Color32::BLACK);
+}
+
+/// In a picture: the map's legend at the bottom of the side column (or of the view).
+pub fn picture_legend(ctx: &egui::Context, bottom_left: Pos2, width: f32, spare: &SpareView) {
+    let counts = band_counts(spare);
+    let fp = spare.footprint();
+    let what = if fp.is_point() { "a point load".to_owned() } else { format!("a load over {} × {} m", plateload::format::num(fp.x_m), plateload::format::num(fp.y_m)) };
+    egui::Area::new(egui::Id::new("spare-legend")).order(egui::Order::Middle).pivot(Align2::LEFT_BOTTOM).fixed_pos(bottom_left).show(ctx, |ui| {
+        egui::Frame::new().fill(Color32::from_rgba_unmultiplied(255, 255, 255, 235)).corner_radius(4.0).inner_margin(10.0).show(ui, |ui| {
+            ui.visuals_mut().override_text_color = Some(Color32::BLACK);
+            ui.set_max_width(width - 24.0);
+            ui.label(egui::RichText::new("Spare capacity on the decks").strong().size(15.0).color(Color32::BLACK));
+            ui.label(egui::RichText::new(format!("largest extra imposed load, kN, for {what} on a {} m grid; values do not add", plateload::format::num(spare.spacing_m))).size(11.0));
+            match &spare.map {
+                Some(Ok(_)) => {
+                    for b in SpareBand::ALL {
+                        let n = counts[b as usize];
+                        if n == 0 && b == SpareBand::Unlimited {
+                            continue;
+                        }
+                        ui.add(chip(b, format!("{} — {n} point{}", b.label(), if n == 1 { "" } else { "s" })));
+                    }
+                }
+                Some(Err(why)) => {
+                    ui.label(format!("no map: {why}"));
+                }
+                None => {}
+            }
+        });
+    });
+}
