@@ -284,3 +284,38 @@ fn outputs_say_how_each_plate_is_worst_loaded_and_which_loads_act_whole() {
     let html = plateload::export::report::report_html(&s, &a, &Default::default());
     assert!(html.contains("<strong>whole</strong> (as set)") && html.contains("q: worst with every cell loaded"), "the worst plate is the middle one");
 }
+
+#[test]
+fn uplift_only_through_continuity_is_told_apart_from_uplift_in_simple_spans() {
+    // source: two equal continuous spans, one loaded: end reactions 7/16 and −1/16 wL, middle
+    // 5/8 wL (AISC Manual beam diagrams, two equal spans, uniform load on one span — REFERENCES
+    // §1). Spans 2 m, w = 5 kN/m arranged: the far end lifts by 5 × 2 / 16 = 0.625 kN with the
+    // bearer continuous, and never in simple spans — uplift a member loose in its heads would not
+    // pass on. A cantilever lifts its back support in simple spans too (statics, by hand: 2 kN
+    // at 1 m past B on a 2 m span lifts A by 1 kN), which is uplift whatever the fixing.
+    let mut s = bare_scene();
+    s.posts = vec![post("A", 0.0, 0.0, 2.0), post("B", 2.0, 0.0, 2.0), post("C", 4.0, 0.0, 2.0)];
+    s.bearers = vec![bearer("L", 2.0, &["A", "B", "C"])];
+    s.loads.push(load("q", Case::Q, LoadKind::BearerLine { bearer: "L".into(), from_m: 0.0, to_m: 4.0, kn_per_m: 5.0 }));
+    s.analysis.method = BeamMethod::Envelope;
+    let a = analyse(&s).unwrap();
+    let i = a.plate_index("A").unwrap();
+    close("continuous uplift at A", service(&a, "A").1, -0.625, 1e-9);
+    assert!(a.plates[i].status.uplift);
+    assert!(a.lifts_only_through_continuity(i), "A lifts only with the bearer continuous");
+    let f = plateload::export::findings::findings(&a);
+    let uplift = f.iter().find(|f| f.check == "uplift").expect("an uplift finding");
+    assert!(uplift.text.contains("lift only where members run continuous"), "{}", uplift.text);
+    assert!(plateload::export::trace::trace_text(&s, &a, i).contains("lifts only where members run continuous"));
+    // The cantilever: uplift in simple spans as well.
+    let mut c = bare_scene();
+    c.posts = vec![post("A", 0.0, 0.0, 2.0), post("B", 2.0, 0.0, 2.0)];
+    let mut l = bearer("L", 2.0, &["A", "B"]);
+    l.overhang_end_m = 1.0;
+    c.bearers = vec![l];
+    c.loads.push(load("tip", Case::Q, LoadKind::BearerPoint { bearer: "L".into(), at_m: 3.0, kn: 2.0 }));
+    let a = analyse(&c).unwrap();
+    let i = a.plate_index("A").unwrap();
+    close("cantilever uplift at A", service(&a, "A").1, -1.0, 1e-9);
+    assert!(a.plates[i].status.uplift && !a.lifts_only_through_continuity(i));
+}

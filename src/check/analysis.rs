@@ -173,6 +173,26 @@ impl Analysis {
             _ => Some(i),
         })
     }
+    /// Whether plate `plate` lifts only where members run continuous over their supports: it
+    /// lifts in some combination, but in the pass with every enveloped member in simple spans it
+    /// never does. A member that is not fixed to its supports lifts off them instead of pulling
+    /// the plate up (its load then goes as in simple spans, which the envelope already covers),
+    /// so such uplift asks first how the members are fixed at their heads. `false` where there
+    /// is no simple-spans pass.
+    pub fn lifts_only_through_continuity(&self, plate: usize) -> bool {
+        use crate::solve::passes::Behaviour;
+        let p = &self.plates[plate];
+        let Some(simple) = (0..self.method_count()).find(|&m| {
+            let pass = self.method(m);
+            pass.decks == Behaviour::SimpleSpans && pass.bearers == Behaviour::SimpleSpans
+        }) else {
+            return false;
+        };
+        p.status.uplift
+            && self.combinations.iter().enumerate().filter(|(_, c)| c.checks_uplift).all(|(c, _)| {
+                p.combinations_by_method.get(simple).and_then(|m| m.get(c)).is_some_and(|pc| pc.min_kn >= -crate::check::UPLIFT_TOLERANCE_KN)
+            })
+    }
     /// Plate index by id.
     pub fn plate_index(&self, id: &str) -> Option<usize> {
         self.plates.iter().position(|p| p.id == id)

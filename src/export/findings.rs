@@ -261,7 +261,17 @@ fn plates(a: &Analysis, out: &mut Vec<Finding>) {
             let k = h.kentledge_kn.map_or_else(String::new, |k| format!(" or {} kN secured kentledge", num(k, 2)));
             format!("; most: {} needs an anchor for {} kN{k} ({})", p.id, num(h.anchor_kn, 2), a.combinations[h.combination].name)
         });
-        out.push(Finding { verdict: Verdict::Fails, check: "uplift", text: format!("{} plate(s) lift and need holding down: {}{hold}", lift.len(), ids(&list, 12)) });
+        let through: Vec<&str> = (0..a.plates.len()).filter(|&i| a.lifts_only_through_continuity(i)).map(|i| a.plates[i].id.as_str()).collect();
+        let why = if through.is_empty() {
+            String::new()
+        } else {
+            format!(
+                "; {} of them ({}) lift only where members run continuous over their supports (in simple spans none lifts): if those members are not fixed to their heads they lift off there instead — check the fixing before holding the plates down",
+                through.len(),
+                ids(&through, 8)
+            )
+        };
+        out.push(Finding { verdict: Verdict::Fails, check: "uplift", text: format!("{} plate(s) lift and need holding down: {}{hold}{why}", lift.len(), ids(&list, 12)) });
     }
     let pulling: Vec<&str> = a.lifts.iter().filter(|l| !l.status.is_ok()).map(|l| l.id.as_str()).collect();
     if !pulling.is_empty() {

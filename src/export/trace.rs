@@ -165,6 +165,9 @@ pub fn trace_text(scene: &Scene, analysis: &Analysis, plate: usize) -> String {
     if let Some(h) = p.hold_down {
         let k = h.kentledge_kn.map_or_else(String::new, |k| format!(" or {:.3} kN secured kentledge on the plate", num(k)));
         let _ = writeln!(out, "  hold-down: an anchor for {:.3} kN{k} ({})", num(h.anchor_kn), analysis.combinations[h.combination].name);
+        if analysis.lifts_only_through_continuity(plate) {
+            let _ = writeln!(out, "  it lifts only where members run continuous over their supports (in simple spans it does not): if they are not fixed to their heads they lift off there instead; check the fixing first");
+        }
     }
     if let Some(sl) = &p.sliding {
         match (sl.mu, sl.factor) {

@@ -127,6 +127,9 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
     };
     if let Some(h) = p.hold_down {
         text += &format!("\nlifts: anchor {:.2} kN{}", h.anchor_kn, h.kentledge_kn.map_or_else(String::new, |k| format!(" or {k:.2} kN kentledge")));
+        if a.lifts_only_through_continuity(i) {
+            text += "\n(only through members continuous over it: check how they are fixed at their heads first)";
+        }
     }
     if let Some(s) = p.sliding.as_ref().filter(|s| s.slides) {
         text += &format!("\nslides: restrain for {:.2} kN", s.restraint_kn);
