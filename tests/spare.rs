@@ -2,7 +2,7 @@
 
 use plateload::check::spare::{spare_map, Limit, SpareSettings};
 use plateload::scene::loads::{Arrangement, Case, LoadKind};
-use plateload::scene::model::BeamMethod;
+use plateload::scene::model::{BeamMethod, Brace, NotionalRule, PostNode};
 use plateload::solve::influence::Footprint;
 use plateload::{analyse, Scene};
 
@@ -121,6 +121,63 @@ fn bad_settings_are_refused_with_a_clear_message() {
     assert!(err.contains("no combination checks capacity or uplift"), "{err}");
 }
 
+/// `strip(3.0)` with each of its two lines along x braced by one diagonal (west post at the
+/// base to east post at 2 m: run 2 m, rise 2 m), 10 kN of permanent load on each post top, the
+/// notional load checked along +x only.
+fn braced_strip(rule: NotionalRule) -> Scene {
+    let mut s = strip(3.0);
+    for (id, a, b) in [("XS", "A1", "B1"), ("XN", "A2", "B2")] {
+        s.braces.push(Brace { id: id.into(), from: PostNode { post: a.into(), level: 0.0 }, to: PostNode { post: b.into(), level: 2.0 } });
+    }
+    for id in ["A1", "B1", "A2", "B2"] {
+        s.loads.push(load(&format!("kit-{id}"), Case::G, LoadKind::PostTop { post: id.into(), kn: 10.0 }));
+    }
+    s.horizontal.notional = rule;
+    s.horizontal.directions = vec![plateload::scene::loads::PlanDirection::PlusX];
+    s
+}
+
+#[test]
+fn the_notional_load_of_the_extra_load_goes_into_the_braced_plates() {
+    // statics, by hand (lever rule across the deck and along the bearers, AISC Table 3-23 case 8;
+    // a diagonal of run b and rise h carrying shear V puts ±V·h/b into the posts at its ends,
+    // REFERENCES §8). Notional load 2.5 % of the vertical load, along +x, at the nodes where it
+    // enters the posts (2 m). Already there: 40 kN → 1 kN along +x, 0.5 kN in each braced line
+    // → +0.5 kN on B1 (upper end of XS), −0.5 kN on A1. Service: B1 carries 10 + 0.5 = 10.5 kN,
+    // room 30 − 10.5 = 19.5 kN.
+    // A point load P at (1.0, 1.0): 2/3 of it onto the south bearer, half of that to each of A1
+    // and B1 (P/3 each); its notional load 0.025 × 2/3 P goes down XS: +P/60 on B1 (h/b = 1).
+    // B1 takes P/3 + P/60 = 0.35 P → P = 19.5 / 0.35 = 55.714… kN. A1: room 20 (the −0.5 kN is
+    // not counted on the maximum), P/3 − P/60 → the vertical P/3 alone at worst: 60 kN. B2:
+    // 19.5 / (1/6 + 1/120) = 111.4 kN; A2: 120 kN.
+    let s = braced_strip(NotionalRule::Percent(2.5));
+    let a = analyse(&s).unwrap();
+    let map = spare_map(&s, &a, &SpareSettings::default()).unwrap();
+    let p = at(&map, 1.0, 1.0);
+    close("spare at (1, 1) with the notional load", p.kn.unwrap(), 19.5 / 0.35, 1e-9);
+    match &p.limit {
+        Limit::Plate { plate, check, combination, .. } => assert_eq!((plate.as_str(), *check, combination.as_str()), ("B1", "safe working load", "service")),
+        other => panic!("{other:?}"),
+    }
+    let words = map.not_included.as_deref().unwrap();
+    assert!(words.contains("2.5 % of it") && words.contains("is included") && words.contains("sliding"), "{words}");
+    // Placed and solved again, B1 is exactly at its safe working load: 10.5 + 0.35 × P = 30.
+    let mut t = s.clone();
+    let mut l = load("placed", Case::Q, LoadKind::DeckPoint { deck: "D".into(), x: 1.0, y: 1.0, kn: 19.5 / 0.35 });
+    l.arrangement = Arrangement::Whole;
+    t.loads.push(l);
+    let b = analyse(&t).unwrap();
+    let service = b.combinations.iter().position(|c| c.name == "service").unwrap();
+    close("B1 with the load placed", b.plates[b.plate_index("B1").unwrap()].combinations[service].max_kn, 30.0, 1e-9);
+    // Without notional load the value is the old one: room 20 on A1 and B1, P/3 each → 60 kN.
+    let s = braced_strip(NotionalRule::Off);
+    let a = analyse(&s).unwrap();
+    let map = spare_map(&s, &a, &SpareSettings::default()).unwrap();
+    close("spare at (1, 1) without notional load", at(&map, 1.0, 1.0).kn.unwrap(), 60.0, 1e-9);
+    let words = map.not_included.as_deref().unwrap();
+    assert!(!words.contains("notional"), "{words}");
+}
+
 mod properties {
     use super::*;
     use proptest::prelude::*;
@@ -132,6 +189,7 @@ mod properties {
         fn the_reported_load_brings_its_limit_exactly_to_capacity(
             nx in 2usize..4, ny in 2usize..4, bay in 1.0f64..2.5, cant in 0.0f64..0.8,
             method in 0usize..3, q in 0.5f64..4.0, g in 0.0f64..2.0, pick in any::<u64>(), rect in any::<bool>(),
+            notional in any::<bool>(),
         ) {
             // common practice, no source: linearity — placing the reported load at the point and
             // solving again brings the limiting check to its limit (1e-6), and no other beyond
@@ -154,6 +212,15 @@ mod properties {
             s.decks.push(deck("D", 2.0, (0.0, (nx - 1) as f64 * bay), (0.0, (ny - 1) as f64 * bay + cant), &refs));
             s.loads.push(load("q", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(q) }));
             s.loads.push(load("g", Case::G, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(g) }));
+            if notional {
+                // Each line along x braced in its first bay; the falsework rule (2.5 %, no wind)
+                // along +x: the map includes the notional load of the placed load, the solver adds it.
+                for j in 0..ny {
+                    s.braces.push(Brace { id: format!("X{j}"), from: PostNode { post: format!("P0-{j}"), level: 0.0 }, to: PostNode { post: format!("P1-{j}"), level: 2.0 } });
+                }
+                s.horizontal.notional = NotionalRule::Falsework;
+                s.horizontal.directions = vec![plateload::scene::loads::PlanDirection::PlusX];
+            }
             let a = analyse(&s).unwrap();
             let fp = if rect { Footprint { x_m: 0.6, y_m: 0.4 } } else { Footprint::POINT };
             let map = spare_map(&s, &a, &SpareSettings { spacing_m: 0.5, footprint: fp, ..SpareSettings::default() }).unwrap();

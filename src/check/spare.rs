@@ -14,7 +14,8 @@
 use crate::check::analysis::Analysis;
 use crate::scene::loads::{Intensity, LoadClass, LoadKind};
 use crate::scene::model::Scene;
-use crate::solve::influence::{deck_influences, DeckInfluence, Footprint};
+use crate::scene::loads::Case;
+use crate::solve::influence::{deck_influences, deck_influences_notional, DeckInfluence, Footprint};
 
 /// Influence coefficients smaller than this (kN per kN) are rounding, not load: a plate far along
 /// a continuous member gets 1e-12 of a load, which must not let an over-capacity plate there
@@ -150,8 +151,9 @@ pub struct SpareMap {
     pub decks: Vec<DeckSpare>,
     /// Members whose own strength is not checked by the map (no capacity is known for them).
     pub not_checked: Vec<String>,
-    /// What the extra load would bring that the map leaves out, in words, if anything: the
-    /// notional horizontal load it adds and the brace forces that puts into plates.
+    /// What the map leaves out of what the extra load would bring, or takes on the safe side, in
+    /// words: sliding of the plates is not checked; the notional horizontal load the extra load
+    /// brings, and the brace forces that puts into plates, are included, as said there.
     pub not_included: Option<String>,
 }
 
@@ -216,12 +218,29 @@ pub fn spare_influences(scene: &Scene, analysis: &Analysis, settings: &SpareSett
     checked(scene, analysis, settings)?;
     let model = crate::validate(scene).map_err(|e| SpareError::Setting(e.to_string()))?;
     let passes: Vec<crate::solve::MethodPass> = (0..analysis.method_count()).map(|m| analysis.method(m).clone()).collect();
-    let decks = (0..scene.decks.len())
-        .map(|d| {
-            let wanted = settings.decks.is_empty() || settings.decks.contains(&scene.decks[d].id);
-            wanted.then(|| deck_influences(&model, &passes, d, settings.footprint, settings.spacing_m).into_iter().collect::<Option<Vec<_>>>()).flatten()
-        })
-        .collect();
+    let groups = notional_groups(scene);
+    let with_notional = !groups.is_empty();
+    let axes = [0, 1].map(|a| groups.iter().flatten().any(|t| t.u[a].abs() > 1e-12));
+    let mut decks = Vec::with_capacity(scene.decks.len());
+    for d in 0..scene.decks.len() {
+        let wanted = settings.decks.is_empty() || settings.decks.contains(&scene.decks[d].id);
+        if !wanted {
+            decks.push(None);
+            continue;
+        }
+        let per_pass = if with_notional {
+            deck_influences_notional(&model, &passes, d, settings.footprint, settings.spacing_m, axes).map_err(|reasons| {
+                SpareError::Setting(format!(
+                    "a load placed on deck {} brings notional horizontal load that the bracing cannot carry to the ground: {}",
+                    scene.decks[d].id,
+                    reasons.join("; ")
+                ))
+            })?
+        } else {
+            deck_influences(&model, &passes, d, settings.footprint, settings.spacing_m)
+        };
+        decks.push(per_pass.into_iter().collect::<Option<Vec<_>>>());
+    }
     Ok(SpareInfluences {
         footprint: settings.footprint,
         spacing_m: settings.spacing_m,
@@ -266,34 +285,82 @@ pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettin
     }
     let mut not_checked: Vec<String> = scene.bearers.iter().map(|b| format!("{} {}", role_word(b.role), b.id)).collect();
     not_checked.extend(scene.decks.iter().filter(|d| deck_class(scene, d).is_none()).map(|d| format!("deck {}", d.id)));
-    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked, not_included: notional_left_out(scene, analysis) })
+    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked, not_included: not_included(scene) })
 }
 
-/// The notional horizontal load an extra vertical load brings is not in the influence
-/// coefficients (they carry vertical load only): where the scene has notional load and some
-/// plate takes brace forces, say so, with those plates.
-fn notional_left_out(scene: &Scene, analysis: &Analysis) -> Option<String> {
+/// One notional load the extra load brings: its plan direction (unit x, y), its share of the
+/// vertical load (kN per kN) and the case whose factor it takes.
+#[derive(Debug, Clone, Copy)]
+struct NotionalTerm {
+    u: [f64; 2],
+    share: f64,
+    case: Case,
+}
+
+/// Direction key in hundredths of a degree, as the combinations group directions.
+fn direction_key(u: (f64, f64)) -> i64 {
+    let deg = u.1.atan2(u.0).to_degrees().rem_euclid(360.0);
+    ((deg * 100.0).round() as i64) % 36_000
+}
+
+/// The notional loads an extra imposed load brings, grouped by plan direction as the combinations
+/// take them (one direction at a time): the scene's own notional loads whose basis includes
+/// imposed load, or else the scene's rule in each checked direction and each wind direction. The
+/// falsework rule (the greater of 2.5 % of the vertical load and wind + 1 %) grows by at most
+/// 2.5 % of an extra load: that is taken.
+fn notional_groups(scene: &Scene) -> Vec<Vec<NotionalTerm>> {
     use crate::scene::model::NotionalRule;
-    let explicit = scene.loads.iter().find_map(|l| match l.kind {
-        LoadKind::Notional { percent, ref basis, .. } if basis.contains(&crate::scene::loads::Case::Q) => Some(percent),
-        _ => None,
-    });
-    let has_explicit = scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. }));
-    let percent = match (explicit, has_explicit, scene.horizontal.notional) {
-        (Some(p), _, _) => p,
-        (None, true, _) | (None, false, NotionalRule::Off) => return None,
-        (None, false, NotionalRule::Percent(p)) => p,
-        // source: BS 5975:2008+A1:2011 cl. 19 — the falsework rule is at most 2.5 % of the vertical load
-        (None, false, NotionalRule::Falsework) => 2.5,
+    let mut groups: Vec<(i64, Vec<NotionalTerm>)> = Vec::new();
+    let mut add = |d: crate::scene::loads::PlanDirection, term: Option<(f64, Case)>| {
+        let u = d.unit();
+        let key = direction_key(u);
+        let at = match groups.iter().position(|g| g.0 == key) {
+            Some(i) => i,
+            None => {
+                groups.push((key, Vec::new()));
+                groups.len() - 1
+            }
+        };
+        if let Some((share, case)) = term.filter(|t| t.0 > 0.0) {
+            groups[at].1.push(NotionalTerm { u: [u.0, u.1], share, case });
+        }
     };
-    let braced: Vec<&str> = analysis.plates.iter().filter(|p| p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10).map(|p| p.id.as_str()).collect();
-    if braced.is_empty() || percent <= 0.0 {
-        return None;
+    if scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. })) {
+        for l in &scene.loads {
+            if let LoadKind::Notional { percent, direction, ref basis } = l.kind {
+                add(direction, basis.contains(&Case::Q).then_some((percent / 100.0, l.case)));
+            }
+        }
+    } else {
+        let share = match scene.horizontal.notional {
+            NotionalRule::Off => return Vec::new(),
+            NotionalRule::Percent(p) => p / 100.0,
+            NotionalRule::Falsework => crate::solve::braced::FALSEWORK_PERCENT / 100.0,
+        };
+        let winds = scene.loads.iter().filter_map(|l| match l.kind {
+            LoadKind::Wind { direction, .. } => Some(direction),
+            _ => None,
+        });
+        for d in scene.horizontal.directions.iter().copied().chain(winds) {
+            add(d, Some((share, Case::W)));
+        }
     }
-    let shown = if braced.len() > 12 { format!("{} and {} more", braced[..12].join(", "), braced.len() - 12) } else { braced.join(", ") };
+    groups.into_iter().map(|g| g.1).filter(|g| !g.is_empty()).collect()
+}
+
+/// What the map leaves out or bounds, in words.
+fn not_included(scene: &Scene) -> Option<String> {
+    let groups = notional_groups(scene);
+    let sliding = "sliding of the plates (check it with the load added to the scene)";
+    if groups.is_empty() {
+        return Some(sliding.to_owned());
+    }
+    let most = groups.iter().map(|g| g.iter().map(|t| t.share).sum::<f64>()).fold(0.0, f64::max);
+    let bound = scene.horizontal.notional == crate::scene::model::NotionalRule::Falsework && !scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. }));
     Some(format!(
-        "the notional horizontal load the extra load itself brings (up to {} % of it) and the brace forces that puts into the plates of braced bays ({shown}); keep a margin at those plates, or add the load to the scene and solve it",
-        crate::format::num(percent)
+        "{sliding}. The notional horizontal load the extra load itself brings ({} % of it{}) is included, with the brace forces it puts into the plates, in the worst direction; where the worst direction for the loads already there is another one, the two are added as if in one direction (on the safe side)",
+        crate::format::num(100.0 * most),
+        if bound { ", the most the falsework rule adds" } else { "" }
     ))
 }
 
@@ -351,6 +418,7 @@ struct Room {
 fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], per_pass: &[DeckInfluence]) -> DeckSpare {
     let deck = &scene.decks[d];
     let n_posts = scene.posts.len();
+    let groups = notional_groups(scene);
     let mut grid: Option<Vec<Best>> = None;
     let mut shape = (0, 0);
     for (m, inf) in per_pass.iter().enumerate() {
@@ -364,8 +432,26 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
                 continue;
             }
             let room = room_of(analysis, m, c, n_posts);
-            let shared = shared_posts(&inf, n_posts);
-            let shared_list: Vec<usize> = (0..n_posts).filter(|&p| shared[p]).collect();
+            let mut shared = shared_posts(&inf, n_posts);
+            // Plates that take brace forces from the notional load of the extra load: summed at
+            // each grid point below, with that load.
+            let braced = braced_plates(inf, &groups, n_posts);
+            let shared_list: Vec<usize> = (0..n_posts).filter(|&p| shared[p] && braced.slot[p] == u32::MAX).collect();
+            for &p in &braced.posts {
+                shared[p as usize] = true;
+            }
+            // Per direction group, the factored notional share along x and y per kN placed
+            // (notional load is never reduced by ψ0), relative to γ·φ.
+            let a: Vec<[f64; 2]> = groups
+                .iter()
+                .map(|g| {
+                    g.iter().fold([0.0; 2], |acc, t| {
+                        let f = comb.variable_factor(t.case) * t.share / comb.factors.q;
+                        [acc[0] + f * t.u[0], acc[1] + f * t.u[1]]
+                    })
+                })
+                .collect();
+            let mut scratch = BracedScratch::new(braced.posts.len());
             // Per bearer and column: the least ratio room / influence over the plates, for a
             // positive and for a negative deck share, with what gave it.
             let nk = inf.bearers.len();
@@ -414,6 +500,9 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
                             }
                         }
                     }
+                    if !braced.posts.is_empty() {
+                        braced_limits(inf, &braced, &mut scratch, &a, &room, i, j, c, m, &mut here);
+                    }
                     best[i * cols + j].take(Best { kn: here.kn / gamma, ..here });
                 }
             }
@@ -425,6 +514,13 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     // The deck's own capacity under the footprint: the most its load class allows there, less
     // the imposed load already on it.
     let tipping = tipping_room(analysis, per_pass);
+    let equ = analysis.stability.equilibrium;
+    let equ_factor = |case: Case| match case {
+        Case::G => equ.g_unfavourable,
+        Case::Q => equ.q,
+        Case::W => equ.w,
+    };
+    let entry_level = per_pass[0].bearers.iter().map(|&b| scene.bearers[b].level).fold(deck.level, f64::max);
     let class = deck_class(scene, deck).and_then(LoadClass::get);
     let models = class.map(|c| class_models(c, settings.footprint)).unwrap_or_default();
     let mut points = Vec::with_capacity(rows * cols);
@@ -446,13 +542,25 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
             let mut already = b.already;
             // Overturning: a load beyond an axis of the structure under the deck adds its moment
             // there (an imposed load never restores), in both forms.
+            // The notional load the extra load brings acts where it enters the posts (at the
+            // deck's bearers) and turns the structure too, in its worst direction: by its share
+            // along the axis's normal times its height above the axis.
             for t in &tipping {
                 let lever = (x - t.point[0]) * t.normal[0] + (y - t.point[1]) * t.normal[1];
-                if lever <= 0.0 {
-                    continue;
-                }
-                for (room, gamma, form) in [(t.factor_room, 1.0, "factor of safety"), (t.equ_room, t.equ_gamma, "EQU")] {
-                    let kn_here = room.max(0.0) / (gamma * settings.dynamic_factor * lever);
+                let rise = (entry_level - t.point[2]).max(0.0);
+                let sideways = |equ: bool| {
+                    groups
+                        .iter()
+                        .map(|g| g.iter().map(|n| n.share * (n.u[0] * t.normal[0] + n.u[1] * t.normal[1]) * if equ { equ_factor(n.case) } else { 1.0 }).sum::<f64>())
+                        .fold(0.0, f64::max)
+                        * rise
+                };
+                for (room, gamma, form, equ) in [(t.factor_room, 1.0, "factor of safety", false), (t.equ_room, t.equ_gamma, "EQU", true)] {
+                    let arm = gamma * lever.max(0.0) + sideways(equ);
+                    if arm <= 0.0 {
+                        continue;
+                    }
+                    let kn_here = room.max(0.0) / (settings.dynamic_factor * arm);
                     if kn_here < kn {
                         kn = kn_here;
                         already = room <= 0.0;
@@ -551,6 +659,111 @@ fn room_of(analysis: &Analysis, m: usize, c: usize, n_posts: usize) -> Room {
         }
     }
     room
+}
+
+/// The plates that take brace forces from the notional load of a load on the deck, with a slot
+/// each.
+struct Braced {
+    posts: Vec<u32>,
+    /// Slot of each post, `u32::MAX` where it takes none.
+    slot: Vec<u32>,
+}
+
+fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usize) -> Braced {
+    let mut slot = vec![u32::MAX; n_posts];
+    let mut posts = Vec::new();
+    if let (Some(n), false) = (&inf.notional, groups.is_empty()) {
+        for &(p, v) in n.h.iter().flatten().flatten().flatten() {
+            if v.abs() >= INFLUENCE_FLOOR && slot[p as usize] == u32::MAX {
+                slot[p as usize] = posts.len() as u32;
+                posts.push(p);
+            }
+        }
+    }
+    Braced { posts, slot }
+}
+
+/// Work space of [`braced_limits`], per braced plate.
+struct BracedScratch {
+    r: Vec<f64>,
+    h: Vec<[f64; 4]>,
+    touched: Vec<u32>,
+    seen: Vec<bool>,
+}
+
+impl BracedScratch {
+    fn new(n: usize) -> Self {
+        BracedScratch { r: vec![0.0; n], h: vec![[0.0; 4]; n], touched: Vec::new(), seen: vec![false; n] }
+    }
+}
+
+/// Limits at grid point (`i`, `j`) from the plates that take brace forces, per kN placed and
+/// before the factor γ·φ: the vertical influence `r` summed over the deck's bearers and the brace
+/// components `h` of the notional load. Their maximum takes `r` where it presses the plate down
+/// (the extra load may be absent) and the notional load of the worst direction group and
+/// diaphragm assumption where it presses it down; their minimum takes `r` where it lifts the
+/// plate — the minimum takes notional load on permanent load only, so the extra load's adds
+/// nothing there.
+#[allow(clippy::too_many_arguments)]
+fn braced_limits(inf: &DeckInfluence, braced: &Braced, w: &mut BracedScratch, a: &[[f64; 2]], room: &Room, i: usize, j: usize, c: usize, m: usize, here: &mut Best) {
+    let Some(notional) = &inf.notional else { return };
+    let touch = |w: &mut BracedScratch, s: u32| {
+        if !w.seen[s as usize] {
+            w.seen[s as usize] = true;
+            w.touched.push(s);
+        }
+    };
+    for (k, &dk) in inf.d[i].iter().enumerate() {
+        if dk == 0.0 {
+            continue;
+        }
+        for &(p, f) in &inf.flows[k][j] {
+            let s = braced.slot[p as usize];
+            if s != u32::MAX {
+                touch(w, s);
+                w.r[s as usize] += dk * f;
+            }
+        }
+    }
+    for (k, &nk) in notional.d[i].iter().enumerate() {
+        if nk == 0.0 {
+            continue;
+        }
+        for (q, list) in notional.h[k][j].iter().enumerate() {
+            for &(p, v) in list {
+                let s = braced.slot[p as usize];
+                if s != u32::MAX {
+                    touch(w, s);
+                    w.h[s as usize][q] += nk * v;
+                }
+            }
+        }
+    }
+    for t in 0..w.touched.len() {
+        let s = w.touched[t] as usize;
+        let (r, h) = (std::mem::take(&mut w.r[s]), std::mem::take(&mut w.h[s]));
+        w.seen[s] = false;
+        let p = braced.posts[s];
+        // Worst direction group and diaphragm assumption, pressing down.
+        let mut worst = 0.0f64;
+        for g in a {
+            for way in 0..2 {
+                worst = worst.max(g[0] * h[way] + g[1] * h[2 + way]);
+            }
+        }
+        let down = r.max(0.0) + worst;
+        if down >= INFLUENCE_FLOOR {
+            if let Some(b) = plate_limit(room, p, down, c, m) {
+                here.take(b);
+            }
+        }
+        if r <= -INFLUENCE_FLOOR {
+            if let Some(b) = plate_limit(room, p, r, c, m) {
+                here.take(b);
+            }
+        }
+    }
+    w.touched.clear();
 }
 
 /// Posts reached through more than one of the deck's bearers.
