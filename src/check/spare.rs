@@ -425,6 +425,9 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
         let (rows, cols) = (inf.across.len(), inf.along.len());
         shape = (rows, cols);
         let best = grid.get_or_insert_with(|| vec![Best::NONE; rows * cols]);
+        // Plates that take brace forces from the notional load of the extra load: summed at each
+        // grid point below, with that load.
+        let braced = braced_plates(inf, &groups, n_posts);
         for &c in combos {
             let comb = &analysis.combinations[c];
             let gamma = comb.factors.q * settings.dynamic_factor;
@@ -433,9 +436,6 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
             }
             let room = room_of(analysis, m, c, n_posts);
             let mut shared = shared_posts(&inf, n_posts);
-            // Plates that take brace forces from the notional load of the extra load: summed at
-            // each grid point below, with that load.
-            let braced = braced_plates(inf, &groups, n_posts);
             let shared_list: Vec<usize> = (0..n_posts).filter(|&p| shared[p] && braced.slot[p] == u32::MAX).collect();
             for &p in &braced.posts {
                 shared[p as usize] = true;
@@ -451,7 +451,7 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
                     })
                 })
                 .collect();
-            let mut scratch = BracedScratch::new(braced.posts.len());
+            let mut scratch = BracedScratch::new(&braced, &a, &room, n_posts);
             // Per bearer and column: the least ratio room / influence over the plates, for a
             // positive and for a negative deck share, with what gave it.
             let nk = inf.bearers.len();
@@ -662,57 +662,128 @@ fn room_of(analysis: &Analysis, m: usize, c: usize, n_posts: usize) -> Room {
 }
 
 /// The plates that take brace forces from the notional load of a load on the deck, with a slot
-/// each.
+/// each; per slot the largest brace effect of any of the deck's bearers and columns, per axis
+/// and diaphragm assumption (`2·axis + way`); per row of the grid Σₖ |d[i][k]| of the notional
+/// deck shares.
 struct Braced {
     posts: Vec<u32>,
     /// Slot of each post, `u32::MAX` where it takes none.
     slot: Vec<u32>,
+    most: Vec<[f64; 4]>,
+    row_sum: Vec<f64>,
+    /// Per slot: the nodes that reach it, (bearer k, its n-th post, effect per axis and way).
+    nodes: Vec<Vec<(u32, u32, [f64; 4])>>,
 }
 
 fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usize) -> Braced {
     let mut slot = vec![u32::MAX; n_posts];
     let mut posts = Vec::new();
+    let mut most: Vec<[f64; 4]> = Vec::new();
+    let mut row_sum = Vec::new();
+    let mut nodes: Vec<Vec<(u32, u32, [f64; 4])>> = Vec::new();
     if let (Some(n), false) = (&inf.notional, groups.is_empty()) {
-        for &(p, v) in n.h.iter().flatten().flatten().flatten() {
-            if v.abs() >= INFLUENCE_FLOOR && slot[p as usize] == u32::MAX {
-                slot[p as usize] = posts.len() as u32;
-                posts.push(p);
+        // |Σₙ eₙ·Uₙ(p)| ≤ (most Σₙ |eₙ| of the bearer) × (most |Uₙ(p)| of its nodes).
+        for (k, node_lists) in n.units.iter().enumerate() {
+            let spread = n.entries[k].iter().map(|e| e.iter().map(|v| v.abs()).sum::<f64>()).fold(0.0, f64::max);
+            if spread == 0.0 {
+                continue;
+            }
+            for (n, four) in node_lists.iter().enumerate() {
+                for (q, list) in four.iter().enumerate() {
+                    for &(p, v) in list {
+                        if (spread * v).abs() < INFLUENCE_FLOOR {
+                            continue;
+                        }
+                        if slot[p as usize] == u32::MAX {
+                            slot[p as usize] = posts.len() as u32;
+                            posts.push(p);
+                            most.push([0.0; 4]);
+                            nodes.push(Vec::new());
+                        }
+                        let sl = slot[p as usize] as usize;
+                        let m = &mut most[sl][q];
+                        *m = m.max((spread * v).abs());
+                        let list = &mut nodes[sl];
+                        match list.last_mut() {
+                            Some(e) if e.0 == k as u32 && e.1 == n as u32 => e.2[q] = v,
+                            _ => {
+                                let mut u = [0.0; 4];
+                                u[q] = v;
+                                list.push((k as u32, n as u32, u));
+                            }
+                        }
+                    }
+                }
             }
         }
+        row_sum = n.d.iter().map(|row| row.iter().map(|v| v.abs()).sum()).collect();
     }
-    Braced { posts, slot }
+    Braced { posts, slot, most, row_sum, nodes }
 }
 
-/// Work space of [`braced_limits`], per braced plate.
+/// Work space of [`braced_limits`] for one combination: per braced plate the vertical influence
+/// being summed, and the plates in order of the least limit the notional load alone could give.
 struct BracedScratch {
     r: Vec<f64>,
-    h: Vec<[f64; 4]>,
     touched: Vec<u32>,
     seen: Vec<bool>,
+    /// Per slot: the most the notional load of 1 kN placed can press the plate down, relative
+    /// to γ·φ, per unit of Σₖ |d[i][k]|.
+    bound: Vec<f64>,
+    /// (slot, room ÷ bound), ascending.
+    order: Vec<(u32, f64)>,
 }
 
 impl BracedScratch {
-    fn new(n: usize) -> Self {
-        BracedScratch { r: vec![0.0; n], h: vec![[0.0; 4]; n], touched: Vec::new(), seen: vec![false; n] }
+    fn new(braced: &Braced, a: &[[f64; 2]], room: &Room, _n_posts: usize) -> Self {
+        let n = braced.posts.len();
+        let bound: Vec<f64> = braced
+            .most
+            .iter()
+            .map(|m| a.iter().map(|g| (0..2).map(|w| g[0].abs() * m[w] + g[1].abs() * m[2 + w]).fold(0.0, f64::max)).fold(0.0, f64::max))
+            .collect();
+        let mut order: Vec<(u32, f64)> = (0..n)
+            .filter_map(|s| {
+                let (swl, bearing) = room.capacity[braced.posts[s] as usize]?;
+                (bound[s] > 0.0).then(|| (s as u32, swl.min(bearing).max(0.0) / bound[s]))
+            })
+            .collect();
+        order.sort_by(|x, y| x.1.total_cmp(&y.1));
+        BracedScratch { r: vec![0.0; n], touched: Vec::new(), seen: vec![false; n], bound, order }
     }
+}
+
+/// The notional effect at the braced plate of slot `s` of 1 kN placed at grid point (`i`, `j`), per axis and
+/// diaphragm assumption (`2·axis + way`).
+fn notional_at(inf: &DeckInfluence, braced: &Braced, i: usize, j: usize, s: usize) -> [f64; 4] {
+    let mut h = [0.0; 4];
+    let Some(n) = &inf.notional else { return h };
+    let d = &n.d[i];
+    for &(k, node, u) in &braced.nodes[s] {
+        let dk = d[k as usize];
+        if dk == 0.0 {
+            continue;
+        }
+        let Some(&e) = n.entries[k as usize][j].get(node as usize) else { continue };
+        let c = dk * e;
+        for q in 0..4 {
+            h[q] += c * u[q];
+        }
+    }
+    h
 }
 
 /// Limits at grid point (`i`, `j`) from the plates that take brace forces, per kN placed and
 /// before the factor γ·φ: the vertical influence `r` summed over the deck's bearers and the brace
-/// components `h` of the notional load. Their maximum takes `r` where it presses the plate down
+/// components of the notional load. Their maximum takes `r` where it presses the plate down
 /// (the extra load may be absent) and the notional load of the worst direction group and
 /// diaphragm assumption where it presses it down; their minimum takes `r` where it lifts the
 /// plate — the minimum takes notional load on permanent load only, so the extra load's adds
-/// nothing there.
+/// nothing there. The brace components are summed exactly wherever a bound on them
+/// (Σₖ |d[i][k]| times the largest of any bearer and column) could make the plate govern.
 #[allow(clippy::too_many_arguments)]
 fn braced_limits(inf: &DeckInfluence, braced: &Braced, w: &mut BracedScratch, a: &[[f64; 2]], room: &Room, i: usize, j: usize, c: usize, m: usize, here: &mut Best) {
-    let Some(notional) = &inf.notional else { return };
-    let touch = |w: &mut BracedScratch, s: u32| {
-        if !w.seen[s as usize] {
-            w.seen[s as usize] = true;
-            w.touched.push(s);
-        }
-    };
+    let spread = braced.row_sum[i];
     for (k, &dk) in inf.d[i].iter().enumerate() {
         if dk == 0.0 {
             continue;
@@ -720,31 +791,17 @@ fn braced_limits(inf: &DeckInfluence, braced: &Braced, w: &mut BracedScratch, a:
         for &(p, f) in &inf.flows[k][j] {
             let s = braced.slot[p as usize];
             if s != u32::MAX {
-                touch(w, s);
+                if !w.seen[s as usize] {
+                    w.seen[s as usize] = true;
+                    w.touched.push(s);
+                }
                 w.r[s as usize] += dk * f;
             }
         }
     }
-    for (k, &nk) in notional.d[i].iter().enumerate() {
-        if nk == 0.0 {
-            continue;
-        }
-        for (q, list) in notional.h[k][j].iter().enumerate() {
-            for &(p, v) in list {
-                let s = braced.slot[p as usize];
-                if s != u32::MAX {
-                    touch(w, s);
-                    w.h[s as usize][q] += nk * v;
-                }
-            }
-        }
-    }
-    for t in 0..w.touched.len() {
-        let s = w.touched[t] as usize;
-        let (r, h) = (std::mem::take(&mut w.r[s]), std::mem::take(&mut w.h[s]));
-        w.seen[s] = false;
+    let exact = |s: usize, r: f64, here: &mut Best| {
         let p = braced.posts[s];
-        // Worst direction group and diaphragm assumption, pressing down.
+        let h = notional_at(inf, braced, i, j, s);
         let mut worst = 0.0f64;
         for g in a {
             for way in 0..2 {
@@ -757,11 +814,37 @@ fn braced_limits(inf: &DeckInfluence, braced: &Braced, w: &mut BracedScratch, a:
                 here.take(b);
             }
         }
+    };
+    // Plates the vertical load reaches.
+    for t in 0..w.touched.len() {
+        let s = w.touched[t] as usize;
+        let r = std::mem::take(&mut w.r[s]);
+        let p = braced.posts[s];
         if r <= -INFLUENCE_FLOOR {
             if let Some(b) = plate_limit(room, p, r, c, m) {
                 here.take(b);
             }
         }
+        if let Some((swl, bearing)) = room.capacity[p as usize] {
+            let most = r.max(0.0) + spread * w.bound[s];
+            if most >= INFLUENCE_FLOOR && swl.min(bearing).max(0.0) / most < here.kn {
+                exact(s, r, here);
+            }
+        }
+    }
+    // The others take the notional load alone: in order of the least limit they could give.
+    if spread > 0.0 {
+        for &(s, key) in &w.order {
+            if key / spread >= here.kn {
+                break;
+            }
+            if !w.seen[s as usize] {
+                exact(s as usize, 0.0, here);
+            }
+        }
+    }
+    for &s in &w.touched {
+        w.seen[s as usize] = false;
     }
     w.touched.clear();
 }

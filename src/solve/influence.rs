@@ -70,11 +70,15 @@ pub struct NotionalInfluence {
     /// pass's where this pass takes its notional load from there (members taken support by
     /// support).
     pub d: Vec<Vec<f64>>,
-    /// `h[k][j][2·axis + way]`: effect at each plate (post, kN) of 1 kN per kN along plan axis
-    /// `axis` (0 x, 1 y) at the nodes where bearer `bearers[k]`'s share of 1 at column `j`
-    /// enters its posts; way 0 the lever rule between braced planes, way 1 a rigid diaphragm (the
-    /// same where the bracing gives one way). Empty where the bearer takes nothing.
-    pub h: Vec<Vec<[Vec<(u32, f64)>; 4]>>,
+    /// `entries[k][j]`: the reactions of bearer `bearers[k]` at each of its posts (in its order)
+    /// for its share of 1 at column `j` — the vertical load entering the posts there, on which
+    /// the notional load acts; empty where the bearer takes nothing.
+    pub entries: Vec<Vec<Vec<f64>>>,
+    /// `units[k][n][2·axis + way]`: effect at each plate (post, kN; by post) of 1 kN along plan
+    /// axis `axis` (0 x, 1 y) at the node where bearer `bearers[k]` sits on its `n`-th post;
+    /// way 0 the lever rule between braced planes, way 1 a rigid diaphragm (the same where the
+    /// bracing gives one way).
+    pub units: Vec<Vec<[Vec<(u32, f64)>; 4]>>,
 }
 
 impl DeckInfluence {
@@ -179,7 +183,6 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
     if !fails.is_empty() {
         return Err(net.describe(&fails));
     }
-    let n_posts = model.scene.posts.len();
     let mut primary = (!passes.iter().all(MethodPass::is_one_state)).then(|| Solver::new(model, &passes[0]));
     let mut cache = crate::solve::arrangement::FlowCache::default();
     let mut out = Vec::with_capacity(passes.len());
@@ -220,48 +223,20 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
         let own = pass.is_one_state();
         let entry: &mut Solver = if own { &mut s } else { primary.as_mut().expect("made where a pass is not one state") };
         let d = if own { inf.d.clone() } else { entry.deck_shares(deck, &inf.across, size_across, footprint) };
-        let mut dense = vec![[0.0f64; 4]; n_posts];
-        let mut touched: Vec<u32> = Vec::new();
-        let mut e = Vec::new();
-        let mut h = Vec::with_capacity(line.bearers.len());
+        let mut entries = Vec::with_capacity(line.bearers.len());
         for (k, &b) in line.bearers.iter().enumerate() {
             let used = d.iter().any(|row| row[k] != 0.0);
             let mut per_column = Vec::with_capacity(inf.along.len());
             for &a in &inf.along {
-                if !used {
-                    per_column.push(Default::default());
-                    continue;
+                let mut e = Vec::new();
+                if used {
+                    entry.bearer_entries(b, column_load(model, deck, b, a, size_along), &mut e);
                 }
-                entry.bearer_entries(b, column_load(model, deck, b, a, size_along), &mut e);
-                for (n, &en) in e.iter().enumerate() {
-                    if en == 0.0 {
-                        continue;
-                    }
-                    for (c, list) in routed[k][n].iter().enumerate() {
-                        for &(p, v) in list {
-                            if dense[p as usize] == [0.0; 4] {
-                                touched.push(p);
-                            }
-                            dense[p as usize][c] += en * v;
-                        }
-                    }
-                }
-                touched.sort_unstable();
-                let mut four: [Vec<(u32, f64)>; 4] = Default::default();
-                for &p in &touched {
-                    let v = std::mem::take(&mut dense[p as usize]);
-                    for c in 0..4 {
-                        if v[c] != 0.0 {
-                            four[c].push((p, v[c]));
-                        }
-                    }
-                }
-                touched.clear();
-                per_column.push(four);
+                per_column.push(e);
             }
-            h.push(per_column);
+            entries.push(per_column);
         }
-        inf.notional = Some(NotionalInfluence { d, h });
+        inf.notional = Some(NotionalInfluence { d, entries, units: routed });
         cache = std::mem::take(&mut s.flow_cache);
         out.push(Some(inf));
     }
