@@ -176,6 +176,13 @@ fn the_notional_load_of_the_extra_load_goes_into_the_braced_plates() {
     close("spare at (1, 1) without notional load", at(&map, 1.0, 1.0).kn.unwrap(), 60.0, 1e-9);
     let words = map.not_included.as_deref().unwrap();
     assert!(!words.contains("notional"), "{words}");
+    // Coefficients kept from before the notional rule was set are not used without it.
+    // common practice, no source: the same map as worked out from scratch.
+    let kept = plateload::check::spare::spare_influences(&s, &a, &SpareSettings::default()).unwrap();
+    let on = braced_strip(NotionalRule::Percent(2.5));
+    let a_on = analyse(&on).unwrap();
+    let again = plateload::check::spare::spare_map_from(&on, &a_on, &SpareSettings::default(), &kept).unwrap();
+    close("kept coefficients, notional load set since", at(&again, 1.0, 1.0).kn.unwrap(), 19.5 / 0.35, 1e-9);
 }
 
 mod properties {

@@ -168,6 +168,8 @@ pub struct SpareInfluences {
     methods: Vec<String>,
     /// Per deck in scene order: per method pass, or `None` where the footprint does not fit.
     decks: Vec<Option<Vec<DeckInfluence>>>,
+    /// The plan axes (x, y) the notional load of the extra load was worked out along.
+    notional_axes: [bool; 2],
 }
 
 impl SpareInfluences {
@@ -246,6 +248,7 @@ pub fn spare_influences(scene: &Scene, analysis: &Analysis, settings: &SpareSett
         spacing_m: settings.spacing_m,
         methods: (0..analysis.method_count()).map(|m| analysis.method_label(m).to_owned()).collect(),
         decks,
+        notional_axes: axes,
     })
 }
 
@@ -259,6 +262,14 @@ pub fn spare_map(scene: &Scene, analysis: &Analysis, settings: &SpareSettings) -
 /// footprint and grid ([`spare_influences`]): what is left to do after an edit of loads alone.
 pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettings, influences: &SpareInfluences) -> Result<SpareMap, SpareError> {
     let combos = checked(scene, analysis, settings)?;
+    // Coefficients worked out without the notional load now asked for (a changed rule or
+    // direction): worked out again here rather than left out.
+    let groups = notional_groups(scene);
+    let axes = [0, 1].map(|a| groups.iter().flatten().any(|t| t.u[a].abs() > 1e-12));
+    if (axes[0] && !influences.notional_axes[0]) || (axes[1] && !influences.notional_axes[1]) {
+        let fresh = spare_influences(scene, analysis, settings)?;
+        return spare_map_from(scene, analysis, settings, &fresh);
+    }
     let fp = settings.footprint;
     if !influences.fits(analysis, settings) || influences.decks.len() != scene.decks.len() {
         return Err(SpareError::Setting("the influence coefficients are for another structure, footprint or grid: work them out again".into()));
