@@ -304,3 +304,36 @@ fn a_point_beyond_the_tipping_edge_is_limited_by_overturning() {
     assert!(matches!(&tip.limit, Limit::Overturning { form: "factor of safety", .. }), "{:?}", tip.limit);
     assert!(tip.limit.words().starts_with("overturning about"), "{}", tip.limit.words());
 }
+
+#[test]
+fn the_notional_load_of_the_extra_load_turns_the_structure_too() {
+    // statics, by hand: the braced strip joined into one structure by transoms, 1 kN of
+    // permanent load on each post top, target factor 2.0, notional load 2.5 % along +x at 2 m.
+    // About the east edge (B1–B2, x = 2): restoring 2 × 1 kN × 2 m = 4 kN·m; overturning already
+    // 0.025 × 4 kN × 2 m = 0.2 kN·m; room 4 / 2 − 0.2 = 1.8 kN·m. A load P at the middle
+    // (1.0, 1.5) is inside the edge (it adds no overturning by its weight) but its notional load
+    // 0.025·P at 2 m does: 0.05·P ≤ 1.8 → P = 36 kN. (EQU, EN 1990 Table A1.2(A): 0.9 × 4 −
+    // 1.5 × 0.2 = 3.3 ≥ 1.5 × 0.05 P → 44 kN; plate B1 (SWL 30, room 28.95, P/4 + P/80) → 110 kN:
+    // both less strict.)
+    let mut s = braced_strip(NotionalRule::Percent(2.5));
+    s.loads.retain(|l| !l.id.starts_with("kit-"));
+    for id in ["A1", "B1", "A2", "B2"] {
+        s.loads.push(load(&format!("kit-{id}"), Case::G, LoadKind::PostTop { post: id.into(), kn: 1.0 }));
+    }
+    s.bearers.push(bearer("West", 1.0, &["A1", "A2"]));
+    s.bearers.push(bearer("East", 1.0, &["B1", "B2"]));
+    s.stability.target_factor = 2.0;
+    let a = analyse(&s).unwrap();
+    let map = spare_map(&s, &a, &SpareSettings::default()).unwrap();
+    let p = at(&map, 1.0, 1.5);
+    close("spare at the middle", p.kn.unwrap(), 36.0, 1e-9);
+    assert!(matches!(&p.limit, Limit::Overturning { form: "factor of safety", .. }), "{:?}", p.limit);
+    // Placed and solved again: the factor about the east edge is exactly the target.
+    let mut t = s.clone();
+    let mut l = load("placed", Case::Q, LoadKind::DeckPoint { deck: "D".into(), x: 1.0, y: 1.5, kn: 36.0 });
+    l.arrangement = Arrangement::Whole;
+    t.loads.push(l);
+    let b = analyse(&t).unwrap();
+    let east = b.stability.structures.iter().flat_map(|st| st.axes.iter()).find(|ax| ax.normal[0] > 0.99).expect("the east edge");
+    close("factor about the east edge", east.factor.unwrap(), 2.0, 1e-9);
+}
