@@ -447,9 +447,14 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
             }
             let room = room_of(analysis, m, c, n_posts);
             let mut shared = shared_posts(&inf, n_posts);
-            let shared_list: Vec<usize> = (0..n_posts).filter(|&p| shared[p] && braced.slot[p] == u32::MAX).collect();
-            for &p in &braced.posts {
-                shared[p as usize] = true;
+            // Only the maximum takes the notional load of the extra load: where the combination
+            // checks no capacity, braced plates are taken like any other.
+            let notional_here = comb.checks_capacity && !braced.posts.is_empty();
+            let shared_list: Vec<usize> = (0..n_posts).filter(|&p| shared[p] && !(notional_here && braced.slot[p] != u32::MAX)).collect();
+            if notional_here {
+                for &p in &braced.posts {
+                    shared[p as usize] = true;
+                }
             }
             // Per direction group, the factored notional share along x and y per kN placed
             // (notional load is never reduced by ψ0), relative to γ·φ.
@@ -511,7 +516,7 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
                             }
                         }
                     }
-                    if !braced.posts.is_empty() {
+                    if notional_here {
                         braced_limits(inf, &braced, &mut scratch, &a, &room, i, j, c, m, &mut here);
                     }
                     best[i * cols + j].take(Best { kn: here.kn / gamma, ..here });
