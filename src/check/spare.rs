@@ -801,7 +801,8 @@ fn notional_at(inf: &DeckInfluence, braced: &Braced, i: usize, j: usize, s: usiz
 fn braced_limits(inf: &DeckInfluence, braced: &Braced, w: &mut BracedScratch, a: &[[f64; 2]], room: &Room, i: usize, j: usize, c: usize, m: usize, here: &mut Best) {
     let spread = braced.row_sum[i];
     for (k, &dk) in inf.d[i].iter().enumerate() {
-        if dk == 0.0 {
+        // As the quick way: deck shares below the floor are rounding, not load.
+        if dk.abs() < INFLUENCE_FLOOR {
             continue;
         }
         for &(p, f) in &inf.flows[k][j] {
