@@ -337,3 +337,19 @@ fn the_notional_load_of_the_extra_load_turns_the_structure_too() {
     let east = b.stability.structures.iter().flat_map(|st| st.axes.iter()).find(|ax| ax.normal[0] > 0.99).expect("the east edge");
     close("factor about the east edge", east.factor.unwrap(), 2.0, 1e-9);
 }
+
+#[test]
+fn a_deck_whose_notional_load_the_bracing_cannot_carry_is_refused() {
+    // common practice, no source: with nothing on it yet the scene solves (no notional load), but
+    // a load placed on the deck would bring notional load along y that nothing braced along y
+    // holds: the map refuses with the posts and what to do rather than show numbers.
+    let mut s = braced_strip(NotionalRule::Percent(2.5));
+    s.loads.clear();
+    s.horizontal.directions = vec![plateload::scene::loads::PlanDirection::PlusX, plateload::scene::loads::PlanDirection::PlusY];
+    let a = analyse(&s).unwrap();
+    let err = spare_map(&s, &a, &SpareSettings::default()).unwrap_err().to_string();
+    assert!(err.contains("deck D") && err.contains("not held along y") && err.contains("A1") && err.contains("brace a bay"), "{err}");
+    // Along x alone the bracing carries it.
+    s.horizontal.directions = vec![plateload::scene::loads::PlanDirection::PlusX];
+    spare_map(&s, &a, &SpareSettings::default()).unwrap();
+}
