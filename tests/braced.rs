@@ -603,3 +603,28 @@ fn the_notional_load_is_a_share_of_the_load_applied_in_every_method_pass() {
         }
     }
 }
+
+#[test]
+fn notional_load_of_an_imposed_load_lifts_a_plate_it_does_not_press() {
+    // statics, by hand: one bay W (0, 0) – E (2, 0), 2 m high, a diagonal from the foot of W to
+    // the top of E; 1 kN permanent on each post top and 100 kN imposed on E's top only. Notional
+    // 2.5 % of the vertical load at the top: 2.55 kN, of which 0.05 kN from the permanent load.
+    // Towards +x the brace puts −2.55 × 2 / 2 = −2.55 kN into W. The imposed load presses only E,
+    // so with it present W's least load is 1 − 2.55 = −1.55 kN: W lifts. Counting the notional
+    // load on the permanent load alone would give 1 − 0.05 = +0.95 kN and no uplift.
+    let mut s = bare_scene();
+    s.posts = vec![post("W", 0.0, 0.0, 2.0), post("E", 2.0, 0.0, 2.0)];
+    s.bearers = vec![bearer("L", 2.0, &["W", "E"])];
+    s.braces = vec![brace_at("X", "W", 0.0, "E", 2.0)];
+    s.horizontal.notional = NotionalRule::Percent(2.5);
+    s.horizontal.directions = vec![PlanDirection::PlusX, PlanDirection::MinusX];
+    for p in ["W", "E"] {
+        s.loads.push(load(&format!("G-{p}"), Case::G, LoadKind::PostTop { post: p.into(), kn: 1.0 }));
+    }
+    s.loads.push(load("Q-E", Case::Q, LoadKind::PostTop { post: "E".into(), kn: 100.0 }));
+    let a = analyse(&s).unwrap();
+    let w = &a.plates[a.plate_index("W").unwrap()];
+    assert_eq!(a.combinations[0].name, "service");
+    close("least load at W", w.combinations[0].min_kn, 1.0 - 2.55, 1e-9);
+    assert!(w.status.uplift, "W lifts under the notional load of the imposed load on E");
+}

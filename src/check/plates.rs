@@ -128,8 +128,9 @@ impl PlateCombination {
 /// each imposed load and each identified horizontal force is added only where it makes that value
 /// worse (under the working-scaffold rule, the load-class loads of one working level in full with
 /// the worse adjacent level at half), and of wind with notional load the worst single plan
-/// direction is taken ([`crate::check::actions::VariableActions`]). For the minimum, a notional load counts only with
-/// the part due to permanent load: the variable load it would come from is then absent. With ψ0
+/// direction is taken ([`crate::check::actions::VariableActions`]). For the minimum, a notional load counts with
+/// the part due to permanent load, or whole where the part due to the variable load lifts the
+/// post (that load may be present while pressing nothing here). With ψ0
 /// set, each variable case leads in turn; where diaphragms were solved both ways, each way in
 /// turn; the worse governs every plate.
 ///
@@ -148,6 +149,7 @@ fn combine_with(scene: &Scene, solution: &Solution, permanent: &[PermanentParts]
     let (mut hi, mut lo) = (vec![0.0; n], vec![0.0; n]);
     let (mut best_hi, mut best_lo) = (vec![0.0; n], vec![0.0; n]);
     let (mut group_hi, mut group_lo) = (vec![0.0; n], vec![0.0; n]);
+    let mut scratch = NotionalScratch::new(n);
     let actions = crate::check::actions::VariableActions::of(&solution.items, scene.analysis.working_levels);
     for comb in &scene.combinations {
         let f = comb.factors;
@@ -220,7 +222,10 @@ fn combine_with(scene: &Scene, solution: &Solution, permanent: &[PermanentParts]
                                 group_hi[p as usize] += gamma * v;
                             }
                             match r.permanent {
-                                Some(perm) => perm.iter().for_each(|&(p, v)| group_lo[p as usize] += gamma * v),
+                                // A notional load: the part due to permanent load always; the
+                                // part due to the variable load only where it lifts the plate
+                                // more (that load may be present elsewhere, pressing nothing here).
+                                Some(perm) => add_notional_minimum(perm, r.vertical.iter().chain(r.internal), gamma, &mut group_lo, &mut scratch),
                                 None => r.vertical.iter().chain(r.internal).for_each(|&(p, v)| group_lo[p as usize] += gamma * v),
                             }
                         }
@@ -246,6 +251,43 @@ fn combine_with(scene: &Scene, solution: &Solution, permanent: &[PermanentParts]
     }
     ground.fill(&scene.combinations, &mut out);
     out
+}
+
+/// Per-post sums of one notional item's two reaction sets, reused between items.
+pub(crate) struct NotionalScratch {
+    permanent: Vec<f64>,
+    full: Vec<f64>,
+    touched: Vec<u32>,
+}
+
+impl NotionalScratch {
+    pub(crate) fn new(n: usize) -> Self {
+        NotionalScratch { permanent: vec![0.0; n], full: vec![0.0; n], touched: Vec::new() }
+    }
+}
+
+/// Add a notional item to the minimum at every post it reaches: `gamma` × the lower of its
+/// reaction due to permanent load alone (`permanent`) and its whole reaction (`full`, due to the
+/// permanent and the variable load together).
+pub(crate) fn add_notional_minimum<'a>(permanent: &[(u32, f64)], full: impl Iterator<Item = &'a (u32, f64)>, gamma: f64, lo: &mut [f64], s: &mut NotionalScratch) {
+    for &(p, v) in permanent {
+        if s.permanent[p as usize] == 0.0 && s.full[p as usize] == 0.0 {
+            s.touched.push(p);
+        }
+        s.permanent[p as usize] += v;
+    }
+    for &(p, v) in full {
+        if s.permanent[p as usize] == 0.0 && s.full[p as usize] == 0.0 {
+            s.touched.push(p);
+        }
+        s.full[p as usize] += v;
+    }
+    for p in s.touched.drain(..) {
+        let p = p as usize;
+        lo[p] += gamma * s.permanent[p].min(s.full[p]);
+        s.permanent[p] = 0.0;
+        s.full[p] = 0.0;
+    }
 }
 
 /// Add one independent variable item (factor `gamma` already chosen) to the maximum and minimum

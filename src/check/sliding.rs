@@ -192,6 +192,8 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
     let mut cases = vec![Case2::default(); n];
     let (mut lift, mut lift_d, mut g_shear) = (vec![0.0; n], vec![0.0; n], vec![[0.0; 2]; n]);
     let variants = solutions.iter().flat_map(|s| &s.items).map(|i| i.variant_count()).max().unwrap_or(1);
+    let mut notional_normal = vec![0.0; n];
+    let mut scratch = crate::check::plates::NotionalScratch::new(n);
     for (sol, parts) in solutions.iter().zip(permanent) {
         let index: rustc_hash::FxHashMap<&str, usize> = sol.items.iter().enumerate().map(|(i, it)| (it.id.as_str(), i)).collect();
         // Imposed (and other vertical variable) loads that lift a plate: always with it.
@@ -243,10 +245,25 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
                     c.shear_d[0] += y * s[0];
                     c.shear_d[1] += y * s[1];
                 }
-                for &(p, x) in r.permanent.unwrap_or(r.vertical) {
-                    let c = &mut cases[p as usize];
-                    c.normal += x;
-                    c.normal_d += y * x;
+                match r.permanent {
+                    // A notional load: its part due to permanent load, or the whole where the
+                    // variable load's part lifts the plate (the lower normal force).
+                    Some(perm) => {
+                        crate::check::plates::add_notional_minimum(perm, r.vertical.iter(), 1.0, &mut notional_normal, &mut scratch);
+                        for &(p, _) in perm.iter().chain(r.vertical) {
+                            let x = std::mem::take(&mut notional_normal[p as usize]);
+                            let c = &mut cases[p as usize];
+                            c.normal += x;
+                            c.normal_d += y * x;
+                        }
+                    }
+                    None => {
+                        for &(p, x) in r.vertical {
+                            let c = &mut cases[p as usize];
+                            c.normal += x;
+                            c.normal_d += y * x;
+                        }
+                    }
                 }
             }
             // Plates.

@@ -127,19 +127,29 @@ impl Cue {
     }
 }
 
+/// Relative luminance of an sRGB colour, 0 (black) to 1 (white): how the bands and the cues are
+/// told apart without hue.
+// source: WCAG 2.1, definition of relative luminance (sRGB linearisation, Rec. 709 weights)
+pub fn relative_luminance(c: [u8; 3]) -> f64 {
+    let lin = c.map(|v| {
+        let s = v as f64 / 255.0;
+        if s <= 0.04045 { s / 12.92 } else { ((s + 0.055) / 1.055).powf(2.4) }
+    });
+    0.2126 * lin[0] + 0.7152 * lin[1] + 0.0722 * lin[2]
+}
+
+/// Contrast ratio of two colours, 1 to 21.
+// source: WCAG 2.1, definition of contrast ratio (L1 + 0.05) / (L2 + 0.05)
+pub fn contrast_ratio(a: [u8; 3], b: [u8; 3]) -> f64 {
+    let (la, lb) = (relative_luminance(a), relative_luminance(b));
+    (la.max(lb) + 0.05) / (la.min(lb) + 0.05)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
 
-    /// Relative luminance of an sRGB colour (WCAG definition).
-    fn luminance(c: [u8; 3]) -> f64 {
-        // source: WCAG 2.1 relative luminance formula (sRGB linearisation, Rec. 709 weights)
-        let lin = c.map(|v| {
-            let s = v as f64 / 255.0;
-            if s <= 0.04045 { s / 12.92 } else { ((s + 0.055) / 1.055).powf(2.4) }
-        });
-        0.2126 * lin[0] + 0.7152 * lin[1] + 0.0722 * lin[2]
-    }
+    use super::relative_luminance as luminance;
 
     #[test]
     fn oklab_white_and_black() {
@@ -245,14 +255,7 @@ impl SpareBand {
 mod spare_band_tests {
     use super::*;
 
-    /// Relative luminance of an sRGB colour (WCAG 2 formula).
-    fn luminance(c: [u8; 3]) -> f64 {
-        let lin = |v: u8| {
-            let v = v as f64 / 255.0;
-            if v <= 0.04045 { v / 12.92 } else { ((v + 0.055) / 1.055).powf(2.4) }
-        };
-        0.2126 * lin(c[0]) + 0.7152 * lin(c[1]) + 0.0722 * lin(c[2])
-    }
+    use super::relative_luminance as luminance;
 
     #[test]
     fn spare_bands_get_lighter_with_more_room() {

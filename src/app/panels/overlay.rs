@@ -141,6 +141,12 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
         text.push_str(&format!("\nbrace forces {:+.2} / {:+.2} kN from {from}", plateload::format::num(p.brace.max_kn), plateload::format::num(p.brace.min_kn)));
     }
     text += &format!("\nmax by {}", a.method_label(pc.max_method));
+    pointer_card(painter, rect, pointer, text, band_colour(r.band()));
+}
+
+/// A card of text beside the pointer, kept inside `rect`, with a strip of `colour` down its left
+/// edge: the hover cards of plates and of spare-capacity points.
+pub fn pointer_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, text: String, colour: Color32) {
     let g = painter.layout_no_wrap(text, FontId::proportional(13.0), Color32::BLACK);
     let size = g.size() + Vec2::new(20.0, 10.0);
     let mut at = pointer + Vec2::new(18.0, 18.0);
@@ -152,7 +158,7 @@ fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, a: &Analysis, 
     }
     let bx = Rect::from_min_size(at, size);
     painter.rect_filled(bx, 4.0, Color32::from_rgba_unmultiplied(255, 255, 255, 245));
-    painter.rect_filled(Rect::from_min_size(bx.min, Vec2::new(7.0, size.y)), 2.0, band_colour(r.band()));
+    painter.rect_filled(Rect::from_min_size(bx.min, Vec2::new(7.0, size.y)), 2.0, colour);
     painter.rect_stroke(bx, 4.0, Stroke::new(1.0, Color32::from_gray(60)), StrokeKind::Inside);
     painter.galley(bx.min + Vec2::new(14.0, 5.0), g, Color32::BLACK);
 }

@@ -1,7 +1,7 @@
 //! The spare-capacity overlay's controls, legend and the words under the pointer. Everything
 //! shown is the engine's: its map, its bands and its words for what limits a point.
 
-use bevy_egui::egui::{self, Align2, Color32, FontId, Pos2, Rect, Stroke, StrokeKind, Vec2};
+use bevy_egui::egui::{self, Align2, Color32, Pos2, Rect, Stroke, StrokeKind, Vec2};
 use plateload::export::palette::SpareBand;
 
 use super::rgb;
@@ -124,20 +124,7 @@ pub fn hover_card(painter: &egui::Painter, rect: Rect, pointer: Pos2, spare: &Sp
         Some(kn) => format!("\nD: put {} kN here as an imposed load (case Q)", plateload::format::num(kn)),
         None => "\nnothing to place here".to_owned(),
     };
-    let g = painter.layout_no_wrap(text, FontId::proportional(13.0), Color32::BLACK);
-    let size = g.size() + Vec2::new(20.0, 10.0);
-    let mut at = pointer + Vec2::new(18.0, 18.0);
-    if at.x + size.x > rect.max.x {
-        at.x = pointer.x - 18.0 - size.x;
-    }
-    if at.y + size.y > rect.max.y {
-        at.y = pointer.y - 18.0 - size.y;
-    }
-    let bx = Rect::from_min_size(at, size);
-    painter.rect_filled(bx, 4.0, Color32::from_rgba_unmultiplied(255, 255, 255, 245));
-    painter.rect_filled(Rect::from_min_size(bx.min, Vec2::new(7.0, size.y)), 2.0, rgb(SpareBand::of(p.kn, p.already_at_limit).colour()));
-    painter.rect_stroke(bx, 4.0, Stroke::new(1.0, Color32::from_gray(60)), StrokeKind::Inside);
-    painter.galley(bx.min + Vec2::new(14.0, 5.0), g, Color32::BLACK);
+    super::overlay::pointer_card(painter, rect, pointer, text, rgb(SpareBand::of(p.kn, p.already_at_limit).colour()));
 }
 
 /// In a picture: the map's legend at the bottom of the side column (or of the view).

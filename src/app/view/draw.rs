@@ -772,22 +772,7 @@ fn draw_highlights(mut gizmos: Gizmos<OnTopGizmos>, shapes: Res<SceneShapes>, se
 mod tests {
     use super::*;
 
-    /// Relative luminance of an sRGB colour.
-    fn luminance(c: [u8; 3]) -> f64 {
-        // source: WCAG 2.1, definition of relative luminance (sRGB linearisation, Rec. 709 weights)
-        let lin = c.map(|v| {
-            let s = v as f64 / 255.0;
-            if s <= 0.04045 { s / 12.92 } else { ((s + 0.055) / 1.055).powf(2.4) }
-        });
-        0.2126 * lin[0] + 0.7152 * lin[1] + 0.0722 * lin[2]
-    }
-
-    /// Contrast ratio of two colours, 1 to 21.
-    fn contrast(a: [u8; 3], b: [u8; 3]) -> f64 {
-        // source: WCAG 2.1, definition of contrast ratio (L1 + 0.05) / (L2 + 0.05)
-        let (la, lb) = (luminance(a), luminance(b));
-        (la.max(lb) + 0.05) / (la.min(lb) + 0.05)
-    }
+    use plateload::export::palette::contrast_ratio as contrast;
 
     /// OKLab of an sRGB colour.
     fn oklab(c: [u8; 3]) -> [f64; 3] {
