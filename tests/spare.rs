@@ -257,7 +257,21 @@ mod properties {
                 _ => 0.0,
             };
             let reached = if *check == "uplift" { r.combinations[c].min_kn } else { r.combinations[c].max_kn };
-            prop_assert!((reached - cap).abs() <= 1e-6 * cap.abs().max(1.0), "{plate} {check} {combination}: {reached} vs {cap} with {kn} kN at ({}, {})", p.x, p.y);
+            // Where the limiting plate takes brace forces, the map takes the notional load of the
+            // placed load in its worst direction and diaphragm assumption whatever governs the
+            // loads already there, and never counts it where it helps: on the safe side, by at
+            // most that notional load's own effect at the plate — statics, by hand: 2.5 % of the
+            // load, all of it into one braced line at most (1 + cantilever ÷ bay of it, by the
+            // lever rule), times rise ÷ run of the diagonal (2 m ÷ bay), times the horizontal
+            // load factor.
+            let braced = notional && { let q = &a.plates[a.plate_index(plate).unwrap()].brace; q.max_kn != 0.0 || q.min_kn != 0.0 };
+            let slack = if braced { b.combinations[c].factors.w.max(1.0) * 0.025 * kn * (1.0 + cant / bay) * (2.0 / bay) } else { 0.0 };
+            let tol = 1e-6 * cap.abs().max(1.0);
+            if *check == "uplift" {
+                prop_assert!(reached >= -tol && reached <= slack + tol, "{plate} {check} {combination}: {reached} vs {cap} (slack {slack}) with {kn} kN at ({}, {})", p.x, p.y);
+            } else {
+                prop_assert!(reached <= cap + tol && reached >= cap - slack - tol, "{plate} {check} {combination}: {reached} vs {cap} (slack {slack}) with {kn} kN at ({}, {})", p.x, p.y);
+            }
             // Nothing else goes beyond its limit.
             for r in &b.plates {
                 for (k, comb) in b.combinations.iter().enumerate() {
@@ -270,7 +284,9 @@ mod properties {
                     }
                 }
             }
-            // 1 % more goes beyond the limit: by half the extra load's effect at least.
+            // 1 % more goes beyond the limit: by half the extra load's effect at least (where the
+            // value is exact).
+            prop_assume!(slack == 0.0);
             let d = place(1.01);
             let r1 = &d.plates[d.plate_index(plate).unwrap()].combinations[c];
             let (before, after) = if *check == "uplift" { (-reached, -r1.min_kn) } else { (reached, r1.max_kn) };

@@ -447,9 +447,8 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
             }
             let room = room_of(analysis, m, c, n_posts);
             let mut shared = shared_posts(&inf, n_posts);
-            // Only the maximum takes the notional load of the extra load: where the combination
-            // checks no capacity, braced plates are taken like any other.
-            let notional_here = comb.checks_capacity && !braced.posts.is_empty();
+            let vertically_shared = shared.clone();
+            let notional_here = !braced.posts.is_empty();
             let shared_list: Vec<usize> = (0..n_posts).filter(|&p| shared[p] && !(notional_here && braced.slot[p] != u32::MAX)).collect();
             if notional_here {
                 for &p in &braced.posts {
@@ -468,6 +467,7 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
                 })
                 .collect();
             let mut scratch = BracedScratch::new(&braced, &a, &room, n_posts);
+            let bounds = bearer_bounds(inf, &braced, &scratch, &room, &vertically_shared);
             // Per bearer and column: the least ratio room / influence over the plates, for a
             // positive and for a negative deck share, with what gave it.
             let nk = inf.bearers.len();
@@ -517,7 +517,7 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
                         }
                     }
                     if notional_here {
-                        braced_limits(inf, &braced, &mut scratch, &a, &room, i, j, c, m, &mut here);
+                        braced_limits(inf, &braced, &mut scratch, &bounds, &shares, &a, &room, i, j, c, m, &mut here);
                     }
                     best[i * cols + j].take(Best { kn: here.kn / gamma, ..here });
                 }
@@ -740,7 +740,6 @@ fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usi
 /// Work space of [`braced_limits`] for one combination: per braced plate the vertical influence
 /// being summed, and the plates in order of the least limit the notional load alone could give.
 struct BracedScratch {
-    r: Vec<f64>,
     touched: Vec<u32>,
     seen: Vec<bool>,
     /// Per slot: the most the notional load of 1 kN placed can press the plate down, relative
@@ -760,12 +759,12 @@ impl BracedScratch {
             .collect();
         let mut order: Vec<(u32, f64)> = (0..n)
             .filter_map(|s| {
-                let (swl, bearing) = room.capacity[braced.posts[s] as usize]?;
-                (bound[s] > 0.0).then(|| (s as u32, swl.min(bearing).max(0.0) / bound[s]))
+                let least = least_room(room, braced.posts[s] as usize)?;
+                (bound[s] > 0.0).then(|| (s as u32, least / bound[s]))
             })
             .collect();
         order.sort_by(|x, y| x.1.total_cmp(&y.1));
-        BracedScratch { r: vec![0.0; n], touched: Vec::new(), seen: vec![false; n], bound, order }
+        BracedScratch { touched: Vec::new(), seen: vec![false; n], bound, order }
     }
 }
 
@@ -789,65 +788,133 @@ fn notional_at(inf: &DeckInfluence, braced: &Braced, i: usize, j: usize, s: usiz
     h
 }
 
-/// Limits at grid point (`i`, `j`) from the plates that take brace forces, per kN placed and
-/// before the factor γ·φ: the vertical influence `r` summed over the deck's bearers and the brace
-/// components of the notional load. Their maximum takes `r` where it presses the plate down
-/// (the extra load may be absent) and the notional load of the worst direction group and
-/// diaphragm assumption where it presses it down; their minimum takes `r` where it lifts the
-/// plate — the minimum takes notional load on permanent load only, so the extra load's adds
-/// nothing there. The brace components are summed exactly wherever a bound on them
-/// (Σₖ |d[i][k]| times the largest of any bearer and column) could make the plate govern.
-#[allow(clippy::too_many_arguments)]
-fn braced_limits(inf: &DeckInfluence, braced: &Braced, w: &mut BracedScratch, a: &[[f64; 2]], room: &Room, i: usize, j: usize, c: usize, m: usize, here: &mut Best) {
-    let spread = braced.row_sum[i];
-    for (k, &dk) in inf.d[i].iter().enumerate() {
-        // As the quick way: deck shares below the floor are rounding, not load.
-        if dk.abs() < INFLUENCE_FLOOR {
-            continue;
+/// Per braced plate reached through one bearer, bounds that let a whole bearer be skipped at a
+/// grid point: per bearer and column, the least room ÷ |influence| of its braced plates
+/// (`vertical`); per bearer, the least room ÷ the notional bound of its braced plates
+/// (`notional`). Rooms are those of the checks the combination makes.
+struct BearerBounds {
+    cols: usize,
+    vertical: Vec<f64>,
+    notional: Vec<f64>,
+    /// Braced plates reached through more than one of the deck's bearers (by slot): summed whole.
+    shared: Vec<u32>,
+    /// Per slot: whether it is in `shared`.
+    is_shared: Vec<bool>,
+}
+
+/// The least room of a plate in the checks the combination makes (kN, not below zero).
+fn least_room(room: &Room, p: usize) -> Option<f64> {
+    let cap = room.capacity[p].map(|(swl, bearing)| swl.min(bearing));
+    let low = room.uplift[p];
+    match (cap, low) {
+        (Some(a), Some(b)) => Some(a.min(b).max(0.0)),
+        (Some(a), None) | (None, Some(a)) => Some(a.max(0.0)),
+        (None, None) => None,
+    }
+}
+
+fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, w: &BracedScratch, room: &Room, vertically_shared: &[bool]) -> BearerBounds {
+    let (nk, cols) = (inf.bearers.len(), inf.along.len());
+    let mut vertical = vec![f64::INFINITY; nk * cols];
+    let mut notional = vec![f64::INFINITY; nk];
+    let mut is_shared = vec![false; braced.posts.len()];
+    let mut shared = Vec::new();
+    for (s, &p) in braced.posts.iter().enumerate() {
+        if vertically_shared[p as usize] {
+            is_shared[s] = true;
+            shared.push(s as u32);
         }
-        for &(p, f) in &inf.flows[k][j] {
-            let s = braced.slot[p as usize];
-            if s != u32::MAX {
-                if !w.seen[s as usize] {
-                    w.seen[s as usize] = true;
-                    w.touched.push(s);
+    }
+    for k in 0..nk {
+        for j in 0..cols {
+            for &(p, f) in &inf.flows[k][j] {
+                let s = braced.slot[p as usize];
+                if s == u32::MAX || is_shared[s as usize] {
+                    continue;
                 }
-                w.r[s as usize] += dk * f;
+                let Some(least) = least_room(room, p as usize) else { continue };
+                if f != 0.0 {
+                    let v = &mut vertical[k * cols + j];
+                    *v = v.min(least / f.abs());
+                }
+                if w.bound[s as usize] > 0.0 {
+                    notional[k] = notional[k].min(least / w.bound[s as usize]);
+                }
             }
         }
     }
+    BearerBounds { cols, vertical, notional, shared, is_shared }
+}
+
+/// Limits at grid point (`i`, `j`) from the plates that take brace forces, per kN placed and
+/// before the factor γ·φ: the vertical influence `r` of the extra load and the brace components
+/// of its notional load together. The maximum takes `r` where it presses the plate down (the
+/// extra load may be absent) and the notional load of the worst direction group and diaphragm
+/// assumption where that presses it down; the minimum takes `r` where it lifts the plate and the
+/// notional load of the worst direction where that lifts it (the minimum counts a notional load
+/// of imposed load where it lifts a plate). Bearer by bearer, largest deck share first, a
+/// bearer is skipped where a bound on its plates — room ÷ (|share| · |influence| + Σₖ |d[i][k]|
+/// · notional bound) — cannot beat the value found; the plates no bearer reaches here take the
+/// notional load alone, in order of the least limit they could give.
+#[allow(clippy::too_many_arguments)]
+fn braced_limits(inf: &DeckInfluence, braced: &Braced, w: &mut BracedScratch, bounds: &BearerBounds, shares: &[(usize, f64)], a: &[[f64; 2]], room: &Room, i: usize, j: usize, c: usize, m: usize, here: &mut Best) {
+    let spread = braced.row_sum[i];
     let exact = |s: usize, r: f64, here: &mut Best| {
         let p = braced.posts[s];
         let h = notional_at(inf, braced, i, j, s);
-        let mut worst = 0.0f64;
+        let (mut down, mut up) = (0.0f64, 0.0f64);
         for g in a {
             for way in 0..2 {
-                worst = worst.max(g[0] * h[way] + g[1] * h[2 + way]);
+                let v = g[0] * h[way] + g[1] * h[2 + way];
+                down = down.max(v);
+                up = up.min(v);
             }
         }
-        let down = r.max(0.0) + worst;
-        if down >= INFLUENCE_FLOOR {
-            if let Some(b) = plate_limit(room, p, down, c, m) {
+        let pressing = r.max(0.0) + down;
+        if pressing >= INFLUENCE_FLOOR {
+            if let Some(b) = plate_limit(room, p, pressing, c, m) {
+                here.take(b);
+            }
+        }
+        let lifting = r.min(0.0) + up;
+        if lifting <= -INFLUENCE_FLOOR {
+            if let Some(b) = plate_limit(room, p, lifting, c, m) {
                 here.take(b);
             }
         }
     };
-    // Plates the vertical load reaches.
-    for t in 0..w.touched.len() {
-        let s = w.touched[t] as usize;
-        let r = std::mem::take(&mut w.r[s]);
-        let p = braced.posts[s];
-        if r <= -INFLUENCE_FLOOR {
-            if let Some(b) = plate_limit(room, p, r, c, m) {
-                here.take(b);
-            }
+    let consider = |s: usize, r: f64, here: &mut Best, w: &mut BracedScratch| {
+        if !w.seen[s] {
+            w.seen[s] = true;
+            w.touched.push(s as u32);
         }
-        if let Some((swl, bearing)) = room.capacity[p as usize] {
-            let most = r.max(0.0) + spread * w.bound[s];
-            if most >= INFLUENCE_FLOOR && swl.min(bearing).max(0.0) / most < here.kn {
-                exact(s, r, here);
-            }
+        let Some(least) = least_room(room, braced.posts[s] as usize) else { return };
+        let most = r.abs() + spread * w.bound[s];
+        if most >= INFLUENCE_FLOOR && least / most < here.kn {
+            exact(s, r, here);
         }
+    };
+    // Plates reached through one bearer: r = d[i][k] · f.
+    for &(k, dk) in shares {
+        let v = bounds.vertical[k * bounds.cols + j];
+        let n = bounds.notional[k];
+        let inv = if v.is_finite() { dk.abs() / v } else { 0.0 } + if n.is_finite() { spread / n } else { 0.0 };
+        if inv <= 0.0 || 1.0 / inv >= here.kn {
+            continue;
+        }
+        for &(p, f) in &inf.flows[k][j] {
+            let s = braced.slot[p as usize];
+            if s == u32::MAX || bounds.is_shared[s as usize] {
+                continue;
+            }
+            consider(s as usize, dk * f, here, w);
+        }
+    }
+    // Plates reached through more than one bearer: summed whole.
+    for &s in &bounds.shared {
+        let p = braced.posts[s as usize];
+        let r: f64 = shares.iter().map(|&(k, dk)| dk * inf.flows[k][j].iter().filter(|e| e.0 == p).map(|e| e.1).sum::<f64>()).sum();
+        consider(s as usize, r, here, w);
     }
     // The others take the notional load alone: in order of the least limit they could give.
     if spread > 0.0 {
