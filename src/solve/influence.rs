@@ -186,6 +186,9 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
     let mut primary = (!passes.iter().all(MethodPass::is_one_state)).then(|| Solver::new(model, &passes[0]));
     let mut cache = crate::solve::arrangement::FlowCache::default();
     let mut out = Vec::with_capacity(passes.len());
+    let all_spliced = (0..model.scene.posts.len()).all(|p| model.graph.spliced_base(p).is_some());
+    let mut routed_once: Option<Vec<Vec<[Vec<(u32, f64)>; 4]>>> = None;
+    let mut primary_entries: Option<(Vec<Vec<f64>>, Vec<Vec<Vec<f64>>>)> = None;
     for pass in passes {
         let mut s = Solver::new(model, pass);
         s.flow_cache = std::mem::take(&mut cache);
@@ -195,47 +198,67 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
             out.push(None);
             continue;
         };
-        // The unit responses routed to the plates in this pass: [k][node][2·axis + way].
-        let routed: Vec<Vec<[Vec<(u32, f64)>; 4]>> = raw
-            .iter()
-            .map(|per| {
-                per.iter()
-                    .map(|both| {
-                        let mut four: [Vec<(u32, f64)>; 4] = Default::default();
-                        for axis in 0..2 {
-                            for way in 0..2 {
-                                let sets = &both[axis];
-                                if let Some(set) = sets.get(way.min(sets.len().saturating_sub(1))) {
-                                    four[2 * axis + way] = s.to_plates(&set.vertical);
+        // The unit responses routed to the plates in this pass: [k][node][2·axis + way]; the
+        // same in every pass where every post reaches its plate through splices alone.
+        let routed = match &routed_once {
+            Some(r) => r.clone(),
+            None => {
+                let r: Vec<Vec<[Vec<(u32, f64)>; 4]>> = raw
+                    .iter()
+                    .map(|per| {
+                        per.iter()
+                            .map(|both| {
+                                let mut four: [Vec<(u32, f64)>; 4] = Default::default();
+                                for axis in 0..2 {
+                                    for way in 0..2 {
+                                        let sets = &both[axis];
+                                        if let Some(set) = sets.get(way.min(sets.len().saturating_sub(1))) {
+                                            four[2 * axis + way] = s.to_plates(&set.vertical);
+                                        }
+                                    }
                                 }
-                            }
-                        }
-                        four
+                                four
+                            })
+                            .collect()
                     })
-                    .collect()
-            })
-            .collect();
-        // Entry shares: this pass's, or the primary pass's where this pass is not one state.
+                    .collect();
+                if all_spliced {
+                    routed_once = Some(r.clone());
+                }
+                r
+            }
+        };
+        // Entry shares: this pass's, or the primary pass's where this pass is not one state (the
+        // same for every such pass).
         let (size_along, size_across) = match line.bearer_axis {
             Axis::X => (footprint.x_m, footprint.y_m),
             Axis::Y => (footprint.y_m, footprint.x_m),
         };
         let own = pass.is_one_state();
-        let entry: &mut Solver = if own { &mut s } else { primary.as_mut().expect("made where a pass is not one state") };
-        let d = if own { inf.d.clone() } else { entry.deck_shares(deck, &inf.across, size_across, footprint) };
-        let mut entries = Vec::with_capacity(line.bearers.len());
-        for (k, &b) in line.bearers.iter().enumerate() {
-            let used = d.iter().any(|row| row[k] != 0.0);
-            let mut per_column = Vec::with_capacity(inf.along.len());
-            for &a in &inf.along {
-                let mut e = Vec::new();
-                if used {
-                    entry.bearer_entries(b, column_load(model, deck, b, a, size_along), &mut e);
+        let (d, entries) = match (&primary_entries, own) {
+            (Some(kept), false) => kept.clone(),
+            _ => {
+                let entry: &mut Solver = if own { &mut s } else { primary.as_mut().expect("made where a pass is not one state") };
+                let d = if own { inf.d.clone() } else { entry.deck_shares(deck, &inf.across, size_across, footprint) };
+                let mut entries = Vec::with_capacity(line.bearers.len());
+                for (k, &b) in line.bearers.iter().enumerate() {
+                    let used = d.iter().any(|row| row[k] != 0.0);
+                    let mut per_column = Vec::with_capacity(inf.along.len());
+                    for &a in &inf.along {
+                        let mut e = Vec::new();
+                        if used {
+                            entry.bearer_entries(b, column_load(model, deck, b, a, size_along), &mut e);
+                        }
+                        per_column.push(e);
+                    }
+                    entries.push(per_column);
                 }
-                per_column.push(e);
+                if !own {
+                    primary_entries = Some((d.clone(), entries.clone()));
+                }
+                (d, entries)
             }
-            entries.push(per_column);
-        }
+        };
         inf.notional = Some(NotionalInfluence { d, entries, units: routed });
         cache = std::mem::take(&mut s.flow_cache);
         out.push(Some(inf));
@@ -286,21 +309,31 @@ impl Solver<'_, '_> {
     /// Loads entering posts (post, kN) carried down to the plates, as the solver routes brace
     /// components; sorted by post.
     fn to_plates(&mut self, vertical: &[(u32, f64)]) -> Vec<(u32, f64)> {
-        let mut out: Vec<(u32, f64)> = if !self.model.graph.has_lifts() {
-            vertical.iter().copied().filter(|e| e.1 != 0.0).collect()
-        } else {
+        let graph = &self.model.graph;
+        // Posts that reach their plate through splices alone pass the load straight down, the
+        // same in every method pass; only those on members go through the load path.
+        let mut out: Vec<(u32, f64)> = vertical.iter().filter_map(|&(post, kn)| graph.spliced_base(post as usize).map(|base| (base as u32, kn))).filter(|e| e.1 != 0.0).collect();
+        if vertical.iter().any(|&(post, _)| graph.spliced_base(post as usize).is_none()) {
             let was = self.record;
             self.record = false;
-            for &(post, kn) in vertical {
+            for &(post, kn) in vertical.iter().filter(|&&(post, _)| graph.spliced_base(post as usize).is_none()) {
                 self.post_direct(0, post as usize, kn, crate::solve::items::Route::Bracing, crate::scene::loads::Case::W);
             }
             self.flow(0, crate::scene::loads::Case::W);
             let t = self.take_item(crate::solve::items::Item::new(String::new(), crate::scene::loads::Case::W, crate::solve::items::Resultant::default()));
             self.record = was;
             self.unbalanced.clear();
-            t.vertical.into_iter().filter(|e| e.1 != 0.0).collect()
-        };
+            out.extend(t.vertical.into_iter().filter(|e| e.1 != 0.0));
+        }
         out.sort_unstable_by_key(|e| e.0);
+        // One entry per plate.
+        out.dedup_by(|later, first| {
+            let same = later.0 == first.0;
+            if same {
+                first.1 += later.1;
+            }
+            same
+        });
         out
     }
 
