@@ -426,100 +426,163 @@ struct Room {
     uplift: Vec<Option<f64>>,
 }
 
+/// What one combination needs at every grid point of one method pass.
+struct ComboPass {
+    c: usize,
+    gamma: f64,
+    room: Room,
+    shared_list: Vec<usize>,
+    a: Vec<[f64; 2]>,
+    scratch: BracedScratch,
+    bounds: BearerBounds,
+    notional_here: bool,
+    by_sign: Vec<[Best; 2]>,
+    least: Vec<f64>,
+}
+
+/// The least limit at every grid point of one method pass `m` over the combinations, before the
+/// deck's and the structure's own checks.
+fn pass_grid(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], m: usize, inf: &DeckInfluence, n_posts: usize) -> Vec<Best> {
+    let (rows, cols) = (inf.across.len(), inf.along.len());
+    let nk = inf.bearers.len();
+    let mut best = vec![Best::NONE; rows * cols];
+    // Plates that take brace forces from the notional load of the extra load: summed at each
+    // grid point below, with that load.
+    let braced = braced_plates(inf, groups, n_posts);
+    let vertically_shared = shared_posts(inf, n_posts);
+    let mut states = Vec::with_capacity(combos.len());
+    for &c in combos {
+        let comb = &analysis.combinations[c];
+        let gamma = comb.factors.q * settings.dynamic_factor;
+        if gamma <= 0.0 {
+            continue;
+        }
+        let room = room_of(analysis, m, c, n_posts);
+        let mut shared = vertically_shared.clone();
+        let notional_here = !braced.posts.is_empty();
+        let shared_list: Vec<usize> = (0..n_posts).filter(|&p| shared[p] && !(notional_here && braced.slot[p] != u32::MAX)).collect();
+        if notional_here {
+            for &p in &braced.posts {
+                shared[p as usize] = true;
+            }
+        }
+        // Per direction group, the factored notional share along x and y per kN placed
+        // (notional load is never reduced by ψ0), relative to γ·φ.
+        let a: Vec<[f64; 2]> = groups
+            .iter()
+            .map(|g| {
+                g.iter().fold([0.0; 2], |acc, t| {
+                    let f = comb.variable_factor(t.case) * t.share / comb.factors.q;
+                    [acc[0] + f * t.u[0], acc[1] + f * t.u[1]]
+                })
+            })
+            .collect();
+        let scratch = BracedScratch::new(&braced, &a, &room, n_posts);
+        let bounds = bearer_bounds(inf, &braced, &scratch, &room, &vertically_shared);
+        // Per bearer and column: the least ratio room / influence over the plates, for a
+        // positive and for a negative deck share, with what gave it.
+        let mut by_sign = vec![[Best::NONE; 2]; nk * cols];
+        for k in 0..nk {
+            for j in 0..cols {
+                let slot = &mut by_sign[k * cols + j];
+                for &(p, f) in &inf.flows[k][j] {
+                    if f.abs() < INFLUENCE_FLOOR || shared[p as usize] {
+                        continue;
+                    }
+                    for (sign, effect) in [(0usize, f), (1usize, -f)] {
+                        if let Some(b) = plate_limit(&room, p, effect, c, m) {
+                            slot[sign].take(b);
+                        }
+                    }
+                }
+            }
+        }
+        // The least ratio over the bearers of each column: no bearer can give less than that
+        // over its share, so bearers are taken largest share first and the rest skipped once
+        // their share cannot beat the value found.
+        let least: Vec<f64> = (0..cols).map(|j| (0..nk).flat_map(|k| by_sign[k * cols + j]).map(|b| b.kn).fold(f64::INFINITY, f64::min)).collect();
+        states.push(ComboPass { c, gamma, room, shared_list, a, scratch, bounds, notional_here, by_sign, least });
+    }
+    let mut shares: Vec<(usize, f64)> = Vec::with_capacity(nk);
+    let mut sums = NotionalSums::new(braced.posts.len());
+    for i in 0..rows {
+        shares.clear();
+        shares.extend(inf.d[i].iter().copied().enumerate().filter(|(_, dk)| dk.abs() >= INFLUENCE_FLOOR));
+        shares.sort_unstable_by(|a, b| b.1.abs().total_cmp(&a.1.abs()));
+        for j in 0..cols {
+            sums.clear();
+            for st in &mut states {
+                let c = st.c;
+                let mut here = Best::NONE;
+                for &(k, dk) in &shares {
+                    if st.least[j] / dk.abs() >= here.kn {
+                        break;
+                    }
+                    let b = st.by_sign[k * cols + j][if dk > 0.0 { 0 } else { 1 }];
+                    if b.kn.is_finite() {
+                        here.take(Best { kn: b.kn / dk.abs(), ..b });
+                    }
+                }
+                // Plates reached through more than one of the deck's bearers: summed here.
+                for &p in &st.shared_list {
+                    let c_p: f64 = (0..nk).map(|k| inf.d[i][k] * inf.flows[k][j].iter().filter(|e| e.0 as usize == p).map(|e| e.1).sum::<f64>()).sum();
+                    if c_p.abs() >= INFLUENCE_FLOOR {
+                        if let Some(b) = plate_limit(&st.room, p as u32, c_p, c, m) {
+                            here.take(b);
+                        }
+                    }
+                }
+                if st.notional_here {
+                    let at = BracedPoint { inf, braced: &braced, shares: &shares, i, j, c, m };
+                    braced_limits(&at, &mut st.scratch, &st.bounds, &st.a, &st.room, &mut sums, &mut here);
+                }
+                best[i * cols + j].take(Best { kn: here.kn / st.gamma, ..here });
+            }
+        }
+    }
+    best
+}
+
 fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], per_pass: &[DeckInfluence]) -> DeckSpare {
     let deck = &scene.decks[d];
     let n_posts = scene.posts.len();
     let groups = notional_groups(scene);
+    // Method passes are independent: worked out side by side, then taken in pass order (the
+    // least value, ties to the first, as one after the other would).
+    let workers = std::thread::available_parallelism().map_or(1, |n| n.get()).min(per_pass.len()).max(1);
+    let next = std::sync::atomic::AtomicUsize::new(0);
+    let mut per_grid: Vec<Option<Vec<Best>>> = vec![None; per_pass.len()];
+    std::thread::scope(|scope| {
+        let work = || {
+            let mut done = Vec::new();
+            loop {
+                let m = next.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+                if m >= per_pass.len() {
+                    return done;
+                }
+                done.push((m, pass_grid(analysis, settings, combos, &groups, m, &per_pass[m], n_posts)));
+            }
+        };
+        let helpers: Vec<_> = (1..workers).map(|_| scope.spawn(work)).collect();
+        for (m, g) in work() {
+            per_grid[m] = Some(g);
+        }
+        for h in helpers {
+            for (m, g) in h.join().expect("a map worker does not panic") {
+                per_grid[m] = Some(g);
+            }
+        }
+    });
     let mut grid: Option<Vec<Best>> = None;
     let mut shape = (0, 0);
-    for (m, inf) in per_pass.iter().enumerate() {
-        let (rows, cols) = (inf.across.len(), inf.along.len());
-        shape = (rows, cols);
-        let best = grid.get_or_insert_with(|| vec![Best::NONE; rows * cols]);
-        // Plates that take brace forces from the notional load of the extra load: summed at each
-        // grid point below, with that load.
-        let braced = braced_plates(inf, &groups, n_posts);
-        for &c in combos {
-            let comb = &analysis.combinations[c];
-            let gamma = comb.factors.q * settings.dynamic_factor;
-            if gamma <= 0.0 {
-                continue;
-            }
-            let room = room_of(analysis, m, c, n_posts);
-            let mut shared = shared_posts(&inf, n_posts);
-            let vertically_shared = shared.clone();
-            let notional_here = !braced.posts.is_empty();
-            let shared_list: Vec<usize> = (0..n_posts).filter(|&p| shared[p] && !(notional_here && braced.slot[p] != u32::MAX)).collect();
-            if notional_here {
-                for &p in &braced.posts {
-                    shared[p as usize] = true;
-                }
-            }
-            // Per direction group, the factored notional share along x and y per kN placed
-            // (notional load is never reduced by ψ0), relative to γ·φ.
-            let a: Vec<[f64; 2]> = groups
-                .iter()
-                .map(|g| {
-                    g.iter().fold([0.0; 2], |acc, t| {
-                        let f = comb.variable_factor(t.case) * t.share / comb.factors.q;
-                        [acc[0] + f * t.u[0], acc[1] + f * t.u[1]]
-                    })
-                })
-                .collect();
-            let mut scratch = BracedScratch::new(&braced, &a, &room, n_posts);
-            let bounds = bearer_bounds(inf, &braced, &scratch, &room, &vertically_shared);
-            // Per bearer and column: the least ratio room / influence over the plates, for a
-            // positive and for a negative deck share, with what gave it.
-            let nk = inf.bearers.len();
-            let mut by_sign = vec![[Best::NONE; 2]; nk * cols];
-            for k in 0..nk {
-                for j in 0..cols {
-                    let slot = &mut by_sign[k * cols + j];
-                    for &(p, f) in &inf.flows[k][j] {
-                        if f.abs() < INFLUENCE_FLOOR || shared[p as usize] {
-                            continue;
-                        }
-                        for (sign, effect) in [(0usize, f), (1usize, -f)] {
-                            if let Some(b) = plate_limit(&room, p, effect, c, m) {
-                                slot[sign].take(b);
-                            }
-                        }
-                    }
-                }
-            }
-            // The least ratio over the bearers of each column: no bearer can give less than that
-            // over its share, so bearers are taken largest share first and the rest skipped once
-            // their share cannot beat the value found.
-            let least: Vec<f64> = (0..cols).map(|j| (0..nk).flat_map(|k| by_sign[k * cols + j]).map(|b| b.kn).fold(f64::INFINITY, f64::min)).collect();
-            let mut shares: Vec<(usize, f64)> = Vec::with_capacity(nk);
-            for i in 0..rows {
-                shares.clear();
-                shares.extend(inf.d[i].iter().copied().enumerate().filter(|(_, dk)| dk.abs() >= INFLUENCE_FLOOR));
-                shares.sort_unstable_by(|a, b| b.1.abs().total_cmp(&a.1.abs()));
-                for j in 0..cols {
-                    let mut here = Best::NONE;
-                    for &(k, dk) in &shares {
-                        if least[j] / dk.abs() >= here.kn {
-                            break;
-                        }
-                        let b = by_sign[k * cols + j][if dk > 0.0 { 0 } else { 1 }];
-                        if b.kn.is_finite() {
-                            here.take(Best { kn: b.kn / dk.abs(), ..b });
-                        }
-                    }
-                    // Plates reached through more than one of the deck's bearers: summed here.
-                    for &p in &shared_list {
-                        let c_p: f64 = (0..nk).map(|k| inf.d[i][k] * inf.flows[k][j].iter().filter(|e| e.0 as usize == p).map(|e| e.1).sum::<f64>()).sum();
-                        if c_p.abs() >= INFLUENCE_FLOOR {
-                            if let Some(b) = plate_limit(&room, p as u32, c_p, c, m) {
-                                here.take(b);
-                            }
-                        }
-                    }
-                    if notional_here {
-                        braced_limits(inf, &braced, &mut scratch, &bounds, &shares, &a, &room, i, j, c, m, &mut here);
-                    }
-                    best[i * cols + j].take(Best { kn: here.kn / gamma, ..here });
+    for (m, g) in per_grid.into_iter().enumerate() {
+        let g = g.expect("every pass worked out");
+        shape = (per_pass[m].across.len(), per_pass[m].along.len());
+        match &mut grid {
+            None => grid = Some(g),
+            Some(all) => {
+                for (a, b) in all.iter_mut().zip(g) {
+                    a.take(b);
                 }
             }
         }
@@ -687,8 +750,13 @@ struct Braced {
     slot: Vec<u32>,
     most: Vec<[f64; 4]>,
     row_sum: Vec<f64>,
-    /// Per slot: the nodes that reach it, (bearer k, its n-th post, effect per axis and way).
+    /// Per slot: the nodes that reach it, (bearer k, node number, effect per axis and way);
+    /// nodes are numbered bearer after bearer, each bearer's posts in its order.
     nodes: Vec<Vec<(u32, u32, [f64; 4])>>,
+    /// Number of nodes.
+    node_count: usize,
+    /// Entry reactions by column and node: `entries[j · node_count + node]`.
+    entries: Vec<f64>,
 }
 
 fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usize) -> Braced {
@@ -697,7 +765,24 @@ fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usi
     let mut most: Vec<[f64; 4]> = Vec::new();
     let mut row_sum = Vec::new();
     let mut nodes: Vec<Vec<(u32, u32, [f64; 4])>> = Vec::new();
+    let mut node_count = 0;
+    let mut entries = Vec::new();
     if let (Some(n), false) = (&inf.notional, groups.is_empty()) {
+        let first: Vec<usize> = n.units.iter().scan(0, |acc, list| {
+            let at = *acc;
+            *acc += list.len();
+            Some(at)
+        }).collect();
+        node_count = n.units.iter().map(Vec::len).sum();
+        let cols = inf.along.len();
+        entries = vec![0.0; cols * node_count];
+        for (k, per_column) in n.entries.iter().enumerate() {
+            for (j, e) in per_column.iter().enumerate() {
+                let at = j * node_count + first[k];
+                let len = e.len().min(n.units[k].len());
+                entries[at..at + len].copy_from_slice(&e[..len]);
+            }
+        }
         // |Σₙ eₙ·Uₙ(p)| ≤ (most Σₙ |eₙ| of the bearer) × (most |Uₙ(p)| of its nodes).
         for (k, node_lists) in n.units.iter().enumerate() {
             let spread = n.entries[k].iter().map(|e| e.iter().map(|v| v.abs()).sum::<f64>()).fold(0.0, f64::max);
@@ -720,12 +805,13 @@ fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usi
                         let m = &mut most[sl][q];
                         *m = m.max((spread * v).abs());
                         let list = &mut nodes[sl];
+                        let node = (first[k] + n) as u32;
                         match list.last_mut() {
-                            Some(e) if e.0 == k as u32 && e.1 == n as u32 => e.2[q] = v,
+                            Some(e) if e.1 == node => e.2[q] = v,
                             _ => {
                                 let mut u = [0.0; 4];
                                 u[q] = v;
-                                list.push((k as u32, n as u32, u));
+                                list.push((k as u32, node, u));
                             }
                         }
                     }
@@ -734,7 +820,7 @@ fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usi
         }
         row_sum = n.d.iter().map(|row| row.iter().map(|v| v.abs()).sum()).collect();
     }
-    Braced { posts, slot, most, row_sum, nodes }
+    Braced { posts, slot, most, row_sum, nodes, node_count, entries }
 }
 
 /// Work space of [`braced_limits`] for one combination: per braced plate the vertical influence
@@ -774,18 +860,56 @@ fn notional_at(inf: &DeckInfluence, braced: &Braced, i: usize, j: usize, s: usiz
     let mut h = [0.0; 4];
     let Some(n) = &inf.notional else { return h };
     let d = &n.d[i];
+    let column = &braced.entries[j * braced.node_count..(j + 1) * braced.node_count];
     for &(k, node, u) in &braced.nodes[s] {
-        let dk = d[k as usize];
-        if dk == 0.0 {
+        let e = column[node as usize];
+        if e == 0.0 {
             continue;
         }
-        let Some(&e) = n.entries[k as usize][j].get(node as usize) else { continue };
-        let c = dk * e;
+        let c = d[k as usize] * e;
         for q in 0..4 {
             h[q] += c * u[q];
         }
     }
     h
+}
+
+/// A grid point of one method pass and combination, for [`braced_limits`].
+struct BracedPoint<'a> {
+    inf: &'a DeckInfluence,
+    braced: &'a Braced,
+    /// The deck shares of the point's row above the floor, largest first.
+    shares: &'a [(usize, f64)],
+    i: usize,
+    j: usize,
+    c: usize,
+    m: usize,
+}
+
+/// The notional sums worked out at one grid point (by slot), kept for the other combinations
+/// of the same point: they depend on the point and the method pass only.
+#[derive(Default)]
+struct NotionalSums {
+    /// Per slot: the point they were worked out at (`point`), and the sums.
+    at: Vec<(u64, [f64; 4])>,
+    point: u64,
+}
+
+impl NotionalSums {
+    fn new(slots: usize) -> Self {
+        NotionalSums { at: vec![(0, [0.0; 4]); slots], point: 0 }
+    }
+    /// Forget the sums: the next grid point.
+    fn clear(&mut self) {
+        self.point += 1;
+    }
+    fn get(&mut self, s: usize, work_out: impl FnOnce() -> [f64; 4]) -> [f64; 4] {
+        let e = &mut self.at[s];
+        if e.0 != self.point {
+            *e = (self.point, work_out());
+        }
+        e.1
+    }
 }
 
 /// Per braced plate reached through one bearer, bounds that let a whole bearer be skipped at a
@@ -796,6 +920,9 @@ struct BearerBounds {
     cols: usize,
     vertical: Vec<f64>,
     notional: Vec<f64>,
+    /// Per column, the least `vertical` of any bearer; the least `notional` of any bearer.
+    vertical_least: Vec<f64>,
+    notional_least: f64,
     /// Braced plates reached through more than one of the deck's bearers (by slot): summed whole.
     shared: Vec<u32>,
     /// Per slot: whether it is in `shared`.
@@ -843,7 +970,9 @@ fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, w: &BracedScratch, room: 
             }
         }
     }
-    BearerBounds { cols, vertical, notional, shared, is_shared }
+    let vertical_least = (0..cols).map(|j| (0..nk).map(|k| vertical[k * cols + j]).fold(f64::INFINITY, f64::min)).collect();
+    let notional_least = notional.iter().copied().fold(f64::INFINITY, f64::min);
+    BearerBounds { cols, vertical, notional, vertical_least, notional_least, shared, is_shared }
 }
 
 /// Limits at grid point (`i`, `j`) from the plates that take brace forces, per kN placed and
@@ -857,11 +986,12 @@ fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, w: &BracedScratch, room: 
 /// · notional bound) — cannot beat the value found; the plates no bearer reaches here take the
 /// notional load alone, in order of the least limit they could give.
 #[allow(clippy::too_many_arguments)]
-fn braced_limits(inf: &DeckInfluence, braced: &Braced, w: &mut BracedScratch, bounds: &BearerBounds, shares: &[(usize, f64)], a: &[[f64; 2]], room: &Room, i: usize, j: usize, c: usize, m: usize, here: &mut Best) {
+fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds, a: &[[f64; 2]], room: &Room, sums: &mut NotionalSums, here: &mut Best) {
+    let &BracedPoint { inf, braced, shares, i, j, c, m } = at;
     let spread = braced.row_sum[i];
-    let exact = |s: usize, r: f64, here: &mut Best| {
+    let mut exact = |s: usize, r: f64, here: &mut Best| {
         let p = braced.posts[s];
-        let h = notional_at(inf, braced, i, j, s);
+        let h = sums.get(s, || notional_at(inf, braced, i, j, s));
         let (mut down, mut up) = (0.0f64, 0.0f64);
         for g in a {
             for way in 0..2 {
@@ -883,7 +1013,7 @@ fn braced_limits(inf: &DeckInfluence, braced: &Braced, w: &mut BracedScratch, bo
             }
         }
     };
-    let consider = |s: usize, r: f64, here: &mut Best, w: &mut BracedScratch| {
+    let mut consider = |s: usize, r: f64, here: &mut Best, w: &mut BracedScratch| {
         if !w.seen[s] {
             w.seen[s] = true;
             w.touched.push(s as u32);
@@ -894,12 +1024,18 @@ fn braced_limits(inf: &DeckInfluence, braced: &Braced, w: &mut BracedScratch, bo
             exact(s, r, here);
         }
     };
-    // Plates reached through one bearer: r = d[i][k] · f.
-    for &(k, dk) in shares {
-        let v = bounds.vertical[k * bounds.cols + j];
-        let n = bounds.notional[k];
+    // Plates reached through one bearer: r = d[i][k] · f. Shares come largest first: once the
+    // bound of the least room of any bearer cannot beat the value found, none can.
+    let (v_least, n_least) = (bounds.vertical_least[j], bounds.notional_least);
+    let bound_of = |dk: f64, v: f64, n: f64| {
         let inv = if v.is_finite() { dk.abs() / v } else { 0.0 } + if n.is_finite() { spread / n } else { 0.0 };
-        if inv <= 0.0 || 1.0 / inv >= here.kn {
+        if inv <= 0.0 { f64::INFINITY } else { 1.0 / inv }
+    };
+    for &(k, dk) in shares {
+        if bound_of(dk, v_least, n_least) >= here.kn {
+            break;
+        }
+        if bound_of(dk, bounds.vertical[k * bounds.cols + j], bounds.notional[k]) >= here.kn {
             continue;
         }
         for &(p, f) in &inf.flows[k][j] {
