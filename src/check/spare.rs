@@ -687,10 +687,24 @@ struct TippingRoom {
 /// cover that.)
 fn tipping_room(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<TippingRoom> {
     let st = &analysis.stability;
-    let reached: std::collections::HashSet<u32> = per_pass.iter().flat_map(|inf| inf.flows.iter().flatten().flatten().filter(|e| e.1 != 0.0).map(|e| e.0)).collect();
+    let n = analysis.ground.plate_area_m2.len();
+    let mut reached = vec![false; n];
+    for e in per_pass.iter().flat_map(|inf| inf.flows.iter().flatten().flatten()) {
+        if e.1 != 0.0 {
+            reached[e.0 as usize] = true;
+        }
+    }
+    let any = reached.iter().any(|&r| r);
+    let mut in_structure = vec![false; n];
     st.structures
         .iter()
-        .filter(|s| !reached.is_empty() && reached.iter().all(|p| s.plates.contains(p)))
+        .filter(|s| {
+            in_structure.iter_mut().for_each(|v| *v = false);
+            for &p in &s.plates {
+                in_structure[p as usize] = true;
+            }
+            any && reached.iter().zip(&in_structure).all(|(&r, &i)| !r || i)
+        })
         .flat_map(|s| s.axes.iter())
         .map(|t| {
             let overturning = t.permanent_destabilising_knm + t.imposed_destabilising_knm + t.horizontal_destabilising_knm;

@@ -73,12 +73,12 @@ pub struct NotionalInfluence {
     /// `entries[k][j]`: the reactions of bearer `bearers[k]` at each of its posts (in its order)
     /// for its share of 1 at column `j` — the vertical load entering the posts there, on which
     /// the notional load acts; empty where the bearer takes nothing.
-    pub entries: Vec<Vec<Vec<f64>>>,
+    pub entries: std::sync::Arc<Vec<Vec<Vec<f64>>>>,
     /// `units[k][n][2·axis + way]`: effect at each plate (post, kN; by post) of 1 kN along plan
     /// axis `axis` (0 x, 1 y) at the node where bearer `bearers[k]` sits on its `n`-th post;
     /// way 0 the lever rule between braced planes, way 1 a rigid diaphragm (the same where the
     /// bracing gives one way).
-    pub units: Vec<Vec<[Vec<(u32, f64)>; 4]>>,
+    pub units: std::sync::Arc<Vec<Vec<[Vec<(u32, f64)>; 4]>>>,
 }
 
 impl DeckInfluence {
@@ -183,86 +183,114 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
     if !fails.is_empty() {
         return Err(net.describe(&fails));
     }
-    let mut primary = (!passes.iter().all(MethodPass::is_one_state)).then(|| Solver::new(model, &passes[0]));
-    let mut cache = crate::solve::arrangement::FlowCache::default();
-    let mut out = Vec::with_capacity(passes.len());
-    let all_spliced = (0..model.scene.posts.len()).all(|p| model.graph.spliced_base(p).is_some());
-    let mut routed_once: Option<Vec<Vec<[Vec<(u32, f64)>; 4]>>> = None;
-    let mut primary_entries: Option<(Vec<Vec<f64>>, Vec<Vec<Vec<f64>>>)> = None;
-    for pass in passes {
-        let mut s = Solver::new(model, pass);
-        s.flow_cache = std::mem::take(&mut cache);
-        let inf = s.deck_influence(deck, footprint, spacing);
-        let Some(mut inf) = inf else {
-            cache = std::mem::take(&mut s.flow_cache);
-            out.push(None);
-            continue;
-        };
-        // The unit responses routed to the plates in this pass: [k][node][2·axis + way]; the
-        // same in every pass where every post reaches its plate through splices alone.
-        let routed = match &routed_once {
-            Some(r) => r.clone(),
-            None => {
-                let r: Vec<Vec<[Vec<(u32, f64)>; 4]>> = raw
-                    .iter()
-                    .map(|per| {
-                        per.iter()
-                            .map(|both| {
-                                let mut four: [Vec<(u32, f64)>; 4] = Default::default();
-                                for axis in 0..2 {
-                                    for way in 0..2 {
-                                        let sets = &both[axis];
-                                        if let Some(set) = sets.get(way.min(sets.len().saturating_sub(1))) {
-                                            four[2 * axis + way] = s.to_plates(&set.vertical);
-                                        }
-                                    }
+    let (size_along, size_across) = match line.bearer_axis {
+        Axis::X => (footprint.x_m, footprint.y_m),
+        Axis::Y => (footprint.y_m, footprint.x_m),
+    };
+    // The unit responses routed to the plates: [k][node][2·axis + way].
+    let route = |s: &mut Solver| -> Vec<Vec<[Vec<(u32, f64)>; 4]>> {
+        raw.iter()
+            .map(|per| {
+                per.iter()
+                    .map(|both| {
+                        let mut four: [Vec<(u32, f64)>; 4] = Default::default();
+                        for axis in 0..2 {
+                            for way in 0..2 {
+                                let sets = &both[axis];
+                                if let Some(set) = sets.get(way.min(sets.len().saturating_sub(1))) {
+                                    four[2 * axis + way] = s.to_plates(&set.vertical);
                                 }
-                                four
-                            })
-                            .collect()
+                            }
+                        }
+                        four
                     })
-                    .collect();
-                if all_spliced {
-                    routed_once = Some(r.clone());
-                }
-                r
-            }
-        };
-        // Entry shares: this pass's, or the primary pass's where this pass is not one state (the
-        // same for every such pass).
-        let (size_along, size_across) = match line.bearer_axis {
-            Axis::X => (footprint.x_m, footprint.y_m),
-            Axis::Y => (footprint.y_m, footprint.x_m),
-        };
-        let own = pass.is_one_state();
-        let (d, entries) = match (&primary_entries, own) {
-            (Some(kept), false) => kept.clone(),
-            _ => {
-                let entry: &mut Solver = if own { &mut s } else { primary.as_mut().expect("made where a pass is not one state") };
-                let d = if own { inf.d.clone() } else { entry.deck_shares(deck, &inf.across, size_across, footprint) };
-                let mut entries = Vec::with_capacity(line.bearers.len());
-                for (k, &b) in line.bearers.iter().enumerate() {
-                    let used = d.iter().any(|row| row[k] != 0.0);
-                    let mut per_column = Vec::with_capacity(inf.along.len());
-                    for &a in &inf.along {
+                    .collect()
+            })
+            .collect()
+    };
+    // Entry reactions at each bearer's posts for its share of 1 at each column, with the deck
+    // shares `d` they go with.
+    let entries_of = |s: &mut Solver, d: &[Vec<f64>], along: &[f64]| -> Vec<Vec<Vec<f64>>> {
+        line.bearers
+            .iter()
+            .enumerate()
+            .map(|(k, &b)| {
+                let used = d.iter().any(|row| row[k] != 0.0);
+                along
+                    .iter()
+                    .map(|&a| {
                         let mut e = Vec::new();
                         if used {
-                            entry.bearer_entries(b, column_load(model, deck, b, a, size_along), &mut e);
+                            s.bearer_entries(b, column_load(model, deck, b, a, size_along), &mut e);
                         }
-                        per_column.push(e);
-                    }
-                    entries.push(per_column);
+                        e
+                    })
+                    .collect()
+            })
+            .collect()
+    };
+    // Where every post reaches its plate through splices alone the routing is the same in every
+    // pass; passes that are not one state take their notional load from the primary pass's
+    // entries, the same for each of them: both worked out once.
+    let all_spliced = (0..model.scene.posts.len()).all(|p| model.graph.spliced_base(p).is_some());
+    let routed_once = all_spliced.then(|| std::sync::Arc::new(route(&mut Solver::new(model, &passes[0]))));
+    let primary_entries = (!passes.iter().all(MethodPass::is_one_state)).then(|| {
+        let mut primary = Solver::new(model, &passes[0]);
+        let extent = model.scene.decks[deck].extent;
+        let (along_range, span_range) = line.split_rect(&extent);
+        let across = grid_positions(span_range, size_across, spacing);
+        let along = grid_positions(along_range, size_along, spacing);
+        let d = primary.deck_shares(deck, &across, size_across, footprint);
+        let entries = std::sync::Arc::new(entries_of(&mut primary, &d, &along));
+        (d, entries)
+    });
+    // One pass: its grid, flows and notional coefficients.
+    let one_pass = |pass: &MethodPass, cache: &mut crate::solve::arrangement::FlowCache| -> Option<DeckInfluence> {
+        let mut s = Solver::new(model, pass);
+        s.flow_cache = std::mem::take(cache);
+        let inf = s.deck_influence(deck, footprint, spacing);
+        let result = inf.map(|mut inf| {
+            let routed = routed_once.clone().unwrap_or_else(|| std::sync::Arc::new(route(&mut s)));
+            let (d, entries) = match (&primary_entries, pass.is_one_state()) {
+                (Some(kept), false) => kept.clone(),
+                _ => {
+                    let d = inf.d.clone();
+                    let entries = std::sync::Arc::new(entries_of(&mut s, &d, &inf.along));
+                    (d, entries)
                 }
-                if !own {
-                    primary_entries = Some((d.clone(), entries.clone()));
+            };
+            inf.notional = Some(NotionalInfluence { d, entries, units: routed });
+            inf
+        });
+        *cache = std::mem::take(&mut s.flow_cache);
+        result
+    };
+    // Passes are independent: worked out side by side, each worker keeping its own flow cache.
+    let workers = std::thread::available_parallelism().map_or(1, |n| n.get()).min(passes.len()).max(1);
+    let next = std::sync::atomic::AtomicUsize::new(0);
+    let mut out: Vec<Option<DeckInfluence>> = vec![None; passes.len()];
+    std::thread::scope(|scope| {
+        let work = || {
+            let mut cache = crate::solve::arrangement::FlowCache::default();
+            let mut done = Vec::new();
+            loop {
+                let m = next.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+                if m >= passes.len() {
+                    return done;
                 }
-                (d, entries)
+                done.push((m, one_pass(&passes[m], &mut cache)));
             }
         };
-        inf.notional = Some(NotionalInfluence { d, entries, units: routed });
-        cache = std::mem::take(&mut s.flow_cache);
-        out.push(Some(inf));
-    }
+        let helpers: Vec<_> = (1..workers).map(|_| scope.spawn(work)).collect();
+        for (m, inf) in work() {
+            out[m] = inf;
+        }
+        for h in helpers {
+            for (m, inf) in h.join().expect("an influence worker does not panic") {
+                out[m] = inf;
+            }
+        }
+    });
     Ok(out)
 }
 
