@@ -576,14 +576,16 @@ fn the_spare_map_says_how_it_takes_the_notional_load_of_the_extra_load() {
     let (_, scene) = crate::util::demo_scenes().into_iter().find(|(n, _)| n.starts_with("larkfield")).unwrap();
     let a = plateload::analyse(&scene).unwrap();
     let map = plateload::check::spare::spare_map(&scene, &a, &Default::default()).unwrap();
-    let words = map.not_included.as_deref().expect("the map always says what it leaves out");
-    assert!(words.contains("2.5 % of it") && words.contains("falsework rule") && words.contains("is included") && words.contains("sliding"), "{words}");
-    assert!(plateload::export::spare::spare_text(&map).contains("Not included: sliding"));
+    let words = map.notional.as_deref().expect("the scene has notional load");
+    assert!(words.contains("2.5 % of it") && words.contains("falsework rule") && words.contains("is included"), "{words}");
+    assert!(map.not_included.as_deref().expect("the map always says what it leaves out").contains("sliding"));
+    let text = plateload::export::spare::spare_text(&map);
+    assert!(text.contains("Not included: sliding") && text.contains("Notional load: the notional horizontal load"), "{text}");
     let mut off = scene.clone();
     off.horizontal.notional = plateload::scene::model::NotionalRule::Off;
     let a = plateload::analyse(&off).unwrap();
-    let words = plateload::check::spare::spare_map(&off, &a, &Default::default()).unwrap().not_included.unwrap();
-    assert!(words.contains("sliding") && !words.contains("notional"), "{words}");
+    let map = plateload::check::spare::spare_map(&off, &a, &Default::default()).unwrap();
+    assert!(map.notional.is_none() && !map.not_included.unwrap().contains("notional"));
 }
 
 #[test]

@@ -151,10 +151,12 @@ pub struct SpareMap {
     pub decks: Vec<DeckSpare>,
     /// Members whose own strength is not checked by the map (no capacity is known for them).
     pub not_checked: Vec<String>,
-    /// What the map leaves out of what the extra load would bring, or takes on the safe side, in
-    /// words: sliding of the plates is not checked; the notional horizontal load the extra load
-    /// brings, and the brace forces that puts into plates, are included, as said there.
+    /// What the map leaves out of what the extra load would bring, in words: sliding of the
+    /// plates.
     pub not_included: Option<String>,
+    /// How the map takes the notional horizontal load the extra load itself brings, in words, where
+    /// the scene has notional load.
+    pub notional: Option<String>,
 }
 
 /// The influence coefficients behind a map, per deck and method pass. They depend on the
@@ -296,7 +298,7 @@ pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettin
     }
     let mut not_checked: Vec<String> = scene.bearers.iter().map(|b| format!("{} {}", role_word(b.role), b.id)).collect();
     not_checked.extend(scene.decks.iter().filter(|d| deck_class(scene, d).is_none()).map(|d| format!("deck {}", d.id)));
-    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked, not_included: not_included(scene) })
+    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked, not_included: not_included(), notional: notional_words(scene) })
 }
 
 /// One notional load the extra load brings: its plan direction (unit x, y), its share of the
@@ -359,17 +361,21 @@ fn notional_groups(scene: &Scene) -> Vec<Vec<NotionalTerm>> {
     groups.into_iter().map(|g| g.1).filter(|g| !g.is_empty()).collect()
 }
 
-/// What the map leaves out or bounds, in words.
-fn not_included(scene: &Scene) -> Option<String> {
+/// What the map leaves out, in words.
+fn not_included() -> Option<String> {
+    Some("sliding of the plates (check it with the load added to the scene)".to_owned())
+}
+
+/// How the map takes the notional load of the extra load, in words.
+fn notional_words(scene: &Scene) -> Option<String> {
     let groups = notional_groups(scene);
-    let sliding = "sliding of the plates (check it with the load added to the scene)";
     if groups.is_empty() {
-        return Some(sliding.to_owned());
+        return None;
     }
     let most = groups.iter().map(|g| g.iter().map(|t| t.share).sum::<f64>()).fold(0.0, f64::max);
     let bound = scene.horizontal.notional == crate::scene::model::NotionalRule::Falsework && !scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. }));
     Some(format!(
-        "{sliding}. The notional horizontal load the extra load itself brings ({} % of it{}) is included, with the brace forces it puts into the plates, in the worst direction; where the worst direction for the loads already there is another one, the two are added as if in one direction (on the safe side)",
+        "the notional horizontal load the extra load itself brings ({} % of it{}) is included, with the brace forces it puts into the plates, in its worst direction even where another direction governs the loads already there, and not counted where it would help (on the safe side)",
         crate::format::num(100.0 * most),
         if bound { ", the most the falsework rule adds" } else { "" }
     ))
