@@ -570,20 +570,22 @@ fn every_output_says_where_horizontal_load_goes() {
 }
 
 #[test]
-fn the_spare_map_says_it_leaves_out_the_notional_load_of_the_extra_load() {
-    // The influence coefficients carry vertical load only; the notional load an extra load brings
-    // (2.5 % of it by the falsework rule, BS 5975 cl. 19) would put brace forces into the plates
-    // of braced bays. The map must say so rather than look complete.
+fn the_spare_map_says_how_it_takes_the_notional_load_of_the_extra_load() {
+    // The notional load an extra load brings (at most 2.5 % of it by the falsework rule, BS 5975
+    // cl. 19) is in the map with its brace forces; the map says so, and that sliding is not in it.
     let (_, scene) = crate::util::demo_scenes().into_iter().find(|(n, _)| n.starts_with("larkfield")).unwrap();
     let a = plateload::analyse(&scene).unwrap();
     let map = plateload::check::spare::spare_map(&scene, &a, &Default::default()).unwrap();
-    let words = map.not_included.as_deref().expect("larkfield has notional load and braced bays");
-    assert!(words.contains("2.5 %") && words.contains("A1"), "{words}");
-    assert!(plateload::export::spare::spare_text(&map).contains("Not included: the notional horizontal load"));
+    let words = map.notional.as_deref().expect("the scene has notional load");
+    assert!(words.contains("2.5 % of it") && words.contains("falsework rule") && words.contains("is included"), "{words}");
+    assert!(map.not_included.as_deref().expect("the map always says what it leaves out").contains("sliding"));
+    let text = plateload::export::spare::spare_text(&map);
+    assert!(text.contains("Not included: sliding") && text.contains("Notional load: the notional horizontal load"), "{text}");
     let mut off = scene.clone();
     off.horizontal.notional = plateload::scene::model::NotionalRule::Off;
     let a = plateload::analyse(&off).unwrap();
-    assert_eq!(plateload::check::spare::spare_map(&off, &a, &Default::default()).unwrap().not_included, None);
+    let map = plateload::check::spare::spare_map(&off, &a, &Default::default()).unwrap();
+    assert!(map.notional.is_none() && !map.not_included.unwrap().contains("notional"));
 }
 
 #[test]

@@ -14,7 +14,8 @@
 use crate::check::analysis::Analysis;
 use crate::scene::loads::{Intensity, LoadClass, LoadKind};
 use crate::scene::model::Scene;
-use crate::solve::influence::{deck_influences, DeckInfluence, Footprint};
+use crate::scene::loads::Case;
+use crate::solve::influence::{deck_influences, deck_influences_notional, DeckInfluence, Footprint};
 
 /// Influence coefficients smaller than this (kN per kN) are rounding, not load: a plate far along
 /// a continuous member gets 1e-12 of a load, which must not let an over-capacity plate there
@@ -150,9 +151,12 @@ pub struct SpareMap {
     pub decks: Vec<DeckSpare>,
     /// Members whose own strength is not checked by the map (no capacity is known for them).
     pub not_checked: Vec<String>,
-    /// What the extra load would bring that the map leaves out, in words, if anything: the
-    /// notional horizontal load it adds and the brace forces that puts into plates.
+    /// What the map leaves out of what the extra load would bring, in words: sliding of the
+    /// plates.
     pub not_included: Option<String>,
+    /// How the map takes the notional horizontal load the extra load itself brings, in words, where
+    /// the scene has notional load.
+    pub notional: Option<String>,
 }
 
 /// The influence coefficients behind a map, per deck and method pass. They depend on the
@@ -166,6 +170,8 @@ pub struct SpareInfluences {
     methods: Vec<String>,
     /// Per deck in scene order: per method pass, or `None` where the footprint does not fit.
     decks: Vec<Option<Vec<DeckInfluence>>>,
+    /// The plan axes (x, y) the notional load of the extra load was worked out along.
+    notional_axes: [bool; 2],
 }
 
 impl SpareInfluences {
@@ -216,17 +222,35 @@ pub fn spare_influences(scene: &Scene, analysis: &Analysis, settings: &SpareSett
     checked(scene, analysis, settings)?;
     let model = crate::validate(scene).map_err(|e| SpareError::Setting(e.to_string()))?;
     let passes: Vec<crate::solve::MethodPass> = (0..analysis.method_count()).map(|m| analysis.method(m).clone()).collect();
-    let decks = (0..scene.decks.len())
-        .map(|d| {
-            let wanted = settings.decks.is_empty() || settings.decks.contains(&scene.decks[d].id);
-            wanted.then(|| deck_influences(&model, &passes, d, settings.footprint, settings.spacing_m).into_iter().collect::<Option<Vec<_>>>()).flatten()
-        })
-        .collect();
+    let groups = notional_groups(scene);
+    let with_notional = !groups.is_empty();
+    let axes = [0, 1].map(|a| groups.iter().flatten().any(|t| t.u[a].abs() > 1e-12));
+    let mut decks = Vec::with_capacity(scene.decks.len());
+    for d in 0..scene.decks.len() {
+        let wanted = settings.decks.is_empty() || settings.decks.contains(&scene.decks[d].id);
+        if !wanted {
+            decks.push(None);
+            continue;
+        }
+        let per_pass = if with_notional {
+            deck_influences_notional(&model, &passes, d, settings.footprint, settings.spacing_m, axes).map_err(|reasons| {
+                SpareError::Setting(format!(
+                    "a load placed on deck {} brings notional horizontal load that the bracing cannot carry to the ground: {}",
+                    scene.decks[d].id,
+                    reasons.join("; ")
+                ))
+            })?
+        } else {
+            deck_influences(&model, &passes, d, settings.footprint, settings.spacing_m)
+        };
+        decks.push(per_pass.into_iter().collect::<Option<Vec<_>>>());
+    }
     Ok(SpareInfluences {
         footprint: settings.footprint,
         spacing_m: settings.spacing_m,
         methods: (0..analysis.method_count()).map(|m| analysis.method_label(m).to_owned()).collect(),
         decks,
+        notional_axes: axes,
     })
 }
 
@@ -240,6 +264,14 @@ pub fn spare_map(scene: &Scene, analysis: &Analysis, settings: &SpareSettings) -
 /// footprint and grid ([`spare_influences`]): what is left to do after an edit of loads alone.
 pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettings, influences: &SpareInfluences) -> Result<SpareMap, SpareError> {
     let combos = checked(scene, analysis, settings)?;
+    // Coefficients worked out without the notional load now asked for (a changed rule or
+    // direction): worked out again here rather than left out.
+    let groups = notional_groups(scene);
+    let axes = [0, 1].map(|a| groups.iter().flatten().any(|t| t.u[a].abs() > 1e-12));
+    if (axes[0] && !influences.notional_axes[0]) || (axes[1] && !influences.notional_axes[1]) {
+        let fresh = spare_influences(scene, analysis, settings)?;
+        return spare_map_from(scene, analysis, settings, &fresh);
+    }
     let fp = settings.footprint;
     if !influences.fits(analysis, settings) || influences.decks.len() != scene.decks.len() {
         return Err(SpareError::Setting("the influence coefficients are for another structure, footprint or grid: work them out again".into()));
@@ -266,34 +298,86 @@ pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettin
     }
     let mut not_checked: Vec<String> = scene.bearers.iter().map(|b| format!("{} {}", role_word(b.role), b.id)).collect();
     not_checked.extend(scene.decks.iter().filter(|d| deck_class(scene, d).is_none()).map(|d| format!("deck {}", d.id)));
-    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked, not_included: notional_left_out(scene, analysis) })
+    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked, not_included: not_included(), notional: notional_words(scene) })
 }
 
-/// The notional horizontal load an extra vertical load brings is not in the influence
-/// coefficients (they carry vertical load only): where the scene has notional load and some
-/// plate takes brace forces, say so, with those plates.
-fn notional_left_out(scene: &Scene, analysis: &Analysis) -> Option<String> {
+/// One notional load the extra load brings: its plan direction (unit x, y), its share of the
+/// vertical load (kN per kN) and the case whose factor it takes.
+#[derive(Debug, Clone, Copy)]
+struct NotionalTerm {
+    u: [f64; 2],
+    share: f64,
+    case: Case,
+}
+
+/// Direction key in hundredths of a degree, as the combinations group directions.
+fn direction_key(u: (f64, f64)) -> i64 {
+    let deg = u.1.atan2(u.0).to_degrees().rem_euclid(360.0);
+    ((deg * 100.0).round() as i64) % 36_000
+}
+
+/// The notional loads an extra imposed load brings, grouped by plan direction as the combinations
+/// take them (one direction at a time): the scene's own notional loads whose basis includes
+/// imposed load, or else the scene's rule in each checked direction and each wind direction. The
+/// falsework rule (the greater of 2.5 % of the vertical load and wind + 1 %) grows by at most
+/// 2.5 % of an extra load: that is taken.
+fn notional_groups(scene: &Scene) -> Vec<Vec<NotionalTerm>> {
     use crate::scene::model::NotionalRule;
-    let explicit = scene.loads.iter().find_map(|l| match l.kind {
-        LoadKind::Notional { percent, ref basis, .. } if basis.contains(&crate::scene::loads::Case::Q) => Some(percent),
-        _ => None,
-    });
-    let has_explicit = scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. }));
-    let percent = match (explicit, has_explicit, scene.horizontal.notional) {
-        (Some(p), _, _) => p,
-        (None, true, _) | (None, false, NotionalRule::Off) => return None,
-        (None, false, NotionalRule::Percent(p)) => p,
-        // source: BS 5975:2008+A1:2011 cl. 19 — the falsework rule is at most 2.5 % of the vertical load
-        (None, false, NotionalRule::Falsework) => 2.5,
+    let mut groups: Vec<(i64, Vec<NotionalTerm>)> = Vec::new();
+    let mut add = |d: crate::scene::loads::PlanDirection, term: Option<(f64, Case)>| {
+        let u = d.unit();
+        let key = direction_key(u);
+        let at = match groups.iter().position(|g| g.0 == key) {
+            Some(i) => i,
+            None => {
+                groups.push((key, Vec::new()));
+                groups.len() - 1
+            }
+        };
+        if let Some((share, case)) = term.filter(|t| t.0 > 0.0) {
+            groups[at].1.push(NotionalTerm { u: [u.0, u.1], share, case });
+        }
     };
-    let braced: Vec<&str> = analysis.plates.iter().filter(|p| p.brace.max_kn > 5e-10 || p.brace.min_kn < -5e-10).map(|p| p.id.as_str()).collect();
-    if braced.is_empty() || percent <= 0.0 {
+    if scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. })) {
+        for l in &scene.loads {
+            if let LoadKind::Notional { percent, direction, ref basis } = l.kind {
+                add(direction, basis.contains(&Case::Q).then_some((percent / 100.0, l.case)));
+            }
+        }
+    } else {
+        let share = match scene.horizontal.notional {
+            NotionalRule::Off => return Vec::new(),
+            NotionalRule::Percent(p) => p / 100.0,
+            NotionalRule::Falsework => crate::solve::braced::FALSEWORK_PERCENT / 100.0,
+        };
+        let winds = scene.loads.iter().filter_map(|l| match l.kind {
+            LoadKind::Wind { direction, .. } => Some(direction),
+            _ => None,
+        });
+        for d in scene.horizontal.directions.iter().copied().chain(winds) {
+            add(d, Some((share, Case::W)));
+        }
+    }
+    groups.into_iter().map(|g| g.1).filter(|g| !g.is_empty()).collect()
+}
+
+/// What the map leaves out, in words.
+fn not_included() -> Option<String> {
+    Some("sliding of the plates (check it with the load added to the scene)".to_owned())
+}
+
+/// How the map takes the notional load of the extra load, in words.
+fn notional_words(scene: &Scene) -> Option<String> {
+    let groups = notional_groups(scene);
+    if groups.is_empty() {
         return None;
     }
-    let shown = if braced.len() > 12 { format!("{} and {} more", braced[..12].join(", "), braced.len() - 12) } else { braced.join(", ") };
+    let most = groups.iter().map(|g| g.iter().map(|t| t.share).sum::<f64>()).fold(0.0, f64::max);
+    let bound = scene.horizontal.notional == crate::scene::model::NotionalRule::Falsework && !scene.loads.iter().any(|l| matches!(l.kind, LoadKind::Notional { .. }));
     Some(format!(
-        "the notional horizontal load the extra load itself brings (up to {} % of it) and the brace forces that puts into the plates of braced bays ({shown}); keep a margin at those plates, or add the load to the scene and solve it",
-        crate::format::num(percent)
+        "the notional horizontal load the extra load itself brings ({} % of it{}) is included, with the brace forces it puts into the plates, in its worst direction even where another direction governs the loads already there, and not counted where it would help (on the safe side)",
+        crate::format::num(100.0 * most),
+        if bound { ", the most the falsework rule adds" } else { "" }
     ))
 }
 
@@ -348,73 +432,163 @@ struct Room {
     uplift: Vec<Option<f64>>,
 }
 
-fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], per_pass: &[DeckInfluence]) -> DeckSpare {
-    let deck = &scene.decks[d];
-    let n_posts = scene.posts.len();
-    let mut grid: Option<Vec<Best>> = None;
-    let mut shape = (0, 0);
-    for (m, inf) in per_pass.iter().enumerate() {
-        let (rows, cols) = (inf.across.len(), inf.along.len());
-        shape = (rows, cols);
-        let best = grid.get_or_insert_with(|| vec![Best::NONE; rows * cols]);
-        for &c in combos {
-            let comb = &analysis.combinations[c];
-            let gamma = comb.factors.q * settings.dynamic_factor;
-            if gamma <= 0.0 {
-                continue;
+/// What one combination needs at every grid point of one method pass.
+struct ComboPass {
+    c: usize,
+    gamma: f64,
+    room: Room,
+    shared_list: Vec<usize>,
+    a: Vec<[f64; 2]>,
+    scratch: BracedScratch,
+    bounds: BearerBounds,
+    notional_here: bool,
+    by_sign: Vec<[Best; 2]>,
+    least: Vec<f64>,
+}
+
+/// The least limit at every grid point of one method pass `m` over the combinations, before the
+/// deck's and the structure's own checks.
+fn pass_grid(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], m: usize, inf: &DeckInfluence, n_posts: usize) -> Vec<Best> {
+    let (rows, cols) = (inf.across.len(), inf.along.len());
+    let nk = inf.bearers.len();
+    let mut best = vec![Best::NONE; rows * cols];
+    // Plates that take brace forces from the notional load of the extra load: summed at each
+    // grid point below, with that load.
+    let braced = braced_plates(inf, groups, n_posts);
+    let vertically_shared = shared_posts(inf, n_posts);
+    let mut states = Vec::with_capacity(combos.len());
+    for &c in combos {
+        let comb = &analysis.combinations[c];
+        let gamma = comb.factors.q * settings.dynamic_factor;
+        if gamma <= 0.0 {
+            continue;
+        }
+        let room = room_of(analysis, m, c, n_posts);
+        let mut shared = vertically_shared.clone();
+        let notional_here = !braced.posts.is_empty();
+        let shared_list: Vec<usize> = (0..n_posts).filter(|&p| shared[p] && !(notional_here && braced.slot[p] != u32::MAX)).collect();
+        if notional_here {
+            for &p in &braced.posts {
+                shared[p as usize] = true;
             }
-            let room = room_of(analysis, m, c, n_posts);
-            let shared = shared_posts(&inf, n_posts);
-            let shared_list: Vec<usize> = (0..n_posts).filter(|&p| shared[p]).collect();
-            // Per bearer and column: the least ratio room / influence over the plates, for a
-            // positive and for a negative deck share, with what gave it.
-            let nk = inf.bearers.len();
-            let mut by_sign = vec![[Best::NONE; 2]; nk * cols];
-            for k in 0..nk {
-                for j in 0..cols {
-                    let slot = &mut by_sign[k * cols + j];
-                    for &(p, f) in &inf.flows[k][j] {
-                        if f.abs() < INFLUENCE_FLOOR || shared[p as usize] {
-                            continue;
-                        }
-                        for (sign, effect) in [(0usize, f), (1usize, -f)] {
-                            if let Some(b) = plate_limit(&room, p, effect, c, m) {
-                                slot[sign].take(b);
-                            }
+        }
+        // Per direction group, the factored notional share along x and y per kN placed
+        // (notional load is never reduced by ψ0), relative to γ·φ.
+        let a: Vec<[f64; 2]> = groups
+            .iter()
+            .map(|g| {
+                g.iter().fold([0.0; 2], |acc, t| {
+                    let f = comb.variable_factor(t.case) * t.share / comb.factors.q;
+                    [acc[0] + f * t.u[0], acc[1] + f * t.u[1]]
+                })
+            })
+            .collect();
+        let scratch = BracedScratch::new(&braced, &a, &room, n_posts);
+        let bounds = bearer_bounds(inf, &braced, &scratch, &room, &vertically_shared);
+        // Per bearer and column: the least ratio room / influence over the plates, for a
+        // positive and for a negative deck share, with what gave it.
+        let mut by_sign = vec![[Best::NONE; 2]; nk * cols];
+        for k in 0..nk {
+            for j in 0..cols {
+                let slot = &mut by_sign[k * cols + j];
+                for &(p, f) in &inf.flows[k][j] {
+                    if f.abs() < INFLUENCE_FLOOR || shared[p as usize] {
+                        continue;
+                    }
+                    for (sign, effect) in [(0usize, f), (1usize, -f)] {
+                        if let Some(b) = plate_limit(&room, p, effect, c, m) {
+                            slot[sign].take(b);
                         }
                     }
                 }
             }
-            // The least ratio over the bearers of each column: no bearer can give less than that
-            // over its share, so bearers are taken largest share first and the rest skipped once
-            // their share cannot beat the value found.
-            let least: Vec<f64> = (0..cols).map(|j| (0..nk).flat_map(|k| by_sign[k * cols + j]).map(|b| b.kn).fold(f64::INFINITY, f64::min)).collect();
-            let mut shares: Vec<(usize, f64)> = Vec::with_capacity(nk);
-            for i in 0..rows {
-                shares.clear();
-                shares.extend(inf.d[i].iter().copied().enumerate().filter(|(_, dk)| dk.abs() >= INFLUENCE_FLOOR));
-                shares.sort_unstable_by(|a, b| b.1.abs().total_cmp(&a.1.abs()));
-                for j in 0..cols {
-                    let mut here = Best::NONE;
-                    for &(k, dk) in &shares {
-                        if least[j] / dk.abs() >= here.kn {
-                            break;
-                        }
-                        let b = by_sign[k * cols + j][if dk > 0.0 { 0 } else { 1 }];
-                        if b.kn.is_finite() {
-                            here.take(Best { kn: b.kn / dk.abs(), ..b });
+        }
+        // The least ratio over the bearers of each column: no bearer can give less than that
+        // over its share, so bearers are taken largest share first and the rest skipped once
+        // their share cannot beat the value found.
+        let least: Vec<f64> = (0..cols).map(|j| (0..nk).flat_map(|k| by_sign[k * cols + j]).map(|b| b.kn).fold(f64::INFINITY, f64::min)).collect();
+        states.push(ComboPass { c, gamma, room, shared_list, a, scratch, bounds, notional_here, by_sign, least });
+    }
+    let mut shares: Vec<(usize, f64)> = Vec::with_capacity(nk);
+    let mut sums = NotionalSums::new(braced.posts.len());
+    for i in 0..rows {
+        shares.clear();
+        shares.extend(inf.d[i].iter().copied().enumerate().filter(|(_, dk)| dk.abs() >= INFLUENCE_FLOOR));
+        shares.sort_unstable_by(|a, b| b.1.abs().total_cmp(&a.1.abs()));
+        for j in 0..cols {
+            sums.clear();
+            for st in &mut states {
+                let c = st.c;
+                let mut here = Best::NONE;
+                for &(k, dk) in &shares {
+                    if st.least[j] / dk.abs() >= here.kn {
+                        break;
+                    }
+                    let b = st.by_sign[k * cols + j][if dk > 0.0 { 0 } else { 1 }];
+                    if b.kn.is_finite() {
+                        here.take(Best { kn: b.kn / dk.abs(), ..b });
+                    }
+                }
+                // Plates reached through more than one of the deck's bearers: summed here.
+                for &p in &st.shared_list {
+                    let c_p: f64 = (0..nk).map(|k| inf.d[i][k] * inf.flows[k][j].iter().filter(|e| e.0 as usize == p).map(|e| e.1).sum::<f64>()).sum();
+                    if c_p.abs() >= INFLUENCE_FLOOR {
+                        if let Some(b) = plate_limit(&st.room, p as u32, c_p, c, m) {
+                            here.take(b);
                         }
                     }
-                    // Plates reached through more than one of the deck's bearers: summed here.
-                    for &p in &shared_list {
-                        let c_p: f64 = (0..nk).map(|k| inf.d[i][k] * inf.flows[k][j].iter().filter(|e| e.0 as usize == p).map(|e| e.1).sum::<f64>()).sum();
-                        if c_p.abs() >= INFLUENCE_FLOOR {
-                            if let Some(b) = plate_limit(&room, p as u32, c_p, c, m) {
-                                here.take(b);
-                            }
-                        }
-                    }
-                    best[i * cols + j].take(Best { kn: here.kn / gamma, ..here });
+                }
+                if st.notional_here {
+                    let at = BracedPoint { inf, braced: &braced, shares: &shares, i, j, c, m };
+                    braced_limits(&at, &mut st.scratch, &st.bounds, &st.a, &st.room, &mut sums, &mut here);
+                }
+                best[i * cols + j].take(Best { kn: here.kn / st.gamma, ..here });
+            }
+        }
+    }
+    best
+}
+
+fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], per_pass: &[DeckInfluence]) -> DeckSpare {
+    let deck = &scene.decks[d];
+    let n_posts = scene.posts.len();
+    let groups = notional_groups(scene);
+    // Method passes are independent: worked out side by side, then taken in pass order (the
+    // least value, ties to the first, as one after the other would).
+    let workers = std::thread::available_parallelism().map_or(1, |n| n.get()).min(per_pass.len()).max(1);
+    let next = std::sync::atomic::AtomicUsize::new(0);
+    let mut per_grid: Vec<Option<Vec<Best>>> = vec![None; per_pass.len()];
+    std::thread::scope(|scope| {
+        let work = || {
+            let mut done = Vec::new();
+            loop {
+                let m = next.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+                if m >= per_pass.len() {
+                    return done;
+                }
+                done.push((m, pass_grid(analysis, settings, combos, &groups, m, &per_pass[m], n_posts)));
+            }
+        };
+        let helpers: Vec<_> = (1..workers).map(|_| scope.spawn(work)).collect();
+        for (m, g) in work() {
+            per_grid[m] = Some(g);
+        }
+        for h in helpers {
+            for (m, g) in h.join().expect("a map worker does not panic") {
+                per_grid[m] = Some(g);
+            }
+        }
+    });
+    let mut grid: Option<Vec<Best>> = None;
+    let mut shape = (0, 0);
+    for (m, g) in per_grid.into_iter().enumerate() {
+        let g = g.expect("every pass worked out");
+        shape = (per_pass[m].across.len(), per_pass[m].along.len());
+        match &mut grid {
+            None => grid = Some(g),
+            Some(all) => {
+                for (a, b) in all.iter_mut().zip(g) {
+                    a.take(b);
                 }
             }
         }
@@ -425,6 +599,13 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     // The deck's own capacity under the footprint: the most its load class allows there, less
     // the imposed load already on it.
     let tipping = tipping_room(analysis, per_pass);
+    let equ = analysis.stability.equilibrium;
+    let equ_factor = |case: Case| match case {
+        Case::G => equ.g_unfavourable,
+        Case::Q => equ.q,
+        Case::W => equ.w,
+    };
+    let entry_level = per_pass[0].bearers.iter().map(|&b| scene.bearers[b].level).fold(deck.level, f64::max);
     let class = deck_class(scene, deck).and_then(LoadClass::get);
     let models = class.map(|c| class_models(c, settings.footprint)).unwrap_or_default();
     let mut points = Vec::with_capacity(rows * cols);
@@ -446,13 +627,25 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
             let mut already = b.already;
             // Overturning: a load beyond an axis of the structure under the deck adds its moment
             // there (an imposed load never restores), in both forms.
+            // The notional load the extra load brings acts where it enters the posts (at the
+            // deck's bearers) and turns the structure too, in its worst direction: by its share
+            // along the axis's normal times its height above the axis.
             for t in &tipping {
                 let lever = (x - t.point[0]) * t.normal[0] + (y - t.point[1]) * t.normal[1];
-                if lever <= 0.0 {
-                    continue;
-                }
-                for (room, gamma, form) in [(t.factor_room, 1.0, "factor of safety"), (t.equ_room, t.equ_gamma, "EQU")] {
-                    let kn_here = room.max(0.0) / (gamma * settings.dynamic_factor * lever);
+                let rise = (entry_level - t.point[2]).max(0.0);
+                let sideways = |equ: bool| {
+                    groups
+                        .iter()
+                        .map(|g| g.iter().map(|n| n.share * (n.u[0] * t.normal[0] + n.u[1] * t.normal[1]) * if equ { equ_factor(n.case) } else { 1.0 }).sum::<f64>())
+                        .fold(0.0, f64::max)
+                        * rise
+                };
+                for (room, gamma, form, equ) in [(t.factor_room, 1.0, "factor of safety", false), (t.equ_room, t.equ_gamma, "EQU", true)] {
+                    let arm = gamma * lever.max(0.0) + sideways(equ);
+                    if arm <= 0.0 {
+                        continue;
+                    }
+                    let kn_here = room.max(0.0) / (settings.dynamic_factor * arm);
                     if kn_here < kn {
                         kn = kn_here;
                         already = room <= 0.0;
@@ -500,10 +693,24 @@ struct TippingRoom {
 /// cover that.)
 fn tipping_room(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<TippingRoom> {
     let st = &analysis.stability;
-    let reached: std::collections::HashSet<u32> = per_pass.iter().flat_map(|inf| inf.flows.iter().flatten().flatten().filter(|e| e.1 != 0.0).map(|e| e.0)).collect();
+    let n = analysis.ground.plate_area_m2.len();
+    let mut reached = vec![false; n];
+    for e in per_pass.iter().flat_map(|inf| inf.flows.iter().flatten().flatten()) {
+        if e.1 != 0.0 {
+            reached[e.0 as usize] = true;
+        }
+    }
+    let any = reached.iter().any(|&r| r);
+    let mut in_structure = vec![false; n];
     st.structures
         .iter()
-        .filter(|s| !reached.is_empty() && reached.iter().all(|p| s.plates.contains(p)))
+        .filter(|s| {
+            in_structure.iter_mut().for_each(|v| *v = false);
+            for &p in &s.plates {
+                in_structure[p as usize] = true;
+            }
+            any && reached.iter().zip(&in_structure).all(|(&r, &i)| !r || i)
+        })
         .flat_map(|s| s.axes.iter())
         .map(|t| {
             let overturning = t.permanent_destabilising_knm + t.imposed_destabilising_knm + t.horizontal_destabilising_knm;
@@ -551,6 +758,335 @@ fn room_of(analysis: &Analysis, m: usize, c: usize, n_posts: usize) -> Room {
         }
     }
     room
+}
+
+/// The plates that take brace forces from the notional load of a load on the deck, with a slot
+/// each; per slot the largest brace effect of any of the deck's bearers and columns, per axis
+/// and diaphragm assumption (`2·axis + way`); per row of the grid Σₖ |d[i][k]| of the notional
+/// deck shares.
+struct Braced {
+    posts: Vec<u32>,
+    /// Slot of each post, `u32::MAX` where it takes none.
+    slot: Vec<u32>,
+    most: Vec<[f64; 4]>,
+    row_sum: Vec<f64>,
+    /// Per slot: the nodes that reach it, (bearer k, node number, effect per axis and way);
+    /// nodes are numbered bearer after bearer, each bearer's posts in its order.
+    nodes: Vec<Vec<(u32, u32, [f64; 4])>>,
+    /// Number of nodes.
+    node_count: usize,
+    /// Entry reactions by column and node: `entries[j · node_count + node]`.
+    entries: Vec<f64>,
+}
+
+fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usize) -> Braced {
+    let mut slot = vec![u32::MAX; n_posts];
+    let mut posts = Vec::new();
+    let mut most: Vec<[f64; 4]> = Vec::new();
+    let mut row_sum = Vec::new();
+    let mut nodes: Vec<Vec<(u32, u32, [f64; 4])>> = Vec::new();
+    let mut node_count = 0;
+    let mut entries = Vec::new();
+    if let (Some(n), false) = (&inf.notional, groups.is_empty()) {
+        let first: Vec<usize> = n.units.iter().scan(0, |acc, list| {
+            let at = *acc;
+            *acc += list.len();
+            Some(at)
+        }).collect();
+        node_count = n.units.iter().map(Vec::len).sum();
+        let cols = inf.along.len();
+        entries = vec![0.0; cols * node_count];
+        for (k, per_column) in n.entries.iter().enumerate() {
+            for (j, e) in per_column.iter().enumerate() {
+                let at = j * node_count + first[k];
+                let len = e.len().min(n.units[k].len());
+                entries[at..at + len].copy_from_slice(&e[..len]);
+            }
+        }
+        // |Σₙ eₙ·Uₙ(p)| ≤ (most Σₙ |eₙ| of the bearer) × (most |Uₙ(p)| of its nodes).
+        for (k, node_lists) in n.units.iter().enumerate() {
+            let spread = n.entries[k].iter().map(|e| e.iter().map(|v| v.abs()).sum::<f64>()).fold(0.0, f64::max);
+            if spread == 0.0 {
+                continue;
+            }
+            for (n, four) in node_lists.iter().enumerate() {
+                for (q, list) in four.iter().enumerate() {
+                    for &(p, v) in list {
+                        if (spread * v).abs() < INFLUENCE_FLOOR {
+                            continue;
+                        }
+                        if slot[p as usize] == u32::MAX {
+                            slot[p as usize] = posts.len() as u32;
+                            posts.push(p);
+                            most.push([0.0; 4]);
+                            nodes.push(Vec::new());
+                        }
+                        let sl = slot[p as usize] as usize;
+                        let m = &mut most[sl][q];
+                        *m = m.max((spread * v).abs());
+                        let list = &mut nodes[sl];
+                        let node = (first[k] + n) as u32;
+                        match list.last_mut() {
+                            Some(e) if e.1 == node => e.2[q] = v,
+                            _ => {
+                                let mut u = [0.0; 4];
+                                u[q] = v;
+                                list.push((k as u32, node, u));
+                            }
+                        }
+                    }
+                }
+            }
+        }
+        row_sum = n.d.iter().map(|row| row.iter().map(|v| v.abs()).sum()).collect();
+    }
+    Braced { posts, slot, most, row_sum, nodes, node_count, entries }
+}
+
+/// Work space of [`braced_limits`] for one combination: per braced plate the vertical influence
+/// being summed, and the plates in order of the least limit the notional load alone could give.
+struct BracedScratch {
+    touched: Vec<u32>,
+    seen: Vec<bool>,
+    /// Per slot: the most the notional load of 1 kN placed can press the plate down, relative
+    /// to γ·φ, per unit of Σₖ |d[i][k]|.
+    bound: Vec<f64>,
+    /// (slot, room ÷ bound), ascending.
+    order: Vec<(u32, f64)>,
+}
+
+impl BracedScratch {
+    fn new(braced: &Braced, a: &[[f64; 2]], room: &Room, _n_posts: usize) -> Self {
+        let n = braced.posts.len();
+        let bound: Vec<f64> = braced
+            .most
+            .iter()
+            .map(|m| a.iter().map(|g| (0..2).map(|w| g[0].abs() * m[w] + g[1].abs() * m[2 + w]).fold(0.0, f64::max)).fold(0.0, f64::max))
+            .collect();
+        let mut order: Vec<(u32, f64)> = (0..n)
+            .filter_map(|s| {
+                let least = least_room(room, braced.posts[s] as usize)?;
+                (bound[s] > 0.0).then(|| (s as u32, least / bound[s]))
+            })
+            .collect();
+        order.sort_by(|x, y| x.1.total_cmp(&y.1));
+        BracedScratch { touched: Vec::new(), seen: vec![false; n], bound, order }
+    }
+}
+
+/// The notional effect at the braced plate of slot `s` of 1 kN placed at grid point (`i`, `j`), per axis and
+/// diaphragm assumption (`2·axis + way`).
+fn notional_at(inf: &DeckInfluence, braced: &Braced, i: usize, j: usize, s: usize) -> [f64; 4] {
+    let mut h = [0.0; 4];
+    let Some(n) = &inf.notional else { return h };
+    let d = &n.d[i];
+    let column = &braced.entries[j * braced.node_count..(j + 1) * braced.node_count];
+    for &(k, node, u) in &braced.nodes[s] {
+        let e = column[node as usize];
+        if e == 0.0 {
+            continue;
+        }
+        let c = d[k as usize] * e;
+        for q in 0..4 {
+            h[q] += c * u[q];
+        }
+    }
+    h
+}
+
+/// A grid point of one method pass and combination, for [`braced_limits`].
+struct BracedPoint<'a> {
+    inf: &'a DeckInfluence,
+    braced: &'a Braced,
+    /// The deck shares of the point's row above the floor, largest first.
+    shares: &'a [(usize, f64)],
+    i: usize,
+    j: usize,
+    c: usize,
+    m: usize,
+}
+
+/// The notional sums worked out at one grid point (by slot), kept for the other combinations
+/// of the same point: they depend on the point and the method pass only.
+#[derive(Default)]
+struct NotionalSums {
+    /// Per slot: the point they were worked out at (`point`), and the sums.
+    at: Vec<(u64, [f64; 4])>,
+    point: u64,
+}
+
+impl NotionalSums {
+    fn new(slots: usize) -> Self {
+        NotionalSums { at: vec![(0, [0.0; 4]); slots], point: 0 }
+    }
+    /// Forget the sums: the next grid point.
+    fn clear(&mut self) {
+        self.point += 1;
+    }
+    fn get(&mut self, s: usize, work_out: impl FnOnce() -> [f64; 4]) -> [f64; 4] {
+        let e = &mut self.at[s];
+        if e.0 != self.point {
+            *e = (self.point, work_out());
+        }
+        e.1
+    }
+}
+
+/// Per braced plate reached through one bearer, bounds that let a whole bearer be skipped at a
+/// grid point: per bearer and column, the least room ÷ |influence| of its braced plates
+/// (`vertical`); per bearer, the least room ÷ the notional bound of its braced plates
+/// (`notional`). Rooms are those of the checks the combination makes.
+struct BearerBounds {
+    cols: usize,
+    vertical: Vec<f64>,
+    notional: Vec<f64>,
+    /// Per column, the least `vertical` of any bearer; the least `notional` of any bearer.
+    vertical_least: Vec<f64>,
+    notional_least: f64,
+    /// Braced plates reached through more than one of the deck's bearers (by slot): summed whole.
+    shared: Vec<u32>,
+    /// Per slot: whether it is in `shared`.
+    is_shared: Vec<bool>,
+}
+
+/// The least room of a plate in the checks the combination makes (kN, not below zero).
+fn least_room(room: &Room, p: usize) -> Option<f64> {
+    let cap = room.capacity[p].map(|(swl, bearing)| swl.min(bearing));
+    let low = room.uplift[p];
+    match (cap, low) {
+        (Some(a), Some(b)) => Some(a.min(b).max(0.0)),
+        (Some(a), None) | (None, Some(a)) => Some(a.max(0.0)),
+        (None, None) => None,
+    }
+}
+
+fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, w: &BracedScratch, room: &Room, vertically_shared: &[bool]) -> BearerBounds {
+    let (nk, cols) = (inf.bearers.len(), inf.along.len());
+    let mut vertical = vec![f64::INFINITY; nk * cols];
+    let mut notional = vec![f64::INFINITY; nk];
+    let mut is_shared = vec![false; braced.posts.len()];
+    let mut shared = Vec::new();
+    for (s, &p) in braced.posts.iter().enumerate() {
+        if vertically_shared[p as usize] {
+            is_shared[s] = true;
+            shared.push(s as u32);
+        }
+    }
+    for k in 0..nk {
+        for j in 0..cols {
+            for &(p, f) in &inf.flows[k][j] {
+                let s = braced.slot[p as usize];
+                if s == u32::MAX || is_shared[s as usize] {
+                    continue;
+                }
+                let Some(least) = least_room(room, p as usize) else { continue };
+                if f != 0.0 {
+                    let v = &mut vertical[k * cols + j];
+                    *v = v.min(least / f.abs());
+                }
+                if w.bound[s as usize] > 0.0 {
+                    notional[k] = notional[k].min(least / w.bound[s as usize]);
+                }
+            }
+        }
+    }
+    let vertical_least = (0..cols).map(|j| (0..nk).map(|k| vertical[k * cols + j]).fold(f64::INFINITY, f64::min)).collect();
+    let notional_least = notional.iter().copied().fold(f64::INFINITY, f64::min);
+    BearerBounds { cols, vertical, notional, vertical_least, notional_least, shared, is_shared }
+}
+
+/// Limits at grid point (`i`, `j`) from the plates that take brace forces, per kN placed and
+/// before the factor γ·φ: the vertical influence `r` of the extra load and the brace components
+/// of its notional load together. The maximum takes `r` where it presses the plate down (the
+/// extra load may be absent) and the notional load of the worst direction group and diaphragm
+/// assumption where that presses it down; the minimum takes `r` where it lifts the plate and the
+/// notional load of the worst direction where that lifts it (the minimum counts a notional load
+/// of imposed load where it lifts a plate). Bearer by bearer, largest deck share first, a
+/// bearer is skipped where a bound on its plates — room ÷ (|share| · |influence| + Σₖ |d[i][k]|
+/// · notional bound) — cannot beat the value found; the plates no bearer reaches here take the
+/// notional load alone, in order of the least limit they could give.
+#[allow(clippy::too_many_arguments)]
+fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds, a: &[[f64; 2]], room: &Room, sums: &mut NotionalSums, here: &mut Best) {
+    let &BracedPoint { inf, braced, shares, i, j, c, m } = at;
+    let spread = braced.row_sum[i];
+    let mut exact = |s: usize, r: f64, here: &mut Best| {
+        let p = braced.posts[s];
+        let h = sums.get(s, || notional_at(inf, braced, i, j, s));
+        let (mut down, mut up) = (0.0f64, 0.0f64);
+        for g in a {
+            for way in 0..2 {
+                let v = g[0] * h[way] + g[1] * h[2 + way];
+                down = down.max(v);
+                up = up.min(v);
+            }
+        }
+        let pressing = r.max(0.0) + down;
+        if pressing >= INFLUENCE_FLOOR {
+            if let Some(b) = plate_limit(room, p, pressing, c, m) {
+                here.take(b);
+            }
+        }
+        let lifting = r.min(0.0) + up;
+        if lifting <= -INFLUENCE_FLOOR {
+            if let Some(b) = plate_limit(room, p, lifting, c, m) {
+                here.take(b);
+            }
+        }
+    };
+    let mut consider = |s: usize, r: f64, here: &mut Best, w: &mut BracedScratch| {
+        if !w.seen[s] {
+            w.seen[s] = true;
+            w.touched.push(s as u32);
+        }
+        let Some(least) = least_room(room, braced.posts[s] as usize) else { return };
+        let most = r.abs() + spread * w.bound[s];
+        if most >= INFLUENCE_FLOOR && least / most < here.kn {
+            exact(s, r, here);
+        }
+    };
+    // Plates reached through one bearer: r = d[i][k] · f. Shares come largest first: once the
+    // bound of the least room of any bearer cannot beat the value found, none can.
+    let (v_least, n_least) = (bounds.vertical_least[j], bounds.notional_least);
+    let bound_of = |dk: f64, v: f64, n: f64| {
+        let inv = if v.is_finite() { dk.abs() / v } else { 0.0 } + if n.is_finite() { spread / n } else { 0.0 };
+        if inv <= 0.0 { f64::INFINITY } else { 1.0 / inv }
+    };
+    for &(k, dk) in shares {
+        if bound_of(dk, v_least, n_least) >= here.kn {
+            break;
+        }
+        if bound_of(dk, bounds.vertical[k * bounds.cols + j], bounds.notional[k]) >= here.kn {
+            continue;
+        }
+        for &(p, f) in &inf.flows[k][j] {
+            let s = braced.slot[p as usize];
+            if s == u32::MAX || bounds.is_shared[s as usize] {
+                continue;
+            }
+            consider(s as usize, dk * f, here, w);
+        }
+    }
+    // Plates reached through more than one bearer: summed whole.
+    for &s in &bounds.shared {
+        let p = braced.posts[s as usize];
+        let r: f64 = shares.iter().map(|&(k, dk)| dk * inf.flows[k][j].iter().filter(|e| e.0 == p).map(|e| e.1).sum::<f64>()).sum();
+        consider(s as usize, r, here, w);
+    }
+    // The others take the notional load alone: in order of the least limit they could give.
+    if spread > 0.0 {
+        for &(s, key) in &w.order {
+            if key / spread >= here.kn {
+                break;
+            }
+            if !w.seen[s as usize] {
+                exact(s as usize, 0.0, here);
+            }
+        }
+    }
+    for &s in &w.touched {
+        w.seen[s as usize] = false;
+    }
+    w.touched.clear();
 }
 
 /// Posts reached through more than one of the deck's bearers.

@@ -1379,6 +1379,9 @@ fn spare(h: &mut String, scene: &Scene, a: &Analysis) {
     if let Some(w) = &map.not_included {
         let _ = writeln!(h, "<p class=\"note\"><strong>Not included:</strong> {}.</p>", esc(w));
     }
+    if let Some(w) = &map.notional {
+        let _ = writeln!(h, "<p class=\"note\"><strong>Notional load:</strong> {}.</p>", esc(w));
+    }
     for d in &map.decks {
         let (x0, x1) = d.points.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p.x), hi.max(p.x)));
         let (y0, y1) = d.points.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p.y), hi.max(p.y)));

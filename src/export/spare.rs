@@ -23,6 +23,7 @@ fn preamble(map: &SpareMap) -> Vec<String> {
     ]
     .into_iter()
     .chain(map.not_included.as_ref().map(|w| format!("Not included: {w}.")))
+    .chain(map.notional.as_ref().map(|w| format!("Notional load: {w}.")))
     .collect()
 }
 

@@ -575,7 +575,7 @@ impl<'m, 's> Network<'m, 's> {
     }
 
     /// Whether an accumulation loads a diaphragm that is shared two ways.
-    fn two_ways(&self, acc: &Acc) -> bool {
+    pub(crate) fn two_ways(&self, acc: &Acc) -> bool {
         self.prepared.iter().enumerate().any(|(d, p)| p.two_ways && self.loads(acc, d))
     }
 

@@ -11,6 +11,7 @@
 use crate::scene::validate::{Axis, Model};
 use crate::solve::beam::{share_simple, BeamLoad};
 use crate::solve::load_path::Solver;
+use crate::solve::braced::Reactions;
 use crate::solve::passes::MethodPass;
 
 /// The plan size of what is placed: a point (both zero) or a rectangle, m.
@@ -56,6 +57,28 @@ pub struct DeckInfluence {
     /// `flows[k][j]`: effect at each post (post, kN) of bearer `bearers[k]`'s share of 1 at
     /// column `j`; empty where row shares onto that bearer are all zero.
     pub flows: Vec<Vec<Vec<(u32, f64)>>>,
+    /// The notional horizontal load the unit load brings, where asked for
+    /// ([`deck_influences_notional`]).
+    pub notional: Option<NotionalInfluence>,
+}
+
+/// The plate effects of the notional horizontal load a unit load on a deck brings, per unit of
+/// the notional share (1 kN of horizontal force per kN of vertical load entering the posts).
+#[derive(Debug, Clone)]
+pub struct NotionalInfluence {
+    /// `d[i][k]`: the deck shares the notional load is taken from — this pass's, or the primary
+    /// pass's where this pass takes its notional load from there (members taken support by
+    /// support).
+    pub d: Vec<Vec<f64>>,
+    /// `entries[k][j]`: the reactions of bearer `bearers[k]` at each of its posts (in its order)
+    /// for its share of 1 at column `j` — the vertical load entering the posts there, on which
+    /// the notional load acts; empty where the bearer takes nothing.
+    pub entries: std::sync::Arc<Vec<Vec<Vec<f64>>>>,
+    /// `units[k][n][2·axis + way]`: effect at each plate (post, kN; by post) of 1 kN along plan
+    /// axis `axis` (0 x, 1 y) at the node where bearer `bearers[k]` sits on its `n`-th post;
+    /// way 0 the lever rule between braced planes, way 1 a rigid diaphragm (the same where the
+    /// bracing gives one way).
+    pub units: std::sync::Arc<Vec<Vec<[Vec<(u32, f64)>; 4]>>>,
 }
 
 impl DeckInfluence {
@@ -105,7 +128,243 @@ pub fn deck_influences(model: &Model, passes: &[MethodPass], deck: usize, footpr
         .collect()
 }
 
+/// The load on bearer `b` of deck `deck` of a unit load (spread over `size_along`) at position
+/// `a` along the bearers.
+fn column_load(model: &Model, deck: usize, b: usize, a: f64, size_along: f64) -> BeamLoad {
+    let line = &model.decks[deck];
+    let bl = &model.bearers[b];
+    let on_line = |u: f64| {
+        let p = match line.bearer_axis {
+            Axis::X => (u, bl.origin.1),
+            Axis::Y => (bl.origin.0, u),
+        };
+        bl.distance_of(p.0, p.1)
+    };
+    if size_along <= 0.0 {
+        BeamLoad::Point { at: on_line(a), p: 1.0 }
+    } else {
+        let (u, v) = (on_line(a - 0.5 * size_along), on_line(a + 0.5 * size_along));
+        BeamLoad::Uniform { from: u.min(v), to: u.max(v), w: 1.0 / size_along }
+    }
+}
+
+/// [`deck_influences`] with the notional horizontal load the unit load brings
+/// ([`DeckInfluence::notional`]), worked out the way the solver applies it: a horizontal force at
+/// every node where the load enters a post (its bearers' reactions at their posts), carried down
+/// the bracing, the vertical components of the brace forces routed to the plates. `Err` with the
+/// reasons where the bracing cannot carry a horizontal force from a node of the deck's bearers.
+/// Only the plan axes in `axes` (x, y) are worked out; the others are left empty.
+pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usize, footprint: Footprint, spacing: f64, axes: [bool; 2]) -> Result<Vec<Option<DeckInfluence>>, Vec<String>> {
+    let net = crate::solve::load_path::notional_network(model);
+    let line = &model.decks[deck];
+    // Nodes of the deck: each bearer's posts at the bearer's level.
+    let mut fails = Vec::new();
+    let nodes: Vec<Vec<(u32, f64)>> = line.bearers.iter().map(|&b| model.bearers[b].posts.iter().map(|&p| (p as u32, model.scene.bearers[b].level)).collect()).collect();
+    // Per node and axis: the brace components entering the posts, each way.
+    let mut raw: Vec<Vec<[Vec<Reactions>; 2]>> = Vec::with_capacity(nodes.len());
+    for list in &nodes {
+        let mut per = Vec::with_capacity(list.len());
+        for &(post, level) in list {
+            let mut both: [Vec<Reactions>; 2] = Default::default();
+            for (axis, slot) in both.iter_mut().enumerate() {
+                if !axes[axis] {
+                    continue;
+                }
+                let mut acc = net.acc();
+                let dir = if axis == 0 { [1.0, 0.0] } else { [0.0, 1.0] };
+                net.post_load(&mut acc, &mut fails, post, BeamLoad::Point { at: level, p: 1.0 }, dir);
+                let ways = if net.two_ways(&acc) { 2 } else { 1 };
+                *slot = net.finish(&acc, &mut fails, ways, false);
+            }
+            per.push(both);
+        }
+        raw.push(per);
+    }
+    if !fails.is_empty() {
+        return Err(net.describe(&fails));
+    }
+    let (size_along, size_across) = match line.bearer_axis {
+        Axis::X => (footprint.x_m, footprint.y_m),
+        Axis::Y => (footprint.y_m, footprint.x_m),
+    };
+    // The unit responses routed to the plates: [k][node][2·axis + way].
+    let route = |s: &mut Solver| -> Vec<Vec<[Vec<(u32, f64)>; 4]>> {
+        raw.iter()
+            .map(|per| {
+                per.iter()
+                    .map(|both| {
+                        let mut four: [Vec<(u32, f64)>; 4] = Default::default();
+                        for axis in 0..2 {
+                            for way in 0..2 {
+                                let sets = &both[axis];
+                                if let Some(set) = sets.get(way.min(sets.len().saturating_sub(1))) {
+                                    four[2 * axis + way] = s.to_plates(&set.vertical);
+                                }
+                            }
+                        }
+                        four
+                    })
+                    .collect()
+            })
+            .collect()
+    };
+    // Entry reactions at each bearer's posts for its share of 1 at each column, with the deck
+    // shares `d` they go with.
+    let entries_of = |s: &mut Solver, d: &[Vec<f64>], along: &[f64]| -> Vec<Vec<Vec<f64>>> {
+        line.bearers
+            .iter()
+            .enumerate()
+            .map(|(k, &b)| {
+                let used = d.iter().any(|row| row[k] != 0.0);
+                along
+                    .iter()
+                    .map(|&a| {
+                        let mut e = Vec::new();
+                        if used {
+                            s.bearer_entries(b, column_load(model, deck, b, a, size_along), &mut e);
+                        }
+                        e
+                    })
+                    .collect()
+            })
+            .collect()
+    };
+    // Where every post reaches its plate through splices alone the routing is the same in every
+    // pass; passes that are not one state take their notional load from the primary pass's
+    // entries, the same for each of them: both worked out once.
+    let all_spliced = (0..model.scene.posts.len()).all(|p| model.graph.spliced_base(p).is_some());
+    let routed_once = all_spliced.then(|| std::sync::Arc::new(route(&mut Solver::new(model, &passes[0]))));
+    let primary_entries = (!passes.iter().all(MethodPass::is_one_state)).then(|| {
+        let mut primary = Solver::new(model, &passes[0]);
+        let extent = model.scene.decks[deck].extent;
+        let (along_range, span_range) = line.split_rect(&extent);
+        let across = grid_positions(span_range, size_across, spacing);
+        let along = grid_positions(along_range, size_along, spacing);
+        let d = primary.deck_shares(deck, &across, size_across, footprint);
+        let entries = std::sync::Arc::new(entries_of(&mut primary, &d, &along));
+        (d, entries)
+    });
+    // One pass: its grid, flows and notional coefficients.
+    let one_pass = |pass: &MethodPass, cache: &mut crate::solve::arrangement::FlowCache| -> Option<DeckInfluence> {
+        let mut s = Solver::new(model, pass);
+        s.flow_cache = std::mem::take(cache);
+        let inf = s.deck_influence(deck, footprint, spacing);
+        let result = inf.map(|mut inf| {
+            let routed = routed_once.clone().unwrap_or_else(|| std::sync::Arc::new(route(&mut s)));
+            let (d, entries) = match (&primary_entries, pass.is_one_state()) {
+                (Some(kept), false) => kept.clone(),
+                _ => {
+                    let d = inf.d.clone();
+                    let entries = std::sync::Arc::new(entries_of(&mut s, &d, &inf.along));
+                    (d, entries)
+                }
+            };
+            inf.notional = Some(NotionalInfluence { d, entries, units: routed });
+            inf
+        });
+        *cache = std::mem::take(&mut s.flow_cache);
+        result
+    };
+    // Passes are independent: worked out side by side, each worker keeping its own flow cache.
+    let workers = std::thread::available_parallelism().map_or(1, |n| n.get()).min(passes.len()).max(1);
+    let next = std::sync::atomic::AtomicUsize::new(0);
+    let mut out: Vec<Option<DeckInfluence>> = vec![None; passes.len()];
+    std::thread::scope(|scope| {
+        let work = || {
+            let mut cache = crate::solve::arrangement::FlowCache::default();
+            let mut done = Vec::new();
+            loop {
+                let m = next.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+                if m >= passes.len() {
+                    return done;
+                }
+                done.push((m, one_pass(&passes[m], &mut cache)));
+            }
+        };
+        let helpers: Vec<_> = (1..workers).map(|_| scope.spawn(work)).collect();
+        for (m, inf) in work() {
+            out[m] = inf;
+        }
+        for h in helpers {
+            for (m, inf) in h.join().expect("an influence worker does not panic") {
+                out[m] = inf;
+            }
+        }
+    });
+    Ok(out)
+}
+
 impl Solver<'_, '_> {
+    /// The deck's share of a unit load at each row onto each bearer, as kN/m of bearer per kN
+    /// (rectangle: a strip of pressure 1 / area) or kN per kN (point).
+    fn deck_shares(&mut self, deck: usize, across: &[f64], size_across: f64, footprint: Footprint) -> Vec<Vec<f64>> {
+        let line = &self.model.decks[deck];
+        let nk = line.bearers.len();
+        let mut d = Vec::with_capacity(across.len());
+        for &c in across {
+            let load = if footprint.is_point() || size_across <= 0.0 {
+                BeamLoad::Point { at: c, p: 1.0 }
+            } else {
+                BeamLoad::Uniform { from: c - 0.5 * size_across, to: c + 0.5 * size_across, w: 1.0 / size_across }
+            };
+            let mut row = vec![0.0; nk];
+            if let Some(beam) = &mut self.deck_beams[deck] {
+                beam.share(&[load], &mut row);
+            } else {
+                share_simple(&line.supports, &load, &mut |k, _, r| row[k] += r);
+            }
+            d.push(row);
+        }
+        d
+    }
+
+    /// The reactions of bearer `b` at each of its posts for `load` on it: where the load enters
+    /// the posts.
+    fn bearer_entries(&mut self, b: usize, load: BeamLoad, out: &mut Vec<f64>) {
+        let line = &self.model.bearers[b];
+        let n = line.posts.len();
+        out.clear();
+        out.resize(n, 0.0);
+        if let Some(beam) = &mut self.bearer_beams[b] {
+            self.reactions.resize(n, 0.0);
+            beam.share(&[load], &mut self.reactions);
+            out.copy_from_slice(&self.reactions[..n]);
+        } else {
+            share_simple(&line.supports, &load, &mut |k, _, r| out[k] += r);
+        }
+    }
+
+    /// Loads entering posts (post, kN) carried down to the plates, as the solver routes brace
+    /// components; sorted by post.
+    fn to_plates(&mut self, vertical: &[(u32, f64)]) -> Vec<(u32, f64)> {
+        let graph = &self.model.graph;
+        // Posts that reach their plate through splices alone pass the load straight down, the
+        // same in every method pass; only those on members go through the load path.
+        let mut out: Vec<(u32, f64)> = vertical.iter().filter_map(|&(post, kn)| graph.spliced_base(post as usize).map(|base| (base as u32, kn))).filter(|e| e.1 != 0.0).collect();
+        if vertical.iter().any(|&(post, _)| graph.spliced_base(post as usize).is_none()) {
+            let was = self.record;
+            self.record = false;
+            for &(post, kn) in vertical.iter().filter(|&&(post, _)| graph.spliced_base(post as usize).is_none()) {
+                self.post_direct(0, post as usize, kn, crate::solve::items::Route::Bracing, crate::scene::loads::Case::W);
+            }
+            self.flow(0, crate::scene::loads::Case::W);
+            let t = self.take_item(crate::solve::items::Item::new(String::new(), crate::scene::loads::Case::W, crate::solve::items::Resultant::default()));
+            self.record = was;
+            self.unbalanced.clear();
+            out.extend(t.vertical.into_iter().filter(|e| e.1 != 0.0));
+        }
+        out.sort_unstable_by_key(|e| e.0);
+        // One entry per plate.
+        out.dedup_by(|later, first| {
+            let same = later.0 == first.0;
+            if same {
+                first.1 += later.1;
+            }
+            same
+        });
+        out
+    }
+
     fn deck_influence(&mut self, deck: usize, footprint: Footprint, spacing: f64) -> Option<DeckInfluence> {
         let model = self.model;
         let line = &model.decks[deck];
@@ -120,56 +379,27 @@ impl Solver<'_, '_> {
         if across.is_empty() || along.is_empty() {
             return None;
         }
-        let nk = line.bearers.len();
-        // Across: the deck's share of a unit load at each row onto each bearer, as kN/m of
-        // bearer per kN (rectangle: a strip of pressure 1 / area) or kN per kN (point).
-        let mut d = Vec::with_capacity(across.len());
-        for &c in &across {
-            let load = if footprint.is_point() || size_across <= 0.0 {
-                BeamLoad::Point { at: c, p: 1.0 }
-            } else {
-                BeamLoad::Uniform { from: c - 0.5 * size_across, to: c + 0.5 * size_across, w: 1.0 / size_across }
-            };
-            let mut row = vec![0.0; nk];
-            if let Some(beam) = &mut self.deck_beams[deck] {
-                beam.share(&[load], &mut row);
-            } else {
-                share_simple(&line.supports, &load, &mut |k, _, r| row[k] += r);
-            }
-            d.push(row);
-        }
+        let d = self.deck_shares(deck, &across, size_across, footprint);
         // Along: each bearer's share carried down from each column.
+        let nk = line.bearers.len();
         let mut flows = Vec::with_capacity(nk);
         let mut buffer = Vec::new();
         for (k, &b) in line.bearers.iter().enumerate() {
             let used = d.iter().any(|row| row[k] != 0.0);
-            let bl = &model.bearers[b];
             let mut per_column = Vec::with_capacity(along.len());
             for &a in &along {
                 if !used {
                     per_column.push(Vec::new());
                     continue;
                 }
-                let on_line = |u: f64| {
-                    let p = match line.bearer_axis {
-                        Axis::X => (u, bl.origin.1),
-                        Axis::Y => (bl.origin.0, u),
-                    };
-                    bl.distance_of(p.0, p.1)
-                };
-                let load = if size_along <= 0.0 {
-                    BeamLoad::Point { at: on_line(a), p: 1.0 }
-                } else {
-                    let (u, v) = (on_line(a - 0.5 * size_along), on_line(a + 0.5 * size_along));
-                    BeamLoad::Uniform { from: u.min(v), to: u.max(v), w: 1.0 / size_along }
-                };
+                let load = column_load(model, deck, b, a, size_along);
                 buffer.clear();
                 let flow = self.load_flow(b, load, &mut buffer);
                 per_column.push(buffer[flow.entries].to_vec());
             }
             flows.push(per_column);
         }
-        Some(DeckInfluence { deck, across, along, bearer_axis: line.bearer_axis, bearers: line.bearers.clone(), d, flows })
+        Some(DeckInfluence { deck, across, along, bearer_axis: line.bearer_axis, bearers: line.bearers.clone(), d, flows, notional: None })
     }
 }
 

@@ -164,6 +164,12 @@ pub fn solve_methods(model: &Model) -> Result<Vec<Solution>, SolveError> {
     Ok(out)
 }
 
+/// The bracing of a model prepared for notional load at every node where vertical load enters a
+/// post, as the solver prepares it.
+pub(crate) fn notional_network<'m, 's>(model: &'m Model<'s>) -> Network<'m, 's> {
+    Network::new(model, &Nodes::new(model).at)
+}
+
 /// Carry every load of a validated scene down to the base plates, members behaving as `pass` says.
 pub fn solve_pass(model: &Model, pass: MethodPass) -> Result<Solution, SolveError> {
     let net = Network::new(model, &Nodes::new(model).at);
