@@ -297,6 +297,18 @@ mod properties {
     }
 }
 
+/// The strip's two lines joined into one structure by weightless transoms carrying nothing, 1 kN
+/// of permanent load on each post top, overturning target factor 2.0.
+fn one_structure(mut s: Scene) -> Scene {
+    for id in ["A1", "B1", "A2", "B2"] {
+        s.loads.push(load(&format!("kit-{id}"), Case::G, LoadKind::PostTop { post: id.into(), kn: 1.0 }));
+    }
+    s.bearers.push(bearer("West", 1.0, &["A1", "A2"]));
+    s.bearers.push(bearer("East", 1.0, &["B1", "B2"]));
+    s.stability.target_factor = 2.0;
+    s
+}
+
 #[test]
 fn a_point_beyond_the_tipping_edge_is_limited_by_overturning() {
     // statics, by hand: the deck cantilevers 2 m past the north bearer (y = 3) of a one-bay tower
@@ -305,14 +317,7 @@ fn a_point_beyond_the_tipping_edge_is_limited_by_overturning() {
     // With a target factor of 2.0 the room is 6 / 2 = 3 kN·m: a load at the tip (lever 2 m) may
     // add 1.5 kN. (EQU, EN 1990 Table A1.2(A): 0.9 × 6 = 5.4 ≥ 1.5 × 2 × P → 1.8 kN; the south
     // plates lift at 0.9 / (1.5 × 1/3) = 1.8 kN too: both less strict here.)
-    let mut s = strip(5.0);
-    for id in ["A1", "B1", "A2", "B2"] {
-        s.loads.push(load(&format!("kit-{id}"), Case::G, LoadKind::PostTop { post: id.into(), kn: 1.0 }));
-    }
-    // Transoms join the two lines into one structure (weightless, carrying nothing).
-    s.bearers.push(bearer("West", 1.0, &["A1", "A2"]));
-    s.bearers.push(bearer("East", 1.0, &["B1", "B2"]));
-    s.stability.target_factor = 2.0;
+    let s = one_structure(strip(5.0));
     let a = analyse(&s).unwrap();
     let map = spare_map(&s, &a, &SpareSettings::default()).unwrap();
     let tip = at(&map, 1.0, 5.0);
@@ -333,12 +338,7 @@ fn the_notional_load_of_the_extra_load_turns_the_structure_too() {
     // both less strict.)
     let mut s = braced_strip(NotionalRule::Percent(2.5));
     s.loads.retain(|l| !l.id.starts_with("kit-"));
-    for id in ["A1", "B1", "A2", "B2"] {
-        s.loads.push(load(&format!("kit-{id}"), Case::G, LoadKind::PostTop { post: id.into(), kn: 1.0 }));
-    }
-    s.bearers.push(bearer("West", 1.0, &["A1", "A2"]));
-    s.bearers.push(bearer("East", 1.0, &["B1", "B2"]));
-    s.stability.target_factor = 2.0;
+    let s = one_structure(s);
     let a = analyse(&s).unwrap();
     let map = spare_map(&s, &a, &SpareSettings::default()).unwrap();
     let p = at(&map, 1.0, 1.5);
