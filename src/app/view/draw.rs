@@ -292,23 +292,26 @@ fn cue_meshes(hx: f64, hy: f64) -> (Mesh, Mesh) {
         }
     }
     let frame = flat_mesh(fix_winding(pos), col);
-    // Round ring around the frame's corners.
-    let r0 = pick::uplift_ring_radius(hx, hy);
-    let (mut pos, mut col) = (Vec::new(), Vec::new());
-    let seg = 48;
-    for (a, b, c) in bands {
-        let (ri, ro) = ((r0 + a) as f32, (r0 + b) as f32);
-        for s in 0..seg {
-            let t0 = s as f32 / seg as f32 * std::f32::consts::TAU;
-            let t1 = (s + 1) as f32 / seg as f32 * std::f32::consts::TAU;
-            let p = |r: f32, t: f32| [r * t.cos(), 0.0, r * t.sin()];
-            for q in [p(ro, t0), p(ro, t1), p(ri, t1), p(ro, t0), p(ri, t1), p(ri, t0)] {
-                pos.push(q);
-                col.push(c);
-            }
-        }
-    }
-    (frame, flat_mesh(fix_winding(pos), col))
+    (frame, ring_mesh(pick::uplift_ring_radius(hx, hy)))
+}
+
+/// The uplift ring around the frame's corners, inner radius `r0` (m), bands as the frame's: one
+/// square of two triangles, which the view's shader cuts to the ring (see `flat.wgsl`). A ring
+/// of triangles fine enough to look round took 288 of them, and with every plate of a large
+/// birdcage lifting, a software renderer spent half of each frame on them.
+fn ring_mesh(r0: f64) -> Mesh {
+    let band = CUE_BAND_M as f32;
+    let ro = (r0 + CUE_BAND_M) as f32;
+    let pos = fix_winding([[-ro, -ro], [ro, -ro], [ro, ro], [-ro, -ro], [ro, ro], [-ro, ro]].iter().map(|&[x, z]| [x, 0.0, z]).collect());
+    // In band widths: the offset from the centre, and (inner radius, edge width).
+    let uv: Vec<[f32; 2]> = pos.iter().map(|p| [p[0] / band, p[2] / band]).collect();
+    let n = pos.len();
+    Mesh::new(PrimitiveTopology::TriangleList, RenderAssetUsages::default())
+        .with_inserted_attribute(Mesh::ATTRIBUTE_POSITION, pos)
+        .with_inserted_attribute(Mesh::ATTRIBUTE_NORMAL, vec![[0.0f32, 1.0, 0.0]; n])
+        .with_inserted_attribute(Mesh::ATTRIBUTE_UV_0, uv)
+        .with_inserted_attribute(Mesh::ATTRIBUTE_UV_1, vec![[(r0 / CUE_BAND_M) as f32, (CUE_EDGE_M / CUE_BAND_M) as f32]; n])
+        .with_inserted_indices(Indices::U32((0..n as u32).collect()))
 }
 
 /// Make every triangle face up (+y), whatever order its corners were listed in.
@@ -622,7 +625,9 @@ fn recolour(
     mut drawn: ResMut<Drawn>,
     assets: Res<ViewAssets>,
     mut parts: Query<(&DrawnPart, &mut MeshMaterial3d<FlatMaterial>, &mut Visibility)>,
+    without: Option<Res<super::Without>>,
 ) {
+    let no_cues = without.is_some_and(|w| w.has(super::ViewPart::Cues));
     let key = ColourKey {
         sync_revision: drawn.revision,
         solved_revision: doc.solved_revision,
@@ -680,7 +685,8 @@ fn recolour(
         if mat.0 != *want {
             mat.0 = want.clone();
         }
-        let v = if show { Visibility::Inherited } else { Visibility::Hidden };
+        let cue = matches!(part.0, DrawKey::OverCue(_) | DrawKey::UpliftCue(_) | DrawKey::UpliftArrow(_));
+        let v = if show && !(cue && no_cues) { Visibility::Inherited } else { Visibility::Hidden };
         if *vis != v {
             *vis = v;
         }

@@ -18,6 +18,21 @@ fn fragment(in: VertexOutput) -> @location(0) vec4<f32> {
 #ifdef VERTEX_COLORS
     c = c * in.color;
 #endif
+#ifdef VERTEX_UVS_A
+#ifdef VERTEX_UVS_B
+    // A ring drawn on one square (the uplift cue): `uv` is the offset from its centre and
+    // `uv_b` its inner radius and the width of its black edges, all in widths of the band.
+    // Black edges, white between, nothing outside.
+    let t = length(in.uv) - in.uv_b.x;
+    if t < 0.0 || t > 1.0 {
+        discard;
+    }
+    let e = in.uv_b.y;
+    if t < e || t > 1.0 - e {
+        c = vec4<f32>(0.0, 0.0, 0.0, c.a);
+    }
+#endif
+#endif
     if params.shade > 0.0 {
         // Towards the light: (−4, 10, 6) in bevy axes, up and a little towards −x and +z.
         let l = vec3<f32>(-0.324, 0.811, 0.487);
