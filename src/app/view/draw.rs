@@ -208,8 +208,9 @@ fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut mat
         loads: CASE_COLOURS.map(|c| lit(m, srgb(c))),
         sheets: CASE_COLOURS.map(|[r, g, b]| translucent(m, Color::srgba_u8(r, g, b, 0x14))),
         selected: unlit(m, HIGHLIGHT),
-        // The cue meshes carry their own black and white vertex colours.
-        cue: unlit(m, Color::WHITE),
+        // White; the cues' shader draws their black edges (a fraction `edge` of the band), and
+        // the centre-of-gravity mark carries its own black and white vertex colours.
+        cue: m.add(FlatMaterial { params: super::flat::FlatParams { edge: (CUE_EDGE_M / CUE_BAND_M) as f32, ..FlatMaterial::flat(Color::WHITE).params }, ..FlatMaterial::flat(Color::WHITE) }),
         // Flat, so the ground keeps one known colour: never white, which is the colour of the
         // cues, and apart from every band (see the tests below).
         ground_mat: unlit(m, srgb(GROUND)),
@@ -266,51 +267,27 @@ pub(super) fn flat_mesh(pos: Vec<[f32; 3]>, col: Vec<[f32; 4]>) -> Mesh {
 
 
 /// Over-capacity frame (square, black–white–black) and uplift ring (round, the same bands)
-/// around a plate footprint of half sizes `hx` × `hy` (bevy x, z), in metres.
+/// around a plate footprint of half sizes `hx` × `hy` (bevy x, z), in metres. Each is one flat
+/// square of two triangles that the view's shader cuts to its band (see
+/// [`super::flat::cue_band`]): with every plate of a large birdcage lifting and most over
+/// capacity, rings and frames of small triangles took half of each frame on a software renderer.
 fn cue_meshes(hx: f64, hy: f64) -> (Mesh, Mesh) {
-    let black = [0.0, 0.0, 0.0, 1.0];
-    let white = [1.0, 1.0, 1.0, 1.0];
-    // Bands outwards from the gap: black edge, white, black edge (m).
-    let bands = [(0.0, CUE_EDGE_M, black), (CUE_EDGE_M, CUE_BAND_M - CUE_EDGE_M, white), (CUE_BAND_M - CUE_EDGE_M, CUE_BAND_M, black)];
-    let (mut pos, mut col) = (Vec::new(), Vec::new());
-    // Square frame: four trapezoids per band.
-    for (a, b, c) in bands {
-        let (i, o) = (CUE_GAP_M + a, CUE_GAP_M + b);
-        let ix = (hx + i) as f32;
-        let iy = (hy + i) as f32;
-        let ox = (hx + o) as f32;
-        let oy = (hy + o) as f32;
-        let corners_in = [[-ix, -iy], [ix, -iy], [ix, iy], [-ix, iy]];
-        let corners_out = [[-ox, -oy], [ox, -oy], [ox, oy], [-ox, oy]];
-        for k in 0..4 {
-            let (a0, a1) = (corners_in[k], corners_in[(k + 1) % 4]);
-            let (b0, b1) = (corners_out[k], corners_out[(k + 1) % 4]);
-            for p in [b0, b1, a1, b0, a1, a0] {
-                pos.push([p[0], 0.0, p[1]]);
-                col.push(c);
-            }
-        }
-    }
-    let frame = flat_mesh(fix_winding(pos), col);
-    (frame, ring_mesh(pick::uplift_ring_radius(hx, hy)))
+    let band = CUE_BAND_M as f32;
+    let (ix, iy) = ((hx + CUE_GAP_M) as f32, (hy + CUE_GAP_M) as f32);
+    let frame = super::flat::cue_band(ix + band, iy + band, band, [ix, iy]);
+    let r0 = pick::uplift_ring_radius(hx, hy) as f32;
+    let ring = super::flat::cue_band(r0 + band, r0 + band, band, [r0, -1.0]);
+    (cue_mesh(frame), cue_mesh(ring))
 }
 
-/// The uplift ring around the frame's corners, inner radius `r0` (m), bands as the frame's: one
-/// square of two triangles, which the view's shader cuts to the ring (see `flat.wgsl`). A ring
-/// of triangles fine enough to look round took 288 of them, and with every plate of a large
-/// birdcage lifting, a software renderer spent half of each frame on them.
-fn ring_mesh(r0: f64) -> Mesh {
-    let band = CUE_BAND_M as f32;
-    let ro = (r0 + CUE_BAND_M) as f32;
-    let pos = fix_winding([[-ro, -ro], [ro, -ro], [ro, ro], [-ro, -ro], [ro, ro], [-ro, ro]].iter().map(|&[x, z]| [x, 0.0, z]).collect());
-    // In band widths: the offset from the centre, and (inner radius, edge width).
-    let uv: Vec<[f32; 2]> = pos.iter().map(|p| [p[0] / band, p[2] / band]).collect();
+/// A cue's quad as a mesh (positions, offsets and inner edge from [`super::flat::cue_band`]).
+fn cue_mesh((pos, uv, inner): (Vec<[f32; 3]>, Vec<[f32; 2]>, Vec<[f32; 2]>)) -> Mesh {
     let n = pos.len();
     Mesh::new(PrimitiveTopology::TriangleList, RenderAssetUsages::default())
         .with_inserted_attribute(Mesh::ATTRIBUTE_POSITION, pos)
         .with_inserted_attribute(Mesh::ATTRIBUTE_NORMAL, vec![[0.0f32, 1.0, 0.0]; n])
         .with_inserted_attribute(Mesh::ATTRIBUTE_UV_0, uv)
-        .with_inserted_attribute(Mesh::ATTRIBUTE_UV_1, vec![[(r0 / CUE_BAND_M) as f32, (CUE_EDGE_M / CUE_BAND_M) as f32]; n])
+        .with_inserted_attribute(Mesh::ATTRIBUTE_UV_1, inner)
         .with_inserted_indices(Indices::U32((0..n as u32).collect()))
 }
 
