@@ -129,6 +129,8 @@ struct ColourKey {
 #[derive(Resource)]
 pub struct ViewAssets {
     bar: Handle<Mesh>,
+    /// A bar without end caps, for braces: their ends lie inside the standards they join.
+    open_bar: Handle<Mesh>,
     cone: Handle<Mesh>,
     cube: Handle<Mesh>,
     cog: Handle<Mesh>,
@@ -192,7 +194,12 @@ fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut mat
         // its time per triangle (bevy's default of 32 sides made 2,000 posts cost several times
         // as much to draw).
         bar: meshes.add(Cylinder::new(1.0, 1.0).mesh().resolution(BAR_SIDES)),
-        cone: meshes.add(Cone { radius: 1.0, height: 1.0 }.mesh().resolution(2 * BAR_SIDES)),
+        // A generated birdcage has two braces to a standard: the caps were 12 of each brace's
+        // 28 triangles, never seen.
+        open_bar: meshes.add(Cylinder::new(1.0, 1.0).mesh().resolution(BAR_SIDES).without_caps()),
+        // Arrow tips and uplift cones are small on screen; every plate of a large birdcage
+        // that lifts carries one.
+        cone: meshes.add(Cone { radius: 1.0, height: 1.0 }.mesh().resolution(BAR_SIDES)),
         cube: meshes.add(Cuboid::new(1.0, 1.0, 1.0)),
         cog: meshes.add(cog_mesh()),
         ground: meshes.add(Plane3d::default().mesh().size(1.0, 1.0)),
@@ -462,6 +469,7 @@ fn sync_entities(
     for s in &list {
         let Some(t) = prim_transform(&s.prim) else { continue };
         let mesh = match s.prim {
+            Prim::Bar { .. } if s.part == Part::Brace => &assets.open_bar,
             Prim::Bar { .. } => &assets.bar,
             Prim::Cone { .. } => &assets.cone,
             Prim::Cuboid { .. } => &assets.cube,
