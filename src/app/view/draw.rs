@@ -131,6 +131,8 @@ pub struct ViewAssets {
     bar: Handle<Mesh>,
     /// A bar without end caps, for braces: their ends lie inside the standards they join.
     open_bar: Handle<Mesh>,
+    /// The same with four sides, for braces of scenes with more than [`COARSE_BRACES_FROM`].
+    coarse_bar: Handle<Mesh>,
     cone: Handle<Mesh>,
     cube: Handle<Mesh>,
     cog: Handle<Mesh>,
@@ -156,6 +158,12 @@ pub struct ViewAssets {
 
 /// Sides of the round bars (posts, members, arrow shafts).
 const BAR_SIDES: u32 = 8;
+
+/// From this many braces on, braces are drawn with four sides instead of eight: so many braces
+/// belong to a site seen mostly from afar, where a brace is a pixel or two wide, and on a
+/// software renderer four sides took a sixth off each frame of a 2,000-post birdcage (3,990
+/// braces). Smaller scenes keep round braces.
+pub const COARSE_BRACES_FROM: usize = 1000;
 
 /// Colour of highlights (selection, picked elements): a saturated blue, apart from every
 /// band of the utilisation ramp.
@@ -197,6 +205,7 @@ fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut mat
         // A generated birdcage has two braces to a standard: the caps were 12 of each brace's
         // 28 triangles, never seen.
         open_bar: meshes.add(Cylinder::new(1.0, 1.0).mesh().resolution(BAR_SIDES).without_caps()),
+        coarse_bar: meshes.add(Cylinder::new(1.0, 1.0).mesh().resolution(4).without_caps()),
         // Arrow tips and uplift cones are small on screen; every plate of a large birdcage
         // that lifts carries one.
         cone: meshes.add(Cone { radius: 1.0, height: 1.0 }.mesh().resolution(BAR_SIDES)),
@@ -466,10 +475,11 @@ fn sync_entities(
     let post_index: HashMap<&str, usize> = doc.scene.posts.iter().enumerate().map(|(i, p)| (p.id.as_str(), i)).collect();
     let mut plate_vec: Vec<PlateEntities> = vec![PlateEntities::default(); doc.scene.posts.len()];
     let map = &mut drawn.entities;
+    let brace_mesh = if list.iter().filter(|s| s.part == Part::Brace).count() >= COARSE_BRACES_FROM { &assets.coarse_bar } else { &assets.open_bar };
     for s in &list {
         let Some(t) = prim_transform(&s.prim) else { continue };
         let mesh = match s.prim {
-            Prim::Bar { .. } if s.part == Part::Brace => &assets.open_bar,
+            Prim::Bar { .. } if s.part == Part::Brace => brace_mesh,
             Prim::Bar { .. } => &assets.bar,
             Prim::Cone { .. } => &assets.cone,
             Prim::Cuboid { .. } => &assets.cube,
