@@ -297,7 +297,7 @@ fn cue_meshes(hx: f64, hy: f64) -> (Mesh, Mesh) {
 }
 
 /// A cue's quad as a mesh (positions, offsets and inner edge from [`super::flat::cue_band`]).
-fn cue_mesh((pos, uv, inner): (Vec<[f32; 3]>, Vec<[f32; 2]>, Vec<[f32; 2]>)) -> Mesh {
+fn cue_mesh((pos, uv, inner): super::flat::CueQuad) -> Mesh {
     let n = pos.len();
     Mesh::new(PrimitiveTopology::TriangleList, RenderAssetUsages::default())
         .with_inserted_attribute(Mesh::ATTRIBUTE_POSITION, pos)

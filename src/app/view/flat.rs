@@ -54,13 +54,15 @@ impl FlatMaterial {
     }
 }
 
+/// A cue's quad: positions, offsets from the centre and the band's inner edge (see [`cue_band`]).
+pub type CueQuad = (Vec<[f32; 3]>, Vec<[f32; 2]>, Vec<[f32; 2]>);
+
 /// The vertices of a cue drawn on one flat quad of half sizes `hx` × `hz` (bevy x, z, m) that the
 /// shader cuts to a band of width `band` (m): black edges, white between, nothing outside. The
 /// band runs outwards from a circle of radius `inner[0]` (`inner[1]` negative: a ring), or
 /// from a rectangle of half sizes `inner` (a square-cornered frame). Positions, the offset from
 /// the centre in band widths, and the band's inner edge in band widths.
-#[allow(clippy::type_complexity)]
-pub fn cue_band(hx: f32, hz: f32, band: f32, inner: [f32; 2]) -> (Vec<[f32; 3]>, Vec<[f32; 2]>, Vec<[f32; 2]>) {
+pub fn cue_band(hx: f32, hz: f32, band: f32, inner: [f32; 2]) -> CueQuad {
     // Two triangles facing up (+y).
     let pos: Vec<[f32; 3]> = [[-hx, -hz], [-hx, hz], [hx, hz], [-hx, -hz], [hx, hz], [hx, -hz]].iter().map(|&[x, z]| [x, 0.0, z]).collect();
     let uv = pos.iter().map(|p| [p[0] / band, p[2] / band]).collect();
