@@ -177,7 +177,7 @@ enum Command {
         #[arg(long, hide = true, value_parser = parse_grid, conflicts_with = "file")]
         generated: Option<(u32, u32)>,
         /// Leave parts of the view out, to time what each costs: on-top-camera, decks, ground,
-        /// gizmos, overlay (comma-separated).
+        /// gizmos, overlay, cues (comma-separated).
         #[arg(long, hide = true, value_delimiter = ',')]
         timing_without: Vec<String>,
         /// Also write the camera and viewport used, as JSON (for tests that check pixels).

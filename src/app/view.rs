@@ -212,16 +212,19 @@ pub enum ViewPart {
     Gizmos,
     /// Everything egui draws over the view (legend, labels, summary, title, caution).
     Overlay,
+    /// The cues of plates' findings: over-capacity frames, uplift rings and uplift cones.
+    Cues,
 }
 
 impl ViewPart {
     /// Every part, with its command-line name.
-    pub const ALL: [(&'static str, ViewPart); 5] = [
+    pub const ALL: [(&'static str, ViewPart); 6] = [
         ("on-top-camera", ViewPart::OnTopCamera),
         ("decks", ViewPart::Decks),
         ("ground", ViewPart::Ground),
         ("gizmos", ViewPart::Gizmos),
         ("overlay", ViewPart::Overlay),
+        ("cues", ViewPart::Cues),
     ];
 }
 

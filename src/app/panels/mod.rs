@@ -158,7 +158,7 @@ fn draw_ui(
     let picture = matches!(&*mode, Mode::Picture(spec) if !spec.editor_ui);
     // The overlay's settings as the panels found them: changed only when a control changed them
     // (a change asks for the frame that works the map out again).
-    let spare_asked = spare.as_ref().map(|s| (s.on, s.footprint_m, s.spacing_m, s.place_kn));
+    let spare_asked = spare.as_ref().map(|s| s.asked());
     let mut spare_on = spare.as_ref().map(|s| s.on);
     let mut root = egui::Ui::new(ctx.clone(), "plateload-root".into(), egui::UiBuilder::new().layer_id(egui::LayerId::background()).max_rect(ctx.viewport_rect()));
     if !picture {
@@ -203,7 +203,8 @@ fn draw_ui(
             let s = s.bypass_change_detection();
             s.on = on;
             if s.on {
-                egui::Panel::bottom("spare").show(&mut root, |ui| spare::strip(ui, s));
+                let checking = doc.analysis().map(super::view::spare::checking_combinations).unwrap_or_default();
+                egui::Panel::bottom("spare").show(&mut root, |ui| spare::strip(ui, s, &checking));
             }
         }
         let (open, all) = ctx.input(|i| (i.modifiers.command && i.key_pressed(egui::Key::O), i.modifiers.command && i.key_pressed(egui::Key::A)));
@@ -237,7 +238,7 @@ fn draw_ui(
         }
     }
     if let Some(s) = spare.as_mut() {
-        if Some((s.on, s.footprint_m, s.spacing_m, s.place_kn)) != spare_asked {
+        if Some(s.asked()) != spare_asked {
             s.set_changed();
         }
     }

@@ -432,14 +432,20 @@ pub struct LabelRequest {
     pub size: Vec2,
     /// Where its leader starts: the plate's coloured face (without the cue), pixels.
     pub face: Rect,
+    /// Shown even where every place near it covers another plate (the worst plate's label):
+    /// then in the place that covers the fewest plates.
+    pub must: bool,
 }
 
 /// Place labels near their anchors without covering any plate, another label or a box to keep
 /// clear: the first of eight positions around the anchor (then further out) that is free and
 /// inside `bounds`, preferring one whose leader crosses no other plate's cue, then one whose
 /// leader crosses no other plate's coloured face (`faces`: every plate's). `None` (no label)
-/// when there is no such place, as in a dense grid seen from afar: a label never hides a plate.
+/// when there is no such place, as in a dense grid seen from afar: a label never hides a plate,
+/// except one that must be shown ([`LabelRequest::must`]), which takes the place that covers the
+/// fewest other plates ([`forced_place`]).
 pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], faces: &[Rect], keep_clear: &[Rect], bounds: Rect) -> Vec<Option<Rect>> {
+    let all_plates = plates;
     let mut placed: Vec<Option<Rect>> = Vec::with_capacity(requests.len());
     for req in requests {
         let a = req.anchor;
@@ -483,10 +489,51 @@ pub fn place_labels(requests: &[LabelRequest], plates: &[Rect], faces: &[Rect], 
                 .find(|r| allowed(r) && clean_of_faces(r) && clean_of_cues(r))
                 .or_else(|| rects.iter().find(|r| allowed(r) && clean_of_faces(r)))
                 .or_else(|| rects.iter().find(|r| allowed(r)))
-                .copied(),
+                .copied()
+                .or_else(|| if req.must { forced_place(req, &rects, all_plates, keep_clear, &placed, bounds) } else { None }),
         );
     }
     placed
+}
+
+/// A place for a label that must be shown where no free one was found: among the places tried
+/// and places further out (each also moved inside `bounds`), the one that covers the fewest
+/// plates, nearest first. Never over its own plate, a label placed before it or a box to keep
+/// clear, and always inside `bounds`; `None` only where no such place exists at all.
+fn forced_place(req: &LabelRequest, near: &[Rect], plates: &[Rect], keep_clear: &[Rect], placed: &[Option<Rect>], bounds: Rect) -> Option<Rect> {
+    let a = req.anchor;
+    let size = req.size;
+    let c = a.center();
+    let further = [160.0f32, 260.0, 400.0].into_iter().flat_map(|gap| {
+        [
+            Pos2::new(a.max.x + gap, a.min.y - gap - size.y),
+            Pos2::new(a.min.x - gap - size.x, a.min.y - gap - size.y),
+            Pos2::new(a.max.x + gap, a.max.y + gap),
+            Pos2::new(a.min.x - gap - size.x, a.max.y + gap),
+            Pos2::new(c.x - size.x / 2.0, a.min.y - gap - size.y),
+            Pos2::new(c.x - size.x / 2.0, a.max.y + gap),
+        ]
+        .map(|p| Rect::from_min_size(p, size))
+    });
+    // Moved inside the bounds along the way it points, where it fits at all.
+    let inside = |r: Rect| -> Option<Rect> {
+        if size.x > bounds.width() || size.y > bounds.height() {
+            return None;
+        }
+        let min = Pos2::new(r.min.x.clamp(bounds.min.x, bounds.max.x - size.x), r.min.y.clamp(bounds.min.y, bounds.max.y - size.y));
+        Some(Rect::from_min_size(min, size))
+    };
+    let candidates = near.iter().copied().chain(further).filter_map(inside);
+    let ok = |r: &Rect| !r.intersects(a) && !keep_clear.iter().any(|k| k.intersects(*r)) && !placed.iter().flatten().any(|o| o.expand(2.0).intersects(*r));
+    let mut best: Option<(usize, f32, Rect)> = None;
+    for r in candidates.filter(ok) {
+        let covered = plates.iter().filter(|p| p.intersects(r)).count();
+        let dist = (r.center() - c).length();
+        if best.is_none_or(|(n, d, _)| (covered, dist) < (n, d)) {
+            best = Some((covered, dist, r));
+        }
+    }
+    best.map(|b| b.2)
 }
 
 /// Plate indices from the highest utilisation down, then (where there is none, in a
@@ -736,12 +783,13 @@ fn place_plate_labels(painter: &egui::Painter, rect: Rect, a: &Analysis, doc: &S
     let mut requests: Vec<LabelRequest> = chosen
         .iter()
         .zip(&galleys)
-        .filter_map(|(&i, g)| Some(LabelRequest { anchor: plates[i]?, size: g.size() + Vec2::new(18.0, 6.0), face: faces[i]? }))
+        // The worst plate, which the summary names, is always labelled where it is in view.
+        .filter_map(|(&i, g)| Some(LabelRequest { anchor: plates[i]?, size: g.size() + Vec2::new(18.0, 6.0), face: faces[i]?, must: Some(&i) == order.first() && rect.intersects(plates[i]?) }))
         .collect();
     let cog_galley = painter.layout_no_wrap("centre of gravity (G)".into(), FontId::proportional(13.0), Color32::BLACK);
     if let Some(c) = cog {
         let anchor = Rect::from_center_size(c, Vec2::splat(16.0));
-        requests.push(LabelRequest { anchor, size: cog_galley.size() + Vec2::new(8.0, 4.0), face: anchor });
+        requests.push(LabelRequest { anchor, size: cog_galley.size() + Vec2::new(8.0, 4.0), face: anchor, must: false });
     }
     let all_plates: Vec<Rect> = plates.iter().flatten().copied().collect();
     let all_faces: Vec<Rect> = faces.iter().flatten().copied().collect();
@@ -778,7 +826,7 @@ mod tests {
         // common practice, no source
         let plate = Rect::from_min_size(Pos2::new(50.0, 50.0), Vec2::splat(10.0));
         let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::new(160.0, 110.0));
-        let req = LabelRequest { anchor: plate, size: Vec2::new(60.0, 30.0), face: plate };
+        let req = LabelRequest { anchor: plate, size: Vec2::new(60.0, 30.0), face: plate, must: false };
         let placed = place_labels(&vec![req; 12], &[plate], &[plate], &[], bounds);
         let shown: Vec<Rect> = placed.iter().flatten().copied().collect();
         assert!(!shown.is_empty() && shown.len() < 12, "{}", shown.len());
@@ -799,7 +847,7 @@ mod tests {
         let other_face = Rect::from_min_max(Pos2::new(133.0, 89.0), Pos2::new(137.0, 93.0));
         let other = other_face.expand(6.0);
         assert!(other.intersects(anchor));
-        let req = LabelRequest { anchor, size: Vec2::new(60.0, 18.0), face };
+        let req = LabelRequest { anchor, size: Vec2::new(60.0, 18.0), face, must: false };
         let first = Rect::from_min_size(Pos2::new(anchor.max.x + 10.0, anchor.min.y - 10.0 - 18.0), req.size);
         assert!(segment_hits_rect(leader_start(face, first.center()), first.center(), other_face), "the first place would cross it");
         let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::splat(400.0));
@@ -828,7 +876,7 @@ mod tests {
     fn labels_avoid_plates_and_each_other() {
         // common practice, no source: labels must not hide what they label
         let plates = vec![Rect::from_min_size(Pos2::new(100.0, 100.0), Vec2::splat(20.0)), Rect::from_min_size(Pos2::new(140.0, 60.0), Vec2::splat(20.0))];
-        let req = |p: &Rect| LabelRequest { anchor: *p, size: Vec2::new(60.0, 18.0), face: *p };
+        let req = |p: &Rect| LabelRequest { anchor: *p, size: Vec2::new(60.0, 18.0), face: *p, must: false };
         let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::splat(400.0));
         let placed = place_labels(&[req(&plates[0]), req(&plates[1]), req(&plates[0])], &plates, &plates, &[], bounds);
         let placed: Vec<Rect> = placed.into_iter().map(|r| r.expect("room for every label")).collect();
@@ -838,6 +886,62 @@ mod tests {
             for (j, o) in placed.iter().enumerate() {
                 assert!(i == j || !o.intersects(*r), "labels {i} and {j} overlap");
             }
+        }
+    }
+
+    #[test]
+    fn a_label_that_must_be_shown_takes_the_place_covering_fewest_plates() {
+        // common practice, no source: a dense grid of plates leaves no free place for a label;
+        // the one that must be shown still is, inside the view, off its own plate and clear of
+        // the boxes kept clear, and the others are left out
+        let bounds = Rect::from_min_size(Pos2::ZERO, Vec2::new(300.0, 200.0));
+        let plates: Vec<Rect> = (0..15).flat_map(|i| (0..10).map(move |j| Rect::from_min_size(Pos2::new(20.0 * i as f32, 20.0 * j as f32), Vec2::splat(14.0)))).collect();
+        let anchor = plates[7 * 10 + 5];
+        // The bottom row of plates is left out: a place down there covers fewer of them.
+        let plates: Vec<Rect> = plates.into_iter().filter(|p| p.min.y < 180.0 || *p == anchor).collect();
+        let keep_clear = [Rect::from_min_size(Pos2::new(0.0, 0.0), Vec2::new(300.0, 30.0))];
+        let req = |must| LabelRequest { anchor, size: Vec2::new(90.0, 18.0), face: anchor.shrink(3.0), must };
+        let placed = place_labels(&[req(true), req(false)], &plates, &plates, &keep_clear, bounds);
+        let r = placed[0].expect("the label that must be shown");
+        assert!(bounds.contains_rect(r) && !r.intersects(anchor) && !r.intersects(keep_clear[0]), "{r:?}");
+        let covered = plates.iter().filter(|p| p.intersects(r)).count();
+        assert!(covered <= 4, "it covers {covered} plates: {r:?}");
+        assert_eq!(placed[1], None, "no free place for the others: {:?}", placed[1]);
+        // Without `must`, the same label finds no place (the check above can fail).
+        assert_eq!(place_labels(&[req(false)], &plates, &plates, &keep_clear, bounds)[0], None);
+    }
+
+    #[test]
+    fn in_a_crowded_small_plan_view_the_worst_plate_is_labelled_first() {
+        // common practice, no source: the plate the summary names as the worst is labelled in
+        // every view it is in, however crowded; labels follow the plates from the worst down
+        let spec = plateload::scene::layout::LayoutSpec { bays_x: 29, bays_y: 29, lifts: 3, deck_lifts: vec![3], ..Default::default() };
+        let scene = plateload::scene::layout::generate("crowded", 100.0, &spec);
+        let doc = SceneDoc::new(scene, None);
+        let a = doc.analysis().expect("the birdcage solves");
+        let (lo, hi) = plateload::edit::pick::structure_bounds(&doc.scene);
+        let (w, h) = (520.0f32, 400.0f32);
+        let mut view = ViewState { viewport: [0.0, 0.0, w, h], pending_fit: None, ..ViewState::default() };
+        view.camera = plateload::edit::pick::ViewCamera::fit(lo, hi, plateload::edit::pick::ViewPreset::Plan, (w / h) as f64, true);
+        let rect = Rect::from_min_size(Pos2::ZERO, Vec2::new(w, h));
+        let ctx = egui::Context::default();
+        let mut labels = Vec::new();
+        let mut out = ctx.run_ui(egui::RawInput::default(), |ui| {
+            let painter = ui.ctx().layer_painter(egui::LayerId::background());
+            labels = place_plate_labels(&painter, rect, a, &doc, &view, &Selection::default(), None, &[]);
+        });
+        // No renderer here to take the font texture.
+        out.textures_delta.clear();
+        let order = worst_first(a, None);
+        let worst = &a.plates[order[0]].id;
+        let texts: Vec<String> = labels.iter().map(|l| l.text.text().to_owned()).collect();
+        assert!(texts.first().is_some_and(|t| t.starts_with(&format!("{worst}  "))), "the worst plate {worst} is labelled first: {texts:?}");
+        // The others shown come in order of utilisation, from the worst down.
+        let rank = |t: &String| order.iter().position(|&i| t.starts_with(&format!("{}  ", a.plates[i].id))).expect("a plate's label");
+        let ranks: Vec<usize> = texts.iter().map(rank).collect();
+        assert!(ranks.windows(2).all(|w| w[0] < w[1]), "{ranks:?}");
+        for l in &labels {
+            assert!(rect.contains_rect(l.rect), "{:?}", l.rect);
         }
     }
 }

@@ -2,6 +2,7 @@
 //! shown is the engine's: its map, its bands and its words for what limits a point.
 
 use bevy_egui::egui::{self, Align2, Color32, Pos2, Rect, Stroke, StrokeKind, Vec2};
+use plateload::check::spare::HOISTED_FACTOR;
 use plateload::export::palette::SpareBand;
 
 use super::rgb;
@@ -28,9 +29,11 @@ fn swatch(p: &egui::Painter, r: Rect, band: SpareBand) {
     p.rect_stroke(r, 2.0, Stroke::new(1.0, Color32::from_gray(90)), StrokeKind::Inside);
 }
 
-/// The editor's strip under the view while the overlay is on: footprint, grid and load to
-/// place, the map's bands with their counts, and how to read it.
-pub fn strip(ui: &mut egui::Ui, spare: &mut SpareView) {
+/// The editor's strip under the view while the overlay is on: what the map is for (footprint,
+/// its turn, grid, landing factor, combinations checked), the load D places, the map's bands
+/// with their counts, and how to read it. `checking`: the analysis's combinations the map can
+/// check (those that check capacity or uplift).
+pub fn strip(ui: &mut egui::Ui, spare: &mut SpareView, checking: &[String]) {
     ui.horizontal_wrapped(|ui| {
         ui.label(egui::RichText::new("Spare capacity").strong());
         ui.label("for one extra imposed load of");
@@ -48,6 +51,13 @@ pub fn strip(ui: &mut egui::Ui, spare: &mut SpareView) {
         }
         if spare.footprint_m == [0.0, 0.0] {
             ui.label("(a point load)");
+        } else if ui
+            .add_enabled(spare.footprint_m[0] != spare.footprint_m[1], egui::Button::new("turn 90°"))
+            .on_hover_text("Swap the two sides: the same load landed the other way round (a pallet can land either way).")
+            .on_disabled_hover_text("A square lands the same either way.")
+            .clicked()
+        {
+            spare.turn_footprint();
         }
         ui.label("on a grid of");
         let mut g = spare.spacing_m;
@@ -55,7 +65,25 @@ pub fn strip(ui: &mut egui::Ui, spare: &mut SpareView) {
         if g != spare.spacing_m {
             spare.spacing_m = g;
         }
+    });
+    ui.horizontal_wrapped(|ui| {
+        const LANDING: &str = "A factor on the placed load for landing it: a load set down by crane or hoist lands harder than its weight, so each value on the map is divided by this factor. 1.0: placed by hand, no factor.";
+        ui.label("landing factor").on_hover_text(LANDING);
+        let mut f = spare.dynamic_factor;
+        ui.add(egui::DragValue::new(&mut f).range(1.0..=10.0).speed(0.01).max_decimals(2).prefix("× ")).on_hover_text(LANDING);
+        let hoisted = HOISTED_FACTOR;
+        let mut by_crane = (f - hoisted).abs() < 1e-9;
+        if ui.checkbox(&mut by_crane, format!("set down by crane or hoist (× {})", plateload::format::num(hoisted))).on_hover_text(format!("{LANDING}\nTicked: × {} for a load set down by crane or hoist; not ticked: × 1.0.", plateload::format::num(hoisted))).changed() {
+            f = if by_crane { hoisted } else { 1.0 };
+        }
+        if f != spare.dynamic_factor && f.is_finite() {
+            spare.dynamic_factor = f.clamp(1.0, 10.0);
+        }
         ui.separator();
+        ui.label("checked in");
+        combinations_menu(ui, &mut spare.combinations, checking);
+    });
+    ui.horizontal_wrapped(|ui| {
         ui.label("D places at the pointer, as an imposed load (one undo step):");
         let mut own = spare.place_kn.is_some();
         ui.radio_value(&mut own, false, "the value shown there, rounded down");
@@ -100,6 +128,49 @@ pub fn strip(ui: &mut egui::Ui, spare: &mut SpareView) {
     }
 }
 
+/// The combinations the map checks, in words: "every combination" or their names.
+pub fn combinations_words(chosen: &[String]) -> String {
+    match chosen {
+        [] => "every combination that checks capacity or uplift".to_owned(),
+        [one] => format!("combination “{one}” only"),
+        more => format!("combinations {}", more.iter().map(|c| format!("“{c}”")).collect::<Vec<_>>().join(", ")),
+    }
+}
+
+/// A drop-down of the combinations to check: "all" (the empty list), or any of `checking`.
+fn combinations_menu(ui: &mut egui::Ui, chosen: &mut Vec<String>, checking: &[String]) {
+    let shown = match chosen.as_slice() {
+        [] => "all combinations".to_owned(),
+        [one] => one.clone(),
+        more => format!("{} combinations", more.len()),
+    };
+    egui::ComboBox::from_id_salt("spare-combinations").selected_text(shown).show_ui(ui, |ui| {
+        if ui.selectable_label(chosen.is_empty(), "all combinations").on_hover_text("every combination that checks capacity or uplift").clicked() {
+            chosen.clear();
+        }
+        ui.separator();
+        for name in checking {
+            let mut on = chosen.contains(name);
+            if ui.checkbox(&mut on, name.as_str()).changed() {
+                if on {
+                    chosen.push(name.clone());
+                    // In the analysis's order, whatever order they were ticked in.
+                    chosen.sort_by_key(|c| checking.iter().position(|n| n == c));
+                } else {
+                    chosen.retain(|c| c != name);
+                }
+                // Every one ticked is the same as all.
+                if chosen.len() == checking.len() {
+                    chosen.clear();
+                }
+            }
+        }
+        if checking.is_empty() {
+            ui.label("no combination checks capacity or uplift");
+        }
+    });
+}
+
 /// A band swatch and its text as one piece.
 fn chip(band: SpareBand, text: String) -> impl egui::Widget {
     move |ui: &mut egui::Ui| {
@@ -138,6 +209,11 @@ pub fn picture_legend(ctx: &egui::Context, bottom_left: Pos2, width: f32, spare:
             ui.set_max_width(width - 24.0);
             ui.label(egui::RichText::new("Spare capacity on the decks").strong().size(15.0).color(Color32::BLACK));
             ui.label(egui::RichText::new(format!("largest extra imposed load, kN, for {what} on a {} m grid; values do not add", plateload::format::num(spare.spacing_m))).size(11.0));
+            let mut checked = combinations_words(&spare.combinations);
+            if spare.dynamic_factor != 1.0 {
+                checked += &format!("; landing factor × {}", plateload::format::num(spare.dynamic_factor));
+            }
+            ui.label(egui::RichText::new(format!("checked in {checked}")).size(11.0));
             match &spare.map {
                 Some(Ok(_)) => {
                     for b in SpareBand::ALL {

@@ -139,3 +139,112 @@ fn the_spare_overlay_shows_the_engines_map_reads_a_point_and_places_a_load_there
     app.update();
     assert_eq!(drawn_meshes(&mut app), 0);
 }
+
+/// Each point of `map` with its deck index, for comparing two maps of the same grid.
+fn points(map: &SpareMap) -> Vec<(&str, &plateload::check::spare::SparePoint)> {
+    map.decks.iter().flat_map(|d| d.points.iter().map(move |p| (d.deck.as_str(), p))).collect()
+}
+
+#[test]
+fn the_landing_factor_divides_the_plate_limited_values_of_the_map() {
+    // source: plate reactions are linear in the load (statics), so a placed load multiplied by a
+    // factor φ reaches the same plate limit at 1/φ of the load; the factor for loads set down by
+    // hoist, 1.2, from DGUV Information 201-011 (REFERENCES §2). The sheeted-face demo: many of
+    // its points are limited by a plate with room left.
+    let mut app = mouse_app(plateload::scene::demo::demo_scene(2).expect("demo"));
+    app.world_mut().resource_mut::<SpareView>().on = true;
+    app.update();
+    let plain = engine_map(&app);
+    assert_eq!(app.world().resource::<SpareView>().map(), Some(&plain));
+    let generation = app.world().resource::<SpareView>().generation;
+
+    app.world_mut().resource_mut::<SpareView>().dynamic_factor = plateload::check::spare::HOISTED_FACTOR;
+    app.update();
+    let spare = app.world().resource::<SpareView>();
+    assert!(spare.generation > generation, "a new factor works the map out again");
+    assert!(spare.reused, "the factor does not change the coefficients");
+    let hoisted = spare.map().expect("a map").clone();
+    assert_eq!(hoisted.settings.dynamic_factor, 1.2, "the factor reaches the engine");
+    assert_eq!(hoisted, engine_map(&app), "the overlay shows the engine's map for that factor");
+    check_cells(&mut app, &hoisted);
+
+    let (a, b) = (points(&plain), points(&hoisted));
+    assert_eq!(a.len(), b.len());
+    let mut compared = 0;
+    for ((deck, p), (_, q)) in a.iter().zip(&b) {
+        assert_eq!((p.x, p.y), (q.x, q.y));
+        match (&p.limit, p.kn, q.kn) {
+            (plateload::check::spare::Limit::Plate { .. }, Some(kn), Some(kn_hoisted)) if !p.already_at_limit => {
+                assert!((kn_hoisted - kn / 1.2).abs() <= 1e-9 * kn.max(1.0), "deck {deck} ({}, {}): {kn_hoisted} kN with the factor, {kn} kN without", p.x, p.y);
+                assert_eq!(q.limit, p.limit, "the same plate limits it");
+                compared += 1;
+            }
+            _ if p.already_at_limit => assert!(q.already_at_limit && q.kn == Some(0.0), "a limit reached stays reached"),
+            _ => {}
+        }
+    }
+    assert!(compared > 10, "points limited by a plate with room left: {compared}");
+
+    // Back to 1.0: the first map again.
+    app.world_mut().resource_mut::<SpareView>().dynamic_factor = 1.0;
+    app.update();
+    assert_eq!(app.world().resource::<SpareView>().map(), Some(&plain));
+}
+
+#[test]
+fn a_chosen_combination_is_the_only_one_the_map_checks() {
+    // source: the engine's own spare-capacity map for that combination (`spare_map` with its
+    // name); the default combinations, of which "service" checks capacity and uplift and
+    // "stability" uplift only
+    let scene = plateload::scene::demo::demo_scene(1).expect("demo");
+    let mut app = mouse_app(scene);
+    app.world_mut().resource_mut::<SpareView>().on = true;
+    app.update();
+    let all = engine_map(&app);
+    let checking = crate::app::view::spare::checking_combinations(app.world().resource::<SceneDoc>().analysis().unwrap());
+    assert!(checking.len() >= 2, "the demo checks more than one combination: {checking:?}");
+    assert_eq!(all.combinations, checking, "by default every combination that checks capacity or uplift");
+
+    let chosen = checking[1].clone();
+    app.world_mut().resource_mut::<SpareView>().combinations = vec![chosen.clone()];
+    app.update();
+    let one = app.world().resource::<SpareView>().map().expect("a map").clone();
+    assert_eq!(one.settings.combinations, vec![chosen.clone()], "the name reaches the engine");
+    assert_eq!(one.combinations, vec![chosen.clone()], "the engine checked that one only");
+    assert_eq!(one, engine_map(&app));
+    for (_, p) in points(&one) {
+        if let plateload::check::spare::Limit::Plate { combination, .. } = &p.limit {
+            assert_eq!(combination, &chosen);
+        }
+    }
+    assert_ne!(one, all, "one combination alone gives another map on this site");
+    check_cells(&mut app, &one);
+
+    // A name the analysis does not have (renamed since) is dropped: every combination again.
+    app.world_mut().resource_mut::<SpareView>().combinations = vec!["no such combination".into()];
+    app.update();
+    let spare = app.world().resource::<SpareView>();
+    assert!(spare.combinations.is_empty());
+    assert_eq!(spare.map(), Some(&all));
+}
+
+#[test]
+fn the_footprint_turned_a_quarter_is_mapped_with_its_sides_swapped() {
+    // source: the engine's own map for the footprint with its sides swapped
+    let mut app = mouse_app(plateload::scene::demo::demo_scene(1).expect("demo"));
+    {
+        let mut s = app.world_mut().resource_mut::<SpareView>();
+        s.on = true;
+        s.footprint_m = [1.2, 0.8];
+    }
+    app.update();
+    let along = engine_map(&app);
+    app.world_mut().resource_mut::<SpareView>().turn_footprint();
+    app.update();
+    let spare = app.world().resource::<SpareView>();
+    assert_eq!(spare.footprint_m, [0.8, 1.2]);
+    let across = spare.map().expect("a map").clone();
+    assert_eq!(across.settings.footprint, plateload::solve::influence::Footprint { x_m: 0.8, y_m: 1.2 });
+    assert_eq!(across, engine_map(&app));
+    assert_ne!(across, along, "turned, the load lands elsewhere on the bearers");
+}

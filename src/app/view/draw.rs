@@ -129,6 +129,10 @@ struct ColourKey {
 #[derive(Resource)]
 pub struct ViewAssets {
     bar: Handle<Mesh>,
+    /// A bar without end caps, for braces: their ends lie inside the standards they join.
+    open_bar: Handle<Mesh>,
+    /// The same with four sides, for braces of scenes with more than [`COARSE_BRACES_FROM`].
+    coarse_bar: Handle<Mesh>,
     cone: Handle<Mesh>,
     cube: Handle<Mesh>,
     cog: Handle<Mesh>,
@@ -154,6 +158,12 @@ pub struct ViewAssets {
 
 /// Sides of the round bars (posts, members, arrow shafts).
 const BAR_SIDES: u32 = 8;
+
+/// From this many braces on, braces are drawn with four sides instead of eight: so many braces
+/// belong to a site seen mostly from afar, where a brace is a pixel or two wide, and on a
+/// software renderer four sides took a sixth off each frame of a 2,000-post birdcage (3,990
+/// braces). Smaller scenes keep round braces.
+pub const COARSE_BRACES_FROM: usize = 1000;
 
 /// Colour of highlights (selection, picked elements): a saturated blue, apart from every
 /// band of the utilisation ramp.
@@ -192,7 +202,13 @@ fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut mat
         // its time per triangle (bevy's default of 32 sides made 2,000 posts cost several times
         // as much to draw).
         bar: meshes.add(Cylinder::new(1.0, 1.0).mesh().resolution(BAR_SIDES)),
-        cone: meshes.add(Cone { radius: 1.0, height: 1.0 }.mesh().resolution(2 * BAR_SIDES)),
+        // A generated birdcage has two braces to a standard: the caps were 12 of each brace's
+        // 28 triangles, never seen.
+        open_bar: meshes.add(Cylinder::new(1.0, 1.0).mesh().resolution(BAR_SIDES).without_caps()),
+        coarse_bar: meshes.add(Cylinder::new(1.0, 1.0).mesh().resolution(4).without_caps()),
+        // Arrow tips and uplift cones are small on screen; every plate of a large birdcage
+        // that lifts carries one.
+        cone: meshes.add(Cone { radius: 1.0, height: 1.0 }.mesh().resolution(BAR_SIDES)),
         cube: meshes.add(Cuboid::new(1.0, 1.0, 1.0)),
         cog: meshes.add(cog_mesh()),
         ground: meshes.add(Plane3d::default().mesh().size(1.0, 1.0)),
@@ -208,8 +224,9 @@ fn init_assets(mut commands: Commands, mut meshes: ResMut<Assets<Mesh>>, mut mat
         loads: CASE_COLOURS.map(|c| lit(m, srgb(c))),
         sheets: CASE_COLOURS.map(|[r, g, b]| translucent(m, Color::srgba_u8(r, g, b, 0x14))),
         selected: unlit(m, HIGHLIGHT),
-        // The cue meshes carry their own black and white vertex colours.
-        cue: unlit(m, Color::WHITE),
+        // White; the cues' shader draws their black edges (a fraction `edge` of the band), and
+        // the centre-of-gravity mark carries its own black and white vertex colours.
+        cue: m.add(FlatMaterial { params: super::flat::FlatParams { edge: (CUE_EDGE_M / CUE_BAND_M) as f32, ..FlatMaterial::flat(Color::WHITE).params }, ..FlatMaterial::flat(Color::WHITE) }),
         // Flat, so the ground keeps one known colour: never white, which is the colour of the
         // cues, and apart from every band (see the tests below).
         ground_mat: unlit(m, srgb(GROUND)),
@@ -266,49 +283,28 @@ pub(super) fn flat_mesh(pos: Vec<[f32; 3]>, col: Vec<[f32; 4]>) -> Mesh {
 
 
 /// Over-capacity frame (square, black–white–black) and uplift ring (round, the same bands)
-/// around a plate footprint of half sizes `hx` × `hy` (bevy x, z), in metres.
+/// around a plate footprint of half sizes `hx` × `hy` (bevy x, z), in metres. Each is one flat
+/// square of two triangles that the view's shader cuts to its band (see
+/// [`super::flat::cue_band`]): with every plate of a large birdcage lifting and most over
+/// capacity, rings and frames of small triangles took half of each frame on a software renderer.
 fn cue_meshes(hx: f64, hy: f64) -> (Mesh, Mesh) {
-    let black = [0.0, 0.0, 0.0, 1.0];
-    let white = [1.0, 1.0, 1.0, 1.0];
-    // Bands outwards from the gap: black edge, white, black edge (m).
-    let bands = [(0.0, CUE_EDGE_M, black), (CUE_EDGE_M, CUE_BAND_M - CUE_EDGE_M, white), (CUE_BAND_M - CUE_EDGE_M, CUE_BAND_M, black)];
-    let (mut pos, mut col) = (Vec::new(), Vec::new());
-    // Square frame: four trapezoids per band.
-    for (a, b, c) in bands {
-        let (i, o) = (CUE_GAP_M + a, CUE_GAP_M + b);
-        let ix = (hx + i) as f32;
-        let iy = (hy + i) as f32;
-        let ox = (hx + o) as f32;
-        let oy = (hy + o) as f32;
-        let corners_in = [[-ix, -iy], [ix, -iy], [ix, iy], [-ix, iy]];
-        let corners_out = [[-ox, -oy], [ox, -oy], [ox, oy], [-ox, oy]];
-        for k in 0..4 {
-            let (a0, a1) = (corners_in[k], corners_in[(k + 1) % 4]);
-            let (b0, b1) = (corners_out[k], corners_out[(k + 1) % 4]);
-            for p in [b0, b1, a1, b0, a1, a0] {
-                pos.push([p[0], 0.0, p[1]]);
-                col.push(c);
-            }
-        }
-    }
-    let frame = flat_mesh(fix_winding(pos), col);
-    // Round ring around the frame's corners.
-    let r0 = pick::uplift_ring_radius(hx, hy);
-    let (mut pos, mut col) = (Vec::new(), Vec::new());
-    let seg = 48;
-    for (a, b, c) in bands {
-        let (ri, ro) = ((r0 + a) as f32, (r0 + b) as f32);
-        for s in 0..seg {
-            let t0 = s as f32 / seg as f32 * std::f32::consts::TAU;
-            let t1 = (s + 1) as f32 / seg as f32 * std::f32::consts::TAU;
-            let p = |r: f32, t: f32| [r * t.cos(), 0.0, r * t.sin()];
-            for q in [p(ro, t0), p(ro, t1), p(ri, t1), p(ro, t0), p(ri, t1), p(ri, t0)] {
-                pos.push(q);
-                col.push(c);
-            }
-        }
-    }
-    (frame, flat_mesh(fix_winding(pos), col))
+    let band = CUE_BAND_M as f32;
+    let (ix, iy) = ((hx + CUE_GAP_M) as f32, (hy + CUE_GAP_M) as f32);
+    let frame = super::flat::cue_band(ix + band, iy + band, band, [ix, iy]);
+    let r0 = pick::uplift_ring_radius(hx, hy) as f32;
+    let ring = super::flat::cue_band(r0 + band, r0 + band, band, [r0, -1.0]);
+    (cue_mesh(frame), cue_mesh(ring))
+}
+
+/// A cue's quad as a mesh (positions, offsets and inner edge from [`super::flat::cue_band`]).
+fn cue_mesh((pos, uv, inner): super::flat::CueQuad) -> Mesh {
+    let n = pos.len();
+    Mesh::new(PrimitiveTopology::TriangleList, RenderAssetUsages::default())
+        .with_inserted_attribute(Mesh::ATTRIBUTE_POSITION, pos)
+        .with_inserted_attribute(Mesh::ATTRIBUTE_NORMAL, vec![[0.0f32, 1.0, 0.0]; n])
+        .with_inserted_attribute(Mesh::ATTRIBUTE_UV_0, uv)
+        .with_inserted_attribute(Mesh::ATTRIBUTE_UV_1, inner)
+        .with_inserted_indices(Indices::U32((0..n as u32).collect()))
 }
 
 /// Make every triangle face up (+y), whatever order its corners were listed in.
@@ -479,9 +475,11 @@ fn sync_entities(
     let post_index: HashMap<&str, usize> = doc.scene.posts.iter().enumerate().map(|(i, p)| (p.id.as_str(), i)).collect();
     let mut plate_vec: Vec<PlateEntities> = vec![PlateEntities::default(); doc.scene.posts.len()];
     let map = &mut drawn.entities;
+    let brace_mesh = if list.iter().filter(|s| s.part == Part::Brace).count() >= COARSE_BRACES_FROM { &assets.coarse_bar } else { &assets.open_bar };
     for s in &list {
         let Some(t) = prim_transform(&s.prim) else { continue };
         let mesh = match s.prim {
+            Prim::Bar { .. } if s.part == Part::Brace => brace_mesh,
             Prim::Bar { .. } => &assets.bar,
             Prim::Cone { .. } => &assets.cone,
             Prim::Cuboid { .. } => &assets.cube,
@@ -622,7 +620,9 @@ fn recolour(
     mut drawn: ResMut<Drawn>,
     assets: Res<ViewAssets>,
     mut parts: Query<(&DrawnPart, &mut MeshMaterial3d<FlatMaterial>, &mut Visibility)>,
+    without: Option<Res<super::Without>>,
 ) {
+    let no_cues = without.is_some_and(|w| w.has(super::ViewPart::Cues));
     let key = ColourKey {
         sync_revision: drawn.revision,
         solved_revision: doc.solved_revision,
@@ -680,7 +680,8 @@ fn recolour(
         if mat.0 != *want {
             mat.0 = want.clone();
         }
-        let v = if show { Visibility::Inherited } else { Visibility::Hidden };
+        let cue = matches!(part.0, DrawKey::OverCue(_) | DrawKey::UpliftCue(_) | DrawKey::UpliftArrow(_));
+        let v = if show && !(cue && no_cues) { Visibility::Inherited } else { Visibility::Hidden };
         if *vis != v {
             *vis = v;
         }

@@ -48,6 +48,11 @@ pub struct SpareView {
     pub spacing_m: f64,
     /// Load to place with D, kN; `None`: the spare value at the point, rounded down.
     pub place_kn: Option<f64>,
+    /// Factor on the placed load for landing it (1.0: none; see
+    /// [`plateload::check::spare::HOISTED_FACTOR`]).
+    pub dynamic_factor: f64,
+    /// Combinations the map checks, by name; empty: every one that checks capacity or uplift.
+    pub combinations: Vec<String>,
     /// The map of the current analysis, or why there is none (`None` until first worked out).
     pub map: Option<Result<SpareMap, String>>,
     /// Cells of each deck of the map: (x min, x max, y min, y max) per point, m.
@@ -73,6 +78,8 @@ impl Default for SpareView {
             footprint_m: [s.footprint.x_m, s.footprint.y_m],
             spacing_m: s.spacing_m,
             place_kn: None,
+            dynamic_factor: s.dynamic_factor,
+            combinations: s.combinations,
             map: None,
             cells: Vec::new(),
             hover: None,
@@ -89,7 +96,15 @@ impl Default for SpareView {
 impl SpareView {
     /// The engine's settings for the map asked for.
     pub fn settings(&self) -> SpareSettings {
-        SpareSettings { spacing_m: self.spacing_m, footprint: self.footprint(), ..SpareSettings::default() }
+        SpareSettings { spacing_m: self.spacing_m, footprint: self.footprint(), dynamic_factor: self.dynamic_factor, combinations: self.combinations.clone(), ..SpareSettings::default() }
+    }
+    /// What the planner asked for, to see whether a control changed it.
+    pub fn asked(&self) -> (bool, SpareSettings, Option<f64>) {
+        (self.on, self.settings(), self.place_kn)
+    }
+    /// The footprint turned a quarter: its sides swapped.
+    pub fn turn_footprint(&mut self) {
+        self.footprint_m.swap(0, 1);
     }
     /// The footprint asked for.
     pub fn footprint(&self) -> Footprint {
@@ -146,6 +161,14 @@ fn refresh_map(doc: Res<SceneDoc>, mut spare: ResMut<SpareView>) {
     if !spare.on {
         return;
     }
+    // Combinations chosen that the analysis no longer has (renamed, removed, no longer checking
+    // capacity or uplift) are dropped: the choice falls back to every one rather than to none.
+    if let Some(a) = doc.analysis() {
+        let known = checking_combinations(a);
+        if spare.combinations.iter().any(|c| !known.contains(c)) {
+            spare.combinations.retain(|c| known.contains(c));
+        }
+    }
     let settings = spare.settings();
     let key = (doc.solved_revision, settings.clone());
     if spare.computed_for.as_ref() == Some(&key) {
@@ -177,6 +200,11 @@ fn refresh_map(doc: Res<SceneDoc>, mut spare: ResMut<SpareView>) {
     spare.generation += 1;
     spare.hover = None;
     spare.last_time = started.elapsed();
+}
+
+/// Names of the analysis's combinations the map can check: those that check capacity or uplift.
+pub fn checking_combinations(a: &plateload::Analysis) -> Vec<String> {
+    a.combinations.iter().filter(|c| c.checks_capacity || c.checks_uplift).map(|c| c.name.clone()).collect()
 }
 
 /// The cell of each grid point: halfway to its neighbours, and half a spacing past the outer
