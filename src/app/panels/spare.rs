@@ -120,6 +120,9 @@ pub fn strip(ui: &mut egui::Ui, spare: &mut SpareView, checking: &[String]) {
                 if let Some(w) = &map.not_included {
                     ui.label(egui::RichText::new(format!("Not included: {w}.")).small());
                 }
+                if let Some(w) = &map.notional {
+                    ui.label(egui::RichText::new("Its notional horizontal load is included, on the safe side.").small().underline()).on_hover_text(format!("{}{}.", w[..1].to_uppercase(), &w[1..]));
+                }
             });
         }
         None => {
