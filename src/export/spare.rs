@@ -47,6 +47,21 @@ pub fn point_words(p: &crate::check::spare::SparePoint) -> String {
     }
 }
 
+/// What is already at a limit before anything is added, in words, where some point of the map
+/// is: the distinct limits of those points (at most `shown`, then how many more).
+pub fn already_reached_words(map: &SpareMap, shown: usize) -> Option<String> {
+    let mut limits: Vec<String> = map.decks.iter().flat_map(|d| &d.points).filter(|p| p.already_at_limit).map(|p| p.limit.words()).collect();
+    if limits.is_empty() {
+        return None;
+    }
+    limits.sort();
+    limits.dedup();
+    let more = limits.len().saturating_sub(shown);
+    limits.truncate(shown);
+    let tail = if more > 0 { format!(" and {more} more") } else { String::new() };
+    Some(format!("already at a limit before anything is added: {}{tail} — these must be resolved (held down, relieved or re-planned) before the map can show room there", limits.join("; ")))
+}
+
 /// A spare load rounded down to 0.1 kN, as shown and as offered to place: never more than the
 /// map gives.
 pub fn round_down_kn(kn: f64) -> f64 {
@@ -153,5 +168,26 @@ mod tests {
         assert_eq!(round_down_kn(-1.0), 0.0);
         assert!(point_words(&at(Some(0.0), true)).starts_with("no extra load here — a limit is already reached: plate C2"));
         assert!(point_words(&at(None, false)).starts_with("no limit found here"));
+    }
+
+    #[test]
+    fn what_is_already_at_a_limit_is_named_once_each() {
+        // common practice, no source: a list for a site manager names each limit once
+        let deck = |points: Vec<SparePoint>| crate::check::spare::DeckSpare { deck: "D".into(), level: 2.0, load_class: None, columns: points.len(), points };
+        let map = |points: Vec<SparePoint>| SpareMap {
+            settings: crate::check::spare::SpareSettings::default(),
+            combinations: vec!["service".into()],
+            decks: vec![deck(points)],
+            not_checked: Vec::new(),
+            not_included: None,
+            notional: None,
+        };
+        assert_eq!(already_reached_words(&map(vec![at(Some(3.0), false)]), 4), None);
+        let mut lifts = at(Some(0.0), true);
+        lifts.limit = Limit::Plate { plate: "A1".into(), check: "uplift", combination: "service".into(), method: "simple".into() };
+        let words = already_reached_words(&map(vec![at(Some(0.0), true), lifts.clone(), at(Some(0.0), true), at(Some(2.0), false)]), 4).unwrap();
+        assert!(words.starts_with("already at a limit before anything is added: plate A1 would lift (service); plate C2, ground bearing (service) —"), "{words}");
+        let words = already_reached_words(&map(vec![at(Some(0.0), true), lifts]), 1).unwrap();
+        assert!(words.contains("(service) and 1 more —"), "{words}");
     }
 }

@@ -117,6 +117,9 @@ pub fn strip(ui: &mut egui::Ui, spare: &mut SpareView, checking: &[String]) {
                     ui.label(egui::RichText::new(format!("Not checked here (no capacity known): {n} member{}.", if n == 1 { "" } else { "s" })).small().underline())
                         .on_hover_text(map.not_checked.join(", "));
                 }
+                if let Some(w) = plateload::export::spare::already_reached_words(map, 4) {
+                    ui.label(egui::RichText::new(format!("{}{}.", w[..1].to_uppercase(), &w[1..])).small().color(Color32::from_rgb(0xd0, 0x60, 0x40)));
+                }
                 if let Some(w) = &map.not_included {
                     ui.label(egui::RichText::new(format!("Not included: {w}.")).small());
                 }
