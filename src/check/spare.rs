@@ -483,7 +483,7 @@ fn pass_grid(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], gr
                 })
             })
             .collect();
-        let scratch = BracedScratch::new(&braced, &a, &room, n_posts);
+        let scratch = BracedScratch::new(&braced, &a, &room);
         let bounds = bearer_bounds(inf, &braced, &scratch, &room, &vertically_shared);
         // Per bearer and column: the least ratio room / influence over the plates, for a
         // positive and for a negative deck share, with what gave it.
@@ -532,10 +532,10 @@ fn pass_grid(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], gr
                 // Plates reached through more than one of the deck's bearers: summed here.
                 for &p in &st.shared_list {
                     let c_p: f64 = (0..nk).map(|k| inf.d[i][k] * inf.flows[k][j].iter().filter(|e| e.0 as usize == p).map(|e| e.1).sum::<f64>()).sum();
-                    if c_p.abs() >= INFLUENCE_FLOOR {
-                        if let Some(b) = plate_limit(&st.room, p as u32, c_p, c, m) {
-                            here.take(b);
-                        }
+                    if c_p.abs() >= INFLUENCE_FLOOR
+                        && let Some(b) = plate_limit(&st.room, p as u32, c_p, c, m)
+                    {
+                        here.take(b);
                     }
                 }
                 if st.notional_here {
@@ -856,7 +856,7 @@ struct BracedScratch {
 }
 
 impl BracedScratch {
-    fn new(braced: &Braced, a: &[[f64; 2]], room: &Room, _n_posts: usize) -> Self {
+    fn new(braced: &Braced, a: &[[f64; 2]], room: &Room) -> Self {
         let n = braced.posts.len();
         let bound: Vec<f64> = braced
             .most
@@ -1005,7 +1005,6 @@ fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, w: &BracedScratch, room: 
 /// bearer is skipped where a bound on its plates — room ÷ (|share| · |influence| + Σₖ |d[i][k]|
 /// · notional bound) — cannot beat the value found; the plates no bearer reaches here take the
 /// notional load alone, in order of the least limit they could give.
-#[allow(clippy::too_many_arguments)]
 fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds, a: &[[f64; 2]], room: &Room, sums: &mut NotionalSums, here: &mut Best) {
     let &BracedPoint { inf, braced, shares, i, j, c, m } = at;
     let spread = braced.row_sum[i];
@@ -1021,16 +1020,16 @@ fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds,
             }
         }
         let pressing = r.max(0.0) + down;
-        if pressing >= INFLUENCE_FLOOR {
-            if let Some(b) = plate_limit(room, p, pressing, c, m) {
-                here.take(b);
-            }
+        if pressing >= INFLUENCE_FLOOR
+            && let Some(b) = plate_limit(room, p, pressing, c, m)
+        {
+            here.take(b);
         }
         let lifting = r.min(0.0) + up;
-        if lifting <= -INFLUENCE_FLOOR {
-            if let Some(b) = plate_limit(room, p, lifting, c, m) {
-                here.take(b);
-            }
+        if lifting <= -INFLUENCE_FLOOR
+            && let Some(b) = plate_limit(room, p, lifting, c, m)
+        {
+            here.take(b);
         }
     };
     let mut consider = |s: usize, r: f64, here: &mut Best, w: &mut BracedScratch| {
