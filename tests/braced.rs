@@ -581,6 +581,9 @@ fn the_spare_map_says_how_it_takes_the_notional_load_of_the_extra_load() {
     assert!(map.not_included.as_deref().expect("the map always says what it leaves out").contains("sliding"));
     let text = plateload::export::spare::spare_text(&map);
     assert!(text.contains("Not included: sliding") && text.contains("Notional load: the notional horizontal load"), "{text}");
+    // Every point of this demo is at a limit (plates lift already): the report names them.
+    let html = plateload::export::report::report_html(&scene, &a, &plateload::export::report::ReportOptions::default());
+    assert!(html.contains("<strong>Notional load:</strong> the notional horizontal load") && html.contains("<strong>Already at a limit before anything is added:</strong> plate "), "the report's spare section says how it takes the notional load and what blocks the map");
     let mut off = scene.clone();
     off.horizontal.notional = plateload::scene::model::NotionalRule::Off;
     let a = plateload::analyse(&off).unwrap();

@@ -1382,6 +1382,9 @@ fn spare(h: &mut String, scene: &Scene, a: &Analysis) {
     if let Some(w) = &map.notional {
         let _ = writeln!(h, "<p class=\"note\"><strong>Notional load:</strong> {}.</p>", esc(w));
     }
+    if let Some((head, rest)) = crate::export::spare::already_reached_words(&map, 8).as_deref().and_then(|w| w.split_once(':')) {
+        let _ = writeln!(h, "<p class=\"note\"><strong>{}{}:</strong>{}.</p>", esc(&head[..1].to_uppercase()), esc(&head[1..]), esc(rest));
+    }
     for d in &map.decks {
         let (x0, x1) = d.points.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p.x), hi.max(p.x)));
         let (y0, y1) = d.points.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), p| (lo.min(p.y), hi.max(p.y)));
