@@ -82,7 +82,7 @@ pub enum DrawKey {
 pub struct DrawnPart(pub DrawKey);
 
 /// Entities of a post's plate, for recolouring.
-#[derive(Debug, Clone, Default)]
+#[derive(Debug, Clone, Default, PartialEq, Eq)]
 pub struct PlateEntities {
     /// Post tube.
     pub post: Option<Entity>,
@@ -548,8 +548,11 @@ fn sync_entities(
             *g = t;
         }
     }
-    // The by-id table of plate entities only changes when entities came or went.
-    if rc.spawned + removed > 0 || drawn.plates.len() != doc.scene.posts.len() {
+    // The by-id table of plate entities only changes when entities came or went, and even
+    // then mostly not: a load put on or taken off spawns or removes its own entities only.
+    // Looking each post up costs less than building the table again (an id string per post).
+    let unchanged = |plates: &HashMap<String, PlateEntities>| plates.len() == doc.scene.posts.len() && doc.scene.posts.iter().zip(&plate_vec).all(|(p, pe)| plates.get(p.id.as_str()) == Some(pe));
+    if (rc.spawned + removed > 0 || drawn.plates.len() != doc.scene.posts.len()) && !unchanged(&drawn.plates) {
         drawn.plates = doc.scene.posts.iter().zip(plate_vec).map(|(p, pe)| (p.id.clone(), pe)).collect();
     }
     drawn.order = rc.order;
