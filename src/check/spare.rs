@@ -224,7 +224,7 @@ pub fn spare_influences(scene: &Scene, analysis: &Analysis, settings: &SpareSett
     let passes: Vec<crate::solve::MethodPass> = (0..analysis.method_count()).map(|m| analysis.method(m).clone()).collect();
     let groups = notional_groups(scene);
     let with_notional = !groups.is_empty();
-    let axes = [0, 1].map(|a| groups.iter().flatten().any(|t| t.u[a].abs() > 1e-12));
+    let axes = notional_axes(&groups);
     let mut decks = Vec::with_capacity(scene.decks.len());
     for d in 0..scene.decks.len() {
         let wanted = settings.decks.is_empty() || settings.decks.contains(&scene.decks[d].id);
@@ -267,7 +267,7 @@ pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettin
     // Coefficients worked out without the notional load now asked for (a changed rule or
     // direction): worked out again here rather than left out.
     let groups = notional_groups(scene);
-    let axes = [0, 1].map(|a| groups.iter().flatten().any(|t| t.u[a].abs() > 1e-12));
+    let axes = notional_axes(&groups);
     if (axes[0] && !influences.notional_axes[0]) || (axes[1] && !influences.notional_axes[1]) {
         let fresh = spare_influences(scene, analysis, settings)?;
         return spare_map_from(scene, analysis, settings, &fresh);
@@ -282,7 +282,7 @@ pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettin
             continue;
         }
         match &influences.decks[d] {
-            Some(per_pass) => decks.push(deck_map(scene, analysis, d, settings, &combos, per_pass)),
+            Some(per_pass) => decks.push(deck_map(scene, analysis, d, settings, &combos, &groups, per_pass)),
             None if !settings.decks.is_empty() => {
                 return Err(SpareError::Setting(format!("the footprint {} × {} m does not fit on deck {}", fp.x_m, fp.y_m, deck.id)));
             }
@@ -298,7 +298,7 @@ pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettin
     }
     let mut not_checked: Vec<String> = scene.bearers.iter().map(|b| format!("{} {}", role_word(b.role), b.id)).collect();
     not_checked.extend(scene.decks.iter().filter(|d| deck_class(scene, d).is_none()).map(|d| format!("deck {}", d.id)));
-    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked, not_included: not_included(), notional: notional_words(scene) })
+    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked, not_included: not_included(), notional: notional_words(scene, &groups) })
 }
 
 /// One notional load the extra load brings: its plan direction (unit x, y), its share of the
@@ -361,14 +361,18 @@ fn notional_groups(scene: &Scene) -> Vec<Vec<NotionalTerm>> {
     groups.into_iter().map(|g| g.1).filter(|g| !g.is_empty()).collect()
 }
 
+/// The plan axes (x, y) along which any notional load of the extra load acts.
+fn notional_axes(groups: &[Vec<NotionalTerm>]) -> [bool; 2] {
+    [0, 1].map(|a| groups.iter().flatten().any(|t| t.u[a].abs() > 1e-12))
+}
+
 /// What the map leaves out, in words.
 fn not_included() -> Option<String> {
     Some("sliding of the plates (check it with the load added to the scene)".to_owned())
 }
 
 /// How the map takes the notional load of the extra load, in words.
-fn notional_words(scene: &Scene) -> Option<String> {
-    let groups = notional_groups(scene);
+fn notional_words(scene: &Scene, groups: &[Vec<NotionalTerm>]) -> Option<String> {
     if groups.is_empty() {
         return None;
     }
@@ -549,10 +553,9 @@ fn pass_grid(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], gr
     best
 }
 
-fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], per_pass: &[DeckInfluence]) -> DeckSpare {
+fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence]) -> DeckSpare {
     let deck = &scene.decks[d];
     let n_posts = scene.posts.len();
-    let groups = notional_groups(scene);
     // Method passes are independent: worked out side by side, then taken in pass order (the
     // least value, ties to the first, as one after the other would).
     let workers = std::thread::available_parallelism().map_or(1, |n| n.get()).min(per_pass.len()).max(1);
@@ -566,7 +569,7 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
                 if m >= per_pass.len() {
                     return done;
                 }
-                done.push((m, pass_grid(analysis, settings, combos, &groups, m, &per_pass[m], n_posts)));
+                done.push((m, pass_grid(analysis, settings, combos, groups, m, &per_pass[m], n_posts)));
             }
         };
         let helpers: Vec<_> = (1..workers).map(|_| scope.spawn(work)).collect();
