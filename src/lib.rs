@@ -35,6 +35,7 @@ pub mod export;
 pub mod format;
 pub mod scene;
 pub mod solve;
+pub mod workers;
 
 pub use check::{analyse, Analysis, AnalysisError, CaseEquilibrium, PlateResult, Status};
 pub use scene::{

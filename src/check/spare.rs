@@ -558,34 +558,10 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     let n_posts = scene.posts.len();
     // Method passes are independent: worked out side by side, then taken in pass order (the
     // least value, ties to the first, as one after the other would).
-    let workers = std::thread::available_parallelism().map_or(1, |n| n.get()).min(per_pass.len()).max(1);
-    let next = std::sync::atomic::AtomicUsize::new(0);
-    let mut per_grid: Vec<Option<Vec<Best>>> = vec![None; per_pass.len()];
-    std::thread::scope(|scope| {
-        let work = || {
-            let mut done = Vec::new();
-            loop {
-                let m = next.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
-                if m >= per_pass.len() {
-                    return done;
-                }
-                done.push((m, pass_grid(analysis, settings, combos, groups, m, &per_pass[m], n_posts)));
-            }
-        };
-        let helpers: Vec<_> = (1..workers).map(|_| scope.spawn(work)).collect();
-        for (m, g) in work() {
-            per_grid[m] = Some(g);
-        }
-        for h in helpers {
-            for (m, g) in h.join().expect("a map worker does not panic") {
-                per_grid[m] = Some(g);
-            }
-        }
-    });
+    let per_grid = crate::workers::in_order(per_pass.len(), || (), |m, _| pass_grid(analysis, settings, combos, groups, m, &per_pass[m], n_posts));
     let mut grid: Option<Vec<Best>> = None;
     let mut shape = (0, 0);
     for (m, g) in per_grid.into_iter().enumerate() {
-        let g = g.expect("every pass worked out");
         shape = (per_pass[m].across.len(), per_pass[m].along.len());
         match &mut grid {
             None => grid = Some(g),

@@ -266,31 +266,7 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
         result
     };
     // Passes are independent: worked out side by side, each worker keeping its own flow cache.
-    let workers = std::thread::available_parallelism().map_or(1, |n| n.get()).min(passes.len()).max(1);
-    let next = std::sync::atomic::AtomicUsize::new(0);
-    let mut out: Vec<Option<DeckInfluence>> = vec![None; passes.len()];
-    std::thread::scope(|scope| {
-        let work = || {
-            let mut cache = crate::solve::arrangement::FlowCache::default();
-            let mut done = Vec::new();
-            loop {
-                let m = next.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
-                if m >= passes.len() {
-                    return done;
-                }
-                done.push((m, one_pass(&passes[m], &mut cache)));
-            }
-        };
-        let helpers: Vec<_> = (1..workers).map(|_| scope.spawn(work)).collect();
-        for (m, inf) in work() {
-            out[m] = inf;
-        }
-        for h in helpers {
-            for (m, inf) in h.join().expect("an influence worker does not panic") {
-                out[m] = inf;
-            }
-        }
-    });
+    let out = crate::workers::in_order(passes.len(), crate::solve::arrangement::FlowCache::default, |m, cache| one_pass(&passes[m], cache));
     Ok(out)
 }
 
