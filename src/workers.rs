@@ -21,7 +21,7 @@ pub fn in_order<S, T: Send>(n: usize, new_state: impl Fn() -> S + Sync, work: im
     };
     let mut out: Vec<Option<T>> = (0..n).map(|_| None).collect();
     std::thread::scope(|scope| {
-        let others: Vec<_> = (1..threads).map(|_| scope.spawn(&run)).collect();
+        let others: Vec<_> = (1..threads).map(|_| scope.spawn(run)).collect();
         for (i, t) in run() {
             out[i] = Some(t);
         }

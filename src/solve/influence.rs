@@ -62,6 +62,10 @@ pub struct DeckInfluence {
     pub notional: Option<NotionalInfluence>,
 }
 
+/// Per bearer of a deck, per node (the bearer's posts in its order), per `2·axis + way`: the effect
+/// at each plate (post, kN) of 1 kN of horizontal load at the node.
+pub type Routed = Vec<Vec<[Vec<(u32, f64)>; 4]>>;
+
 /// The plate effects of the notional horizontal load a unit load on a deck brings, per unit of
 /// the notional share (1 kN of horizontal force per kN of vertical load entering the posts).
 #[derive(Debug, Clone)]
@@ -78,7 +82,7 @@ pub struct NotionalInfluence {
     /// axis `axis` (0 x, 1 y) at the node where bearer `bearers[k]` sits on its `n`-th post;
     /// way 0 the lever rule between braced planes, way 1 a rigid diaphragm (the same where the
     /// bracing gives one way).
-    pub units: std::sync::Arc<Vec<Vec<[Vec<(u32, f64)>; 4]>>>,
+    pub units: std::sync::Arc<Routed>,
 }
 
 impl DeckInfluence {
@@ -188,7 +192,7 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
         Axis::Y => (footprint.y_m, footprint.x_m),
     };
     // The unit responses routed to the plates: [k][node][2·axis + way].
-    let route = |s: &mut Solver| -> Vec<Vec<[Vec<(u32, f64)>; 4]>> {
+    let route = |s: &mut Solver| -> Routed {
         raw.iter()
             .map(|per| {
                 per.iter()
