@@ -92,6 +92,8 @@ pub struct Acc {
     fallback: Vec<[f64; 3]>,
     /// Per diaphragm and joined plane: force by the lever rule, kN.
     lever: Vec<f64>,
+    /// Whether anything went into `base`.
+    any_base: bool,
 }
 
 impl Acc {
@@ -100,6 +102,7 @@ impl Acc {
         if s == 0.0 {
             return;
         }
+        self.any_base |= o.any_base;
         for (a, b) in self.base.iter_mut().zip(&o.base) {
             a[0] += s * b[0];
             a[1] += s * b[1];
@@ -384,6 +387,7 @@ impl<'m, 's> Network<'m, 's> {
             rigid: vec![[0.0; 3]; d],
             fallback: vec![[0.0; 3]; d],
             lever: vec![0.0; self.n_lever],
+            any_base: false,
         }
     }
 
@@ -454,7 +458,10 @@ impl<'m, 's> Network<'m, 's> {
 
     fn apply(&self, acc: &mut Acc, target: Target, axis: usize, f: f64) {
         match target {
-            Target::Base(p) => acc.base[p as usize][axis] += f,
+            Target::Base(p) => {
+                acc.base[p as usize][axis] += f;
+                acc.any_base = true;
+            }
             Target::Plane(i) => acc.plane[i as usize] += f,
             Target::Diaphragm(d, post) => {
                 let p = &self.model.scene.posts[post as usize];
@@ -543,6 +550,8 @@ impl<'m, 's> Network<'m, 's> {
                         Target::Base(p) => {
                             ag.base[p as usize][axis] += fg * w;
                             aq.base[p as usize][axis] += fq * w;
+                            ag.any_base = true;
+                            aq.any_base = true;
                         }
                         Target::Plane(k) => {
                             ag.plane[k as usize] += fg * w;
@@ -621,35 +630,49 @@ impl<'m, 's> Network<'m, 's> {
             }
         }
         let mut vertical = vec![0.0; n];
-        let mut base: Vec<[f64; 2]> = if shear { vec![[0.0; 2]; n] } else { Vec::new() };
+        // Base shear straight into the ground at the posts' bases: the same each way.
+        let direct: Vec<(u32, [f64; 2])> = if shear && acc.any_base { acc.base.iter().enumerate().filter(|(_, a)| **a != [0.0; 2]).map(|(p, a)| (p as u32, [-a[0], -a[1]])).collect() } else { Vec::new() };
+        // Only the posts at the ends of the diagonals of loaded planes can take a brace component:
+        // those are read back, in post order, rather than every post. Base shears are listed as
+        // they come and summed post by post, in the same order.
+        let mut touched: Vec<u32> = Vec::new();
+        let mut base: Vec<(u32, [f64; 2])> = Vec::new();
         totals
             .iter()
             .map(|forces| {
                 let mut lift_shear = vec![0.0; forces.len()];
-                if shear {
-                    for (b, a) in base.iter_mut().zip(&acc.base) {
-                        *b = [-a[0], -a[1]];
-                    }
-                }
+                touched.clear();
+                base.clear();
+                base.extend_from_slice(&direct);
                 for (pk, plane) in bracing.planes.iter().enumerate() {
                     let range = self.plane_first[pk]..self.plane_first[pk + 1];
                     if forces[range.clone()].iter().all(|v| *v == 0.0) {
                         continue;
                     }
-                    solve_plane(plane, &forces[range.clone()], &mut vertical, &mut base, &mut lift_shear[range]);
+                    solve_plane(plane, &forces[range.clone()], &mut vertical, shear.then_some(&mut base), &mut lift_shear[range]);
+                    touched.extend(plane.lifts.iter().flatten().flat_map(|d| [d.lower, d.upper]));
                 }
-                let mut out_vertical: Vec<(u32, f64)> = Vec::with_capacity(n);
-                for (p, v) in vertical.iter_mut().enumerate() {
-                    if *v != 0.0 {
-                        out_vertical.push((p as u32, std::mem::take(v)));
+                touched.sort_unstable();
+                touched.dedup();
+                let mut out_vertical: Vec<(u32, f64)> = Vec::with_capacity(touched.len());
+                for &p in &touched {
+                    let v = std::mem::take(&mut vertical[p as usize]);
+                    if v != 0.0 {
+                        out_vertical.push((p, v));
                     }
                 }
-                let mut out_shear: Vec<(u32, [f64; 2])> = Vec::with_capacity(if shear { n } else { 0 });
-                for (p, &s) in base.iter().enumerate() {
-                    if s != [0.0; 2] {
-                        out_shear.push((p as u32, s));
+                base.sort_by_key(|e| e.0);
+                let mut out_shear: Vec<(u32, [f64; 2])> = Vec::with_capacity(base.len());
+                for &(p, s) in &base {
+                    match out_shear.last_mut() {
+                        Some(last) if last.0 == p => {
+                            last.1[0] += s[0];
+                            last.1[1] += s[1];
+                        }
+                        _ => out_shear.push((p, s)),
                     }
                 }
+                out_shear.retain(|e| e.1 != [0.0; 2]);
                 Reactions { vertical: out_vertical, shear: out_shear, lift_shear }
             })
             .collect()
@@ -663,9 +686,9 @@ impl<'m, 's> Network<'m, 's> {
 
 /// Solve one plane lift by lift for the forces put into it at its levels (along its axis):
 /// brace vertical components into `vertical` (per post), base shear reactions at the feet of the
-/// ground-lift diagonals into `base` (per post, if not empty), the shear of each lift into
+/// ground-lift diagonals onto `base` (post, shear; where asked for), the shear of each lift into
 /// `lift_shear`.
-fn solve_plane(plane: &Plane, forces: &[f64], vertical: &mut [f64], base: &mut [[f64; 2]], lift_shear: &mut [f64]) {
+fn solve_plane(plane: &Plane, forces: &[f64], vertical: &mut [f64], mut base: Option<&mut Vec<(u32, [f64; 2])>>, lift_shear: &mut [f64]) {
     let mut v = 0.0;
     for k in (0..plane.levels.len()).rev() {
         v += forces[k];
@@ -678,8 +701,12 @@ fn solve_plane(plane: &Plane, forces: &[f64], vertical: &mut [f64], base: &mut [
             let component = vj * d.rise() / d.run;
             vertical[d.lower as usize] -= component;
             vertical[d.upper as usize] += component;
-            if k == 0 && !base.is_empty() {
-                base[d.lower as usize][plane.axis as usize] -= vj;
+            if k == 0
+                && let Some(base) = base.as_deref_mut()
+            {
+                let mut s = [0.0; 2];
+                s[plane.axis as usize] = 0.0 - vj;
+                base.push((d.lower, s));
             }
         }
     }
