@@ -2,7 +2,7 @@
 
 use plateload::check::spare::{spare_map, Limit, SpareSettings};
 use plateload::scene::loads::{Arrangement, Case, LoadKind};
-use plateload::scene::model::{BeamMethod, Brace, NotionalRule, PostNode};
+use plateload::scene::model::{BeamMethod, Brace, Interface, NotionalRule, PostNode};
 use plateload::solve::influence::Footprint;
 use plateload::{analyse, Scene};
 
@@ -297,6 +297,90 @@ mod properties {
     }
 }
 
+mod sliding_properties {
+use super::*;
+use proptest::prelude::*;
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 48, ..ProptestConfig::default() })]
+
+    #[test]
+    fn a_point_limited_by_sliding_brings_the_plate_to_its_target(
+        nx in 2usize..4, ny in 2usize..4, bay in 1.0f64..2.5, cant in prop_oneof![Just(0.0), 0.0f64..0.8],
+        method in 0usize..3, q in 0.5f64..4.0, g in 0.5f64..3.0, mu in 0.05f64..0.5, pick in any::<u64>(),
+        rect in any::<bool>(),
+    ) {
+        // common practice, no source: linearity — placing the reported load where a plate's
+        // sliding limits it and solving again brings that plate's factor against sliding to its
+        // target, never beyond, and no other plate beyond its own; exactly (1e-6) with simple spans
+        // and no cantilever; 1 % more then loses the target.
+        let mut s = bare_scene();
+        s.site.allowable_bearing_kpa = Some(1e5);
+        s.support_types[0].swl_kn = 1e4;
+        s.support_types[0].friction = vec![Interface::Given { mu, source: "a test".into() }];
+        s.analysis.method = [BeamMethod::SimpleSpans, BeamMethod::Continuous, BeamMethod::Envelope][method];
+        for j in 0..ny {
+            for i in 0..nx {
+                s.posts.push(post(&format!("P{i}-{j}"), i as f64 * bay, j as f64 * bay, 2.0));
+            }
+        }
+        for j in 0..ny {
+            let ids: Vec<String> = (0..nx).map(|i| format!("P{i}-{j}")).collect();
+            let refs: Vec<&str> = ids.iter().map(String::as_str).collect();
+            s.bearers.push(bearer(&format!("L{j}"), 2.0, &refs));
+            s.braces.push(Brace { id: format!("X{j}"), from: PostNode { post: format!("P0-{j}"), level: 0.0 }, to: PostNode { post: format!("P1-{j}"), level: 2.0 } });
+        }
+        // Transoms joining the lines into one structure, carrying nothing.
+        for i in 0..nx {
+            let ids: Vec<String> = (0..ny).map(|j| format!("P{i}-{j}")).collect();
+            let refs: Vec<&str> = ids.iter().map(String::as_str).collect();
+            s.bearers.push(bearer(&format!("T{i}"), 1.0, &refs));
+        }
+        let names: Vec<String> = (0..ny).map(|j| format!("L{j}")).collect();
+        let refs: Vec<&str> = names.iter().map(String::as_str).collect();
+        s.decks.push(deck("D", 2.0, (0.0, (nx - 1) as f64 * bay), (0.0, (ny - 1) as f64 * bay + cant), &refs));
+        s.loads.push(load("q", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(q) }));
+        s.loads.push(load("g", Case::G, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(g) }));
+        s.horizontal.notional = NotionalRule::Falsework;
+        s.horizontal.directions = vec![plateload::scene::loads::PlanDirection::PlusX];
+        let a = analyse(&s).unwrap();
+        prop_assume!(a.stability.structures.len() == 1);
+        let fp = if rect { Footprint { x_m: 0.6, y_m: 0.4 } } else { Footprint::POINT };
+        let map = spare_map(&s, &a, &SpareSettings { spacing_m: 0.5, footprint: fp, ..SpareSettings::default() }).unwrap();
+        let candidates: Vec<_> = map.decks[0].points.iter().filter(|p| p.kn.is_some_and(|k| k > 1e-6) && matches!(p.limit, Limit::Sliding { .. })).collect();
+        prop_assume!(!candidates.is_empty());
+        let p = candidates[(pick % candidates.len() as u64) as usize];
+        let kn = p.kn.unwrap();
+        let Limit::Sliding { plate, form } = p.limit.clone() else { unreachable!() };
+        let place = |factor: f64| {
+            let mut t = s.clone();
+            let kind = if rect {
+                LoadKind::DeckPatch { deck: "D".into(), area: plateload::Rect { x: (p.x - 0.3, p.x + 0.3), y: (p.y - 0.2, p.y + 0.2) }, intensity: kpa(factor * kn / fp.area()) }
+            } else {
+                LoadKind::DeckPoint { deck: "D".into(), x: p.x, y: p.y, kn: factor * kn }
+            };
+            let mut l = load("placed", Case::Q, kind);
+            l.arrangement = Arrangement::Whole;
+            t.loads.push(l);
+            analyse(&t).unwrap()
+        };
+        // How far within its limit the plate is in the form that limits: 0 at the limit.
+        let margin = |b: &plateload::Analysis| {
+            let Some(r) = b.plates[b.plate_index(&plate).unwrap()].sliding.clone() else { return f64::INFINITY };
+            if form == "EQU" { (r.equ_friction_kn - r.equ_shear_kn) / r.equ_friction_kn.max(1.0) } else { r.factor.unwrap() / b.sliding.target_factor - 1.0 }
+        };
+        let b = place(1.0);
+        let at = margin(&b);
+        prop_assert!(at >= -1e-6, "{plate} beyond the sliding target ({form}): {at} with {kn} kN at ({}, {})", p.x, p.y);
+        prop_assert!(b.sliding.plates_to_restrain == 0 || a.sliding.plates_to_restrain > 0, "another plate slides");
+        if method == 0 && cant == 0.0 {
+            prop_assert!(at <= 1e-6, "{plate} short of the sliding target ({form}): {at} with {kn} kN at ({}, {})", p.x, p.y);
+            prop_assert!(margin(&place(1.01)) < -1e-6, "1 % more must lose the target");
+        }
+    }
+}
+}
+
 /// The strip's two lines joined into one structure by weightless transoms carrying nothing, 1 kN
 /// of permanent load on each post top, overturning target factor 2.0.
 fn one_structure(mut s: Scene) -> Scene {
@@ -368,4 +452,72 @@ fn a_deck_whose_notional_load_the_bracing_cannot_carry_is_refused() {
     // Along x alone the bracing carries it.
     s.horizontal.directions = vec![plateload::scene::loads::PlanDirection::PlusX];
     spare_map(&s, &a, &SpareSettings::default()).unwrap();
+}
+
+#[test]
+fn a_point_limited_by_a_plate_sliding() {
+    // statics, by hand (REFERENCES §8: a diagonal of run b and rise h carrying shear V puts
+    // ±V·h/b into its posts, and V leaves by its foot; lever rule across the deck and along the
+    // bearers, AISC Table 3-23 case 8). The braced strip joined into one structure: 11 kN of
+    // permanent load on each post top, notional load 2.5 % along +x at 2 m, μ = 0.2 (given),
+    // sliding target 2.0, SWL raised to 100 kN so no capacity governs. Already there: 1.1 kN along
+    // +x, 0.55 kN down each diagonal: at its foot A1 base shear 0.55 kN and 11 − 0.55 = 10.45 kN
+    // (the brace component lifts it). Room at A1: 0.2 × 10.45 − 2.0 × 0.55 = 0.99 kN.
+    // A load P at the middle (1.0, 1.5) puts P/4 on each post (its vertical load never adds
+    // friction); its notional load 0.025·P sends 0.0125·P down each diagonal: base shear 0.0125·P
+    // at A1, and 0.0125·P lifting A1 (a notional load of imposed load counts where it lifts):
+    // 0.99 = 2.0 × 0.0125·P + 0.2 × 0.0125·P → P = 36 kN (A2 the same).
+    // EQU (EN 1990 Table A1.2(A): G × 0.9 favourable, W × 1.5): 0.2 × (0.9 × 11 − 1.5 × 0.55)
+    // − 1.5 × 0.55 = 0.99 against 1.5 × 0.0125·P + 0.2 × 1.5 × 0.0125·P → 44 kN. The structure as
+    // a whole: 0.2 × 44 / 2 − 1.1 = 3.3 kN against 0.025·P + 0.2 × 0.025·P / 2 → 120 kN (with
+    // friction at every plate, a plate always slides first). Plate B1 (room 100 − 11.55,
+    // P/4 + P/80) → 337 kN; overturning about the east edge (44 / 2 − 2.2 = 19.8 kN·m against
+    // 0.05·P) → 396 kN.
+    let mut s = braced_strip(NotionalRule::Percent(2.5));
+    s.loads.retain(|l| !l.id.starts_with("kit-"));
+    let mut s = one_structure(s);
+    for l in &mut s.loads {
+        if let LoadKind::PostTop { kn, .. } = &mut l.kind {
+            *kn = 11.0;
+        }
+    }
+    s.support_types[0].swl_kn = 100.0;
+    s.support_types[0].friction = vec![Interface::Given { mu: 0.2, source: "a test".into() }];
+    let a = analyse(&s).unwrap();
+    let foot = a.plates[a.plate_index("A1").unwrap()].sliding.clone().expect("A1 takes base shear");
+    close("base shear at A1 already", foot.shear_kn, 0.55, 1e-9);
+    close("least vertical load at A1", foot.normal_kn, 10.45, 1e-9);
+    let map = spare_map(&s, &a, &SpareSettings::default()).unwrap();
+    let p = at(&map, 1.0, 1.5);
+    close("spare at the middle", p.kn.unwrap(), 36.0, 1e-9);
+    assert_eq!(p.limit, Limit::Sliding { plate: "A1".into(), form: "factor of safety" }, "{}", p.limit.words());
+    assert_eq!(p.limit.words(), "plate A1 would slide (factor of safety)");
+    assert_eq!(map.not_included, None, "every plate has friction: nothing left out");
+    // Placed and solved again: A1's factor against sliding is exactly the target.
+    let place = |kn: f64| {
+        let mut t = s.clone();
+        let mut l = load("placed", Case::Q, LoadKind::DeckPoint { deck: "D".into(), x: 1.0, y: 1.5, kn });
+        l.arrangement = Arrangement::Whole;
+        t.loads.push(l);
+        analyse(&t).unwrap()
+    };
+    let b = place(36.0);
+    let after = b.plates[b.plate_index("A1").unwrap()].sliding.clone().unwrap();
+    close("A1's factor against sliding with the load placed", after.factor.unwrap(), 2.0, 1e-9);
+    assert_eq!(b.sliding.plates_to_restrain, 0);
+    // 1 % more and A1 (and A2) must be restrained.
+    assert_eq!(place(36.36).sliding.plates_to_restrain, 2);
+    // Without a friction coefficient sliding is not checked, and the map says so.
+    let with_friction = (s.clone(), a);
+    s.support_types[0].friction.clear();
+    let a = analyse(&s).unwrap();
+    let map = spare_map(&s, &a, &SpareSettings::default()).unwrap();
+    assert!(!matches!(at(&map, 1.0, 1.5).limit, Limit::Sliding { .. }));
+    // Coefficients kept from before friction was given are not used without the base shears.
+    // common practice, no source: the same map as worked out from scratch.
+    let kept = plateload::check::spare::spare_influences(&s, &a, &SpareSettings::default()).unwrap();
+    let again = plateload::check::spare::spare_map_from(&with_friction.0, &with_friction.1, &SpareSettings::default(), &kept).unwrap();
+    close("kept coefficients, friction given since", at(&again, 1.0, 1.5).kn.unwrap(), 36.0, 1e-9);
+    let left_out = map.not_included.as_deref().unwrap();
+    assert!(left_out.contains("sliding of the structure (4 plates) and of its plates, for want of a friction coefficient for support type S"), "{left_out}");
 }

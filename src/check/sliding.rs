@@ -20,7 +20,7 @@ use crate::scene::model::Scene;
 use crate::solve::Solution;
 
 /// Base shear below this, kN, is none.
-const NO_SHEAR_KN: f64 = 1e-9;
+pub const NO_SHEAR_KN: f64 = 1e-9;
 
 /// One plate's sliding check, in its worst direction.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
@@ -83,6 +83,17 @@ pub struct Sliding {
     /// emptied when the analysis hands them over).
     #[serde(skip)]
     pub plates: Vec<Option<PlateSliding>>,
+    /// Per method pass and plate (by post), the room the plate leaves against sliding for a load
+    /// yet to be placed, kN: μ × least vertical load − target × base shear (factor-of-safety
+    /// form) and factored friction − factored base shear (EQU), the least over the directions and
+    /// diaphragm assumptions; infinite where it has no friction coefficient; third, the largest
+    /// base shear it already takes, kN (not written out).
+    #[serde(skip)]
+    pub plate_rooms: Vec<Vec<[f64; 3]>>,
+    /// Per plate (by post), the friction coefficient taken; `None` where none is given (not
+    /// written out).
+    #[serde(skip)]
+    pub mu: Vec<Option<f64>>,
 }
 
 impl Sliding {
@@ -138,7 +149,6 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
     // Every imposed load that lifts a plate counts, on every working level (the more cautious).
     let actions = VariableActions::of(&solutions[0].items, crate::scene::model::WorkingLevels::AllAtOnce);
     let items0 = &solutions[0].items;
-    let has_permanent_horizontal = items0.iter().any(|i| i.case == Case::G && i.direction.is_some());
     // Direction groups (wind and notional of one direction), by item id: a method pass may hold
     // other items than the primary one. Identified forces are independent and present wherever
     // unfavourable: each joins every group it does not oppose (or forms the only group).
@@ -163,11 +173,10 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
             }
         }
     }
-    if groups.is_empty() && has_permanent_horizontal {
-        groups.push(Vec::new());
-    }
+    // With no horizontal load of any direction, one group of none: the permanent horizontal
+    // load alone, if any, and the friction a load yet to be placed would work against.
     if groups.is_empty() {
-        return Sliding { target_factor: target, checks: Vec::new(), plates_to_restrain: 0, plates: vec![None; n] };
+        groups.push(Vec::new());
     }
     let group_ids: Vec<Vec<&str>> = groups.iter().map(|g| g.iter().map(|&i| items0[i].id.as_str()).collect()).collect();
     let gamma = |case: Case| match case {
@@ -194,7 +203,8 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
     let variants = solutions.iter().flat_map(|s| &s.items).map(|i| i.variant_count()).max().unwrap_or(1);
     let mut notional_normal = vec![0.0; n];
     let mut scratch = crate::check::plates::NotionalScratch::new(n);
-    for (sol, parts) in solutions.iter().zip(permanent) {
+    let mut plate_rooms = vec![vec![[f64::INFINITY, f64::INFINITY, 0.0]; n]; solutions.len()];
+    for (pass, (sol, parts)) in solutions.iter().zip(permanent).enumerate() {
         let index: rustc_hash::FxHashMap<&str, usize> = sol.items.iter().enumerate().map(|(i, it)| (it.id.as_str(), i)).collect();
         // Imposed (and other vertical variable) loads that lift a plate: always with it.
         lift.iter_mut().for_each(|v| *v = 0.0);
@@ -269,6 +279,13 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
             // Plates.
             for p in 0..n {
                 let c = cases[p];
+                // The room for a load yet to be placed, with shear here or not.
+                if let Some(m) = mu[p] {
+                    let r = &mut plate_rooms[pass][p];
+                    r[0] = r[0].min(m * c.normal.max(0.0) - target * norm(c.shear));
+                    r[1] = r[1].min(m * c.normal_d.max(0.0) - norm(c.shear_d));
+                    r[2] = r[2].max(norm(c.shear));
+                }
                 let h = norm(c.shear);
                 if h <= NO_SHEAR_KN {
                     continue;
@@ -364,5 +381,5 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
         })
         .collect();
     let plates_to_restrain = plates.iter().flatten().filter(|p| p.slides).count();
-    Sliding { target_factor: target, checks: checks.into_iter().flatten().collect(), plates_to_restrain, plates }
+    Sliding { target_factor: target, checks: checks.into_iter().flatten().collect(), plates_to_restrain, plates, plate_rooms, mu }
 }

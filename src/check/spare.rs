@@ -85,6 +85,15 @@ pub enum Limit {
         /// Which form: `factor of safety` or `EQU`.
         form: &'static str,
     },
+    /// A base plate reaches its sliding target: its friction against its base shear, without
+    /// restraint. (The structure's own sliding check follows from its plates': it is never the
+    /// first reached.)
+    Sliding {
+        /// Plate id.
+        plate: String,
+        /// Which form: `factor of safety` or `EQU`.
+        form: &'static str,
+    },
     /// The deck reaches its load class.
     Deck {
         /// What of the class limits it, in words (e.g. `load class 3, q1 2.0 kPa over the footprint`).
@@ -102,6 +111,7 @@ impl Limit {
             Limit::Plate { plate, check, combination, .. } if *check == "uplift" => format!("plate {plate} would lift ({combination})"),
             Limit::Plate { plate, check, combination, .. } => format!("plate {plate}, {check} ({combination})"),
             Limit::Overturning { about, form } => format!("overturning about {about} ({form})"),
+            Limit::Sliding { plate, form } => format!("plate {plate} would slide ({form})"),
             Limit::Deck { what } => format!("the deck, {what}"),
             Limit::None => "no limit found".into(),
         }
@@ -151,8 +161,8 @@ pub struct SpareMap {
     pub decks: Vec<DeckSpare>,
     /// Members whose own strength is not checked by the map (no capacity is known for them).
     pub not_checked: Vec<String>,
-    /// What the map leaves out of what the extra load would bring, in words: sliding of the
-    /// plates.
+    /// What the map leaves out of what the extra load would bring, in words: sliding where no
+    /// friction coefficient is given.
     pub not_included: Option<String>,
     /// How the map takes the notional horizontal load the extra load itself brings, in words, where
     /// the scene has notional load.
@@ -172,6 +182,8 @@ pub struct SpareInfluences {
     decks: Vec<Option<Vec<DeckInfluence>>>,
     /// The plan axes (x, y) the notional load of the extra load was worked out along.
     notional_axes: [bool; 2],
+    /// Whether the base shears of that notional load were worked out (for sliding).
+    with_shears: bool,
 }
 
 impl SpareInfluences {
@@ -225,6 +237,8 @@ pub fn spare_influences(scene: &Scene, analysis: &Analysis, settings: &SpareSett
     let groups = notional_groups(scene);
     let with_notional = !groups.is_empty();
     let axes = notional_axes(&groups);
+    // Base shears are needed only where some plate's sliding is checked.
+    let with_shears = sliding_checked(analysis);
     let mut decks = Vec::with_capacity(scene.decks.len());
     for d in 0..scene.decks.len() {
         let wanted = settings.decks.is_empty() || settings.decks.contains(&scene.decks[d].id);
@@ -233,7 +247,7 @@ pub fn spare_influences(scene: &Scene, analysis: &Analysis, settings: &SpareSett
             continue;
         }
         let per_pass = if with_notional {
-            deck_influences_notional(&model, &passes, d, settings.footprint, settings.spacing_m, axes).map_err(|reasons| {
+            deck_influences_notional(&model, &passes, d, settings.footprint, settings.spacing_m, axes, with_shears).map_err(|reasons| {
                 SpareError::Setting(format!(
                     "a load placed on deck {} brings notional horizontal load that the bracing cannot carry to the ground: {}",
                     scene.decks[d].id,
@@ -251,6 +265,7 @@ pub fn spare_influences(scene: &Scene, analysis: &Analysis, settings: &SpareSett
         methods: (0..analysis.method_count()).map(|m| analysis.method_label(m).to_owned()).collect(),
         decks,
         notional_axes: axes,
+        with_shears,
     })
 }
 
@@ -265,10 +280,11 @@ pub fn spare_map(scene: &Scene, analysis: &Analysis, settings: &SpareSettings) -
 pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettings, influences: &SpareInfluences) -> Result<SpareMap, SpareError> {
     let combos = checked(scene, analysis, settings)?;
     // Coefficients worked out without the notional load now asked for (a changed rule or
-    // direction): worked out again here rather than left out.
+    // direction), or without its base shears now that sliding is checked: worked out again here
+    // rather than left out.
     let groups = notional_groups(scene);
     let axes = notional_axes(&groups);
-    if (axes[0] && !influences.notional_axes[0]) || (axes[1] && !influences.notional_axes[1]) {
+    if (axes[0] && !influences.notional_axes[0]) || (axes[1] && !influences.notional_axes[1]) || (sliding_checked(analysis) && !influences.with_shears) {
         let fresh = spare_influences(scene, analysis, settings)?;
         return spare_map_from(scene, analysis, settings, &fresh);
     }
@@ -277,12 +293,18 @@ pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettin
         return Err(SpareError::Setting("the influence coefficients are for another structure, footprint or grid: work them out again".into()));
     }
     let mut decks = Vec::new();
+    let mut mapped_structures: Vec<usize> = Vec::new();
     for (d, deck) in scene.decks.iter().enumerate() {
         if !settings.decks.is_empty() && !settings.decks.contains(&deck.id) {
             continue;
         }
         match &influences.decks[d] {
-            Some(per_pass) => decks.push(deck_map(scene, analysis, d, settings, &combos, &groups, per_pass)),
+            Some(per_pass) => {
+                if analysis.sliding.mu.iter().any(Option::is_none) {
+                    mapped_structures.extend(reached_structures(analysis, per_pass));
+                }
+                decks.push(deck_map(scene, analysis, d, settings, &combos, &groups, per_pass));
+            }
             None if !settings.decks.is_empty() => {
                 return Err(SpareError::Setting(format!("the footprint {} × {} m does not fit on deck {}", fp.x_m, fp.y_m, deck.id)));
             }
@@ -296,9 +318,11 @@ pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettin
             format!("the footprint {} × {} m does not fit on any deck", fp.x_m, fp.y_m)
         }));
     }
+    mapped_structures.sort_unstable();
+    mapped_structures.dedup();
     let mut not_checked: Vec<String> = scene.bearers.iter().map(|b| format!("{} {}", role_word(b.role), b.id)).collect();
     not_checked.extend(scene.decks.iter().filter(|d| deck_class(scene, d).is_none()).map(|d| format!("deck {}", d.id)));
-    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked, not_included: not_included(), notional: notional_words(scene, &groups) })
+    Ok(SpareMap { settings: settings.clone(), combinations: combos.iter().map(|&c| analysis.combinations[c].name.clone()).collect(), decks, not_checked, not_included: not_included(scene, analysis, &mapped_structures), notional: notional_words(scene, &groups) })
 }
 
 /// One notional load the extra load brings: its plan direction (unit x, y), its share of the
@@ -361,14 +385,37 @@ fn notional_groups(scene: &Scene) -> Vec<Vec<NotionalTerm>> {
     groups.into_iter().map(|g| g.1).filter(|g| !g.is_empty()).collect()
 }
 
+/// Whether any plate's sliding is checked (it has a friction coefficient).
+fn sliding_checked(analysis: &Analysis) -> bool {
+    analysis.sliding.mu.iter().any(Option::is_some)
+}
+
 /// The plan axes (x, y) along which any notional load of the extra load acts.
 fn notional_axes(groups: &[Vec<NotionalTerm>]) -> [bool; 2] {
     [0, 1].map(|a| groups.iter().flatten().any(|t| t.u[a].abs() > 1e-12))
 }
 
-/// What the map leaves out, in words.
-fn not_included() -> Option<String> {
-    Some("sliding of the plates (check it with the load added to the scene)".to_owned())
+/// What the map leaves out, in words: the sliding of any structure under a mapped deck, and of
+/// its plates, that lacks a friction coefficient.
+fn not_included(scene: &Scene, analysis: &Analysis, structures: &[usize]) -> Option<String> {
+    let sl = &analysis.sliding;
+    let mut unknown: Vec<String> = Vec::new();
+    for &s in structures {
+        let plates = &analysis.stability.structures[s].plates;
+        if plates.iter().all(|&p| sl.mu.get(p as usize).copied().flatten().is_some()) {
+            continue;
+        }
+        let mut types: Vec<&str> = analysis.stability.structures[s]
+            .plates
+            .iter()
+            .filter(|&&p| sl.mu.get(p as usize).copied().flatten().is_none())
+            .map(|&p| scene.posts[p as usize].support.as_deref().unwrap_or("(none)"))
+            .collect();
+        types.sort_unstable();
+        types.dedup();
+        unknown.push(format!("sliding of {} and of its plates, for want of a friction coefficient for support type {}", analysis.stability.structures[s].label, types.join(", ")));
+    }
+    (!unknown.is_empty()).then(|| format!("{} — check it with the load added to the scene", unknown.join("; ")))
 }
 
 /// How the map takes the notional load of the extra load, in words.
@@ -406,12 +453,17 @@ pub fn deck_class(scene: &Scene, deck: &crate::scene::model::Deck) -> Option<u8>
     })
 }
 
+/// [`Best::check`] of a plate's sliding (after the capacity checks 0–2), in the factor-of-safety
+/// form and the EQU form.
+const SLIDING_FACTOR: u8 = 3;
+const SLIDING_EQU: u8 = 4;
+
 /// The best (smallest) limit found so far at a grid point.
 #[derive(Debug, Clone, Copy)]
 struct Best {
     kn: f64,
     plate: u32,
-    /// 0 safe working load, 1 ground bearing, 2 uplift.
+    /// 0 safe working load, 1 ground bearing, 2 uplift; [`SLIDING_FACTOR`], [`SLIDING_EQU`].
     check: u8,
     combination: u16,
     method: u16,
@@ -575,6 +627,12 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     let inf = &per_pass[0];
     let mut grid = grid.unwrap_or_default();
     let (rows, cols) = shape;
+    // Sliding of the plates the load reaches, pass by pass.
+    if let Some(mut sliding) = SlidingDeck::new(scene, analysis, settings, groups, per_pass) {
+        for (m, inf_m) in per_pass.iter().enumerate() {
+            sliding.limits(analysis, m, inf_m, &mut grid);
+        }
+    }
     // The deck's own capacity under the footprint: the most its load class allows there, less
     // the imposed load already on it.
     let tipping = tipping_room(analysis, per_pass);
@@ -593,7 +651,9 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
             let (x, y) = inf.point(i, j);
             let b = grid[i * cols + j];
             let mut kn = b.kn;
-            let mut limit = if b.kn.is_finite() {
+            let mut limit = if b.kn.is_finite() && b.check >= SLIDING_FACTOR {
+                Limit::Sliding { plate: scene.posts[b.plate as usize].id.clone(), form: if b.check == SLIDING_EQU { "EQU" } else { "factor of safety" } }
+            } else if b.kn.is_finite() {
                 Limit::Plate {
                     plate: scene.posts[b.plate as usize].id.clone(),
                     check: ["safe working load", "ground bearing", "uplift"][b.check as usize],
@@ -1138,4 +1198,327 @@ fn existing_imposed(scene: &Scene, d: usize, x: f64, y: f64, fp: Footprint) -> f
         }
     }
     total
+}
+
+/// The structures a load on the deck reaches: those any of whose plates takes some of it, or of
+/// the brace forces of its notional load, in any method pass.
+fn reached_structures(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<usize> {
+    let mut reached = vec![false; analysis.ground.plate_area_m2.len()];
+    let mut seen: Vec<usize> = Vec::new();
+    for inf in per_pass {
+        for e in inf.flows.iter().flatten().flatten() {
+            if e.1 != 0.0 {
+                reached[e.0 as usize] = true;
+            }
+        }
+        // The notional routing is often shared by the passes: looked at once.
+        if let Some(n) = inf.notional.as_ref().filter(|n| !seen.contains(&(std::sync::Arc::as_ptr(&n.units) as usize))) {
+            seen.push(std::sync::Arc::as_ptr(&n.units) as usize);
+            for e in n.units.iter().flatten().flatten().flatten() {
+                if e.1 != 0.0 {
+                    reached[e.0 as usize] = true;
+                }
+            }
+            for e in n.shears.iter().flatten().flatten().flatten() {
+                if e.1 != [0.0; 2] {
+                    reached[e.0 as usize] = true;
+                }
+            }
+        }
+    }
+    let structures = &analysis.stability.structures;
+    (0..structures.len()).filter(|&s| structures[s].plates.iter().any(|&p| reached[p as usize])).collect()
+}
+
+/// One node's effect at one plate: (bearer k, node, brace components per `2·axis + way`, base
+/// shear per `2·axis + way`) of 1 kN of horizontal load at the node.
+type NodeAtPlate = (u32, u32, [f64; 4], [[f64; 2]; 4]);
+
+/// The plates whose sliding a load on a deck can change — in the structures it reaches where
+/// every plate has a friction coefficient, those that take base shear already (in any method
+/// pass) or from the notional load of the extra load — with what each node of the deck's bearers
+/// does to them. The same in every method pass that shares the notional routing.
+struct SlidingPlates {
+    posts: Vec<u32>,
+    mu: Vec<f64>,
+    /// Whether it already takes base shear.
+    sheared: Vec<bool>,
+    nodes: Vec<Vec<NodeAtPlate>>,
+    /// Per slot and form (factor of safety, EQU): the most the notional load of 1 kN can add
+    /// to the left side of the check per unit of Σₖ |d_n[i][k]| — η·|s| + μ·(lift).
+    notional_most: Vec<[f64; 2]>,
+    /// The routing and entry reactions they were worked out from (by address).
+    from: [usize; 3],
+}
+
+/// What the sliding limits of one deck need in every method pass.
+struct SlidingDeck {
+    /// Per direction group, per form (unfactored, factored): the notional load along x and y
+    /// per kN placed; one group of none where there is no notional load.
+    a: Vec<[[f64; 2]; 2]>,
+    /// Per form: the factor on the base shear, and on the friction the vertical load takes.
+    w_shear: [f64; 2],
+    w_vertical: [f64; 2],
+    phi: f64,
+    in_scope: Vec<bool>,
+    plates: Option<SlidingPlates>,
+}
+
+impl SlidingDeck {
+    /// `None` where no plate a load on the deck reaches has its sliding checked.
+    fn new(scene: &Scene, analysis: &Analysis, settings: &SpareSettings, groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence]) -> Option<SlidingDeck> {
+        let sl = &analysis.sliding;
+        if !sliding_checked(analysis) {
+            return None;
+        }
+        let mut in_scope = vec![false; scene.posts.len()];
+        for s in reached_structures(analysis, per_pass) {
+            let plates = &analysis.stability.structures[s].plates;
+            if plates.iter().all(|&p| sl.mu[p as usize].is_some()) {
+                for &p in plates {
+                    in_scope[p as usize] = true;
+                }
+            }
+        }
+        if !in_scope.contains(&true) {
+            return None;
+        }
+        let f = &scene.stability.equilibrium;
+        let equ_factor = |case: Case| match case {
+            Case::G => f.g_unfavourable,
+            Case::Q => f.q,
+            Case::W => f.w,
+        };
+        let mut a: Vec<[[f64; 2]; 2]> = groups
+            .iter()
+            .map(|g| {
+                let mut v = [[0.0; 2]; 2];
+                for t in g {
+                    for ax in 0..2 {
+                        v[0][ax] += t.share * t.u[ax];
+                        v[1][ax] += equ_factor(t.case) * t.share * t.u[ax];
+                    }
+                }
+                v
+            })
+            .collect();
+        if a.is_empty() {
+            a.push([[0.0; 2]; 2]);
+        }
+        Some(SlidingDeck { a, w_shear: [sl.target_factor, 1.0], w_vertical: [1.0, f.q], phi: settings.dynamic_factor, in_scope, plates: None })
+    }
+
+    /// The plates of method pass `inf`: those worked out for an earlier pass where it shares
+    /// their routing.
+    fn plates_for(&mut self, analysis: &Analysis, inf: &DeckInfluence) -> &SlidingPlates {
+        let from = inf.notional.as_ref().map_or([0; 3], |n| [std::sync::Arc::as_ptr(&n.units) as usize, std::sync::Arc::as_ptr(&n.shears) as usize, std::sync::Arc::as_ptr(&n.entries) as usize]);
+        if self.plates.as_ref().is_none_or(|p| p.from != from || from == [0; 3]) {
+            self.plates = Some(self.work_out_plates(analysis, inf, from));
+        }
+        self.plates.as_ref().expect("just worked out")
+    }
+
+    fn work_out_plates(&self, analysis: &Analysis, inf: &DeckInfluence, from: [usize; 3]) -> SlidingPlates {
+        let sl = &analysis.sliding;
+        let n_posts = self.in_scope.len();
+        let mut slot = vec![u32::MAX; n_posts];
+        let mut sp = SlidingPlates { posts: Vec::new(), mu: Vec::new(), sheared: Vec::new(), nodes: Vec::new(), notional_most: Vec::new(), from };
+        let mut add = |p: usize, sp: &mut SlidingPlates| {
+            if slot[p] == u32::MAX {
+                slot[p] = sp.posts.len() as u32;
+                sp.posts.push(p as u32);
+                sp.mu.push(sl.mu[p].unwrap_or(0.0));
+                sp.sheared.push(sl.plate_rooms.iter().any(|r| r[p][2] > crate::check::sliding::NO_SHEAR_KN));
+                sp.nodes.push(Vec::new());
+            }
+        };
+        for p in (0..n_posts).filter(|&p| self.in_scope[p]) {
+            if sl.plate_rooms.iter().any(|r| r[p][2] > crate::check::sliding::NO_SHEAR_KN) {
+                add(p, &mut sp);
+            }
+        }
+        let Some(n) = &inf.notional else { return sp };
+        for &(p, v) in n.shears.iter().flatten().flatten().flatten() {
+            if self.in_scope[p as usize] && v != [0.0; 2] {
+                add(p as usize, &mut sp);
+            }
+        }
+        // Node by node, what each does to each plate.
+        for (k, per_node) in n.shears.iter().enumerate() {
+            for (node, four) in per_node.iter().enumerate() {
+                let at = (k as u32, node as u32);
+                for (q, list) in four.iter().enumerate() {
+                    for &(p, v) in list {
+                        let s = slot[p as usize];
+                        if s != u32::MAX && v != [0.0; 2] {
+                            node_entry(&mut sp.nodes[s as usize], at).3[q] = v;
+                        }
+                    }
+                }
+                let Some(units) = n.units.get(k).and_then(|u| u.get(node)) else { continue };
+                for (q, list) in units.iter().enumerate() {
+                    for &(p, v) in list {
+                        let s = slot[p as usize];
+                        if s != u32::MAX && v != 0.0 {
+                            node_entry(&mut sp.nodes[s as usize], at).2[q] = v;
+                        }
+                    }
+                }
+            }
+        }
+        // |s| ≤ Σₖ |d_n[i][k]| · (most Σₙ |e| of bearer k) · (most |S| of its nodes), and alike
+        // for the brace components.
+        let spread: Vec<f64> = n.entries.iter().map(|cols| cols.iter().map(|e| e.iter().map(|v| v.abs()).sum::<f64>()).fold(0.0, f64::max)).collect();
+        sp.notional_most = (0..sp.posts.len())
+            .map(|s| {
+                let mut most = [0.0f64; 2];
+                for &(k, _, u, sh) in &sp.nodes[s] {
+                    let spread = spread.get(k as usize).copied().unwrap_or(0.0);
+                    for (form, m) in most.iter_mut().enumerate() {
+                        for g in &self.a {
+                            let v = g[form];
+                            for way in 0..2 {
+                                let sx = [v[0] * sh[way][0] + v[1] * sh[2 + way][0], v[0] * sh[way][1] + v[1] * sh[2 + way][1]];
+                                let lift = (v[0] * u[way] + v[1] * u[2 + way]).abs();
+                                *m = m.max(spread * (self.w_shear[form] * (sx[0] * sx[0] + sx[1] * sx[1]).sqrt() + sp.mu[s] * lift));
+                            }
+                        }
+                    }
+                }
+                most
+            })
+            .collect();
+        sp
+    }
+
+    /// Sliding limits of the plates at every grid point of method pass `m`, taken into `grid`
+    /// (characteristic kN, after γ·φ).
+    ///
+    /// At a plate with friction μ, least vertical load N and base shear H, a load `P` placed adds
+    /// the base shear `s·P` of its notional load (|H + s·P| ≤ |H| + |s|·P) and takes away μ × what
+    /// it lifts off the plate: its vertical load where it lifts (`c < 0`; an imposed load never
+    /// adds friction) and the brace components of its notional load where they lift (`u < 0`; the
+    /// sliding check counts a notional load of imposed load only where it lifts). The plate needs
+    /// no restraint while `μ·(N − loss·P) ≥ η·|H + s·P|` (factor of safety η) and
+    /// `μ·(N_d − loss_d·P) ≥ |H_d + s_d·P|` (EQU): `P ≤ (μN − η|H|) / (φ·(η|s| + μ·loss))`, in the
+    /// worst direction group and diaphragm assumption of the extra load against the least room
+    /// of any direction. (The structure's own check follows from its plates': where each plate
+    /// keeps μN ≥ η|H|, so do their sums.)
+    fn limits(&mut self, analysis: &Analysis, m: usize, inf: &DeckInfluence, grid: &mut [Best]) {
+        let Some(rooms) = analysis.sliding.plate_rooms.get(m) else { return };
+        // Nothing can be less than a limit already reached everywhere.
+        if grid.iter().all(|b| b.kn <= 0.0) {
+            return;
+        }
+        let (a, w_shear, w_vertical, phi) = (self.a.clone(), self.w_shear, self.w_vertical, self.phi);
+        let sp = self.plates_for(analysis, inf);
+        if sp.posts.is_empty() {
+            return;
+        }
+        let (rows, cols, nk) = (inf.across.len(), inf.along.len(), inf.bearers.len());
+        let n_slots = sp.posts.len();
+        let mut slot = vec![u32::MAX; rooms.len()];
+        for (s, &p) in sp.posts.iter().enumerate() {
+            slot[p as usize] = s as u32;
+        }
+        // Per slot: (bearer k, the plate's vertical influence per column) for each bearer
+        // reaching it.
+        let mut vertical: Vec<Vec<(u32, Vec<f64>)>> = vec![Vec::new(); n_slots];
+        for k in 0..nk {
+            for j in 0..cols {
+                for &(p, e) in &inf.flows[k][j] {
+                    let s = slot[p as usize];
+                    if s == u32::MAX {
+                        continue;
+                    }
+                    let list = &mut vertical[s as usize];
+                    if list.last().is_none_or(|l| l.0 != k as u32) {
+                        list.push((k as u32, vec![0.0; cols]));
+                    }
+                    if let Some(l) = list.last_mut() {
+                        l.1[j] += e;
+                    }
+                }
+            }
+        }
+        // Per slot a key that orders the plates by the least limit they could give: room ÷ the
+        // most one unit of Σₖ |d[i][k]| (or of the notional shares) can add.
+        let key: Vec<f64> = (0..n_slots)
+            .map(|s| {
+                let vertical_most = vertical[s].iter().flat_map(|l| l.1.iter()).fold(0.0f64, |acc, v| acc.max(v.abs()));
+                (0..2)
+                    .map(|form| {
+                        let per_unit = sp.mu[s] * w_vertical[form] * vertical_most + sp.notional_most.get(s).map_or(0.0, |most| most[form]);
+                        if per_unit <= 0.0 { f64::INFINITY } else { rooms[sp.posts[s] as usize][form].max(0.0) / per_unit }
+                    })
+                    .fold(f64::INFINITY, f64::min)
+            })
+            .collect();
+        let mut order: Vec<u32> = (0..n_slots as u32).filter(|&s| key[s as usize].is_finite()).collect();
+        order.sort_by(|x, y| key[*x as usize].total_cmp(&key[*y as usize]));
+        let notional = inf.notional.as_ref();
+        for i in 0..rows {
+            let d = &inf.d[i];
+            let nd = notional.map(|n| n.d[i].as_slice());
+            let reach = phi * d.iter().map(|v| v.abs()).sum::<f64>().max(nd.map_or(0.0, |nd| nd.iter().map(|v| v.abs()).sum()));
+            if reach <= 0.0 {
+                continue;
+            }
+            for j in 0..cols {
+                let best = &mut grid[i * cols + j];
+                for &s in &order {
+                    let s = s as usize;
+                    if key[s] / reach >= best.kn {
+                        break;
+                    }
+                    let p = sp.posts[s];
+                    let c: f64 = vertical[s].iter().map(|(k, col)| d[*k as usize] * col[j]).sum();
+                    let (mut hu, mut hs) = ([0.0f64; 4], [[0.0f64; 2]; 4]);
+                    if let (Some(n), Some(nd)) = (notional, nd) {
+                        for &(k, node, u, sh) in &sp.nodes[s] {
+                            let e = n.entries.get(k as usize).and_then(|c| c.get(j)).and_then(|e| e.get(node as usize)).copied().unwrap_or(0.0);
+                            let cn = nd[k as usize] * e;
+                            if cn == 0.0 {
+                                continue;
+                            }
+                            for q in 0..4 {
+                                hu[q] += cn * u[q];
+                                hs[q][0] += cn * sh[q][0];
+                                hs[q][1] += cn * sh[q][1];
+                            }
+                        }
+                    }
+                    for form in 0..2 {
+                        let room = rooms[p as usize][form];
+                        for g in &a {
+                            let v = g[form];
+                            for way in 0..2 {
+                                let sx = [v[0] * hs[way][0] + v[1] * hs[2 + way][0], v[0] * hs[way][1] + v[1] * hs[2 + way][1]];
+                                let shear = (sx[0] * sx[0] + sx[1] * sx[1]).sqrt();
+                                // A plate with no base shear, before or after, cannot slide.
+                                if !sp.sheared[s] && shear * phi < INFLUENCE_FLOOR {
+                                    continue;
+                                }
+                                let u = v[0] * hu[way] + v[1] * hu[2 + way];
+                                let added = w_shear[form] * shear + sp.mu[s] * (w_vertical[form] * (-c).max(0.0) + (-u).max(0.0));
+                                if added * phi >= INFLUENCE_FLOOR {
+                                    best.take(Best { kn: room.max(0.0) / (phi * added), plate: p, check: SLIDING_FACTOR + form as u8, combination: 0, method: m as u16, already: room <= 0.0 });
+                                }
+                            }
+                        }
+                    }
+                }
+            }
+        }
+    }
+}
+
+/// The entry of node `at` (bearer, node) in a plate's node list, made where missing: lists are
+/// filled node by node, so only the last entry can be it.
+fn node_entry(list: &mut Vec<NodeAtPlate>, at: (u32, u32)) -> &mut NodeAtPlate {
+    if list.last().is_none_or(|e| (e.0, e.1) != at) {
+        list.push((at.0, at.1, [0.0; 4], [[0.0; 2]; 4]));
+    }
+    let last = list.len() - 1;
+    &mut list[last]
 }

@@ -59,7 +59,7 @@ pub fn already_reached_words(map: &SpareMap, shown: usize) -> Option<String> {
     let more = limits.len().saturating_sub(shown);
     limits.truncate(shown);
     let tail = if more > 0 { format!(" and {more} more") } else { String::new() };
-    Some(format!("already at a limit before anything is added: {}{tail} — these must be resolved (held down, relieved or re-planned) before the map can show room there", limits.join("; ")))
+    Some(format!("already at a limit before anything is added: {}{tail} — these must be resolved (held down, restrained, relieved or re-planned) before the map can show room there", limits.join("; ")))
 }
 
 /// A spare load rounded down to 0.1 kN, as shown and as offered to place: never more than the

@@ -83,7 +83,15 @@ pub struct NotionalInfluence {
     /// way 0 the lever rule between braced planes, way 1 a rigid diaphragm (the same where the
     /// bracing gives one way).
     pub units: std::sync::Arc<Routed>,
+    /// `shears[k][n][2·axis + way]`: base shear at each plate (post, plan vector kN) of 1 kN along
+    /// plan axis `axis` at the same node: where the bracing puts the force into the ground. The
+    /// same in every method pass; empty lists where not asked for.
+    pub shears: std::sync::Arc<RoutedShear>,
 }
+
+/// Per bearer of a deck, per node, per `2·axis + way`: the base shear at each plate (post, plan
+/// vector kN) of 1 kN of horizontal load at the node.
+pub type RoutedShear = Vec<Vec<[Vec<(u32, [f64; 2])>; 4]>>;
 
 impl DeckInfluence {
     /// Plan point (x, y) of grid point (row `i`, column `j`).
@@ -157,8 +165,9 @@ fn column_load(model: &Model, deck: usize, b: usize, a: f64, size_along: f64) ->
 /// every node where the load enters a post (its bearers' reactions at their posts), carried down
 /// the bracing, the vertical components of the brace forces routed to the plates. `Err` with the
 /// reasons where the bracing cannot carry a horizontal force from a node of the deck's bearers.
-/// Only the plan axes in `axes` (x, y) are worked out; the others are left empty.
-pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usize, footprint: Footprint, spacing: f64, axes: [bool; 2]) -> Result<Vec<Option<DeckInfluence>>, Vec<String>> {
+/// Only the plan axes in `axes` (x, y) are worked out; the others are left empty; the base
+/// shears only where `shears` asks for them (to check sliding).
+pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usize, footprint: Footprint, spacing: f64, axes: [bool; 2], shears: bool) -> Result<Vec<Option<DeckInfluence>>, Vec<String>> {
     let net = crate::solve::load_path::notional_network(model);
     let line = &model.decks[deck];
     // Nodes of the deck: each bearer's posts at the bearer's level.
@@ -178,7 +187,7 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
                 let dir = if axis == 0 { [1.0, 0.0] } else { [0.0, 1.0] };
                 net.post_load(&mut acc, &mut fails, post, BeamLoad::Point { at: level, p: 1.0 }, dir);
                 let ways = if net.two_ways(&acc) { 2 } else { 1 };
-                *slot = net.finish(&acc, &mut fails, ways, false);
+                *slot = net.finish(&acc, &mut fails, ways, shears);
             }
             per.push(both);
         }
@@ -191,6 +200,27 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
         Axis::X => (footprint.x_m, footprint.y_m),
         Axis::Y => (footprint.y_m, footprint.x_m),
     };
+    // Base shears go straight into the plates the bracing reaches down to.
+    let shears: std::sync::Arc<RoutedShear> = std::sync::Arc::new(
+        raw.iter()
+            .map(|per| {
+                per.iter()
+                    .map(|both| {
+                        let mut four: [Vec<(u32, [f64; 2])>; 4] = Default::default();
+                        for axis in 0..2 {
+                            for way in 0..2 {
+                                let sets = &both[axis];
+                                if let Some(set) = sets.get(way.min(sets.len().saturating_sub(1))) {
+                                    four[2 * axis + way] = set.shear.clone();
+                                }
+                            }
+                        }
+                        four
+                    })
+                    .collect()
+            })
+            .collect(),
+    );
     // The unit responses routed to the plates: [k][node][2·axis + way].
     let route = |s: &mut Solver| -> Routed {
         raw.iter()
@@ -263,7 +293,7 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
                     (d, entries)
                 }
             };
-            inf.notional = Some(NotionalInfluence { d, entries, units: routed });
+            inf.notional = Some(NotionalInfluence { d, entries, units: routed, shears: shears.clone() });
             inf
         });
         *cache = std::mem::take(&mut s.flow_cache);
