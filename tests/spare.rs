@@ -308,7 +308,7 @@ proptest! {
     fn a_point_limited_by_sliding_brings_the_plate_to_its_target(
         nx in 2usize..4, ny in 2usize..4, bay in 1.0f64..2.5, cant in prop_oneof![Just(0.0), 0.0f64..0.8],
         method in 0usize..3, q in 0.5f64..4.0, g in 0.5f64..3.0, mu in 0.05f64..0.5, pick in any::<u64>(),
-        rect in any::<bool>(),
+        rect in any::<bool>(), both_ways in any::<bool>(),
     ) {
         // common practice, no source: linearity — placing the reported load where a plate's
         // sliding limits it and solving again brings that plate's factor against sliding to its
@@ -343,6 +343,9 @@ proptest! {
         s.loads.push(load("g", Case::G, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(g) }));
         s.horizontal.notional = NotionalRule::Falsework;
         s.horizontal.directions = vec![plateload::scene::loads::PlanDirection::PlusX];
+        if both_ways {
+            s.horizontal.directions.push(plateload::scene::loads::PlanDirection::MinusX);
+        }
         let a = analyse(&s).unwrap();
         prop_assume!(a.stability.structures.len() == 1);
         let fp = if rect { Footprint { x_m: 0.6, y_m: 0.4 } } else { Footprint::POINT };

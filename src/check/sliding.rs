@@ -83,17 +83,48 @@ pub struct Sliding {
     /// emptied when the analysis hands them over).
     #[serde(skip)]
     pub plates: Vec<Option<PlateSliding>>,
-    /// Per method pass and plate (by post), the room the plate leaves against sliding for a load
-    /// yet to be placed, kN: μ × least vertical load − target × base shear (factor-of-safety
-    /// form) and factored friction − factored base shear (EQU), the least over the directions and
-    /// diaphragm assumptions; infinite where it has no friction coefficient; third, the largest
-    /// base shear it already takes, kN (not written out).
+    /// The room each plate leaves against sliding for a load yet to be placed (not written out).
     #[serde(skip)]
-    pub plate_rooms: Vec<Vec<[f64; 3]>>,
+    pub rooms: PlateRooms,
     /// Per plate (by post), the friction coefficient taken; `None` where none is given (not
     /// written out).
     #[serde(skip)]
     pub mu: Vec<Option<f64>>,
+}
+
+/// The room each plate leaves against sliding, per method pass, plate (by post), direction
+/// group and diaphragm assumption: μ × least vertical load − target × base shear (kN,
+/// factor-of-safety form), factored friction − factored base shear (kN, EQU form), and the base
+/// shear already there (kN). Infinite rooms where the plate has no friction coefficient.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct PlateRooms {
+    /// Per direction group: the direction of its horizontal loads (as
+    /// [`crate::solve::items::direction_key_of`]); `None` for the permanent horizontal load alone.
+    pub groups: Vec<Option<i64>>,
+    /// Number of diaphragm assumptions (1, or 2: lever rule, then rigid).
+    pub variants: usize,
+    posts: usize,
+    rooms: Vec<[f64; 3]>,
+}
+
+impl PlateRooms {
+    fn new(passes: usize, posts: usize, groups: Vec<Option<i64>>, variants: usize) -> Self {
+        let rooms = vec![[f64::INFINITY, f64::INFINITY, 0.0]; passes * posts * groups.len() * variants];
+        PlateRooms { groups, variants, posts, rooms }
+    }
+    fn at(&self, pass: usize, post: usize, group: usize, variant: usize) -> usize {
+        ((pass * self.posts + post) * self.groups.len() + group) * self.variants + variant
+    }
+    /// The room at plate `post` in method pass `pass`, direction group `group` and diaphragm
+    /// assumption `variant`; `None` out of range.
+    pub fn get(&self, pass: usize, post: usize, group: usize, variant: usize) -> Option<[f64; 3]> {
+        (post < self.posts && group < self.groups.len() && variant < self.variants).then(|| self.rooms.get(self.at(pass, post, group, variant)).copied()).flatten()
+    }
+    /// Whether the plate takes base shear already, in any pass, direction or assumption.
+    pub fn sheared(&self, post: usize) -> bool {
+        let per = self.groups.len() * self.variants;
+        (0..self.rooms.len() / (self.posts * per).max(1)).any(|pass| (0..per).any(|k| self.rooms[(pass * self.posts + post) * per + k][2] > NO_SHEAR_KN))
+    }
 }
 
 impl Sliding {
@@ -203,7 +234,7 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
     let variants = solutions.iter().flat_map(|s| &s.items).map(|i| i.variant_count()).max().unwrap_or(1);
     let mut notional_normal = vec![0.0; n];
     let mut scratch = crate::check::plates::NotionalScratch::new(n);
-    let mut plate_rooms = vec![vec![[f64::INFINITY, f64::INFINITY, 0.0]; n]; solutions.len()];
+    let mut rooms = PlateRooms::new(solutions.len(), n, groups.iter().map(|g| g.first().and_then(|&i| items0[i].direction_key())).collect(), variants);
     for (pass, (sol, parts)) in solutions.iter().zip(permanent).enumerate() {
         let index: rustc_hash::FxHashMap<&str, usize> = sol.items.iter().enumerate().map(|(i, it)| (it.id.as_str(), i)).collect();
         // Imposed (and other vertical variable) loads that lift a plate: always with it.
@@ -281,10 +312,8 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
                 let c = cases[p];
                 // The room for a load yet to be placed, with shear here or not.
                 if let Some(m) = mu[p] {
-                    let r = &mut plate_rooms[pass][p];
-                    r[0] = r[0].min(m * c.normal.max(0.0) - target * norm(c.shear));
-                    r[1] = r[1].min(m * c.normal_d.max(0.0) - norm(c.shear_d));
-                    r[2] = r[2].max(norm(c.shear));
+                    let at = rooms.at(pass, p, g, variant);
+                    rooms.rooms[at] = [m * c.normal.max(0.0) - target * norm(c.shear), m * c.normal_d.max(0.0) - norm(c.shear_d), norm(c.shear)];
                 }
                 let h = norm(c.shear);
                 if h <= NO_SHEAR_KN {
@@ -381,5 +410,5 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
         })
         .collect();
     let plates_to_restrain = plates.iter().flatten().filter(|p| p.slides).count();
-    Sliding { target_factor: target, checks: checks.into_iter().flatten().collect(), plates_to_restrain, plates, plate_rooms, mu }
+    Sliding { target_factor: target, checks: checks.into_iter().flatten().collect(), plates_to_restrain, plates, rooms, mu }
 }

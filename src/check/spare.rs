@@ -336,8 +336,7 @@ struct NotionalTerm {
 
 /// Direction key in hundredths of a degree, as the combinations group directions.
 fn direction_key(u: (f64, f64)) -> i64 {
-    let deg = u.1.atan2(u.0).to_degrees().rem_euclid(360.0);
-    ((deg * 100.0).round() as i64) % 36_000
+    crate::solve::items::direction_key_of([u.0, u.1])
 }
 
 /// The notional loads an extra imposed load brings, grouped by plan direction as the combinations
@@ -1256,6 +1255,10 @@ struct SlidingDeck {
     /// Per direction group, per form (unfactored, factored): the notional load along x and y
     /// per kN placed; one group of none where there is no notional load.
     a: Vec<[[f64; 2]; 2]>,
+    /// Per sliding check direction group ([`crate::check::sliding::PlateRooms::groups`]): the
+    /// groups of `a` taken with it — the one of the same direction, and any of a direction the
+    /// check has none of (with each, on the safe side); none: the extra load's vertical load alone.
+    pairs: Vec<Vec<usize>>,
     /// Per form: the factor on the base shear, and on the friction the vertical load takes.
     w_shear: [f64; 2],
     w_vertical: [f64; 2],
@@ -1302,10 +1305,14 @@ impl SlidingDeck {
                 v
             })
             .collect();
+        let keys: Vec<i64> = groups.iter().map(|g| g.first().map_or(-1, |t| direction_key((t.u[0], t.u[1])))).collect();
+        let checked = &sl.rooms.groups;
+        let unmatched: Vec<usize> = (0..keys.len()).filter(|&g| !checked.contains(&Some(keys[g]))).collect();
+        let pairs = checked.iter().map(|key| (0..keys.len()).filter(|&g| Some(keys[g]) == *key || unmatched.contains(&g)).collect()).collect();
         if a.is_empty() {
             a.push([[0.0; 2]; 2]);
         }
-        Some(SlidingDeck { a, w_shear: [sl.target_factor, 1.0], w_vertical: [1.0, f.q], phi: settings.dynamic_factor, in_scope, plates: None })
+        Some(SlidingDeck { a, pairs, w_shear: [sl.target_factor, 1.0], w_vertical: [1.0, f.q], phi: settings.dynamic_factor, in_scope, plates: None })
     }
 
     /// The plates of method pass `inf`: those worked out for an earlier pass where it shares
@@ -1328,12 +1335,12 @@ impl SlidingDeck {
                 slot[p] = sp.posts.len() as u32;
                 sp.posts.push(p as u32);
                 sp.mu.push(sl.mu[p].unwrap_or(0.0));
-                sp.sheared.push(sl.plate_rooms.iter().any(|r| r[p][2] > crate::check::sliding::NO_SHEAR_KN));
+                sp.sheared.push(sl.rooms.sheared(p));
                 sp.nodes.push(Vec::new());
             }
         };
         for p in (0..n_posts).filter(|&p| self.in_scope[p]) {
-            if sl.plate_rooms.iter().any(|r| r[p][2] > crate::check::sliding::NO_SHEAR_KN) {
+            if sl.rooms.sheared(p) {
                 add(p, &mut sp);
             }
         }
@@ -1400,27 +1407,33 @@ impl SlidingDeck {
     /// adds friction) and the brace components of its notional load where they lift (`u < 0`; the
     /// sliding check counts a notional load of imposed load only where it lifts). The plate needs
     /// no restraint while `μ·(N − loss·P) ≥ η·|H + s·P|` (factor of safety η) and
-    /// `μ·(N_d − loss_d·P) ≥ |H_d + s_d·P|` (EQU): `P ≤ (μN − η|H|) / (φ·(η|s| + μ·loss))`, in the
-    /// worst direction group and diaphragm assumption of the extra load against the least room
-    /// of any direction. (The structure's own check follows from its plates': where each plate
-    /// keeps μN ≥ η|H|, so do their sums.)
+    /// `μ·(N_d − loss_d·P) ≥ |H_d + s_d·P|` (EQU): `P ≤ (μN − η|H|) / (φ·(η|s| + μ·loss))`. Each
+    /// direction and diaphragm assumption of the check is taken with the extra load's notional
+    /// load of the same direction and assumption (see [`SlidingDeck::pairs`]). (The structure's
+    /// own check follows from its plates': where each plate keeps μN ≥ η|H|, so do their sums.)
     fn limits(&mut self, analysis: &Analysis, m: usize, inf: &DeckInfluence, grid: &mut [Best]) {
-        let Some(rooms) = analysis.sliding.plate_rooms.get(m) else { return };
+        let rooms = &analysis.sliding.rooms;
+        if rooms.get(m, 0, 0, 0).is_none() {
+            return;
+        }
         // Nothing can be less than a limit already reached everywhere.
         if grid.iter().all(|b| b.kn <= 0.0) {
             return;
         }
-        let (a, w_shear, w_vertical, phi) = (self.a.clone(), self.w_shear, self.w_vertical, self.phi);
+        let (a, pairs, w_shear, w_vertical, phi) = (self.a.clone(), self.pairs.clone(), self.w_shear, self.w_vertical, self.phi);
+        let (n_groups, n_variants) = (rooms.groups.len(), rooms.variants);
         let sp = self.plates_for(analysis, inf);
         if sp.posts.is_empty() {
             return;
         }
         let (rows, cols, nk) = (inf.across.len(), inf.along.len(), inf.bearers.len());
         let n_slots = sp.posts.len();
-        let mut slot = vec![u32::MAX; rooms.len()];
+        let mut slot = vec![u32::MAX; analysis.sliding.mu.len()];
         for (s, &p) in sp.posts.iter().enumerate() {
             slot[p as usize] = s as u32;
         }
+        // Per slot, direction group and assumption: the room (both forms) and the shear there.
+        let room_of: Vec<Vec<[f64; 3]>> = sp.posts.iter().map(|&p| (0..n_groups).flat_map(|g| (0..n_variants).map(move |v| (g, v))).map(|(g, v)| rooms.get(m, p as usize, g, v).unwrap_or([f64::INFINITY, f64::INFINITY, 0.0])).collect()).collect();
         // Per slot: (bearer k, the plate's vertical influence per column) for each bearer
         // reaching it.
         let mut vertical: Vec<Vec<(u32, Vec<f64>)>> = vec![Vec::new(); n_slots];
@@ -1441,15 +1454,16 @@ impl SlidingDeck {
                 }
             }
         }
-        // Per slot a key that orders the plates by the least limit they could give: room ÷ the
-        // most one unit of Σₖ |d[i][k]| (or of the notional shares) can add.
+        // Per slot a key that orders the plates by the least limit they could give: the least
+        // room ÷ the most one unit of Σₖ |d[i][k]| (or of the notional shares) can add.
         let key: Vec<f64> = (0..n_slots)
             .map(|s| {
                 let vertical_most = vertical[s].iter().flat_map(|l| l.1.iter()).fold(0.0f64, |acc, v| acc.max(v.abs()));
                 (0..2)
                     .map(|form| {
                         let per_unit = sp.mu[s] * w_vertical[form] * vertical_most + sp.notional_most.get(s).map_or(0.0, |most| most[form]);
-                        if per_unit <= 0.0 { f64::INFINITY } else { rooms[sp.posts[s] as usize][form].max(0.0) / per_unit }
+                        let least = room_of[s].iter().map(|r| r[form]).fold(f64::INFINITY, f64::min);
+                        if per_unit <= 0.0 { f64::INFINITY } else { least.max(0.0) / per_unit }
                     })
                     .fold(f64::INFINITY, f64::min)
             })
@@ -1488,21 +1502,46 @@ impl SlidingDeck {
                             }
                         }
                     }
-                    for form in 0..2 {
-                        let room = rooms[p as usize][form];
-                        for g in &a {
-                            let v = g[form];
-                            for way in 0..2 {
+                    // What the extra load adds per kN in a form, with its notional load of group
+                    // `g` under diaphragm assumption `way`, or without (`None`): (the left side
+                    // of the check, the base shear).
+                    let added = |form: usize, with: Option<(usize, usize)>| {
+                        let lifted = w_vertical[form] * (-c).max(0.0);
+                        match with {
+                            None => (sp.mu[s] * lifted, 0.0),
+                            Some((g, way)) => {
+                                let v = a[g][form];
                                 let sx = [v[0] * hs[way][0] + v[1] * hs[2 + way][0], v[0] * hs[way][1] + v[1] * hs[2 + way][1]];
                                 let shear = (sx[0] * sx[0] + sx[1] * sx[1]).sqrt();
-                                // A plate with no base shear, before or after, cannot slide.
-                                if !sp.sheared[s] && shear * phi < INFLUENCE_FLOOR {
-                                    continue;
-                                }
                                 let u = v[0] * hu[way] + v[1] * hu[2 + way];
-                                let added = w_shear[form] * shear + sp.mu[s] * (w_vertical[form] * (-c).max(0.0) + (-u).max(0.0));
-                                if added * phi >= INFLUENCE_FLOOR {
-                                    best.take(Best { kn: room.max(0.0) / (phi * added), plate: p, check: SLIDING_FACTOR + form as u8, combination: 0, method: m as u16, already: room <= 0.0 });
+                                (w_shear[form] * shear + sp.mu[s] * (lifted + (-u).max(0.0)), shear)
+                            }
+                        }
+                    };
+                    for (g_check, paired) in pairs.iter().enumerate() {
+                        for variant in 0..n_variants {
+                            let room = room_of[s][g_check * n_variants + variant];
+                            // The extra load's assumption paired with the check's; with one
+                            // assumption in the check, either of the extra load's.
+                            let ways: &[usize] = if n_variants == 2 { if variant == 0 { &[0] } else { &[1] } } else { &[0, 1] };
+                            let mut consider = |with: Option<(usize, usize)>| {
+                                for form in 0..2 {
+                                    let (add, shear) = added(form, with);
+                                    // A plate with no base shear, before or after, cannot slide.
+                                    if room[2] <= crate::check::sliding::NO_SHEAR_KN && shear * phi < INFLUENCE_FLOOR {
+                                        continue;
+                                    }
+                                    if add * phi >= INFLUENCE_FLOOR {
+                                        best.take(Best { kn: room[form].max(0.0) / (phi * add), plate: p, check: SLIDING_FACTOR + form as u8, combination: 0, method: m as u16, already: room[form] <= 0.0 });
+                                    }
+                                }
+                            };
+                            if paired.is_empty() {
+                                consider(None);
+                            }
+                            for &g in paired {
+                                for &w in ways {
+                                    consider(Some((g, w)));
                                 }
                             }
                         }

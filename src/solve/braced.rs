@@ -913,8 +913,7 @@ pub fn wind_force(face: &crate::scene::loads::Face, kpa: f64, direction: PlanDir
 /// Direction key in hundredths of a degree, as [`Item::direction_key`].
 fn direction_key(d: PlanDirection) -> i64 {
     let (x, y) = d.unit();
-    let deg = y.atan2(x).to_degrees().rem_euclid(360.0);
-    ((deg * 100.0).round() as i64) % 36_000
+    crate::solve::items::direction_key_of([x, y])
 }
 
 /// Short name of a plan direction: `+x`, `-y`, or `30°`.

@@ -258,10 +258,7 @@ impl Item {
     /// Horizontal loads in the same plan direction act together; loads in different directions
     /// are alternatives. This key (direction in hundredths of a degree) tells them apart.
     pub fn direction_key(&self) -> Option<i64> {
-        self.direction.map(|[x, y]| {
-            let deg = y.atan2(x).to_degrees().rem_euclid(360.0);
-            ((deg * 100.0).round() as i64) % 36_000
-        })
+        self.direction.map(direction_key_of)
     }
 
     /// Resultant of the item's plate reactions.
@@ -348,4 +345,11 @@ impl Solution {
         }
         out
     }
+}
+
+/// A plan direction (unit vector x, y) as a whole number of hundredths of a degree, 0 to 35,999:
+/// directions that print alike are one.
+pub fn direction_key_of([x, y]: [f64; 2]) -> i64 {
+    let deg = y.atan2(x).to_degrees().rem_euclid(360.0);
+    ((deg * 100.0).round() as i64) % 36_000
 }
