@@ -1454,35 +1454,43 @@ impl SlidingDeck {
                 }
             }
         }
-        // Per slot a key that orders the plates by the least limit they could give: the least
-        // room ÷ the most one unit of Σₖ |d[i][k]| (or of the notional shares) can add.
-        let key: Vec<f64> = (0..n_slots)
-            .map(|s| {
-                let vertical_most = vertical[s].iter().flat_map(|l| l.1.iter()).fold(0.0f64, |acc, v| acc.max(v.abs()));
-                (0..2)
-                    .map(|form| {
-                        let per_unit = sp.mu[s] * w_vertical[form] * vertical_most + sp.notional_most.get(s).map_or(0.0, |most| most[form]);
-                        let least = room_of[s].iter().map(|r| r[form]).fold(f64::INFINITY, f64::min);
-                        if per_unit <= 0.0 { f64::INFINITY } else { least.max(0.0) / per_unit }
-                    })
-                    .fold(f64::INFINITY, f64::min)
-            })
-            .collect();
-        let mut order: Vec<u32> = (0..n_slots as u32).filter(|&s| key[s as usize].is_finite()).collect();
-        order.sort_by(|x, y| key[*x as usize].total_cmp(&key[*y as usize]));
+        // Per slot and form: the least room of any direction and assumption; per bearer reaching
+        // it, the most its influence lifts and presses it over the columns.
+        let least: Vec<[f64; 2]> = room_of.iter().map(|r| [0, 1].map(|form| r.iter().map(|x| x[form]).fold(f64::INFINITY, f64::min))).collect();
+        let extremes: Vec<Vec<(u32, f64, f64)>> = vertical.iter().map(|list| list.iter().map(|(k, col)| (*k, col.iter().fold(0.0f64, |m, v| m.max(-v)), col.iter().fold(0.0f64, |m, v| m.max(*v)))).collect()).collect();
         let notional = inf.notional.as_ref();
+        let mut candidates: Vec<(f64, u32)> = Vec::with_capacity(n_slots);
         for i in 0..rows {
             let d = &inf.d[i];
             let nd = notional.map(|n| n.d[i].as_slice());
-            let reach = phi * d.iter().map(|v| v.abs()).sum::<f64>().max(nd.map_or(0.0, |nd| nd.iter().map(|v| v.abs()).sum()));
-            if reach <= 0.0 {
+            let spread = nd.map_or(0.0, |nd| nd.iter().map(|v| v.abs()).sum::<f64>());
+            // Per plate, the least limit it could give anywhere on this row: its least room ÷ the
+            // most the row's load can lift it (a positive share through its falling influence,
+            // a negative through its rising one) and the most its notional load can add; only
+            // plates that could beat a value already found on the row are looked at, least first.
+            let row_most = grid[i * cols..(i + 1) * cols].iter().map(|b| b.kn).fold(0.0, f64::max);
+            candidates.clear();
+            for s in 0..n_slots {
+                let lift: f64 = extremes[s].iter().map(|&(k, fall, rise)| if d[k as usize] > 0.0 { d[k as usize] * fall } else { -d[k as usize] * rise }).sum();
+                let key = (0..2)
+                    .map(|form| {
+                        let per_unit = phi * (sp.mu[s] * w_vertical[form] * lift + spread * sp.notional_most.get(s).map_or(0.0, |most| most[form]));
+                        if per_unit < INFLUENCE_FLOOR { f64::INFINITY } else { least[s][form].max(0.0) / per_unit }
+                    })
+                    .fold(f64::INFINITY, f64::min);
+                if key < row_most {
+                    candidates.push((key, s as u32));
+                }
+            }
+            if candidates.is_empty() {
                 continue;
             }
+            candidates.sort_by(|x, y| x.0.total_cmp(&y.0));
             for j in 0..cols {
                 let best = &mut grid[i * cols + j];
-                for &s in &order {
+                for &(key, s) in &candidates {
                     let s = s as usize;
-                    if key[s] / reach >= best.kn {
+                    if key >= best.kn {
                         break;
                     }
                     let p = sp.posts[s];
