@@ -450,12 +450,19 @@ struct ComboPass {
     least: Vec<f64>,
 }
 
-/// The least limit at every grid point of one method pass `m` over the combinations, before the
-/// deck's and the structure's own checks.
-fn pass_grid(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], m: usize, inf: &DeckInfluence, n_posts: usize) -> Vec<Best> {
-    let (rows, cols) = (inf.across.len(), inf.along.len());
+/// What every grid point of one method pass `m` needs, worked out once for the pass: the braced
+/// plates and, per combination, the rooms and bounds.
+struct PassSetup<'a> {
+    inf: &'a DeckInfluence,
+    m: usize,
+    braced: Braced,
+    states: Vec<ComboPass>,
+}
+
+/// [`PassSetup`] of method pass `m`.
+fn pass_setup<'a>(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], m: usize, inf: &'a DeckInfluence, n_posts: usize) -> PassSetup<'a> {
+    let cols = inf.along.len();
     let nk = inf.bearers.len();
-    let mut best = vec![Best::NONE; rows * cols];
     // Plates that take brace forces from the notional load of the extra load: summed at each
     // grid point below, with that load.
     let braced = braced_plates(inf, groups, n_posts);
@@ -513,15 +520,27 @@ fn pass_grid(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], gr
         let least: Vec<f64> = (0..cols).map(|j| (0..nk).flat_map(|k| by_sign[k * cols + j]).map(|b| b.kn).fold(f64::INFINITY, f64::min)).collect();
         states.push(ComboPass { c, gamma, room, shared_list, a, scratch, bounds, notional_here, by_sign, least });
     }
+    PassSetup { inf, m, braced, states }
+}
+
+/// The least limit at every grid point of rows `rows` of one method pass over the combinations,
+/// before the deck's and the structure's own checks; row by row.
+fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>) -> Vec<Best> {
+    let &PassSetup { inf, m, ref braced, ref states } = setup;
+    let cols = inf.along.len();
+    let nk = inf.bearers.len();
+    let mut best = vec![Best::NONE; rows.len() * cols];
+    let first = rows.start;
+    let mut scratch: Vec<BracedScratch> = states.iter().map(|st| st.scratch.clone()).collect();
     let mut shares: Vec<(usize, f64)> = Vec::with_capacity(nk);
     let mut sums = NotionalSums::new(braced.posts.len());
-    for i in 0..rows {
+    for i in rows {
         shares.clear();
         shares.extend(inf.d[i].iter().copied().enumerate().filter(|(_, dk)| dk.abs() >= INFLUENCE_FLOOR));
         shares.sort_unstable_by(|a, b| b.1.abs().total_cmp(&a.1.abs()));
         for j in 0..cols {
             sums.clear();
-            for st in &mut states {
+            for (st, w) in states.iter().zip(&mut scratch) {
                 let c = st.c;
                 let mut here = Best::NONE;
                 for &(k, dk) in &shares {
@@ -543,14 +562,36 @@ fn pass_grid(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], gr
                     }
                 }
                 if st.notional_here {
-                    let at = BracedPoint { inf, braced: &braced, shares: &shares, i, j, c, m };
-                    braced_limits(&at, &mut st.scratch, &st.bounds, &st.a, &st.room, &mut sums, &mut here);
+                    let at = BracedPoint { inf, braced, shares: &shares, i, j, c, m };
+                    braced_limits(&at, w, &st.bounds, &st.a, &st.room, &mut sums, &mut here);
                 }
-                best[i * cols + j].take(Best { kn: here.kn / st.gamma, ..here });
+                best[(i - first) * cols + j].take(Best { kn: here.kn / st.gamma, ..here });
             }
         }
     }
     best
+}
+
+/// The least limit at every grid point of each method pass over the combinations. Method passes
+/// are independent, and so are the grid points of one pass once its setup is made: the setups
+/// worked out side by side, then blocks of rows of every pass, so that the cores share the work
+/// evenly whatever the number of passes.
+fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence], n_posts: usize) -> Vec<Vec<Best>> {
+    /// Rows of the grid in one piece of work.
+    const BLOCK_ROWS: usize = 8;
+    let setups = crate::workers::in_order(per_pass.len(), || (), |m, _| pass_setup(analysis, settings, combos, groups, m, &per_pass[m], n_posts));
+    let blocks: Vec<(usize, std::ops::Range<usize>)> = (0..per_pass.len())
+        .flat_map(|m| {
+            let rows = per_pass[m].across.len();
+            (0..rows.div_ceil(BLOCK_ROWS)).map(move |b| (m, b * BLOCK_ROWS..((b + 1) * BLOCK_ROWS).min(rows)))
+        })
+        .collect();
+    let parts = crate::workers::in_order(blocks.len(), || (), |t, _| pass_rows(&setups[blocks[t].0], blocks[t].1.clone()));
+    let mut per_grid: Vec<Vec<Best>> = per_pass.iter().map(|inf| Vec::with_capacity(inf.across.len() * inf.along.len())).collect();
+    for ((m, _), part) in blocks.iter().zip(parts) {
+        per_grid[*m].extend(part);
+    }
+    per_grid
 }
 
 fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence]) -> DeckSpare {
@@ -558,7 +599,7 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     let n_posts = scene.posts.len();
     // Method passes are independent: worked out side by side, then taken in pass order (the
     // least value, ties to the first, as one after the other would).
-    let per_grid = crate::workers::in_order(per_pass.len(), || (), |m, _| pass_grid(analysis, settings, combos, groups, m, &per_pass[m], n_posts));
+    let per_grid = pass_grids(analysis, settings, combos, groups, per_pass, n_posts);
     let mut grid: Option<Vec<Best>> = None;
     let mut shape = (0, 0);
     for (m, g) in per_grid.into_iter().enumerate() {
@@ -824,6 +865,7 @@ fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usi
 
 /// Work space of [`braced_limits`] for one combination: per braced plate the vertical influence
 /// being summed, and the plates in order of the least limit the notional load alone could give.
+#[derive(Clone)]
 struct BracedScratch {
     touched: Vec<u32>,
     seen: Vec<bool>,
