@@ -455,18 +455,18 @@ struct ComboPass {
 struct PassSetup<'a> {
     inf: &'a DeckInfluence,
     m: usize,
-    braced: Braced,
+    braced: &'a Braced,
+    row_sum: Vec<f64>,
+    reach: Reach,
     states: Vec<ComboPass>,
 }
 
 /// [`PassSetup`] of method pass `m`.
-fn pass_setup<'a>(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], m: usize, inf: &'a DeckInfluence, n_posts: usize) -> PassSetup<'a> {
+fn pass_setup<'a>(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], m: usize, inf: &'a DeckInfluence, braced: &'a Braced, n_posts: usize) -> PassSetup<'a> {
     let cols = inf.along.len();
     let nk = inf.bearers.len();
-    // Plates that take brace forces from the notional load of the extra load: summed at each
-    // grid point below, with that load.
-    let braced = braced_plates(inf, groups, n_posts);
     let vertically_shared = shared_posts(inf, n_posts);
+    let reach = Reach::new(inf, braced, &vertically_shared);
     let mut states = Vec::with_capacity(combos.len());
     for &c in combos {
         let comb = &analysis.combinations[c];
@@ -494,8 +494,8 @@ fn pass_setup<'a>(analysis: &Analysis, settings: &SpareSettings, combos: &[usize
                 })
             })
             .collect();
-        let scratch = BracedScratch::new(&braced, &a, &room);
-        let bounds = bearer_bounds(inf, &braced, &scratch, &room, &vertically_shared);
+        let scratch = BracedScratch::new(braced, &a, &room);
+        let bounds = bearer_bounds(inf, braced, &reach, &scratch, &vertically_shared);
         // Per bearer and column: the least ratio room / influence over the plates, for a
         // positive and for a negative deck share, with what gave it.
         let mut by_sign = vec![[Best::NONE; 2]; nk * cols];
@@ -520,13 +520,13 @@ fn pass_setup<'a>(analysis: &Analysis, settings: &SpareSettings, combos: &[usize
         let least: Vec<f64> = (0..cols).map(|j| (0..nk).flat_map(|k| by_sign[k * cols + j]).map(|b| b.kn).fold(f64::INFINITY, f64::min)).collect();
         states.push(ComboPass { c, gamma, room, shared_list, a, scratch, bounds, notional_here, by_sign, least });
     }
-    PassSetup { inf, m, braced, states }
+    PassSetup { inf, m, braced, row_sum: row_sums(inf, groups), reach, states }
 }
 
 /// The least limit at every grid point of rows `rows` of one method pass over the combinations,
 /// before the deck's and the structure's own checks; row by row.
 fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>) -> Vec<Best> {
-    let &PassSetup { inf, m, ref braced, ref states } = setup;
+    let &PassSetup { inf, m, braced, ref row_sum, ref reach, ref states } = setup;
     let cols = inf.along.len();
     let nk = inf.bearers.len();
     let mut best = vec![Best::NONE; rows.len() * cols];
@@ -562,7 +562,7 @@ fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>) -> Vec<Best> {
                     }
                 }
                 if st.notional_here {
-                    let at = BracedPoint { inf, braced, shares: &shares, i, j, c, m };
+                    let at = BracedPoint { inf, braced, shares: &shares, row_sum, reach, i, j, c, m };
                     braced_limits(&at, w, &st.bounds, &st.a, &st.room, &mut sums, &mut here);
                 }
                 best[(i - first) * cols + j].take(Best { kn: here.kn / st.gamma, ..here });
@@ -579,7 +579,17 @@ fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>) -> Vec<Best> {
 fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence], n_posts: usize) -> Vec<Vec<Best>> {
     /// Rows of the grid in one piece of work.
     const BLOCK_ROWS: usize = 8;
-    let setups = crate::workers::in_order(per_pass.len(), || (), |m, _| pass_setup(analysis, settings, combos, groups, m, &per_pass[m], n_posts));
+    // Plates that take brace forces from the notional load of the extra load (summed at each grid
+    // point, with that load): once for the passes that share the routing and entry reactions.
+    let alike = |a: &DeckInfluence, b: &DeckInfluence| match (&a.notional, &b.notional) {
+        (Some(x), Some(y)) => std::sync::Arc::ptr_eq(&x.units, &y.units) && std::sync::Arc::ptr_eq(&x.entries, &y.entries),
+        _ => false,
+    };
+    let owner: Vec<usize> = (0..per_pass.len()).map(|m| (0..m).find(|&e| alike(&per_pass[e], &per_pass[m])).unwrap_or(m)).collect();
+    let own: Vec<usize> = (0..per_pass.len()).filter(|&m| owner[m] == m).collect();
+    let braced = crate::workers::in_order(own.len(), || (), |t, _| braced_plates(&per_pass[own[t]], groups, n_posts));
+    let braced_of = |m: usize| &braced[own.iter().position(|&e| e == owner[m]).expect("every pass has an owner")];
+    let setups = crate::workers::in_order(per_pass.len(), || (), |m, _| pass_setup(analysis, settings, combos, groups, m, &per_pass[m], braced_of(m), n_posts));
     let blocks: Vec<(usize, std::ops::Range<usize>)> = (0..per_pass.len())
         .flat_map(|m| {
             let rows = per_pass[m].across.len();
@@ -782,14 +792,13 @@ fn room_of(analysis: &Analysis, m: usize, c: usize, n_posts: usize) -> Room {
 
 /// The plates that take brace forces from the notional load of a load on the deck, with a slot
 /// each; per slot the largest brace effect of any of the deck's bearers and columns, per axis
-/// and diaphragm assumption (`2·axis + way`); per row of the grid Σₖ |d[i][k]| of the notional
-/// deck shares.
+/// and diaphragm assumption (`2·axis + way`). The same for method passes whose notional load
+/// reaches the plates alike (the same routing and entry reactions).
 struct Braced {
     posts: Vec<u32>,
     /// Slot of each post, `u32::MAX` where it takes none.
     slot: Vec<u32>,
     most: Vec<[f64; 4]>,
-    row_sum: Vec<f64>,
     /// Per slot: the nodes that reach it, (bearer k, node number, effect per axis and way);
     /// nodes are numbered bearer after bearer, each bearer's posts in its order.
     nodes: Vec<Vec<(u32, u32, [f64; 4])>>,
@@ -803,7 +812,6 @@ fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usi
     let mut slot = vec![u32::MAX; n_posts];
     let mut posts = Vec::new();
     let mut most: Vec<[f64; 4]> = Vec::new();
-    let mut row_sum = Vec::new();
     let mut nodes: Vec<Vec<(u32, u32, [f64; 4])>> = Vec::new();
     let mut node_count = 0;
     let mut entries = Vec::new();
@@ -858,9 +866,16 @@ fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usi
                 }
             }
         }
-        row_sum = n.d.iter().map(|row| row.iter().map(|v| v.abs()).sum()).collect();
     }
-    Braced { posts, slot, most, row_sum, nodes, node_count, entries }
+    Braced { posts, slot, most, nodes, node_count, entries }
+}
+
+/// Per row of the grid, Σₖ |d[i][k]| of the notional deck shares (none without notional load).
+fn row_sums(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>]) -> Vec<f64> {
+    match (&inf.notional, groups.is_empty()) {
+        (Some(n), false) => n.d.iter().map(|row| row.iter().map(|v| v.abs()).sum()).collect(),
+        _ => Vec::new(),
+    }
 }
 
 /// Work space of [`braced_limits`] for one combination: per braced plate the vertical influence
@@ -874,6 +889,8 @@ struct BracedScratch {
     bound: Vec<f64>,
     /// (slot, room ÷ bound), ascending.
     order: Vec<(u32, f64)>,
+    /// Per slot: the least room of the plate ([`least_room`]).
+    least: Vec<Option<f64>>,
 }
 
 impl BracedScratch {
@@ -884,14 +901,15 @@ impl BracedScratch {
             .iter()
             .map(|m| a.iter().map(|g| (0..2).map(|w| g[0].abs() * m[w] + g[1].abs() * m[2 + w]).fold(0.0, f64::max)).fold(0.0, f64::max))
             .collect();
+        let least: Vec<Option<f64>> = braced.posts.iter().map(|&p| least_room(room, p as usize)).collect();
         let mut order: Vec<(u32, f64)> = (0..n)
             .filter_map(|s| {
-                let least = least_room(room, braced.posts[s] as usize)?;
+                let least = least[s]?;
                 (bound[s] > 0.0).then(|| (s as u32, least / bound[s]))
             })
             .collect();
         order.sort_by(|x, y| x.1.total_cmp(&y.1));
-        BracedScratch { touched: Vec::new(), seen: vec![false; n], bound, order }
+        BracedScratch { touched: Vec::new(), seen: vec![false; n], bound, order, least }
     }
 }
 
@@ -903,11 +921,16 @@ fn notional_at(inf: &DeckInfluence, braced: &Braced, i: usize, j: usize, s: usiz
     let d = &n.d[i];
     let column = &braced.entries[j * braced.node_count..(j + 1) * braced.node_count];
     for &(k, node, u) in &braced.nodes[s] {
+        // A bearer that takes none of the load, or a node it puts none into, adds nothing.
+        let dk = d[k as usize];
+        if dk == 0.0 {
+            continue;
+        }
         let e = column[node as usize];
         if e == 0.0 {
             continue;
         }
-        let c = d[k as usize] * e;
+        let c = dk * e;
         for q in 0..4 {
             h[q] += c * u[q];
         }
@@ -921,6 +944,9 @@ struct BracedPoint<'a> {
     braced: &'a Braced,
     /// The deck shares of the point's row above the floor, largest first.
     shares: &'a [(usize, f64)],
+    /// Per row, Σₖ |d[i][k]| of the notional deck shares.
+    row_sum: &'a [f64],
+    reach: &'a Reach,
     i: usize,
     j: usize,
     c: usize,
@@ -966,8 +992,39 @@ struct BearerBounds {
     notional_least: f64,
     /// Braced plates reached through more than one of the deck's bearers (by slot): summed whole.
     shared: Vec<u32>,
-    /// Per slot: whether it is in `shared`.
-    is_shared: Vec<bool>,
+}
+
+/// Per bearer and column of one method pass, the braced plates its flow reaches that no other of
+/// the deck's bearers reaches: (slot, effect), in the flow's order.
+struct Reach {
+    /// Where the plates of bearer `k` at column `j` start in `plates` (`start[k · cols + j]`); they
+    /// end where the next start.
+    start: Vec<u32>,
+    plates: Vec<(u32, f64)>,
+}
+
+impl Reach {
+    fn new(inf: &DeckInfluence, braced: &Braced, vertically_shared: &[bool]) -> Self {
+        let mut start = Vec::with_capacity(inf.bearers.len() * inf.along.len() + 1);
+        let mut plates = Vec::new();
+        start.push(0);
+        for columns in &inf.flows {
+            for flow in columns {
+                for &(p, f) in flow {
+                    let s = braced.slot[p as usize];
+                    if s != u32::MAX && !vertically_shared[p as usize] {
+                        plates.push((s, f));
+                    }
+                }
+                start.push(plates.len() as u32);
+            }
+        }
+        Reach { start, plates }
+    }
+    /// The plates of bearer `k` at column `j`, at `k · cols + j`.
+    fn at(&self, kj: usize) -> &[(u32, f64)] {
+        &self.plates[self.start[kj] as usize..self.start[kj + 1] as usize]
+    }
 }
 
 /// The least room of a plate in the checks the combination makes (kN, not below zero).
@@ -981,26 +1038,20 @@ fn least_room(room: &Room, p: usize) -> Option<f64> {
     }
 }
 
-fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, w: &BracedScratch, room: &Room, vertically_shared: &[bool]) -> BearerBounds {
+fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, reach: &Reach, w: &BracedScratch, vertically_shared: &[bool]) -> BearerBounds {
     let (nk, cols) = (inf.bearers.len(), inf.along.len());
     let mut vertical = vec![f64::INFINITY; nk * cols];
     let mut notional = vec![f64::INFINITY; nk];
-    let mut is_shared = vec![false; braced.posts.len()];
     let mut shared = Vec::new();
     for (s, &p) in braced.posts.iter().enumerate() {
         if vertically_shared[p as usize] {
-            is_shared[s] = true;
             shared.push(s as u32);
         }
     }
     for k in 0..nk {
         for j in 0..cols {
-            for &(p, f) in &inf.flows[k][j] {
-                let s = braced.slot[p as usize];
-                if s == u32::MAX || is_shared[s as usize] {
-                    continue;
-                }
-                let Some(least) = least_room(room, p as usize) else { continue };
+            for &(s, f) in reach.at(k * cols + j) {
+                let Some(least) = w.least[s as usize] else { continue };
                 if f != 0.0 {
                     let v = &mut vertical[k * cols + j];
                     *v = v.min(least / f.abs());
@@ -1013,7 +1064,7 @@ fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, w: &BracedScratch, room: 
     }
     let vertical_least = (0..cols).map(|j| (0..nk).map(|k| vertical[k * cols + j]).fold(f64::INFINITY, f64::min)).collect();
     let notional_least = notional.iter().copied().fold(f64::INFINITY, f64::min);
-    BearerBounds { cols, vertical, notional, vertical_least, notional_least, shared, is_shared }
+    BearerBounds { cols, vertical, notional, vertical_least, notional_least, shared }
 }
 
 /// Limits at grid point (`i`, `j`) from the plates that take brace forces, per kN placed and
@@ -1027,8 +1078,8 @@ fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, w: &BracedScratch, room: 
 /// · notional bound) — cannot beat the value found; the plates no bearer reaches here take the
 /// notional load alone, in order of the least limit they could give.
 fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds, a: &[[f64; 2]], room: &Room, sums: &mut NotionalSums, here: &mut Best) {
-    let &BracedPoint { inf, braced, shares, i, j, c, m } = at;
-    let spread = braced.row_sum[i];
+    let &BracedPoint { inf, braced, shares, reach, i, j, c, m, .. } = at;
+    let spread = at.row_sum[i];
     let mut exact = |s: usize, r: f64, here: &mut Best| {
         let p = braced.posts[s];
         let h = sums.get(s, || notional_at(inf, braced, i, j, s));
@@ -1058,7 +1109,7 @@ fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds,
             w.seen[s] = true;
             w.touched.push(s as u32);
         }
-        let Some(least) = least_room(room, braced.posts[s] as usize) else { return };
+        let Some(least) = w.least[s] else { return };
         let most = r.abs() + spread * w.bound[s];
         if most >= INFLUENCE_FLOOR && least / most < here.kn {
             exact(s, r, here);
@@ -1078,11 +1129,7 @@ fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds,
         if bound_of(dk, bounds.vertical[k * bounds.cols + j], bounds.notional[k]) >= here.kn {
             continue;
         }
-        for &(p, f) in &inf.flows[k][j] {
-            let s = braced.slot[p as usize];
-            if s == u32::MAX || bounds.is_shared[s as usize] {
-                continue;
-            }
+        for &(s, f) in reach.at(k * bounds.cols + j) {
             consider(s as usize, dk * f, here, w);
         }
     }

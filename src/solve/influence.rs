@@ -270,8 +270,34 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
         result
     };
     // Passes are independent: worked out side by side, each worker keeping its own flow cache.
-    let out = crate::workers::in_order(passes.len(), crate::solve::arrangement::FlowCache::default, |m, cache| one_pass(&passes[m], cache));
+    let mut out = crate::workers::in_order(passes.len(), crate::solve::arrangement::FlowCache::default, |m, cache| one_pass(&passes[m], cache));
+    // Passes whose routing or entry reactions came out the same, bit for bit, share one copy:
+    // what uses the coefficients can then tell that they reach the plates alike.
+    for m in 1..out.len() {
+        let (earlier, rest) = out.split_at_mut(m);
+        let Some(n) = rest[0].as_mut().and_then(|inf| inf.notional.as_mut()) else { continue };
+        for e in earlier.iter().flatten().filter_map(|inf| inf.notional.as_ref()) {
+            if !std::sync::Arc::ptr_eq(&n.units, &e.units) && same_routed(&n.units, &e.units) {
+                n.units = e.units.clone();
+            }
+            if !std::sync::Arc::ptr_eq(&n.entries, &e.entries) && same_bits(&n.entries, &e.entries) {
+                n.entries = e.entries.clone();
+            }
+        }
+    }
     Ok(out)
+}
+
+/// Whether two sets of entry reactions are the same, bit for bit.
+fn same_bits(a: &[Vec<Vec<f64>>], b: &[Vec<Vec<f64>>]) -> bool {
+    a.len() == b.len()
+        && a.iter().zip(b).all(|(x, y)| x.len() == y.len() && x.iter().zip(y).all(|(u, v)| u.len() == v.len() && u.iter().zip(v).all(|(p, q)| p.to_bits() == q.to_bits())))
+}
+
+/// Whether two routings are the same, bit for bit.
+fn same_routed(a: &Routed, b: &Routed) -> bool {
+    let same = |u: &[(u32, f64)], v: &[(u32, f64)]| u.len() == v.len() && u.iter().zip(v).all(|(p, q)| p.0 == q.0 && p.1.to_bits() == q.1.to_bits());
+    a.len() == b.len() && a.iter().zip(b).all(|(x, y)| x.len() == y.len() && x.iter().zip(y).all(|(u, v)| u.iter().zip(v).all(|(p, q)| same(p, q))))
 }
 
 impl Solver<'_, '_> {
