@@ -164,11 +164,12 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
     // Nodes of the deck: each bearer's posts at the bearer's level.
     let mut fails = Vec::new();
     let nodes: Vec<Vec<(u32, f64)>> = line.bearers.iter().map(|&b| model.bearers[b].posts.iter().map(|&p| (p as u32, model.scene.bearers[b].level)).collect()).collect();
-    // Per node and axis: the brace components entering the posts, each way.
-    let mut raw: Vec<Vec<[Vec<Reactions>; 2]>> = Vec::with_capacity(nodes.len());
-    for list in &nodes {
-        let mut per = Vec::with_capacity(list.len());
-        for &(post, level) in list {
+    // Per node and axis: the brace components entering the posts, each way. Nodes are
+    // independent: bearer by bearer side by side, the failures kept in bearer order.
+    let per_bearer = crate::workers::in_order(nodes.len(), || (), |k, _| {
+        let mut fails = Vec::new();
+        let mut per = Vec::with_capacity(nodes[k].len());
+        for &(post, level) in &nodes[k] {
             let mut both: [Vec<Reactions>; 2] = Default::default();
             for (axis, slot) in both.iter_mut().enumerate() {
                 if !axes[axis] {
@@ -182,7 +183,12 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
             }
             per.push(both);
         }
+        (per, fails)
+    });
+    let mut raw: Vec<Vec<[Vec<Reactions>; 2]>> = Vec::with_capacity(nodes.len());
+    for (per, failed) in per_bearer {
         raw.push(per);
+        fails.extend(failed);
     }
     if !fails.is_empty() {
         return Err(net.describe(&fails));
