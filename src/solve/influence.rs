@@ -241,10 +241,12 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
     };
     // Where every post reaches its plate through splices alone the routing is the same in every
     // pass; passes that are not one state take their notional load from the primary pass's
-    // entries, the same for each of them: both worked out once.
+    // entries, the same for each of them: both worked out once. Where the primary pass is one
+    // state itself, its own entries are those (taken from it below).
     let all_spliced = (0..model.scene.posts.len()).all(|p| model.graph.spliced_base(p).is_some());
     let routed_once = all_spliced.then(|| std::sync::Arc::new(route(&mut Solver::new(model, &passes[0]))));
-    let primary_entries = (!passes.iter().all(MethodPass::is_one_state)).then(|| {
+    let from_primary = passes[0].is_one_state();
+    let primary_entries = (!from_primary && !passes.iter().all(MethodPass::is_one_state)).then(|| {
         let mut primary = Solver::new(model, &passes[0]);
         let extent = model.scene.decks[deck].extent;
         let (along_range, span_range) = line.split_rect(&extent);
@@ -263,6 +265,7 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
             let routed = routed_once.clone().unwrap_or_else(|| std::sync::Arc::new(route(&mut s)));
             let (d, entries) = match (&primary_entries, pass.is_one_state()) {
                 (Some(kept), false) => kept.clone(),
+                (None, false) if from_primary => (Vec::new(), std::sync::Arc::new(Vec::new())),
                 _ => {
                     let d = inf.d.clone();
                     let entries = std::sync::Arc::new(entries_of(&mut s, &d, &inf.along));
@@ -276,7 +279,29 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
         result
     };
     // Passes are independent: worked out side by side, each worker keeping its own flow cache.
-    let mut out = crate::workers::in_order(passes.len(), crate::solve::arrangement::FlowCache::default, |m, cache| one_pass(&passes[m], cache));
+    // Passes whose bearers behave alike go to the same worker, one after the other, so that the
+    // later ones find the bearer flows in its cache.
+    let mut alike: Vec<Vec<usize>> = Vec::new();
+    for (m, pass) in passes.iter().enumerate() {
+        match alike.iter_mut().find(|g| passes[g[0]].bearers == pass.bearers) {
+            Some(g) => g.push(m),
+            None => alike.push(vec![m]),
+        }
+    }
+    let done = crate::workers::in_order(alike.len(), crate::solve::arrangement::FlowCache::default, |g, cache| alike[g].iter().map(|&m| (m, one_pass(&passes[m], cache))).collect::<Vec<_>>());
+    let mut out: Vec<Option<DeckInfluence>> = (0..passes.len()).map(|_| None).collect();
+    for (m, inf) in done.into_iter().flatten() {
+        out[m] = inf;
+    }
+    // The primary pass's deck shares and entries for the passes that are not one state (every
+    // pass has a grid or none does: the grid depends on the deck and footprint alone).
+    if from_primary && let Some(primary) = out[0].as_ref().and_then(|inf| inf.notional.as_ref()).map(|n| (n.d.clone(), n.entries.clone())) {
+        for (m, inf) in out.iter_mut().enumerate() {
+            if let Some(n) = inf.as_mut().and_then(|inf| inf.notional.as_mut()).filter(|_| !passes[m].is_one_state()) {
+                (n.d, n.entries) = primary.clone();
+            }
+        }
+    }
     // Passes whose routing or entry reactions came out the same, bit for bit, share one copy:
     // what uses the coefficients can then tell that they reach the plates alike.
     for m in 1..out.len() {
