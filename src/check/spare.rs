@@ -533,8 +533,13 @@ fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>) -> Vec<Best> {
     let first = rows.start;
     let mut scratch: Vec<BracedScratch> = states.iter().map(|st| st.scratch.clone()).collect();
     let mut shares: Vec<(usize, f64)> = Vec::with_capacity(nk);
+    let mut taking: Vec<u32> = Vec::with_capacity(nk);
     let mut sums = NotionalSums::new(braced.posts.len());
     for i in rows {
+        taking.clear();
+        if let Some(n) = &inf.notional {
+            taking.extend((0..braced.bearers.min(n.d[i].len())).filter(|&k| n.d[i][k] != 0.0).map(|k| k as u32));
+        }
         shares.clear();
         shares.extend(inf.d[i].iter().copied().enumerate().filter(|(_, dk)| dk.abs() >= INFLUENCE_FLOOR));
         shares.sort_unstable_by(|a, b| b.1.abs().total_cmp(&a.1.abs()));
@@ -562,7 +567,7 @@ fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>) -> Vec<Best> {
                     }
                 }
                 if st.notional_here {
-                    let at = BracedPoint { inf, braced, shares: &shares, row_sum, reach, i, j, c, m };
+                    let at = BracedPoint { inf, braced, shares: &shares, row_sum, reach, taking: &taking, i, j, c, m };
                     braced_limits(&at, w, &st.bounds, &st.a, &st.room, &mut sums, &mut here);
                 }
                 best[(i - first) * cols + j].take(Best { kn: here.kn / st.gamma, ..here });
@@ -804,6 +809,10 @@ struct Braced {
     nodes: Vec<Vec<(u32, u32, [f64; 4])>>,
     /// Number of nodes.
     node_count: usize,
+    /// Number of bearers, and per slot where each bearer's nodes start in `nodes` (nodes come
+    /// bearer by bearer): `by_bearer[s · (bearers + 1) + k]`, the last the end.
+    bearers: usize,
+    by_bearer: Vec<u32>,
     /// Entry reactions by column and node: `entries[j · node_count + node]`.
     entries: Vec<f64>,
 }
@@ -814,6 +823,7 @@ fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usi
     let mut most: Vec<[f64; 4]> = Vec::new();
     let mut nodes: Vec<Vec<(u32, u32, [f64; 4])>> = Vec::new();
     let mut node_count = 0;
+    let mut by_bearer = Vec::new();
     let mut entries = Vec::new();
     if let (Some(n), false) = (&inf.notional, groups.is_empty()) {
         let first: Vec<usize> = n.units.iter().scan(0, |acc, list| {
@@ -867,7 +877,18 @@ fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usi
             }
         }
     }
-    Braced { posts, slot, most, nodes, node_count, entries }
+    let bearers = inf.notional.as_ref().filter(|_| !groups.is_empty()).map_or(0, |n| n.units.len());
+    by_bearer.reserve(nodes.len() * (bearers + 1));
+    for list in &nodes {
+        let mut at = 0;
+        for k in 0..=bearers {
+            while at < list.len() && (list[at].0 as usize) < k {
+                at += 1;
+            }
+            by_bearer.push(at as u32);
+        }
+    }
+    Braced { posts, slot, most, nodes, node_count, bearers, by_bearer, entries }
 }
 
 /// Per row of the grid, Σₖ |d[i][k]| of the notional deck shares (none without notional load).
@@ -914,25 +935,27 @@ impl BracedScratch {
 }
 
 /// The notional effect at the braced plate of slot `s` of 1 kN placed at grid point (`i`, `j`), per axis and
-/// diaphragm assumption (`2·axis + way`).
-fn notional_at(inf: &DeckInfluence, braced: &Braced, i: usize, j: usize, s: usize) -> [f64; 4] {
+/// diaphragm assumption (`2·axis + way`). `taking`: the bearers whose notional deck share in row
+/// `i` is not zero, in order (the others add nothing).
+fn notional_at(inf: &DeckInfluence, braced: &Braced, i: usize, j: usize, s: usize, taking: &[u32]) -> [f64; 4] {
     let mut h = [0.0; 4];
     let Some(n) = &inf.notional else { return h };
     let d = &n.d[i];
     let column = &braced.entries[j * braced.node_count..(j + 1) * braced.node_count];
-    for &(k, node, u) in &braced.nodes[s] {
-        // A bearer that takes none of the load, or a node it puts none into, adds nothing.
+    let list = &braced.nodes[s];
+    let starts = &braced.by_bearer[s * (braced.bearers + 1)..(s + 1) * (braced.bearers + 1)];
+    for &k in taking {
         let dk = d[k as usize];
-        if dk == 0.0 {
-            continue;
-        }
-        let e = column[node as usize];
-        if e == 0.0 {
-            continue;
-        }
-        let c = dk * e;
-        for q in 0..4 {
-            h[q] += c * u[q];
+        for &(_, node, u) in &list[starts[k as usize] as usize..starts[k as usize + 1] as usize] {
+            // A node the bearer puts none into adds nothing.
+            let e = column[node as usize];
+            if e == 0.0 {
+                continue;
+            }
+            let c = dk * e;
+            for q in 0..4 {
+                h[q] += c * u[q];
+            }
         }
     }
     h
@@ -946,6 +969,8 @@ struct BracedPoint<'a> {
     shares: &'a [(usize, f64)],
     /// Per row, Σₖ |d[i][k]| of the notional deck shares.
     row_sum: &'a [f64],
+    /// The bearers whose notional deck share in the point's row is not zero, in order.
+    taking: &'a [u32],
     reach: &'a Reach,
     i: usize,
     j: usize,
@@ -1078,11 +1103,11 @@ fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, reach: &Reach, w: &Braced
 /// · notional bound) — cannot beat the value found; the plates no bearer reaches here take the
 /// notional load alone, in order of the least limit they could give.
 fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds, a: &[[f64; 2]], room: &Room, sums: &mut NotionalSums, here: &mut Best) {
-    let &BracedPoint { inf, braced, shares, reach, i, j, c, m, .. } = at;
+    let &BracedPoint { inf, braced, shares, reach, taking, i, j, c, m, .. } = at;
     let spread = at.row_sum[i];
     let mut exact = |s: usize, r: f64, here: &mut Best| {
         let p = braced.posts[s];
-        let h = sums.get(s, || notional_at(inf, braced, i, j, s));
+        let h = sums.get(s, || notional_at(inf, braced, i, j, s, taking));
         let (mut down, mut up) = (0.0f64, 0.0f64);
         for g in a {
             for way in 0..2 {
