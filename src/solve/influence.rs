@@ -198,26 +198,23 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
         Axis::Y => (footprint.y_m, footprint.x_m),
     };
     // The unit responses routed to the plates: [k][node][2·axis + way].
-    let route = |s: &mut Solver| -> Routed {
-        raw.iter()
-            .map(|per| {
-                per.iter()
-                    .map(|both| {
-                        let mut four: [Vec<(u32, f64)>; 4] = Default::default();
-                        for axis in 0..2 {
-                            for way in 0..2 {
-                                let sets = &both[axis];
-                                if let Some(set) = sets.get(way.min(sets.len().saturating_sub(1))) {
-                                    four[2 * axis + way] = s.to_plates(&set.vertical);
-                                }
-                            }
+    let route_bearer = |s: &mut Solver, per: &[[Vec<Reactions>; 2]]| -> Vec<[Vec<(u32, f64)>; 4]> {
+        per.iter()
+            .map(|both| {
+                let mut four: [Vec<(u32, f64)>; 4] = Default::default();
+                for axis in 0..2 {
+                    for way in 0..2 {
+                        let sets = &both[axis];
+                        if let Some(set) = sets.get(way.min(sets.len().saturating_sub(1))) {
+                            four[2 * axis + way] = s.to_plates(&set.vertical);
                         }
-                        four
-                    })
-                    .collect()
+                    }
+                }
+                four
             })
             .collect()
     };
+    let route = |s: &mut Solver| -> Routed { raw.iter().map(|per| route_bearer(s, per)).collect() };
     // Entry reactions at each bearer's posts for its share of 1 at each column, with the deck
     // shares `d` they go with.
     let entries_of = |s: &mut Solver, d: &[Vec<f64>], along: &[f64]| -> Vec<Vec<Vec<f64>>> {
@@ -244,7 +241,8 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
     // entries, the same for each of them: both worked out once. Where the primary pass is one
     // state itself, its own entries are those (taken from it below).
     let all_spliced = (0..model.scene.posts.len()).all(|p| model.graph.spliced_base(p).is_some());
-    let routed_once = all_spliced.then(|| std::sync::Arc::new(route(&mut Solver::new(model, &passes[0]))));
+    // Spliced posts pass their load straight down whatever the solver: bearer by bearer side by side.
+    let routed_once = all_spliced.then(|| std::sync::Arc::new(crate::workers::in_order(raw.len(), || Solver::new(model, &passes[0]), |k, s| route_bearer(s, &raw[k]))));
     let from_primary = passes[0].is_one_state();
     let primary_entries = (!from_primary && !passes.iter().all(MethodPass::is_one_state)).then(|| {
         let mut primary = Solver::new(model, &passes[0]);
