@@ -578,9 +578,10 @@ fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>) -> Vec<Best> {
 }
 
 /// The least limit at every grid point of each method pass over the combinations. Method passes
-/// are independent, and so are the grid points of one pass once its setup is made: the setups
-/// worked out side by side, then blocks of rows of every pass, so that the cores share the work
-/// evenly whatever the number of passes.
+/// are independent, and so are the grid points of one pass once its setup is made: the braced
+/// plates, the setups and the blocks of rows of every pass are handed out in that order, each
+/// piece waiting only for what it needs (already worked out, or being worked out on the other
+/// core), so that the cores share the work evenly whatever the number of passes.
 fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence], n_posts: usize) -> Vec<Vec<Best>> {
     /// Rows of the grid in one piece of work.
     const BLOCK_ROWS: usize = 8;
@@ -592,18 +593,32 @@ fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], g
     };
     let owner: Vec<usize> = (0..per_pass.len()).map(|m| (0..m).find(|&e| alike(&per_pass[e], &per_pass[m])).unwrap_or(m)).collect();
     let own: Vec<usize> = (0..per_pass.len()).filter(|&m| owner[m] == m).collect();
-    let braced = crate::workers::in_order(own.len(), || (), |t, _| braced_plates(&per_pass[own[t]], groups, n_posts));
-    let braced_of = |m: usize| &braced[own.iter().position(|&e| e == owner[m]).expect("every pass has an owner")];
-    let setups = crate::workers::in_order(per_pass.len(), || (), |m, _| pass_setup(analysis, settings, combos, groups, m, &per_pass[m], braced_of(m), n_posts));
+    let braced: Vec<std::sync::OnceLock<Braced>> = own.iter().map(|_| std::sync::OnceLock::new()).collect();
+    let braced_get = |t: usize| braced[t].get_or_init(|| braced_plates(&per_pass[own[t]], groups, n_posts));
+    let braced_of = |m: usize| braced_get(own.iter().position(|&e| e == owner[m]).expect("every pass has an owner"));
+    let setups: Vec<std::sync::OnceLock<PassSetup>> = per_pass.iter().map(|_| std::sync::OnceLock::new()).collect();
+    let setup_get = |m: usize| setups[m].get_or_init(|| pass_setup(analysis, settings, combos, groups, m, &per_pass[m], braced_of(m), n_posts));
     let blocks: Vec<(usize, std::ops::Range<usize>)> = (0..per_pass.len())
         .flat_map(|m| {
             let rows = per_pass[m].across.len();
             (0..rows.div_ceil(BLOCK_ROWS)).map(move |b| (m, b * BLOCK_ROWS..((b + 1) * BLOCK_ROWS).min(rows)))
         })
         .collect();
-    let parts = crate::workers::in_order(blocks.len(), || (), |t, _| pass_rows(&setups[blocks[t].0], blocks[t].1.clone()));
+    let (n_braced, n_setups) = (own.len(), per_pass.len());
+    let parts = crate::workers::in_order(n_braced + n_setups + blocks.len(), || (), |t, _| {
+        if t < n_braced {
+            braced_get(t);
+            None
+        } else if t < n_braced + n_setups {
+            setup_get(t - n_braced);
+            None
+        } else {
+            let (m, rows) = &blocks[t - n_braced - n_setups];
+            Some(pass_rows(setup_get(*m), rows.clone()))
+        }
+    });
     let mut per_grid: Vec<Vec<Best>> = per_pass.iter().map(|inf| Vec::with_capacity(inf.across.len() * inf.along.len())).collect();
-    for ((m, _), part) in blocks.iter().zip(parts) {
+    for ((m, _), part) in blocks.iter().zip(parts.into_iter().flatten()) {
         per_grid[*m].extend(part);
     }
     per_grid
