@@ -216,13 +216,17 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
     };
     let route = |s: &mut Solver| -> Routed { raw.iter().map(|per| route_bearer(s, per)).collect() };
     // Entry reactions at each bearer's posts for its share of 1 at each column, with the deck
-    // shares `d` they go with.
-    let entries_of = |s: &mut Solver, d: &[Vec<f64>], along: &[f64]| -> Vec<Vec<Vec<f64>>> {
+    // shares `d` they go with. `like`: those of a pass whose bearers behave alike, taken where
+    // they were worked out (the same load on the same bearer model).
+    let entries_of = |s: &mut Solver, d: &[Vec<f64>], along: &[f64], like: Option<&[Vec<Vec<f64>>]>| -> Vec<Vec<Vec<f64>>> {
         line.bearers
             .iter()
             .enumerate()
             .map(|(k, &b)| {
                 let used = d.iter().any(|row| row[k] != 0.0);
+                if let Some(kept) = like.and_then(|l| l.get(k)).filter(|c| used && c.len() == along.len() && c.iter().all(|e| !e.is_empty())) {
+                    return kept.clone();
+                }
                 along
                     .iter()
                     .map(|&a| {
@@ -251,11 +255,11 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
         let across = grid_positions(span_range, size_across, spacing);
         let along = grid_positions(along_range, size_along, spacing);
         let d = primary.deck_shares(deck, &across, size_across, footprint);
-        let entries = std::sync::Arc::new(entries_of(&mut primary, &d, &along));
+        let entries = std::sync::Arc::new(entries_of(&mut primary, &d, &along, None));
         (d, entries)
     });
     // One pass: its grid, flows and notional coefficients.
-    let one_pass = |pass: &MethodPass, cache: &mut crate::solve::arrangement::FlowCache| -> Option<DeckInfluence> {
+    let one_pass = |pass: &MethodPass, cache: &mut crate::solve::arrangement::FlowCache, like: Option<&[Vec<Vec<f64>>]>| -> Option<DeckInfluence> {
         let mut s = Solver::new(model, pass);
         s.flow_cache = std::mem::take(cache);
         let inf = s.deck_influence(deck, footprint, spacing);
@@ -266,7 +270,7 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
                 (None, false) if from_primary => (Vec::new(), std::sync::Arc::new(Vec::new())),
                 _ => {
                     let d = inf.d.clone();
-                    let entries = std::sync::Arc::new(entries_of(&mut s, &d, &inf.along));
+                    let entries = std::sync::Arc::new(entries_of(&mut s, &d, &inf.along, like));
                     (d, entries)
                 }
             };
@@ -286,7 +290,15 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
             None => alike.push(vec![m]),
         }
     }
-    let done = crate::workers::in_order(alike.len(), crate::solve::arrangement::FlowCache::default, |g, cache| alike[g].iter().map(|&m| (m, one_pass(&passes[m], cache))).collect::<Vec<_>>());
+    let done = crate::workers::in_order(alike.len(), crate::solve::arrangement::FlowCache::default, |g, cache| {
+        let mut worked: Vec<(usize, Option<DeckInfluence>)> = Vec::with_capacity(alike[g].len());
+        for &m in &alike[g] {
+            // The entries of the group's first pass that worked them out itself.
+            let like = worked.iter().filter(|(e, _)| passes[*e].is_one_state()).find_map(|(_, inf)| inf.as_ref()?.notional.as_ref()).map(|n| n.entries.clone());
+            worked.push((m, one_pass(&passes[m], cache, like.as_deref().map(Vec::as_slice))));
+        }
+        worked
+    });
     let mut out: Vec<Option<DeckInfluence>> = (0..passes.len()).map(|_| None).collect();
     for (m, inf) in done.into_iter().flatten() {
         out[m] = inf;
