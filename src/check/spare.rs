@@ -501,16 +501,23 @@ struct ComboPass {
     least: Vec<f64>,
 }
 
-/// The least limit at every grid point of one method pass `m` over the combinations, before the
-/// deck's and the structure's own checks.
-fn pass_grid(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], m: usize, inf: &DeckInfluence, n_posts: usize) -> Vec<Best> {
-    let (rows, cols) = (inf.across.len(), inf.along.len());
+/// What every grid point of one method pass `m` needs, worked out once for the pass: the braced
+/// plates and, per combination, the rooms and bounds.
+struct PassSetup<'a> {
+    inf: &'a DeckInfluence,
+    m: usize,
+    braced: &'a Braced,
+    row_sum: Vec<f64>,
+    reach: Reach,
+    states: Vec<ComboPass>,
+}
+
+/// [`PassSetup`] of method pass `m`.
+fn pass_setup<'a>(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], m: usize, inf: &'a DeckInfluence, braced: &'a Braced, n_posts: usize) -> PassSetup<'a> {
+    let cols = inf.along.len();
     let nk = inf.bearers.len();
-    let mut best = vec![Best::NONE; rows * cols];
-    // Plates that take brace forces from the notional load of the extra load: summed at each
-    // grid point below, with that load.
-    let braced = braced_plates(inf, groups, n_posts);
     let vertically_shared = shared_posts(inf, n_posts);
+    let reach = Reach::new(inf, braced, &vertically_shared);
     let mut states = Vec::with_capacity(combos.len());
     for &c in combos {
         let comb = &analysis.combinations[c];
@@ -538,8 +545,8 @@ fn pass_grid(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], gr
                 })
             })
             .collect();
-        let scratch = BracedScratch::new(&braced, &a, &room);
-        let bounds = bearer_bounds(inf, &braced, &scratch, &room, &vertically_shared);
+        let scratch = BracedScratch::new(braced, &a, &room);
+        let bounds = bearer_bounds(inf, braced, &reach, &scratch, &vertically_shared);
         // Per bearer and column: the least ratio room / influence over the plates, for a
         // positive and for a negative deck share, with what gave it.
         let mut by_sign = vec![[Best::NONE; 2]; nk * cols];
@@ -564,15 +571,32 @@ fn pass_grid(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], gr
         let least: Vec<f64> = (0..cols).map(|j| (0..nk).flat_map(|k| by_sign[k * cols + j]).map(|b| b.kn).fold(f64::INFINITY, f64::min)).collect();
         states.push(ComboPass { c, gamma, room, shared_list, a, scratch, bounds, notional_here, by_sign, least });
     }
+    PassSetup { inf, m, braced, row_sum: row_sums(inf, groups), reach, states }
+}
+
+/// The least limit at every grid point of rows `rows` of one method pass over the combinations,
+/// before the deck's and the structure's own checks; row by row.
+fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>) -> Vec<Best> {
+    let &PassSetup { inf, m, braced, ref row_sum, ref reach, ref states } = setup;
+    let cols = inf.along.len();
+    let nk = inf.bearers.len();
+    let mut best = vec![Best::NONE; rows.len() * cols];
+    let first = rows.start;
+    let mut scratch: Vec<BracedScratch> = states.iter().map(|st| st.scratch.clone()).collect();
     let mut shares: Vec<(usize, f64)> = Vec::with_capacity(nk);
+    let mut taking: Vec<u32> = Vec::with_capacity(nk);
     let mut sums = NotionalSums::new(braced.posts.len());
-    for i in 0..rows {
+    for i in rows {
+        taking.clear();
+        if let Some(n) = &inf.notional {
+            taking.extend((0..braced.bearers.min(n.d[i].len())).filter(|&k| n.d[i][k] != 0.0).map(|k| k as u32));
+        }
         shares.clear();
         shares.extend(inf.d[i].iter().copied().enumerate().filter(|(_, dk)| dk.abs() >= INFLUENCE_FLOOR));
         shares.sort_unstable_by(|a, b| b.1.abs().total_cmp(&a.1.abs()));
         for j in 0..cols {
             sums.clear();
-            for st in &mut states {
+            for (st, w) in states.iter().zip(&mut scratch) {
                 let c = st.c;
                 let mut here = Best::NONE;
                 for &(k, dk) in &shares {
@@ -594,14 +618,61 @@ fn pass_grid(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], gr
                     }
                 }
                 if st.notional_here {
-                    let at = BracedPoint { inf, braced: &braced, shares: &shares, i, j, c, m };
-                    braced_limits(&at, &mut st.scratch, &st.bounds, &st.a, &st.room, &mut sums, &mut here);
+                    let at = BracedPoint { inf, braced, shares: &shares, row_sum, reach, taking: &taking, i, j, c, m };
+                    braced_limits(&at, w, &st.bounds, &st.a, &st.room, &mut sums, &mut here);
                 }
-                best[i * cols + j].take(Best { kn: here.kn / st.gamma, ..here });
+                best[(i - first) * cols + j].take(Best { kn: here.kn / st.gamma, ..here });
             }
         }
     }
     best
+}
+
+/// The least limit at every grid point of each method pass over the combinations. Method passes
+/// are independent, and so are the grid points of one pass once its setup is made: the braced
+/// plates, the setups and the blocks of rows of every pass are handed out in that order, each
+/// piece waiting only for what it needs (already worked out, or being worked out on the other
+/// core), so that the cores share the work evenly whatever the number of passes.
+fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence], n_posts: usize) -> Vec<Vec<Best>> {
+    /// Rows of the grid in one piece of work.
+    const BLOCK_ROWS: usize = 8;
+    // Plates that take brace forces from the notional load of the extra load (summed at each grid
+    // point, with that load): once for the passes that share the routing and entry reactions.
+    let alike = |a: &DeckInfluence, b: &DeckInfluence| match (&a.notional, &b.notional) {
+        (Some(x), Some(y)) => std::sync::Arc::ptr_eq(&x.units, &y.units) && std::sync::Arc::ptr_eq(&x.entries, &y.entries),
+        _ => false,
+    };
+    let owner: Vec<usize> = (0..per_pass.len()).map(|m| (0..m).find(|&e| alike(&per_pass[e], &per_pass[m])).unwrap_or(m)).collect();
+    let own: Vec<usize> = (0..per_pass.len()).filter(|&m| owner[m] == m).collect();
+    let braced: Vec<std::sync::OnceLock<Braced>> = own.iter().map(|_| std::sync::OnceLock::new()).collect();
+    let braced_get = |t: usize| braced[t].get_or_init(|| braced_plates(&per_pass[own[t]], groups, n_posts));
+    let braced_of = |m: usize| braced_get(own.iter().position(|&e| e == owner[m]).expect("every pass has an owner"));
+    let setups: Vec<std::sync::OnceLock<PassSetup>> = per_pass.iter().map(|_| std::sync::OnceLock::new()).collect();
+    let setup_get = |m: usize| setups[m].get_or_init(|| pass_setup(analysis, settings, combos, groups, m, &per_pass[m], braced_of(m), n_posts));
+    let blocks: Vec<(usize, std::ops::Range<usize>)> = (0..per_pass.len())
+        .flat_map(|m| {
+            let rows = per_pass[m].across.len();
+            (0..rows.div_ceil(BLOCK_ROWS)).map(move |b| (m, b * BLOCK_ROWS..((b + 1) * BLOCK_ROWS).min(rows)))
+        })
+        .collect();
+    let (n_braced, n_setups) = (own.len(), per_pass.len());
+    let parts = crate::workers::in_order(n_braced + n_setups + blocks.len(), || (), |t, _| {
+        if t < n_braced {
+            braced_get(t);
+            None
+        } else if t < n_braced + n_setups {
+            setup_get(t - n_braced);
+            None
+        } else {
+            let (m, rows) = &blocks[t - n_braced - n_setups];
+            Some(pass_rows(setup_get(*m), rows.clone()))
+        }
+    });
+    let mut per_grid: Vec<Vec<Best>> = per_pass.iter().map(|inf| Vec::with_capacity(inf.across.len() * inf.along.len())).collect();
+    for ((m, _), part) in blocks.iter().zip(parts.into_iter().flatten()) {
+        per_grid[*m].extend(part);
+    }
+    per_grid
 }
 
 fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence]) -> DeckSpare {
@@ -609,7 +680,7 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     let n_posts = scene.posts.len();
     // Method passes are independent: worked out side by side, then taken in pass order (the
     // least value, ties to the first, as one after the other would).
-    let per_grid = crate::workers::in_order(per_pass.len(), || (), |m, _| pass_grid(analysis, settings, combos, groups, m, &per_pass[m], n_posts));
+    let per_grid = pass_grids(analysis, settings, combos, groups, per_pass, n_posts);
     let mut grid: Option<Vec<Best>> = None;
     let mut shape = (0, 0);
     for (m, g) in per_grid.into_iter().enumerate() {
@@ -800,19 +871,22 @@ fn room_of(analysis: &Analysis, m: usize, c: usize, n_posts: usize) -> Room {
 
 /// The plates that take brace forces from the notional load of a load on the deck, with a slot
 /// each; per slot the largest brace effect of any of the deck's bearers and columns, per axis
-/// and diaphragm assumption (`2·axis + way`); per row of the grid Σₖ |d[i][k]| of the notional
-/// deck shares.
+/// and diaphragm assumption (`2·axis + way`). The same for method passes whose notional load
+/// reaches the plates alike (the same routing and entry reactions).
 struct Braced {
     posts: Vec<u32>,
     /// Slot of each post, `u32::MAX` where it takes none.
     slot: Vec<u32>,
     most: Vec<[f64; 4]>,
-    row_sum: Vec<f64>,
     /// Per slot: the nodes that reach it, (bearer k, node number, effect per axis and way);
     /// nodes are numbered bearer after bearer, each bearer's posts in its order.
     nodes: Vec<Vec<(u32, u32, [f64; 4])>>,
     /// Number of nodes.
     node_count: usize,
+    /// Number of bearers, and per slot where each bearer's nodes start in `nodes` (nodes come
+    /// bearer by bearer): `by_bearer[s · (bearers + 1) + k]`, the last the end.
+    bearers: usize,
+    by_bearer: Vec<u32>,
     /// Entry reactions by column and node: `entries[j · node_count + node]`.
     entries: Vec<f64>,
 }
@@ -821,9 +895,9 @@ fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usi
     let mut slot = vec![u32::MAX; n_posts];
     let mut posts = Vec::new();
     let mut most: Vec<[f64; 4]> = Vec::new();
-    let mut row_sum = Vec::new();
     let mut nodes: Vec<Vec<(u32, u32, [f64; 4])>> = Vec::new();
     let mut node_count = 0;
+    let mut by_bearer = Vec::new();
     let mut entries = Vec::new();
     if let (Some(n), false) = (&inf.notional, groups.is_empty()) {
         let first: Vec<usize> = n.units.iter().scan(0, |acc, list| {
@@ -876,13 +950,32 @@ fn braced_plates(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>], n_posts: usi
                 }
             }
         }
-        row_sum = n.d.iter().map(|row| row.iter().map(|v| v.abs()).sum()).collect();
     }
-    Braced { posts, slot, most, row_sum, nodes, node_count, entries }
+    let bearers = inf.notional.as_ref().filter(|_| !groups.is_empty()).map_or(0, |n| n.units.len());
+    by_bearer.reserve(nodes.len() * (bearers + 1));
+    for list in &nodes {
+        let mut at = 0;
+        for k in 0..=bearers {
+            while at < list.len() && (list[at].0 as usize) < k {
+                at += 1;
+            }
+            by_bearer.push(at as u32);
+        }
+    }
+    Braced { posts, slot, most, nodes, node_count, bearers, by_bearer, entries }
+}
+
+/// Per row of the grid, Σₖ |d[i][k]| of the notional deck shares (none without notional load).
+fn row_sums(inf: &DeckInfluence, groups: &[Vec<NotionalTerm>]) -> Vec<f64> {
+    match (&inf.notional, groups.is_empty()) {
+        (Some(n), false) => n.d.iter().map(|row| row.iter().map(|v| v.abs()).sum()).collect(),
+        _ => Vec::new(),
+    }
 }
 
 /// Work space of [`braced_limits`] for one combination: per braced plate the vertical influence
 /// being summed, and the plates in order of the least limit the notional load alone could give.
+#[derive(Clone)]
 struct BracedScratch {
     touched: Vec<u32>,
     seen: Vec<bool>,
@@ -891,6 +984,8 @@ struct BracedScratch {
     bound: Vec<f64>,
     /// (slot, room ÷ bound), ascending.
     order: Vec<(u32, f64)>,
+    /// Per slot: the least room of the plate ([`least_room`]).
+    least: Vec<Option<f64>>,
 }
 
 impl BracedScratch {
@@ -901,32 +996,40 @@ impl BracedScratch {
             .iter()
             .map(|m| a.iter().map(|g| (0..2).map(|w| g[0].abs() * m[w] + g[1].abs() * m[2 + w]).fold(0.0, f64::max)).fold(0.0, f64::max))
             .collect();
+        let least: Vec<Option<f64>> = braced.posts.iter().map(|&p| least_room(room, p as usize)).collect();
         let mut order: Vec<(u32, f64)> = (0..n)
             .filter_map(|s| {
-                let least = least_room(room, braced.posts[s] as usize)?;
+                let least = least[s]?;
                 (bound[s] > 0.0).then(|| (s as u32, least / bound[s]))
             })
             .collect();
         order.sort_by(|x, y| x.1.total_cmp(&y.1));
-        BracedScratch { touched: Vec::new(), seen: vec![false; n], bound, order }
+        BracedScratch { touched: Vec::new(), seen: vec![false; n], bound, order, least }
     }
 }
 
 /// The notional effect at the braced plate of slot `s` of 1 kN placed at grid point (`i`, `j`), per axis and
-/// diaphragm assumption (`2·axis + way`).
-fn notional_at(inf: &DeckInfluence, braced: &Braced, i: usize, j: usize, s: usize) -> [f64; 4] {
+/// diaphragm assumption (`2·axis + way`). `taking`: the bearers whose notional deck share in row
+/// `i` is not zero, in order (the others add nothing).
+fn notional_at(inf: &DeckInfluence, braced: &Braced, i: usize, j: usize, s: usize, taking: &[u32]) -> [f64; 4] {
     let mut h = [0.0; 4];
     let Some(n) = &inf.notional else { return h };
     let d = &n.d[i];
     let column = &braced.entries[j * braced.node_count..(j + 1) * braced.node_count];
-    for &(k, node, u) in &braced.nodes[s] {
-        let e = column[node as usize];
-        if e == 0.0 {
-            continue;
-        }
-        let c = d[k as usize] * e;
-        for q in 0..4 {
-            h[q] += c * u[q];
+    let list = &braced.nodes[s];
+    let starts = &braced.by_bearer[s * (braced.bearers + 1)..(s + 1) * (braced.bearers + 1)];
+    for &k in taking {
+        let dk = d[k as usize];
+        for &(_, node, u) in &list[starts[k as usize] as usize..starts[k as usize + 1] as usize] {
+            // A node the bearer puts none into adds nothing.
+            let e = column[node as usize];
+            if e == 0.0 {
+                continue;
+            }
+            let c = dk * e;
+            for q in 0..4 {
+                h[q] += c * u[q];
+            }
         }
     }
     h
@@ -938,6 +1041,11 @@ struct BracedPoint<'a> {
     braced: &'a Braced,
     /// The deck shares of the point's row above the floor, largest first.
     shares: &'a [(usize, f64)],
+    /// Per row, Σₖ |d[i][k]| of the notional deck shares.
+    row_sum: &'a [f64],
+    /// The bearers whose notional deck share in the point's row is not zero, in order.
+    taking: &'a [u32],
+    reach: &'a Reach,
     i: usize,
     j: usize,
     c: usize,
@@ -983,8 +1091,39 @@ struct BearerBounds {
     notional_least: f64,
     /// Braced plates reached through more than one of the deck's bearers (by slot): summed whole.
     shared: Vec<u32>,
-    /// Per slot: whether it is in `shared`.
-    is_shared: Vec<bool>,
+}
+
+/// Per bearer and column of one method pass, the braced plates its flow reaches that no other of
+/// the deck's bearers reaches: (slot, effect), in the flow's order.
+struct Reach {
+    /// Where the plates of bearer `k` at column `j` start in `plates` (`start[k · cols + j]`); they
+    /// end where the next start.
+    start: Vec<u32>,
+    plates: Vec<(u32, f64)>,
+}
+
+impl Reach {
+    fn new(inf: &DeckInfluence, braced: &Braced, vertically_shared: &[bool]) -> Self {
+        let mut start = Vec::with_capacity(inf.bearers.len() * inf.along.len() + 1);
+        let mut plates = Vec::new();
+        start.push(0);
+        for columns in &inf.flows {
+            for flow in columns {
+                for &(p, f) in flow {
+                    let s = braced.slot[p as usize];
+                    if s != u32::MAX && !vertically_shared[p as usize] {
+                        plates.push((s, f));
+                    }
+                }
+                start.push(plates.len() as u32);
+            }
+        }
+        Reach { start, plates }
+    }
+    /// The plates of bearer `k` at column `j`, at `k · cols + j`.
+    fn at(&self, kj: usize) -> &[(u32, f64)] {
+        &self.plates[self.start[kj] as usize..self.start[kj + 1] as usize]
+    }
 }
 
 /// The least room of a plate in the checks the combination makes (kN, not below zero).
@@ -998,26 +1137,20 @@ fn least_room(room: &Room, p: usize) -> Option<f64> {
     }
 }
 
-fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, w: &BracedScratch, room: &Room, vertically_shared: &[bool]) -> BearerBounds {
+fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, reach: &Reach, w: &BracedScratch, vertically_shared: &[bool]) -> BearerBounds {
     let (nk, cols) = (inf.bearers.len(), inf.along.len());
     let mut vertical = vec![f64::INFINITY; nk * cols];
     let mut notional = vec![f64::INFINITY; nk];
-    let mut is_shared = vec![false; braced.posts.len()];
     let mut shared = Vec::new();
     for (s, &p) in braced.posts.iter().enumerate() {
         if vertically_shared[p as usize] {
-            is_shared[s] = true;
             shared.push(s as u32);
         }
     }
     for k in 0..nk {
         for j in 0..cols {
-            for &(p, f) in &inf.flows[k][j] {
-                let s = braced.slot[p as usize];
-                if s == u32::MAX || is_shared[s as usize] {
-                    continue;
-                }
-                let Some(least) = least_room(room, p as usize) else { continue };
+            for &(s, f) in reach.at(k * cols + j) {
+                let Some(least) = w.least[s as usize] else { continue };
                 if f != 0.0 {
                     let v = &mut vertical[k * cols + j];
                     *v = v.min(least / f.abs());
@@ -1030,7 +1163,7 @@ fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, w: &BracedScratch, room: 
     }
     let vertical_least = (0..cols).map(|j| (0..nk).map(|k| vertical[k * cols + j]).fold(f64::INFINITY, f64::min)).collect();
     let notional_least = notional.iter().copied().fold(f64::INFINITY, f64::min);
-    BearerBounds { cols, vertical, notional, vertical_least, notional_least, shared, is_shared }
+    BearerBounds { cols, vertical, notional, vertical_least, notional_least, shared }
 }
 
 /// Limits at grid point (`i`, `j`) from the plates that take brace forces, per kN placed and
@@ -1044,11 +1177,11 @@ fn bearer_bounds(inf: &DeckInfluence, braced: &Braced, w: &BracedScratch, room: 
 /// · notional bound) — cannot beat the value found; the plates no bearer reaches here take the
 /// notional load alone, in order of the least limit they could give.
 fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds, a: &[[f64; 2]], room: &Room, sums: &mut NotionalSums, here: &mut Best) {
-    let &BracedPoint { inf, braced, shares, i, j, c, m } = at;
-    let spread = braced.row_sum[i];
+    let &BracedPoint { inf, braced, shares, reach, taking, i, j, c, m, .. } = at;
+    let spread = at.row_sum[i];
     let mut exact = |s: usize, r: f64, here: &mut Best| {
         let p = braced.posts[s];
-        let h = sums.get(s, || notional_at(inf, braced, i, j, s));
+        let h = sums.get(s, || notional_at(inf, braced, i, j, s, taking));
         let (mut down, mut up) = (0.0f64, 0.0f64);
         for g in a {
             for way in 0..2 {
@@ -1075,7 +1208,7 @@ fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds,
             w.seen[s] = true;
             w.touched.push(s as u32);
         }
-        let Some(least) = least_room(room, braced.posts[s] as usize) else { return };
+        let Some(least) = w.least[s] else { return };
         let most = r.abs() + spread * w.bound[s];
         if most >= INFLUENCE_FLOOR && least / most < here.kn {
             exact(s, r, here);
@@ -1095,11 +1228,7 @@ fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds,
         if bound_of(dk, bounds.vertical[k * bounds.cols + j], bounds.notional[k]) >= here.kn {
             continue;
         }
-        for &(p, f) in &inf.flows[k][j] {
-            let s = braced.slot[p as usize];
-            if s == u32::MAX || bounds.is_shared[s as usize] {
-                continue;
-            }
+        for &(s, f) in reach.at(k * bounds.cols + j) {
             consider(s as usize, dk * f, here, w);
         }
     }

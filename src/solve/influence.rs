@@ -173,11 +173,12 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
     // Nodes of the deck: each bearer's posts at the bearer's level.
     let mut fails = Vec::new();
     let nodes: Vec<Vec<(u32, f64)>> = line.bearers.iter().map(|&b| model.bearers[b].posts.iter().map(|&p| (p as u32, model.scene.bearers[b].level)).collect()).collect();
-    // Per node and axis: the brace components entering the posts, each way.
-    let mut raw: Vec<Vec<[Vec<Reactions>; 2]>> = Vec::with_capacity(nodes.len());
-    for list in &nodes {
-        let mut per = Vec::with_capacity(list.len());
-        for &(post, level) in list {
+    // Per node and axis: the brace components entering the posts, each way. Nodes are
+    // independent: bearer by bearer side by side, the failures kept in bearer order.
+    let per_bearer = crate::workers::in_order(nodes.len(), || (), |k, _| {
+        let mut fails = Vec::new();
+        let mut per = Vec::with_capacity(nodes[k].len());
+        for &(post, level) in &nodes[k] {
             let mut both: [Vec<Reactions>; 2] = Default::default();
             for (axis, slot) in both.iter_mut().enumerate() {
                 if !axes[axis] {
@@ -191,7 +192,12 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
             }
             per.push(both);
         }
+        (per, fails)
+    });
+    let mut raw: Vec<Vec<[Vec<Reactions>; 2]>> = Vec::with_capacity(nodes.len());
+    for (per, failed) in per_bearer {
         raw.push(per);
+        fails.extend(failed);
     }
     if !fails.is_empty() {
         return Err(net.describe(&fails));
@@ -222,34 +228,35 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
             .collect(),
     );
     // The unit responses routed to the plates: [k][node][2·axis + way].
-    let route = |s: &mut Solver| -> Routed {
-        raw.iter()
-            .map(|per| {
-                per.iter()
-                    .map(|both| {
-                        let mut four: [Vec<(u32, f64)>; 4] = Default::default();
-                        for axis in 0..2 {
-                            for way in 0..2 {
-                                let sets = &both[axis];
-                                if let Some(set) = sets.get(way.min(sets.len().saturating_sub(1))) {
-                                    four[2 * axis + way] = s.to_plates(&set.vertical);
-                                }
-                            }
+    let route_bearer = |s: &mut Solver, per: &[[Vec<Reactions>; 2]]| -> Vec<[Vec<(u32, f64)>; 4]> {
+        per.iter()
+            .map(|both| {
+                let mut four: [Vec<(u32, f64)>; 4] = Default::default();
+                for axis in 0..2 {
+                    for way in 0..2 {
+                        let sets = &both[axis];
+                        if let Some(set) = sets.get(way.min(sets.len().saturating_sub(1))) {
+                            four[2 * axis + way] = s.to_plates(&set.vertical);
                         }
-                        four
-                    })
-                    .collect()
+                    }
+                }
+                four
             })
             .collect()
     };
+    let route = |s: &mut Solver| -> Routed { raw.iter().map(|per| route_bearer(s, per)).collect() };
     // Entry reactions at each bearer's posts for its share of 1 at each column, with the deck
-    // shares `d` they go with.
-    let entries_of = |s: &mut Solver, d: &[Vec<f64>], along: &[f64]| -> Vec<Vec<Vec<f64>>> {
+    // shares `d` they go with. `like`: those of a pass whose bearers behave alike, taken where
+    // they were worked out (the same load on the same bearer model).
+    let entries_of = |s: &mut Solver, d: &[Vec<f64>], along: &[f64], like: Option<&[Vec<Vec<f64>>]>| -> Vec<Vec<Vec<f64>>> {
         line.bearers
             .iter()
             .enumerate()
             .map(|(k, &b)| {
                 let used = d.iter().any(|row| row[k] != 0.0);
+                if let Some(kept) = like.and_then(|l| l.get(k)).filter(|c| used && c.len() == along.len() && c.iter().all(|e| !e.is_empty())) {
+                    return kept.clone();
+                }
                 along
                     .iter()
                     .map(|&a| {
@@ -265,21 +272,24 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
     };
     // Where every post reaches its plate through splices alone the routing is the same in every
     // pass; passes that are not one state take their notional load from the primary pass's
-    // entries, the same for each of them: both worked out once.
+    // entries, the same for each of them: both worked out once. Where the primary pass is one
+    // state itself, its own entries are those (taken from it below).
     let all_spliced = (0..model.scene.posts.len()).all(|p| model.graph.spliced_base(p).is_some());
-    let routed_once = all_spliced.then(|| std::sync::Arc::new(route(&mut Solver::new(model, &passes[0]))));
-    let primary_entries = (!passes.iter().all(MethodPass::is_one_state)).then(|| {
+    // Spliced posts pass their load straight down whatever the solver: bearer by bearer side by side.
+    let routed_once = all_spliced.then(|| std::sync::Arc::new(crate::workers::in_order(raw.len(), || Solver::new(model, &passes[0]), |k, s| route_bearer(s, &raw[k]))));
+    let from_primary = passes[0].is_one_state();
+    let primary_entries = (!from_primary && !passes.iter().all(MethodPass::is_one_state)).then(|| {
         let mut primary = Solver::new(model, &passes[0]);
         let extent = model.scene.decks[deck].extent;
         let (along_range, span_range) = line.split_rect(&extent);
         let across = grid_positions(span_range, size_across, spacing);
         let along = grid_positions(along_range, size_along, spacing);
         let d = primary.deck_shares(deck, &across, size_across, footprint);
-        let entries = std::sync::Arc::new(entries_of(&mut primary, &d, &along));
+        let entries = std::sync::Arc::new(entries_of(&mut primary, &d, &along, None));
         (d, entries)
     });
     // One pass: its grid, flows and notional coefficients.
-    let one_pass = |pass: &MethodPass, cache: &mut crate::solve::arrangement::FlowCache| -> Option<DeckInfluence> {
+    let one_pass = |pass: &MethodPass, cache: &mut crate::solve::arrangement::FlowCache, like: Option<&[Vec<Vec<f64>>]>| -> Option<DeckInfluence> {
         let mut s = Solver::new(model, pass);
         s.flow_cache = std::mem::take(cache);
         let inf = s.deck_influence(deck, footprint, spacing);
@@ -287,9 +297,10 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
             let routed = routed_once.clone().unwrap_or_else(|| std::sync::Arc::new(route(&mut s)));
             let (d, entries) = match (&primary_entries, pass.is_one_state()) {
                 (Some(kept), false) => kept.clone(),
+                (None, false) if from_primary => (Vec::new(), std::sync::Arc::new(Vec::new())),
                 _ => {
                     let d = inf.d.clone();
-                    let entries = std::sync::Arc::new(entries_of(&mut s, &d, &inf.along));
+                    let entries = std::sync::Arc::new(entries_of(&mut s, &d, &inf.along, like));
                     (d, entries)
                 }
             };
@@ -300,8 +311,64 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
         result
     };
     // Passes are independent: worked out side by side, each worker keeping its own flow cache.
-    let out = crate::workers::in_order(passes.len(), crate::solve::arrangement::FlowCache::default, |m, cache| one_pass(&passes[m], cache));
+    // Passes whose bearers behave alike go to the same worker, one after the other, so that the
+    // later ones find the bearer flows in its cache.
+    let mut alike: Vec<Vec<usize>> = Vec::new();
+    for (m, pass) in passes.iter().enumerate() {
+        match alike.iter_mut().find(|g| passes[g[0]].bearers == pass.bearers) {
+            Some(g) => g.push(m),
+            None => alike.push(vec![m]),
+        }
+    }
+    let done = crate::workers::in_order(alike.len(), crate::solve::arrangement::FlowCache::default, |g, cache| {
+        let mut worked: Vec<(usize, Option<DeckInfluence>)> = Vec::with_capacity(alike[g].len());
+        for &m in &alike[g] {
+            // The entries of the group's first pass that worked them out itself.
+            let like = worked.iter().filter(|(e, _)| passes[*e].is_one_state()).find_map(|(_, inf)| inf.as_ref()?.notional.as_ref()).map(|n| n.entries.clone());
+            worked.push((m, one_pass(&passes[m], cache, like.as_deref().map(Vec::as_slice))));
+        }
+        worked
+    });
+    let mut out: Vec<Option<DeckInfluence>> = (0..passes.len()).map(|_| None).collect();
+    for (m, inf) in done.into_iter().flatten() {
+        out[m] = inf;
+    }
+    // The primary pass's deck shares and entries for the passes that are not one state (every
+    // pass has a grid or none does: the grid depends on the deck and footprint alone).
+    if from_primary && let Some(primary) = out[0].as_ref().and_then(|inf| inf.notional.as_ref()).map(|n| (n.d.clone(), n.entries.clone())) {
+        for (m, inf) in out.iter_mut().enumerate() {
+            if let Some(n) = inf.as_mut().and_then(|inf| inf.notional.as_mut()).filter(|_| !passes[m].is_one_state()) {
+                (n.d, n.entries) = primary.clone();
+            }
+        }
+    }
+    // Passes whose routing or entry reactions came out the same, bit for bit, share one copy:
+    // what uses the coefficients can then tell that they reach the plates alike.
+    for m in 1..out.len() {
+        let (earlier, rest) = out.split_at_mut(m);
+        let Some(n) = rest[0].as_mut().and_then(|inf| inf.notional.as_mut()) else { continue };
+        for e in earlier.iter().flatten().filter_map(|inf| inf.notional.as_ref()) {
+            if !std::sync::Arc::ptr_eq(&n.units, &e.units) && same_routed(&n.units, &e.units) {
+                n.units = e.units.clone();
+            }
+            if !std::sync::Arc::ptr_eq(&n.entries, &e.entries) && same_bits(&n.entries, &e.entries) {
+                n.entries = e.entries.clone();
+            }
+        }
+    }
     Ok(out)
+}
+
+/// Whether two sets of entry reactions are the same, bit for bit.
+fn same_bits(a: &[Vec<Vec<f64>>], b: &[Vec<Vec<f64>>]) -> bool {
+    a.len() == b.len()
+        && a.iter().zip(b).all(|(x, y)| x.len() == y.len() && x.iter().zip(y).all(|(u, v)| u.len() == v.len() && u.iter().zip(v).all(|(p, q)| p.to_bits() == q.to_bits())))
+}
+
+/// Whether two routings are the same, bit for bit.
+fn same_routed(a: &Routed, b: &Routed) -> bool {
+    let same = |u: &[(u32, f64)], v: &[(u32, f64)]| u.len() == v.len() && u.iter().zip(v).all(|(p, q)| p.0 == q.0 && p.1.to_bits() == q.1.to_bits());
+    a.len() == b.len() && a.iter().zip(b).all(|(x, y)| x.len() == y.len() && x.iter().zip(y).all(|(u, v)| u.iter().zip(v).all(|(p, q)| same(p, q))))
 }
 
 impl Solver<'_, '_> {
