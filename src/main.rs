@@ -78,8 +78,8 @@ enum Command {
         strict: bool,
     },
     /// Map the spare capacity of every deck: at each point of a grid, the largest extra imposed
-    /// load that can be placed there before a base plate or the deck reaches a limit, and what
-    /// limits it.
+    /// load that can be placed there before a base plate, the structure or the deck reaches a
+    /// limit, and what limits it.
     Spare {
         /// Scene file (RON).
         file: PathBuf,

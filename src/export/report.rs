@@ -1372,7 +1372,7 @@ fn spare(h: &mut String, scene: &Scene, a: &Analysis) {
     };
     let _ = writeln!(
         h,
-        "<p class=\"note\">The largest extra imposed load (characteristic, kN) one point load may add at each point, on top of the existing loads in their worst arrangement, before a base plate reaches its safe working load or allowable bearing, a plate lifts, or the deck its load class (combinations: {}). Values do not add: after placing one load, work the map out again (<code>plateload spare</code>, which also takes a footprint such as a pallet and a dynamic factor for crane landing). Not checked here, as no capacity is known for them: {}.</p>",
+        "<p class=\"note\">The largest extra imposed load (characteristic, kN) one point load may add at each point, on top of the existing loads in their worst arrangement, before a base plate reaches its safe working load or allowable bearing, a plate lifts or would slide, the structure under the deck its overturning target, or the deck its load class (combinations: {}). Values do not add: after placing one load, work the map out again (<code>plateload spare</code>, which also takes a footprint such as a pallet and a dynamic factor for crane landing). Not checked here, as no capacity is known for them: {}.</p>",
         esc(&map.combinations.join(", ")),
         esc(&if map.not_checked.is_empty() { "none".to_owned() } else if map.not_checked.len() > 12 { format!("{} and {} more members", map.not_checked[..12].join(", "), map.not_checked.len() - 12) } else { map.not_checked.join(", ") })
     );
@@ -1419,13 +1419,14 @@ fn spare(h: &mut String, scene: &Scene, a: &Analysis) {
                 num(p.x, 2),
                 num(p.y, 2),
                 esc(&match p.kn {
-                    Some(k) if !p.already_at_limit => format!("up to {} kN — limited by {}", num(k, 1), p.limit.words()),
+                    Some(k) if !p.already_at_limit => format!("up to {} kN — limited by {}", num(crate::export::spare::round_down_kn(k), 1), p.limit.words()),
                     Some(_) => format!("no extra load — {}", p.limit.words()),
                     None => "no limit found".to_owned(),
                 })
             );
             if cell * scale >= 18.0 && band != SpareBand::AtLimit {
-                let text = p.kn.map_or("–".to_owned(), |k| num(k, if k < 10.0 { 1 } else { 0 }));
+                // Rounded down, never up: a plan must not show more than the map gives.
+                let text = p.kn.map_or("–".to_owned(), |k| if k < 10.0 { num(crate::export::spare::round_down_kn(k), 1) } else { num(k.floor(), 0) });
                 let _ = write!(h, "<text x=\"{}\" y=\"{}\" font-size=\"{}\" text-anchor=\"middle\" fill=\"{}\">{}</text>", num(cx, 1), num(cy + font * 0.35, 1), num(font, 1), ink_on(band.colour()), esc(&text));
             }
         }
@@ -1434,7 +1435,7 @@ fn spare(h: &mut String, scene: &Scene, a: &Analysis) {
         let full = d.points.iter().filter(|p| p.already_at_limit).count();
         let _ = write!(h, "<p class=\"note\">");
         if let Some(p) = least {
-            let _ = write!(h, "Least: {} kN at ({}, {}), limited by {}. ", num(p.kn.unwrap_or(0.0), 1), num(p.x, 2), num(p.y, 2), esc(&p.limit.words()));
+            let _ = write!(h, "Least: {} kN at ({}, {}), limited by {}. ", num(crate::export::spare::round_down_kn(p.kn.unwrap_or(0.0)), 1), num(p.x, 2), num(p.y, 2), esc(&p.limit.words()));
         }
         if full > 0 {
             let _ = write!(h, "{full} of {} points (hatched) can take no extra load: a limit is already reached there. ", d.points.len());

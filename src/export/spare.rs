@@ -33,7 +33,8 @@ fn cell(p: &crate::check::spare::SparePoint) -> String {
     match p.kn {
         None => "-".into(),
         Some(_) if p.already_at_limit => "0 !".into(),
-        Some(kn) => format!("{:.1}", kn),
+        // Rounded down: a table must never show more than the map gives.
+        Some(kn) => format!("{:.1}", round_down_kn(kn)),
     }
 }
 
@@ -109,7 +110,7 @@ fn deck_text(s: &mut String, d: &DeckSpare) {
     }
     // The least value and what limits it, and how many points are already at a limit.
     if let Some(least) = d.points.iter().filter(|p| p.kn.is_some()).min_by(|a, b| a.kn.unwrap_or(0.0).total_cmp(&b.kn.unwrap_or(0.0))) {
-        let _ = writeln!(s, "least: {} kN at ({}, {}) — limited by {}", num(least.kn.unwrap_or(0.0)), num(least.x), num(least.y), least.limit.words());
+        let _ = writeln!(s, "least: {:.1} kN at ({}, {}) — limited by {}", round_down_kn(least.kn.unwrap_or(0.0)), num(least.x), num(least.y), least.limit.words());
     }
     let full = d.points.iter().filter(|p| p.already_at_limit).count();
     if full > 0 {
