@@ -576,7 +576,7 @@ fn pass_setup<'a>(analysis: &Analysis, settings: &SpareSettings, combos: &[usize
 
 /// The least limit at every grid point of rows `rows` of one method pass over the combinations,
 /// before the deck's and the structure's own checks; row by row.
-fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>) -> Vec<Best> {
+fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>, caps: &[f64]) -> Vec<Best> {
     let &PassSetup { inf, m, braced, ref row_sum, ref reach, ref states } = setup;
     let cols = inf.along.len();
     let nk = inf.bearers.len();
@@ -596,9 +596,13 @@ fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>) -> Vec<Best> {
         shares.sort_unstable_by(|a, b| b.1.abs().total_cmp(&a.1.abs()));
         for j in 0..cols {
             sums.clear();
+            // What the structure and the deck allow here bounds the search: a plate that cannot
+            // come below it is not summed (just above it, so that a plate level with it is still
+            // found and keeps its place ahead of them).
+            let cap = caps.get(i * cols + j).copied().unwrap_or(f64::INFINITY);
             for (st, w) in states.iter().zip(&mut scratch) {
                 let c = st.c;
-                let mut here = Best::NONE;
+                let mut here = Best { kn: above(cap * st.gamma), ..Best::NONE };
                 for &(k, dk) in &shares {
                     if st.least[j] / dk.abs() >= here.kn {
                         break;
@@ -621,6 +625,10 @@ fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>) -> Vec<Best> {
                     let at = BracedPoint { inf, braced, shares: &shares, row_sum, reach, taking: &taking, i, j, c, m };
                     braced_limits(&at, w, &st.bounds, &st.a, &st.room, &mut sums, &mut here);
                 }
+                if here.plate == u32::MAX {
+                    // Nothing below the cap: as if nothing were found.
+                    continue;
+                }
                 best[(i - first) * cols + j].take(Best { kn: here.kn / st.gamma, ..here });
             }
         }
@@ -633,7 +641,7 @@ fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>) -> Vec<Best> {
 /// plates, the setups and the blocks of rows of every pass are handed out in that order, each
 /// piece waiting only for what it needs (already worked out, or being worked out on the other
 /// core), so that the cores share the work evenly whatever the number of passes.
-fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence], n_posts: usize) -> Vec<Vec<Best>> {
+fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence], n_posts: usize, caps: &[f64]) -> Vec<Vec<Best>> {
     /// Rows of the grid in one piece of work.
     const BLOCK_ROWS: usize = 8;
     // Plates that take brace forces from the notional load of the extra load (summed at each grid
@@ -665,7 +673,7 @@ fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], g
             None
         } else {
             let (m, rows) = &blocks[t - n_braced - n_setups];
-            Some(pass_rows(setup_get(*m), rows.clone()))
+            Some(pass_rows(setup_get(*m), rows.clone(), caps))
         }
     });
     let mut per_grid: Vec<Vec<Best>> = per_pass.iter().map(|inf| Vec::with_capacity(inf.across.len() * inf.along.len())).collect();
@@ -678,33 +686,10 @@ fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], g
 fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence]) -> DeckSpare {
     let deck = &scene.decks[d];
     let n_posts = scene.posts.len();
-    // Method passes are independent: worked out side by side, then taken in pass order (the
-    // least value, ties to the first, as one after the other would).
-    let per_grid = pass_grids(analysis, settings, combos, groups, per_pass, n_posts);
-    let mut grid: Option<Vec<Best>> = None;
-    let mut shape = (0, 0);
-    for (m, g) in per_grid.into_iter().enumerate() {
-        shape = (per_pass[m].across.len(), per_pass[m].along.len());
-        match &mut grid {
-            None => grid = Some(g),
-            Some(all) => {
-                for (a, b) in all.iter_mut().zip(g) {
-                    a.take(b);
-                }
-            }
-        }
-    }
     let inf = &per_pass[0];
-    let mut grid = grid.unwrap_or_default();
-    let (rows, cols) = shape;
-    // Sliding of the plates the load reaches, pass by pass.
-    if let Some(mut sliding) = SlidingDeck::new(scene, analysis, settings, groups, per_pass) {
-        for (m, inf_m) in per_pass.iter().enumerate() {
-            sliding.limits(analysis, m, inf_m, &mut grid);
-        }
-    }
-    // The deck's own capacity under the footprint: the most its load class allows there, less
-    // the imposed load already on it.
+    let (rows, cols) = (inf.across.len(), inf.along.len());
+    // The structure's and the deck's own limits at each point, first: they bound the search of
+    // the plates.
     let tipping = tipping_room(analysis, per_pass);
     let equ = analysis.stability.equilibrium;
     let equ_factor = |case: Case| match case {
@@ -715,31 +700,16 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     let entry_level = per_pass[0].bearers.iter().map(|&b| scene.bearers[b].level).fold(deck.level, f64::max);
     let class = deck_class(scene, deck).and_then(LoadClass::get);
     let models = class.map(|c| class_models(c, settings.footprint)).unwrap_or_default();
-    let mut points = Vec::with_capacity(rows * cols);
-    for i in 0..rows {
-        for j in 0..cols {
-            let (x, y) = inf.point(i, j);
-            let b = grid[i * cols + j];
-            let mut kn = b.kn;
-            let mut limit = if b.kn.is_finite() && b.check >= SLIDING_FACTOR {
-                Limit::Sliding { plate: scene.posts[b.plate as usize].id.clone(), form: if b.check == SLIDING_EQU { "EQU" } else { "factor of safety" } }
-            } else if b.kn.is_finite() {
-                Limit::Plate {
-                    plate: scene.posts[b.plate as usize].id.clone(),
-                    check: ["safe working load", "ground bearing", "uplift"][b.check as usize],
-                    combination: analysis.combinations[b.combination as usize].name.clone(),
-                    method: analysis.method_label(b.method as usize).to_owned(),
-                }
-            } else {
-                Limit::None
-            };
-            let mut already = b.already;
+    let others: Vec<Other> = (0..rows * cols)
+        .map(|at| {
+            let (x, y) = inf.point(at / cols, at % cols);
+            let mut other = Other { kn: f64::INFINITY, already: false, what: OtherLimit::None };
             // Overturning: a load beyond an axis of the structure under the deck adds its moment
             // there (an imposed load never restores), in both forms.
             // The notional load the extra load brings acts where it enters the posts (at the
             // deck's bearers) and turns the structure too, in its worst direction: by its share
             // along the axis's normal times its height above the axis.
-            for t in &tipping {
+            for (a, t) in tipping.iter().enumerate() {
                 let lever = (x - t.point[0]) * t.normal[0] + (y - t.point[1]) * t.normal[1];
                 let rise = (entry_level - t.point[2]).max(0.0);
                 let sideways = |equ: bool| {
@@ -755,32 +725,106 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
                         continue;
                     }
                     let kn_here = room.max(0.0) / (settings.dynamic_factor * arm);
-                    if kn_here < kn {
-                        kn = kn_here;
-                        already = room <= 0.0;
-                        limit = Limit::Overturning { about: t.about.clone(), form };
+                    if kn_here < other.kn {
+                        other = Other { kn: kn_here, already: room <= 0.0, what: OtherLimit::Overturning { axis: a, form } };
                     }
                 }
             }
             if !models.is_empty() {
                 // The class's load models are alternatives: the one that leaves the most room.
-                let (room, what) = models
+                let (room, model) = models
                     .iter()
-                    .map(|(allowed, over, what)| (allowed - existing_imposed(scene, d, x, y, *over), what))
+                    .enumerate()
+                    .map(|(k, (allowed, over, _))| (allowed - existing_imposed(scene, d, x, y, *over), k))
                     .max_by(|a, b| a.0.total_cmp(&b.0))
                     .expect("q1 is always a model");
                 let deck_kn = room.max(0.0) / settings.dynamic_factor;
-                if deck_kn < kn {
-                    kn = deck_kn;
-                    already = room <= 0.0;
-                    limit = Limit::Deck { what: what.clone() };
+                if deck_kn < other.kn {
+                    other = Other { kn: deck_kn, already: room <= 0.0, what: OtherLimit::Deck { model } };
                 }
             }
-            grid[i * cols + j].kn = kn;
+            other
+        })
+        .collect();
+    let caps: Vec<f64> = others.iter().map(|o| o.kn).collect();
+    // Method passes are independent: worked out side by side, then taken in pass order (the
+    // least value, ties to the first, as one after the other would).
+    let per_grid = pass_grids(analysis, settings, combos, groups, per_pass, n_posts, &caps);
+    let mut grid: Option<Vec<Best>> = None;
+    let mut shape = (0, 0);
+    for (m, g) in per_grid.into_iter().enumerate() {
+        shape = (per_pass[m].across.len(), per_pass[m].along.len());
+        match &mut grid {
+            None => grid = Some(g),
+            Some(all) => {
+                for (a, b) in all.iter_mut().zip(g) {
+                    a.take(b);
+                }
+            }
+        }
+    }
+    let mut grid = grid.unwrap_or_default();
+    debug_assert_eq!(shape, (rows, cols), "every pass has the same grid");
+    // Sliding of the plates the load reaches, pass by pass.
+    if let Some(mut sliding) = SlidingDeck::new(scene, analysis, settings, groups, per_pass) {
+        for (m, inf_m) in per_pass.iter().enumerate() {
+            sliding.limits(analysis, m, inf_m, &mut grid, &caps);
+        }
+    }
+    let mut points = Vec::with_capacity(rows * cols);
+    for i in 0..rows {
+        for j in 0..cols {
+            let (x, y) = inf.point(i, j);
+            let b = grid[i * cols + j];
+            let other = &others[i * cols + j];
+            // The first least of the plates, then the structure, then the deck.
+            let (kn, already, limit) = if other.kn < b.kn {
+                let limit = match other.what {
+                    OtherLimit::Overturning { axis, form } => Limit::Overturning { about: tipping[axis].about.clone(), form },
+                    OtherLimit::Deck { model } => Limit::Deck { what: models[model].2.clone() },
+                    OtherLimit::None => Limit::None,
+                };
+                (other.kn, other.already, limit)
+            } else if b.kn.is_finite() && b.check >= SLIDING_FACTOR {
+                (b.kn, b.already, Limit::Sliding { plate: scene.posts[b.plate as usize].id.clone(), form: if b.check == SLIDING_EQU { "EQU" } else { "factor of safety" } })
+            } else if b.kn.is_finite() {
+                let limit = Limit::Plate {
+                    plate: scene.posts[b.plate as usize].id.clone(),
+                    check: ["safe working load", "ground bearing", "uplift"][b.check as usize],
+                    combination: analysis.combinations[b.combination as usize].name.clone(),
+                    method: analysis.method_label(b.method as usize).to_owned(),
+                };
+                (b.kn, b.already, limit)
+            } else {
+                (b.kn, b.already, Limit::None)
+            };
             points.push(SparePoint { x, y, kn: kn.is_finite().then_some(kn.max(0.0)), already_at_limit: already, limit });
         }
     }
     DeckSpare { deck: deck.id.clone(), level: deck.level, load_class: class.map(|c| c.class), points, columns: cols }
+}
+
+/// A limit of the structure or the deck at a grid point: the first least of the overturning
+/// axes (both forms) and the deck's load class.
+struct Other {
+    kn: f64,
+    already: bool,
+    what: OtherLimit,
+}
+
+enum OtherLimit {
+    None,
+    /// Axis index in [`tipping_room`]'s list, and the form.
+    Overturning { axis: usize, form: &'static str },
+    /// Load model index in [`class_models`]'s list.
+    Deck { model: usize },
+}
+
+/// Where the search of the plates starts at a point whose structure or deck allows `kn`: just
+/// above it, so that a plate level with it (within rounding of the load factor, and at zero) is
+/// still found and keeps its place ahead of them.
+fn above(kn: f64) -> f64 {
+    kn * (1.0 + 1e-9) + f64::MIN_POSITIVE
 }
 
 /// Room an axis of overturning leaves for a load placed beyond it.
@@ -1540,13 +1584,16 @@ impl SlidingDeck {
     /// direction and diaphragm assumption of the check is taken with the extra load's notional
     /// load of the same direction and assumption (see [`SlidingDeck::pairs`]). (The structure's
     /// own check follows from its plates': where each plate keeps μN ≥ η|H|, so do their sums.)
-    fn limits(&mut self, analysis: &Analysis, m: usize, inf: &DeckInfluence, grid: &mut [Best]) {
+    fn limits(&mut self, analysis: &Analysis, m: usize, inf: &DeckInfluence, grid: &mut [Best], caps: &[f64]) {
         let rooms = &analysis.sliding.rooms;
         if rooms.get(m, 0, 0, 0).is_none() {
             return;
         }
-        // Nothing can be less than a limit already reached everywhere.
-        if grid.iter().all(|b| b.kn <= 0.0) {
+        // What a plate must come below to count at each point: the value found so far, and what
+        // the structure and the deck allow (just above it, so that a plate level with it still
+        // counts). Nothing can be less than a limit already reached everywhere.
+        let bound = |at: usize, b: &Best| b.kn.min(caps.get(at).map_or(f64::INFINITY, |&c| above(c)));
+        if grid.iter().enumerate().all(|(at, b)| bound(at, b) <= 0.0) {
             return;
         }
         let (a, pairs, w_shear, w_vertical, phi) = (self.a.clone(), self.pairs.clone(), self.w_shear, self.w_vertical, self.phi);
@@ -1597,7 +1644,7 @@ impl SlidingDeck {
             // most the row's load can lift it (a positive share through its falling influence,
             // a negative through its rising one) and the most its notional load can add; only
             // plates that could beat a value already found on the row are looked at, least first.
-            let row_most = grid[i * cols..(i + 1) * cols].iter().map(|b| b.kn).fold(0.0, f64::max);
+            let row_most = (i * cols..(i + 1) * cols).map(|at| bound(at, &grid[at])).fold(0.0, f64::max);
             candidates.clear();
             for s in 0..n_slots {
                 let lift: f64 = extremes[s].iter().map(|&(k, fall, rise)| if d[k as usize] > 0.0 { d[k as usize] * fall } else { -d[k as usize] * rise }).sum();
@@ -1616,10 +1663,11 @@ impl SlidingDeck {
             }
             candidates.sort_by(|x, y| x.0.total_cmp(&y.0));
             for j in 0..cols {
+                let cap = caps.get(i * cols + j).map_or(f64::INFINITY, |&c| above(c));
                 let best = &mut grid[i * cols + j];
                 for &(key, s) in &candidates {
                     let s = s as usize;
-                    if key >= best.kn {
+                    if key >= best.kn.min(cap) {
                         break;
                     }
                     let p = sp.posts[s];
