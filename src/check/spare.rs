@@ -765,10 +765,30 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     }
     let mut grid = grid.unwrap_or_default();
     debug_assert_eq!(shape, (rows, cols), "every pass has the same grid");
-    // Sliding of the plates the load reaches, pass by pass.
-    if let Some(mut sliding) = SlidingDeck::new(scene, analysis, settings, groups, per_pass) {
-        for (m, inf_m) in per_pass.iter().enumerate() {
-            sliding.limits(analysis, m, inf_m, &mut grid, &caps);
+    // Sliding of the plates the load reaches: the passes side by side, each searching below the
+    // values found so far, then taken in pass order.
+    if let Some(sliding) = SlidingDeck::new(scene, analysis, settings, groups, per_pass) {
+        /// Rows of the grid in one piece of work.
+        const BLOCK_ROWS: usize = 8;
+        let plates = sliding.plates_per_pass(analysis, per_pass);
+        let setups = crate::workers::in_order(per_pass.len(), || (), |m, _| sliding.prepare(analysis, m, &per_pass[m], &plates[m], &grid, &caps));
+        let blocks: Vec<(usize, std::ops::Range<usize>)> = (0..per_pass.len())
+            .filter(|&m| setups[m].is_some())
+            .flat_map(|m| (0..rows.div_ceil(BLOCK_ROWS)).map(move |b| (m, b * BLOCK_ROWS..((b + 1) * BLOCK_ROWS).min(rows))))
+            .collect();
+        let found = crate::workers::in_order(blocks.len(), || (), |b, _| {
+            let (m, range) = &blocks[b];
+            let mut own = grid[range.start * cols..range.end * cols].to_vec();
+            if let Some(setup) = &setups[*m] {
+                sliding.rows(analysis, *m, &per_pass[*m], &plates[*m], setup, range.clone(), &mut own, &caps);
+            }
+            own
+        });
+        // In pass order, as one pass after the other would.
+        for ((_, range), own) in blocks.iter().zip(found) {
+            for (g, b) in grid[range.start * cols..range.end * cols].iter_mut().zip(own) {
+                g.take(b);
+            }
         }
     }
     let mut points = Vec::with_capacity(rows * cols);
@@ -1419,6 +1439,9 @@ struct SlidingPlates {
     /// Per slot and form (factor of safety, EQU): the most the notional load of 1 kN can add
     /// to the left side of the check per unit of Σₖ |d_n[i][k]| — η·|s| + μ·(lift).
     notional_most: Vec<[f64; 2]>,
+    /// Per slot: (bearer k, first, end) of its entries in `nodes`, bearer by bearer: a point
+    /// looks only at the bearers its row loads.
+    by_bearer: Vec<Vec<(u32, u32, u32)>>,
     /// The routing and entry reactions they were worked out from (by address).
     from: [usize; 3],
 }
@@ -1437,7 +1460,6 @@ struct SlidingDeck {
     w_vertical: [f64; 2],
     phi: f64,
     in_scope: Vec<bool>,
-    plates: Option<SlidingPlates>,
 }
 
 impl SlidingDeck {
@@ -1485,24 +1507,25 @@ impl SlidingDeck {
         if a.is_empty() {
             a.push([[0.0; 2]; 2]);
         }
-        Some(SlidingDeck { a, pairs, w_shear: [sl.target_factor, 1.0], w_vertical: [1.0, f.q], phi: settings.dynamic_factor, in_scope, plates: None })
+        Some(SlidingDeck { a, pairs, w_shear: [sl.target_factor, 1.0], w_vertical: [1.0, f.q], phi: settings.dynamic_factor, in_scope })
     }
 
-    /// The plates of method pass `inf`: those worked out for an earlier pass where it shares
-    /// their routing.
-    fn plates_for(&mut self, analysis: &Analysis, inf: &DeckInfluence) -> &SlidingPlates {
-        let from = inf.notional.as_ref().map_or([0; 3], |n| [std::sync::Arc::as_ptr(&n.units) as usize, std::sync::Arc::as_ptr(&n.shears) as usize, std::sync::Arc::as_ptr(&n.entries) as usize]);
-        if self.plates.as_ref().is_none_or(|p| p.from != from || from == [0; 3]) {
-            self.plates = Some(self.work_out_plates(analysis, inf, from));
+    /// The plates of each method pass: those of an earlier pass where it shares their routing.
+    fn plates_per_pass(&self, analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<std::sync::Arc<SlidingPlates>> {
+        let mut out: Vec<std::sync::Arc<SlidingPlates>> = Vec::with_capacity(per_pass.len());
+        for inf in per_pass {
+            let from = inf.notional.as_ref().map_or([0; 3], |n| [std::sync::Arc::as_ptr(&n.units) as usize, std::sync::Arc::as_ptr(&n.shears) as usize, std::sync::Arc::as_ptr(&n.entries) as usize]);
+            let earlier = out.iter().find(|p| p.from == from && from != [0; 3]).cloned();
+            out.push(earlier.unwrap_or_else(|| std::sync::Arc::new(self.work_out_plates(analysis, inf, from))));
         }
-        self.plates.as_ref().expect("just worked out")
+        out
     }
 
     fn work_out_plates(&self, analysis: &Analysis, inf: &DeckInfluence, from: [usize; 3]) -> SlidingPlates {
         let sl = &analysis.sliding;
         let n_posts = self.in_scope.len();
         let mut slot = vec![u32::MAX; n_posts];
-        let mut sp = SlidingPlates { posts: Vec::new(), mu: Vec::new(), sheared: Vec::new(), nodes: Vec::new(), notional_most: Vec::new(), from };
+        let mut sp = SlidingPlates { posts: Vec::new(), mu: Vec::new(), sheared: Vec::new(), nodes: Vec::new(), notional_most: Vec::new(), by_bearer: Vec::new(), from };
         let mut add = |p: usize, sp: &mut SlidingPlates| {
             if slot[p] == u32::MAX {
                 slot[p] = sp.posts.len() as u32;
@@ -1549,6 +1572,20 @@ impl SlidingDeck {
         // |s| ≤ Σₖ |d_n[i][k]| · (most Σₙ |e| of bearer k) · (most |S| of its nodes), and alike
         // for the brace components.
         let spread: Vec<f64> = n.entries.iter().map(|cols| cols.iter().map(|e| e.iter().map(|v| v.abs()).sum::<f64>()).fold(0.0, f64::max)).collect();
+        sp.by_bearer = sp
+            .nodes
+            .iter()
+            .map(|list| {
+                let mut out: Vec<(u32, u32, u32)> = Vec::new();
+                for (at, e) in list.iter().enumerate() {
+                    match out.last_mut() {
+                        Some(last) if last.0 == e.0 => last.2 = at as u32 + 1,
+                        _ => out.push((e.0, at as u32, at as u32 + 1)),
+                    }
+                }
+                out
+            })
+            .collect();
         sp.notional_most = (0..sp.posts.len())
             .map(|s| {
                 let mut most = [0.0f64; 2];
@@ -1571,8 +1608,9 @@ impl SlidingDeck {
         sp
     }
 
-    /// Sliding limits of the plates at every grid point of method pass `m`, taken into `grid`
-    /// (characteristic kN, after γ·φ).
+    /// What the plates' sliding limits of method pass `m` need at every grid point; `None` where
+    /// there is nothing to look for. The limits themselves ([`SlidingDeck::rows`]), in
+    /// characteristic kN after γ·φ:
     ///
     /// At a plate with friction μ, least vertical load N and base shear H, a load `P` placed adds
     /// the base shear `s·P` of its notional load (|H + s·P| ≤ |H| + |s|·P) and takes away μ × what
@@ -1584,25 +1622,15 @@ impl SlidingDeck {
     /// direction and diaphragm assumption of the check is taken with the extra load's notional
     /// load of the same direction and assumption (see [`SlidingDeck::pairs`]). (The structure's
     /// own check follows from its plates': where each plate keeps μN ≥ η|H|, so do their sums.)
-    fn limits(&mut self, analysis: &Analysis, m: usize, inf: &DeckInfluence, grid: &mut [Best], caps: &[f64]) {
+    fn prepare(&self, analysis: &Analysis, m: usize, inf: &DeckInfluence, sp: &SlidingPlates, grid: &[Best], caps: &[f64]) -> Option<SlidingSetup> {
         let rooms = &analysis.sliding.rooms;
-        if rooms.get(m, 0, 0, 0).is_none() {
-            return;
+        rooms.get(m, 0, 0, 0)?;
+        // Nothing can be less than a limit already reached everywhere.
+        if grid.iter().enumerate().all(|(at, b)| below(at, b, caps) <= 0.0) || sp.posts.is_empty() {
+            return None;
         }
-        // What a plate must come below to count at each point: the value found so far, and what
-        // the structure and the deck allow (just above it, so that a plate level with it still
-        // counts). Nothing can be less than a limit already reached everywhere.
-        let bound = |at: usize, b: &Best| b.kn.min(caps.get(at).map_or(f64::INFINITY, |&c| above(c)));
-        if grid.iter().enumerate().all(|(at, b)| bound(at, b) <= 0.0) {
-            return;
-        }
-        let (a, pairs, w_shear, w_vertical, phi) = (self.a.clone(), self.pairs.clone(), self.w_shear, self.w_vertical, self.phi);
         let (n_groups, n_variants) = (rooms.groups.len(), rooms.variants);
-        let sp = self.plates_for(analysis, inf);
-        if sp.posts.is_empty() {
-            return;
-        }
-        let (rows, cols, nk) = (inf.across.len(), inf.along.len(), inf.bearers.len());
+        let (cols, nk) = (inf.along.len(), inf.bearers.len());
         let n_slots = sp.posts.len();
         let mut slot = vec![u32::MAX; analysis.sliding.mu.len()];
         for (s, &p) in sp.posts.iter().enumerate() {
@@ -1634,9 +1662,22 @@ impl SlidingDeck {
         // it, the most its influence lifts and presses it over the columns.
         let least: Vec<[f64; 2]> = room_of.iter().map(|r| [0, 1].map(|form| r.iter().map(|x| x[form]).fold(f64::INFINITY, f64::min))).collect();
         let extremes: Vec<Vec<(u32, f64, f64)>> = vertical.iter().map(|list| list.iter().map(|(k, col)| (*k, col.iter().fold(0.0f64, |m, v| m.max(-v)), col.iter().fold(0.0f64, |m, v| m.max(*v)))).collect()).collect();
+        Some(SlidingSetup { room_of, vertical, least, extremes })
+    }
+
+    /// The plates' sliding limits ([`SlidingDeck::prepare`]) at rows `rows` of method pass `m`:
+    /// `grid` holds those rows, with the values found so far, and takes them.
+    #[allow(clippy::too_many_arguments)]
+    fn rows(&self, analysis: &Analysis, m: usize, inf: &DeckInfluence, sp: &SlidingPlates, setup: &SlidingSetup, rows: std::ops::Range<usize>, grid: &mut [Best], caps: &[f64]) {
+        let SlidingSetup { room_of, vertical, least, extremes } = setup;
+        let (a, pairs, w_shear, w_vertical, phi) = (&self.a, &self.pairs, self.w_shear, self.w_vertical, self.phi);
+        let n_variants = analysis.sliding.rooms.variants;
+        let cols = inf.along.len();
+        let n_slots = sp.posts.len();
+        let first = rows.start;
         let notional = inf.notional.as_ref();
         let mut candidates: Vec<(f64, u32)> = Vec::with_capacity(n_slots);
-        for i in 0..rows {
+        for i in rows {
             let d = &inf.d[i];
             let nd = notional.map(|n| n.d[i].as_slice());
             let spread = nd.map_or(0.0, |nd| nd.iter().map(|v| v.abs()).sum::<f64>());
@@ -1644,7 +1685,7 @@ impl SlidingDeck {
             // most the row's load can lift it (a positive share through its falling influence,
             // a negative through its rising one) and the most its notional load can add; only
             // plates that could beat a value already found on the row are looked at, least first.
-            let row_most = (i * cols..(i + 1) * cols).map(|at| bound(at, &grid[at])).fold(0.0, f64::max);
+            let row_most = (0..cols).map(|j| below(i * cols + j, &grid[(i - first) * cols + j], caps)).fold(0.0, f64::max);
             candidates.clear();
             for s in 0..n_slots {
                 let lift: f64 = extremes[s].iter().map(|&(k, fall, rise)| if d[k as usize] > 0.0 { d[k as usize] * fall } else { -d[k as usize] * rise }).sum();
@@ -1664,7 +1705,7 @@ impl SlidingDeck {
             candidates.sort_by(|x, y| x.0.total_cmp(&y.0));
             for j in 0..cols {
                 let cap = caps.get(i * cols + j).map_or(f64::INFINITY, |&c| above(c));
-                let best = &mut grid[i * cols + j];
+                let best = &mut grid[(i - first) * cols + j];
                 for &(key, s) in &candidates {
                     let s = s as usize;
                     if key >= best.kn.min(cap) {
@@ -1674,16 +1715,22 @@ impl SlidingDeck {
                     let c: f64 = vertical[s].iter().map(|(k, col)| d[*k as usize] * col[j]).sum();
                     let (mut hu, mut hs) = ([0.0f64; 4], [[0.0f64; 2]; 4]);
                     if let (Some(n), Some(nd)) = (notional, nd) {
-                        for &(k, node, u, sh) in &sp.nodes[s] {
-                            let e = n.entries.get(k as usize).and_then(|c| c.get(j)).and_then(|e| e.get(node as usize)).copied().unwrap_or(0.0);
-                            let cn = nd[k as usize] * e;
-                            if cn == 0.0 {
+                        for &(k, first, end) in &sp.by_bearer[s] {
+                            let dk = nd[k as usize];
+                            if dk == 0.0 {
                                 continue;
                             }
-                            for q in 0..4 {
-                                hu[q] += cn * u[q];
-                                hs[q][0] += cn * sh[q][0];
-                                hs[q][1] += cn * sh[q][1];
+                            let column = n.entries.get(k as usize).and_then(|c| c.get(j)).map_or(&[][..], Vec::as_slice);
+                            for &(_, node, u, sh) in &sp.nodes[s][first as usize..end as usize] {
+                                let cn = dk * column.get(node as usize).copied().unwrap_or(0.0);
+                                if cn == 0.0 {
+                                    continue;
+                                }
+                                for q in 0..4 {
+                                    hu[q] += cn * u[q];
+                                    hs[q][0] += cn * sh[q][0];
+                                    hs[q][1] += cn * sh[q][1];
+                                }
                             }
                         }
                     }
@@ -1735,6 +1782,26 @@ impl SlidingDeck {
             }
         }
     }
+}
+
+/// What every grid point of one method pass needs for the plates' sliding, worked out once for
+/// the pass ([`SlidingDeck::prepare`]).
+struct SlidingSetup {
+    /// Per slot, per direction group and assumption: the room (both forms) and the shear there.
+    room_of: Vec<Vec<[f64; 3]>>,
+    /// Per slot: (bearer k, the plate's vertical influence per column) for each bearer reaching it.
+    vertical: Vec<Vec<(u32, Vec<f64>)>>,
+    /// Per slot and form: the least room of any direction and assumption.
+    least: Vec<[f64; 2]>,
+    /// Per slot, per bearer reaching it: the most its influence lifts and presses it over the
+    /// columns.
+    extremes: Vec<Vec<(u32, f64, f64)>>,
+}
+
+/// What a plate must come below to count at grid point `at`: the value found so far, and what the
+/// structure and the deck allow there (just above it, so that a plate level with it still counts).
+fn below(at: usize, b: &Best, caps: &[f64]) -> f64 {
+    b.kn.min(caps.get(at).map_or(f64::INFINITY, |&c| above(c)))
 }
 
 /// The entry of node `at` (bearer, node) in a plate's node list, made where missing: lists are
