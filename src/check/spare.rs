@@ -700,27 +700,32 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     let entry_level = per_pass[0].bearers.iter().map(|&b| scene.bearers[b].level).fold(deck.level, f64::max);
     let class = deck_class(scene, deck).and_then(LoadClass::get);
     let models = class.map(|c| class_models(c, settings.footprint)).unwrap_or_default();
+    // Overturning: a load beyond an axis of the structure under the deck adds its moment there
+    // (an imposed load never restores), in both forms. The notional load the extra load brings
+    // acts where it enters the posts (at the deck's bearers) and turns the structure too, in its
+    // worst direction: by its share along the axis's normal times its height above the axis —
+    // the same at every point, per axis and form.
+    let sideways: Vec<[f64; 2]> = tipping
+        .iter()
+        .map(|t| {
+            let rise = (entry_level - t.point[2]).max(0.0);
+            [false, true].map(|equ| {
+                groups
+                    .iter()
+                    .map(|g| g.iter().map(|n| n.share * (n.u[0] * t.normal[0] + n.u[1] * t.normal[1]) * if equ { equ_factor(n.case) } else { 1.0 }).sum::<f64>())
+                    .fold(0.0, f64::max)
+                    * rise
+            })
+        })
+        .collect();
     let others: Vec<Other> = (0..rows * cols)
         .map(|at| {
             let (x, y) = inf.point(at / cols, at % cols);
             let mut other = Other { kn: f64::INFINITY, already: false, what: OtherLimit::None };
-            // Overturning: a load beyond an axis of the structure under the deck adds its moment
-            // there (an imposed load never restores), in both forms.
-            // The notional load the extra load brings acts where it enters the posts (at the
-            // deck's bearers) and turns the structure too, in its worst direction: by its share
-            // along the axis's normal times its height above the axis.
             for (a, t) in tipping.iter().enumerate() {
                 let lever = (x - t.point[0]) * t.normal[0] + (y - t.point[1]) * t.normal[1];
-                let rise = (entry_level - t.point[2]).max(0.0);
-                let sideways = |equ: bool| {
-                    groups
-                        .iter()
-                        .map(|g| g.iter().map(|n| n.share * (n.u[0] * t.normal[0] + n.u[1] * t.normal[1]) * if equ { equ_factor(n.case) } else { 1.0 }).sum::<f64>())
-                        .fold(0.0, f64::max)
-                        * rise
-                };
-                for (room, gamma, form, equ) in [(t.factor_room, 1.0, "factor of safety", false), (t.equ_room, t.equ_gamma, "EQU", true)] {
-                    let arm = gamma * lever.max(0.0) + sideways(equ);
+                for (room, gamma, form, equ) in [(t.factor_room, 1.0, "factor of safety", 0), (t.equ_room, t.equ_gamma, "EQU", 1)] {
+                    let arm = gamma * lever.max(0.0) + sideways[a][equ];
                     if arm <= 0.0 {
                         continue;
                     }
@@ -1392,29 +1397,15 @@ fn existing_imposed(scene: &Scene, d: usize, x: f64, y: f64, fp: Footprint) -> f
     total
 }
 
-/// The structures a load on the deck reaches: those any of whose plates takes some of it, or of
-/// the brace forces of its notional load, in any method pass.
+/// The structures a load on the deck reaches: those any of whose plates takes some of it in any
+/// method pass. (Its notional load, carried by the bracing, stays within them: braces join what
+/// they connect into one structure.)
 fn reached_structures(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<usize> {
     let mut reached = vec![false; analysis.ground.plate_area_m2.len()];
-    let mut seen: Vec<usize> = Vec::new();
     for inf in per_pass {
         for e in inf.flows.iter().flatten().flatten() {
             if e.1 != 0.0 {
                 reached[e.0 as usize] = true;
-            }
-        }
-        // The notional routing is often shared by the passes: looked at once.
-        if let Some(n) = inf.notional.as_ref().filter(|n| !seen.contains(&(std::sync::Arc::as_ptr(&n.units) as usize))) {
-            seen.push(std::sync::Arc::as_ptr(&n.units) as usize);
-            for e in n.units.iter().flatten().flatten().flatten() {
-                if e.1 != 0.0 {
-                    reached[e.0 as usize] = true;
-                }
-            }
-            for e in n.shears.iter().flatten().flatten().flatten() {
-                if e.1 != [0.0; 2] {
-                    reached[e.0 as usize] = true;
-                }
             }
         }
     }
