@@ -185,6 +185,55 @@ fn the_notional_load_of_the_extra_load_goes_into_the_braced_plates() {
     close("kept coefficients, notional load set since", at(&again, 1.0, 1.0).kn.unwrap(), 19.5 / 0.35, 1e-9);
 }
 
+/// Posts `P{i}-{j}` on a square grid of `bay`, 2 m high; the lines along x carry bearers `L{j}` at
+/// 2 m, and a deck over them cantilevers `cant` past the last; imposed load `q` and permanent
+/// load `g` (kPa) on it; analysed by `method` (0 simple spans, 1 continuous, 2 envelope).
+#[allow(clippy::too_many_arguments)]
+fn grid_scene(nx: usize, ny: usize, bay: f64, cant: f64, q: f64, g: f64, method: usize) -> Scene {
+    let mut s = bare_scene();
+    s.analysis.method = [BeamMethod::SimpleSpans, BeamMethod::Continuous, BeamMethod::Envelope][method];
+    for j in 0..ny {
+        for i in 0..nx {
+            s.posts.push(post(&format!("P{i}-{j}"), i as f64 * bay, j as f64 * bay, 2.0));
+        }
+    }
+    for j in 0..ny {
+        let ids: Vec<String> = (0..nx).map(|i| format!("P{i}-{j}")).collect();
+        let refs: Vec<&str> = ids.iter().map(String::as_str).collect();
+        s.bearers.push(bearer(&format!("L{j}"), 2.0, &refs));
+    }
+    let names: Vec<String> = (0..ny).map(|j| format!("L{j}")).collect();
+    let refs: Vec<&str> = names.iter().map(String::as_str).collect();
+    s.decks.push(deck("D", 2.0, (0.0, (nx - 1) as f64 * bay), (0.0, (ny - 1) as f64 * bay + cant), &refs));
+    s.loads.push(load("q", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(q) }));
+    s.loads.push(load("g", Case::G, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(g) }));
+    s
+}
+
+/// Each line along x of [`grid_scene`] braced in its first bay, and the falsework rule (2.5 %,
+/// no wind) along +x.
+fn brace_first_bays(s: &mut Scene, ny: usize) {
+    for j in 0..ny {
+        s.braces.push(Brace { id: format!("X{j}"), from: PostNode { post: format!("P0-{j}"), level: 0.0 }, to: PostNode { post: format!("P1-{j}"), level: 2.0 } });
+    }
+    s.horizontal.notional = NotionalRule::Falsework;
+    s.horizontal.directions = vec![plateload::scene::loads::PlanDirection::PlusX];
+}
+
+/// `s` solved again with `kn` placed on deck D at (x, y), whole: a point, or spread over 0.6 × 0.4 m.
+fn placed(s: &Scene, rect: bool, x: f64, y: f64, kn: f64) -> plateload::Analysis {
+    let mut t = s.clone();
+    let kind = if rect {
+        LoadKind::DeckPatch { deck: "D".into(), area: plateload::Rect { x: (x - 0.3, x + 0.3), y: (y - 0.2, y + 0.2) }, intensity: kpa(kn / (0.6 * 0.4)) }
+    } else {
+        LoadKind::DeckPoint { deck: "D".into(), x, y, kn }
+    };
+    let mut l = load("placed", Case::Q, kind);
+    l.arrangement = Arrangement::Whole;
+    t.loads.push(l);
+    analyse(&t).unwrap()
+}
+
 mod properties {
     use super::*;
     use proptest::prelude::*;
@@ -201,32 +250,11 @@ mod properties {
             // common practice, no source: linearity — placing the reported load at the point and
             // solving again brings the limiting check to its limit (1e-6), and no other beyond
             // it; 1 % more exceeds it.
-            let mut s = bare_scene();
+            let mut s = grid_scene(nx, ny, bay, cant, q, g, method);
             s.site.allowable_bearing_kpa = Some(400.0);
-            s.analysis.method = [BeamMethod::SimpleSpans, BeamMethod::Continuous, BeamMethod::Envelope][method];
-            for j in 0..ny {
-                for i in 0..nx {
-                    s.posts.push(post(&format!("P{i}-{j}"), i as f64 * bay, j as f64 * bay, 2.0));
-                }
-            }
-            for j in 0..ny {
-                let ids: Vec<String> = (0..nx).map(|i| format!("P{i}-{j}")).collect();
-                let refs: Vec<&str> = ids.iter().map(String::as_str).collect();
-                s.bearers.push(bearer(&format!("L{j}"), 2.0, &refs));
-            }
-            let names: Vec<String> = (0..ny).map(|j| format!("L{j}")).collect();
-            let refs: Vec<&str> = names.iter().map(String::as_str).collect();
-            s.decks.push(deck("D", 2.0, (0.0, (nx - 1) as f64 * bay), (0.0, (ny - 1) as f64 * bay + cant), &refs));
-            s.loads.push(load("q", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(q) }));
-            s.loads.push(load("g", Case::G, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(g) }));
             if notional {
-                // Each line along x braced in its first bay; the falsework rule (2.5 %, no wind)
-                // along +x: the map includes the notional load of the placed load, the solver adds it.
-                for j in 0..ny {
-                    s.braces.push(Brace { id: format!("X{j}"), from: PostNode { post: format!("P0-{j}"), level: 0.0 }, to: PostNode { post: format!("P1-{j}"), level: 2.0 } });
-                }
-                s.horizontal.notional = NotionalRule::Falsework;
-                s.horizontal.directions = vec![plateload::scene::loads::PlanDirection::PlusX];
+                // The map includes the notional load of the placed load, the solver adds it.
+                brace_first_bays(&mut s, ny);
             }
             let a = analyse(&s).unwrap();
             let fp = if rect { Footprint { x_m: 0.6, y_m: 0.4 } } else { Footprint::POINT };
@@ -236,18 +264,7 @@ mod properties {
             let p = candidates[(pick % candidates.len() as u64) as usize];
             let kn = p.kn.unwrap();
             let Limit::Plate { plate, check, combination, .. } = &p.limit else { unreachable!() };
-            let place = |factor: f64| {
-                let mut t = s.clone();
-                let kind = if rect {
-                    LoadKind::DeckPatch { deck: "D".into(), area: plateload::Rect { x: (p.x - 0.3, p.x + 0.3), y: (p.y - 0.2, p.y + 0.2) }, intensity: kpa(factor * kn / fp.area()) }
-                } else {
-                    LoadKind::DeckPoint { deck: "D".into(), x: p.x, y: p.y, kn: factor * kn }
-                };
-                let mut l = load("placed", Case::Q, kind);
-                l.arrangement = Arrangement::Whole;
-                t.loads.push(l);
-                analyse(&t).unwrap()
-            };
+            let place = |factor: f64| placed(&s, rect, p.x, p.y, factor * kn);
             let b = place(1.0);
             let c = b.combinations.iter().position(|x| &x.name == combination).unwrap();
             let r = &b.plates[b.plate_index(plate).unwrap()];
@@ -314,35 +331,17 @@ proptest! {
         // sliding limits it and solving again brings that plate's factor against sliding to its
         // target, never beyond, and no other plate beyond its own; exactly (1e-6) with simple spans
         // and no cantilever; 1 % more then loses the target.
-        let mut s = bare_scene();
+        let mut s = grid_scene(nx, ny, bay, cant, q, g, method);
         s.site.allowable_bearing_kpa = Some(1e5);
         s.support_types[0].swl_kn = 1e4;
         s.support_types[0].friction = vec![Interface::Given { mu, source: "a test".into() }];
-        s.analysis.method = [BeamMethod::SimpleSpans, BeamMethod::Continuous, BeamMethod::Envelope][method];
-        for j in 0..ny {
-            for i in 0..nx {
-                s.posts.push(post(&format!("P{i}-{j}"), i as f64 * bay, j as f64 * bay, 2.0));
-            }
-        }
-        for j in 0..ny {
-            let ids: Vec<String> = (0..nx).map(|i| format!("P{i}-{j}")).collect();
-            let refs: Vec<&str> = ids.iter().map(String::as_str).collect();
-            s.bearers.push(bearer(&format!("L{j}"), 2.0, &refs));
-            s.braces.push(Brace { id: format!("X{j}"), from: PostNode { post: format!("P0-{j}"), level: 0.0 }, to: PostNode { post: format!("P1-{j}"), level: 2.0 } });
-        }
+        brace_first_bays(&mut s, ny);
         // Transoms joining the lines into one structure, carrying nothing.
         for i in 0..nx {
             let ids: Vec<String> = (0..ny).map(|j| format!("P{i}-{j}")).collect();
             let refs: Vec<&str> = ids.iter().map(String::as_str).collect();
             s.bearers.push(bearer(&format!("T{i}"), 1.0, &refs));
         }
-        let names: Vec<String> = (0..ny).map(|j| format!("L{j}")).collect();
-        let refs: Vec<&str> = names.iter().map(String::as_str).collect();
-        s.decks.push(deck("D", 2.0, (0.0, (nx - 1) as f64 * bay), (0.0, (ny - 1) as f64 * bay + cant), &refs));
-        s.loads.push(load("q", Case::Q, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(q) }));
-        s.loads.push(load("g", Case::G, LoadKind::DeckArea { deck: "D".into(), intensity: kpa(g) }));
-        s.horizontal.notional = NotionalRule::Falsework;
-        s.horizontal.directions = vec![plateload::scene::loads::PlanDirection::PlusX];
         if both_ways {
             s.horizontal.directions.push(plateload::scene::loads::PlanDirection::MinusX);
         }
@@ -355,18 +354,7 @@ proptest! {
         let p = candidates[(pick % candidates.len() as u64) as usize];
         let kn = p.kn.unwrap();
         let Limit::Sliding { plate, form } = p.limit.clone() else { unreachable!() };
-        let place = |factor: f64| {
-            let mut t = s.clone();
-            let kind = if rect {
-                LoadKind::DeckPatch { deck: "D".into(), area: plateload::Rect { x: (p.x - 0.3, p.x + 0.3), y: (p.y - 0.2, p.y + 0.2) }, intensity: kpa(factor * kn / fp.area()) }
-            } else {
-                LoadKind::DeckPoint { deck: "D".into(), x: p.x, y: p.y, kn: factor * kn }
-            };
-            let mut l = load("placed", Case::Q, kind);
-            l.arrangement = Arrangement::Whole;
-            t.loads.push(l);
-            analyse(&t).unwrap()
-        };
+        let place = |factor: f64| placed(&s, rect, p.x, p.y, factor * kn);
         // How far within its limit the plate is in the form that limits: 0 at the limit.
         let margin = |b: &plateload::Analysis| {
             let Some(r) = b.plates[b.plate_index(&plate).unwrap()].sliding.clone() else { return f64::INFINITY };
@@ -497,13 +485,7 @@ fn a_point_limited_by_a_plate_sliding() {
     assert_eq!(p.limit.words(), "plate A1 would slide (factor of safety)");
     assert_eq!(map.not_included, None, "every plate has friction: nothing left out");
     // Placed and solved again: A1's factor against sliding is exactly the target.
-    let place = |kn: f64| {
-        let mut t = s.clone();
-        let mut l = load("placed", Case::Q, LoadKind::DeckPoint { deck: "D".into(), x: 1.0, y: 1.5, kn });
-        l.arrangement = Arrangement::Whole;
-        t.loads.push(l);
-        analyse(&t).unwrap()
-    };
+    let place = |kn: f64| placed(&s, false, 1.0, 1.5, kn);
     let b = place(36.0);
     let after = b.plates[b.plate_index("A1").unwrap()].sliding.clone().unwrap();
     close("A1's factor against sliding with the load placed", after.factor.unwrap(), 2.0, 1e-9);
