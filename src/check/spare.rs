@@ -1424,8 +1424,6 @@ type NodeAtPlate = (u32, u32, [f64; 4], [[f64; 2]; 4]);
 struct SlidingPlates {
     posts: Vec<u32>,
     mu: Vec<f64>,
-    /// Whether it already takes base shear.
-    sheared: Vec<bool>,
     nodes: Vec<Vec<NodeAtPlate>>,
     /// Per slot and form (factor of safety, EQU): the most the notional load of 1 kN can add
     /// to the left side of the check per unit of Σₖ |d_n[i][k]| — η·|s| + μ·(lift).
@@ -1516,13 +1514,12 @@ impl SlidingDeck {
         let sl = &analysis.sliding;
         let n_posts = self.in_scope.len();
         let mut slot = vec![u32::MAX; n_posts];
-        let mut sp = SlidingPlates { posts: Vec::new(), mu: Vec::new(), sheared: Vec::new(), nodes: Vec::new(), notional_most: Vec::new(), by_bearer: Vec::new(), from };
+        let mut sp = SlidingPlates { posts: Vec::new(), mu: Vec::new(), nodes: Vec::new(), notional_most: Vec::new(), by_bearer: Vec::new(), from };
         let mut add = |p: usize, sp: &mut SlidingPlates| {
             if slot[p] == u32::MAX {
                 slot[p] = sp.posts.len() as u32;
                 sp.posts.push(p as u32);
                 sp.mu.push(sl.mu[p].unwrap_or(0.0));
-                sp.sheared.push(sl.rooms.sheared(p));
                 sp.nodes.push(Vec::new());
             }
         };
