@@ -1431,6 +1431,9 @@ struct SlidingPlates {
     /// Per slot: (bearer k, first, end) of its entries in `nodes`, bearer by bearer: a point
     /// looks only at the bearers its row loads.
     by_bearer: Vec<Vec<(u32, u32, u32)>>,
+    /// The entry reactions by bearer and node, per column (`columns[k][node][j]`): a plate's
+    /// notional sums for a whole row at once.
+    columns: Vec<Vec<Vec<f64>>>,
     /// The routing and entry reactions they were worked out from (by address).
     from: [usize; 3],
 }
@@ -1514,7 +1517,7 @@ impl SlidingDeck {
         let sl = &analysis.sliding;
         let n_posts = self.in_scope.len();
         let mut slot = vec![u32::MAX; n_posts];
-        let mut sp = SlidingPlates { posts: Vec::new(), mu: Vec::new(), nodes: Vec::new(), notional_most: Vec::new(), by_bearer: Vec::new(), from };
+        let mut sp = SlidingPlates { posts: Vec::new(), mu: Vec::new(), nodes: Vec::new(), notional_most: Vec::new(), by_bearer: Vec::new(), columns: Vec::new(), from };
         let mut add = |p: usize, sp: &mut SlidingPlates| {
             if slot[p] == u32::MAX {
                 slot[p] = sp.posts.len() as u32;
@@ -1560,6 +1563,12 @@ impl SlidingDeck {
         // |s| ≤ Σₖ |d_n[i][k]| · (most Σₙ |e| of bearer k) · (most |S| of its nodes), and alike
         // for the brace components.
         let spread: Vec<f64> = n.entries.iter().map(|cols| cols.iter().map(|e| e.iter().map(|v| v.abs()).sum::<f64>()).fold(0.0, f64::max)).collect();
+        sp.columns = n
+            .entries
+            .iter()
+            .zip(n.units.iter())
+            .map(|(per_column, nodes)| (0..nodes.len()).map(|node| per_column.iter().map(|e| e.get(node).copied().unwrap_or(0.0)).collect()).collect())
+            .collect();
         sp.by_bearer = sp
             .nodes
             .iter()
@@ -1665,6 +1674,7 @@ impl SlidingDeck {
         let first = rows.start;
         let notional = inf.notional.as_ref();
         let mut candidates: Vec<(f64, u32)> = Vec::with_capacity(n_slots);
+        let (mut hot, mut hot_sums): (Vec<u32>, Vec<Vec<([f64; 4], [[f64; 2]; 4])>>) = (Vec::new(), Vec::new());
         for i in rows {
             let d = &inf.d[i];
             let nd = notional.map(|n| n.d[i].as_slice());
@@ -1691,6 +1701,38 @@ impl SlidingDeck {
                 continue;
             }
             candidates.sort_by(|x, y| x.0.total_cmp(&y.0));
+            // Plates with no room left are looked at nearly everywhere on the row: their notional
+            // sums are made for the whole row at once, node by node in the same order.
+            hot.clear();
+            hot_sums.clear();
+            if let Some(nd) = nd {
+                for &(_, s) in candidates.iter().take_while(|c| c.0 <= 0.0) {
+                    let s = s as usize;
+                    let mut sums = vec![([0.0f64; 4], [[0.0f64; 2]; 4]); cols];
+                    for &(k, from, end) in &sp.by_bearer[s] {
+                        let dk = nd[k as usize];
+                        if dk == 0.0 {
+                            continue;
+                        }
+                        for &(_, node, u, sh) in &sp.nodes[s][from as usize..end as usize] {
+                            let Some(column) = sp.columns.get(k as usize).and_then(|c| c.get(node as usize)) else { continue };
+                            for ((hu, hs), &e) in sums.iter_mut().zip(column) {
+                                let cn = dk * e;
+                                if cn == 0.0 {
+                                    continue;
+                                }
+                                for q in 0..4 {
+                                    hu[q] += cn * u[q];
+                                    hs[q][0] += cn * sh[q][0];
+                                    hs[q][1] += cn * sh[q][1];
+                                }
+                            }
+                        }
+                    }
+                    hot.push(s as u32);
+                    hot_sums.push(sums);
+                }
+            }
             for j in 0..cols {
                 let cap = caps.get(i * cols + j).map_or(f64::INFINITY, |&c| above(c));
                 let best = &mut grid[(i - first) * cols + j];
@@ -1702,7 +1744,9 @@ impl SlidingDeck {
                     let p = sp.posts[s];
                     let c: f64 = vertical[s].iter().map(|(k, col)| d[*k as usize] * col[j]).sum();
                     let (mut hu, mut hs) = ([0.0f64; 4], [[0.0f64; 2]; 4]);
-                    if let (Some(n), Some(nd)) = (notional, nd) {
+                    if let Some(h) = hot.iter().position(|&x| x as usize == s) {
+                        (hu, hs) = hot_sums[h][j];
+                    } else if let (Some(n), Some(nd)) = (notional, nd) {
                         for &(k, first, end) in &sp.by_bearer[s] {
                             let dk = nd[k as usize];
                             if dk == 0.0 {
