@@ -1421,16 +1421,20 @@ type NodeAtPlate = (u32, u32, [f64; 4], [[f64; 2]; 4]);
 /// every plate has a friction coefficient, those that take base shear already (in any method
 /// pass) or from the notional load of the extra load — with what each node of the deck's bearers
 /// does to them. The same in every method pass that shares the notional routing.
+#[derive(Clone)]
 struct SlidingPlates {
     posts: Vec<u32>,
     mu: Vec<f64>,
-    nodes: Vec<Vec<NodeAtPlate>>,
+    nodes: std::sync::Arc<Vec<Vec<NodeAtPlate>>>,
+    /// Per slot and node entry, per form: the most 1 kN at the node adds to the left side of
+    /// the check at the plate, over the direction groups and assumptions — η·|s| + μ·(lift).
+    node_most: std::sync::Arc<Vec<Vec<[f64; 2]>>>,
     /// Per slot and form (factor of safety, EQU): the most the notional load of 1 kN can add
     /// to the left side of the check per unit of Σₖ |d_n[i][k]| — η·|s| + μ·(lift).
     notional_most: Vec<[f64; 2]>,
     /// Per slot: (bearer k, first, end) of its entries in `nodes`, bearer by bearer: a point
     /// looks only at the bearers its row loads.
-    by_bearer: Vec<Vec<(u32, u32, u32)>>,
+    by_bearer: std::sync::Arc<Vec<Vec<(u32, u32, u32)>>>,
     /// The entry reactions by bearer and node, per column (`columns[k][node][j]`): a plate's
     /// notional sums for a whole row at once.
     columns: Vec<Vec<Vec<f64>>>,
@@ -1507,8 +1511,15 @@ impl SlidingDeck {
         let mut out: Vec<std::sync::Arc<SlidingPlates>> = Vec::with_capacity(per_pass.len());
         for inf in per_pass {
             let from = inf.notional.as_ref().map_or([0; 3], |n| [std::sync::Arc::as_ptr(&n.units) as usize, std::sync::Arc::as_ptr(&n.shears) as usize, std::sync::Arc::as_ptr(&n.entries) as usize]);
-            let earlier = out.iter().find(|p| p.from == from && from != [0; 3]).cloned();
-            out.push(earlier.unwrap_or_else(|| std::sync::Arc::new(self.work_out_plates(analysis, inf, from))));
+            if let Some(same) = out.iter().find(|p| p.from == from && from != [0; 3]) {
+                out.push(same.clone());
+                continue;
+            }
+            // The same routing with other entry reactions: only what depends on those is new.
+            let routed = out.iter().find(|p| p.from[..2] == from[..2] && from != [0; 3]).map(|p| SlidingPlates { from, ..(**p).clone() });
+            let mut sp = routed.unwrap_or_else(|| self.work_out_plates(analysis, inf, from));
+            self.with_entries(&mut sp, inf);
+            out.push(std::sync::Arc::new(sp));
         }
         out
     }
@@ -1517,13 +1528,14 @@ impl SlidingDeck {
         let sl = &analysis.sliding;
         let n_posts = self.in_scope.len();
         let mut slot = vec![u32::MAX; n_posts];
-        let mut sp = SlidingPlates { posts: Vec::new(), mu: Vec::new(), nodes: Vec::new(), notional_most: Vec::new(), by_bearer: Vec::new(), columns: Vec::new(), from };
+        let mut sp = SlidingPlates { posts: Vec::new(), mu: Vec::new(), nodes: Default::default(), node_most: Default::default(), notional_most: Vec::new(), by_bearer: Default::default(), columns: Vec::new(), from };
+        let mut nodes: Vec<Vec<NodeAtPlate>> = Vec::new();
         let mut add = |p: usize, sp: &mut SlidingPlates| {
             if slot[p] == u32::MAX {
                 slot[p] = sp.posts.len() as u32;
                 sp.posts.push(p as u32);
                 sp.mu.push(sl.mu[p].unwrap_or(0.0));
-                sp.nodes.push(Vec::new());
+                nodes.push(Vec::new());
             }
         };
         for p in (0..n_posts).filter(|&p| self.in_scope[p]) {
@@ -1531,7 +1543,13 @@ impl SlidingDeck {
                 add(p, &mut sp);
             }
         }
-        let Some(n) = &inf.notional else { return sp };
+        let Some(n) = &inf.notional else {
+            // No notional load: the plates that already take shear, with no node reaching them.
+            sp.by_bearer = std::sync::Arc::new(vec![Vec::new(); nodes.len()]);
+            sp.node_most = std::sync::Arc::new(vec![Vec::new(); nodes.len()]);
+            sp.nodes = std::sync::Arc::new(nodes);
+            return sp;
+        };
         for &(p, v) in n.shears.iter().flatten().flatten().flatten() {
             if self.in_scope[p as usize] && v != [0.0; 2] {
                 add(p as usize, &mut sp);
@@ -1545,7 +1563,7 @@ impl SlidingDeck {
                     for &(p, v) in list {
                         let s = slot[p as usize];
                         if s != u32::MAX && v != [0.0; 2] {
-                            node_entry(&mut sp.nodes[s as usize], at).3[q] = v;
+                            node_entry(&mut nodes[s as usize], at).3[q] = v;
                         }
                     }
                 }
@@ -1554,14 +1572,61 @@ impl SlidingDeck {
                     for &(p, v) in list {
                         let s = slot[p as usize];
                         if s != u32::MAX && v != 0.0 {
-                            node_entry(&mut sp.nodes[s as usize], at).2[q] = v;
+                            node_entry(&mut nodes[s as usize], at).2[q] = v;
                         }
                     }
                 }
             }
         }
-        // |s| ≤ Σₖ |d_n[i][k]| · (most Σₙ |e| of bearer k) · (most |S| of its nodes), and alike
-        // for the brace components.
+        sp.by_bearer = std::sync::Arc::new(
+            nodes
+                .iter()
+                .map(|list| {
+                    let mut out: Vec<(u32, u32, u32)> = Vec::new();
+                    for (at, e) in list.iter().enumerate() {
+                        match out.last_mut() {
+                            Some(last) if last.0 == e.0 => last.2 = at as u32 + 1,
+                            _ => out.push((e.0, at as u32, at as u32 + 1)),
+                        }
+                    }
+                    out
+                })
+                .collect(),
+        );
+        sp.node_most = std::sync::Arc::new(
+            nodes
+                .iter()
+                .zip(&sp.mu)
+                .map(|(list, &mu)| {
+                    list.iter()
+                        .map(|&(_, _, u, sh)| {
+                            let mut most = [0.0f64; 2];
+                            for (form, m) in most.iter_mut().enumerate() {
+                                for g in &self.a {
+                                    let v = g[form];
+                                    for way in 0..2 {
+                                        let sx = [v[0] * sh[way][0] + v[1] * sh[2 + way][0], v[0] * sh[way][1] + v[1] * sh[2 + way][1]];
+                                        let lift = (v[0] * u[way] + v[1] * u[2 + way]).abs();
+                                        *m = m.max(self.w_shear[form] * (sx[0] * sx[0] + sx[1] * sx[1]).sqrt() + mu * lift);
+                                    }
+                                }
+                            }
+                            most
+                        })
+                        .collect()
+                })
+                .collect(),
+        );
+        sp.nodes = std::sync::Arc::new(nodes);
+        sp
+    }
+
+    /// What of the plates depends on the entry reactions of a pass: the entries per column, and
+    /// per plate the most the notional load of 1 kN can add per unit of Σₖ |d_n[i][k]|:
+    /// |s| ≤ Σₖ |d_n[i][k]| · (most Σₙ |e| of bearer k) · (most |S| of its nodes), and alike for
+    /// the brace components.
+    fn with_entries(&self, sp: &mut SlidingPlates, inf: &DeckInfluence) {
+        let Some(n) = &inf.notional else { return };
         let spread: Vec<f64> = n.entries.iter().map(|cols| cols.iter().map(|e| e.iter().map(|v| v.abs()).sum::<f64>()).fold(0.0, f64::max)).collect();
         sp.columns = n
             .entries
@@ -1569,40 +1634,21 @@ impl SlidingDeck {
             .zip(n.units.iter())
             .map(|(per_column, nodes)| (0..nodes.len()).map(|node| per_column.iter().map(|e| e.get(node).copied().unwrap_or(0.0)).collect()).collect())
             .collect();
-        sp.by_bearer = sp
+        sp.notional_most = sp
             .nodes
             .iter()
-            .map(|list| {
-                let mut out: Vec<(u32, u32, u32)> = Vec::new();
-                for (at, e) in list.iter().enumerate() {
-                    match out.last_mut() {
-                        Some(last) if last.0 == e.0 => last.2 = at as u32 + 1,
-                        _ => out.push((e.0, at as u32, at as u32 + 1)),
+            .zip(sp.node_most.iter())
+            .map(|(list, most)| {
+                let mut out = [0.0f64; 2];
+                for (&(k, ..), m) in list.iter().zip(most) {
+                    let spread = spread.get(k as usize).copied().unwrap_or(0.0);
+                    for form in 0..2 {
+                        out[form] = out[form].max(spread * m[form]);
                     }
                 }
                 out
             })
             .collect();
-        sp.notional_most = (0..sp.posts.len())
-            .map(|s| {
-                let mut most = [0.0f64; 2];
-                for &(k, _, u, sh) in &sp.nodes[s] {
-                    let spread = spread.get(k as usize).copied().unwrap_or(0.0);
-                    for (form, m) in most.iter_mut().enumerate() {
-                        for g in &self.a {
-                            let v = g[form];
-                            for way in 0..2 {
-                                let sx = [v[0] * sh[way][0] + v[1] * sh[2 + way][0], v[0] * sh[way][1] + v[1] * sh[2 + way][1]];
-                                let lift = (v[0] * u[way] + v[1] * u[2 + way]).abs();
-                                *m = m.max(spread * (self.w_shear[form] * (sx[0] * sx[0] + sx[1] * sx[1]).sqrt() + sp.mu[s] * lift));
-                            }
-                        }
-                    }
-                }
-                most
-            })
-            .collect();
-        sp
     }
 
     /// What the plates' sliding limits of method pass `m` need at every grid point; `None` where
