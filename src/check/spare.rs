@@ -1763,15 +1763,7 @@ impl SlidingDeck {
                         for &(_, node, u, sh) in &sp.nodes[s][from as usize..end as usize] {
                             let Some(column) = sp.columns.get(k as usize).and_then(|c| c.get(node as usize)) else { continue };
                             for ((hu, hs), &e) in sums.iter_mut().zip(column) {
-                                let cn = dk * e;
-                                if cn == 0.0 {
-                                    continue;
-                                }
-                                for q in 0..4 {
-                                    hu[q] += cn * u[q];
-                                    hs[q][0] += cn * sh[q][0];
-                                    hs[q][1] += cn * sh[q][1];
-                                }
+                                add_node(hu, hs, dk * e, &u, &sh);
                             }
                         }
                     }
@@ -1800,15 +1792,7 @@ impl SlidingDeck {
                             }
                             let column = n.entries.get(k as usize).and_then(|c| c.get(j)).map_or(&[][..], Vec::as_slice);
                             for &(_, node, u, sh) in &sp.nodes[s][first as usize..end as usize] {
-                                let cn = dk * column.get(node as usize).copied().unwrap_or(0.0);
-                                if cn == 0.0 {
-                                    continue;
-                                }
-                                for q in 0..4 {
-                                    hu[q] += cn * u[q];
-                                    hs[q][0] += cn * sh[q][0];
-                                    hs[q][1] += cn * sh[q][1];
-                                }
+                                add_node(&mut hu, &mut hs, dk * column.get(node as usize).copied().unwrap_or(0.0), &u, &sh);
                             }
                         }
                     }
@@ -1880,6 +1864,19 @@ struct SlidingSetup {
 /// structure and the deck allow there (just above it, so that a plate level with it still counts).
 fn below(at: usize, b: &Best, caps: &[f64]) -> f64 {
     b.kn.min(caps.get(at).map_or(f64::INFINITY, |&c| above(c)))
+}
+
+/// Add `cn` times one node's brace components `u` and base shears `sh` to a plate's sums (nothing
+/// where `cn` is zero).
+fn add_node(hu: &mut [f64; 4], hs: &mut [[f64; 2]; 4], cn: f64, u: &[f64; 4], sh: &[[f64; 2]; 4]) {
+    if cn == 0.0 {
+        return;
+    }
+    for q in 0..4 {
+        hu[q] += cn * u[q];
+        hs[q][0] += cn * sh[q][0];
+        hs[q][1] += cn * sh[q][1];
+    }
 }
 
 /// The entry of node `at` (bearer, node) in a plate's node list, made where missing: lists are
