@@ -210,11 +210,6 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
         groups.push(Vec::new());
     }
     let group_ids: Vec<Vec<&str>> = groups.iter().map(|g| g.iter().map(|&i| items0[i].id.as_str()).collect()).collect();
-    let gamma = |case: Case| match case {
-        Case::G => f.g_unfavourable,
-        Case::Q => f.q,
-        Case::W => f.w,
-    };
     let towards: Vec<String> = groups
         .iter()
         .map(|group| match group.first() {
@@ -241,7 +236,7 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
         lift.iter_mut().for_each(|v| *v = 0.0);
         lift_d.iter_mut().for_each(|v| *v = 0.0);
         for item in sol.items.iter().filter(|i| i.case != Case::G && i.direction.is_none()) {
-            let y = gamma(item.case);
+            let y = f.unfavourable(item.case);
             let mut add = |p: u32, v: f64| {
                 if v < 0.0 && sol.is_plate[p as usize] {
                     lift[p as usize] += v;
@@ -277,7 +272,7 @@ pub fn sliding(scene: &Scene, solutions: &[Solution], permanent: &[Vec<Permanent
             // permanent load only (the imposed load it would come from is then absent).
             for &i in group.iter().filter_map(|id| index.get(id)) {
                 let item = &sol.items[i];
-                let y = gamma(item.case);
+                let y = f.unfavourable(item.case);
                 let r = item.variant(variant);
                 for &(p, s) in r.shear {
                     let c = &mut cases[p as usize];

@@ -692,11 +692,6 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     // the plates.
     let tipping = tipping_room(analysis, per_pass);
     let equ = analysis.stability.equilibrium;
-    let equ_factor = |case: Case| match case {
-        Case::G => equ.g_unfavourable,
-        Case::Q => equ.q,
-        Case::W => equ.w,
-    };
     let entry_level = per_pass[0].bearers.iter().map(|&b| scene.bearers[b].level).fold(deck.level, f64::max);
     let class = deck_class(scene, deck).and_then(LoadClass::get);
     let models = class.map(|c| class_models(c, settings.footprint)).unwrap_or_default();
@@ -709,10 +704,10 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
         .iter()
         .map(|t| {
             let rise = (entry_level - t.point[2]).max(0.0);
-            [false, true].map(|equ| {
+            [false, true].map(|factored| {
                 groups
                     .iter()
-                    .map(|g| g.iter().map(|n| n.share * (n.u[0] * t.normal[0] + n.u[1] * t.normal[1]) * if equ { equ_factor(n.case) } else { 1.0 }).sum::<f64>())
+                    .map(|g| g.iter().map(|n| n.share * (n.u[0] * t.normal[0] + n.u[1] * t.normal[1]) * if factored { equ.unfavourable(n.case) } else { 1.0 }).sum::<f64>())
                     .fold(0.0, f64::max)
                     * rise
             })
@@ -872,12 +867,7 @@ struct TippingRoom {
 fn tipping_room(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<TippingRoom> {
     let st = &analysis.stability;
     let n = analysis.ground.plate_area_m2.len();
-    let mut reached = vec![false; n];
-    for e in per_pass.iter().flat_map(|inf| inf.flows.iter().flatten().flatten()) {
-        if e.1 != 0.0 {
-            reached[e.0 as usize] = true;
-        }
-    }
+    let reached = reached_plates(analysis, per_pass);
     let any = reached.iter().any(|&r| r);
     let mut in_structure = vec![false; n];
     st.structures
@@ -1397,18 +1387,21 @@ fn existing_imposed(scene: &Scene, d: usize, x: f64, y: f64, fp: Footprint) -> f
     total
 }
 
-/// The structures a load on the deck reaches: those any of whose plates takes some of it in any
-/// method pass. (Its notional load, carried by the bracing, stays within them: braces join what
-/// they connect into one structure.)
-fn reached_structures(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<usize> {
+/// The plates a load on the deck reaches, by post: those that take some of it in any method pass.
+fn reached_plates(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<bool> {
     let mut reached = vec![false; analysis.ground.plate_area_m2.len()];
-    for inf in per_pass {
-        for e in inf.flows.iter().flatten().flatten() {
-            if e.1 != 0.0 {
-                reached[e.0 as usize] = true;
-            }
+    for e in per_pass.iter().flat_map(|inf| inf.flows.iter().flatten().flatten()) {
+        if e.1 != 0.0 {
+            reached[e.0 as usize] = true;
         }
     }
+    reached
+}
+
+/// The structures a load on the deck reaches ([`reached_plates`]). (Its notional load, carried
+/// by the bracing, stays within them: braces join what they connect into one structure.)
+fn reached_structures(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<usize> {
+    let reached = reached_plates(analysis, per_pass);
     let structures = &analysis.stability.structures;
     (0..structures.len()).filter(|&s| structures[s].plates.iter().any(|&p| reached[p as usize])).collect()
 }
@@ -1478,11 +1471,6 @@ impl SlidingDeck {
             return None;
         }
         let f = &scene.stability.equilibrium;
-        let equ_factor = |case: Case| match case {
-            Case::G => f.g_unfavourable,
-            Case::Q => f.q,
-            Case::W => f.w,
-        };
         let mut a: Vec<[[f64; 2]; 2]> = groups
             .iter()
             .map(|g| {
@@ -1490,7 +1478,7 @@ impl SlidingDeck {
                 for t in g {
                     for ax in 0..2 {
                         v[0][ax] += t.share * t.u[ax];
-                        v[1][ax] += equ_factor(t.case) * t.share * t.u[ax];
+                        v[1][ax] += f.unfavourable(t.case) * t.share * t.u[ax];
                     }
                 }
                 v
@@ -1784,15 +1772,15 @@ impl SlidingDeck {
                     let (mut hu, mut hs) = ([0.0f64; 4], [[0.0f64; 2]; 4]);
                     if let Some(h) = hot.iter().position(|&x| x as usize == s) {
                         (hu, hs) = hot_sums[h][j];
-                    } else if let (Some(n), Some(nd)) = (notional, nd) {
+                    } else if let Some(nd) = nd {
                         for &(k, first, end) in &sp.by_bearer[s] {
                             let dk = nd[k as usize];
                             if dk == 0.0 {
                                 continue;
                             }
-                            let column = n.entries.get(k as usize).and_then(|c| c.get(j)).map_or(&[][..], Vec::as_slice);
                             for &(_, node, u, sh) in &sp.nodes[s][first as usize..end as usize] {
-                                add_node(&mut hu, &mut hs, dk * column.get(node as usize).copied().unwrap_or(0.0), &u, &sh);
+                                let e = sp.columns.get(k as usize).and_then(|c| c.get(node as usize)).and_then(|c| c.get(j)).copied().unwrap_or(0.0);
+                                add_node(&mut hu, &mut hs, dk * e, &u, &sh);
                             }
                         }
                     }

@@ -902,7 +902,7 @@ fn evaluate(
                     (beyond + inside).max(0.0)
                 };
                 v_dst += v;
-                v_dst_equ += v * variable_factor(&f, item.case);
+                v_dst_equ += v * f.unfavourable(item.case);
             }
         }
     }
@@ -935,7 +935,7 @@ fn evaluate(
             let t = ax.moment(&horizontal_on(m, i));
             if t > 0.0 {
                 ident += t;
-                ident_equ += t * variable_factor(&f, item.case);
+                ident_equ += t * f.unfavourable(item.case);
                 ident_ids.push(item.id.as_str());
             }
         }
@@ -946,7 +946,7 @@ fn evaluate(
             for &i in group {
                 let t = ax.moment(&horizontal_on(m, i)).max(0.0);
                 sum += t;
-                sum_equ += t * variable_factor(&f, sol.items[i].case);
+                sum_equ += t * f.unfavourable(sol.items[i].case);
             }
             if sum > best {
                 best = sum;
@@ -994,15 +994,6 @@ fn evaluate(
         equ_ok: equ_utilisation.is_none_or(|u| u <= 1.0 + 1e-9),
         equ_utilisation,
         kentledge: None,
-    }
-}
-
-/// Partial factor of a variable item in the equilibrium form.
-fn variable_factor(f: &Factors, case: Case) -> f64 {
-    match case {
-        Case::G => f.g_unfavourable,
-        Case::Q => f.q,
-        Case::W => f.w,
     }
 }
 

@@ -16,6 +16,17 @@ pub struct Factors {
     pub w: f64,
 }
 
+impl Factors {
+    /// The factor on a load of `case` where it is unfavourable.
+    pub fn unfavourable(&self, case: crate::Case) -> f64 {
+        match case {
+            crate::Case::G => self.g_unfavourable,
+            crate::Case::Q => self.q,
+            crate::Case::W => self.w,
+        }
+    }
+}
+
 /// A combination of the load cases.
 ///
 /// Permanent load is applied everywhere at once, with the unfavourable or favourable factor,
@@ -99,10 +110,6 @@ impl Combination {
 
     /// The factor on a variable case (Q or W).
     pub fn variable_factor(&self, case: crate::Case) -> f64 {
-        match case {
-            crate::Case::G => self.factors.g_unfavourable,
-            crate::Case::Q => self.factors.q,
-            crate::Case::W => self.factors.w,
-        }
+        self.factors.unfavourable(case)
     }
 }
