@@ -220,6 +220,15 @@ fn brace_first_bays(s: &mut Scene, ny: usize) {
     s.horizontal.directions = vec![plateload::scene::loads::PlanDirection::PlusX];
 }
 
+/// One point of the map of `s` (grid 0.5 m; a point, or the 0.6 × 0.4 m footprint) with room
+/// left whose limit `wanted` accepts, chosen by `pick`; `None` where there is none.
+fn pick_point(s: &Scene, a: &plateload::Analysis, rect: bool, pick: u64, wanted: impl Fn(&Limit) -> bool) -> Option<plateload::check::spare::SparePoint> {
+    let fp = if rect { Footprint { x_m: 0.6, y_m: 0.4 } } else { Footprint::POINT };
+    let map = spare_map(s, a, &SpareSettings { spacing_m: 0.5, footprint: fp, ..SpareSettings::default() }).unwrap();
+    let candidates: Vec<_> = map.decks[0].points.iter().filter(|p| p.kn.is_some_and(|k| k > 1e-6) && wanted(&p.limit)).collect();
+    (!candidates.is_empty()).then(|| candidates[(pick % candidates.len() as u64) as usize].clone())
+}
+
 /// `s` solved again with `kn` placed on deck D at (x, y), whole: a point, or spread over 0.6 × 0.4 m.
 fn placed(s: &Scene, rect: bool, x: f64, y: f64, kn: f64) -> plateload::Analysis {
     let mut t = s.clone();
@@ -257,11 +266,9 @@ mod properties {
                 brace_first_bays(&mut s, ny);
             }
             let a = analyse(&s).unwrap();
-            let fp = if rect { Footprint { x_m: 0.6, y_m: 0.4 } } else { Footprint::POINT };
-            let map = spare_map(&s, &a, &SpareSettings { spacing_m: 0.5, footprint: fp, ..SpareSettings::default() }).unwrap();
-            let candidates: Vec<_> = map.decks[0].points.iter().filter(|p| p.kn.is_some_and(|k| k > 1e-6) && matches!(p.limit, Limit::Plate { .. })).collect();
-            prop_assume!(!candidates.is_empty());
-            let p = candidates[(pick % candidates.len() as u64) as usize];
+            let found = pick_point(&s, &a, rect, pick, |l| matches!(l, Limit::Plate { .. }));
+            prop_assume!(found.is_some());
+            let p = found.unwrap();
             let kn = p.kn.unwrap();
             let Limit::Plate { plate, check, combination, .. } = &p.limit else { unreachable!() };
             let place = |factor: f64| placed(&s, rect, p.x, p.y, factor * kn);
@@ -347,11 +354,9 @@ proptest! {
         }
         let a = analyse(&s).unwrap();
         prop_assume!(a.stability.structures.len() == 1);
-        let fp = if rect { Footprint { x_m: 0.6, y_m: 0.4 } } else { Footprint::POINT };
-        let map = spare_map(&s, &a, &SpareSettings { spacing_m: 0.5, footprint: fp, ..SpareSettings::default() }).unwrap();
-        let candidates: Vec<_> = map.decks[0].points.iter().filter(|p| p.kn.is_some_and(|k| k > 1e-6) && matches!(p.limit, Limit::Sliding { .. })).collect();
-        prop_assume!(!candidates.is_empty());
-        let p = candidates[(pick % candidates.len() as u64) as usize];
+        let found = pick_point(&s, &a, rect, pick, |l| matches!(l, Limit::Sliding { .. }));
+        prop_assume!(found.is_some());
+        let p = found.unwrap();
         let kn = p.kn.unwrap();
         let Limit::Sliding { plate, form } = p.limit.clone() else { unreachable!() };
         let place = |factor: f64| placed(&s, rect, p.x, p.y, factor * kn);
