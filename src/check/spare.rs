@@ -1406,9 +1406,18 @@ fn reached_structures(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<us
     (0..structures.len()).filter(|&s| structures[s].plates.iter().any(|&p| reached[p as usize])).collect()
 }
 
-/// One node's effect at one plate: (bearer k, node, brace components per `2·axis + way`, base
-/// shear per `2·axis + way`) of 1 kN of horizontal load at the node.
-type NodeAtPlate = (u32, u32, [f64; 4], [[f64; 2]; 4]);
+/// What 1 kN of horizontal load at a node does to a plate, per `q = 2·axis + way`: the brace
+/// components (`[q]`), then the base shear along x and y (`[4 + 2q]`, `[5 + 2q]`). Sums of them
+/// are made the same way.
+type Effects = [f64; 12];
+
+/// The base shear (x, y) of `q = 2·axis + way` in [`Effects`].
+fn shear_of(e: &Effects, q: usize) -> [f64; 2] {
+    [e[4 + 2 * q], e[5 + 2 * q]]
+}
+
+/// One node's effect at one plate: (bearer k, node, [`Effects`]).
+type NodeAtPlate = (u32, u32, Effects);
 
 /// The plates whose sliding a load on a deck can change — in the structures it reaches where
 /// every plate has a friction coefficient, those that take base shear already (in any method
@@ -1428,9 +1437,6 @@ struct SlidingPlates {
     /// Per slot: (bearer k, first, end) of its entries in `nodes`, bearer by bearer: a point
     /// looks only at the bearers its row loads.
     by_bearer: std::sync::Arc<Vec<Vec<(u32, u32, u32)>>>,
-    /// The entry reactions by bearer and node, per column (`columns[k][node][j]`): a plate's
-    /// notional sums for a whole row at once.
-    columns: Vec<Vec<Vec<f64>>>,
     /// The routing and entry reactions they were worked out from (by address).
     from: [usize; 3],
 }
@@ -1516,7 +1522,7 @@ impl SlidingDeck {
         let sl = &analysis.sliding;
         let n_posts = self.in_scope.len();
         let mut slot = vec![u32::MAX; n_posts];
-        let mut sp = SlidingPlates { posts: Vec::new(), mu: Vec::new(), nodes: Default::default(), node_most: Default::default(), notional_most: Vec::new(), by_bearer: Default::default(), columns: Vec::new(), from };
+        let mut sp = SlidingPlates { posts: Vec::new(), mu: Vec::new(), nodes: Default::default(), node_most: Default::default(), notional_most: Vec::new(), by_bearer: Default::default(), from };
         let mut nodes: Vec<Vec<NodeAtPlate>> = Vec::new();
         let mut add = |p: usize, sp: &mut SlidingPlates| {
             if slot[p] == u32::MAX {
@@ -1551,7 +1557,8 @@ impl SlidingDeck {
                     for &(p, v) in list {
                         let s = slot[p as usize];
                         if s != u32::MAX && v != [0.0; 2] {
-                            node_entry(&mut nodes[s as usize], at).3[q] = v;
+                            let e = &mut node_entry(&mut nodes[s as usize], at).2;
+                            [e[4 + 2 * q], e[5 + 2 * q]] = v;
                         }
                     }
                 }
@@ -1587,14 +1594,15 @@ impl SlidingDeck {
                 .zip(&sp.mu)
                 .map(|(list, &mu)| {
                     list.iter()
-                        .map(|&(_, _, u, sh)| {
+                        .map(|(_, _, e)| {
                             let mut most = [0.0f64; 2];
                             for (form, m) in most.iter_mut().enumerate() {
                                 for g in &self.a {
                                     let v = g[form];
                                     for way in 0..2 {
-                                        let sx = [v[0] * sh[way][0] + v[1] * sh[2 + way][0], v[0] * sh[way][1] + v[1] * sh[2 + way][1]];
-                                        let lift = (v[0] * u[way] + v[1] * u[2 + way]).abs();
+                                        let (sh, sh2) = (shear_of(e, way), shear_of(e, 2 + way));
+                                        let sx = [v[0] * sh[0] + v[1] * sh2[0], v[0] * sh[1] + v[1] * sh2[1]];
+                                        let lift = (v[0] * e[way] + v[1] * e[2 + way]).abs();
                                         *m = m.max(self.w_shear[form] * (sx[0] * sx[0] + sx[1] * sx[1]).sqrt() + mu * lift);
                                     }
                                 }
@@ -1616,12 +1624,6 @@ impl SlidingDeck {
     fn with_entries(&self, sp: &mut SlidingPlates, inf: &DeckInfluence) {
         let Some(n) = &inf.notional else { return };
         let spread: Vec<f64> = n.entries.iter().map(|cols| cols.iter().map(|e| e.iter().map(|v| v.abs()).sum::<f64>()).fold(0.0, f64::max)).collect();
-        sp.columns = n
-            .entries
-            .iter()
-            .zip(n.units.iter())
-            .map(|(per_column, nodes)| (0..nodes.len()).map(|node| per_column.iter().map(|e| e.get(node).copied().unwrap_or(0.0)).collect()).collect())
-            .collect();
         sp.notional_most = sp
             .nodes
             .iter()
@@ -1693,14 +1695,50 @@ impl SlidingDeck {
         // it, the most its influence lifts and presses it over the columns.
         let least: Vec<[f64; 2]> = room_of.iter().map(|r| [0, 1].map(|form| r.iter().map(|x| x[form]).fold(f64::INFINITY, f64::min))).collect();
         let extremes: Vec<Vec<(u32, f64, f64)>> = vertical.iter().map(|list| list.iter().map(|(k, col)| (*k, col.iter().fold(0.0f64, |m, v| m.max(-v)), col.iter().fold(0.0f64, |m, v| m.max(*v)))).collect()).collect();
-        Some(SlidingSetup { room_of, vertical, least, extremes })
+        // Plates with no room left are looked at nearly everywhere: their notional sums are made
+        // per column of each bearer once, so that a row's are a sum of whole columns (within a
+        // bound on the memory they take).
+        let mut budget = COLUMN_SUMS_BUDGET;
+        let by_column = (0..n_slots)
+            .map(|s| {
+                if inf.notional.is_none() || least[s].iter().all(|&r| r > 0.0) || sp.by_bearer[s].len() * cols > budget {
+                    return None;
+                }
+                budget -= sp.by_bearer[s].len() * cols;
+                Some(
+                    sp.by_bearer[s]
+                        .iter()
+                        .map(|&(k, from, end)| {
+                            let mut sums = vec![[0.0f64; 12]; cols];
+                            for (j, sum) in sums.iter_mut().enumerate() {
+                                add_nodes(sum, &sp.nodes[s][from as usize..end as usize], notional_entries(inf, k as usize, j), 1.0);
+                            }
+                            (k, sums)
+                        })
+                        .collect(),
+                )
+            })
+            .collect();
+        // For a bound per row: the plates by least room of either form, the most any plate's
+        // μ × lift per unit of a bearer's share, and the most notional effect of any plate.
+        let mut by_room: Vec<(f64, u32)> = least.iter().enumerate().map(|(s, l)| (l[0].min(l[1]), s as u32)).collect();
+        by_room.sort_unstable_by(|x, y| x.0.total_cmp(&y.0).then(x.1.cmp(&y.1)));
+        let mut lift_most = vec![0.0f64; nk];
+        for (list, &mu) in extremes.iter().zip(&sp.mu) {
+            for &(k, fall, rise) in list {
+                lift_most[k as usize] = lift_most[k as usize].max(mu * fall.max(rise));
+            }
+        }
+        let bearer_lift_most = lift_most.into_iter().enumerate().filter(|&(_, most)| most > 0.0).map(|(k, most)| (k as u32, most)).collect();
+        let all_notional_most = sp.notional_most.iter().fold([0.0f64; 2], |m, n| [m[0].max(n[0]), m[1].max(n[1])]);
+        Some(SlidingSetup { room_of, vertical, least, extremes, by_column, by_room, bearer_lift_most, all_notional_most })
     }
 
     /// The plates' sliding limits ([`SlidingDeck::prepare`]) at rows `rows` of method pass `m`:
     /// `grid` holds those rows, with the values found so far, and takes them.
     #[allow(clippy::too_many_arguments)]
     fn rows(&self, analysis: &Analysis, m: usize, inf: &DeckInfluence, sp: &SlidingPlates, setup: &SlidingSetup, rows: std::ops::Range<usize>, grid: &mut [Best], caps: &[f64]) {
-        let SlidingSetup { room_of, vertical, least, extremes } = setup;
+        let SlidingSetup { room_of, vertical, least, extremes, by_column, by_room, bearer_lift_most, all_notional_most } = setup;
         let (a, pairs, w_shear, w_vertical, phi) = (&self.a, &self.pairs, self.w_shear, self.w_vertical, self.phi);
         let n_variants = analysis.sliding.rooms.variants;
         let cols = inf.along.len();
@@ -1708,7 +1746,9 @@ impl SlidingDeck {
         let first = rows.start;
         let notional = inf.notional.as_ref();
         let mut candidates: Vec<(f64, u32)> = Vec::with_capacity(n_slots);
-        let (mut hot, mut hot_sums): (Vec<u32>, Vec<Vec<([f64; 4], [[f64; 2]; 4])>>) = (Vec::new(), Vec::new());
+        // Per row, the plates with column sums ([`SlidingSetup::by_column`]) among the
+        // candidates: (slot, their notional sums at each column of the row).
+        let mut row_sums: Vec<(u32, Vec<Effects>)> = Vec::new();
         for i in rows {
             let d = &inf.d[i];
             let nd = notional.map(|n| n.d[i].as_slice());
@@ -1719,7 +1759,15 @@ impl SlidingDeck {
             // plates that could beat a value already found on the row are looked at, least first.
             let row_most = (0..cols).map(|j| below(i * cols + j, &grid[(i - first) * cols + j], caps)).fold(0.0, f64::max);
             candidates.clear();
-            for s in 0..n_slots {
+            // The plates in order of least room, while even the most any plate can be lifted or
+            // sheared per kN on this row could bring one below the row's values.
+            let lift_most: f64 = bearer_lift_most.iter().map(|&(k, most)| d[k as usize].abs() * most).sum();
+            let per_unit_most = (0..2).map(|form| phi * (w_vertical[form] * lift_most + spread * all_notional_most[form])).fold(0.0, f64::max);
+            for &(least_room, s) in by_room {
+                if per_unit_most < INFLUENCE_FLOOR || least_room.max(0.0) / per_unit_most >= row_most {
+                    break;
+                }
+                let s = s as usize;
                 let lift: f64 = extremes[s].iter().map(|&(k, fall, rise)| if d[k as usize] > 0.0 { d[k as usize] * fall } else { -d[k as usize] * rise }).sum();
                 let key = (0..2)
                     .map(|form| {
@@ -1734,31 +1782,30 @@ impl SlidingDeck {
             if candidates.is_empty() {
                 continue;
             }
-            candidates.sort_by(|x, y| x.0.total_cmp(&y.0));
-            // Plates with no room left are looked at nearly everywhere on the row: their notional
-            // sums are made for the whole row at once, node by node in the same order.
-            hot.clear();
-            hot_sums.clear();
+            // Ties in plate order, as the plates come.
+            candidates.sort_unstable_by(|x, y| x.0.total_cmp(&y.0).then(x.1.cmp(&y.1)));
+            let mut used = 0;
             if let Some(nd) = nd {
-                for &(_, s) in candidates.iter().take_while(|c| c.0 <= 0.0) {
-                    let s = s as usize;
-                    let mut sums = vec![([0.0f64; 4], [[0.0f64; 2]; 4]); cols];
-                    for &(k, from, end) in &sp.by_bearer[s] {
-                        let dk = nd[k as usize];
-                        if dk == 0.0 {
-                            continue;
-                        }
-                        for &(_, node, u, sh) in &sp.nodes[s][from as usize..end as usize] {
-                            let Some(column) = sp.columns.get(k as usize).and_then(|c| c.get(node as usize)) else { continue };
-                            for ((hu, hs), &e) in sums.iter_mut().zip(column) {
-                                add_node(hu, hs, dk * e, &u, &sh);
+                for &(_, s) in &candidates {
+                    let Some(per_bearer) = &by_column[s as usize] else { continue };
+                    if used == row_sums.len() {
+                        row_sums.push((s, vec![[0.0; 12]; cols]));
+                    }
+                    let (slot, sums) = &mut row_sums[used];
+                    *slot = s;
+                    sums.fill([0.0; 12]);
+                    for (k, columns) in per_bearer {
+                        let dk = nd[*k as usize];
+                        if dk != 0.0 {
+                            for (sum, column) in sums.as_flattened_mut().iter_mut().zip(columns.as_flattened()) {
+                                *sum += dk * column;
                             }
                         }
                     }
-                    hot.push(s as u32);
-                    hot_sums.push(sums);
+                    used += 1;
                 }
             }
+            let row_sums = &row_sums[..used];
             for j in 0..cols {
                 let cap = caps.get(i * cols + j).map_or(f64::INFINITY, |&c| above(c));
                 let best = &mut grid[(i - first) * cols + j];
@@ -1769,19 +1816,16 @@ impl SlidingDeck {
                     }
                     let p = sp.posts[s];
                     let c: f64 = vertical[s].iter().map(|(k, col)| d[*k as usize] * col[j]).sum();
-                    let (mut hu, mut hs) = ([0.0f64; 4], [[0.0f64; 2]; 4]);
-                    if let Some(h) = hot.iter().position(|&x| x as usize == s) {
-                        (hu, hs) = hot_sums[h][j];
+                    let mut h = [0.0f64; 12];
+                    if let Some((_, sums)) = row_sums.iter().find(|r| r.0 as usize == s) {
+                        h = sums[j];
                     } else if let Some(nd) = nd {
                         for &(k, first, end) in &sp.by_bearer[s] {
                             let dk = nd[k as usize];
                             if dk == 0.0 {
                                 continue;
                             }
-                            for &(_, node, u, sh) in &sp.nodes[s][first as usize..end as usize] {
-                                let e = sp.columns.get(k as usize).and_then(|c| c.get(node as usize)).and_then(|c| c.get(j)).copied().unwrap_or(0.0);
-                                add_node(&mut hu, &mut hs, dk * e, &u, &sh);
-                            }
+                            add_nodes(&mut h, &sp.nodes[s][first as usize..end as usize], notional_entries(inf, k as usize, j), dk);
                         }
                     }
                     // What the extra load adds per kN in a form, with its notional load of group
@@ -1793,20 +1837,22 @@ impl SlidingDeck {
                             None => (sp.mu[s] * lifted, 0.0),
                             Some((g, way)) => {
                                 let v = a[g][form];
-                                let sx = [v[0] * hs[way][0] + v[1] * hs[2 + way][0], v[0] * hs[way][1] + v[1] * hs[2 + way][1]];
+                                let (sh, sh2) = (shear_of(&h, way), shear_of(&h, 2 + way));
+                                let sx = [v[0] * sh[0] + v[1] * sh2[0], v[0] * sh[1] + v[1] * sh2[1]];
                                 let shear = (sx[0] * sx[0] + sx[1] * sx[1]).sqrt();
-                                let u = v[0] * hu[way] + v[1] * hu[2 + way];
+                                let u = v[0] * h[way] + v[1] * h[2 + way];
                                 (w_shear[form] * shear + sp.mu[s] * (lifted + (-u).max(0.0)), shear)
                             }
                         }
                     };
-                    for (g_check, paired) in pairs.iter().enumerate() {
+                    'plate: for (g_check, paired) in pairs.iter().enumerate() {
                         for variant in 0..n_variants {
                             let room = room_of[s][g_check * n_variants + variant];
                             // The extra load's assumption paired with the check's; with one
                             // assumption in the check, either of the extra load's.
                             let ways: &[usize] = if n_variants == 2 { if variant == 0 { &[0] } else { &[1] } } else { &[0, 1] };
-                            let mut consider = |with: Option<(usize, usize)>| {
+                            let withs = paired.is_empty().then_some(None).into_iter().chain(paired.iter().flat_map(|&g| ways.iter().map(move |&w| Some((g, w)))));
+                            for with in withs {
                                 for form in 0..2 {
                                     let (add, shear) = added(form, with);
                                     // A plate with no base shear, before or after, cannot slide.
@@ -1815,15 +1861,11 @@ impl SlidingDeck {
                                     }
                                     if add * phi >= INFLUENCE_FLOOR {
                                         best.take(Best { kn: room[form].max(0.0) / (phi * add), plate: p, check: SLIDING_FACTOR + form as u8, combination: 0, method: m as u16, already: room[form] <= 0.0 });
+                                        // Nothing comes before a limit already reached.
+                                        if best.kn == 0.0 && best.already {
+                                            break 'plate;
+                                        }
                                     }
-                                }
-                            };
-                            if paired.is_empty() {
-                                consider(None);
-                            }
-                            for &g in paired {
-                                for &w in ways {
-                                    consider(Some((g, w)));
                                 }
                             }
                         }
@@ -1846,7 +1888,21 @@ struct SlidingSetup {
     /// Per slot, per bearer reaching it: the most its influence lifts and presses it over the
     /// columns.
     extremes: Vec<Vec<(u32, f64, f64)>>,
+    /// Per slot, for plates with no room left: per bearer reaching it, the plate's notional sums
+    /// (brace components, base shears) of 1 kN on the bearer at each column.
+    by_column: Vec<Option<Vec<(u32, Vec<Effects>)>>>,
+    /// (least room of either form, slot), least first.
+    by_room: Vec<(f64, u32)>,
+    /// Per bearer reaching any plate (k, most): the most μ × its influence lifts or presses a
+    /// plate.
+    bearer_lift_most: Vec<(u32, f64)>,
+    /// Per form: the most of any plate's `notional_most`.
+    all_notional_most: [f64; 2],
 }
+
+/// The most column sums ([`SlidingSetup::by_column`]) one method pass keeps: a bearer's column
+/// each, 96 bytes apiece (about 24 MB).
+const COLUMN_SUMS_BUDGET: usize = 250_000;
 
 /// What a plate must come below to count at grid point `at`: the value found so far, and what the
 /// structure and the deck allow there (just above it, so that a plate level with it still counts).
@@ -1854,16 +1910,27 @@ fn below(at: usize, b: &Best, caps: &[f64]) -> f64 {
     b.kn.min(caps.get(at).map_or(f64::INFINITY, |&c| above(c)))
 }
 
-/// Add `cn` times one node's brace components `u` and base shears `sh` to a plate's sums (nothing
-/// where `cn` is zero).
-fn add_node(hu: &mut [f64; 4], hs: &mut [[f64; 2]; 4], cn: f64, u: &[f64; 4], sh: &[[f64; 2]; 4]) {
+/// The notional load's entry reactions of bearer `k` for 1 kN at column `j`, per node (none
+/// where the bearer takes nothing).
+fn notional_entries(inf: &DeckInfluence, k: usize, j: usize) -> &[f64] {
+    inf.notional.as_ref().and_then(|n| n.entries.get(k)).and_then(|per_column| per_column.get(j)).map_or(&[], Vec::as_slice)
+}
+
+/// Add to a plate's sums `factor` times what the entry reactions `entries` (per node) do through
+/// the plate's node list `nodes` of one bearer.
+fn add_nodes(sum: &mut Effects, nodes: &[NodeAtPlate], entries: &[f64], factor: f64) {
+    for (_, node, effects) in nodes {
+        add_node(sum, factor * entries.get(*node as usize).copied().unwrap_or(0.0), effects);
+    }
+}
+
+/// Add `cn` times one node's effects to a plate's sums (nothing where `cn` is zero).
+fn add_node(sum: &mut Effects, cn: f64, effects: &Effects) {
     if cn == 0.0 {
         return;
     }
-    for q in 0..4 {
-        hu[q] += cn * u[q];
-        hs[q][0] += cn * sh[q][0];
-        hs[q][1] += cn * sh[q][1];
+    for (s, e) in sum.iter_mut().zip(effects) {
+        *s += cn * e;
     }
 }
 
@@ -1871,7 +1938,7 @@ fn add_node(hu: &mut [f64; 4], hs: &mut [[f64; 2]; 4], cn: f64, u: &[f64; 4], sh
 /// filled node by node, so only the last entry can be it.
 fn node_entry(list: &mut Vec<NodeAtPlate>, at: (u32, u32)) -> &mut NodeAtPlate {
     if list.last().is_none_or(|e| (e.0, e.1) != at) {
-        list.push((at.0, at.1, [0.0; 4], [[0.0; 2]; 4]));
+        list.push((at.0, at.1, [0.0; 12]));
     }
     let last = list.len() - 1;
     &mut list[last]
