@@ -321,6 +321,60 @@ mod properties {
     }
 }
 
+/// [`grid_scene`] 4 × 3, simple spans, with friction μ, braced in the first bays, 20 kN of
+/// permanent load on the feet of the diagonals, its lines joined into one structure by transoms
+/// that carry nothing.
+fn sliding_grid(mu: f64) -> Scene {
+    let mut s = grid_scene(4, 3, 1.5, 0.0, 2.0, 3.0, 0);
+    s.site.allowable_bearing_kpa = Some(1e5);
+    s.support_types[0].swl_kn = 1e4;
+    s.support_types[0].friction = vec![Interface::Given { mu, source: "a test".into() }];
+    brace_first_bays(&mut s, 3);
+    // Weight on the feet of the diagonals, so that they have friction to spare.
+    for j in 0..3 {
+        s.loads.push(load(&format!("weight-{j}"), Case::G, LoadKind::PostTop { post: format!("P0-{j}"), kn: 20.0 }));
+    }
+    for i in 0..4 {
+        let ids: Vec<String> = (0..3).map(|j| format!("P{i}-{j}")).collect();
+        let refs: Vec<&str> = ids.iter().map(String::as_str).collect();
+        s.bearers.push(bearer(&format!("T{i}"), 1.0, &refs));
+    }
+    s
+}
+
+#[test]
+fn kept_coefficients_give_the_same_map_after_edits_that_change_what_slides() {
+    // common practice, no source: a map from coefficients kept across edits of loads, friction,
+    // the sliding target and the notional rule is the map worked out from scratch — twice in a
+    // row, so that what the first keeps is used by the second.
+    let settings = SpareSettings { spacing_m: 0.5, ..SpareSettings::default() };
+    let first = sliding_grid(0.3);
+    let kept = plateload::check::spare::spare_influences(&first, &analyse(&first).unwrap(), &settings).unwrap();
+    let mut edits: Vec<(&str, Scene)> = vec![("as it was", first.clone())];
+    let mut s = first.clone();
+    s.loads.push(load("pallet", Case::G, LoadKind::PostTop { post: "P3-2".into(), kn: 8.0 }));
+    edits.push(("a load on a post", s.clone()));
+    s.support_types[0].friction = vec![Interface::Given { mu: 0.45, source: "a test".into() }];
+    edits.push(("more friction", s.clone()));
+    s.stability.sliding_target_factor = 2.5;
+    edits.push(("a higher target against sliding", s.clone()));
+    s.horizontal.directions.push(plateload::scene::loads::PlanDirection::MinusX);
+    edits.push(("both ways along x", s.clone()));
+    s.horizontal.notional = NotionalRule::Percent(3.0);
+    edits.push(("a greater notional load", s.clone()));
+    let mut slid = 0;
+    for (what, s) in &edits {
+        let a = analyse(s).unwrap();
+        let fresh = spare_map(s, &a, &settings).unwrap();
+        for time in ["first", "second"] {
+            let again = plateload::check::spare::spare_map_from(s, &a, &settings, &kept).unwrap();
+            assert!(again == fresh, "{what}, {time} time from kept coefficients: not the map worked out from scratch");
+        }
+        slid += fresh.decks[0].points.iter().filter(|p| matches!(p.limit, Limit::Sliding { .. })).count();
+    }
+    assert!(slid > 0, "some point is limited by sliding, so the kept plates are used");
+}
+
 mod sliding_properties {
 use super::*;
 use proptest::prelude::*;

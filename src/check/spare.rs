@@ -178,8 +178,8 @@ pub struct SpareInfluences {
     spacing_m: f64,
     /// The method passes they were worked out for, by label.
     methods: Vec<String>,
-    /// Per deck in scene order: per method pass, or `None` where the footprint does not fit.
-    decks: Vec<Option<Vec<DeckInfluence>>>,
+    /// Per deck in scene order, or `None` where the footprint does not fit.
+    decks: Vec<Option<DeckCoefficients>>,
     /// The plan axes (x, y) the notional load of the extra load was worked out along.
     notional_axes: [bool; 2],
     /// Whether the base shears of that notional load were worked out (for sliding).
@@ -193,6 +193,38 @@ impl SpareInfluences {
             && self.spacing_m == settings.spacing_m
             && self.methods.len() == analysis.method_count()
             && self.methods.iter().enumerate().all(|(m, l)| l == analysis.method_label(m))
+    }
+}
+
+/// The influence coefficients of one deck, and what follows from them alone.
+struct DeckCoefficients {
+    /// Per method pass.
+    passes: Vec<DeckInfluence>,
+    /// The plates a load on the deck reaches, by post ([`reached_plates`]).
+    reached: Vec<bool>,
+    /// The plates whose sliding the map looks at, with what they were worked out for: they
+    /// follow from the coefficients, and from the loads only through which plates take base
+    /// shear, the friction and the notional load ([`SlidingKey`]), which an edit seldom changes.
+    sliding: std::sync::Mutex<Option<(SlidingKey, Vec<std::sync::Arc<SlidingPlates>>)>>,
+}
+
+impl DeckCoefficients {
+    fn new(passes: Vec<DeckInfluence>, n_posts: usize) -> Self {
+        let reached = reached_plates(n_posts, &passes);
+        DeckCoefficients { passes, reached, sliding: Default::default() }
+    }
+}
+
+impl Clone for DeckCoefficients {
+    fn clone(&self) -> Self {
+        let sliding = self.sliding.lock().map(|kept| kept.clone()).unwrap_or_default();
+        DeckCoefficients { passes: self.passes.clone(), reached: self.reached.clone(), sliding: std::sync::Mutex::new(sliding) }
+    }
+}
+
+impl std::fmt::Debug for DeckCoefficients {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.debug_struct("DeckCoefficients").field("passes", &self.passes).field("reached", &self.reached).finish_non_exhaustive()
     }
 }
 
@@ -257,7 +289,7 @@ pub fn spare_influences(scene: &Scene, analysis: &Analysis, settings: &SpareSett
         } else {
             deck_influences(&model, &passes, d, settings.footprint, settings.spacing_m)
         };
-        decks.push(per_pass.into_iter().collect::<Option<Vec<_>>>());
+        decks.push(per_pass.into_iter().collect::<Option<Vec<_>>>().map(|passes| DeckCoefficients::new(passes, scene.posts.len())));
     }
     Ok(SpareInfluences {
         footprint: settings.footprint,
@@ -299,11 +331,11 @@ pub fn spare_map_from(scene: &Scene, analysis: &Analysis, settings: &SpareSettin
             continue;
         }
         match &influences.decks[d] {
-            Some(per_pass) => {
+            Some(coefficients) => {
                 if analysis.sliding.mu.iter().any(Option::is_none) {
-                    mapped_structures.extend(reached_structures(analysis, per_pass));
+                    mapped_structures.extend(reached_structures(analysis, &coefficients.reached));
                 }
-                decks.push(deck_map(scene, analysis, d, settings, &combos, &groups, per_pass));
+                decks.push(deck_map(scene, analysis, d, settings, &combos, &groups, coefficients));
             }
             None if !settings.decks.is_empty() => {
                 return Err(SpareError::Setting(format!("the footprint {} × {} m does not fit on deck {}", fp.x_m, fp.y_m, deck.id)));
@@ -683,14 +715,15 @@ fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], g
     per_grid
 }
 
-fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence]) -> DeckSpare {
+fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], coefficients: &DeckCoefficients) -> DeckSpare {
+    let per_pass = &coefficients.passes;
     let deck = &scene.decks[d];
     let n_posts = scene.posts.len();
     let inf = &per_pass[0];
     let (rows, cols) = (inf.across.len(), inf.along.len());
     // The structure's and the deck's own limits at each point, first: they bound the search of
     // the plates.
-    let tipping = tipping_room(analysis, per_pass);
+    let tipping = tipping_room(analysis, &coefficients.reached);
     let equ = analysis.stability.equilibrium;
     let entry_level = per_pass[0].bearers.iter().map(|&b| scene.bearers[b].level).fold(deck.level, f64::max);
     let class = deck_class(scene, deck).and_then(LoadClass::get);
@@ -767,10 +800,10 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     debug_assert_eq!(shape, (rows, cols), "every pass has the same grid");
     // Sliding of the plates the load reaches: the passes side by side, each searching below the
     // values found so far, then taken in pass order.
-    if let Some(sliding) = SlidingDeck::new(scene, analysis, settings, groups, per_pass) {
+    if let Some(sliding) = SlidingDeck::new(scene, analysis, settings, groups, &coefficients.reached) {
         /// Rows of the grid in one piece of work.
         const BLOCK_ROWS: usize = 8;
-        let plates = sliding.plates_per_pass(analysis, per_pass);
+        let plates = sliding.plates_per_pass(analysis, per_pass, &coefficients.sliding);
         let setups = crate::workers::in_order(per_pass.len(), || (), |m, _| sliding.prepare(analysis, m, &per_pass[m], &plates[m], &grid, &caps));
         let blocks: Vec<(usize, std::ops::Range<usize>)> = (0..per_pass.len())
             .filter(|&m| setups[m].is_some())
@@ -864,10 +897,9 @@ struct TippingRoom {
 /// full lever. (A deck shared by structures that are not joined puts on each only reactions at its
 /// own posts, which turn it about its edges only by lifting its plates: the plate checks above
 /// cover that.)
-fn tipping_room(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<TippingRoom> {
+fn tipping_room(analysis: &Analysis, reached: &[bool]) -> Vec<TippingRoom> {
     let st = &analysis.stability;
     let n = analysis.ground.plate_area_m2.len();
-    let reached = reached_plates(analysis, per_pass);
     let any = reached.iter().any(|&r| r);
     let mut in_structure = vec![false; n];
     st.structures
@@ -1388,8 +1420,8 @@ fn existing_imposed(scene: &Scene, d: usize, x: f64, y: f64, fp: Footprint) -> f
 }
 
 /// The plates a load on the deck reaches, by post: those that take some of it in any method pass.
-fn reached_plates(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<bool> {
-    let mut reached = vec![false; analysis.ground.plate_area_m2.len()];
+fn reached_plates(n_posts: usize, per_pass: &[DeckInfluence]) -> Vec<bool> {
+    let mut reached = vec![false; n_posts];
     for e in per_pass.iter().flat_map(|inf| inf.flows.iter().flatten().flatten()) {
         if e.1 != 0.0 {
             reached[e.0 as usize] = true;
@@ -1398,10 +1430,10 @@ fn reached_plates(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<bool> 
     reached
 }
 
-/// The structures a load on the deck reaches ([`reached_plates`]). (Its notional load, carried
-/// by the bracing, stays within them: braces join what they connect into one structure.)
-fn reached_structures(analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<usize> {
-    let reached = reached_plates(analysis, per_pass);
+/// The structures a load on the deck reaches (its `reached` plates, [`reached_plates`]). (Its
+/// notional load, carried by the bracing, stays within them: braces join what they connect into
+/// one structure.)
+fn reached_structures(analysis: &Analysis, reached: &[bool]) -> Vec<usize> {
     let structures = &analysis.stability.structures;
     (0..structures.len()).filter(|&s| structures[s].plates.iter().any(|&p| reached[p as usize])).collect()
 }
@@ -1441,6 +1473,18 @@ struct SlidingPlates {
     from: [usize; 3],
 }
 
+/// What the plates of [`SlidingDeck::plates_per_pass`] are worked out from, besides the
+/// influence coefficients.
+#[derive(Clone, PartialEq)]
+struct SlidingKey {
+    in_scope: Vec<bool>,
+    /// Per post: in scope and taking base shear already.
+    sheared: Vec<bool>,
+    mu: Vec<Option<f64>>,
+    a: Vec<[[f64; 2]; 2]>,
+    w_shear: [f64; 2],
+}
+
 /// What the sliding limits of one deck need in every method pass.
 struct SlidingDeck {
     /// Per direction group, per form (unfactored, factored): the notional load along x and y
@@ -1459,13 +1503,13 @@ struct SlidingDeck {
 
 impl SlidingDeck {
     /// `None` where no plate a load on the deck reaches has its sliding checked.
-    fn new(scene: &Scene, analysis: &Analysis, settings: &SpareSettings, groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence]) -> Option<SlidingDeck> {
+    fn new(scene: &Scene, analysis: &Analysis, settings: &SpareSettings, groups: &[Vec<NotionalTerm>], reached: &[bool]) -> Option<SlidingDeck> {
         let sl = &analysis.sliding;
         if !sliding_checked(analysis) {
             return None;
         }
         let mut in_scope = vec![false; scene.posts.len()];
-        for s in reached_structures(analysis, per_pass) {
+        for s in reached_structures(analysis, reached) {
             let plates = &analysis.stability.structures[s].plates;
             if plates.iter().all(|&p| sl.mu[p as usize].is_some()) {
                 for &p in plates {
@@ -1501,7 +1545,28 @@ impl SlidingDeck {
     }
 
     /// The plates of each method pass: those of an earlier pass where it shares their routing.
-    fn plates_per_pass(&self, analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<std::sync::Arc<SlidingPlates>> {
+    /// Those kept in `kept` where worked out for the same [`SlidingKey`] (which they are then
+    /// replaced by otherwise).
+    fn plates_per_pass(&self, analysis: &Analysis, per_pass: &[DeckInfluence], kept: &std::sync::Mutex<Option<(SlidingKey, Vec<std::sync::Arc<SlidingPlates>>)>>) -> Vec<std::sync::Arc<SlidingPlates>> {
+        let sl = &analysis.sliding;
+        let key = SlidingKey {
+            in_scope: self.in_scope.clone(),
+            sheared: (0..self.in_scope.len()).map(|p| self.in_scope[p] && sl.rooms.sheared(p)).collect(),
+            mu: sl.mu.clone(),
+            a: self.a.clone(),
+            w_shear: self.w_shear,
+        };
+        // A poisoned lock only loses what was kept: worked out again.
+        let mut kept = kept.lock().unwrap_or_else(|poisoned| poisoned.into_inner());
+        if let Some((_, plates)) = kept.as_ref().filter(|(for_key, plates)| *for_key == key && plates.len() == per_pass.len()) {
+            return plates.clone();
+        }
+        let plates = self.work_out_per_pass(analysis, per_pass);
+        *kept = Some((key, plates.clone()));
+        plates
+    }
+
+    fn work_out_per_pass(&self, analysis: &Analysis, per_pass: &[DeckInfluence]) -> Vec<std::sync::Arc<SlidingPlates>> {
         let mut out: Vec<std::sync::Arc<SlidingPlates>> = Vec::with_capacity(per_pass.len());
         for inf in per_pass {
             let from = inf.notional.as_ref().map_or([0; 3], |n| [std::sync::Arc::as_ptr(&n.units) as usize, std::sync::Arc::as_ptr(&n.shears) as usize, std::sync::Arc::as_ptr(&n.entries) as usize]);
@@ -1671,30 +1736,11 @@ impl SlidingDeck {
         }
         // Per slot, direction group and assumption: the room (both forms) and the shear there.
         let room_of: Vec<Vec<[f64; 3]>> = sp.posts.iter().map(|&p| (0..n_groups).flat_map(|g| (0..n_variants).map(move |v| (g, v))).map(|(g, v)| rooms.get(m, p as usize, g, v).unwrap_or([f64::INFINITY, f64::INFINITY, 0.0])).collect()).collect();
-        // Per slot: (bearer k, the plate's vertical influence per column) for each bearer
-        // reaching it.
-        let mut vertical: Vec<Vec<(u32, Vec<f64>)>> = vec![Vec::new(); n_slots];
-        for k in 0..nk {
-            for j in 0..cols {
-                for &(p, e) in &inf.flows[k][j] {
-                    let s = slot[p as usize];
-                    if s == u32::MAX {
-                        continue;
-                    }
-                    let list = &mut vertical[s as usize];
-                    if list.last().is_none_or(|l| l.0 != k as u32) {
-                        list.push((k as u32, vec![0.0; cols]));
-                    }
-                    if let Some(l) = list.last_mut() {
-                        l.1[j] += e;
-                    }
-                }
-            }
-        }
+        let vertical = VerticalInfluence::new(inf, &slot, n_slots);
         // Per slot and form: the least room of any direction and assumption; per bearer reaching
         // it, the most its influence lifts and presses it over the columns.
         let least: Vec<[f64; 2]> = room_of.iter().map(|r| [0, 1].map(|form| r.iter().map(|x| x[form]).fold(f64::INFINITY, f64::min))).collect();
-        let extremes: Vec<Vec<(u32, f64, f64)>> = vertical.iter().map(|list| list.iter().map(|(k, col)| (*k, col.iter().fold(0.0f64, |m, v| m.max(-v)), col.iter().fold(0.0f64, |m, v| m.max(*v)))).collect()).collect();
+        let extremes: Vec<Vec<(u32, f64, f64)>> = (0..n_slots).map(|s| vertical.of(s).map(|(k, _, col)| (k, col.iter().fold(0.0f64, |m, v| m.max(-v)), col.iter().fold(0.0f64, |m, v| m.max(*v)))).collect()).collect();
         // Plates with no room left are looked at nearly everywhere: their notional sums are made
         // per column of each bearer once, so that a row's are a sum of whole columns (within a
         // bound on the memory they take).
@@ -1815,7 +1861,7 @@ impl SlidingDeck {
                         break;
                     }
                     let p = sp.posts[s];
-                    let c: f64 = vertical[s].iter().map(|(k, col)| d[*k as usize] * col[j]).sum();
+                    let c = vertical.at(s, d, j);
                     let mut h = [0.0f64; 12];
                     if let Some((_, sums)) = row_sums.iter().find(|r| r.0 as usize == s) {
                         h = sums[j];
@@ -1881,8 +1927,8 @@ impl SlidingDeck {
 struct SlidingSetup {
     /// Per slot, per direction group and assumption: the room (both forms) and the shear there.
     room_of: Vec<Vec<[f64; 3]>>,
-    /// Per slot: (bearer k, the plate's vertical influence per column) for each bearer reaching it.
-    vertical: Vec<Vec<(u32, Vec<f64>)>>,
+    /// Per slot: the plate's vertical influence from each bearer reaching it.
+    vertical: VerticalInfluence,
     /// Per slot and form: the least room of any direction and assumption.
     least: Vec<[f64; 2]>,
     /// Per slot, per bearer reaching it: the most its influence lifts and presses it over the
@@ -1898,6 +1944,95 @@ struct SlidingSetup {
     bearer_lift_most: Vec<(u32, f64)>,
     /// Per form: the most of any plate's `notional_most`.
     all_notional_most: [f64; 2],
+}
+
+/// The vertical influence of the bearers at the plates, per slot: for each bearer reaching the
+/// plate, its reaction per unit of the bearer's share at each column, over the columns from the
+/// first to the last it is not zero at (zero beyond).
+struct VerticalInfluence {
+    /// Per slot, where its entries begin in `entries` (and the next slot's, where they end).
+    start: Vec<u32>,
+    /// (bearer k, first column, where its values begin in `values`, how many).
+    entries: Vec<(u32, u32, u32, u32)>,
+    values: Vec<f64>,
+}
+
+impl VerticalInfluence {
+    /// From the flows of one method pass, for the plates of `slot` (per post; `u32::MAX` none).
+    fn new(inf: &DeckInfluence, slot: &[u32], n_slots: usize) -> Self {
+        // Each plate's first and last column per bearer, as the flows meet them (bearer by
+        // bearer, so that a plate's entries come in bearer order).
+        let mut met: Vec<(u32, u32, u32, u32)> = Vec::new();
+        let mut last_k = vec![u32::MAX; n_slots];
+        let mut at = vec![0usize; n_slots];
+        for (k, per_column) in inf.flows.iter().enumerate() {
+            for (j, flow) in per_column.iter().enumerate() {
+                for &(p, _) in flow {
+                    let Some(&s) = slot.get(p as usize).filter(|&&s| s != u32::MAX) else { continue };
+                    let s = s as usize;
+                    if last_k[s] != k as u32 {
+                        last_k[s] = k as u32;
+                        at[s] = met.len();
+                        met.push((s as u32, k as u32, j as u32, j as u32));
+                    } else {
+                        met[at[s]].3 = j as u32;
+                    }
+                }
+            }
+        }
+        // Grouped by plate, in the order met.
+        let mut start = vec![0u32; n_slots + 1];
+        for e in &met {
+            start[e.0 as usize + 1] += 1;
+        }
+        for s in 0..n_slots {
+            start[s + 1] += start[s];
+        }
+        let mut fill: Vec<u32> = start[..n_slots].to_vec();
+        let mut place = vec![0u32; met.len()];
+        let mut entries = vec![(0u32, 0u32, 0u32, 0u32); met.len()];
+        let mut offset = 0u32;
+        for (m, &(s, k, first, last)) in met.iter().enumerate() {
+            let to = fill[s as usize];
+            fill[s as usize] += 1;
+            place[m] = to;
+            entries[to as usize] = (k, first, 0, last - first + 1);
+        }
+        for e in &mut entries {
+            e.2 = offset;
+            offset += e.3;
+        }
+        // The values, with the plates met in the same order again.
+        let mut values = vec![0.0f64; offset as usize];
+        let mut seen = 0usize;
+        last_k.fill(u32::MAX);
+        for (k, per_column) in inf.flows.iter().enumerate() {
+            for (j, flow) in per_column.iter().enumerate() {
+                for &(p, e) in flow {
+                    let Some(&s) = slot.get(p as usize).filter(|&&s| s != u32::MAX) else { continue };
+                    let s = s as usize;
+                    if last_k[s] != k as u32 {
+                        last_k[s] = k as u32;
+                        at[s] = place[seen] as usize;
+                        seen += 1;
+                    }
+                    let (_, first, off, _) = entries[at[s]];
+                    values[(off + j as u32 - first) as usize] += e;
+                }
+            }
+        }
+        VerticalInfluence { start, entries, values }
+    }
+
+    /// Slot `s`'s entries: (bearer k, first column, the values from there).
+    fn of(&self, s: usize) -> impl Iterator<Item = (u32, u32, &[f64])> {
+        self.entries[self.start[s] as usize..self.start[s + 1] as usize].iter().map(|&(k, first, off, n)| (k, first, &self.values[off as usize..(off + n) as usize]))
+    }
+
+    /// The reaction at slot `s` of 1 kN at column `j` of a row with bearer shares `d`.
+    fn at(&self, s: usize, d: &[f64], j: usize) -> f64 {
+        self.of(s).map(|(k, first, values)| d[k as usize] * (j as u32).checked_sub(first).and_then(|i| values.get(i as usize)).copied().unwrap_or(0.0)).sum()
+    }
 }
 
 /// The most column sums ([`SlidingSetup::by_column`]) one method pass keeps: a bearer's column
