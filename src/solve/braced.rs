@@ -97,6 +97,19 @@ pub struct Acc {
 }
 
 impl Acc {
+    /// Empty it for the next load, keeping its storage: the per-post part is only touched when
+    /// something went into it, which for one load on a braced post is seldom.
+    pub fn clear(&mut self) {
+        if self.any_base {
+            self.base.fill([0.0; 2]);
+            self.any_base = false;
+        }
+        self.plane.fill(0.0);
+        self.rigid.fill([0.0; 3]);
+        self.fallback.fill([0.0; 3]);
+        self.lever.fill(0.0);
+    }
+
     /// Add `s` times another accumulation.
     pub fn add_scaled(&mut self, s: f64, o: &Acc) {
         if s == 0.0 {
@@ -596,8 +609,14 @@ impl<'m, 's> Network<'m, 's> {
     /// Solve the diaphragms and planes for an accumulation: one set of reactions, or `ways` (2:
     /// lever rule first, rigid second). Base shear only when `shear` is asked for.
     pub fn finish(&self, acc: &Acc, fails: &mut Vec<PathFailure>, ways: usize, shear: bool) -> Vec<Reactions> {
+        self.finish_with(acc, fails, ways, shear, &mut vec![0.0; self.model.scene.posts.len()])
+    }
+
+    /// [`Network::finish`] with the per-post working store given: zero at every post, and left
+    /// zero, so that one store serves load after load without being cleared.
+    pub fn finish_with(&self, acc: &Acc, fails: &mut Vec<PathFailure>, ways: usize, shear: bool, vertical: &mut [f64]) -> Vec<Reactions> {
         let bracing = &self.model.bracing;
-        let n = self.model.scene.posts.len();
+        debug_assert_eq!(vertical.len(), self.model.scene.posts.len(), "one entry per post");
         let mut totals = vec![acc.plane.clone(); ways];
         for (d, dia) in bracing.diaphragms.iter().enumerate() {
             if !self.loads(acc, d) {
@@ -629,7 +648,6 @@ impl<'m, 's> Network<'m, 's> {
                 }
             }
         }
-        let mut vertical = vec![0.0; n];
         // Base shear straight into the ground at the posts' bases: the same each way.
         let direct: Vec<(u32, [f64; 2])> = if shear && acc.any_base { acc.base.iter().enumerate().filter(|(_, a)| **a != [0.0; 2]).map(|(p, a)| (p as u32, [-a[0], -a[1]])).collect() } else { Vec::new() };
         // Only the posts at the ends of the diagonals of loaded planes can take a brace component:
@@ -649,7 +667,7 @@ impl<'m, 's> Network<'m, 's> {
                     if forces[range.clone()].iter().all(|v| *v == 0.0) {
                         continue;
                     }
-                    solve_plane(plane, &forces[range.clone()], &mut vertical, shear.then_some(&mut base), &mut lift_shear[range]);
+                    solve_plane(plane, &forces[range.clone()], vertical, shear.then_some(&mut base), &mut lift_shear[range]);
                     touched.extend(plane.lifts.iter().flatten().flat_map(|d| [d.lower, d.upper]));
                 }
                 touched.sort_unstable();

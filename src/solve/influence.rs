@@ -175,7 +175,9 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
     let nodes: Vec<Vec<(u32, f64)>> = line.bearers.iter().map(|&b| model.bearers[b].posts.iter().map(|&p| (p as u32, model.scene.bearers[b].level)).collect()).collect();
     // Per node and axis: the brace components entering the posts, each way. Nodes are
     // independent: bearer by bearer side by side, the failures kept in bearer order.
-    let per_bearer = crate::workers::in_order(nodes.len(), || (), |k, _| {
+    // One accumulation and per-post store per core, emptied between loads: a new one per load
+    // would zero a list as long as the posts for a handful of entries.
+    let per_bearer = crate::workers::in_order(nodes.len(), || (net.acc(), vec![0.0; model.scene.posts.len()]), |k, (acc, vertical)| {
         let mut fails = Vec::new();
         let mut per = Vec::with_capacity(nodes[k].len());
         for &(post, level) in &nodes[k] {
@@ -184,11 +186,11 @@ pub fn deck_influences_notional(model: &Model, passes: &[MethodPass], deck: usiz
                 if !axes[axis] {
                     continue;
                 }
-                let mut acc = net.acc();
+                acc.clear();
                 let dir = if axis == 0 { [1.0, 0.0] } else { [0.0, 1.0] };
-                net.post_load(&mut acc, &mut fails, post, BeamLoad::Point { at: level, p: 1.0 }, dir);
-                let ways = if net.two_ways(&acc) { 2 } else { 1 };
-                *slot = net.finish(&acc, &mut fails, ways, shears);
+                net.post_load(acc, &mut fails, post, BeamLoad::Point { at: level, p: 1.0 }, dir);
+                let ways = if net.two_ways(acc) { 2 } else { 1 };
+                *slot = net.finish_with(acc, &mut fails, ways, shears, vertical);
             }
             per.push(both);
         }
