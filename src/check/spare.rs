@@ -585,7 +585,7 @@ fn pass_setup<'a>(analysis: &Analysis, settings: &SpareSettings, combos: &[usize
         for k in 0..nk {
             for j in 0..cols {
                 let slot = &mut by_sign[k * cols + j];
-                for &(p, f) in &inf.flows[k][j] {
+                for &(p, f) in inf.flows.at(k, j) {
                     if f.abs() < INFLUENCE_FLOOR || shared[p as usize] {
                         continue;
                     }
@@ -646,7 +646,7 @@ fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>, caps: &[f64]) -> V
                 }
                 // Plates reached through more than one of the deck's bearers: summed here.
                 for &p in &st.shared_list {
-                    let c_p: f64 = (0..nk).map(|k| inf.d[i][k] * inf.flows[k][j].iter().filter(|e| e.0 as usize == p).map(|e| e.1).sum::<f64>()).sum();
+                    let c_p: f64 = (0..nk).map(|k| inf.d[i][k] * inf.flows.at(k, j).iter().filter(|e| e.0 as usize == p).map(|e| e.1).sum::<f64>()).sum();
                     if c_p.abs() >= INFLUENCE_FLOOR
                         && let Some(b) = plate_limit(&st.room, p as u32, c_p, c, m)
                     {
@@ -668,12 +668,12 @@ fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>, caps: &[f64]) -> V
     best
 }
 
-/// The least limit at every grid point of each method pass over the combinations. Method passes
+/// The least limit at every grid point over the method passes and combinations. Method passes
 /// are independent, and so are the grid points of one pass once its setup is made: the braced
 /// plates, the setups and the blocks of rows of every pass are handed out in that order, each
 /// piece waiting only for what it needs (already worked out, or being worked out on the other
 /// core), so that the cores share the work evenly whatever the number of passes.
-fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence], n_posts: usize, caps: &[f64]) -> Vec<Vec<Best>> {
+fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence], n_posts: usize, caps: &[f64]) -> Vec<Best> {
     /// Rows of the grid in one piece of work.
     const BLOCK_ROWS: usize = 8;
     // Plates that take brace forces from the notional load of the extra load (summed at each grid
@@ -708,11 +708,18 @@ fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], g
             Some(pass_rows(setup_get(*m), rows.clone(), caps))
         }
     });
-    let mut per_grid: Vec<Vec<Best>> = per_pass.iter().map(|inf| Vec::with_capacity(inf.across.len() * inf.along.len())).collect();
-    for ((m, _), part) in blocks.iter().zip(parts.into_iter().flatten()) {
-        per_grid[*m].extend(part);
+    // Blocks come back pass after pass: each taken into the one grid as it comes is the least
+    // value over the passes, ties to the first, without a grid per pass.
+    let size = per_pass.first().map_or(0, |inf| inf.across.len() * inf.along.len());
+    let mut grid = vec![Best::NONE; size];
+    for ((m, rows), part) in blocks.iter().zip(parts.into_iter().flatten()) {
+        let cols = per_pass[*m].along.len();
+        debug_assert_eq!(per_pass[*m].across.len() * cols, size, "every pass has the same grid");
+        for (a, b) in grid[rows.start * cols..rows.end * cols].iter_mut().zip(part) {
+            a.take(b);
+        }
     }
-    per_grid
+    grid
 }
 
 fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], coefficients: &DeckCoefficients) -> DeckSpare {
@@ -782,22 +789,7 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     let caps: Vec<f64> = others.iter().map(|o| o.kn).collect();
     // Method passes are independent: worked out side by side, then taken in pass order (the
     // least value, ties to the first, as one after the other would).
-    let per_grid = pass_grids(analysis, settings, combos, groups, per_pass, n_posts, &caps);
-    let mut grid: Option<Vec<Best>> = None;
-    let mut shape = (0, 0);
-    for (m, g) in per_grid.into_iter().enumerate() {
-        shape = (per_pass[m].across.len(), per_pass[m].along.len());
-        match &mut grid {
-            None => grid = Some(g),
-            Some(all) => {
-                for (a, b) in all.iter_mut().zip(g) {
-                    a.take(b);
-                }
-            }
-        }
-    }
-    let mut grid = grid.unwrap_or_default();
-    debug_assert_eq!(shape, (rows, cols), "every pass has the same grid");
+    let mut grid = pass_grids(analysis, settings, combos, groups, per_pass, n_posts, &caps);
     // Sliding of the plates the load reaches: the passes side by side, each searching below the
     // values found so far, then taken in pass order.
     if let Some(sliding) = SlidingDeck::new(scene, analysis, settings, groups, &coefficients.reached) {
@@ -1198,7 +1190,7 @@ impl Reach {
         let mut start = Vec::with_capacity(inf.bearers.len() * inf.along.len() + 1);
         let mut plates = Vec::new();
         start.push(0);
-        for columns in &inf.flows {
+        for columns in inf.flows.per_bearer() {
             for flow in columns {
                 for &(p, f) in flow {
                     let s = braced.slot[p as usize];
@@ -1326,7 +1318,7 @@ fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds,
     // Plates reached through more than one bearer: summed whole.
     for &s in &bounds.shared {
         let p = braced.posts[s as usize];
-        let r: f64 = shares.iter().map(|&(k, dk)| dk * inf.flows[k][j].iter().filter(|e| e.0 == p).map(|e| e.1).sum::<f64>()).sum();
+        let r: f64 = shares.iter().map(|&(k, dk)| dk * inf.flows.at(k, j).iter().filter(|e| e.0 == p).map(|e| e.1).sum::<f64>()).sum();
         consider(s as usize, r, here, w);
     }
     // The others take the notional load alone: in order of the least limit they could give.
@@ -1350,7 +1342,7 @@ fn braced_limits(at: &BracedPoint, w: &mut BracedScratch, bounds: &BearerBounds,
 fn shared_posts(inf: &DeckInfluence, n_posts: usize) -> Vec<bool> {
     let mut via = vec![u32::MAX; n_posts];
     let mut shared = vec![false; n_posts];
-    for (k, columns) in inf.flows.iter().enumerate() {
+    for (k, columns) in inf.flows.per_bearer().enumerate() {
         for col in columns {
             for &(p, f) in col {
                 if f == 0.0 {
@@ -1422,7 +1414,7 @@ fn existing_imposed(scene: &Scene, d: usize, x: f64, y: f64, fp: Footprint) -> f
 /// The plates a load on the deck reaches, by post: those that take some of it in any method pass.
 fn reached_plates(n_posts: usize, per_pass: &[DeckInfluence]) -> Vec<bool> {
     let mut reached = vec![false; n_posts];
-    for e in per_pass.iter().flat_map(|inf| inf.flows.iter().flatten().flatten()) {
+    for e in per_pass.iter().flat_map(|inf| inf.flows.all()) {
         if e.1 != 0.0 {
             reached[e.0 as usize] = true;
         }
@@ -1965,8 +1957,8 @@ impl VerticalInfluence {
         let mut met: Vec<(u32, u32, u32, u32)> = Vec::new();
         let mut last_k = vec![u32::MAX; n_slots];
         let mut at = vec![0usize; n_slots];
-        for (k, per_column) in inf.flows.iter().enumerate() {
-            for (j, flow) in per_column.iter().enumerate() {
+        for (k, per_column) in inf.flows.per_bearer().enumerate() {
+            for (j, flow) in per_column.enumerate() {
                 for &(p, _) in flow {
                     let Some(&s) = slot.get(p as usize).filter(|&&s| s != u32::MAX) else { continue };
                     let s = s as usize;
@@ -2006,8 +1998,8 @@ impl VerticalInfluence {
         let mut values = vec![0.0f64; offset as usize];
         let mut seen = 0usize;
         last_k.fill(u32::MAX);
-        for (k, per_column) in inf.flows.iter().enumerate() {
-            for (j, flow) in per_column.iter().enumerate() {
+        for (k, per_column) in inf.flows.per_bearer().enumerate() {
+            for (j, flow) in per_column.enumerate() {
                 for &(p, e) in flow {
                     let Some(&s) = slot.get(p as usize).filter(|&&s| s != u32::MAX) else { continue };
                     let s = s as usize;

@@ -54,12 +54,56 @@ pub struct DeckInfluence {
     pub bearers: Vec<usize>,
     /// `d[i][k]`: share of a unit load at row `i` that goes onto bearer `bearers[k]`.
     pub d: Vec<Vec<f64>>,
-    /// `flows[k][j]`: effect at each post (post, kN) of bearer `bearers[k]`'s share of 1 at
+    /// `flows.at(k, j)`: effect at each post (post, kN) of bearer `bearers[k]`'s share of 1 at
     /// column `j`; empty where row shares onto that bearer are all zero.
-    pub flows: Vec<Vec<Vec<(u32, f64)>>>,
+    pub flows: Flows,
     /// The notional horizontal load the unit load brings, where asked for
     /// ([`deck_influences_notional`]).
     pub notional: Option<NotionalInfluence>,
+}
+
+/// Per bearer and column of a deck's grid, a list of (post, kN): the lists one after another in
+/// one store, bearer after bearer — tens of thousands of short lists, each its own allocation,
+/// would cost more to make and to free than to use.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Flows {
+    columns: usize,
+    /// Where each list starts in `entries` (`k · columns + j`), and the end of the last.
+    start: Vec<usize>,
+    entries: Vec<(u32, f64)>,
+}
+
+impl Flows {
+    /// No lists yet, for a grid of `columns` columns.
+    pub fn new(columns: usize) -> Self {
+        Flows { columns, start: vec![0], entries: Vec::new() }
+    }
+    /// Add the next list (the next column, after the last column the next bearer's first).
+    pub fn push(&mut self, list: &[(u32, f64)]) {
+        self.entries.extend_from_slice(list);
+        self.start.push(self.entries.len());
+    }
+    /// The list of bearer `k` at column `j`.
+    pub fn at(&self, k: usize, j: usize) -> &[(u32, f64)] {
+        let n = k * self.columns + j;
+        &self.entries[self.start[n]..self.start[n + 1]]
+    }
+    /// Number of bearers with their lists in.
+    pub fn bearers(&self) -> usize {
+        (self.start.len() - 1).checked_div(self.columns).unwrap_or(0)
+    }
+    /// The lists of bearer `k`, column by column.
+    pub fn columns(&self, k: usize) -> impl ExactSizeIterator<Item = &[(u32, f64)]> + '_ {
+        (0..self.columns).map(move |j| self.at(k, j))
+    }
+    /// Every bearer's lists, bearer by bearer.
+    pub fn per_bearer(&self) -> impl ExactSizeIterator<Item = impl ExactSizeIterator<Item = &[(u32, f64)]> + '_> + '_ {
+        (0..self.bearers()).map(move |k| self.columns(k))
+    }
+    /// Every entry of every list.
+    pub fn all(&self) -> &[(u32, f64)] {
+        &self.entries
+    }
 }
 
 /// Per bearer of a deck, per node (the bearer's posts in its order), per `2·axis + way`: the effect
@@ -460,23 +504,20 @@ impl Solver<'_, '_> {
         }
         let d = self.deck_shares(deck, &across, size_across, footprint);
         // Along: each bearer's share carried down from each column.
-        let nk = line.bearers.len();
-        let mut flows = Vec::with_capacity(nk);
+        let mut flows = Flows::new(along.len());
         let mut buffer = Vec::new();
         for (k, &b) in line.bearers.iter().enumerate() {
             let used = d.iter().any(|row| row[k] != 0.0);
-            let mut per_column = Vec::with_capacity(along.len());
             for &a in &along {
                 if !used {
-                    per_column.push(Vec::new());
+                    flows.push(&[]);
                     continue;
                 }
                 let load = column_load(model, deck, b, a, size_along);
                 buffer.clear();
                 let flow = self.load_flow(b, load, &mut buffer);
-                per_column.push(buffer[flow.entries].to_vec());
+                flows.push(&buffer[flow.entries]);
             }
-            flows.push(per_column);
         }
         Some(DeckInfluence { deck, across, along, bearer_axis: line.bearer_axis, bearers: line.bearers.clone(), d, flows, notional: None })
     }
