@@ -83,6 +83,18 @@ impl Flows {
         self.entries.extend_from_slice(list);
         self.start.push(self.entries.len());
     }
+    /// Room for `entries` more entries.
+    pub fn reserve(&mut self, entries: usize) {
+        self.entries.reserve(entries);
+    }
+    /// Number of entries in all lists so far.
+    pub fn len(&self) -> usize {
+        self.entries.len()
+    }
+    /// Whether no list has an entry.
+    pub fn is_empty(&self) -> bool {
+        self.entries.is_empty()
+    }
     /// The list of bearer `k` at column `j`.
     pub fn at(&self, k: usize, j: usize) -> &[(u32, f64)] {
         let n = k * self.columns + j;
@@ -505,6 +517,7 @@ impl Solver<'_, '_> {
         let d = self.deck_shares(deck, &across, size_across, footprint);
         // Along: each bearer's share carried down from each column.
         let mut flows = Flows::new(along.len());
+        let mut reserved = false;
         let mut buffer = Vec::new();
         for (k, &b) in line.bearers.iter().enumerate() {
             let used = d.iter().any(|row| row[k] != 0.0);
@@ -517,6 +530,13 @@ impl Solver<'_, '_> {
                 buffer.clear();
                 let flow = self.load_flow(b, load, &mut buffer);
                 flows.push(&buffer[flow.entries]);
+            }
+            // Bearers of one deck reach about as many posts each: room for the rest at once,
+            // rather than the store grown and copied again and again.
+            if used && !reserved {
+                reserved = true;
+                let rest = line.bearers.len() - k - 1;
+                flows.reserve(flows.len() * rest + flows.len() * rest / 4);
             }
         }
         Some(DeckInfluence { deck, across, along, bearer_axis: line.bearer_axis, bearers: line.bearers.clone(), d, flows, notional: None })
