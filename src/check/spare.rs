@@ -206,19 +206,24 @@ struct DeckCoefficients {
     /// follow from the coefficients, and from the loads only through which plates take base
     /// shear, the friction and the notional load ([`SlidingKey`]), which an edit seldom changes.
     sliding: std::sync::Mutex<Option<(SlidingKey, Vec<std::sync::Arc<SlidingPlates>>)>>,
+    /// The plates that take brace forces from the notional load of a load on the deck, per
+    /// group of passes that reach them alike ([`braced_plates`]): they follow from the
+    /// coefficients alone, once the scene has any notional load.
+    braced: std::sync::Mutex<Option<Vec<std::sync::Arc<Braced>>>>,
 }
 
 impl DeckCoefficients {
     fn new(passes: Vec<DeckInfluence>, n_posts: usize) -> Self {
         let reached = reached_plates(n_posts, &passes);
-        DeckCoefficients { passes, reached, sliding: Default::default() }
+        DeckCoefficients { passes, reached, sliding: Default::default(), braced: Default::default() }
     }
 }
 
 impl Clone for DeckCoefficients {
     fn clone(&self) -> Self {
         let sliding = self.sliding.lock().map(|kept| kept.clone()).unwrap_or_default();
-        DeckCoefficients { passes: self.passes.clone(), reached: self.reached.clone(), sliding: std::sync::Mutex::new(sliding) }
+        let braced = self.braced.lock().map(|kept| kept.clone()).unwrap_or_default();
+        DeckCoefficients { passes: self.passes.clone(), reached: self.reached.clone(), sliding: std::sync::Mutex::new(sliding), braced: std::sync::Mutex::new(braced) }
     }
 }
 
@@ -673,7 +678,7 @@ fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>, caps: &[f64]) -> V
 /// plates, the setups and the blocks of rows of every pass are handed out in that order, each
 /// piece waiting only for what it needs (already worked out, or being worked out on the other
 /// core), so that the cores share the work evenly whatever the number of passes.
-fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence], n_posts: usize, caps: &[f64]) -> Vec<Best> {
+fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence], n_posts: usize, caps: &[f64], kept_braced: &std::sync::Mutex<Option<Vec<std::sync::Arc<Braced>>>>) -> Vec<Best> {
     /// Rows of the grid in one piece of work.
     const BLOCK_ROWS: usize = 8;
     // Plates that take brace forces from the notional load of the extra load (summed at each grid
@@ -684,8 +689,14 @@ fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], g
     };
     let owner: Vec<usize> = (0..per_pass.len()).map(|m| (0..m).find(|&e| alike(&per_pass[e], &per_pass[m])).unwrap_or(m)).collect();
     let own: Vec<usize> = (0..per_pass.len()).filter(|&m| owner[m] == m).collect();
-    let braced: Vec<std::sync::OnceLock<Braced>> = own.iter().map(|_| std::sync::OnceLock::new()).collect();
-    let braced_get = |t: usize| braced[t].get_or_init(|| braced_plates(&per_pass[own[t]], groups, n_posts));
+    // Worked out once for the coefficients (they depend on the notional load only through
+    // whether there is any), else here, side by side.
+    let kept = if groups.is_empty() { None } else { kept_braced.lock().ok().and_then(|k| k.clone()).filter(|k| k.len() == own.len()) };
+    let braced: Vec<std::sync::OnceLock<std::sync::Arc<Braced>>> = match &kept {
+        Some(k) => k.iter().map(|b| std::sync::OnceLock::from(b.clone())).collect(),
+        None => own.iter().map(|_| std::sync::OnceLock::new()).collect(),
+    };
+    let braced_get = |t: usize| &**braced[t].get_or_init(|| std::sync::Arc::new(braced_plates(&per_pass[own[t]], groups, n_posts)));
     let braced_of = |m: usize| braced_get(own.iter().position(|&e| e == owner[m]).expect("every pass has an owner"));
     let setups: Vec<std::sync::OnceLock<PassSetup>> = per_pass.iter().map(|_| std::sync::OnceLock::new()).collect();
     let setup_get = |m: usize| setups[m].get_or_init(|| pass_setup(analysis, settings, combos, groups, m, &per_pass[m], braced_of(m), n_posts));
@@ -695,7 +706,7 @@ fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], g
             (0..rows.div_ceil(BLOCK_ROWS)).map(move |b| (m, b * BLOCK_ROWS..((b + 1) * BLOCK_ROWS).min(rows)))
         })
         .collect();
-    let (n_braced, n_setups) = (own.len(), per_pass.len());
+    let (n_braced, n_setups) = (if kept.is_some() { 0 } else { own.len() }, per_pass.len());
     let parts = crate::workers::in_order(n_braced + n_setups + blocks.len(), || (), |t, _| {
         if t < n_braced {
             braced_get(t);
@@ -708,6 +719,12 @@ fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], g
             Some(pass_rows(setup_get(*m), rows.clone(), caps))
         }
     });
+    if kept.is_none()
+        && !groups.is_empty()
+        && let Ok(mut k) = kept_braced.lock()
+    {
+        *k = braced.iter().map(|b| b.get().cloned()).collect();
+    }
     // Blocks come back pass after pass: each taken into the one grid as it comes is the least
     // value over the passes, ties to the first, without a grid per pass.
     let size = per_pass.first().map_or(0, |inf| inf.across.len() * inf.along.len());
@@ -789,7 +806,7 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     let caps: Vec<f64> = others.iter().map(|o| o.kn).collect();
     // Method passes are independent: worked out side by side, then taken in pass order (the
     // least value, ties to the first, as one after the other would).
-    let mut grid = pass_grids(analysis, settings, combos, groups, per_pass, n_posts, &caps);
+    let mut grid = pass_grids(analysis, settings, combos, groups, per_pass, n_posts, &caps, &coefficients.braced);
     // Sliding of the plates the load reaches: the passes side by side, each searching below the
     // values found so far, then taken in pass order.
     if let Some(sliding) = SlidingDeck::new(scene, analysis, settings, groups, &coefficients.reached) {
