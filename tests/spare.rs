@@ -375,6 +375,24 @@ fn kept_coefficients_give_the_same_map_after_edits_that_change_what_slides() {
     assert!(slid > 0, "some point is limited by sliding, so the kept plates are used");
 }
 
+#[test]
+fn kept_coefficients_give_the_same_map_when_the_notional_load_is_taken_away_and_put_back() {
+    // common practice, no source: what a map keeps from coefficients worked out with notional
+    // load, when the map is asked first for the scene without any, is still right once the
+    // notional load is back.
+    let settings = SpareSettings { spacing_m: 0.5, ..SpareSettings::default() };
+    let spec = plateload::scene::layout::LayoutSpec { bays_x: 3, bays_y: 3, lifts: 3, deck_lifts: vec![3], ..Default::default() };
+    let with = plateload::scene::layout::generate("braced tower", 150.0, &spec);
+    let kept = plateload::check::spare::spare_influences(&with, &analyse(&with).unwrap(), &settings).unwrap();
+    let mut without = with.clone();
+    without.horizontal.notional = NotionalRule::Off;
+    for (what, s) in [("without notional load", &without), ("with it again", &with)] {
+        let a = analyse(s).unwrap();
+        let again = plateload::check::spare::spare_map_from(s, &a, &settings, &kept).unwrap();
+        assert!(again == spare_map(s, &a, &settings).unwrap(), "{what}: not the map worked out from scratch");
+    }
+}
+
 mod sliding_properties {
 use super::*;
 use proptest::prelude::*;
