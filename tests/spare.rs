@@ -39,7 +39,7 @@ fn a_deck_strip_on_four_plates_by_the_lever_rule() {
     let p = at(&map, 0.5, 1.0);
     close("spare at (0.5, 1.0)", p.kn.unwrap(), 48.0, 1e-9);
     match &p.limit {
-        Limit::Plate { plate, check, combination, .. } => assert_eq!((plate.as_str(), *check, combination.as_str()), ("A1", "safe working load", "service")),
+        Limit::Plate { plate, check, combination, .. } => assert_eq!((&**plate, *check, &**combination), ("A1", "safe working load", "service")),
         other => panic!("{other:?}"),
     }
     // Mid-deck (1.0, 1.5): a quarter to each plate; A1 binds with 24 / 0.25 = 96 kN.
@@ -66,8 +66,8 @@ fn a_cantilever_point_is_limited_by_the_back_plate_lifting() {
     close("spare at the tip", tip.kn.unwrap(), 3.6, 1e-9);
     match &tip.limit {
         Limit::Plate { plate, check, combination, .. } => {
-            assert!(plate == "A1" || plate == "B1", "{plate}");
-            assert_eq!((*check, combination.as_str()), ("uplift", "stability"));
+            assert!(&**plate == "A1" || &**plate == "B1", "{plate}");
+            assert_eq!((*check, &**combination), ("uplift", "stability"));
         }
         other => panic!("{other:?}"),
     }
@@ -156,7 +156,7 @@ fn the_notional_load_of_the_extra_load_goes_into_the_braced_plates() {
     let p = at(&map, 1.0, 1.0);
     close("spare at (1, 1) with the notional load", p.kn.unwrap(), 19.5 / 0.35, 1e-9);
     match &p.limit {
-        Limit::Plate { plate, check, combination, .. } => assert_eq!((plate.as_str(), *check, combination.as_str()), ("B1", "safe working load", "service")),
+        Limit::Plate { plate, check, combination, .. } => assert_eq!((&**plate, *check, &**combination), ("B1", "safe working load", "service")),
         other => panic!("{other:?}"),
     }
     let words = map.notional.as_deref().unwrap();
@@ -273,7 +273,7 @@ mod properties {
             let Limit::Plate { plate, check, combination, .. } = &p.limit else { unreachable!() };
             let place = |factor: f64| placed(&s, rect, p.x, p.y, factor * kn);
             let b = place(1.0);
-            let c = b.combinations.iter().position(|x| &x.name == combination).unwrap();
+            let c = b.combinations.iter().position(|x| *x.name == **combination).unwrap();
             let r = &b.plates[b.plate_index(plate).unwrap()];
             let cap = match *check {
                 "safe working load" => r.swl_kn,

@@ -64,24 +64,28 @@ pub enum SpareError {
     NoCombination(String),
 }
 
+/// A name in a [`Limit`]: one plate or combination limits many points, so each point shares
+/// the one copy of its name rather than holding its own.
+pub type Label = std::sync::Arc<str>;
+
 /// What limits the spare load at a point.
 #[derive(Debug, Clone, PartialEq, serde::Serialize)]
 pub enum Limit {
     /// A base plate reaches a capacity.
     Plate {
         /// Plate id.
-        plate: String,
+        plate: Label,
         /// Which capacity: `safe working load`, `ground bearing` or `uplift`.
         check: &'static str,
         /// Combination.
-        combination: String,
+        combination: Label,
         /// Method pass.
-        method: String,
+        method: Label,
     },
     /// The structure reaches its overturning target about an axis.
     Overturning {
         /// The axis, e.g. `edge A1–G1`.
-        about: String,
+        about: Label,
         /// Which form: `factor of safety` or `EQU`.
         form: &'static str,
     },
@@ -90,14 +94,14 @@ pub enum Limit {
     /// first reached.)
     Sliding {
         /// Plate id.
-        plate: String,
+        plate: Label,
         /// Which form: `factor of safety` or `EQU`.
         form: &'static str,
     },
     /// The deck reaches its load class.
     Deck {
         /// What of the class limits it, in words (e.g. `load class 3, q1 2.0 kPa over the footprint`).
-        what: String,
+        what: Label,
     },
     /// Nothing found that limits it: no plate takes any of it upward or downward and the deck has
     /// no stated capacity.
@@ -833,6 +837,12 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
             }
         }
     }
+    // The names the points share.
+    let plate_ids: Vec<Label> = scene.posts.iter().map(|p| Label::from(p.id.as_str())).collect();
+    let combination_names: Vec<Label> = analysis.combinations.iter().map(|c| Label::from(c.name.as_str())).collect();
+    let method_labels: Vec<Label> = (0..analysis.method_count()).map(|m| Label::from(analysis.method_label(m))).collect();
+    let axes: Vec<Label> = tipping.iter().map(|t| Label::from(t.about.as_str())).collect();
+    let model_words: Vec<Label> = models.iter().map(|m| Label::from(m.2.as_str())).collect();
     let mut points = Vec::with_capacity(rows * cols);
     for i in 0..rows {
         for j in 0..cols {
@@ -842,19 +852,19 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
             // The first least of the plates, then the structure, then the deck.
             let (kn, already, limit) = if other.kn < b.kn {
                 let limit = match other.what {
-                    OtherLimit::Overturning { axis, form } => Limit::Overturning { about: tipping[axis].about.clone(), form },
-                    OtherLimit::Deck { model } => Limit::Deck { what: models[model].2.clone() },
+                    OtherLimit::Overturning { axis, form } => Limit::Overturning { about: axes[axis].clone(), form },
+                    OtherLimit::Deck { model } => Limit::Deck { what: model_words[model].clone() },
                     OtherLimit::None => Limit::None,
                 };
                 (other.kn, other.already, limit)
             } else if b.kn.is_finite() && b.check >= SLIDING_FACTOR {
-                (b.kn, b.already, Limit::Sliding { plate: scene.posts[b.plate as usize].id.clone(), form: if b.check == SLIDING_EQU { "EQU" } else { "factor of safety" } })
+                (b.kn, b.already, Limit::Sliding { plate: plate_ids[b.plate as usize].clone(), form: if b.check == SLIDING_EQU { "EQU" } else { "factor of safety" } })
             } else if b.kn.is_finite() {
                 let limit = Limit::Plate {
-                    plate: scene.posts[b.plate as usize].id.clone(),
+                    plate: plate_ids[b.plate as usize].clone(),
                     check: ["safe working load", "ground bearing", "uplift"][b.check as usize],
-                    combination: analysis.combinations[b.combination as usize].name.clone(),
-                    method: analysis.method_label(b.method as usize).to_owned(),
+                    combination: combination_names[b.combination as usize].clone(),
+                    method: method_labels[b.method as usize].clone(),
                 };
                 (b.kn, b.already, limit)
             } else {

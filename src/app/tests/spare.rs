@@ -224,7 +224,7 @@ fn a_chosen_combination_is_the_only_one_the_map_checks() {
     assert_eq!(one, engine_map(&app));
     for (_, p) in points(&one) {
         if let plateload::check::spare::Limit::Plate { combination, .. } = &p.limit {
-            assert_eq!(combination, &chosen);
+            assert_eq!(&**combination, chosen.as_str());
         }
     }
     assert_ne!(one, all, "one combination alone gives another map on this site");
