@@ -1976,6 +1976,20 @@ struct VerticalInfluence {
     values: Vec<f64>,
 }
 
+/// `visit(slot, bearer k, column j, kN)` for each flow of one method pass that reaches a plate
+/// with a slot, bearer by bearer and column by column.
+fn visit_slotted_flows(inf: &DeckInfluence, slot: &[u32], mut visit: impl FnMut(usize, u32, u32, f64)) {
+    for (k, per_column) in inf.flows.per_bearer().enumerate() {
+        for (j, flow) in per_column.enumerate() {
+            for &(p, e) in flow {
+                if let Some(&s) = slot.get(p as usize).filter(|&&s| s != u32::MAX) {
+                    visit(s as usize, k as u32, j as u32, e);
+                }
+            }
+        }
+    }
+}
+
 impl VerticalInfluence {
     /// From the flows of one method pass, for the plates of `slot` (per post; `u32::MAX` none).
     fn new(inf: &DeckInfluence, slot: &[u32], n_slots: usize) -> Self {
@@ -1984,21 +1998,15 @@ impl VerticalInfluence {
         let mut met: Vec<(u32, u32, u32, u32)> = Vec::new();
         let mut last_k = vec![u32::MAX; n_slots];
         let mut at = vec![0usize; n_slots];
-        for (k, per_column) in inf.flows.per_bearer().enumerate() {
-            for (j, flow) in per_column.enumerate() {
-                for &(p, _) in flow {
-                    let Some(&s) = slot.get(p as usize).filter(|&&s| s != u32::MAX) else { continue };
-                    let s = s as usize;
-                    if last_k[s] != k as u32 {
-                        last_k[s] = k as u32;
-                        at[s] = met.len();
-                        met.push((s as u32, k as u32, j as u32, j as u32));
-                    } else {
-                        met[at[s]].3 = j as u32;
-                    }
-                }
+        visit_slotted_flows(inf, slot, |s, k, j, _| {
+            if last_k[s] != k {
+                last_k[s] = k;
+                at[s] = met.len();
+                met.push((s as u32, k, j, j));
+            } else {
+                met[at[s]].3 = j;
             }
-        }
+        });
         // Grouped by plate, in the order met.
         let mut start = vec![0u32; n_slots + 1];
         for e in &met {
@@ -2025,21 +2033,15 @@ impl VerticalInfluence {
         let mut values = vec![0.0f64; offset as usize];
         let mut seen = 0usize;
         last_k.fill(u32::MAX);
-        for (k, per_column) in inf.flows.per_bearer().enumerate() {
-            for (j, flow) in per_column.enumerate() {
-                for &(p, e) in flow {
-                    let Some(&s) = slot.get(p as usize).filter(|&&s| s != u32::MAX) else { continue };
-                    let s = s as usize;
-                    if last_k[s] != k as u32 {
-                        last_k[s] = k as u32;
-                        at[s] = place[seen] as usize;
-                        seen += 1;
-                    }
-                    let (_, first, off, _) = entries[at[s]];
-                    values[(off + j as u32 - first) as usize] += e;
-                }
+        visit_slotted_flows(inf, slot, |s, k, j, e| {
+            if last_k[s] != k {
+                last_k[s] = k;
+                at[s] = place[seen] as usize;
+                seen += 1;
             }
-        }
+            let (_, first, off, _) = entries[at[s]];
+            values[(off + j - first) as usize] += e;
+        });
         VerticalInfluence { start, entries, values }
     }
 
