@@ -682,7 +682,8 @@ fn pass_rows(setup: &PassSetup, rows: std::ops::Range<usize>, caps: &[f64]) -> V
 /// plates, the setups and the blocks of rows of every pass are handed out in that order, each
 /// piece waiting only for what it needs (already worked out, or being worked out on the other
 /// core), so that the cores share the work evenly whatever the number of passes.
-fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], per_pass: &[DeckInfluence], n_posts: usize, caps: &[f64], kept_braced: &std::sync::Mutex<Option<Vec<std::sync::Arc<Braced>>>>) -> Vec<Best> {
+fn pass_grids(analysis: &Analysis, settings: &SpareSettings, combos: &[usize], groups: &[Vec<NotionalTerm>], coefficients: &DeckCoefficients, n_posts: usize, caps: &[f64]) -> Vec<Best> {
+    let (per_pass, kept_braced) = (&coefficients.passes, &coefficients.braced);
     /// Rows of the grid in one piece of work.
     const BLOCK_ROWS: usize = 8;
     // Plates that take brace forces from the notional load of the extra load (summed at each grid
@@ -810,7 +811,7 @@ fn deck_map(scene: &Scene, analysis: &Analysis, d: usize, settings: &SpareSettin
     let caps: Vec<f64> = others.iter().map(|o| o.kn).collect();
     // Method passes are independent: worked out side by side, then taken in pass order (the
     // least value, ties to the first, as one after the other would).
-    let mut grid = pass_grids(analysis, settings, combos, groups, per_pass, n_posts, &caps, &coefficients.braced);
+    let mut grid = pass_grids(analysis, settings, combos, groups, coefficients, n_posts, &caps);
     // Sliding of the plates the load reaches: the passes side by side, each searching below the
     // values found so far, then taken in pass order.
     if let Some(sliding) = SlidingDeck::new(scene, analysis, settings, groups, &coefficients.reached) {
